@@ -1,0 +1,4 @@
+export * from './roles';
+export * from './states';
+export * from './api';
+export * from './recipe';

@@ -1,0 +1,196 @@
+import { z } from 'zod';
+
+/**
+ * The figure recipe: one versioned JSON document that fully describes a figure's content and look
+ * (see ../shared/architecture.md, "The recipe"). The same recipe and engine version give the same meshes.
+ *
+ * Upgrade path: every stored recipe carries `version`. `upgradeRecipe` lifts older documents to
+ * RECIPE_VERSION step by step before validation, so old figures keep opening.
+ */
+export const RECIPE_VERSION = 1;
+
+/** Engine limits shared by the CLI, API, worker and web (memory: 384³ float32 ≈ 226 MB per field). */
+export const RECIPE_LIMITS = {
+  nMax: 12,
+  zMax: 118,
+  gridMin: 16,
+  gridMax: 384,
+  termsMax: 16,
+  extentMax: 2000,
+} as const;
+
+const finite = (what: string) =>
+  z.number({ error: `${what} must be a number` }).refine(Number.isFinite, { message: `${what} must be a finite number` });
+
+const hexColor = z.string().regex(/^#[0-9a-fA-F]{6}$/, { message: 'must be a colour like #1a2b3c' });
+
+export const termSchema = z
+  .object({
+    n: z.number().int({ message: 'n must be an integer' }).min(1, { message: 'n must be at least 1' }).max(RECIPE_LIMITS.nMax, { message: `n must be at most ${RECIPE_LIMITS.nMax}` }),
+    l: z.number().int({ message: 'l must be an integer' }).min(0, { message: 'l must be at least 0' }),
+    m: z.number().int({ message: 'm must be an integer' }),
+    /** 'complex': Y_lm with the Condon–Shortley phase; 'real': the chemists' real combination (m>0 cos-type, m<0 sin-type). */
+    basis: z.enum(['complex', 'real']),
+    /** Complex coefficient c_k of this term in Σ c_k ψ_k (normalised by the engine). */
+    re: finite('re'),
+    im: finite('im').default(0),
+  })
+  .superRefine((t, ctx) => {
+    if (t.l >= t.n) ctx.addIssue({ code: 'custom', path: ['l'], message: `l must be less than n (got n=${t.n}, l=${t.l})` });
+    if (Math.abs(t.m) > t.l) ctx.addIssue({ code: 'custom', path: ['m'], message: `|m| must not exceed l (got l=${t.l}, m=${t.m})` });
+  });
+
+export const surfaceSchema = z.discriminatedUnion('rule', [
+  z.object({
+    rule: z.literal('enclosed'),
+    /** Fraction of the probability the surface encloses, in (0, 1). */
+    fraction: finite('fraction').refine((f) => f > 0 && f < 1, { message: 'fraction must be between 0 and 1 (exclusive)' }),
+  }),
+  z.object({
+    rule: z.literal('psi'),
+    /** Absolute value c of the isosurfaces ψ = ±c (|ψ| = c for complex states), in a0^(-3/2). */
+    value: finite('value').refine((v) => v > 0, { message: 'value must be positive' }),
+  }),
+]);
+
+export const cameraSchema = z.object({
+  view: z.enum(['axis_x', 'axis_y', 'axis_z', 'three_quarter', 'free']).default('three_quarter'),
+  projection: z.enum(['perspective', 'orthographic']).default('perspective'),
+  /** Free-orbit position and target in a0, kept when view is 'free'. */
+  position: z.tuple([finite('x'), finite('y'), finite('z')]).optional(),
+  target: z.tuple([finite('x'), finite('y'), finite('z')]).default([0, 0, 0]),
+  fovDeg: finite('fovDeg').refine((v) => v >= 5 && v <= 120, { message: 'fovDeg must be 5..120' }).default(35),
+  zoom: finite('zoom').refine((v) => v > 0, { message: 'zoom must be positive' }).default(1),
+});
+
+const lightSchema = z.object({
+  intensity: finite('intensity').refine((v) => v >= 0 && v <= 20, { message: 'intensity must be 0..20' }),
+  color: hexColor,
+  /** Direction the light comes from, as azimuth/elevation in degrees. */
+  azimuthDeg: finite('azimuthDeg').default(0),
+  elevationDeg: finite('elevationDeg').default(30),
+});
+
+export const stageSchema = z.object({
+  camera: cameraSchema.default({ view: 'three_quarter', projection: 'perspective', target: [0, 0, 0], fovDeg: 35, zoom: 1 }),
+  lights: z
+    .object({
+      key: lightSchema.default({ intensity: 2.2, color: '#fff8ef', azimuthDeg: 35, elevationDeg: 40 }),
+      fill: lightSchema.default({ intensity: 0.8, color: '#eef3ff', azimuthDeg: -60, elevationDeg: 10 }),
+      rim: lightSchema.default({ intensity: 1.0, color: '#ffffff', azimuthDeg: 180, elevationDeg: 25 }),
+      ambient: finite('ambient').refine((v) => v >= 0 && v <= 5, { message: 'ambient must be 0..5' }).default(0.35),
+    })
+    .default({
+      key: { intensity: 2.2, color: '#fff8ef', azimuthDeg: 35, elevationDeg: 40 },
+      fill: { intensity: 0.8, color: '#eef3ff', azimuthDeg: -60, elevationDeg: 10 },
+      rim: { intensity: 1.0, color: '#ffffff', azimuthDeg: 180, elevationDeg: 25 },
+      ambient: 0.35,
+    }),
+  material: z
+    .object({
+      gloss: finite('gloss').refine((v) => v >= 0 && v <= 1, { message: 'gloss must be 0..1' }).default(0.45),
+      opacity: finite('opacity').refine((v) => v > 0 && v <= 1, { message: 'opacity must be in (0, 1]' }).default(1),
+      nodalOutline: z.boolean().default(false),
+    })
+    .default({ gloss: 0.45, opacity: 1, nodalOutline: false }),
+  background: z
+    .object({ transparent: z.boolean().default(false), color: hexColor.default('#fbfaf7') })
+    .default({ transparent: false, color: '#fbfaf7' }),
+});
+
+export const annotationsSchema = z.object({
+  axes: z.boolean().default(false),
+  scaleBar: z
+    .object({ show: z.boolean().default(true), unit: z.enum(['angstrom', 'bohr']).default('angstrom'), length: finite('length').refine((v) => v > 0, { message: 'length must be positive' }).optional() })
+    .default({ show: true, unit: 'angstrom' }),
+  nucleus: z.boolean().default(true),
+  label: z.object({ show: z.boolean().default(true), text: z.string().max(80).optional() }).default({ show: true }),
+  caption: z.string().max(2000).optional(),
+});
+
+export const canvasSchema = z.object({
+  widthMm: finite('widthMm').refine((v) => v >= 10 && v <= 1000, { message: 'widthMm must be 10..1000' }),
+  heightMm: finite('heightMm').refine((v) => v >= 10 && v <= 1000, { message: 'heightMm must be 10..1000' }),
+  dpi: z.union([z.literal(300), z.literal(600), z.literal(1200)], { error: 'dpi must be 300, 600 or 1200' }),
+});
+
+export const paletteSchema = z.object({
+  /** Swatchbook the colours come from; null means the neutral default. */
+  swatchbookId: z.string().nullable().default(null),
+  positive: hexColor.default('#c8553d'),
+  negative: hexColor.default('#2f6690'),
+});
+
+export const recipeSchema = z.object({
+  version: z.literal(RECIPE_VERSION, { error: `version must be ${RECIPE_VERSION}` }),
+  /** Display label such as "3d_xy" or "sp3 #1"; informative only, the terms are authoritative. */
+  label: z.string().max(80).optional(),
+  content: z.object({
+    Z: z.number().int({ message: 'Z must be an integer' }).min(1, { message: 'Z must be at least 1' }).max(RECIPE_LIMITS.zMax, { message: `Z must be at most ${RECIPE_LIMITS.zMax}` }),
+    terms: z
+      .array(termSchema)
+      .min(1, { message: 'at least one term is required' })
+      .max(RECIPE_LIMITS.termsMax, { message: `at most ${RECIPE_LIMITS.termsMax} terms` })
+      .refine((ts) => ts.some((t) => t.re !== 0 || t.im !== 0), { message: 'at least one coefficient must be non-zero' }),
+  }),
+  grid: z.object({
+    n: z.number().int({ message: 'grid.n must be an integer' }).min(RECIPE_LIMITS.gridMin, { message: `grid.n must be at least ${RECIPE_LIMITS.gridMin}` }).max(RECIPE_LIMITS.gridMax, { message: `grid.n must be at most ${RECIPE_LIMITS.gridMax}` }),
+    /** Half-width of the sampled cube in a0, or 'auto' (a box holding at least 99.9% of the probability). */
+    extent: z.union([z.literal('auto'), finite('grid.extent').refine((v) => v > 0 && v <= RECIPE_LIMITS.extentMax, { message: `grid.extent must be in (0, ${RECIPE_LIMITS.extentMax}]` })]).default('auto'),
+  }),
+  surface: surfaceSchema,
+  /** 'sign' colours real ψ by its sign; 'argument' colours complex ψ by arg ψ on a colour wheel. 'auto' picks by the state. */
+  phase: z.object({ mode: z.enum(['auto', 'sign', 'argument']).default('auto') }).default({ mode: 'auto' }),
+  palette: paletteSchema.default({ swatchbookId: null, positive: '#c8553d', negative: '#2f6690' }),
+  stage: stageSchema.default(stageSchema.parse({})),
+  annotations: annotationsSchema.default(annotationsSchema.parse({})),
+  canvas: canvasSchema.default({ widthMm: 89, heightMm: 60, dpi: 300 }),
+});
+
+export type Recipe = z.infer<typeof recipeSchema>;
+export type RecipeInput = z.input<typeof recipeSchema>;
+export type RecipeTerm = z.infer<typeof termSchema>;
+export type SurfaceRule = z.infer<typeof surfaceSchema>;
+
+export interface RecipeIssue {
+  /** Dotted field path, e.g. "content.terms.0.l". */
+  path: string;
+  message: string;
+}
+
+export type RecipeParseResult = { ok: true; recipe: Recipe } | { ok: false; issues: RecipeIssue[] };
+
+/** Lifts an older recipe document to RECIPE_VERSION. Version 1 is the first; later versions add steps here. */
+export function upgradeRecipe(doc: unknown): unknown {
+  if (doc === null || typeof doc !== 'object' || Array.isArray(doc)) return doc;
+  const d = doc as Record<string, unknown>;
+  if (d.version === undefined) return doc; // let validation name the missing field
+  return d;
+}
+
+/** Validates (after upgrading) and returns the recipe with defaults filled in, or the issues with field paths. */
+export function parseRecipe(doc: unknown): RecipeParseResult {
+  const result = recipeSchema.safeParse(upgradeRecipe(doc));
+  if (result.success) return { ok: true, recipe: result.data };
+  return {
+    ok: false,
+    issues: result.error.issues.map((i) => ({ path: i.path.map(String).join('.') || '(root)', message: i.message })),
+  };
+}
+
+/** One readable line per issue: "content.terms.0.l: l must be less than n (got n=2, l=2)". */
+export function formatRecipeIssues(issues: RecipeIssue[]): string[] {
+  return issues.map((i) => `${i.path}: ${i.message}`);
+}
+
+/** Canonical JSON (sorted keys) so equal recipes hash equally; used for content-derived storage keys. */
+export function canonicalJson(value: unknown): string {
+  if (value === null || typeof value !== 'object') return JSON.stringify(value);
+  if (Array.isArray(value)) return `[${value.map(canonicalJson).join(',')}]`;
+  const obj = value as Record<string, unknown>;
+  return `{${Object.keys(obj)
+    .filter((k) => obj[k] !== undefined)
+    .sort()
+    .map((k) => `${JSON.stringify(k)}:${canonicalJson(obj[k])}`)
+    .join(',')}}`;
+}

@@ -1,0 +1,33 @@
+import { existsSync, readdirSync } from 'node:fs';
+import { commandExists, run } from './proc.mjs';
+import { log } from './log.mjs';
+
+/** Debian packages Psiform needs on its machine, with a probe telling whether each is present. */
+const PACKAGES = [
+  { name: 'postgresql', present: () => postgresBinDir() !== null },
+  { name: 'redis-server', present: () => commandExists('redis-server') },
+  { name: 'chromium', present: () => existsSync('/usr/bin/chromium') },
+];
+
+/** Newest installed PostgreSQL bin folder (no hard-coded major version). */
+export function postgresBinDir() {
+  const root = '/usr/lib/postgresql';
+  if (!existsSync(root)) return null;
+  const versions = readdirSync(root)
+    .filter((v) => existsSync(`${root}/${v}/bin/initdb`))
+    .sort((a, b) => Number(a) - Number(b));
+  return versions.length ? `${root}/${versions.at(-1)}/bin` : null;
+}
+
+/** Installs the missing Debian packages (apt-get update first). `needed` limits which are checked. */
+export function ensureDebianPackages(needed = PACKAGES.map((p) => p.name)) {
+  const missing = PACKAGES.filter((p) => needed.includes(p.name) && !p.present()).map((p) => p.name);
+  if (missing.length === 0) return;
+  if (process.getuid && process.getuid() !== 0) {
+    throw new Error(`missing Debian packages: ${missing.join(', ')}; install them as root (apt-get install ${missing.join(' ')})`);
+  }
+  log(`installing Debian packages: ${missing.join(', ')}`);
+  const env = { ...process.env, DEBIAN_FRONTEND: 'noninteractive' };
+  run('apt-get', ['update', '-qq'], { env });
+  run('apt-get', ['install', '-y', '-qq', '--no-install-recommends', ...missing], { env });
+}

@@ -1,0 +1,87 @@
+// `npm test`: the same set-up as `npm start` on its own ports and a throwaway data folder, then every suite.
+// Prints each runner's counts and a closing "N passed, N failed" line; exits non-zero when anything fails.
+import { mkdtempSync, rmSync } from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import { ensureDebianPackages } from './lib/system.mjs';
+import { buildAll, ensureNodeModules } from './lib/npm.mjs';
+import { ROOT, layout, startServices } from './lib/services.mjs';
+import { migrateAndSeed, startApps } from './lib/apps.mjs';
+import { runCapture } from './lib/proc.mjs';
+import { parseCounts } from './lib/counts.mjs';
+import { fail, log, ok } from './lib/log.mjs';
+
+const only = process.argv.slice(2); // optional: suite names to run, e.g. `npm test -- api web`
+const results = [];
+const cleanups = [];
+let dataDir;
+
+async function cleanup() {
+  for (const c of cleanups.reverse()) {
+    try { await c(); } catch (e) { fail(`clean-up: ${e.message}`); }
+  }
+  cleanups.length = 0;
+  if (dataDir && !process.env.PSIFORM_KEEP_TEST_DATA) rmSync(dataDir, { recursive: true, force: true });
+}
+process.on('SIGINT', async () => { await cleanup(); process.exit(130); });
+process.on('SIGTERM', async () => { await cleanup(); process.exit(143); });
+
+async function suite(name, runner, cmd, args, opts = {}) {
+  if (only.length && !only.includes(name)) return;
+  log(`── suite ${name} (${runner}) ──`);
+  const t0 = Date.now();
+  const { code, out } = await runCapture(cmd, args, { cwd: ROOT, ...opts, env: { ...process.env, ...opts.env } });
+  const counts = parseCounts(runner, out);
+  const failed = code !== 0 || counts.failed > 0 || counts.passed === 0;
+  results.push({ name, runner, ...counts, code, seconds: (Date.now() - t0) / 1000, failed });
+}
+
+let exitCode = 1;
+try {
+  const t0 = Date.now();
+  ensureDebianPackages();
+  ensureNodeModules(ROOT);
+  if (!process.env.PSIFORM_SKIP_BUILD) buildAll(ROOT);
+  dataDir = mkdtempSync(path.join(os.tmpdir(), 'psiform-test-'));
+  const lay = layout('test', dataDir);
+  const svc = await startServices(lay, { external: false });
+  cleanups.push(svc.stopAll);
+  migrateAndSeed(svc.env);
+  const env = { ...svc.env, PSIFORM_TEST_DATA: dataDir, NODE_ENV: 'test' };
+
+  const vitest = path.join(ROOT, 'node_modules/.bin/vitest');
+  const jest = path.join(ROOT, 'node_modules/.bin/jest');
+  for (const [name, dir] of [['contracts', 'libs/contracts'], ['orbitals', 'libs/orbitals'], ['meshing', 'libs/meshing'], ['cli', 'apps/cli'], ['web', 'apps/web']]) {
+    await suite(name, 'vitest', vitest, ['run'], { cwd: path.join(ROOT, dir), env });
+  }
+  await suite('api', 'jest', jest, ['--runInBand', '--ci'], { cwd: path.join(ROOT, 'apps/api'), env });
+  await suite('worker', 'jest', jest, ['--runInBand', '--ci'], { cwd: path.join(ROOT, 'apps/worker'), env });
+
+  if (!only.length || only.includes('e2e')) {
+    const apps = await startApps(svc.env, { port: lay.ports.app, logDir: svc.logDir, workers: 1 });
+    cleanups.push(apps.stopApps);
+    await suite('e2e', 'node', process.execPath, ['--test', '--test-concurrency=1', 'test/e2e/'], {
+      env: { ...env, PSIFORM_URL: apps.url, PSIFORM_LOG_DIR: svc.logDir },
+    });
+  }
+
+  log('── summary ──');
+  let passed = 0, failedN = 0, skipped = 0;
+  for (const r of results) {
+    const mark = r.failed ? 'FAIL' : 'ok  ';
+    console.log(`${mark} ${r.name.padEnd(10)} ${r.runner.padEnd(7)} ${String(r.passed).padStart(4)} passed ${String(r.failed).padStart(3)} failed ${String(r.skipped).padStart(3)} skipped  (exit ${r.code}, ${r.seconds.toFixed(1)} s)`);
+    passed += r.passed; failedN += r.failed; skipped += r.skipped;
+  }
+  const anyFailed = results.some((r) => r.failed);
+  if (anyFailed && failedN === 0) failedN = results.filter((r) => r.failed).length; // a suite that crashed counts as a failure
+  log(`total time ${((Date.now() - t0) / 1000).toFixed(0)} s`);
+  console.log(`${passed} passed, ${failedN} failed, ${skipped} skipped`);
+  exitCode = anyFailed ? 1 : 0;
+  if (anyFailed) fail('some suites failed'); else ok('all suites passed');
+} catch (e) {
+  fail(e.stack ?? e.message);
+  exitCode = 1;
+} finally {
+  await cleanup();
+}
+process.exit(exitCode);
