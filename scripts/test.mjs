@@ -32,8 +32,8 @@ async function suite(name, runner, cmd, args, opts = {}) {
   const t0 = Date.now();
   const { code, out } = await runCapture(cmd, args, { cwd: ROOT, ...opts, env: { ...process.env, ...opts.env } });
   const counts = parseCounts(runner, out);
-  const failed = code !== 0 || counts.failed > 0 || counts.passed === 0;
-  results.push({ name, runner, ...counts, code, seconds: (Date.now() - t0) / 1000, failed });
+  const bad = code !== 0 || counts.failed > 0 || counts.passed === 0; // a suite that ran no test is a failure
+  results.push({ name, runner, ...counts, code, seconds: (Date.now() - t0) / 1000, bad });
 }
 
 let exitCode = 1;
@@ -68,12 +68,12 @@ try {
   log('── summary ──');
   let passed = 0, failedN = 0, skipped = 0;
   for (const r of results) {
-    const mark = r.failed ? 'FAIL' : 'ok  ';
+    const mark = r.bad ? 'FAIL' : 'ok  ';
     console.log(`${mark} ${r.name.padEnd(10)} ${r.runner.padEnd(7)} ${String(r.passed).padStart(4)} passed ${String(r.failed).padStart(3)} failed ${String(r.skipped).padStart(3)} skipped  (exit ${r.code}, ${r.seconds.toFixed(1)} s)`);
     passed += r.passed; failedN += r.failed; skipped += r.skipped;
   }
-  const anyFailed = results.some((r) => r.failed);
-  if (anyFailed && failedN === 0) failedN = results.filter((r) => r.failed).length; // a suite that crashed counts as a failure
+  const anyFailed = results.some((r) => r.bad);
+  if (anyFailed && failedN === 0) failedN = results.filter((r) => r.bad).length; // a suite that crashed counts as a failure
   log(`total time ${((Date.now() - t0) / 1000).toFixed(0)} s`);
   console.log(`${passed} passed, ${failedN} failed, ${skipped} skipped`);
   exitCode = anyFailed ? 1 : 0;

@@ -2,3 +2,4 @@ export * from './roles';
 export * from './states';
 export * from './api';
 export * from './recipe';
+export * from './figures';

@@ -1,0 +1,42 @@
+import 'reflect-metadata';
+import { existsSync } from 'node:fs';
+import { join, resolve } from 'node:path';
+import { ValidationPipe, type LogLevel } from '@nestjs/common';
+import { NestFactory } from '@nestjs/core';
+import type { NestExpressApplication } from '@nestjs/platform-express';
+import type { NextFunction, Request, Response } from 'express';
+import type { AppConfig } from './config/config';
+import { AppModule } from './app.module';
+
+export const API_PREFIX = 'api';
+
+export interface CreateAppOptions {
+  logger?: LogLevel[] | false;
+}
+
+/** Builds the configured (not yet listening) app; main.ts and the e2e tests both use it. */
+export async function createApp(config: AppConfig, options: CreateAppOptions = {}): Promise<NestExpressApplication> {
+  const app = await NestFactory.create<NestExpressApplication>(AppModule.forRoot(config), {
+    logger: options.logger ?? ['log', 'warn', 'error'],
+    abortOnError: false,
+  });
+  app.setGlobalPrefix(API_PREFIX);
+  app.useGlobalPipes(new ValidationPipe({ whitelist: true, forbidNonWhitelisted: true, transform: true }));
+  app.disable('x-powered-by');
+  app.enableShutdownHooks();
+  if (config.http.webDist) serveWebDist(app, config.http.webDist);
+  return app;
+}
+
+/** Static client at "/" with an SPA fallback to index.html for GET routes outside /api. */
+function serveWebDist(app: NestExpressApplication, dir: string): void {
+  const root = resolve(dir);
+  const index = join(root, 'index.html');
+  if (!existsSync(index)) throw new Error(`WEB_DIST ${root} has no index.html`);
+  app.useStaticAssets(root, { index: false, fallthrough: true });
+  app.use((req: Request, res: Response, next: NextFunction) => {
+    const isApi = req.path === `/${API_PREFIX}` || req.path.startsWith(`/${API_PREFIX}/`);
+    if ((req.method !== 'GET' && req.method !== 'HEAD') || isApi) return next();
+    res.sendFile(index);
+  });
+}

@@ -1,0 +1,37 @@
+import { Module } from '@nestjs/common';
+import { APP_GUARD } from '@nestjs/core';
+import { JwtModule } from '@nestjs/jwt';
+import { PassportModule } from '@nestjs/passport';
+import { APP_CONFIG } from '../config/config.tokens';
+import type { AppConfig } from '../config/config';
+import { UsersModule } from '../users/users.module';
+import { AuthController } from './auth.controller';
+import { AuthService } from './auth.service';
+import { JwtStrategy } from './jwt.strategy';
+import { LoginThrottle } from './login-throttle';
+import { AccessGuard } from './access.guard';
+import { PassportJwtAuthenticator, RequestAuthenticator } from './request-authenticator';
+
+@Module({
+  imports: [
+    UsersModule,
+    PassportModule,
+    JwtModule.registerAsync({
+      inject: [APP_CONFIG],
+      useFactory: (config: AppConfig) => ({
+        secret: config.jwt.secret,
+        // Validated in config.ts to the `ms` duration format jsonwebtoken accepts.
+        signOptions: { expiresIn: config.jwt.ttl as `${number}h`, algorithm: 'HS256' },
+      }),
+    }),
+  ],
+  controllers: [AuthController],
+  providers: [
+    AuthService,
+    JwtStrategy,
+    LoginThrottle,
+    { provide: RequestAuthenticator, useClass: PassportJwtAuthenticator },
+    { provide: APP_GUARD, useClass: AccessGuard },
+  ],
+})
+export class AuthModule {}

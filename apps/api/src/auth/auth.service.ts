@@ -1,0 +1,32 @@
+import { Injectable, UnauthorizedException } from '@nestjs/common';
+import { JwtService } from '@nestjs/jwt';
+import type { LoginResponse } from '@psiform/contracts';
+import { UsersStore } from '../users/users.repository';
+import { toUserDto } from '../users/user.entity';
+import { dummyPasswordHash, verifyPassword } from '../users/password';
+import { LoginThrottle } from './login-throttle';
+import type { JwtPayload } from './jwt.strategy';
+
+@Injectable()
+export class AuthService {
+  constructor(
+    private readonly users: UsersStore,
+    private readonly jwt: JwtService,
+    private readonly throttle: LoginThrottle,
+  ) {}
+
+  async login(emailInput: string, password: string, ip: string): Promise<LoginResponse> {
+    const email = emailInput.trim().toLowerCase();
+    await this.throttle.assertAllowed(email, ip);
+    const user = await this.users.findByEmail(email);
+    // Compare against a dummy hash for unknown emails so both paths take the same time.
+    const ok = await verifyPassword(password, user?.passwordHash ?? (await dummyPasswordHash()));
+    if (!user || !ok) {
+      await this.throttle.recordFailure(email, ip);
+      throw new UnauthorizedException('email or password is incorrect');
+    }
+    await this.throttle.recordSuccess(email);
+    const payload: JwtPayload = { sub: user.id, role: user.role };
+    return { accessToken: await this.jwt.signAsync(payload), user: toUserDto(user) };
+  }
+}

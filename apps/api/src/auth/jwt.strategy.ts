@@ -1,0 +1,30 @@
+import { Inject, Injectable, UnauthorizedException } from '@nestjs/common';
+import { PassportStrategy } from '@nestjs/passport';
+import { ExtractJwt, Strategy } from 'passport-jwt';
+import type { UserDto } from '@psiform/contracts';
+import { APP_CONFIG } from '../config/config.tokens';
+import type { AppConfig } from '../config/config';
+import { UsersStore } from '../users/users.repository';
+import { toUserDto } from '../users/user.entity';
+
+export interface JwtPayload {
+  sub: string;
+  role: string;
+}
+
+@Injectable()
+export class JwtStrategy extends PassportStrategy(Strategy, 'jwt') {
+  constructor(
+    @Inject(APP_CONFIG) config: AppConfig,
+    private readonly users: UsersStore,
+  ) {
+    super({ jwtFromRequest: ExtractJwt.fromAuthHeaderAsBearerToken(), secretOrKey: config.jwt.secret, ignoreExpiration: false, algorithms: ['HS256'] });
+  }
+
+  /** The user is re-read so a deleted user or a changed role takes effect at once. */
+  async validate(payload: JwtPayload): Promise<UserDto> {
+    const user = typeof payload.sub === 'string' ? await this.users.findById(payload.sub) : null;
+    if (!user) throw new UnauthorizedException('the account for this token no longer exists');
+    return toUserDto(user);
+  }
+}

@@ -1,0 +1,32 @@
+import { Transform } from 'class-transformer';
+import { IsIn, IsNotEmpty, IsOptional, IsString, IsUUID, MaxLength } from 'class-validator';
+import { PUBLICATION_KINDS, type AddMemberRequest, type CreatePublicationRequest, type PublicationKind } from '@psiform/contracts';
+
+const trim = ({ value }: { value: unknown }) => (typeof value === 'string' ? value.trim() : value);
+
+export class CreatePublicationBody implements CreatePublicationRequest {
+  @Transform(trim)
+  @IsString()
+  @IsNotEmpty({ message: 'title must not be empty' })
+  @MaxLength(300)
+  title: string;
+
+  @Transform(trim)
+  @IsString()
+  @IsNotEmpty({ message: 'publisher must not be empty' })
+  @MaxLength(200)
+  publisher: string;
+
+  @IsIn(PUBLICATION_KINDS as readonly string[], { message: `kind must be one of: ${PUBLICATION_KINDS.join(', ')}` })
+  kind: PublicationKind;
+
+  @IsOptional()
+  @IsString()
+  @MaxLength(5000)
+  description?: string;
+}
+
+export class AddMemberBody implements AddMemberRequest {
+  @IsUUID('all', { message: 'userId must be a UUID' })
+  userId: string;
+}

@@ -1,0 +1,27 @@
+import { Transform } from 'class-transformer';
+import { IsEmail, IsIn, IsNotEmpty, IsString, MaxLength, MinLength } from 'class-validator';
+import { MIN_PASSWORD_LENGTH, ROLES, type CreateUserRequest, type Role } from '@psiform/contracts';
+
+const trimLower = ({ value }: { value: unknown }) => (typeof value === 'string' ? value.trim().toLowerCase() : value);
+const trim = ({ value }: { value: unknown }) => (typeof value === 'string' ? value.trim() : value);
+
+export class CreateUserBody implements CreateUserRequest {
+  @Transform(trimLower)
+  @IsEmail({}, { message: 'email must be a valid email address' })
+  @MaxLength(320)
+  email: string;
+
+  @Transform(trim)
+  @IsString()
+  @IsNotEmpty({ message: 'displayName must not be empty' })
+  @MaxLength(120)
+  displayName: string;
+
+  @IsString()
+  @MinLength(MIN_PASSWORD_LENGTH, { message: `password must be at least ${MIN_PASSWORD_LENGTH} characters` })
+  @MaxLength(72, { message: 'password must be at most 72 characters' }) // bcrypt reads only the first 72 bytes
+  password: string;
+
+  @IsIn(ROLES as readonly string[], { message: `role must be one of: ${ROLES.join(', ')}` })
+  role: Role;
+}

@@ -1,0 +1,27 @@
+import { ConflictException, Injectable } from '@nestjs/common';
+import type { CreateUserRequest, UserDto } from '@psiform/contracts';
+import { DuplicateEmailError, UsersStore } from './users.repository';
+import { toUserDto } from './user.entity';
+import { hashPassword } from './password';
+
+@Injectable()
+export class UsersService {
+  constructor(private readonly store: UsersStore) {}
+
+  async create(req: CreateUserRequest): Promise<UserDto> {
+    const email = req.email.trim().toLowerCase();
+    if (await this.store.findByEmail(email)) throw new ConflictException(`email ${email} is already registered`);
+    try {
+      const user = await this.store.insert({ email, displayName: req.displayName, role: req.role, passwordHash: await hashPassword(req.password) });
+      return toUserDto(user);
+    } catch (err) {
+      // Lost a race with a concurrent insert of the same email.
+      if (err instanceof DuplicateEmailError) throw new ConflictException(`email ${email} is already registered`);
+      throw err;
+    }
+  }
+
+  async list(): Promise<UserDto[]> {
+    return (await this.store.findAll()).map(toUserDto);
+  }
+}

@@ -1,0 +1,90 @@
+import { randomBytes } from 'node:crypto';
+import type { INestApplication } from '@nestjs/common';
+import request from 'supertest';
+import { DataSource } from 'typeorm';
+import type Redis from 'ioredis';
+import type { LoginResponse } from '@psiform/contracts';
+import { loadConfig, type AppConfig } from '../src/config/config';
+import { runMigrations } from '../src/db/run-migrations';
+import { dataSourceOptions } from '../src/db/schema';
+import { runSeed } from '../src/seed/seed';
+import { createApp } from '../src/app.factory';
+import { REDIS_CLIENT } from '../src/infra/redis/redis.tokens';
+
+export { DEMO_PASSWORD, DEMO_USERS, DEMO_PUBLICATION } from '../src/seed/demo-scenario';
+
+/**
+ * E2E specs run against the real PostgreSQL, Redis, S3 and SMTP named by the environment
+ * (DATABASE_URL, REDIS_URL, S3_*, SMTP_URL, JWT_SECRET). Missing variables fail the suite loudly.
+ */
+export function e2eConfig(): AppConfig {
+  try {
+    return loadConfig({ ...process.env, PORT: '0' });
+  } catch (err) {
+    throw new Error(
+      `E2E tests need the service environment (the test runner sets it; see DEVELOPERS.md): ${(err as Error).message}`,
+    );
+  }
+}
+
+/** A suffix unique to this run, for emails and titles the spec creates and later deletes. */
+export const RUN_ID = `${Date.now().toString(36)}${randomBytes(3).toString('hex')}`;
+export const runEmail = (name: string) => `${name}-${RUN_ID}@e2e.psiform.test`;
+
+export interface TestApp {
+  app: INestApplication;
+  http: () => ReturnType<typeof request>;
+  ds: DataSource;
+  redis: Redis;
+  close: () => Promise<void>;
+}
+
+/** Migrates, seeds (both idempotent), builds the app exactly as main.ts does, and inits it. */
+export async function startTestApp(): Promise<TestApp> {
+  const config = e2eConfig();
+  await runMigrations(config.database.url);
+  const seedDs = await new DataSource(dataSourceOptions(config.database.url)).initialize();
+  try {
+    await runSeed(seedDs);
+  } finally {
+    await seedDs.destroy();
+  }
+  const app = await createApp(config, { logger: ['error'] });
+  await app.init();
+  const ds = app.get(DataSource);
+  const redis = app.get<Redis>(REDIS_CLIENT);
+  return {
+    app,
+    http: () => request(app.getHttpServer()),
+    ds,
+    redis,
+    close: async () => {
+      await ds.query(`DELETE FROM publications WHERE title LIKE $1`, [`%${RUN_ID}%`]);
+      await ds.query(`DELETE FROM users WHERE email LIKE $1`, [`%-${RUN_ID}@e2e.psiform.test`]);
+      await deleteKeys(redis, `psiform:attempts:login:email:*-${RUN_ID}@e2e.psiform.test`);
+      await app.close();
+    },
+  };
+}
+
+export async function login(t: TestApp, email: string, password: string): Promise<LoginResponse> {
+  const res = await t.http().post('/api/auth/login').send({ email, password });
+  if (res.status !== 200) throw new Error(`login ${email} answered ${res.status}: ${JSON.stringify(res.body)}`);
+  return res.body as LoginResponse;
+}
+
+async function deleteKeys(redis: Redis, pattern: string, extra: string[] = []): Promise<void> {
+  const keys = [...extra];
+  let cursor = '0';
+  do {
+    const [next, found] = await redis.scan(cursor, 'MATCH', pattern, 'COUNT', 200);
+    keys.push(...found);
+    cursor = next;
+  } while (cursor !== '0');
+  if (keys.length) await redis.del(...keys);
+}
+
+/** Removes sign-in failure counters of the IPs (every request here comes from loopback) and of the given emails. */
+export async function clearLoginCounters(redis: Redis, emails: string[] = []): Promise<void> {
+  await deleteKeys(redis, 'psiform:attempts:login:ip:*', emails.map((e) => `psiform:attempts:login:email:${e.toLowerCase()}`));
+}

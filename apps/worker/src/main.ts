@@ -1,0 +1,16 @@
+import 'reflect-metadata';
+import { Logger } from '@nestjs/common';
+import { loadOrExit, loadWorkerConfig } from './config/config';
+import { createWorker } from './worker.factory';
+
+/** `node dist/main.js`: validates REDIS_URL / WORKER_CONCURRENCY, then runs the BullMQ processors until SIGTERM. */
+async function main(): Promise<void> {
+  const config = loadOrExit(() => loadWorkerConfig(process.env));
+  await createWorker(config);
+  new Logger('Psiform').log(`worker ${process.pid} ready`);
+}
+
+main().catch((err: unknown) => {
+  console.error(`Worker failed to start: ${err instanceof Error ? err.message : String(err)}`);
+  process.exit(1);
+});

@@ -1,0 +1,428 @@
+#!/usr/bin/env node
+// Psiform benchmark: `npm run bench` at the repo root. Runs against the BUILT libs (libs/*/dist;
+// run `npm run build` first). Prints tables and PASS/MISS beside the targets; never asserts and
+// always exits 0. Sections are one function each (see SECTIONS at the bottom) so more can be added.
+//
+// Options: --quick (N = 64, 128 only; for a smoke run)   --no-isosurface   --no-skimage
+// Internal: --child-main256 (the N = 256 3d_z² measurement in its own process, for its peak RSS).
+
+import { spawnSync } from 'node:child_process';
+import * as fs from 'node:fs';
+import { createRequire } from 'node:module';
+import * as os from 'node:os';
+import * as path from 'node:path';
+import { fileURLToPath } from 'node:url';
+
+const require = createRequire(import.meta.url);
+const HERE = path.dirname(fileURLToPath(import.meta.url));
+const ARGS = new Set(process.argv.slice(2));
+
+function loadLibs() {
+  try {
+    return {
+      orbitals: require('@psiform/orbitals'),
+      orbitalsNode: require('@psiform/orbitals/node'),
+      meshing: require('@psiform/meshing'),
+    };
+  } catch (err) {
+    console.log(`bench: cannot load the built libs (${err.message.split('\n')[0]}); run \`npm run build\` first.`);
+    process.exit(0);
+  }
+}
+const { orbitals, orbitalsNode, meshing } = loadLibs();
+
+// ---------------------------------------------------------------------------------------------
+// Targets (printed beside the figures)
+const TARGETS = {
+  skimageRatio: 0.5, // extraction time ours / skimage at N=256, 3d_z², both phases (stretch 0.25)
+  skimageStretch: 0.25,
+  isosurfaceSpeedup: 10, // isosurface package time / ours
+  sampleMvoxPerS: 60, // sampleGridParallel on 2 cores
+  peakRssMB: 200,
+  livePreviewMs: 60, // mean re-extraction per fraction change at 128³
+};
+const SIZES = ARGS.has('--quick') ? [64, 128] : [64, 128, 192, 256];
+const FRACTION = 0.9;
+const results = {}; // filled by sections, read by the summary
+
+// ---------------------------------------------------------------------------------------------
+// Helpers
+const now = () => performance.now();
+const mb = (kb) => kb / 1024;
+
+/**
+ * Peak RSS of this process in kB. On Linux, getrusage's ru_maxrss survives execve (man 2 getrusage,
+ * NOTES), so a child spawned from a big parent reports the parent's size; VmHWM in /proc/self/status
+ * belongs to the new address space and does not. Elsewhere fall back to process.resourceUsage().maxRSS.
+ */
+function peakRssKb() {
+  try {
+    const m = /VmHWM:\s+(\d+)\s*kB/.exec(fs.readFileSync('/proc/self/status', 'utf8'));
+    if (m) return Number(m[1]);
+  } catch {
+    /* not Linux */
+  }
+  return process.resourceUsage().maxRSS;
+}
+const fmt = (x, d = 1) => (x === null || x === undefined || Number.isNaN(x) ? '-' : x.toFixed(d));
+const verdict = (ok) => (ok ? 'PASS' : 'MISS');
+
+function table(headers, rows) {
+  const cells = [headers, ...rows.map((r) => r.map((c) => String(c)))];
+  const w = headers.map((_, i) => Math.max(...cells.map((r) => r[i].length)));
+  const line = (r) => '  ' + r.map((c, i) => (i === 0 ? c.padEnd(w[i]) : c.padStart(w[i]))).join('  ');
+  console.log(line(headers));
+  console.log('  ' + w.map((x) => '-'.repeat(x)).join('  '));
+  for (const r of cells.slice(1)) console.log(line(r));
+}
+
+/** The figures are only as good as the machine is idle: say so when other work shares the cores. */
+function loadNote() {
+  const [one] = os.loadavg();
+  const cores = os.cpus().length;
+  return `${one.toFixed(2)} on ${cores} cores${one > cores * 0.75 ? ' (BUSY: other processes share the cores; timings are pessimistic and noisy)' : ''}`;
+}
+
+function heading(title) {
+  console.log(`\n== ${title}`);
+}
+
+const STATES = {
+  '3d_z2': () => orbitals.parseOrbitalLabel('3dz2').state,
+  '1s': () => orbitals.parseOrbitalLabel('1s').state,
+};
+
+function gridFor(state, n) {
+  return { n, extent: orbitals.autoExtent(state) };
+}
+
+function density(re) {
+  const d = new Float32Array(re.length);
+  for (let i = 0; i < re.length; i++) d[i] = re[i] * re[i];
+  return d;
+}
+
+/** Isovalue c of psi for the surface enclosing `fraction` of the sampled probability. */
+function isovalueFor(re, fraction) {
+  return Math.sqrt(orbitals.enclosedThreshold(density(re), fraction));
+}
+
+function best(times, fn) {
+  let b = Infinity;
+  let out;
+  for (let i = 0; i < times; i++) {
+    const t0 = now();
+    out = fn();
+    b = Math.min(b, now() - t0);
+  }
+  return { ms: b, out };
+}
+
+async function bestAsync(times, fn) {
+  let b = Infinity;
+  let out;
+  for (let i = 0; i < times; i++) {
+    const t0 = now();
+    out = await fn();
+    b = Math.min(b, now() - t0);
+  }
+  return { ms: b, out };
+}
+
+/** Our extraction as the product runs it: both phases (or one for complex), analytic normals. */
+function extractOurs(compiled, field, grid, c) {
+  const surfaces = meshing.extractOrbitalSurfaces(compiled, field, grid, c);
+  let triangles = 0;
+  let vertices = 0;
+  for (const s of surfaces) {
+    triangles += s.mesh.indices.length / 3;
+    vertices += s.mesh.positions.length / 3;
+  }
+  return { surfaces, triangles, vertices };
+}
+
+/** The bare kernel per phase (field normals by central differences, as skimage computes them). */
+function extractKernel(field, grid, c) {
+  const { dims, origin, spacing } = meshing.cubeGeometry(grid);
+  const geom = { origin, spacing };
+  const a = meshing.extractIsosurface(field, dims, geom, c, { inside: 'above' });
+  const b = meshing.extractIsosurface(field, dims, geom, -c, { inside: 'below' });
+  return a.indices.length / 3 + b.indices.length / 3;
+}
+
+/** The `isosurface` package (level fixed at 0, callback per corner): ψ scaled ×1e3 and shifted by the level. */
+function extractIsosurfacePkg(field, n, c) {
+  const { marchingCubes } = require('isosurface');
+  const dims = [n, n, n];
+  const bounds = [
+    [0, 0, 0],
+    [n, n, n],
+  ];
+  const nn = n * n;
+  const plus = marchingCubes(dims, (x, y, z) => (field[x + n * y + nn * z] - c) * 1e3, bounds);
+  const minus = marchingCubes(dims, (x, y, z) => (-c - field[x + n * y + nn * z]) * 1e3, bounds);
+  return plus.cells.length + minus.cells.length;
+}
+
+let skimageState = null; // null: untested, false: unavailable (with note), true: available
+function skimageAvailable() {
+  if (skimageState !== null) return skimageState;
+  if (ARGS.has('--no-skimage')) {
+    skimageState = false;
+    results.skimageNote = 'skipped (--no-skimage)';
+    return false;
+  }
+  const py = '/usr/bin/python3';
+  const r = spawnSync(py, ['-c', 'import skimage, numpy; print(skimage.__version__)'], { encoding: 'utf8' });
+  skimageState = r.status === 0;
+  results.skimageNote = skimageState ? `scikit-image ${r.stdout.trim()} (Debian python3-skimage, /usr/bin/python3)` : `skipped: /usr/bin/python3 has no skimage (${(r.stderr || '').trim().split('\n').pop()})`;
+  return skimageState;
+}
+
+/** Times skimage.measure.marching_cubes (Lewiner) at +c and -c on the same float32 grid. */
+function extractSkimage(field, n, c, repeats) {
+  // Only the phases that exist on this grid (1s has no psi < -c; skimage refuses a level outside the data).
+  let lo = Infinity;
+  let hi = -Infinity;
+  for (let i = 0; i < field.length; i++) {
+    const v = field[i];
+    if (v < lo) lo = v;
+    if (v > hi) hi = v;
+  }
+  const levels = [c, -c].filter((l) => l > lo && l < hi);
+  const file = path.join(os.tmpdir(), `psiform-bench-${process.pid}-${n}.f32`);
+  fs.writeFileSync(file, Buffer.from(field.buffer, field.byteOffset, field.byteLength));
+  try {
+    const r = spawnSync('/usr/bin/python3', [path.join(HERE, 'bench', 'skimage_mc.py'), file, String(n), String(repeats), ...levels.map(String)], {
+      encoding: 'utf8',
+      maxBuffer: 1 << 20,
+    });
+    if (r.status !== 0) return { error: (r.stderr || '').trim().split('\n').pop() };
+    const j = JSON.parse(r.stdout);
+    return { ms: j.levels.reduce((s, l) => s + l.best_ms, 0), triangles: j.levels.reduce((s, l) => s + l.triangles, 0) };
+  } finally {
+    fs.rmSync(file, { force: true });
+  }
+}
+
+// ---------------------------------------------------------------------------------------------
+// Section: sampling throughput
+async function sectionSampling() {
+  heading('Sampling psi on the grid (Mvoxels/s; 1 thread = compileState().sampleGrid, 2 threads = sampleGridParallel)');
+  const rows = [];
+  results.sampling = {};
+  for (const name of Object.keys(STATES)) {
+    const state = STATES[name]();
+    const compiled = orbitals.compileState(state);
+    for (const n of SIZES) {
+      const grid = gridFor(state, n);
+      const count = n * n * n;
+      const out = new Float32Array(count);
+      const reps = n <= 128 ? 3 : 2;
+      compiled.sampleGrid({ n: 32, extent: grid.extent }, new Float32Array(32 ** 3), null); // warm-up
+      const one = best(reps, () => compiled.sampleGrid(grid, out, null));
+      await orbitalsNode.sampleGridParallel(state, { n: 32, extent: grid.extent }, { threads: 2 }); // spawn workers
+      const two = await bestAsync(reps, () => orbitalsNode.sampleGridParallel(state, grid, { threads: 2 }));
+      const m1 = count / one.ms / 1e3;
+      const m2 = count / two.ms / 1e3;
+      results.sampling[`${name}/${n}`] = { m1, m2 };
+      rows.push([name, `${n}³`, fmt(grid.extent, 2), fmt(one.ms), fmt(m1), fmt(two.ms), fmt(m2), fmt(two.ms ? one.ms / two.ms : 0, 2)]);
+    }
+  }
+  table(['state', 'N', 'extent a0', '1 thr ms', 'Mvox/s', '2 thr ms', 'Mvox/s', 'speed-up'], rows);
+}
+
+// ---------------------------------------------------------------------------------------------
+// Section: extraction against the isosurface package and scikit-image
+async function sectionExtraction() {
+  heading(`Extraction at the ${FRACTION * 100}%-enclosing isovalue (ms; ours = extractOrbitalSurfaces, both phases, analytic normals)`);
+  const withSk = skimageAvailable();
+  const withIso = !ARGS.has('--no-isosurface');
+  console.log(`  skimage: ${results.skimageNote}`);
+  console.log(`  isosurface package: ${withIso ? 'require("isosurface").marchingCubes, up to N=192, and N=256 for 3d_z² once' : 'skipped (--no-isosurface)'}`);
+  const rows = [];
+  results.extraction = {};
+  for (const name of Object.keys(STATES)) {
+    const state = STATES[name]();
+    const compiled = orbitals.compileState(state);
+    for (const n of SIZES) {
+      const grid = gridFor(state, n);
+      const field = await orbitalsNode.sampleGridParallel(state, grid, { threads: 2 });
+      const tt0 = now();
+      const c = isovalueFor(field.re, FRACTION);
+      const thresholdMs = now() - tt0;
+      const reps = 3;
+      extractOurs(compiled, field, grid, c); // warm-up (JIT)
+      const ours = best(reps, () => extractOurs(compiled, field, grid, c));
+      const kernel = best(reps, () => extractKernel(field.re, grid, c));
+      let iso = null;
+      if (withIso && (n <= 192 || (n === 256 && name === '3d_z2'))) {
+        iso = best(1, () => extractIsosurfacePkg(field.re, n, c));
+      }
+      let sk = null;
+      if (withSk) sk = extractSkimage(field.re, n, c, 3);
+      const rec = { ours: ours.ms, kernel: kernel.ms, iso: iso?.ms ?? null, sk: sk && !sk.error ? sk.ms : null, tris: ours.out.triangles, skTris: sk?.triangles ?? null, isoTris: iso?.out ?? null };
+      results.extraction[`${name}/${n}`] = rec;
+      rows.push([
+        name,
+        `${n}³`,
+        fmt(thresholdMs),
+        fmt(ours.ms),
+        fmt(kernel.ms),
+        String(ours.out.triangles),
+        sk ? (sk.error ? `error: ${sk.error}` : fmt(sk.ms)) : '-',
+        sk && !sk.error ? String(sk.triangles) : '-',
+        rec.sk ? fmt(ours.ms / rec.sk, 2) : '-',
+        iso ? fmt(iso.ms) : '-',
+        iso ? fmt(iso.ms / ours.ms, 1) + '×' : '-',
+      ]);
+      // Let the sampled grid go before the next size (keeps the bench's own RSS honest).
+      field.re = null;
+    }
+  }
+  table(['state', 'N', 'thresh ms', 'ours ms', 'kernel ms', 'triangles', 'skimage ms', 'sk tris', 'ours/sk', 'isosurf ms', 'iso/ours'], rows);
+  console.log('  (kernel = bare extractIsosurface per phase with central-difference normals, the like-for-like with skimage;');
+  console.log('   skimage leaves surfaces open at the box, ours closes them, so triangle counts may differ slightly)');
+}
+
+// ---------------------------------------------------------------------------------------------
+// Section: the main N = 256 3d_z² measurement in a child process (its own peak RSS)
+async function childMain256() {
+  // The product path, as `psiform mesh --orbital 3dz2 --grid 256` runs it: parallel sampling into a
+  // shared buffer, threshold in place, both phases, mesh statistics.
+  const state = STATES['3d_z2']();
+  const grid = gridFor(state, 256);
+  const t0 = now();
+  const field = await orbitalsNode.sampleGridParallel(state, grid, { threads: 2 });
+  const t1 = now();
+  const r = meshing.buildOrbitalMesh({ state, grid, surface: { rule: 'enclosed', fraction: FRACTION } }, { sample: () => field });
+  const triangles = r.surfaces.reduce((s, x) => s + x.mesh.indices.length / 3, 0);
+  console.log(
+    JSON.stringify({
+      sample_ms: t1 - t0,
+      threshold_ms: r.timings_ms.threshold,
+      extract_ms: r.timings_ms.extract,
+      stats_ms: r.timings_ms.stats,
+      triangles,
+      maxRSS_kb: peakRssKb(),
+    }),
+  );
+}
+
+async function sectionMemory() {
+  heading('Peak memory (RSS): the product path (sampleGridParallel + buildOrbitalMesh + meshStats) in a fresh process');
+  const r = spawnSync(process.execPath, [fileURLToPath(import.meta.url), '--child-main256'], { encoding: 'utf8' });
+  let child = null;
+  try {
+    child = JSON.parse(r.stdout.trim().split('\n').pop());
+  } catch {
+    console.log(`  child failed: ${(r.stderr || '').trim().split('\n').pop()}`);
+  }
+  if (child) {
+    results.childRssMB = mb(child.maxRSS_kb);
+    table(
+      ['run', 'sample ms', 'Mvox/s', 'thresh ms', 'extract ms', 'stats ms', 'triangles', 'peak RSS MB', `≤ ${TARGETS.peakRssMB} MB`],
+      [['child: 256³ 3d_z², 2 threads, both phases', fmt(child.sample_ms), fmt(256 ** 3 / child.sample_ms / 1e3), fmt(child.threshold_ms), fmt(child.extract_ms), fmt(child.stats_ms), String(child.triangles), fmt(results.childRssMB), verdict(results.childRssMB <= TARGETS.peakRssMB)]],
+    );
+  }
+  results.benchRssMB = mb(peakRssKb());
+  console.log(`  this bench process so far: peak RSS ${fmt(results.benchRssMB)} MB (includes the isosurface package's nested arrays)`);
+}
+
+// ---------------------------------------------------------------------------------------------
+// Section: live preview (re-extraction at 10 fractions on an already sampled 128³ grid)
+async function sectionLivePreview() {
+  heading('Live preview: 128³ 3d_z² already sampled; per fraction change = threshold + both phases');
+  const state = STATES['3d_z2']();
+  const compiled = orbitals.compileState(state);
+  const grid = gridFor(state, 128);
+  const field = await orbitalsNode.sampleGridParallel(state, grid, { threads: 2 });
+  const dens = density(field.re); // kept between updates, as the preview worker would
+  const fractions = [0.5, 0.55, 0.6, 0.65, 0.7, 0.75, 0.8, 0.85, 0.9, 0.95];
+  extractOurs(compiled, field, grid, Math.sqrt(orbitals.enclosedThreshold(dens, 0.9))); // warm-up
+  const rows = [];
+  let total = 0;
+  for (const f of fractions) {
+    const t0 = now();
+    const c = Math.sqrt(orbitals.enclosedThreshold(dens, f));
+    const t1 = now();
+    const { triangles } = extractOurs(compiled, field, grid, c);
+    const t2 = now();
+    total += t2 - t0;
+    rows.push([fmt(f, 2), c.toExponential(3), fmt(t1 - t0), fmt(t2 - t1), fmt(t2 - t0), String(triangles)]);
+  }
+  table(['fraction', 'isovalue', 'thresh ms', 'extract ms', 'update ms', 'triangles'], rows);
+  results.liveMeanMs = total / fractions.length;
+  console.log(`  mean ${fmt(results.liveMeanMs)} ms per update (target < ${TARGETS.livePreviewMs} ms): ${verdict(results.liveMeanMs < TARGETS.livePreviewMs)}`);
+}
+
+// ---------------------------------------------------------------------------------------------
+// Section (later): POST …/meshes to a completed job at 192³, through the running API
+async function sectionApiJob() {
+  heading('API: POST …/meshes to a completed job at 192³');
+  if (!process.env.PSIFORM_URL) {
+    console.log('  skipped: PSIFORM_URL is not set (start the API and worker, then PSIFORM_URL=http://127.0.0.1:PORT npm run bench)');
+    return;
+  }
+  // TODO(api): log in, create a figure with a 192³ recipe, POST its meshes job, poll until completed,
+  // report the wall time. Left for when the API routes and job states are settled.
+  console.log(`  PSIFORM_URL=${process.env.PSIFORM_URL}: not wired yet (waiting for the API's routes); nothing measured`);
+}
+
+// ---------------------------------------------------------------------------------------------
+// Section (later): headless render of a print PNG 4252×2835
+async function sectionRender() {
+  heading('Render: PNG 4252×2835 (36 cm × 24 cm at 300 dpi)');
+  // TODO(render): drive the worker's headless-chromium renderer once it exists; report ms and peak RSS.
+  console.log('  not measured yet (the render job does not exist yet)');
+}
+
+// ---------------------------------------------------------------------------------------------
+function summary() {
+  heading('Targets');
+  const rows = [];
+  const e = results.extraction?.['3d_z2/256'];
+  if (e?.sk) {
+    const ratio = e.ours / e.sk;
+    rows.push(['extraction 256³ 3d_z², ours / skimage', fmt(ratio, 2), `≤ ${TARGETS.skimageRatio} (stretch ${TARGETS.skimageStretch})`, ratio <= TARGETS.skimageStretch ? 'PASS (stretch)' : verdict(ratio <= TARGETS.skimageRatio)]);
+  } else rows.push(['extraction 256³ 3d_z², ours / skimage', '-', `≤ ${TARGETS.skimageRatio}`, e ? 'not measured (skimage unavailable)' : 'not measured (N=256 not run)']);
+  if (e?.iso) {
+    const speed = e.iso / e.ours;
+    rows.push(['extraction 256³ 3d_z², isosurface / ours', fmt(speed, 1) + '×', `≥ ${TARGETS.isosurfaceSpeedup}×`, verdict(speed >= TARGETS.isosurfaceSpeedup)]);
+  } else rows.push(['extraction 256³ 3d_z², isosurface / ours', '-', `≥ ${TARGETS.isosurfaceSpeedup}×`, 'not measured']);
+  const s = results.sampling?.['3d_z2/256'] ?? results.sampling?.[`3d_z2/${SIZES[SIZES.length - 1]}`];
+  if (s) rows.push([`sampling 3d_z², 2 threads (${SIZES[SIZES.length - 1]}³)`, fmt(s.m2) + ' Mvox/s', `≥ ${TARGETS.sampleMvoxPerS}`, verdict(s.m2 >= TARGETS.sampleMvoxPerS)]);
+  if (results.childRssMB !== undefined) rows.push(['peak RSS, 256³ 3d_z² child', fmt(results.childRssMB) + ' MB', `≤ ${TARGETS.peakRssMB} MB`, verdict(results.childRssMB <= TARGETS.peakRssMB)]);
+  if (results.liveMeanMs !== undefined) rows.push(['live preview 128³, mean per update', fmt(results.liveMeanMs) + ' ms', `< ${TARGETS.livePreviewMs} ms`, verdict(results.liveMeanMs < TARGETS.livePreviewMs)]);
+  table(['target', 'measured', 'target', 'verdict'], rows);
+  console.log(`\n  machine: ${os.cpus()[0]?.model ?? 'cpu'} × ${os.cpus().length}, Node ${process.version}; bench process peak RSS ${fmt(mb(peakRssKb()))} MB (VmHWM; process.resourceUsage().maxRSS says ${fmt(mb(process.resourceUsage().maxRSS))} MB)`);
+}
+
+// Order matters only for readability; each section is independent.
+const SECTIONS = [sectionSampling, sectionExtraction, sectionMemory, sectionLivePreview, sectionApiJob, sectionRender];
+
+async function main() {
+  if (ARGS.has('--child-main256')) {
+    await childMain256();
+    return;
+  }
+  const t0 = now();
+  console.log(`Psiform bench (sizes ${SIZES.join(', ')}; enclosed fraction ${FRACTION}; libs from dist)`);
+  console.log(`  load average at start: ${loadNote()}`);
+  for (const section of SECTIONS) {
+    try {
+      await section();
+    } catch (err) {
+      console.log(`  section ${section.name} failed: ${err?.stack ?? err}`);
+    }
+  }
+  summary();
+  console.log(`  load average at end: ${loadNote()}`);
+  console.log(`  total bench time ${fmt((now() - t0) / 1000)} s`);
+}
+
+main()
+  .catch((err) => console.log(`bench failed: ${err?.stack ?? err}`))
+  .finally(() => {
+    process.exitCode = 0;
+  });
