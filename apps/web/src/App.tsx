@@ -1,0 +1,89 @@
+import type { ReactNode } from 'react';
+import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
+import { BrowserRouter, Navigate, Outlet, Route, Routes } from 'react-router-dom';
+import { ApiError } from './api/client';
+import { AuthProvider } from './auth/AuthProvider';
+import { RequireAuth, RequireRole } from './auth/guards';
+import { AppShell } from './components/AppShell';
+import { HealthFooter } from './components/HealthFooter';
+import { NAV_ITEMS } from './nav/navigation';
+import { ComingLater } from './pages/ComingLater';
+import { NotFound } from './pages/NotFound';
+import { PublicationsPage } from './pages/PublicationsPage';
+import { SignInPage } from './pages/SignInPage';
+
+export function createQueryClient(): QueryClient {
+  return new QueryClient({
+    defaultOptions: {
+      queries: {
+        // A 4xx will not change by asking again; a dropped connection might.
+        retry: (count, err) => count < 2 && !(err instanceof ApiError && err.status >= 400 && err.status < 500),
+        refetchOnWindowFocus: false,
+      },
+      mutations: { retry: false },
+    },
+  });
+}
+
+export function AppProviders({ client, children }: { client: QueryClient; children: ReactNode }) {
+  return (
+    <QueryClientProvider client={client}>
+      <AuthProvider>{children}</AuthProvider>
+    </QueryClientProvider>
+  );
+}
+
+const BUILT: Record<string, () => ReactNode> = {
+  '/publications': () => <PublicationsPage />,
+};
+
+function Frame() {
+  return (
+    <div className="pf-frame">
+      <Outlet />
+      <HealthFooter />
+    </div>
+  );
+}
+
+/** All routes; the router itself is supplied by the caller (BrowserRouter in the app, MemoryRouter in tests). */
+export function AppRoutes() {
+  return (
+    <Routes>
+      <Route element={<Frame />}>
+        <Route path="/sign-in" element={<SignInPage />} />
+        <Route
+          element={
+            <RequireAuth>
+              <AppShell />
+            </RequireAuth>
+          }
+        >
+          <Route index element={<Navigate to="/publications" replace />} />
+          {NAV_ITEMS.map((item) => (
+            <Route
+              key={item.path}
+              path={item.path}
+              element={
+                <RequireRole roles={item.roles} what={item.label}>
+                  {item.ready && BUILT[item.path] ? BUILT[item.path]() : <ComingLater item={item} />}
+                </RequireRole>
+              }
+            />
+          ))}
+          <Route path="*" element={<NotFound />} />
+        </Route>
+      </Route>
+    </Routes>
+  );
+}
+
+export function App({ client }: { client: QueryClient }) {
+  return (
+    <AppProviders client={client}>
+      <BrowserRouter>
+        <AppRoutes />
+      </BrowserRouter>
+    </AppProviders>
+  );
+}

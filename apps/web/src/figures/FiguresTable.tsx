@@ -1,0 +1,211 @@
+import { useEffect, useState } from 'react';
+import { Button, Callout, HTMLSelect, HTMLTable, InputGroup, NonIdealState, Spinner, Tag } from '@blueprintjs/core';
+import { keepPreviousData, useQuery } from '@tanstack/react-query';
+import { Link } from 'react-router-dom';
+import { FIGURE_STATUSES, type FigureStatus } from '@psiform/contracts';
+import { describeError, type FigureListParams, type FigureSortKey } from '../api/client';
+import { useApi } from '../auth/AuthProvider';
+import { formatDate, statusLabel } from './model';
+
+export const PAGE_SIZE = 25;
+/** Typing pauses this long before the search is sent. */
+export const SEARCH_DEBOUNCE_MS = 300;
+
+const COLUMNS: { key: string; label: string; sort?: FigureSortKey }[] = [
+  { key: 'title', label: 'Title', sort: 'title' },
+  { key: 'label', label: 'Label' },
+  { key: 'status', label: 'Status', sort: 'status' },
+  { key: 'owner', label: 'Owner' },
+  { key: 'version', label: 'Version', sort: 'versionNumber' },
+  { key: 'updated', label: 'Updated', sort: 'updatedAt' },
+];
+
+function useDebounced<T>(value: T, ms: number): T {
+  const [v, setV] = useState(value);
+  useEffect(() => {
+    const t = setTimeout(() => setV(value), ms);
+    return () => clearTimeout(t);
+  }, [value, ms]);
+  return v;
+}
+
+export function statusIntent(s: FigureStatus | string) {
+  switch (s) {
+    case 'approved':
+    case 'released':
+      return 'success' as const;
+    case 'changes_requested':
+      return 'warning' as const;
+    case 'in_review':
+      return 'primary' as const;
+    default:
+      return 'none' as const;
+  }
+}
+
+/** The figures of one publication: searchable, filterable by proof state, sortable, paged by the server. */
+export function FiguresTable({ publicationId, pageSize = PAGE_SIZE }: { publicationId: string; pageSize?: number }) {
+  const api = useApi();
+  const [page, setPage] = useState(1);
+  const [search, setSearch] = useState('');
+  const [status, setStatus] = useState<FigureStatus | ''>('');
+  const [sort, setSort] = useState<FigureSortKey>('updatedAt');
+  const [order, setOrder] = useState<'asc' | 'desc'>('desc');
+  const q = useDebounced(search, SEARCH_DEBOUNCE_MS);
+
+  // A new publication, search or filter starts again on page 1.
+  useEffect(() => setPage(1), [publicationId, q, status]);
+
+  const params: FigureListParams = { publicationId, page, pageSize, q, status, sort, order };
+  const figures = useQuery({
+    queryKey: ['figures', params],
+    queryFn: ({ signal }) => api.listFigures(params, signal),
+    placeholderData: keepPreviousData,
+  });
+
+  const total = figures.data?.total ?? 0;
+  const pages = Math.max(1, Math.ceil(total / pageSize));
+  const items = figures.data?.items ?? [];
+
+  function toggleSort(key: FigureSortKey) {
+    if (sort === key) setOrder(order === 'asc' ? 'desc' : 'asc');
+    else {
+      setSort(key);
+      setOrder(key === 'updatedAt' || key === 'versionNumber' ? 'desc' : 'asc');
+    }
+    setPage(1);
+  }
+
+  const first = total === 0 ? 0 : (page - 1) * pageSize + 1;
+  const last = Math.min(total, page * pageSize);
+
+  return (
+    <section className="pf-figures" aria-label="Figures">
+      <div className="pf-toolbar">
+        <InputGroup
+          type="search"
+          leftIcon="search"
+          placeholder="Search titles and labels"
+          value={search}
+          onValueChange={(v) => setSearch(v)}
+          aria-label="Search figures"
+          data-testid="figures-search"
+          className="pf-search"
+        />
+        <HTMLSelect
+          value={status}
+          onChange={(e) => setStatus(e.currentTarget.value as FigureStatus | '')}
+          aria-label="Filter by status"
+          data-testid="figures-status"
+          options={[{ value: '', label: 'Any status' }, ...FIGURE_STATUSES.map((s) => ({ value: s, label: statusLabel(s) }))]}
+        />
+        {figures.isFetching && !figures.isPending && <Spinner size={16} aria-label="Refreshing" />}
+      </div>
+
+      {figures.isPending && (
+        <div data-testid="figures-loading">
+          <NonIdealState icon={<Spinner size={32} />} title="Loading figures…" />
+        </div>
+      )}
+
+      {figures.isError && (
+        <Callout intent="danger" title="Figures could not be loaded" data-testid="figures-error">
+          <p>{describeError(figures.error)}</p>
+          <Button text="Try again" icon="refresh" onClick={() => void figures.refetch()} loading={figures.isFetching} />
+        </Callout>
+      )}
+
+      {figures.isSuccess && items.length === 0 && (
+        <div data-testid="figures-empty">
+          <NonIdealState
+            icon="inbox"
+            title={q || status ? 'No figures match' : 'No figures yet'}
+            description={
+              q || status
+                ? 'Nothing in this publication matches the search and status filter.'
+                : 'This publication has no figures yet. Create one, or upload a density cube.'
+            }
+          />
+        </div>
+      )}
+
+      {figures.isSuccess && items.length > 0 && (
+        <>
+          <HTMLTable className="pf-table" striped interactive data-testid="figures-table">
+            <thead>
+              <tr>
+                {COLUMNS.map((c) => {
+                  const active = c.sort && sort === c.sort;
+                  return (
+                    <th
+                      key={c.key}
+                      scope="col"
+                      aria-sort={active ? (order === 'asc' ? 'ascending' : 'descending') : undefined}
+                    >
+                      {c.sort ? (
+                        <button
+                          type="button"
+                          className={active ? 'pf-sort pf-sort-active' : 'pf-sort'}
+                          onClick={() => toggleSort(c.sort!)}
+                          data-testid={`sort-${c.sort}`}
+                        >
+                          {c.label}
+                          <span aria-hidden="true" className="pf-sort-mark">
+                            {active ? (order === 'asc' ? '▲' : '▼') : '↕'}
+                          </span>
+                        </button>
+                      ) : (
+                        c.label
+                      )}
+                    </th>
+                  );
+                })}
+              </tr>
+            </thead>
+            <tbody>
+              {items.map((f) => (
+                <tr key={f.id} data-testid="figure-row">
+                  <td>
+                    <Link to={`/figures/${encodeURIComponent(f.id)}`} data-testid="figure-title">
+                      {f.title}
+                    </Link>
+                  </td>
+                  <td data-testid="figure-label">{f.label ?? '—'}</td>
+                  <td>
+                    <Tag minimal intent={statusIntent(f.status)} data-testid="figure-status">
+                      {statusLabel(f.status)}
+                    </Tag>
+                  </td>
+                  <td data-testid="figure-owner">{f.ownerName ?? f.ownerId}</td>
+                  <td data-testid="figure-version">v{f.versionNumber}</td>
+                  <td data-testid="figure-updated">{formatDate(f.updatedAt)}</td>
+                </tr>
+              ))}
+            </tbody>
+          </HTMLTable>
+          <div className="pf-pager">
+            <Button
+              icon="chevron-left"
+              text="Previous"
+              variant="minimal"
+              disabled={page <= 1}
+              onClick={() => setPage((p) => Math.max(1, p - 1))}
+              data-testid="figures-prev"
+            />
+            <span data-testid="figures-page-info">
+              {first}–{last} of {total} · page {page} of {pages}
+            </span>
+            <Button
+              endIcon="chevron-right"
+              text="Next"
+              variant="minimal"
+              disabled={page >= pages}
+              onClick={() => setPage((p) => Math.min(pages, p + 1))}
+              data-testid="figures-next"
+            />
+          </div>
+        </>
+      )}
+    </section>
+  );
+}

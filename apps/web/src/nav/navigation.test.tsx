@@ -1,0 +1,79 @@
+import { screen, waitFor, within } from '@testing-library/react';
+import userEvent from '@testing-library/user-event';
+import { ROLES, type Role } from '@psiform/contracts';
+import { SESSION_STORAGE_KEY } from '../auth/session';
+import { mockFetch, renderApp, signedInRoutes, storeSession, user } from '../test/utils';
+import { navItemsFor } from './navigation';
+
+const EXPECTED: Record<Role, string[]> = {
+  illustrator: ['Publications', 'Library', 'Composer'],
+  editor: ['Publications', 'Review desk'],
+  art_director: ['Publications', 'Swatchbooks'],
+  admin: ['Publications', 'People'],
+};
+
+describe('role-based navigation', () => {
+  it.each(ROLES)('navItemsFor(%s) lists exactly what the role can do', (role) => {
+    expect(navItemsFor(role).map((i) => i.label)).toEqual(EXPECTED[role]);
+  });
+
+  it.each(ROLES)('the shell shows the %s links, name and role', async (role) => {
+    const me = user(role, { displayName: `Rowan ${role}` });
+    mockFetch(signedInRoutes(me));
+    storeSession(me);
+    renderApp('/publications');
+    const nav = await screen.findByTestId('main-nav');
+    const labels = within(nav)
+      .getAllByRole('link')
+      .map((a) => a.textContent?.replace(/later$/, '').trim());
+    expect(labels).toEqual(EXPECTED[role]);
+    expect(screen.getByTestId('user-name').textContent).toBe(`Rowan ${role}`);
+    expect(screen.getByTestId('user-role').textContent).toBe(
+      { illustrator: 'Illustrator', editor: 'Editor', art_director: 'Art director', admin: 'Administrator' }[role],
+    );
+    expect(screen.getByText('Psiform')).toBeTruthy();
+  });
+
+  it('marks places that are not built yet', async () => {
+    const me = user('illustrator');
+    mockFetch(signedInRoutes(me));
+    storeSession(me);
+    renderApp('/publications');
+    const nav = await screen.findByTestId('main-nav');
+    expect(within(nav).getByTestId('nav-publications').textContent).toBe('Publications');
+    expect(within(nav).getByTestId('nav-composer').textContent).toBe('Composerlater');
+  });
+
+  it('follows a link to an unbuilt page and shows the honest panel', async () => {
+    const me = user('editor');
+    mockFetch(signedInRoutes(me));
+    storeSession(me);
+    renderApp('/publications');
+    await userEvent.setup().click(await screen.findByRole('link', { name: /Review desk/ }));
+    const panel = await screen.findByTestId('coming-later');
+    expect(panel.textContent).toContain('Coming in a later release');
+    expect(panel.textContent).toContain('proofs');
+    expect(screen.getByTestId('location').textContent).toBe('/review');
+  });
+
+  it('sign-out clears the session and returns to sign-in', async () => {
+    const me = user('admin');
+    mockFetch(signedInRoutes(me));
+    storeSession(me);
+    renderApp('/people');
+    await userEvent.setup().click(await screen.findByTestId('sign-out'));
+    await waitFor(() => expect(screen.getByTestId('location').textContent).toBe('/sign-in'));
+    expect(window.sessionStorage.getItem(SESSION_STORAGE_KEY)).toBeNull();
+    expect(screen.queryByTestId('signin-notice')).toBeNull(); // a chosen sign-out is not "session ended"
+  });
+
+  it('refreshes the header from /api/auth/me when the stored user is stale', async () => {
+    const stale = user('illustrator', { displayName: 'Old Name' });
+    const fresh = { ...stale, displayName: 'New Name' };
+    mockFetch(signedInRoutes(fresh));
+    storeSession(stale);
+    renderApp('/publications');
+    await waitFor(() => expect(screen.getByTestId('user-name').textContent).toBe('New Name'));
+    expect(JSON.parse(window.sessionStorage.getItem(SESSION_STORAGE_KEY) ?? '{}').user.displayName).toBe('New Name');
+  });
+});

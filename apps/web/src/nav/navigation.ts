@@ -1,0 +1,73 @@
+import { ROLES, type Role } from '@psiform/contracts';
+import type { IconName } from '@blueprintjs/icons';
+
+/** One place in the app, who may open it, and whether it is built yet. */
+export interface NavItem {
+  path: string;
+  label: string;
+  icon: IconName;
+  roles: readonly Role[];
+  /** false: the route shows an honest "coming in a later release" panel. */
+  ready: boolean;
+  /** One sentence on what the place is for (shown on the not-yet-built panel). */
+  purpose: string;
+}
+
+export const NAV_ITEMS: readonly NavItem[] = [
+  {
+    path: '/publications',
+    label: 'Publications',
+    icon: 'book',
+    roles: ROLES,
+    ready: true,
+    purpose: 'The books and journal volumes you work on.',
+  },
+  {
+    path: '/library',
+    label: 'Library',
+    icon: 'layers',
+    roles: ['illustrator'],
+    ready: false,
+    purpose: 'Your figures and their versions across every publication you belong to.',
+  },
+  {
+    path: '/composer',
+    label: 'Composer',
+    icon: 'function',
+    roles: ['illustrator'],
+    ready: false,
+    purpose: 'Choose states, coefficients, Z and the surface rule, and see the isosurfaces as you go.',
+  },
+  {
+    path: '/review',
+    label: 'Review desk',
+    icon: 'endorsed',
+    roles: ['editor'],
+    ready: false,
+    purpose: 'The queue of proofs waiting for your comments, change requests and approval.',
+  },
+  {
+    path: '/swatchbooks',
+    label: 'Swatchbooks',
+    icon: 'tint',
+    roles: ['art_director'],
+    ready: false,
+    purpose: 'Palettes and house styles, pinned one swatchbook per publication.',
+  },
+  {
+    path: '/people',
+    label: 'People',
+    icon: 'people',
+    roles: ['admin'],
+    ready: false,
+    purpose: 'Accounts, roles and publication memberships.',
+  },
+];
+
+export function navItemsFor(role: Role): NavItem[] {
+  return NAV_ITEMS.filter((item) => item.roles.includes(role));
+}
+
+export function canOpen(role: Role, item: NavItem): boolean {
+  return item.roles.includes(role);
+}

@@ -1,0 +1,105 @@
+import { useState, type FormEvent } from 'react';
+import { Button, Callout, FormGroup, InputGroup } from '@blueprintjs/core';
+import { useMutation } from '@tanstack/react-query';
+import { Navigate, useLocation, useNavigate } from 'react-router-dom';
+import { describeError } from '../api/client';
+import { useAuth } from '../auth/AuthProvider';
+import { Wordmark } from '../components/Wordmark';
+
+interface FromState {
+  from?: string;
+}
+
+function destination(state: unknown): string {
+  const from = (state as FromState | null)?.from;
+  // Only in-app paths; never bounce back to the sign-in page itself.
+  return typeof from === 'string' && from.startsWith('/') && !from.startsWith('/sign-in') ? from : '/publications';
+}
+
+export function SignInPage() {
+  const { user, signIn, lastSignOut } = useAuth();
+  const navigate = useNavigate();
+  const location = useLocation();
+  const [email, setEmail] = useState('');
+  const [password, setPassword] = useState('');
+  const [fieldError, setFieldError] = useState<string | null>(null);
+
+  const login = useMutation({
+    mutationFn: signIn,
+    onSuccess: () => navigate(destination(location.state), { replace: true }),
+  });
+
+  if (user && !login.isPending) return <Navigate to={destination(location.state)} replace />;
+
+  function submit(event: FormEvent<HTMLFormElement>) {
+    event.preventDefault();
+    if (login.isPending) return;
+    const trimmed = email.trim();
+    if (!trimmed) return setFieldError('Enter your email address.');
+    if (!password) return setFieldError('Enter your password.');
+    setFieldError(null);
+    login.mutate({ email: trimmed, password });
+  }
+
+  const error = fieldError ?? (login.isError ? describeError(login.error) : null);
+  const pending = login.isPending;
+
+  return (
+    <main className="pf-signin">
+      <form className="pf-signin-card" onSubmit={submit} noValidate aria-labelledby="signin-title" data-testid="signin-form">
+        <Wordmark large />
+        <h1 id="signin-title" className="pf-signin-title">
+          Sign in
+        </h1>
+        <p className="pf-muted">Orbital figures for print and screen, from composition to approved proof.</p>
+
+        {lastSignOut === 'expired' && !error && (
+          <Callout intent="warning" compact className="pf-gap" data-testid="signin-notice">
+            Your session has ended. Sign in again to continue.
+          </Callout>
+        )}
+        {error && (
+          <Callout intent="danger" compact className="pf-gap" role="alert" data-testid="signin-error">
+            {error}
+          </Callout>
+        )}
+
+        <FormGroup label="Email" labelFor="signin-email">
+          <InputGroup
+            id="signin-email"
+            name="email"
+            type="email"
+            autoComplete="username"
+            autoFocus
+            value={email}
+            onValueChange={(v) => setEmail(v)}
+            disabled={pending}
+            data-testid="signin-email"
+          />
+        </FormGroup>
+        <FormGroup label="Password" labelFor="signin-password">
+          <InputGroup
+            id="signin-password"
+            name="password"
+            type="password"
+            autoComplete="current-password"
+            value={password}
+            onValueChange={(v) => setPassword(v)}
+            disabled={pending}
+            data-testid="signin-password"
+          />
+        </FormGroup>
+        <Button
+          type="submit"
+          intent="primary"
+          fill
+          size="large"
+          loading={pending}
+          disabled={pending}
+          text="Sign in"
+          data-testid="signin-submit"
+        />
+      </form>
+    </main>
+  );
+}

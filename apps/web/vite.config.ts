@@ -1,0 +1,38 @@
+/// <reference types="vitest/config" />
+import { fileURLToPath } from 'node:url';
+import { defineConfig } from 'vite';
+import react from '@vitejs/plugin-react';
+
+const lib = (name: string) => fileURLToPath(new URL(`../../libs/${name}/src/index.ts`, import.meta.url));
+
+// The client compiles the shared libs from their TypeScript sources (no prior lib build needed).
+export default defineConfig({
+  plugins: [react()],
+  resolve: {
+    alias: {
+      '@psiform/contracts': lib('contracts'),
+      '@psiform/orbitals': lib('orbitals'),
+      '@psiform/meshing': lib('meshing'),
+    },
+  },
+  server: {
+    port: 5173,
+    proxy: {
+      // The API in development; PSIFORM_API_URL overrides it (e.g. another port).
+      '/api': { target: process.env.PSIFORM_API_URL ?? 'http://127.0.0.1:3000', changeOrigin: false },
+    },
+  },
+  build: {
+    outDir: 'dist',
+    emptyOutDir: true,
+    sourcemap: true,
+  },
+  test: {
+    environment: 'jsdom',
+    // globals: true lets Testing Library register its afterEach clean-up.
+    globals: true,
+    setupFiles: ['./src/test/setup.ts'],
+    include: ['src/**/*.test.{ts,tsx}'],
+    css: false,
+  },
+});

@@ -1,0 +1,97 @@
+// Shared helpers for Psiform browser tests (node --test test/e2e/).
+// Launches the system Chromium (never a downloaded one) with exact flags and a throw-away profile.
+import { mkdtemp, rm } from 'node:fs/promises';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { chromium } from 'playwright-core';
+
+export const DEMO_ILLUSTRATOR = { email: 'illustrator@demo.psiform.test', password: 'psiform-demo' };
+
+export const CHROMIUM_PATH = '/usr/bin/chromium';
+
+// Measured on this machine (see stack notes): software WebGL through SwiftShader, no network chatter.
+export const CHROMIUM_FLAGS = [
+  '--headless',
+  '--no-sandbox',
+  '--disable-quic',
+  '--no-first-run',
+  '--disable-background-networking',
+  '--disable-component-update',
+  '--disable-sync',
+  '--use-angle=swiftshader',
+  '--enable-unsafe-swiftshader',
+];
+
+/** The stack under test, from PSIFORM_URL; throws (failing the test loudly) when it is not set. */
+export function baseUrl() {
+  const url = process.env.PSIFORM_URL;
+  if (!url) {
+    throw new Error('PSIFORM_URL is not set: point it at a running Psiform, e.g. PSIFORM_URL=http://127.0.0.1:3000');
+  }
+  return url.replace(/\/+$/, '');
+}
+
+/**
+ * Starts Chromium with exactly our flags (Playwright's defaults are switched off so nothing else is added,
+ * except the pipe Playwright talks over). Returns { browser, close } where close also deletes the profile.
+ */
+export async function launchBrowser() {
+  const profile = await mkdtemp(join(tmpdir(), 'psiform-chromium-'));
+  let browser;
+  try {
+    browser = await chromium.launch({
+      executablePath: CHROMIUM_PATH,
+      ignoreDefaultArgs: true,
+      args: [...CHROMIUM_FLAGS, `--user-data-dir=${profile}`, '--remote-debugging-pipe', '--no-startup-window'],
+      timeout: 60_000,
+    });
+  } catch (err) {
+    await rm(profile, { recursive: true, force: true });
+    throw err;
+  }
+  return {
+    browser,
+    async close() {
+      await browser.close().catch(() => {});
+      await rm(profile, { recursive: true, force: true });
+    },
+  };
+}
+
+/** A fresh context and page; uncaught page errors land in `errors`, every requested URL in `requests`. */
+export async function newPage(browser) {
+  const context = await browser.newContext({ viewport: { width: 1280, height: 800 } });
+  const page = await context.newPage();
+  const errors = [];
+  const requests = [];
+  page.on('pageerror', (err) => errors.push(err));
+  page.on('request', (req) => requests.push(req.url()));
+  page.setDefaultTimeout(15_000);
+  return { context, page, errors, requests };
+}
+
+/**
+ * Signs in through the real form and waits for the app shell. Returns the session the client stored
+ * ({ accessToken, user }) so a test can call the API with the same token.
+ */
+export async function signIn(page, { email, password } = DEMO_ILLUSTRATOR, url = baseUrl()) {
+  await page.goto(`${url}/sign-in`);
+  await page.getByLabel('Email').fill(email);
+  await page.getByLabel('Password').fill(password);
+  await page.getByTestId('signin-submit').click();
+  await page.getByTestId('masthead').waitFor({ state: 'visible' }).catch(async (err) => {
+    const shown = await page.getByTestId('signin-error').textContent().catch(() => null);
+    throw new Error(`Sign-in as ${email} did not reach the app${shown ? `: the page says "${shown}"` : ''} (${err.message})`);
+  });
+  const session = await page.evaluate(() => JSON.parse(window.sessionStorage.getItem('psiform.session') ?? 'null'));
+  if (!session?.accessToken) throw new Error('Signed in, but no session was stored in sessionStorage');
+  return session;
+}
+
+/** GET a JSON route of the API with a Bearer token (from Node, not the page). */
+export async function apiGet(path, token, url = baseUrl()) {
+  const res = await fetch(`${url}${path}`, { headers: { Authorization: `Bearer ${token}`, Accept: 'application/json' } });
+  const text = await res.text();
+  if (!res.ok) throw new Error(`GET ${path} answered ${res.status}: ${text.slice(0, 200)}`);
+  return JSON.parse(text);
+}
