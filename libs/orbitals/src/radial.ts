@@ -1,0 +1,55 @@
+import { logFactorial } from './factorial';
+import { genLaguerre } from './laguerre';
+import { assertQuantumNumbers, assertZ } from './quantum';
+
+/**
+ * Hydrogen-like radial function in atomic units (Griffiths, Introduction to QM 2nd ed., eq. 4.89;
+ * Bethe & Salpeter §3):
+ *   R_nl(r) = N_nl rho^l e^{-rho/2} L_{n-l-1}^{2l+1}(rho),   rho = 2 Z r / n,
+ *   N_nl = sqrt( (2Z/n)^3 (n-l-1)! / (2n (n+l)!) ).
+ * Sign convention: R_nl > 0 near the nucleus.
+ */
+export function radialNorm(n: number, l: number, Z: number): number {
+  const c = (2 * Z) / n;
+  return Math.sqrt(c * c * c / (2 * n)) * Math.exp(0.5 * (logFactorial(n - l - 1) - logFactorial(n + l)));
+}
+
+export function radialR(n: number, l: number, Z: number, r: number): number {
+  assertQuantumNumbers(n, l, 0);
+  assertZ(Z);
+  const rho = (2 * Z * r) / n;
+  return radialNorm(n, l, Z) * Math.pow(rho, l) * Math.exp(-rho / 2) * genLaguerre(n - l - 1, 2 * l + 1, rho);
+}
+
+/** Radial distribution P(r) = r^2 R_nl(r)^2 (probability per unit radius). */
+export function radialDistribution(n: number, l: number, Z: number, r: number): number {
+  const R = radialR(n, l, Z, r);
+  return r * r * R * R;
+}
+
+/**
+ * Constants for the Cartesian route: R_nl(r) / r^l = scale * e^{-kappa r} * L_k^alpha(rhoFactor r)
+ * with scale = N_nl (2Z/n)^l, kappa = Z/n, rhoFactor = 2Z/n, k = n-l-1, alpha = 2l+1.
+ */
+export interface RadialConstants {
+  n: number;
+  l: number;
+  k: number;
+  alpha: number;
+  scale: number;
+  kappa: number;
+  rhoFactor: number;
+}
+
+export function radialConstants(n: number, l: number, Z: number): RadialConstants {
+  const rhoFactor = (2 * Z) / n;
+  return {
+    n,
+    l,
+    k: n - l - 1,
+    alpha: 2 * l + 1,
+    scale: radialNorm(n, l, Z) * Math.pow(rhoFactor, l),
+    kappa: Z / n,
+    rhoFactor,
+  };
+}
