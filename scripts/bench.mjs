@@ -47,7 +47,7 @@ const results = {}; // filled by sections, read by the summary
 
 // ---------------------------------------------------------------------------------------------
 // Helpers
-const now = () => performance.now();
+const now = () => globalThis.performance.now();
 const mb = (kb) => kb / 1024;
 
 /**

@@ -36,7 +36,7 @@ async function suite(name, runner, cmd, args, opts = {}) {
   results.push({ name, runner, ...counts, code, seconds: (Date.now() - t0) / 1000, bad });
 }
 
-let exitCode = 1;
+let exitCode;
 try {
   const t0 = Date.now();
   ensureDebianPackages();
@@ -51,7 +51,7 @@ try {
 
   const vitest = path.join(ROOT, 'node_modules/.bin/vitest');
   const jest = path.join(ROOT, 'node_modules/.bin/jest');
-  for (const [name, dir] of [['contracts', 'libs/contracts'], ['orbitals', 'libs/orbitals'], ['meshing', 'libs/meshing'], ['cli', 'apps/cli'], ['web', 'apps/web']]) {
+  for (const [name, dir] of [['contracts', 'libs/contracts'], ['colour', 'libs/colour'], ['orbitals', 'libs/orbitals'], ['meshing', 'libs/meshing'], ['print', 'libs/print'], ['cli', 'apps/cli'], ['web', 'apps/web']]) {
     await suite(name, 'vitest', vitest, ['run'], { cwd: path.join(ROOT, dir), env });
   }
   await suite('api', 'jest', jest, ['--runInBand', '--ci'], { cwd: path.join(ROOT, 'apps/api'), env });

@@ -1,4 +1,5 @@
 // Reads the closing counts of the runners we use, so `npm test` can print one summary.
+// eslint-disable-next-line no-control-regex -- ANSI colour codes start with ESC
 const strip = (s) => s.replace(/\x1b\[[0-9;]*m/g, '');
 
 export function parseCounts(runner, output) {

@@ -52,7 +52,7 @@ export function gaussLaguerreRule(m: number): QuadratureRule {
       const ai = i - 1;
       z += ((1 + 2.55 * ai) / (1.9 * ai)) * (z - x[i - 2]);
     }
-    let p1 = 0;
+    let p1: number;
     let p2 = 0;
     let pp = 0;
     for (let iter = 0; iter < 200; iter++) {

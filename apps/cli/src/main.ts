@@ -1,0 +1,158 @@
+import * as os from 'node:os';
+import { RECIPE_LIMITS } from '@psiform/contracts';
+import { parseCommandArgs, type OptionSpec } from './args';
+import { UsageError, oneLine } from './errors';
+import { COMMAND_HELP, MAIN_HELP, MODEL_NOTE } from './help';
+import { parseIntOption, parseNumberOption } from './numbers';
+import { checkOutPath, writeFileAtomic } from './output';
+import { STATE_OPTION_SPEC, SURFACE_OPTION_SPEC, resolveRecipe, type StateOptions } from './source';
+import { ensureGridFits, radialFacts, stateOfRecipe } from './engine';
+import { densityForRecipe, encodeDensityNrrd, encodeMeshFile, meshForRecipe } from './pipeline';
+import { formatMeshSummary, formatRadialSummary } from './format';
+
+const MESH_EXTS = ['.glb', '.stl', '.ply', '.obj'] as const;
+
+function threadsOption(raw: string | undefined): number {
+  const cores = typeof os.availableParallelism === 'function' ? os.availableParallelism() : os.cpus().length;
+  if (raw === undefined) return Math.max(1, cores);
+  return parseIntOption('--threads', raw, { min: 1, max: 64 });
+}
+
+function print(text: string): void {
+  process.stdout.write(text.endsWith('\n') ? text : text + '\n');
+}
+
+function spec(...parts: OptionSpec[]): OptionSpec {
+  return Object.assign({ help: { type: 'boolean', short: 'h' } }, ...parts);
+}
+
+async function cmdMesh(argv: string[]): Promise<void> {
+  const v = parseCommandArgs('mesh', argv, spec(STATE_OPTION_SPEC, SURFACE_OPTION_SPEC, { out: { type: 'string' }, json: { type: 'boolean' }, threads: { type: 'string' } }));
+  if (v.help) return print(COMMAND_HELP.mesh);
+  const threads = threadsOption(v.threads as string | undefined);
+  const recipe = resolveRecipe(v as StateOptions, { withSurface: true });
+  const ext = v.out !== undefined ? checkOutPath(v.out as string, MESH_EXTS) : undefined;
+  const state = stateOfRecipe(recipe);
+  ensureGridFits(recipe.grid.n, !state.isReal);
+
+  const report = await meshForRecipe(recipe, state, { threads });
+  let written: { file: string; bytes: number } | undefined;
+  if (ext !== undefined) {
+    const t0 = performance.now();
+    const bytes = await encodeMeshFile(ext, report, recipe);
+    report.timings_ms.encode = round(performance.now() - t0, 1);
+    written = { file: v.out as string, bytes: writeFileAtomic(v.out as string, bytes) };
+  }
+  const json = { label: recipe.label ?? null, Z: recipe.content.Z, model: MODEL_NOTE, ...report.summary(), out: written ?? null };
+  print(v.json ? JSON.stringify(json, null, 2) : formatMeshSummary(json));
+}
+
+async function cmdSample(argv: string[]): Promise<void> {
+  const v = parseCommandArgs('sample', argv, spec(STATE_OPTION_SPEC, { out: { type: 'string' }, json: { type: 'boolean' }, threads: { type: 'string' } }));
+  if (v.help) return print(COMMAND_HELP.sample);
+  const threads = threadsOption(v.threads as string | undefined);
+  const recipe = resolveRecipe(v as StateOptions, { withSurface: false });
+  if (v.out === undefined) throw new UsageError('sample needs --out FILE.nrrd');
+  checkOutPath(v.out as string, ['.nrrd']);
+  const state = stateOfRecipe(recipe);
+  ensureGridFits(recipe.grid.n, !state.isReal);
+
+  const t0 = performance.now();
+  const cube = await densityForRecipe(recipe, state, { threads });
+  const t1 = performance.now();
+  const bytes = encodeDensityNrrd(cube, recipe);
+  const written = writeFileAtomic(v.out as string, bytes);
+  const t2 = performance.now();
+  const json = {
+    label: recipe.label ?? null,
+    Z: recipe.content.Z,
+    model: MODEL_NOTE,
+    quantity: '|psi|^2 in a0^-3',
+    grid: { n: cube.n, extent: cube.extent, spacing: cube.spacing },
+    max_density: cube.max,
+    out: { file: v.out as string, bytes: written },
+    timings_ms: { sample: round(t1 - t0, 1), encode_write: round(t2 - t1, 1) },
+  };
+  print(
+    v.json
+      ? JSON.stringify(json, null, 2)
+      : `${json.label ?? 'state'} (Z=${json.Z}): |psi|^2 on ${cube.n}^3 voxels over +/-${fmt(cube.extent)} a0 -> ${json.out.file} (${json.out.bytes} bytes)\nmodel: ${MODEL_NOTE}`,
+  );
+}
+
+function cmdRadial(argv: string[]): void {
+  const v = parseCommandArgs('radial', argv, spec({ n: { type: 'string' }, l: { type: 'string' }, Z: { type: 'string' }, outside: { type: 'string' }, json: { type: 'boolean' } }));
+  if (v.help) return print(COMMAND_HELP.radial);
+  if (v.n === undefined) throw new UsageError('radial needs --n N');
+  if (v.l === undefined) throw new UsageError('radial needs --l L');
+  const n = parseIntOption('--n', v.n as string);
+  const l = parseIntOption('--l', v.l as string);
+  if (n < 1 || n > RECIPE_LIMITS.nMax) throw new UsageError(`n must be between 1 and ${RECIPE_LIMITS.nMax} (got n=${n})`);
+  if (l < 0) throw new UsageError(`l must be at least 0 (got l=${l})`);
+  if (l >= n) throw new UsageError(`l must be less than n (got n=${n}, l=${l})`);
+  const Z = v.Z === undefined ? 1 : parseIntOption('--Z', v.Z as string, { min: 1, max: RECIPE_LIMITS.zMax });
+  let outside: number | null = null;
+  if (v.outside !== undefined) {
+    outside = parseNumberOption('--outside', v.outside as string);
+    if (outside < 0) throw new UsageError(`--outside must be a radius >= 0 in a0 (got ${v.outside})`);
+  }
+  const facts = radialFacts(n, l, Z, outside);
+  const json = { n, l, Z, units: 'a0', model: MODEL_NOTE, ...facts, outside_r: outside };
+  print(v.json ? JSON.stringify(json, null, 2) : formatRadialSummary(json));
+}
+
+async function cmdRecipe(argv: string[]): Promise<void> {
+  const v = parseCommandArgs('recipe', argv, spec(STATE_OPTION_SPEC, SURFACE_OPTION_SPEC));
+  if (v.help) return print(COMMAND_HELP.recipe);
+  const recipe = resolveRecipe(v as StateOptions, { withSurface: true });
+  const state = stateOfRecipe(recipe);
+  ensureGridFits(recipe.grid.n, !state.isReal);
+  print(JSON.stringify(recipe, null, 2));
+}
+
+export function round(x: number, digits: number): number {
+  const f = 10 ** digits;
+  return Math.round(x * f) / f;
+}
+
+function fmt(x: number): string {
+  return Number(x.toPrecision(6)).toString();
+}
+
+const COMMANDS: Record<string, (argv: string[]) => void | Promise<void>> = {
+  mesh: cmdMesh,
+  radial: cmdRadial,
+  sample: cmdSample,
+  recipe: cmdRecipe,
+};
+
+/** Entry point used by bin/psiform.js. Sets process.exitCode: 0 ok, 2 bad arguments, 1 internal failure. */
+export async function run(argv: string[]): Promise<void> {
+  try {
+    const [cmd, ...rest] = argv;
+    if (cmd === undefined || cmd === '--help' || cmd === '-h' || cmd === 'help') {
+      if (cmd === 'help' && rest[0] && COMMAND_HELP[rest[0]]) return print(COMMAND_HELP[rest[0]]);
+      return print(MAIN_HELP);
+    }
+    if (cmd === '--version' || cmd === '-v') {
+      // eslint-disable-next-line @typescript-eslint/no-require-imports
+      return print(`psiform ${require('../package.json').version}`);
+    }
+    const handler = Object.prototype.hasOwnProperty.call(COMMANDS, cmd) ? COMMANDS[cmd] : undefined;
+    if (!handler) {
+      throw new UsageError(cmd.startsWith('-') ? `unknown option '${cmd}' (see psiform --help)` : `unknown command '${cmd}' (commands: ${Object.keys(COMMANDS).join(', ')})`);
+    }
+    await handler(rest);
+    process.exitCode = 0;
+  } catch (err) {
+    if (err instanceof UsageError) {
+      process.stderr.write(`psiform: ${oneLine(err.message)}\n`);
+      process.exitCode = err.exitCode;
+      return;
+    }
+    const e = err as Error;
+    process.stderr.write(`psiform: internal error: ${oneLine(e?.message ?? String(err))}\n`);
+    if (process.env.PSIFORM_DEBUG) process.stderr.write(`${e?.stack ?? ''}\n`);
+    process.exitCode = 1;
+  }
+}
