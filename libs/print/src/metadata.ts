@@ -1,0 +1,218 @@
+// The figure's metadata sheet: what was computed, how, and the words that go with it (caption, alt text).
+
+import { BOHR_RADIUS_ANGSTROM, L_LETTERS, isRealState, prettyLabel, type OrbitalState, type Term } from '@psiform/orbitals';
+
+export const MODEL_NOTE = 'Shapes are those of the one-electron hydrogen-like model; orbitals of many-electron atoms differ.';
+
+/** The recipe fields the sheet reads (structurally the @psiform/contracts Recipe; extra fields are kept). */
+export interface RecipeLike {
+  version: number;
+  label?: string;
+  content: { Z: number; terms: Term[] };
+  grid: { n: number; extent?: 'auto' | number };
+  surface: { rule: 'enclosed'; fraction: number } | { rule: 'psi'; value: number };
+  phase?: { mode: 'auto' | 'sign' | 'argument' };
+  canvas?: { widthMm: number; heightMm: number; dpi: number };
+  [key: string]: unknown;
+}
+
+/** buildOrbitalMesh's result without the meshes (the job's JSON). */
+export interface MeshResultLike {
+  isovalue: number;
+  enclosed: number;
+  grid: { n: number; extent: number };
+  surfaces: { phase: '+' | '-' | 'complex'; stats?: { vertices: number; triangles: number; area: number; volume?: number; components?: number; watertight?: boolean } | null }[];
+}
+
+export interface FigureMetadataInput {
+  recipe: RecipeLike;
+  result: MeshResultLike;
+  engineVersion: string;
+  palette: { positive: string; negative: string; background?: string; swatchbookId?: string | null; [key: string]: unknown };
+  /** ISO 8601 time; passed in so the same inputs give the same sheet. */
+  generatedAt: string;
+}
+
+export interface FigureMetadata {
+  format: 'psiform-figure-metadata';
+  formatVersion: 1;
+  label: string;
+  model: { kind: 'one-electron hydrogen-like'; note: string };
+  nucleus: { Z: number; name: string };
+  terms: { n: number; l: number; m: number; subshell: string; basis: 'complex' | 'real'; coefficient: { re: number; im: number }; label: string }[];
+  isRealState: boolean;
+  surface: {
+    rule: 'enclosed' | 'psi';
+    /** Target fraction (enclosed rule) or requested |psi| (psi rule). */
+    target: number;
+    /** Probability actually enclosed on the sampled grid. */
+    enclosedAchieved: number;
+    /** |psi| level of the surfaces, a0^-3/2. */
+    isovalue: number;
+    phaseColouring: 'sign' | 'argument';
+  };
+  grid: {
+    n: number;
+    requestedExtent: 'auto' | number;
+    extentBohr: number;
+    extentAngstrom: number;
+    spacingBohr: number;
+    spacingAngstrom: number;
+  };
+  surfaces: MeshResultLike['surfaces'];
+  canvas?: { widthMm: number; heightMm: number; dpi: number };
+  engineVersion: string;
+  palette: FigureMetadataInput['palette'];
+  generatedAt: string;
+  caption: string;
+  altText: string;
+  /** The recipe itself (written to recipe.json in a bundle, not repeated in metadata.json). */
+  recipe: RecipeLike;
+}
+
+/** Element symbols Z = 1..36 (IUPAC periodic table; written from memory). */
+const SYMBOLS = 'H He Li Be B C N O F Ne Na Mg Al Si P S Cl Ar K Ca Sc Ti V Cr Mn Fe Co Ni Cu Zn Ga Ge As Se Br Kr'.split(' ');
+const SUP: Record<string, string> = { '0': '⁰', '1': '¹', '2': '²', '3': '³', '4': '⁴', '5': '⁵', '6': '⁶', '7': '⁷', '8': '⁸', '9': '⁹' };
+
+/** Name of the one-electron ion with nuclear charge Z: H, He⁺, Li²⁺, Be³⁺ ... (generic beyond Kr). */
+export function ionName(Z: number): string {
+  if (!Number.isInteger(Z) || Z < 1) throw new RangeError(`Z must be a positive integer (got ${String(Z)})`);
+  if (Z === 1) return 'H';
+  if (Z > SYMBOLS.length) return `hydrogen-like ion, Z = ${Z}`;
+  const q = Z - 1;
+  return `${SYMBOLS[Z - 1]}${q === 1 ? '' : String(q).replace(/\d/g, (d) => SUP[d])}⁺`;
+}
+
+function percent(x: number): string {
+  const p = x * 100;
+  return `${Math.abs(p - Math.round(p)) < 1e-9 ? Math.round(p) : p.toFixed(1)}%`;
+}
+
+function termLabel(t: Term): string {
+  return prettyLabel({ ...t, re: 1, im: 0 });
+}
+
+/**
+ * Plain shape words by l and m for a single real or complex term; generic for superpositions.
+ * Written to be honest and simple: the lobe count and nodal surfaces follow from Y_lm alone; radial nodes
+ * add inner shells of alternating sign, which an outer isosurface may hide.
+ */
+export function shapeDescription(state: OrbitalState, label?: string): string {
+  const terms = state.terms;
+  const radial = (n: number, l: number) => {
+    const k = n - l - 1;
+    return k === 0 ? '' : ` It has ${k} radial node${k > 1 ? 's' : ''}: inner ${l === 0 ? 'shell' : 'lobe'}${k > 1 ? 's' : ''} of alternating sign lie inside the outer surface and may be hidden by it.`;
+  };
+  if (terms.length === 1) {
+    const t = terms[0];
+    const lab = termLabel(t);
+    const suffix = lab.includes('_') ? lab.split('_')[1] : '';
+    if (t.l === 0) return `A single roughly spherical cloud centred on the nucleus, one sign throughout its outer part.${radial(t.n, t.l)}`;
+    if (t.basis === 'complex' && t.m !== 0) {
+      return `A ring-shaped (doughnut-like) surface of |ψ| around the z axis, coloured by the phase of ψ, which turns ${Math.abs(t.m)} time${Math.abs(t.m) > 1 ? 's' : ''} round the axis.${radial(t.n, t.l)}`;
+    }
+    if (t.l === 1) {
+      const ax = suffix || 'z';
+      const others = ['x', 'y', 'z'].filter((a) => a !== ax).join('');
+      return `Two lobes of opposite sign along the ${ax} axis, meeting at the nucleus and separated by the nodal ${others} plane.${radial(t.n, t.l)}`;
+    }
+    if (t.l === 2) {
+      if (t.m === 0) return `Two lobes of the same sign along the z axis with a ring (torus) of opposite sign around the nucleus in the xy plane; two cone-shaped nodal surfaces separate them.${radial(t.n, t.l)}`;
+      const planeOf: Record<string, string> = { xy: 'xy', xz: 'xz', yz: 'yz', 'x²−y²': 'xy' };
+      const p = planeOf[suffix] ?? 'a coordinate';
+      const where = suffix === 'x²−y²' ? 'pointing along the x and y axes' : `pointing between the ${p[0]} and ${p[1]} axes`;
+      return `Four-lobed cloverleaf in the ${p} plane, lobes ${where} and alternating in sign, separated by two nodal planes.${radial(t.n, t.l)}`;
+    }
+    if (t.l === 3) return `An f-orbital shape: several lobes alternating in sign, separated by three angular nodal surfaces (planes or cones).${radial(t.n, t.l)}`;
+    return `Lobes alternating in sign, separated by ${t.l} angular nodal surfaces.${radial(t.n, t.l)}`;
+  }
+  if (label && /^\d*sp[0-9³²d]*/i.test(label.trim())) return 'A hybrid: one large lobe pointing away from the nucleus and a small lobe of opposite sign behind it.';
+  const ls = [...new Set(terms.map((t) => `${t.n}${L_LETTERS[t.l]}`))].join(', ');
+  return `A superposition of ${terms.length} terms (${ls}); its lobes follow from the coefficients and do not match a single textbook shape.`;
+}
+
+export function figureMetadata(input: FigureMetadataInput): FigureMetadata {
+  const { recipe, result, engineVersion, palette, generatedAt } = input;
+  if (!recipe || typeof recipe !== 'object' || !recipe.content) throw new RangeError('recipe must be a figure recipe with content, grid and surface');
+  if (!result || typeof result !== 'object' || !result.grid) throw new RangeError('result must hold isovalue, enclosed, grid and surfaces');
+  if (typeof engineVersion !== 'string' || !engineVersion) throw new RangeError('engineVersion must be a non-empty string');
+  if (typeof generatedAt !== 'string' || Number.isNaN(Date.parse(generatedAt))) throw new RangeError(`generatedAt must be an ISO 8601 date-time (got ${JSON.stringify(generatedAt)})`);
+  const { Z, terms } = recipe.content;
+  const state: OrbitalState = { Z, terms };
+  const label = recipe.label ?? prettyLabel(state);
+  const real = isRealState(state);
+  const mode = recipe.phase?.mode ?? 'auto';
+  const phaseColouring: 'sign' | 'argument' = mode === 'auto' ? (real ? 'sign' : 'argument') : mode;
+  const { n, extent } = result.grid;
+  const spacing = (2 * extent) / (n - 1);
+  const single = terms.length === 1;
+  const what = single ? `${label} orbital` : `state ${label}`;
+  const ruleText =
+    recipe.surface.rule === 'enclosed'
+      ? `enclosing ${percent(recipe.surface.fraction)} of the probability density`
+      : `at |ψ| = ${recipe.surface.value.toPrecision(3)} a0^−3/2 (enclosing ${percent(Math.round(result.enclosed * 1000) / 1000)} of the probability on the grid)`;
+  const colourText = phaseColouring === 'sign' ? 'lobes coloured by the sign of ψ' : 'coloured by the phase of ψ';
+  const caption = `Isosurface of the hydrogen-like ${what} (Z = ${Z}) ${ruleText}; ${colourText}. Computed on a ${n}³ grid.`;
+  const altText = `${shapeDescription(state, label)} Hydrogen-like ${label}, Z = ${Z}.`;
+  return {
+    format: 'psiform-figure-metadata',
+    formatVersion: 1,
+    label,
+    model: { kind: 'one-electron hydrogen-like', note: MODEL_NOTE },
+    nucleus: { Z, name: ionName(Z) },
+    terms: terms.map((t) => ({ n: t.n, l: t.l, m: t.m, subshell: `${t.n}${L_LETTERS[t.l]}`, basis: t.basis, coefficient: { re: t.re, im: t.im }, label: termLabel(t) })),
+    isRealState: real,
+    surface: {
+      rule: recipe.surface.rule,
+      target: recipe.surface.rule === 'enclosed' ? recipe.surface.fraction : recipe.surface.value,
+      enclosedAchieved: result.enclosed,
+      isovalue: result.isovalue,
+      phaseColouring,
+    },
+    grid: {
+      n,
+      requestedExtent: recipe.grid.extent ?? 'auto',
+      extentBohr: extent,
+      extentAngstrom: extent * BOHR_RADIUS_ANGSTROM,
+      spacingBohr: spacing,
+      spacingAngstrom: spacing * BOHR_RADIUS_ANGSTROM,
+    },
+    surfaces: result.surfaces.map((s) => ({ phase: s.phase, stats: s.stats ?? null })),
+    ...(recipe.canvas ? { canvas: { widthMm: recipe.canvas.widthMm, heightMm: recipe.canvas.heightMm, dpi: recipe.canvas.dpi } } : {}),
+    engineVersion,
+    palette,
+    generatedAt,
+    caption,
+    altText,
+    recipe,
+  };
+}
+
+function g(x: number, digits = 4): string {
+  return Number(x.toPrecision(digits)).toString();
+}
+
+/** Readable sheet (Markdown that reads fine as plain text) for README.txt in a bundle. */
+export function metadataSheetText(meta: FigureMetadata): string {
+  const L: string[] = [];
+  L.push(`# Figure: ${meta.label}`, '');
+  L.push(`Caption: ${meta.caption}`, '');
+  L.push(`Alt text: ${meta.altText}`, '');
+  L.push('## Model', '', `- ${meta.model.kind} (nuclear charge Z = ${meta.nucleus.Z}, ${meta.nucleus.name})`, `- ${meta.model.note}`, '');
+  L.push('## Terms', '');
+  for (const t of meta.terms) L.push(`- ${t.label}: n = ${t.n}, l = ${t.l}, m = ${t.m} (${t.basis} basis), coefficient ${g(t.coefficient.re)}${t.coefficient.im ? ` ${t.coefficient.im < 0 ? '−' : '+'} ${g(Math.abs(t.coefficient.im))}i` : ''}`);
+  L.push('', '## Surface', '');
+  const s = meta.surface;
+  L.push(s.rule === 'enclosed' ? `- Rule: enclose ${g(s.target * 100)}% of the probability` : `- Rule: |ψ| = ${g(s.target)} a0^-3/2`);
+  L.push(`- Enclosed on the grid: ${(s.enclosedAchieved * 100).toFixed(2)}%`, `- Isovalue |ψ|: ${g(s.isovalue)} a0^-3/2`, `- Colouring: ${s.phaseColouring === 'sign' ? 'sign of ψ' : 'phase (argument) of ψ'}`);
+  for (const x of meta.surfaces) if (x.stats) L.push(`- Surface ${x.phase}: ${x.stats.triangles} triangles, area ${g(x.stats.area)} a0²`);
+  L.push('', '## Grid', '');
+  const gr = meta.grid;
+  L.push(`- ${gr.n}³ points; extent ±${g(gr.extentBohr)} a0 (±${g(gr.extentAngstrom)} Å)${gr.requestedExtent === 'auto' ? ', chosen automatically' : ''}`);
+  L.push(`- Spacing ${g(gr.spacingBohr)} a0 (${g(gr.spacingAngstrom)} Å)`);
+  if (meta.canvas) L.push('', '## Canvas', '', `- ${meta.canvas.widthMm} × ${meta.canvas.heightMm} mm at ${meta.canvas.dpi} dpi`);
+  L.push('', '## Palette', '');
+  for (const [k, v] of Object.entries(meta.palette)) if (v !== undefined && v !== null) L.push(`- ${k}: ${String(v)}`);
+  L.push('', '## Provenance', '', `- Engine version ${meta.engineVersion}`, `- Generated ${meta.generatedAt}`, '- recipe.json in this bundle reproduces the figure with the same engine version.', '');
+  return L.join('\n');
+}

@@ -1,0 +1,194 @@
+import { parseOrbitalLabel, compileState } from '@psiform/orbitals';
+import { describe, expect, it } from 'vitest';
+import { base64, radialPlotSvg, sectionMapSvg } from '../src';
+import { PALETTE, byClass, parseSvg, pathPoints } from './helpers';
+
+const num = (e: { getAttribute(n: string): string | null }, a: string) => Number(e.getAttribute(a));
+
+function radial(n: number, l: number, extra: Partial<Parameters<typeof radialPlotSvg>[0]> = {}) {
+  const svg = radialPlotSvg({ n, l, Z: 1, palette: PALETTE, widthMm: 89, heightMm: 60, unit: 'bohr', ...extra });
+  const doc = parseSvg(svg);
+  const plot = byClass(doc, 'g', 'plot')[0];
+  const x0 = num(plot, 'data-x0');
+  const x1 = num(plot, 'data-x1');
+  const rMax = num(plot, 'data-rmax-bohr');
+  return { svg, doc, X: (r: number) => x0 + (r / rMax) * (x1 - x0), rMax };
+}
+
+describe('base64 (RFC 4648 §10 test vectors)', () => {
+  it('encodes "", f, fo, foo, foob, fooba, foobar', () => {
+    const e = new TextEncoder();
+    expect(['', 'f', 'fo', 'foo', 'foob', 'fooba', 'foobar'].map((s) => base64(e.encode(s)))).toEqual(['', 'Zg==', 'Zm8=', 'Zm9v', 'Zm9vYg==', 'Zm9vYmE=', 'Zm9vYmFy']);
+  });
+});
+
+describe('radialPlotSvg', () => {
+  it('is well-formed SVG 1.1 with width/height in mm and a matching viewBox', () => {
+    const { doc } = radial(1, 0);
+    const root = doc.documentElement!;
+    expect(root.getAttribute('xmlns')).toBe('http://www.w3.org/2000/svg');
+    expect(root.getAttribute('version')).toBe('1.1');
+    expect(root.getAttribute('width')).toBe('89mm');
+    expect(root.getAttribute('height')).toBe('60mm');
+    expect(root.getAttribute('viewBox')).toBe('0 0 89 60');
+  });
+  it('1s: forbidden region starts at the classical turning point r = 2 a0 (E = −1/2 = −1/r, a fact of the trade)', () => {
+    const { doc, X } = radial(1, 0);
+    const rects = byClass(doc, 'rect', 'forbidden');
+    expect(rects).toHaveLength(1); // l = 0: no inner forbidden region
+    expect(num(rects[0], 'data-r-bohr')).toBeCloseTo(2, 12);
+    expect(num(rects[0], 'x')).toBeCloseTo(X(2), 2); // coordinates are written to 1 µm
+    expect(byClass(doc, 'circle', 'node')).toHaveLength(0);
+  });
+  it('1s: the curve peaks at the most probable radius r = a0 (dP/dr = 0 for P = 4r²e^{−2r}), within one sample step', () => {
+    const { doc, X, rMax } = radial(1, 0);
+    const pts = pathPoints(byClass(doc, 'path', 'curve')[0].getAttribute('d')!);
+    expect(pts).toHaveLength(801);
+    const top = pts.reduce((a, b) => (b[1] < a[1] ? b : a));
+    expect(Math.abs(top[0] - X(1))).toBeLessThanOrEqual(X(rMax / 800) - X(0) + 1e-3);
+  });
+  it('2p: outer and inner turning points 4 ± 2√2 a0 (roots of −1/8 = −1/r + 1/r², i.e. E = −Z/r + l(l+1)/2r²)', () => {
+    const { doc, X } = radial(2, 1);
+    const outer = byClass(doc, 'rect', 'forbidden-outer')[0];
+    const inner = byClass(doc, 'rect', 'forbidden-inner')[0];
+    expect(num(outer, 'data-r-bohr')).toBeCloseTo(4 + 2 * Math.SQRT2, 10);
+    expect(num(outer, 'x')).toBeCloseTo(X(4 + 2 * Math.SQRT2), 2);
+    expect(num(inner, 'data-r-bohr')).toBeCloseTo(4 - 2 * Math.SQRT2, 10);
+    expect(num(inner, 'x') + num(inner, 'width')).toBeCloseTo(X(4 - 2 * Math.SQRT2), 2);
+  });
+  it('2s: one node marker at r = 2 a0 (R_20 ∝ (2 − r) e^{−r/2}; Griffiths, Introduction to QM, Table 4.7, table number from memory)', () => {
+    const { doc, X } = radial(2, 0);
+    const nodes = byClass(doc, 'circle', 'node');
+    expect(nodes).toHaveLength(1);
+    expect(num(nodes[0], 'data-r-bohr')).toBeCloseTo(2, 9);
+    expect(num(nodes[0], 'cx')).toBeCloseTo(X(2), 2);
+    // lobes by the sign of R: inside the node R > 0, outside R < 0
+    expect(byClass(doc, 'path', 'lobe-pos')).toHaveLength(1);
+    expect(byClass(doc, 'path', 'lobe-neg')).toHaveLength(1);
+  });
+  it('3s: node markers at (9 ∓ 3√3)/2 a0 (zeros of 27 − 18r + 2r², same table)', () => {
+    const { doc } = radial(3, 0);
+    const r = byClass(doc, 'circle', 'node').map((e) => num(e, 'data-r-bohr')).sort((a, b) => a - b);
+    expect(r[0]).toBeCloseTo((9 - 3 * Math.sqrt(3)) / 2, 9);
+    expect(r[1]).toBeCloseTo((9 + 3 * Math.sqrt(3)) / 2, 9);
+  });
+  it('title, axis units and model note; Å unit converts the axis', () => {
+    const { svg } = radial(2, 1, { unit: 'angstrom' });
+    expect(svg).toContain('Radial distribution of 2p, Z = 1');
+    expect(svg).toContain('r / Å');
+    expect(svg).toContain('one-electron hydrogen-like model');
+    const b = radial(2, 1, { unit: 'bohr' }).svg;
+    expect(b).toContain('r / a<tspan');
+  });
+  it('fonts: embeds the passed woff2 bytes as data URIs; without bytes says so and falls back', () => {
+    const withFonts = radialPlotSvg({ n: 1, l: 0, Z: 1, palette: PALETTE, widthMm: 89, heightMm: 60, unit: 'bohr', fonts: { regular: new Uint8Array([0, 1, 2, 3, 4]), bold: new TextEncoder().encode('foobar') } });
+    parseSvg(withFonts);
+    expect(withFonts).toContain('url(data:font/woff2;base64,AAECAwQ=) format("woff2")');
+    expect(withFonts).toContain('font-weight:700;font-style:normal;src:url(data:font/woff2;base64,Zm9vYmFy)');
+    const without = radial(1, 0).svg;
+    expect(without).toContain('No font bytes were passed');
+    expect(without).toContain('font-family:"Lato", sans-serif');
+  });
+  it('rejects bad input naming the field', () => {
+    expect(() => radialPlotSvg({ n: 2, l: 2, Z: 1, palette: PALETTE, widthMm: 89, heightMm: 60, unit: 'bohr' })).toThrow(/l/);
+    expect(() => radialPlotSvg({ n: 1, l: 0, Z: 1, palette: { ...PALETTE, positive: 'red"/><script>' }, widthMm: 89, heightMm: 60, unit: 'bohr' })).toThrow(/palette.positive/);
+    expect(() => radialPlotSvg({ n: 1, l: 0, Z: 1, palette: PALETTE, widthMm: 2, heightMm: 60, unit: 'bohr' })).toThrow(/widthMm/);
+    expect(() => radialPlotSvg({ n: 1, l: 0, Z: 1, palette: PALETTE, widthMm: 89, heightMm: 60, unit: 'parsec' as 'bohr' })).toThrow(/unit/);
+  });
+});
+
+function section(label: string, plane: 'xy' | 'xz' | 'yz', offset: number, levels = 3, n = 41) {
+  const svg = sectionMapSvg({ state: parseOrbitalLabel(label).state, plane, offset, extent: 10, n, levels, palette: PALETTE, widthMm: 88, heightMm: 100 });
+  const doc = parseSvg(svg);
+  const g = byClass(doc, 'g', 'section')[0];
+  const x0 = num(g, 'data-x0');
+  const y0 = num(g, 'data-y0');
+  const side = num(g, 'data-side');
+  return {
+    svg,
+    doc,
+    pos: byClass(doc, 'path', 'contour-pos'),
+    neg: byClass(doc, 'path', 'contour-neg'),
+    nodal: byClass(doc, 'path', 'nodal'),
+    U: (u: number) => x0 + ((u + 10) / 20) * side,
+    V: (v: number) => y0 + ((10 - v) / 20) * side,
+  };
+}
+
+describe('sectionMapSvg', () => {
+  it('well-formed, size in mm, viewBox', () => {
+    const { doc } = section('2pz', 'xz', 0);
+    const root = doc.documentElement!;
+    expect(root.getAttribute('width')).toBe('88mm');
+    expect(root.getAttribute('height')).toBe('100mm');
+    expect(root.getAttribute('viewBox')).toBe('0 0 88 100');
+  });
+  it('2p_z in the xz plane, 3 levels per sign: 3 contour-pos, 3 contour-neg, 1 nodal path on z = 0', () => {
+    const { pos, neg, nodal, V, svg } = section('2pz', 'xz', 0);
+    expect(pos.map((p) => p.getAttribute('data-level'))).toEqual(['1', '2', '3']);
+    expect(neg.map((p) => p.getAttribute('data-level'))).toEqual(['-1', '-2', '-3']);
+    expect(nodal).toHaveLength(1);
+    expect(nodal[0].getAttribute('data-level')).toBe('0');
+    // psi ∝ z: the nodal line is the x axis; every point of it sits at z = 0 (to 1 µm rounding)
+    const pts = pathPoints(nodal[0].getAttribute('d')!);
+    expect(pts.length).toBeGreaterThan(10);
+    for (const [, y] of pts) expect(Math.abs(y - V(0))).toBeLessThan(2e-3);
+    // + lobes above (z > 0, smaller SVG y), − below
+    for (const [, y] of pathPoints(pos[0].getAttribute('d')!)) expect(y).toBeLessThan(V(0));
+    for (const [, y] of pathPoints(neg[0].getAttribute('d')!)) expect(y).toBeGreaterThan(V(0));
+    expect(svg).toContain('2p_z');
+    expect(svg).toContain('one-electron hydrogen-like model');
+  });
+  it('levels are nested: level k+1 lies inside level k (smaller extent in u and v)', () => {
+    const { pos } = section('2pz', 'xz', 0, 3, 61);
+    const span = (d: string) => {
+      const p = pathPoints(d);
+      return Math.max(...p.map((q) => q[0])) - Math.min(...p.map((q) => q[0]));
+    };
+    const s = pos.map((p) => span(p.getAttribute('d')!));
+    expect(s[0]).toBeGreaterThan(s[1]);
+    expect(s[1]).toBeGreaterThan(s[2]);
+  });
+  it('2p_z in the xy plane at z = 0 is all nodal: no filled contour, one hatched nodal-plane path', () => {
+    const { pos, neg, nodal, svg } = section('2pz', 'xy', 0);
+    expect(pos).toHaveLength(0);
+    expect(neg).toHaveLength(0);
+    expect(nodal).toHaveLength(1);
+    expect(nodal[0].getAttribute('class')).toContain('nodal-plane');
+    expect(svg).toContain('ψ = 0 throughout this plane');
+  });
+  it('2p_z in the xy plane at z = 1 a0 is positive everywhere: only + contours, no nodal line', () => {
+    const { pos, neg, nodal } = section('2pz', 'xy', 1);
+    expect(pos).toHaveLength(3);
+    expect(neg).toHaveLength(0);
+    expect(nodal).toHaveLength(0);
+  });
+  it('3d_xy in the xy plane: nodal lines are the x and y axes (ψ ∝ xy), two + and two − lobes per level', () => {
+    const { pos, neg, nodal, U, V } = section('3dxy', 'xy', 0, 2);
+    expect(pos).toHaveLength(2);
+    expect(neg).toHaveLength(2);
+    const pts = pathPoints(nodal[0].getAttribute('d')!);
+    for (const [x, y] of pts) expect(Math.min(Math.abs(x - U(0)), Math.abs(y - V(0)))).toBeLessThan(2e-3);
+    const rings = (d: string) => (d.match(/M/g) ?? []).length;
+    expect(rings(pos[0].getAttribute('d')!)).toBe(2);
+    expect(rings(neg[0].getAttribute('d')!)).toBe(2);
+  });
+  it('accepts a compiled state and explicit thresholds; complex states note the signed-modulus drawing', () => {
+    const compiled = compileState(parseOrbitalLabel('2pz').state);
+    const svg = sectionMapSvg({ state: compiled, plane: 'yz', offset: 0, extent: 8, n: 31, thresholds: [0.01, 0.05], palette: PALETTE, widthMm: 60, heightMm: 70 });
+    const doc = parseSvg(svg);
+    expect(byClass(doc, 'path', 'contour-pos').map((p) => p.getAttribute('data-value'))).toEqual(['0.01', '0.05']);
+    expect(svg).toContain('2p_z');
+    const cx = sectionMapSvg({ state: parseOrbitalLabel('2p+1').state, plane: 'xz', offset: 0, extent: 10, n: 31, palette: PALETTE, widthMm: 60, heightMm: 70 });
+    parseSvg(cx);
+    expect(cx).toContain('|ψ| with the sign of Re ψ');
+  });
+  it('rejects bad input naming the field', () => {
+    const st = parseOrbitalLabel('2pz').state;
+    const base = { state: st, plane: 'xz' as const, offset: 0, extent: 10, n: 31, palette: PALETTE, widthMm: 88, heightMm: 100 };
+    expect(() => sectionMapSvg({ ...base, plane: 'ab' as 'xy' })).toThrow(/plane/);
+    expect(() => sectionMapSvg({ ...base, levels: 0 })).toThrow(/levels/);
+    expect(() => sectionMapSvg({ ...base, thresholds: [-1] })).toThrow(/thresholds/);
+    expect(() => sectionMapSvg({ ...base, state: { Z: 1, terms: [{ n: 1, l: 1, m: 0, basis: 'real', re: 1, im: 0 }] } })).toThrow(/state: terms\[0\]/);
+  });
+});
