@@ -10,7 +10,14 @@ const swc = [
     module: { type: 'commonjs' },
   },
 ];
-const common = { testEnvironment: 'node', transform: { '^.+\\.ts$': swc }, moduleFileExtensions: ['ts', 'js', 'json'] };
+// @gltf-transform/core (through @psiform/meshing) requires the ESM-only property-graph and d3-contour (d3-array, internmap), which Jest cannot
+// load as is on Node 20: swc compiles those packages to CommonJS.
+const common = {
+  testEnvironment: 'node',
+  transform: { '^.+\\.ts$': swc, '^.+/node_modules/(property-graph|d3-[a-z]+|internmap)/.+\\.m?js$': swc },
+  transformIgnorePatterns: ['/node_modules/(?!(property-graph|d3-[a-z]+|internmap)/)'],
+  moduleFileExtensions: ['ts', 'js', 'mjs', 'json'],
+};
 
 /** @type {import('jest').Config} */
 module.exports = {

@@ -11,6 +11,17 @@ import { UsersModule } from './users/users.module';
 import { AuthModule } from './auth/auth.module';
 import { PublicationsModule } from './publications/publications.module';
 import { HealthModule } from './health/health.module';
+import { QueueModule } from './infra/queue/queue.module';
+import { AssetsModule } from './assets/assets.module';
+import { JobsModule } from './jobs/jobs.module';
+import { FiguresModule } from './figures/figures.module';
+import { UploadsModule } from './uploads/uploads.module';
+import { MailNoticesModule } from './mail-notices/mail-notices.module';
+import { ReviewsModule } from './reviews/reviews.module';
+import { AuditModule } from './audit/audit.module';
+import { SwatchbooksModule } from './swatchbooks/swatchbooks.module';
+import { DevModule } from './dev/dev.module';
+import { ExportsModule } from './exports/exports.module';
 import { HttpErrorFilter } from './common/http-error.filter';
 
 @Module({})
@@ -32,6 +43,17 @@ export class AppModule implements OnApplicationShutdown {
         AuthModule,
         PublicationsModule,
         HealthModule,
+        QueueModule,
+        AssetsModule,
+        JobsModule,
+        FiguresModule,
+        UploadsModule,
+        MailNoticesModule,
+        ReviewsModule,
+        AuditModule,
+        SwatchbooksModule,
+        DevModule,
+        ExportsModule,
       ],
       providers: [{ provide: APP_FILTER, useClass: HttpErrorFilter }],
     };

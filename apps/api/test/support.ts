@@ -10,6 +10,7 @@ import { dataSourceOptions } from '../src/db/schema';
 import { runSeed } from '../src/seed/seed';
 import { createApp } from '../src/app.factory';
 import { REDIS_CLIENT } from '../src/infra/redis/redis.tokens';
+import { DEMO_PASSWORD as DEMO_PASSWORD_VALUE } from '../src/seed/demo-scenario';
 
 export { DEMO_PASSWORD, DEMO_USERS, DEMO_PUBLICATION } from '../src/seed/demo-scenario';
 
@@ -17,9 +18,9 @@ export { DEMO_PASSWORD, DEMO_USERS, DEMO_PUBLICATION } from '../src/seed/demo-sc
  * E2E specs run against the real PostgreSQL, Redis, S3 and SMTP named by the environment
  * (DATABASE_URL, REDIS_URL, S3_*, SMTP_URL, JWT_SECRET). Missing variables fail the suite loudly.
  */
-export function e2eConfig(): AppConfig {
+export function e2eConfig(overrides: Record<string, string> = {}): AppConfig {
   try {
-    return loadConfig({ ...process.env, PORT: '0' });
+    return loadConfig({ ...process.env, PORT: '0', ...overrides });
   } catch (err) {
     throw new Error(
       `E2E tests need the service environment (the test runner sets it; see DEVELOPERS.md): ${(err as Error).message}`,
@@ -40,8 +41,8 @@ export interface TestApp {
 }
 
 /** Migrates, seeds (both idempotent), builds the app exactly as main.ts does, and inits it. */
-export async function startTestApp(): Promise<TestApp> {
-  const config = e2eConfig();
+export async function startTestApp(overrides: Record<string, string> = {}): Promise<TestApp> {
+  const config = e2eConfig(overrides);
   await runMigrations(config.database.url);
   const seedDs = await new DataSource(dataSourceOptions(config.database.url)).initialize();
   try {
@@ -59,6 +60,8 @@ export async function startTestApp(): Promise<TestApp> {
     ds,
     redis,
     close: async () => {
+      await ds.query(`DELETE FROM figures WHERE title LIKE $1`, [`%${RUN_ID}%`]);
+      await ds.query(`DELETE FROM figures WHERE owner_id IN (SELECT id FROM users WHERE email LIKE $1)`, [`%-${RUN_ID}@e2e.psiform.test`]);
       await ds.query(`DELETE FROM publications WHERE title LIKE $1`, [`%${RUN_ID}%`]);
       await ds.query(`DELETE FROM users WHERE email LIKE $1`, [`%-${RUN_ID}@e2e.psiform.test`]);
       await deleteKeys(redis, `psiform:attempts:login:email:*-${RUN_ID}@e2e.psiform.test`);
@@ -87,4 +90,26 @@ async function deleteKeys(redis: Redis, pattern: string, extra: string[] = []): 
 /** Removes sign-in failure counters of the IPs (every request here comes from loopback) and of the given emails. */
 export async function clearLoginCounters(redis: Redis, emails: string[] = []): Promise<void> {
   await deleteKeys(redis, 'psiform:attempts:login:ip:*', emails.map((e) => `psiform:attempts:login:email:${e.toLowerCase()}`));
+}
+
+export const auth = (token: string) => ({ Authorization: `Bearer ${token}` });
+
+/** The demo illustrator's, editor's and admin's tokens. */
+export async function demoTokens(t: TestApp): Promise<{ illustrator: string; editor: string; artDirector: string; admin: string }> {
+  const [illustrator, editor, artDirector, admin] = await Promise.all(
+    ['illustrator', 'editor', 'artdirector', 'admin'].map(async (n) => (await login(t, `${n}@demo.psiform.test`, DEMO_PASSWORD_VALUE)).accessToken),
+  );
+  return { illustrator, editor, artDirector, admin };
+}
+
+/** A small valid recipe document (real 2p_z, Z = 1); `over` replaces top-level parts. */
+export function smallRecipe(over: Record<string, unknown> = {}): Record<string, any> {
+  return {
+    version: 1,
+    label: '2pz',
+    content: { Z: 1, terms: [{ n: 2, l: 1, m: 0, basis: 'real', re: 1 }] },
+    grid: { n: 32 },
+    surface: { rule: 'enclosed', fraction: 0.9 },
+    ...over,
+  };
 }

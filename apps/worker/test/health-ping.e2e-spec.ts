@@ -8,12 +8,12 @@ import { HEALTH_PING_JOB, QUEUES } from '@psiform/contracts';
 import { loadWorkerConfig, type WorkerConfig } from '../src/config/config';
 import { createWorker } from '../src/worker.factory';
 
-/** Runs against the real Redis named by REDIS_URL (the test runner sets it); fails loudly without it. */
+/** Runs against the real services named by the environment (the test runner sets them); fails loudly without them. */
 function config(): WorkerConfig {
   try {
     return loadWorkerConfig(process.env);
   } catch (err) {
-    throw new Error(`Worker e2e tests need REDIS_URL (the test runner sets it): ${(err as Error).message}`);
+    throw new Error(`Worker e2e tests need REDIS_URL, DATABASE_URL and S3_* (the test runner sets them): ${(err as Error).message}`);
   }
 }
 
@@ -72,7 +72,7 @@ describe('worker entry point (compiled)', () => {
 
   it('starts, answers a ping from another process, and stops on SIGTERM', async () => {
     const c = config();
-    const child = spawn(process.execPath, [main], { env: { PATH: process.env.PATH, REDIS_URL: c.redis.url, WORKER_CONCURRENCY: '1' } });
+    const child = spawn(process.execPath, [main], { env: { ...process.env, WORKER_CONCURRENCY: '1' } });
     let out = '';
     child.stdout.on('data', (d) => (out += d));
     child.stderr.on('data', (d) => (out += d));

@@ -96,3 +96,39 @@ export interface JobDto {
 
 /** Progress stages of a mesh job, in order. */
 export const MESH_STAGES = ['queued', 'sampling', 'threshold', 'extracting', 'encoding', 'storing', 'done'] as const;
+
+/** POST /api/figures/:id/meshes answer. */
+export interface CreateJobResponse {
+  jobId: string;
+}
+
+/** GET /api/assets/:id/link answer: a short-lived presigned GET URL. */
+export interface AssetLinkDto {
+  url: string;
+  expiresAt: string;
+}
+
+/**
+ * POST /api/uploads (multipart/form-data, parts in this order): publicationId, title, format ('nrrd' | 'raw'),
+ * optional quantity ('psi' | 'density', NRRD only; raw takes it from the sidecar) and fraction (enclosed
+ * fraction, default 0.9), for raw a `sidecar` JSON file (UploadSidecar), then the `cube` file.
+ */
+export const UPLOAD_FORMATS = ['nrrd', 'raw'] as const;
+export type UploadFormat = (typeof UPLOAD_FORMATS)[number];
+
+export interface UploadSidecar {
+  sizes: [number, number, number];
+  /** Grid spacing in a0: one number for all axes, or [dx, dy, dz]. */
+  spacing: number | [number, number, number];
+  /** Position of the first sample in a0; default: the cube centred on the origin. */
+  origin?: [number, number, number];
+  quantity: 'psi' | 'density';
+}
+
+export interface UploadResponse {
+  figureId: string;
+  assetId: string;
+}
+
+/** Default upload size limit (UPLOAD_MAX_BYTES): 512 MiB. */
+export const DEFAULT_UPLOAD_MAX_BYTES = 536870912;

@@ -3,3 +3,5 @@ export * from './states';
 export * from './api';
 export * from './recipe';
 export * from './figures';
+export * from './reviews';
+export * from './exports';

@@ -121,6 +121,35 @@ export const paletteSchema = z.object({
   negative: hexColor.default('#2f6690'),
 });
 
+/** Upload limits (issue: figures become jobs): each axis of an uploaded cube has 2..512 points. */
+export const UPLOAD_LIMITS = { sizeMin: 2, sizeMax: 512 } as const;
+
+const axisSize = z
+  .number()
+  .int({ message: 'size must be an integer' })
+  .min(UPLOAD_LIMITS.sizeMin, { message: `size must be at least ${UPLOAD_LIMITS.sizeMin}` })
+  .max(UPLOAD_LIMITS.sizeMax, { message: `size must be at most ${UPLOAD_LIMITS.sizeMax}` });
+const positive = (what: string) => finite(what).refine((v) => v > 0, { message: `${what} must be positive` });
+
+/**
+ * Where the sampled field comes from. Absent or 'computed': the engine samples content.terms on the grid.
+ * 'upload': a float32 cube stored as an NRRD asset (x fastest); content.terms and grid.n are then not used
+ * for sampling. quantity 'psi' keeps the sign (two phases); 'density' is |psi|² (one surface, phase '+').
+ */
+export const recipeSourceSchema = z.discriminatedUnion('kind', [
+  z.object({ kind: z.literal('computed') }),
+  z.object({
+    kind: z.literal('upload'),
+    assetId: z.string().uuid({ message: 'assetId must be a UUID' }),
+    sha256: z.string().regex(/^[0-9a-f]{64}$/, { message: 'sha256 must be 64 lower-case hex digits' }),
+    sizes: z.tuple([axisSize, axisSize, axisSize]),
+    spacing: z.tuple([positive('dx'), positive('dy'), positive('dz')]),
+    origin: z.tuple([finite('x'), finite('y'), finite('z')]),
+    quantity: z.enum(['psi', 'density']),
+  }),
+]);
+export type RecipeSource = z.infer<typeof recipeSourceSchema>;
+
 export const recipeSchema = z.object({
   version: z.literal(RECIPE_VERSION, { error: `version must be ${RECIPE_VERSION}` }),
   /** Display label such as "3d_xy" or "sp3 #1"; informative only, the terms are authoritative. */
@@ -145,6 +174,8 @@ export const recipeSchema = z.object({
   stage: stageSchema.default(stageSchema.parse({})),
   annotations: annotationsSchema.default(annotationsSchema.parse({})),
   canvas: canvasSchema.default({ widthMm: 89, heightMm: 60, dpi: 300 }),
+  /** Optional; absent means computed from content (backwards compatible). */
+  source: recipeSourceSchema.optional(),
 });
 
 export type Recipe = z.infer<typeof recipeSchema>;

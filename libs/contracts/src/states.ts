@@ -19,6 +19,8 @@ export const QUEUES = {
   health: 'psiform-health',
   mesh: 'psiform-mesh',
   render: 'psiform-render',
+  /** SVG, GLB/STL hand-over and bundle exports (studio issue). */
+  export: 'psiform-export',
   mail: 'psiform-mail',
 } as const;
 

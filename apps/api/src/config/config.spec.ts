@@ -29,6 +29,13 @@ describe('loadConfig', () => {
     expect(c.smtp.from).toBe('Psiform <no-reply@psiform.test>');
     expect(c.jwt.ttl).toBe('8h');
     expect(c.http).toEqual({ port: 3000, host: '127.0.0.1', webDist: undefined });
+    expect(c.uploads.maxBytes).toBe(536870912);
+  });
+
+  it('reads UPLOAD_MAX_BYTES and names it when bad', () => {
+    expect(loadConfig({ ...good, UPLOAD_MAX_BYTES: '1000' }).uploads.maxBytes).toBe(1000);
+    expect(problemsOf({ ...good, UPLOAD_MAX_BYTES: '0' })[0]).toMatch(/^UPLOAD_MAX_BYTES must be an integer/);
+    expect(problemsOf({ ...good, UPLOAD_MAX_BYTES: '1.5e6' })[0]).toMatch(/^UPLOAD_MAX_BYTES must be an integer/);
   });
 
   it('reads overrides', () => {

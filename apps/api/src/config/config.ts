@@ -10,9 +10,12 @@ export interface AppConfig {
   database: DatabaseConfig;
   redis: { url: string };
   s3: { endpoint: string; bucket: string; accessKeyId: string; secretAccessKey: string; region: string };
-  smtp: { url: string; from: string };
+  /** outboxFile: MAIL_OUTBOX_FILE, set only while the local mail fake is in use (GET /api/dev/outbox). */
+  smtp: { url: string; from: string; outboxFile?: string };
   jwt: { secret: string; ttl: string };
   http: { port: number; host: string; webDist: string | undefined };
+  /** Largest accepted cube file of POST /api/uploads, in bytes (UPLOAD_MAX_BYTES). */
+  uploads: { maxBytes: number };
 }
 
 export type Env = Record<string, string | undefined>;
@@ -30,6 +33,7 @@ export const DEFAULTS = {
   JWT_TTL: '8h',
   PORT: '3000',
   HOST: '127.0.0.1',
+  UPLOAD_MAX_BYTES: '536870912',
 } as const;
 
 export const MIN_JWT_SECRET_LENGTH = 32;
@@ -123,6 +127,7 @@ export function loadConfig(env: Env): AppConfig {
     smtp: {
       url: r.url('SMTP_URL', ['smtp:'], 'an smtp://host:port URL'),
       from: r.string('MAIL_FROM', DEFAULTS.MAIL_FROM),
+      outboxFile: r.optional('MAIL_OUTBOX_FILE'),
     },
     jwt: {
       secret: r.string('JWT_SECRET', undefined, MIN_JWT_SECRET_LENGTH),
@@ -133,6 +138,7 @@ export function loadConfig(env: Env): AppConfig {
       host: r.string('HOST', DEFAULTS.HOST),
       webDist: r.optional('WEB_DIST'),
     },
+    uploads: { maxBytes: r.int('UPLOAD_MAX_BYTES', DEFAULTS.UPLOAD_MAX_BYTES, 1, 17179869184) },
   };
   r.done();
   return config;

@@ -2,13 +2,28 @@ import type { DataSourceOptions } from 'typeorm';
 import { UserEntity } from '../users/user.entity';
 import { PublicationEntity } from '../publications/publication.entity';
 import { MembershipEntity } from '../publications/membership.entity';
+import { FigureEntity } from '../figures/figure.entity';
+import { FigureVersionEntity } from '../figures/figure-version.entity';
+import { AssetEntity } from '../assets/asset.entity';
+import { JobEntity } from '../jobs/job.entity';
 import { Foundation1764633600000 } from './migrations/1764633600000-Foundation';
+import { FigureJobs1764720000000 } from './migrations/1764720000000-FigureJobs';
+import { SwatchbookEntity, SwatchbookVersionEntity } from '../swatchbooks/swatchbook.entity';
+import { HouseStyleEntity } from '../swatchbooks/house-style.entity';
+import { BatchEntity, BatchItemEntity } from '../swatchbooks/batch.entity';
+import { ReviewRoundEntity } from '../reviews/review-round.entity';
+import { CommentEntity } from '../reviews/comment.entity';
+import { AuditEntryEntity } from '../audit/audit-entry.entity';
+import { EditorialReview1764806400000 } from './migrations/1764806400000-EditorialReview';
+import { FigureSetEntity } from '../exports/figure-set.entity';
+import { StudioExports1764979200000 } from './migrations/1764979200000-StudioExports';
 
 /** Entities and migrations are listed as classes (not globs) so the same list works compiled and under Jest. */
-export const ENTITIES = [UserEntity, PublicationEntity, MembershipEntity];
-export const MIGRATIONS = [Foundation1764633600000];
+export const ENTITIES = [UserEntity, PublicationEntity, MembershipEntity, FigureEntity, FigureVersionEntity, AssetEntity, JobEntity,
+  SwatchbookEntity, SwatchbookVersionEntity, HouseStyleEntity, BatchEntity, BatchItemEntity, ReviewRoundEntity, CommentEntity, AuditEntryEntity, FigureSetEntity];
+export const MIGRATIONS = [Foundation1764633600000, FigureJobs1764720000000, EditorialReview1764806400000, StudioExports1764979200000];
 
-export function dataSourceOptions(url: string): DataSourceOptions {
+export function dataSourceOptions(url: string, extra: { poolSize?: number } = {}): DataSourceOptions {
   return {
     type: 'postgres',
     url,
@@ -18,5 +33,6 @@ export function dataSourceOptions(url: string): DataSourceOptions {
     synchronize: false,
     migrationsRun: false,
     logging: ['error'],
+    ...(extra.poolSize ? { extra: { max: extra.poolSize } } : {}),
   };
 }

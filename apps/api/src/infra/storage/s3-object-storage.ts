@@ -1,17 +1,32 @@
 import { Inject, Injectable, Logger, type OnApplicationBootstrap, type OnApplicationShutdown } from '@nestjs/common';
-import { CreateBucketCommand, GetObjectCommand, HeadBucketCommand, PutObjectCommand, S3Client } from '@aws-sdk/client-s3';
+import type { Readable } from 'node:stream';
+import {
+  CopyObjectCommand,
+  CreateBucketCommand,
+  DeleteObjectCommand,
+  GetObjectCommand,
+  HeadBucketCommand,
+  HeadObjectCommand,
+  ListObjectsV2Command,
+  PutObjectCommand,
+  S3Client,
+} from '@aws-sdk/client-s3';
+import { Upload } from '@aws-sdk/lib-storage';
 import { getSignedUrl } from '@aws-sdk/s3-request-presigner';
 import { APP_CONFIG } from '../../config/config.tokens';
 import type { AppConfig } from '../../config/config';
-import { ObjectStorage } from './object-storage';
+import { ObjectStorage, type ObjectHead } from './object-storage';
 
+const statusOf = (err: unknown) => (err as { $metadata?: { httpStatusCode?: number } }).$metadata?.httpStatusCode;
+
+/** S3 adapter; the worker builds one directly from its own config (`new S3ObjectStorage({ s3 })`). */
 @Injectable()
 export class S3ObjectStorage extends ObjectStorage implements OnApplicationBootstrap, OnApplicationShutdown {
   private readonly log = new Logger('Storage');
   private readonly client: S3Client;
   private readonly bucket: string;
 
-  constructor(@Inject(APP_CONFIG) config: AppConfig) {
+  constructor(@Inject(APP_CONFIG) config: Pick<AppConfig, 's3'>) {
     super();
     this.bucket = config.s3.bucket;
     this.client = new S3Client({
@@ -43,8 +58,7 @@ export class S3ObjectStorage extends ObjectStorage implements OnApplicationBoots
     try {
       await this.client.send(new HeadBucketCommand({ Bucket: this.bucket }));
     } catch (err) {
-      const status = (err as { $metadata?: { httpStatusCode?: number } }).$metadata?.httpStatusCode;
-      if (status !== 404) throw err;
+      if (statusOf(err) !== 404) throw err;
       await this.client.send(new CreateBucketCommand({ Bucket: this.bucket }));
       this.log.log(`created bucket ${this.bucket}`);
     }
@@ -54,13 +68,71 @@ export class S3ObjectStorage extends ObjectStorage implements OnApplicationBoots
     await this.client.send(new HeadBucketCommand({ Bucket: this.bucket }));
   }
 
-  async put(key: string, body: Buffer, contentType: string): Promise<void> {
-    await this.client.send(new PutObjectCommand({ Bucket: this.bucket, Key: key, Body: body, ContentType: contentType }));
+  async put(key: string, body: Uint8Array, contentType: string, metadata?: Record<string, string>): Promise<void> {
+    await this.client.send(new PutObjectCommand({ Bucket: this.bucket, Key: key, Body: body, ContentType: contentType, ContentLength: body.byteLength, Metadata: metadata }));
+  }
+
+  async putStream(key: string, body: Readable, contentType: string): Promise<void> {
+    // lib-storage buffers at most queueSize parts of partSize bytes (5 MiB is the S3 minimum part).
+    const upload = new Upload({
+      client: this.client,
+      params: { Bucket: this.bucket, Key: key, Body: body, ContentType: contentType },
+      queueSize: 2,
+      partSize: 5 * 1024 * 1024,
+      leavePartsOnError: false,
+    });
+    let streamError: Error | undefined;
+    body.once('error', (err) => {
+      streamError = err;
+      void upload.abort().catch(() => undefined);
+    });
+    try {
+      await upload.done();
+    } catch (err) {
+      throw streamError ?? err;
+    }
+    if (streamError) throw streamError;
   }
 
   async get(key: string): Promise<Buffer> {
     const res = await this.client.send(new GetObjectCommand({ Bucket: this.bucket, Key: key }));
     return Buffer.from(await res.Body!.transformToByteArray());
+  }
+
+  async head(key: string): Promise<ObjectHead | null> {
+    try {
+      const res = await this.client.send(new HeadObjectCommand({ Bucket: this.bucket, Key: key }));
+      return { bytes: Number(res.ContentLength ?? 0), metadata: res.Metadata ?? {} };
+    } catch (err) {
+      if (statusOf(err) === 404) return null;
+      throw err;
+    }
+  }
+
+  async copy(fromKey: string, toKey: string, metadata?: Record<string, string>): Promise<void> {
+    await this.client.send(
+      new CopyObjectCommand({
+        Bucket: this.bucket,
+        Key: toKey,
+        CopySource: `${this.bucket}/${fromKey.split('/').map(encodeURIComponent).join('/')}`,
+        ...(metadata ? { Metadata: metadata, MetadataDirective: 'REPLACE' as const } : {}),
+      }),
+    );
+  }
+
+  async delete(key: string): Promise<void> {
+    await this.client.send(new DeleteObjectCommand({ Bucket: this.bucket, Key: key }));
+  }
+
+  async list(prefix: string): Promise<string[]> {
+    const keys: string[] = [];
+    let token: string | undefined;
+    do {
+      const res = await this.client.send(new ListObjectsV2Command({ Bucket: this.bucket, Prefix: prefix, ContinuationToken: token }));
+      for (const o of res.Contents ?? []) if (o.Key) keys.push(o.Key);
+      token = res.IsTruncated ? res.NextContinuationToken : undefined;
+    } while (token);
+    return keys;
   }
 
   presignGet(key: string, expiresInSeconds: number): Promise<string> {

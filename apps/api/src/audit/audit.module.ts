@@ -1,0 +1,18 @@
+import { Module } from '@nestjs/common';
+import { DataSource } from 'typeorm';
+import { PublicationsModule } from '../publications/publications.module';
+import { ReviewsStore, TypeormReviewsStore } from '../reviews/reviews.repository';
+import { AuditStore, TypeormAuditStore } from './audit.repository';
+import { AuditService } from './audit.service';
+import { AuditController } from './audit.controller';
+
+@Module({
+  imports: [PublicationsModule],
+  controllers: [AuditController],
+  providers: [
+    { provide: AuditStore, inject: [DataSource], useFactory: (ds: DataSource) => new TypeormAuditStore(ds) },
+    { provide: ReviewsStore, inject: [DataSource], useFactory: (ds: DataSource) => new TypeormReviewsStore(ds) },
+    AuditService,
+  ],
+})
+export class AuditModule {}

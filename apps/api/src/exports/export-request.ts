@@ -1,0 +1,89 @@
+import { EXPORT_DPI, EXPORT_FORMATS, EXPORT_LIMITS, SECTION_PLANES, type ExportFormat, type Recipe, type SectionPlane } from '@psiform/contracts';
+import { exportPixelSize } from '@psiform/print';
+
+/** What a render/export job is asked to do; stored in jobs.params and read by the worker. */
+export type ExportParams =
+  | { format: 'png'; widthMm: number; heightMm: number; dpi: number; widthPx: number; heightPx: number; transparent: boolean | null }
+  | { format: 'svg'; kind: 'radial' | 'section'; plane: SectionPlane; offset: number; levels: number; widthMm: number; heightMm: number }
+  | { format: 'glb' | 'stl' }
+  | { format: 'bundle' };
+
+export type ExportParse = { ok: true; params: ExportParams } | { ok: false; messages: string[] };
+
+const ALLOWED: Record<ExportFormat, readonly string[]> = {
+  png: ['format', 'widthMm', 'heightMm', 'dpi', 'transparent'],
+  svg: ['format', 'kind', 'plane', 'offset', 'levels', 'widthMm', 'heightMm'],
+  glb: ['format'],
+  stl: ['format'],
+  bundle: ['format'],
+};
+
+const show = (v: unknown) => (typeof v === 'string' ? JSON.stringify(v) : v === undefined ? 'nothing' : JSON.stringify(v) ?? String(v));
+
+function mm(body: Record<string, unknown>, field: string, problems: string[], fallback?: number): number {
+  const v = body[field] ?? fallback;
+  if (typeof v !== 'number' || !Number.isFinite(v) || v < EXPORT_LIMITS.mmMin || v > EXPORT_LIMITS.mmMax) {
+    problems.push(`${field}: must be a number of millimetres from ${EXPORT_LIMITS.mmMin} to ${EXPORT_LIMITS.mmMax} (got ${show(body[field])})`);
+    return NaN;
+  }
+  return v;
+}
+
+/**
+ * Checks an export request body (one of the ExportRequest shapes of @psiform/contracts). Every problem names its
+ * field, unknown fields included (as the ValidationPipe does for the other routes). Sizes the SVG request leaves
+ * out come from the recipe's canvas.
+ */
+export function parseExportRequest(body: unknown, recipe: Pick<Recipe, 'canvas' | 'source'>): ExportParse {
+  if (body === null || typeof body !== 'object' || Array.isArray(body)) return { ok: false, messages: ['body: must be a JSON object with a format'] };
+  const b = body as Record<string, unknown>;
+  const format = b.format;
+  if (typeof format !== 'string' || !(EXPORT_FORMATS as readonly string[]).includes(format)) {
+    return { ok: false, messages: [`format: must be one of ${EXPORT_FORMATS.join(', ')} (got ${show(format)})`] };
+  }
+  const f = format as ExportFormat;
+  const problems: string[] = [];
+  for (const k of Object.keys(b)) if (!ALLOWED[f].includes(k)) problems.push(`${k}: is not a field of a ${f} export`);
+
+  if (f === 'png') {
+    const widthMm = mm(b, 'widthMm', problems);
+    const heightMm = mm(b, 'heightMm', problems);
+    const dpi = b.dpi;
+    if (typeof dpi !== 'number' || !(EXPORT_DPI as readonly number[]).includes(dpi)) problems.push(`dpi: must be one of ${EXPORT_DPI.join(', ')} (got ${show(dpi)})`);
+    if (b.transparent !== undefined && typeof b.transparent !== 'boolean') problems.push(`transparent: must be true or false (got ${show(b.transparent)})`);
+    if (problems.length) return { ok: false, messages: problems };
+    const { width, height } = exportPixelSize({ widthMm, heightMm, dpi: dpi as number });
+    if (width > EXPORT_LIMITS.pxMax || height > EXPORT_LIMITS.pxMax || width * height > EXPORT_LIMITS.megapixelsMax * 1e6) {
+      return {
+        ok: false,
+        messages: [
+          `dpi: ${widthMm} × ${heightMm} mm at ${dpi} dpi is ${width} × ${height} px; the largest raster export is ${EXPORT_LIMITS.pxMax} px a side and ${EXPORT_LIMITS.megapixelsMax} megapixels (choose a lower dpi or a smaller size)`,
+        ],
+      };
+    }
+    return { ok: true, params: { format: 'png', widthMm, heightMm, dpi: dpi as number, widthPx: width, heightPx: height, transparent: (b.transparent as boolean | undefined) ?? null } };
+  }
+
+  if (f === 'svg') {
+    const kind = b.kind;
+    if (kind !== 'radial' && kind !== 'section') problems.push(`kind: must be radial or section (got ${show(kind)})`);
+    const plane = b.plane ?? 'xz';
+    if (typeof plane !== 'string' || !(SECTION_PLANES as readonly string[]).includes(plane)) problems.push(`plane: must be one of ${SECTION_PLANES.join(', ')} (got ${show(b.plane)})`);
+    const offset = b.offset ?? 0;
+    if (typeof offset !== 'number' || !Number.isFinite(offset) || Math.abs(offset) > 2000) problems.push(`offset: must be a number of Bohr radii from -2000 to 2000 (got ${show(b.offset)})`);
+    const levels = b.levels ?? EXPORT_LIMITS.sectionLevelsDefault;
+    if (typeof levels !== 'number' || !Number.isInteger(levels) || levels < EXPORT_LIMITS.sectionLevelsMin || levels > EXPORT_LIMITS.sectionLevelsMax) {
+      problems.push(`levels: must be an integer from ${EXPORT_LIMITS.sectionLevelsMin} to ${EXPORT_LIMITS.sectionLevelsMax} (got ${show(b.levels)})`);
+    }
+    const widthMm = mm(b, 'widthMm', problems, recipe.canvas.widthMm);
+    const heightMm = mm(b, 'heightMm', problems, recipe.canvas.heightMm);
+    if (!problems.length && recipe.source?.kind === 'upload') {
+      problems.push('kind: radial plots and section maps need the analytic state; this figure is an uploaded cube (export png, glb, stl or a bundle)');
+    }
+    if (problems.length) return { ok: false, messages: problems };
+    return { ok: true, params: { format: 'svg', kind: kind as 'radial' | 'section', plane: plane as SectionPlane, offset: offset as number, levels: levels as number, widthMm, heightMm } };
+  }
+
+  if (problems.length) return { ok: false, messages: problems };
+  return { ok: true, params: f === 'bundle' ? { format: 'bundle' } : { format: f } };
+}

@@ -1,0 +1,15 @@
+import { Module } from '@nestjs/common';
+import { DataSource } from 'typeorm';
+import { PublicationsModule } from '../publications/publications.module';
+import { FiguresModule } from '../figures/figures.module';
+import { JobsModule } from '../jobs/jobs.module';
+import { ExportsController } from './exports.controller';
+import { ExportsService } from './exports.service';
+import { FigureSetsStore, TypeormFigureSetsStore } from './figure-sets.repository';
+
+@Module({
+  imports: [PublicationsModule, FiguresModule, JobsModule],
+  controllers: [ExportsController],
+  providers: [{ provide: FigureSetsStore, inject: [DataSource], useFactory: (ds: DataSource) => new TypeormFigureSetsStore(ds) }, ExportsService],
+})
+export class ExportsModule {}

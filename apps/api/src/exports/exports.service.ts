@@ -1,0 +1,118 @@
+import { BadRequestException, ForbiddenException, Injectable, NotFoundException } from '@nestjs/common';
+import { FIGURE_SET_LIMITS, parseRecipe, type CreateFigureSetRequest, type CreateJobResponse, type FigureSetDto, type UserDto } from '@psiform/contracts';
+import { FiguresService } from '../figures/figures.service';
+import { FiguresStore } from '../figures/figures.repository';
+import type { FigureEntity } from '../figures/figure.entity';
+import { JobsService } from '../jobs/jobs.service';
+import { MembershipService } from '../publications/membership.service';
+import { parseExportRequest } from './export-request';
+import { FigureSetsStore } from './figure-sets.repository';
+import { toFigureSetDto } from './figure-set.entity';
+
+type Caller = Pick<UserDto, 'id' | 'role'>;
+
+/**
+ * Export requests become render jobs (png, QUEUES.render) or export jobs (svg, glb, stl, bundle, QUEUES.export)
+ * for the figure's current version; the worker does the work and lists the produced assets on the job.
+ * Who: admins; editors and art directors of the publication; illustrators for their own figures.
+ */
+@Injectable()
+export class ExportsService {
+  constructor(
+    private readonly figures: FiguresService,
+    private readonly figureStore: FiguresStore,
+    private readonly jobs: JobsService,
+    private readonly sets: FigureSetsStore,
+    private readonly membership: MembershipService,
+  ) {}
+
+  async requestExport(user: Caller, figureId: string, body: unknown): Promise<CreateJobResponse> {
+    const figure = await this.figures.requireFigure(user, figureId);
+    this.requireExporter(user, figure);
+    const version = await this.figureStore.findVersion(figure.id, figure.currentVersion);
+    if (!version) throw new NotFoundException(`figure ${figureId} has no current version`);
+    const recipe = parseRecipe(version.recipe);
+    if (!recipe.ok) throw new BadRequestException(['recipe: the stored recipe of this figure is not valid; save the figure again']);
+    const parsed = parseExportRequest(body, recipe.recipe);
+    if (!parsed.ok) throw new BadRequestException(parsed.messages);
+    const type = parsed.params.format === 'png' ? 'render' : 'export';
+    const job = await this.jobs.enqueue(type, {
+      publicationId: figure.publicationId,
+      figureId: figure.id,
+      figureVersionId: version.id,
+      requestedBy: user.id,
+      params: parsed.params,
+    });
+    return { jobId: job.id };
+  }
+
+  private requireExporter(user: Caller, figure: FigureEntity): void {
+    if (user.role === 'illustrator' && figure.ownerId !== user.id) {
+      throw new ForbiddenException("only the figure's owner, the publication's editors and art directors, or an admin can export this figure");
+    }
+  }
+
+  // ---- figure sets -------------------------------------------------------------------------------
+
+  async createSet(user: Caller, body: CreateFigureSetRequest): Promise<FigureSetDto> {
+    const problems = checkSetBody(body);
+    if (problems.length) throw new BadRequestException(problems);
+    await this.membership.requireAccess(user, body.publicationId);
+    for (const [i, id] of body.figureIds.entries()) {
+      const f = await this.figureStore.findById(id);
+      if (!f || f.publicationId !== body.publicationId) throw new BadRequestException([`figureIds.${i}: no figure ${id} in this publication`]);
+    }
+    const set = await this.sets.insert({ publicationId: body.publicationId, title: body.title.trim(), figureIds: body.figureIds, columns: body.columns, createdBy: user.id });
+    return toFigureSetDto(set);
+  }
+
+  async getSet(user: Caller, id: string): Promise<FigureSetDto> {
+    const set = await this.sets.findById(id);
+    if (!set || !(await this.membership.canAccess(user, set.publicationId))) throw new NotFoundException(`figure set ${id} not found`);
+    return toFigureSetDto(set);
+  }
+
+  /** One PNG of all panels: one camera, one scale (the largest extent of the set), panels labelled a, b, c ... */
+  async requestSetExport(user: Caller, id: string, body: unknown): Promise<CreateJobResponse> {
+    const set = await this.sets.findById(id);
+    if (!set || !(await this.membership.canAccess(user, set.publicationId))) throw new NotFoundException(`figure set ${id} not found`);
+    const parsed = parseExportRequest(body, { canvas: { widthMm: 178, heightMm: 120, dpi: 300 }, source: undefined });
+    if (!parsed.ok) throw new BadRequestException(parsed.messages);
+    if (parsed.params.format !== 'png') throw new BadRequestException(['format: a figure set exports as png only']);
+    const panels: { figureId: string; figureVersionId: string }[] = [];
+    for (const figureId of set.figureIds) {
+      const f = await this.figureStore.findById(figureId);
+      if (!f) throw new BadRequestException([`figureIds: figure ${figureId} of this set no longer exists`]);
+      const v = await this.figureStore.findVersion(f.id, f.currentVersion);
+      panels.push({ figureId: f.id, figureVersionId: v!.id });
+    }
+    const job = await this.jobs.enqueue('render', {
+      publicationId: set.publicationId,
+      figureId: null,
+      figureVersionId: null,
+      requestedBy: user.id,
+      params: { ...parsed.params, figureSetId: set.id, columns: set.columns, title: set.title, panels },
+    });
+    return { jobId: job.id };
+  }
+}
+
+const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
+
+export function checkSetBody(body: Partial<CreateFigureSetRequest> | null | undefined): string[] {
+  const p: string[] = [];
+  const b = (body ?? {}) as Record<string, unknown>;
+  for (const k of Object.keys(b)) if (!['publicationId', 'title', 'figureIds', 'columns'].includes(k)) p.push(`${k}: is not a field of a figure set`);
+  if (typeof b.publicationId !== 'string' || !UUID.test(b.publicationId)) p.push('publicationId: must be a UUID');
+  if (typeof b.title !== 'string' || b.title.trim().length < 1 || b.title.trim().length > 200) p.push('title: must be 1 to 200 characters');
+  const L = FIGURE_SET_LIMITS;
+  if (!Array.isArray(b.figureIds) || b.figureIds.length < L.figuresMin || b.figureIds.length > L.figuresMax) p.push(`figureIds: must list ${L.figuresMin} to ${L.figuresMax} figure ids`);
+  else {
+    b.figureIds.forEach((id, i) => {
+      if (typeof id !== 'string' || !UUID.test(id)) p.push(`figureIds.${i}: must be a UUID`);
+    });
+    if (new Set(b.figureIds).size !== b.figureIds.length) p.push('figureIds: must not repeat a figure');
+  }
+  if (typeof b.columns !== 'number' || !Number.isInteger(b.columns) || b.columns < L.columnsMin || b.columns > L.columnsMax) p.push(`columns: must be an integer from ${L.columnsMin} to ${L.columnsMax}`);
+  return p;
+}

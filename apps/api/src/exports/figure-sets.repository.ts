@@ -1,0 +1,33 @@
+import { Injectable } from '@nestjs/common';
+import { DataSource } from 'typeorm';
+import { FigureSetEntity } from './figure-set.entity';
+
+export interface NewFigureSet {
+  publicationId: string;
+  title: string;
+  figureIds: string[];
+  columns: number;
+  createdBy: string;
+}
+
+/** Port for figure_sets; only TypeormFigureSetsStore touches the table. */
+export abstract class FigureSetsStore {
+  abstract insert(set: NewFigureSet): Promise<FigureSetEntity>;
+  abstract findById(id: string): Promise<FigureSetEntity | null>;
+}
+
+@Injectable()
+export class TypeormFigureSetsStore extends FigureSetsStore {
+  constructor(private readonly ds: DataSource) {
+    super();
+  }
+
+  insert(set: NewFigureSet): Promise<FigureSetEntity> {
+    const repo = this.ds.getRepository(FigureSetEntity);
+    return repo.save(repo.create(set));
+  }
+
+  findById(id: string): Promise<FigureSetEntity | null> {
+    return this.ds.getRepository(FigureSetEntity).findOne({ where: { id } });
+  }
+}

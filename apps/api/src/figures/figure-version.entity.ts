@@ -1,0 +1,60 @@
+import { Column, CreateDateColumn, Entity, JoinColumn, ManyToOne, PrimaryGeneratedColumn } from 'typeorm';
+import type { FigureVersionDto, Recipe } from '@psiform/contracts';
+import { FigureEntity } from './figure.entity';
+import { UserEntity } from '../users/user.entity';
+
+/**
+ * One numbered state of a figure: the validated, defaults-filled recipe and its hash. Versions are only
+ * ever inserted; a locked one (submitted for review: a proof) is never modified (FiguresService).
+ */
+@Entity({ name: 'figure_versions' })
+export class FigureVersionEntity {
+  @PrimaryGeneratedColumn('uuid')
+  id: string;
+
+  @Column({ name: 'figure_id', type: 'uuid' })
+  figureId: string;
+
+  @ManyToOne(() => FigureEntity, { onDelete: 'CASCADE' })
+  @JoinColumn({ name: 'figure_id' })
+  figure?: FigureEntity;
+
+  @Column({ type: 'int' })
+  number: number;
+
+  @Column({ type: 'jsonb' })
+  recipe: Recipe;
+
+  /** sha256 (hex) of canonicalJson(recipe). */
+  @Column({ name: 'recipe_hash', type: 'char', length: 64 })
+  recipeHash: string;
+
+  @Column({ name: 'engine_version', type: 'varchar', length: 80 })
+  engineVersion: string;
+
+  @Column({ name: 'author_id', type: 'uuid' })
+  authorId: string;
+
+  @ManyToOne(() => UserEntity, { onDelete: 'RESTRICT' })
+  @JoinColumn({ name: 'author_id' })
+  author?: UserEntity;
+
+  @Column({ type: 'boolean', default: false })
+  locked: boolean;
+
+  @CreateDateColumn({ name: 'created_at', type: 'timestamptz' })
+  createdAt: Date;
+}
+
+export function toFigureVersionDto(v: FigureVersionEntity): FigureVersionDto {
+  return {
+    id: v.id,
+    figureId: v.figureId,
+    number: v.number,
+    recipe: v.recipe,
+    engineVersion: v.engineVersion,
+    authorId: v.authorId,
+    locked: v.locked,
+    createdAt: v.createdAt.toISOString(),
+  };
+}

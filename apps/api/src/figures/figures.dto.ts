@@ -1,0 +1,73 @@
+import { Transform, Type } from 'class-transformer';
+import { IsDefined, IsIn, IsInt, IsNotEmpty, IsOptional, IsString, IsUUID, Max, MaxLength, Min } from 'class-validator';
+import { FIGURE_STATUSES, type CreateFigureRequest, type FigureStatus, type UpdateFigureRequest } from '@psiform/contracts';
+
+const trim = ({ value }: { value: unknown }) => (typeof value === 'string' ? value.trim() : value);
+
+export const FIGURE_TITLE_MAX = 200;
+
+export class CreateFigureBody implements CreateFigureRequest {
+  @IsUUID('all', { message: 'publicationId must be a UUID' })
+  publicationId: string;
+
+  @Transform(trim)
+  @IsString({ message: 'title must be a string' })
+  @IsNotEmpty({ message: 'title must not be empty' })
+  @MaxLength(FIGURE_TITLE_MAX, { message: `title must be at most ${FIGURE_TITLE_MAX} characters` })
+  title: string;
+
+  /** Checked by parseRecipe in the service (messages name recipe.<path>). */
+  @IsDefined({ message: 'recipe is required' })
+  recipe: unknown;
+}
+
+export class UpdateFigureBody implements UpdateFigureRequest {
+  @IsOptional()
+  @Transform(trim)
+  @IsString({ message: 'title must be a string' })
+  @IsNotEmpty({ message: 'title must not be empty' })
+  @MaxLength(FIGURE_TITLE_MAX, { message: `title must be at most ${FIGURE_TITLE_MAX} characters` })
+  title?: string;
+
+  @IsOptional()
+  recipe?: unknown;
+}
+
+export const FIGURE_SORTS = ['updatedAt', 'createdAt', 'title', 'status'] as const;
+export type FigureSort = (typeof FIGURE_SORTS)[number];
+
+export class ListFiguresQuery {
+  @IsOptional()
+  @IsUUID('all', { message: 'publicationId must be a UUID' })
+  publicationId?: string;
+
+  @IsOptional()
+  @Type(() => Number)
+  @IsInt({ message: 'page must be an integer' })
+  @Min(1, { message: 'page must be at least 1' })
+  page?: number;
+
+  @IsOptional()
+  @Type(() => Number)
+  @IsInt({ message: 'pageSize must be an integer' })
+  @Min(1, { message: 'pageSize must be 1..100' })
+  @Max(100, { message: 'pageSize must be 1..100' })
+  pageSize?: number;
+
+  @IsOptional()
+  @IsString()
+  @MaxLength(200, { message: 'q must be at most 200 characters' })
+  q?: string;
+
+  @IsOptional()
+  @IsIn(FIGURE_STATUSES as readonly string[], { message: `status must be one of: ${FIGURE_STATUSES.join(', ')}` })
+  status?: FigureStatus;
+
+  @IsOptional()
+  @IsIn(FIGURE_SORTS as readonly string[], { message: `sort must be one of: ${FIGURE_SORTS.join(', ')}` })
+  sort?: FigureSort;
+
+  @IsOptional()
+  @IsIn(['asc', 'desc'], { message: 'order must be asc or desc' })
+  order?: 'asc' | 'desc';
+}

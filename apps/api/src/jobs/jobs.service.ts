@@ -1,0 +1,106 @@
+import { Injectable, NotFoundException, ServiceUnavailableException } from '@nestjs/common';
+import type { JobDto, UserDto } from '@psiform/contracts';
+import { JobsStore, type NewJob } from './jobs.repository';
+import type { JobEntity } from './job.entity';
+import { JobQueue } from '../infra/queue/job-queue';
+import { AssetStore } from '../assets/asset-store';
+import { toAssetDto } from '../assets/asset.entity';
+import { MembershipService } from '../publications/membership.service';
+import { DEFAULT_JOB_OPTIONS, JOB_ROUTES, type RoutedJobType } from '../pipeline/mesh-job';
+
+const FINAL: ReadonlySet<string> = new Set(['completed', 'failed']);
+
+export interface WatchOptions {
+  pollMs?: number;
+  signal?: AbortSignal;
+}
+
+/**
+ * The one place that creates Job rows and enqueues them (mesh now, render/export later), and reads them back.
+ * The BullMQ job id is the row id: every request is its own job, so queueing again after completion works;
+ * repeated work is cheap because outputs live under content-derived keys.
+ */
+@Injectable()
+export class JobsService {
+  constructor(
+    private readonly store: JobsStore,
+    private readonly queue: JobQueue,
+    private readonly assets: AssetStore,
+    private readonly membership: MembershipService,
+  ) {}
+
+  async enqueue(type: RoutedJobType, job: Omit<NewJob, 'type'>): Promise<JobEntity> {
+    const row = await this.store.insert({ ...job, type });
+    const route = JOB_ROUTES[type];
+    try {
+      const bullId = await this.queue.add(route.queue, route.name, row.id, { jobId: row.id }, DEFAULT_JOB_OPTIONS);
+      await this.store.setBullJobId(row.id, bullId);
+      row.bullJobId = bullId;
+      return row;
+    } catch (err) {
+      await this.store.remove(row.id);
+      throw new ServiceUnavailableException(`the job queue is not reachable, nothing was queued: ${(err as Error).message}`);
+    }
+  }
+
+  /** The job for a member of its publication; 404 for everyone else (and for unknown ids). */
+  async requireJob(user: Pick<UserDto, 'id' | 'role'>, id: string): Promise<JobEntity> {
+    const job = await this.store.findById(id);
+    if (!job || !(await this.membership.canAccess(user, job.publicationId))) throw new NotFoundException(`job ${id} not found`);
+    return job;
+  }
+
+  async get(user: Pick<UserDto, 'id' | 'role'>, id: string): Promise<JobDto> {
+    return this.toDto(await this.requireJob(user, id));
+  }
+
+  /**
+   * Snapshots of the job on every change (state, stage, progress, error), in order, ending with the final
+   * state. Reads the row the worker updates, every pollMs; stages the worker passes through faster than
+   * that are skipped, never reordered.
+   */
+  async *watch(id: string, opts: WatchOptions = {}): AsyncGenerator<JobDto> {
+    const pollMs = opts.pollMs ?? 250;
+    let last = '';
+    while (!opts.signal?.aborted) {
+      const job = await this.store.findById(id);
+      if (!job) return;
+      const key = `${job.state}|${job.stage}|${job.progress}|${job.error ?? ''}|${job.attempts}`;
+      if (key !== last) {
+        last = key;
+        yield await this.toDto(job);
+      }
+      if (FINAL.has(job.state)) return;
+      await sleep(pollMs, opts.signal);
+    }
+  }
+
+  async toDto(job: JobEntity): Promise<JobDto> {
+    const assets = await this.assets.findByIds(job.assetIds ?? []);
+    return {
+      id: job.id,
+      type: job.type,
+      state: job.state,
+      progress: job.progress,
+      stage: job.stage,
+      error: job.error,
+      figureId: job.figureId,
+      assets: assets.map(toAssetDto),
+      timings: job.timings,
+      createdAt: job.createdAt.toISOString(),
+      updatedAt: job.updatedAt.toISOString(),
+    };
+  }
+}
+
+function sleep(ms: number, signal?: AbortSignal): Promise<void> {
+  return new Promise((resolve) => {
+    const t = setTimeout(done, ms);
+    function done() {
+      clearTimeout(t);
+      signal?.removeEventListener('abort', done);
+      resolve();
+    }
+    signal?.addEventListener('abort', done, { once: true });
+  });
+}

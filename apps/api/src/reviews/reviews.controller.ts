@@ -1,0 +1,70 @@
+import { Body, Controller, Get, HttpCode, Param, Post } from '@nestjs/common';
+import type { CommentDto, ReviewDeskItemDto, ReviewTransitionDto, UserDto } from '@psiform/contracts';
+import { CurrentUser, Roles } from '../auth/auth.decorators';
+import { uuidParam } from '../common/uuid-param.pipe';
+import { CommentBody, OptionalNoteBody, RequestChangesBody } from './reviews.dto';
+import { ReviewsService } from './reviews.service';
+import { REVIEW_TRANSITIONS as T } from './review-transitions';
+
+/** Review steps on a figure; roles from the transition table, membership and state in ReviewsService. */
+@Controller('figures')
+export class ReviewsController {
+  constructor(private readonly reviews: ReviewsService) {}
+
+  @Post(':id/submit')
+  @HttpCode(200)
+  @Roles(...T.submit.roles)
+  submit(@CurrentUser() user: UserDto, @Param('id', uuidParam('id')) id: string): Promise<ReviewTransitionDto> {
+    return this.reviews.submit(user, id);
+  }
+
+  @Post(':id/request-changes')
+  @HttpCode(200)
+  @Roles(...T.request_changes.roles)
+  requestChanges(@CurrentUser() user: UserDto, @Param('id', uuidParam('id')) id: string, @Body() body: RequestChangesBody): Promise<ReviewTransitionDto> {
+    return this.reviews.requestChanges(user, id, body.note);
+  }
+
+  @Post(':id/approve')
+  @HttpCode(200)
+  @Roles(...T.approve.roles)
+  approve(@CurrentUser() user: UserDto, @Param('id', uuidParam('id')) id: string, @Body() body: OptionalNoteBody): Promise<ReviewTransitionDto> {
+    return this.reviews.approve(user, id, body.note || undefined);
+  }
+
+  @Post(':id/colour-signoff')
+  @HttpCode(200)
+  @Roles(...T.colour_signoff.roles)
+  colourSignoff(@CurrentUser() user: UserDto, @Param('id', uuidParam('id')) id: string, @Body() body: OptionalNoteBody): Promise<ReviewTransitionDto> {
+    return this.reviews.colourSignoff(user, id, body.note || undefined);
+  }
+
+  @Post(':id/release')
+  @HttpCode(200)
+  @Roles(...T.release.roles)
+  release(@CurrentUser() user: UserDto, @Param('id', uuidParam('id')) id: string): Promise<ReviewTransitionDto> {
+    return this.reviews.release(user, id);
+  }
+
+  @Post(':id/comments')
+  addComment(@CurrentUser() user: UserDto, @Param('id', uuidParam('id')) id: string, @Body() body: CommentBody): Promise<CommentDto> {
+    return this.reviews.addComment(user, id, body);
+  }
+
+  @Get(':id/comments')
+  listComments(@CurrentUser() user: UserDto, @Param('id', uuidParam('id')) id: string): Promise<CommentDto[]> {
+    return this.reviews.listComments(user, id);
+  }
+}
+
+@Controller('review-desk')
+export class ReviewDeskController {
+  constructor(private readonly reviews: ReviewsService) {}
+
+  /** Proofs in review in the caller's publications, oldest first. */
+  @Get()
+  @Roles('editor', 'art_director', 'admin')
+  list(@CurrentUser() user: UserDto): Promise<ReviewDeskItemDto[]> {
+    return this.reviews.reviewDesk(user);
+  }
+}

@@ -1,0 +1,174 @@
+import { Injectable } from '@nestjs/common';
+import { DataSource, IsNull, type EntityManager } from 'typeorm';
+import type { FigureStatus } from '@psiform/contracts';
+import { FigureEntity } from '../figures/figure.entity';
+import { FigureVersionEntity } from '../figures/figure-version.entity';
+import { PublicationEntity } from '../publications/publication.entity';
+import { MembershipEntity } from '../publications/membership.entity';
+import { UserEntity } from '../users/user.entity';
+import { HouseStyleEntity } from '../swatchbooks/house-style.entity';
+import { insertAudit, type NewAuditEntry } from '../audit/audit.repository';
+import { ReviewRoundEntity } from './review-round.entity';
+import { CommentEntity } from './comment.entity';
+
+/** What a review step may do inside its transaction (the figure row is locked FOR UPDATE). */
+export interface ReviewTx {
+  readonly figure: FigureEntity;
+  readonly version: FigureVersionEntity;
+  openRound(): Promise<ReviewRoundEntity | null>;
+  startRound(submittedBy: string): Promise<ReviewRoundEntity>;
+  saveRound(round: ReviewRoundEntity): Promise<void>;
+  /** The current version becomes a proof: locked, never modified again. */
+  lockVersion(): Promise<void>;
+  setStatus(status: FigureStatus): Promise<void>;
+  audit(entry: Omit<NewAuditEntry, 'figureId'>): Promise<void>;
+  addComment(c: { figureVersionId: string | null; authorId: string; body: string; pinX: number | null; pinY: number | null }): Promise<CommentEntity>;
+}
+
+export interface HouseRules {
+  swatchbookId: string;
+  requireColourSignOff: boolean;
+  allowOverride: boolean;
+}
+
+export interface ReviewDeskRow {
+  figure: FigureEntity;
+  publicationTitle: string;
+  round: ReviewRoundEntity | null;
+  submitterName: string | null;
+  requireColourSignOff: boolean;
+}
+
+/** Port for review rounds, comments and figure status; TypeormReviewsStore is the only class touching them. */
+export abstract class ReviewsStore {
+  abstract findFigure(id: string): Promise<FigureEntity | null>;
+  abstract findVersionById(id: string): Promise<FigureVersionEntity | null>;
+  abstract inFigureTransaction<T>(figureId: string, fn: (tx: ReviewTx) => Promise<T>): Promise<T>;
+  abstract houseRules(publicationId: string): Promise<HouseRules | null>;
+  abstract publicationTitle(publicationId: string): Promise<string>;
+  /** Emails of the editors who are members of the publication. */
+  abstract editorEmails(publicationId: string): Promise<string[]>;
+  abstract userInfo(id: string): Promise<{ email: string; displayName: string } | null>;
+  abstract listComments(figureId: string): Promise<{ comment: CommentEntity; authorName: string | null }[]>;
+  abstract reviewDesk(publicationIds: string[] | 'all'): Promise<ReviewDeskRow[]>;
+  /** An audit entry on its own (for changes other modules commit, e.g. a PATCH making a new version). */
+  abstract recordAudit(entry: NewAuditEntry): Promise<void>;
+}
+
+@Injectable()
+export class TypeormReviewsStore extends ReviewsStore {
+  constructor(private readonly ds: DataSource) {
+    super();
+  }
+
+  findFigure(id: string) {
+    return this.ds.getRepository(FigureEntity).findOne({ where: { id } });
+  }
+
+  findVersionById(id: string) {
+    return this.ds.getRepository(FigureVersionEntity).findOne({ where: { id } });
+  }
+
+  inFigureTransaction<T>(figureId: string, fn: (tx: ReviewTx) => Promise<T>): Promise<T> {
+    return this.ds.transaction(async (em) => {
+      const figure = await em.getRepository(FigureEntity).createQueryBuilder('f').setLock('pessimistic_write').where('f.id = :id', { id: figureId }).getOne();
+      if (!figure) throw new Error(`figure ${figureId} vanished`);
+      const version = await em.getRepository(FigureVersionEntity).findOneOrFail({ where: { figureId, number: figure.currentVersion } });
+      return fn(this.tx(em, figure, version));
+    });
+  }
+
+  private tx(em: EntityManager, figure: FigureEntity, version: FigureVersionEntity): ReviewTx {
+    const rounds = em.getRepository(ReviewRoundEntity);
+    return {
+      figure,
+      version,
+      openRound: () => rounds.findOne({ where: { figureId: figure.id, closedAt: IsNull() } }),
+      startRound: (submittedBy) => rounds.save(rounds.create({ figureId: figure.id, figureVersionId: version.id, submittedBy, submittedAt: new Date() })),
+      saveRound: async (round) => {
+        await rounds.save(round);
+      },
+      lockVersion: async () => {
+        await em.getRepository(FigureVersionEntity).update({ id: version.id }, { locked: true });
+        version.locked = true;
+      },
+      setStatus: async (status) => {
+        await em.getRepository(FigureEntity).update({ id: figure.id }, { status });
+        figure.status = status;
+      },
+      audit: (entry) => insertAudit(em, { ...entry, figureId: figure.id }),
+      addComment: (c) => em.getRepository(CommentEntity).save(em.getRepository(CommentEntity).create({ ...c, figureId: figure.id })),
+    };
+  }
+
+  async houseRules(publicationId: string): Promise<HouseRules | null> {
+    const h = await this.ds.getRepository(HouseStyleEntity).findOne({ where: { publicationId } });
+    return h ? { swatchbookId: h.swatchbookId, requireColourSignOff: h.requireColourSignOff, allowOverride: h.allowOverride } : null;
+  }
+
+  async publicationTitle(publicationId: string): Promise<string> {
+    return (await this.ds.getRepository(PublicationEntity).findOne({ where: { id: publicationId } }))?.title ?? '';
+  }
+
+  async editorEmails(publicationId: string): Promise<string[]> {
+    const rows = await this.ds
+      .getRepository(UserEntity)
+      .createQueryBuilder('u')
+      .innerJoin(MembershipEntity, 'm', 'm.user_id = u.id AND m.publication_id = :publicationId', { publicationId })
+      .where('u.role = :role', { role: 'editor' })
+      .orderBy('u.email')
+      .getMany();
+    return rows.map((u) => u.email);
+  }
+
+  async userInfo(id: string) {
+    const u = await this.ds.getRepository(UserEntity).findOne({ where: { id } });
+    return u ? { email: u.email, displayName: u.displayName } : null;
+  }
+
+  async listComments(figureId: string) {
+    const { entities, raw } = await this.ds
+      .getRepository(CommentEntity)
+      .createQueryBuilder('c')
+      .leftJoin(UserEntity, 'u', 'u.id = c.author_id')
+      .addSelect('u.display_name', 'author_name')
+      .where('c.figure_id = :figureId', { figureId })
+      .orderBy('c.created_at', 'ASC')
+      .addOrderBy('c.id', 'ASC')
+      .getRawAndEntities();
+    return entities.map((comment, i) => ({ comment, authorName: (raw[i]?.author_name as string | undefined) ?? null }));
+  }
+
+  async reviewDesk(publicationIds: string[] | 'all'): Promise<ReviewDeskRow[]> {
+    if (publicationIds !== 'all' && publicationIds.length === 0) return [];
+    const qb = this.ds
+      .getRepository(FigureEntity)
+      .createQueryBuilder('f')
+      .innerJoin(PublicationEntity, 'p', 'p.id = f.publication_id')
+      .leftJoin(ReviewRoundEntity, 'r', 'r.figure_id = f.id AND r.closed_at IS NULL')
+      .leftJoin(UserEntity, 'u', 'u.id = r.submitted_by')
+      .leftJoin(HouseStyleEntity, 'h', 'h.publication_id = f.publication_id')
+      .addSelect('p.title', 'publication_title')
+      .addSelect('u.display_name', 'submitter_name')
+      .addSelect('r.id', 'round_id')
+      .addSelect('h.require_colour_signoff', 'require_signoff')
+      .where('f.status = :status', { status: 'in_review' });
+    if (publicationIds !== 'all') qb.andWhere('f.publication_id IN (:...pubs)', { pubs: publicationIds });
+    qb.orderBy('r.submitted_at', 'ASC', 'NULLS LAST').addOrderBy('f.id', 'ASC');
+    const { entities, raw } = await qb.getRawAndEntities();
+    const roundIds = raw.map((r) => r.round_id as string | null).filter((x): x is string => !!x);
+    const rounds = roundIds.length ? await this.ds.getRepository(ReviewRoundEntity).createQueryBuilder('r').where('r.id IN (:...ids)', { ids: roundIds }).getMany() : [];
+    const byId = new Map(rounds.map((r) => [r.id, r]));
+    return entities.map((figure, i) => ({
+      figure,
+      publicationTitle: raw[i].publication_title as string,
+      round: byId.get(raw[i].round_id as string) ?? null,
+      submitterName: (raw[i].submitter_name as string | null) ?? null,
+      requireColourSignOff: raw[i].require_signoff === true,
+    }));
+  }
+
+  async recordAudit(entry: NewAuditEntry): Promise<void> {
+    await insertAudit(this.ds.manager, entry);
+  }
+}

@@ -1,0 +1,165 @@
+import { ConflictException, ForbiddenException, NotFoundException } from '@nestjs/common';
+import type { FigureStatus, MailNoticeJob, UserDto } from '@psiform/contracts';
+import type { FigureEntity } from '../figures/figure.entity';
+import type { FigureVersionEntity } from '../figures/figure-version.entity';
+import type { MembershipService } from '../publications/membership.service';
+import type { NoticesService } from '../mail-notices/notices.service';
+import type { NewAuditEntry } from '../audit/audit.repository';
+import { ReviewsStore, type HouseRules, type ReviewTx } from './reviews.repository';
+import type { ReviewRoundEntity } from './review-round.entity';
+import type { CommentEntity } from './comment.entity';
+import { ReviewsService } from './reviews.service';
+
+const PUB = 'pub-1';
+const users: Record<string, { email: string; displayName: string }> = {
+  ill: { email: 'ill@x.test', displayName: 'Ilse' },
+  ed: { email: 'ed@x.test', displayName: 'Tomas' },
+  ad: { email: 'ad@x.test', displayName: 'Priya' },
+};
+const caller = (id: string, role: UserDto['role']) => ({ id, role });
+
+/** In-memory store: one figure, its versions, rounds and audit entries. A failed step rolls back (copy on entry). */
+class FakeStore extends ReviewsStore {
+  figure = { id: 'f1', publicationId: PUB, title: 'Figure 1.1 1s', ownerId: 'ill', status: 'draft' as FigureStatus, currentVersion: 1 } as FigureEntity;
+  version = { id: 'v1', figureId: 'f1', number: 1, locked: false } as FigureVersionEntity;
+  rounds: ReviewRoundEntity[] = [];
+  audit: NewAuditEntry[] = [];
+  rules: HouseRules | null = null;
+
+  async findFigure(id: string) {
+    return id === this.figure.id ? this.figure : null;
+  }
+  async findVersionById(id: string) {
+    return id === this.version.id ? this.version : null;
+  }
+  async inFigureTransaction<T>(_id: string, fn: (tx: ReviewTx) => Promise<T>): Promise<T> {
+    const saved = { status: this.figure.status, locked: this.version.locked, rounds: this.rounds.map((r) => ({ ...r })), audit: [...this.audit] };
+    const tx: ReviewTx = {
+      figure: this.figure,
+      version: this.version,
+      openRound: async () => this.rounds.find((r) => !r.closedAt) ?? null,
+      startRound: async (by) => {
+        const r = { id: `r${this.rounds.length + 1}`, figureId: 'f1', figureVersionId: this.version.id, submittedBy: by, submittedAt: new Date(), editorApprovedBy: null, editorApprovedAt: null, colourSignedOffBy: null, colourSignedOffAt: null, closedAt: null, outcome: null } as ReviewRoundEntity;
+        this.rounds.push(r);
+        return r;
+      },
+      saveRound: async (r) => {
+        this.rounds = this.rounds.map((x) => (x.id === r.id ? r : x));
+      },
+      lockVersion: async () => {
+        this.version.locked = true;
+      },
+      setStatus: async (s) => {
+        this.figure.status = s;
+      },
+      audit: async (e) => {
+        this.audit.push({ ...e, figureId: 'f1' });
+      },
+      addComment: async (c) => ({ id: 'c1', figureId: 'f1', createdAt: new Date(), ...c }) as CommentEntity,
+    };
+    try {
+      return await fn(tx);
+    } catch (err) {
+      this.figure.status = saved.status;
+      this.version.locked = saved.locked;
+      this.rounds = saved.rounds;
+      this.audit = saved.audit;
+      throw err;
+    }
+  }
+  async houseRules() {
+    return this.rules;
+  }
+  async publicationTitle() {
+    return 'Shells and Lobes';
+  }
+  async editorEmails() {
+    return ['ed@x.test'];
+  }
+  async userInfo(id: string) {
+    return users[id] ?? null;
+  }
+  async listComments() {
+    return [];
+  }
+  async reviewDesk() {
+    return [];
+  }
+  async recordAudit(e: NewAuditEntry) {
+    this.audit.push(e);
+  }
+}
+
+function setup(members = ['ill', 'ed', 'ad']) {
+  const store = new FakeStore();
+  const sent: MailNoticeJob[] = [];
+  const membership = { canAccess: async (u: { id: string; role: string }) => u.role === 'admin' || members.includes(u.id) } as unknown as MembershipService;
+  const notices = { send: async (m: MailNoticeJob) => (sent.push(m), true) } as unknown as NoticesService;
+  return { store, sent, svc: new ReviewsService(store, membership, notices) };
+}
+
+describe('ReviewsService', () => {
+  it('submit: owner only, locks the version, opens a round, audits and notifies the editors', async () => {
+    const { store, sent, svc } = setup(['ill', 'ed', 'other']);
+    await expect(svc.submit(caller('other', 'illustrator'), 'f1')).rejects.toThrow(ForbiddenException);
+    await expect(svc.submit(caller('stranger', 'illustrator'), 'f1')).rejects.toThrow(NotFoundException);
+    const r = await svc.submit(caller('ill', 'illustrator'), 'f1');
+    expect(r).toMatchObject({ fromStatus: 'draft', status: 'in_review', versionNumber: 1 });
+    expect(store.version.locked).toBe(true);
+    expect(store.rounds).toHaveLength(1);
+    expect(store.audit).toEqual([expect.objectContaining({ action: 'submit', actorId: 'ill', fromStatus: 'draft', toStatus: 'in_review' })]);
+    expect(sent).toEqual([expect.objectContaining({ to: ['ed@x.test'], subject: 'Proof ready for review: "Figure 1.1 1s"' })]);
+  });
+
+  it('a step not allowed from the current state is 409 and changes nothing', async () => {
+    const { store, sent, svc } = setup();
+    await expect(svc.approve(caller('ed', 'editor'), 'f1')).rejects.toThrow(new ConflictException('cannot approve a figure that is draft: allowed only from in_review'));
+    expect(store.audit).toEqual([]);
+    expect(sent).toEqual([]);
+  });
+
+  it('request changes closes the round and tells the owner, with the note', async () => {
+    const { store, sent, svc } = setup();
+    await svc.submit(caller('ill', 'illustrator'), 'f1');
+    await svc.requestChanges(caller('ed', 'editor'), 'f1', 'Lighten the negative lobe');
+    expect(store.figure.status).toBe('changes_requested');
+    expect(store.rounds[0]).toMatchObject({ outcome: 'changes_requested' });
+    expect(sent[1]).toMatchObject({ to: ['ill@x.test'], subject: 'Changes requested on "Figure 1.1 1s"' });
+    expect(sent[1].text).toContain('Lighten the negative lobe');
+  });
+
+  it('with colour sign-off required: editor approval waits; the second approval is 409; sign-off completes it', async () => {
+    const { store, sent, svc } = setup();
+    store.rules = { swatchbookId: 's', requireColourSignOff: true, allowOverride: false };
+    await svc.submit(caller('ill', 'illustrator'), 'f1');
+    const first = await svc.approve(caller('ed', 'editor'), 'f1');
+    expect(first).toMatchObject({ status: 'in_review', missing: ['colour_signoff'] });
+    expect(store.figure.status).toBe('in_review');
+    await expect(svc.approve(caller('ed', 'editor'), 'f1')).rejects.toThrow(ConflictException);
+    expect(sent).toHaveLength(1); // no approval notice yet
+    const done = await svc.colourSignoff(caller('ad', 'art_director'), 'f1', 'ok');
+    expect(done).toMatchObject({ status: 'approved', missing: [] });
+    expect(store.rounds[0]).toMatchObject({ outcome: 'approved', editorApprovedBy: 'ed', colourSignedOffBy: 'ad' });
+    expect(sent[1]).toMatchObject({ to: ['ill@x.test'], subject: 'Approved: "Figure 1.1 1s"' });
+    expect(store.audit.map((a) => [a.action, a.toStatus])).toEqual([
+      ['submit', 'in_review'],
+      ['approve', 'in_review'],
+      ['colour_signoff', 'approved'],
+    ]);
+  });
+
+  it('edits: only draft and changes_requested figures; a new version is audited as revise', async () => {
+    const { store, svc } = setup();
+    const before = await svc.assertEditable(caller('ill', 'illustrator'), 'f1');
+    expect(before).toEqual({ status: 'draft', versionNumber: 1 });
+    await svc.submit(caller('ill', 'illustrator'), 'f1');
+    await expect(svc.assertEditable(caller('ill', 'illustrator'), 'f1')).rejects.toThrow('cannot edit a figure that is in_review');
+    expect(await svc.assertEditable(caller('stranger', 'illustrator'), 'f1')).toBeNull();
+    await svc.requestChanges(caller('ed', 'editor'), 'f1', 'x');
+    const b = (await svc.assertEditable(caller('ill', 'illustrator'), 'f1'))!;
+    store.figure.currentVersion = 2;
+    store.figure.status = 'draft';
+    await svc.recordRevision(caller('ill', 'illustrator'), 'f1', b);
+    expect(store.audit.at(-1)).toMatchObject({ action: 'revise', fromStatus: 'changes_requested', toStatus: 'draft', note: 'version 2 created' });
+  });
+});

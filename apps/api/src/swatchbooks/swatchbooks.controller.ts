@@ -1,0 +1,111 @@
+import { Body, Controller, Get, HttpCode, Param, Patch, Post, Put, Res } from '@nestjs/common';
+import type { Response } from 'express';
+import type { BatchDto, HouseStyleDto, SwatchbookCheckDto, SwatchbookDto, SwatchbookVersionDto, UserDto } from '@psiform/contracts';
+import { CurrentUser, Roles } from '../auth/auth.decorators';
+import { uuidParam } from '../common/uuid-param.pipe';
+import { CreateSwatchbookBody, HouseStyleBody, ImportSwatchbookBody, UpdateSwatchbookBody } from './swatchbooks.dto';
+import { SwatchbooksService } from './swatchbooks.service';
+import { RerenderService } from './rerender.service';
+
+/** Art directors (and admins) own swatchbooks; every signed-in user reads them. */
+@Controller('swatchbooks')
+export class SwatchbooksController {
+  constructor(private readonly swatchbooks: SwatchbooksService) {}
+
+  @Post()
+  @Roles('art_director', 'admin')
+  create(@CurrentUser() user: UserDto, @Body() body: CreateSwatchbookBody): Promise<SwatchbookDto> {
+    return this.swatchbooks.create(user, body);
+  }
+
+  @Post('import')
+  @Roles('art_director', 'admin')
+  import(@CurrentUser() user: UserDto, @Body() body: ImportSwatchbookBody): Promise<SwatchbookDto> {
+    return this.swatchbooks.import(user, body);
+  }
+
+  @Get()
+  list(): Promise<SwatchbookDto[]> {
+    return this.swatchbooks.list();
+  }
+
+  @Get(':id')
+  get(@Param('id', uuidParam('id')) id: string): Promise<SwatchbookDto> {
+    return this.swatchbooks.get(id);
+  }
+
+  @Patch(':id')
+  @Roles('art_director', 'admin')
+  update(@CurrentUser() user: UserDto, @Param('id', uuidParam('id')) id: string, @Body() body: UpdateSwatchbookBody): Promise<SwatchbookDto> {
+    return this.swatchbooks.update(user, id, body);
+  }
+
+  @Post(':id/lock')
+  @HttpCode(200)
+  @Roles('art_director', 'admin')
+  lock(@CurrentUser() user: UserDto, @Param('id', uuidParam('id')) id: string): Promise<SwatchbookDto> {
+    return this.swatchbooks.setLocked(user, id, true);
+  }
+
+  @Post(':id/unlock')
+  @HttpCode(200)
+  @Roles('art_director', 'admin')
+  unlock(@CurrentUser() user: UserDto, @Param('id', uuidParam('id')) id: string): Promise<SwatchbookDto> {
+    return this.swatchbooks.setLocked(user, id, false);
+  }
+
+  @Get(':id/versions')
+  versions(@Param('id', uuidParam('id')) id: string): Promise<SwatchbookVersionDto[]> {
+    return this.swatchbooks.versions(id);
+  }
+
+  @Get(':id/checks')
+  checks(@Param('id', uuidParam('id')) id: string): Promise<SwatchbookCheckDto> {
+    return this.swatchbooks.checks(id);
+  }
+
+  /** The swatchbook as a JSON file (POST /api/swatchbooks/import takes it back). */
+  @Get(':id/export')
+  async export(@Param('id', uuidParam('id')) id: string, @Res({ passthrough: true }) res: Response): Promise<unknown> {
+    const file = await this.swatchbooks.exportFile(id);
+    const safe = file.name.replace(/[^A-Za-z0-9._-]+/g, '-').replace(/^-+|-+$/g, '') || 'swatchbook';
+    res.setHeader('Content-Disposition', `attachment; filename="${safe}.swatchbook.json"`);
+    return file;
+  }
+}
+
+@Controller('publications')
+export class HouseStyleController {
+  constructor(
+    private readonly swatchbooks: SwatchbooksService,
+    private readonly rerenders: RerenderService,
+  ) {}
+
+  @Get(':id/house-style')
+  get(@CurrentUser() user: UserDto, @Param('id', uuidParam('id')) id: string): Promise<HouseStyleDto> {
+    return this.swatchbooks.getHouseStyle(user, id);
+  }
+
+  @Put(':id/house-style')
+  @Roles('art_director', 'admin')
+  put(@CurrentUser() user: UserDto, @Param('id', uuidParam('id')) id: string, @Body() body: HouseStyleBody): Promise<HouseStyleDto> {
+    return this.swatchbooks.putHouseStyle(user, id, body);
+  }
+
+  /** Batch re-render with the pinned swatchbook's current colours. */
+  @Post(':id/rerender')
+  @Roles('art_director', 'admin')
+  rerender(@CurrentUser() user: UserDto, @Param('id', uuidParam('id')) id: string): Promise<BatchDto> {
+    return this.rerenders.rerender(user, id);
+  }
+}
+
+@Controller('batches')
+export class BatchesController {
+  constructor(private readonly rerenders: RerenderService) {}
+
+  @Get(':id')
+  get(@CurrentUser() user: UserDto, @Param('id', uuidParam('id')) id: string): Promise<BatchDto> {
+    return this.rerenders.get(user, id);
+  }
+}

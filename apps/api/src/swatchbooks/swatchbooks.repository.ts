@@ -1,0 +1,175 @@
+import { ConflictException, Injectable } from '@nestjs/common';
+import { DataSource, type EntityManager } from 'typeorm';
+import type { FigureStatus, Recipe, SwatchbookColorsDto, SwatchbookVersionDto } from '@psiform/contracts';
+import { FigureEntity } from '../figures/figure.entity';
+import { FigureVersionEntity } from '../figures/figure-version.entity';
+import { JobEntity } from '../jobs/job.entity';
+import { insertAudit } from '../audit/audit.repository';
+import { SwatchbookEntity, SwatchbookVersionEntity } from './swatchbook.entity';
+import { HouseStyleEntity } from './house-style.entity';
+import { BatchEntity, BatchItemEntity } from './batch.entity';
+
+export interface SwatchbookChange {
+  name?: string;
+  colors?: SwatchbookColorsDto;
+  locked?: boolean;
+}
+
+export interface FigureWithVersion {
+  figure: FigureEntity;
+  version: FigureVersionEntity;
+}
+
+export interface NewRerenderVersion {
+  recipe: Recipe;
+  recipeHash: string;
+  engineVersion: string;
+  authorId: string;
+  auditNote: string;
+}
+
+/** Port for swatchbooks, house styles and batches; TypeormSwatchbooksStore is the only class touching them. */
+export abstract class SwatchbooksStore {
+  abstract create(s: { name: string; ownerId: string; colors: SwatchbookColorsDto }, action: 'create' | 'import'): Promise<SwatchbookEntity>;
+  abstract findById(id: string): Promise<SwatchbookEntity | null>;
+  abstract list(): Promise<SwatchbookEntity[]>;
+  /**
+   * Applies the change and writes the next version snapshot in one transaction, under a row lock.
+   * `requireUnlocked`: 409 when the swatchbook is locked (edits; not lock/unlock themselves).
+   */
+  abstract change(id: string, change: SwatchbookChange, authorId: string, action: SwatchbookVersionDto['action'], requireUnlocked: boolean): Promise<SwatchbookEntity | null>;
+  abstract versions(id: string): Promise<SwatchbookVersionEntity[]>;
+  abstract houseStyle(publicationId: string): Promise<HouseStyleEntity | null>;
+  abstract putHouseStyle(h: { publicationId: string; swatchbookId: string; requireColourSignOff: boolean; allowOverride: boolean; updatedBy: string }): Promise<HouseStyleEntity>;
+  abstract figurePublication(figureId: string): Promise<string | null>;
+  abstract figuresWithCurrentVersion(publicationId: string): Promise<FigureWithVersion[]>;
+  /**
+   * New draft version (current + 1) of a figure whose status is still one of `allowed`, made current, with
+   * its audit entry, in one transaction; null when the figure moved on meanwhile (status or version).
+   */
+  abstract addRerenderVersion(figureId: string, expectedCurrent: number, allowed: readonly FigureStatus[], v: NewRerenderVersion): Promise<FigureVersionEntity | null>;
+  abstract createBatch(b: { publicationId: string; swatchbookId: string; swatchbookVersion: number; requestedBy: string }, items: Omit<BatchItemEntity, 'id' | 'batchId'>[]): Promise<BatchEntity>;
+  abstract findBatch(id: string): Promise<{ batch: BatchEntity; items: { item: BatchItemEntity; title: string; versionNumber: number | null; jobState: string | null }[] } | null>;
+}
+
+@Injectable()
+export class TypeormSwatchbooksStore extends SwatchbooksStore {
+  constructor(private readonly ds: DataSource) {
+    super();
+  }
+
+  private async snapshot(em: EntityManager, s: SwatchbookEntity, action: SwatchbookVersionDto['action'], authorId: string | null) {
+    const repo = em.getRepository(SwatchbookVersionEntity);
+    await repo.insert({ swatchbookId: s.id, version: s.version, name: s.name, colors: s.colors, locked: s.locked, action, authorId });
+  }
+
+  create(s: { name: string; ownerId: string; colors: SwatchbookColorsDto }, action: 'create' | 'import') {
+    return this.ds.transaction(async (em) => {
+      const repo = em.getRepository(SwatchbookEntity);
+      const saved = await repo.save(repo.create({ ...s, locked: false, version: 1 }));
+      await this.snapshot(em, saved, action, s.ownerId);
+      return saved;
+    });
+  }
+
+  findById(id: string) {
+    return this.ds.getRepository(SwatchbookEntity).findOne({ where: { id } });
+  }
+
+  list() {
+    return this.ds.getRepository(SwatchbookEntity).find({ order: { name: 'ASC', createdAt: 'ASC' } });
+  }
+
+  change(id: string, change: SwatchbookChange, authorId: string, action: SwatchbookVersionDto['action'], requireUnlocked: boolean) {
+    return this.ds.transaction(async (em) => {
+      const repo = em.getRepository(SwatchbookEntity);
+      const s = await repo.createQueryBuilder('s').setLock('pessimistic_write').where('s.id = :id', { id }).getOne();
+      if (!s) return null;
+      if (requireUnlocked && s.locked) throw new ConflictException(`swatchbook "${s.name}" is locked; unlock it before editing`);
+      if (change.locked !== undefined && change.locked === s.locked) return s; // nothing to record
+      Object.assign(s, change);
+      s.version += 1;
+      const saved = await repo.save(s);
+      await this.snapshot(em, saved, action, authorId);
+      return saved;
+    });
+  }
+
+  versions(id: string) {
+    return this.ds.getRepository(SwatchbookVersionEntity).find({ where: { swatchbookId: id }, order: { version: 'ASC' } });
+  }
+
+  houseStyle(publicationId: string) {
+    return this.ds.getRepository(HouseStyleEntity).findOne({ where: { publicationId } });
+  }
+
+  async putHouseStyle(h: { publicationId: string; swatchbookId: string; requireColourSignOff: boolean; allowOverride: boolean; updatedBy: string }) {
+    const repo = this.ds.getRepository(HouseStyleEntity);
+    await repo.upsert(h, ['publicationId']);
+    return repo.findOneOrFail({ where: { publicationId: h.publicationId } });
+  }
+
+  async figurePublication(figureId: string) {
+    return (await this.ds.getRepository(FigureEntity).findOne({ where: { id: figureId }, select: { id: true, publicationId: true } }))?.publicationId ?? null;
+  }
+
+  async figuresWithCurrentVersion(publicationId: string): Promise<FigureWithVersion[]> {
+    const figures = await this.ds.getRepository(FigureEntity).find({ where: { publicationId }, order: { createdAt: 'ASC', id: 'ASC' } });
+    if (figures.length === 0) return [];
+    const versions = await this.ds
+      .getRepository(FigureVersionEntity)
+      .createQueryBuilder('v')
+      .innerJoin(FigureEntity, 'f', 'f.id = v.figure_id AND f.current_version = v.number')
+      .where('f.publication_id = :publicationId', { publicationId })
+      .getMany();
+    const byFigure = new Map(versions.map((v) => [v.figureId, v]));
+    return figures.filter((f) => byFigure.has(f.id)).map((figure) => ({ figure, version: byFigure.get(figure.id)! }));
+  }
+
+  addRerenderVersion(figureId: string, expectedCurrent: number, allowed: readonly FigureStatus[], v: NewRerenderVersion) {
+    return this.ds.transaction(async (em) => {
+      const figures = em.getRepository(FigureEntity);
+      const f = await figures.createQueryBuilder('f').setLock('pessimistic_write').where('f.id = :id', { id: figureId }).getOne();
+      if (!f || f.currentVersion !== expectedCurrent || !allowed.includes(f.status)) return null;
+      const repo = em.getRepository(FigureVersionEntity);
+      const saved = await repo.save(repo.create({ figureId, number: expectedCurrent + 1, recipe: v.recipe, recipeHash: v.recipeHash, engineVersion: v.engineVersion, authorId: v.authorId, locked: false }));
+      await figures.update({ id: figureId }, { currentVersion: saved.number, status: 'draft' });
+      await insertAudit(em, { figureId, actorId: v.authorId, action: 'rerender', fromStatus: f.status, toStatus: 'draft', note: v.auditNote });
+      return saved;
+    });
+  }
+
+  createBatch(b: { publicationId: string; swatchbookId: string; swatchbookVersion: number; requestedBy: string }, items: Omit<BatchItemEntity, 'id' | 'batchId'>[]) {
+    return this.ds.transaction(async (em) => {
+      const batch = await em.getRepository(BatchEntity).save(em.getRepository(BatchEntity).create(b));
+      if (items.length) await em.getRepository(BatchItemEntity).insert(items.map((i) => ({ ...i, batchId: batch.id })));
+      return batch;
+    });
+  }
+
+  async findBatch(id: string) {
+    const batch = await this.ds.getRepository(BatchEntity).findOne({ where: { id } });
+    if (!batch) return null;
+    const raw = await this.ds
+      .getRepository(BatchItemEntity)
+      .createQueryBuilder('i')
+      .innerJoin(FigureEntity, 'f', 'f.id = i.figure_id')
+      .leftJoin(FigureVersionEntity, 'v', 'v.id = i.figure_version_id')
+      .leftJoin(JobEntity, 'j', 'j.id = i.job_id')
+      .addSelect('f.title', 'title')
+      .addSelect('v.number', 'version_number')
+      .addSelect('j.state', 'job_state')
+      .where('i.batch_id = :id', { id })
+      .orderBy('f.created_at', 'ASC')
+      .getRawAndEntities();
+    return {
+      batch,
+      items: raw.entities.map((item, k) => ({
+        item,
+        title: raw.raw[k].title as string,
+        versionNumber: (raw.raw[k].version_number as number | null) ?? null,
+        jobState: (raw.raw[k].job_state as string | null) ?? null,
+      })),
+    };
+  }
+}

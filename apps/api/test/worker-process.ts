@@ -1,0 +1,76 @@
+import { spawn, type ChildProcess } from 'node:child_process';
+import { existsSync } from 'node:fs';
+import { join } from 'node:path';
+
+export const WORKER_MAIN = join(__dirname, '..', '..', 'worker', 'dist', 'main.js');
+
+export interface WorkerProcess {
+  child: ChildProcess;
+  output: () => string;
+  /** SIGTERM and wait for the exit. */
+  stop: () => Promise<void>;
+  /** SIGKILL (no clean-up at all) and wait for the exit. */
+  kill: () => Promise<void>;
+}
+
+/** Spawns the compiled worker (`node apps/worker/dist/main.js`) with the test services' env; resolves once ready. */
+export async function startWorkerProcess(env: Record<string, string> = {}): Promise<WorkerProcess> {
+  if (!existsSync(WORKER_MAIN)) throw new Error('apps/worker/dist is missing: run `npm run build -w @psiform/worker` first');
+  const child = spawn(process.execPath, [WORKER_MAIN], { env: { ...process.env, WORKER_CONCURRENCY: '2', ...env }, stdio: ['ignore', 'pipe', 'pipe'] });
+  let out = '';
+  child.stdout!.on('data', (d) => (out += d));
+  child.stderr!.on('data', (d) => (out += d));
+  const exited = new Promise<void>((resolve) => child.once('exit', () => resolve()));
+  await new Promise<void>((resolve, reject) => {
+    const t = setTimeout(() => reject(new Error(`worker not ready after 20 s:\n${out}`)), 20000);
+    const check = () => {
+      if (out.includes(`worker ${child.pid} ready`)) {
+        clearTimeout(t);
+        resolve();
+      } else if (child.exitCode !== null) {
+        clearTimeout(t);
+        reject(new Error(`worker exited during start-up:\n${out}`));
+      } else setTimeout(check, 50);
+    };
+    check();
+  });
+  const end = async (signal: NodeJS.Signals) => {
+    if (child.exitCode === null && child.signalCode === null) child.kill(signal);
+    await exited;
+  };
+  return { child, output: () => out, stop: () => end('SIGTERM'), kill: () => end('SIGKILL') };
+}
+
+/** Reads a text/event-stream response body (fetch) and yields each `data:` payload parsed as JSON. */
+export async function* readSse(body: ReadableStream<Uint8Array>): AsyncGenerator<unknown> {
+  const reader = body.getReader();
+  const dec = new TextDecoder();
+  let buf = '';
+  for (;;) {
+    const { value, done } = await reader.read();
+    if (done) break;
+    buf += dec.decode(value, { stream: true });
+    let i: number;
+    while ((i = buf.indexOf('\n\n')) >= 0) {
+      const event = buf.slice(0, i);
+      buf = buf.slice(i + 2);
+      const data = event
+        .split('\n')
+        .filter((l) => l.startsWith('data:'))
+        .map((l) => l.slice(5).trimStart())
+        .join('\n');
+      if (data) yield JSON.parse(data);
+    }
+  }
+}
+
+/** Polls until the predicate holds (or throws after timeoutMs). */
+export async function waitFor<T>(what: string, fn: () => Promise<T | undefined | null | false>, timeoutMs = 30000, everyMs = 100): Promise<T> {
+  const t0 = Date.now();
+  for (;;) {
+    const v = await fn();
+    if (v) return v;
+    if (Date.now() - t0 > timeoutMs) throw new Error(`timed out after ${timeoutMs} ms waiting for ${what}`);
+    await new Promise((r) => setTimeout(r, everyMs));
+  }
+}

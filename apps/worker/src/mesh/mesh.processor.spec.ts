@@ -1,0 +1,129 @@
+import { UnrecoverableError } from 'bullmq';
+import { parseRecipe } from '@psiform/contracts';
+import { AssetStore, JobsStore, ObjectStorage, meshKey, recipeHash, type JobContext, type NewAsset, type StoredObject } from '@psiform/api/pipeline';
+import { closeParallelSampler } from '@psiform/orbitals/node';
+import { MeshJobProcessor } from './mesh.processor';
+
+afterAll(() => closeParallelSampler());
+
+const recipe = (() => {
+  const r = parseRecipe({ version: 1, content: { Z: 1, terms: [{ n: 2, l: 1, m: 0, basis: 'real', re: 1 }] }, grid: { n: 20 }, surface: { rule: 'enclosed', fraction: 0.9 } });
+  if (!r.ok) throw new Error('bad test recipe');
+  return r.recipe;
+})();
+
+class FakeJobs extends JobsStore {
+  log: string[] = [];
+  completed: NewAsset[] = [];
+  state = 'queued';
+  version: JobContext['version'] = { id: 'v1', figureId: 'f1', number: 1, recipe, recipeHash: recipeHash(recipe), engineVersion: 'test-engine', authorId: 'u1', locked: false, createdAt: new Date() };
+  async loadContext(id: string): Promise<JobContext | null> {
+    if (id === 'gone') return null;
+    return {
+      job: { id, state: this.state, assetIds: ['a1', 'a2'], publicationId: 'p1' } as JobContext['job'],
+      figure: { id: 'f1' } as JobContext['figure'],
+      version: this.version,
+    };
+  }
+  async markActive(_id: string, attempt: number, stage: string) {
+    this.log.push(`active:${attempt}:${stage}`);
+  }
+  async setStage(_id: string, stage: string, progress: number) {
+    this.log.push(`${stage}:${progress}`);
+  }
+  async requeue(_id: string, error: string) {
+    this.log.push(`requeue:${error}`);
+  }
+  async fail(_id: string, error: string) {
+    this.log.push(`fail:${error}`);
+  }
+  async complete(_id: string, timings: Record<string, number>, assets: NewAsset[]) {
+    this.log.push(`complete:${Object.keys(timings).sort().join(',')}`);
+    this.completed = assets;
+    return assets.map((_, i) => `asset-${i}`);
+  }
+  insert = () => Promise.reject(new Error('unused'));
+  setBullJobId = () => Promise.reject(new Error('unused'));
+  remove = () => Promise.reject(new Error('unused'));
+  findById = () => Promise.reject(new Error('unused'));
+}
+
+class FakeAssets extends AssetStore {
+  objects = new Map<string, Uint8Array>();
+  failPuts = 0;
+  async storeObject(key: string, bytes: Uint8Array): Promise<StoredObject> {
+    if (this.failPuts > 0) {
+      this.failPuts--;
+      throw new Error('storage unreachable');
+    }
+    const reused = this.objects.has(key);
+    this.objects.set(key, bytes);
+    return { key, bytes: bytes.length, sha256: 'x'.repeat(64), reused };
+  }
+  findById = () => Promise.resolve(null);
+  findByIds = () => Promise.resolve([]);
+  findForVersion = () => Promise.resolve([]);
+  keyReferenced = () => Promise.resolve(false);
+  presignGet = () => Promise.resolve('');
+}
+
+const job = (attemptsMade = 0, id = 'j1') => ({ id, name: 'mesh', data: { jobId: id }, attemptsMade, opts: { attempts: 3 } });
+
+describe('MeshJobProcessor', () => {
+  it('reports the stages in order, stores glb and stl under content-derived keys and completes with timings', async () => {
+    const jobs = new FakeJobs();
+    const assets = new FakeAssets();
+    const p = new MeshJobProcessor(jobs, assets, {} as ObjectStorage, 'test-engine');
+    expect(p.queue).toBe('psiform-mesh');
+    const res = await p.process(job());
+    expect(res).toEqual({ jobId: 'j1', assetIds: ['asset-0', 'asset-1'] });
+    expect(jobs.log).toEqual(['active:1:sampling', 'threshold:40', 'extracting:50', 'encoding:75', 'storing:90', 'complete:encode,extract,sample,stats,store,threshold,total']);
+    const h = jobs.version!.recipeHash;
+    expect(jobs.completed.map((a) => [a.kind, a.storageKey, a.figureVersionId, a.publicationId])).toEqual([
+      ['glb', meshKey(h, 'test-engine', '20', 'glb'), 'v1', 'p1'],
+      ['stl', meshKey(h, 'test-engine', '20', 'stl'), 'v1', 'p1'],
+    ]);
+    const stats = jobs.completed[0].stats!;
+    expect(stats.surfaces!.map((s) => s.phase)).toEqual(['+', '-']);
+    expect(stats).toMatchObject({ engineVersion: 'test-engine', recipeHash: h, grid: { n: 20 } });
+    // GLB magic "glTF" (glTF 2.0 spec, 4.4.3.1) and a binary STL of 84 + 50·F bytes.
+    const glb = assets.objects.get(meshKey(h, 'test-engine', '20', 'glb'))!;
+    expect(Buffer.from(glb.subarray(0, 4)).toString('latin1')).toBe('glTF');
+    const stl = assets.objects.get(meshKey(h, 'test-engine', '20', 'stl'))!;
+    const triangles = stats.surfaces!.reduce((n, s) => n + s.triangles, 0);
+    expect(stl.length).toBe(84 + 50 * triangles);
+  });
+
+  it('a failed attempt with retries left goes back to queued with the error; the last one marks the row failed', async () => {
+    const jobs = new FakeJobs();
+    const assets = new FakeAssets();
+    assets.failPuts = 2;
+    const p = new MeshJobProcessor(jobs, assets, {} as ObjectStorage, 'test-engine');
+    await expect(p.process(job(0))).rejects.toThrow('storage unreachable');
+    expect(jobs.log.at(-1)).toBe('requeue:attempt 1 of 3 failed: storage unreachable; retrying');
+    await expect(p.process(job(2))).rejects.toThrow('storage unreachable');
+    expect(jobs.log.at(-1)).toBe('fail:storage unreachable');
+  });
+
+  it('a completed row is not redone; a missing row or an invalid stored recipe fails without retries', async () => {
+    const jobs = new FakeJobs();
+    const p = new MeshJobProcessor(jobs, new FakeAssets(), {} as ObjectStorage, 'test-engine');
+    jobs.state = 'completed';
+    await expect(p.process(job())).resolves.toEqual({ jobId: 'j1', assetIds: ['a1', 'a2'] });
+    expect(jobs.log).toEqual([]);
+    await expect(p.process(job(0, 'gone'))).rejects.toBeInstanceOf(UnrecoverableError);
+    jobs.state = 'queued';
+    jobs.version = { ...jobs.version!, recipe: { ...recipe, grid: { n: 4, extent: 'auto' } } };
+    await expect(p.process(job(0))).rejects.toBeInstanceOf(UnrecoverableError);
+    expect(jobs.log.at(-1)).toMatch(/^fail:the stored recipe is not valid: grid\.n: grid\.n must be at least 16/);
+  });
+
+  it('onFailed marks the row failed only when BullMQ gives up', async () => {
+    const jobs = new FakeJobs();
+    const p = new MeshJobProcessor(jobs, new FakeAssets(), {} as ObjectStorage);
+    await p.onFailed(job(), new Error('job stalled more than allowable limit'), false);
+    expect(jobs.log).toEqual([]);
+    await p.onFailed(job(), new Error('job stalled more than allowable limit'), true);
+    expect(jobs.log).toEqual(['fail:job stalled more than allowable limit']);
+  });
+});

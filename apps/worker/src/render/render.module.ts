@@ -1,0 +1,56 @@
+import { Inject, Module, type DynamicModule, type OnApplicationShutdown } from '@nestjs/common';
+import { DataSource } from 'typeorm';
+import type Redis from 'ioredis';
+import { AssetStore, JobsStore, ObjectStorage } from '@psiform/api/pipeline';
+import type { WorkerConfig } from '../config/config';
+import { REDIS_CONNECTION } from '../infra/redis-connection';
+import { ExportJobProcessor } from '../export/export.processor';
+import { FigureRenderer } from './figure-renderer';
+import { HeadlessBrowser } from './headless-browser';
+import { RenderJobProcessor } from './render.processor';
+import { StaticSite } from './static-site';
+import { ThumbnailScheduler, ThumbnailStore } from './thumbnails';
+
+/**
+ * Render and export processors with their one browser and static site per worker process. Chromium starts on the
+ * first render (a worker that only meshes never launches it) and is closed, with the site, on shutdown, after
+ * WorkerHost has let the active jobs finish.
+ */
+@Module({})
+export class RenderModule implements OnApplicationShutdown {
+  constructor(
+    @Inject(HeadlessBrowser) private readonly browser: HeadlessBrowser,
+    @Inject(StaticSite) private readonly site: StaticSite,
+    @Inject(ThumbnailScheduler) private readonly thumbnails: ThumbnailScheduler,
+  ) {}
+
+  static forRoot(config: WorkerConfig): DynamicModule {
+    return {
+      module: RenderModule,
+      providers: [
+        { provide: StaticSite, useFactory: () => new StaticSite(config.render.webDist) },
+        { provide: HeadlessBrowser, useFactory: () => new HeadlessBrowser(config.render.chromiumPath) },
+        { provide: FigureRenderer, inject: [HeadlessBrowser, StaticSite], useFactory: (b: HeadlessBrowser, s: StaticSite) => new FigureRenderer(b, s, config.render.timeoutMs) },
+        { provide: ThumbnailStore, inject: [DataSource], useFactory: (ds: DataSource) => new ThumbnailStore(ds) },
+        { provide: ThumbnailScheduler, inject: [JobsStore, REDIS_CONNECTION], useFactory: (j: JobsStore, r: Redis) => new ThumbnailScheduler(j, r) },
+        {
+          provide: RenderJobProcessor,
+          inject: [JobsStore, AssetStore, ObjectStorage, FigureRenderer, ThumbnailStore],
+          useFactory: (j: JobsStore, a: AssetStore, s: ObjectStorage, r: FigureRenderer, t: ThumbnailStore) => new RenderJobProcessor(j, a, s, r, t),
+        },
+        {
+          provide: ExportJobProcessor,
+          inject: [JobsStore, AssetStore, ObjectStorage, FigureRenderer],
+          useFactory: (j: JobsStore, a: AssetStore, s: ObjectStorage, r: FigureRenderer) => new ExportJobProcessor(j, a, s, r),
+        },
+      ],
+      exports: [RenderJobProcessor, ExportJobProcessor, ThumbnailScheduler],
+    };
+  }
+
+  async onApplicationShutdown(): Promise<void> {
+    await this.thumbnails.close();
+    await this.browser.close();
+    await this.site.close();
+  }
+}

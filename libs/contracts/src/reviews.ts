@@ -1,0 +1,165 @@
+import type { FigureStatus } from './states';
+
+/** Editorial review and swatchbooks: shapes exchanged over HTTP and through the mail queue. */
+
+export interface SwatchbookColorsDto {
+  positive: string;
+  negative: string;
+  background: string;
+  label: string;
+  nucleus?: string;
+  axes?: string;
+  /** OKLCH lightness (0..1) and chroma of the complex-phase wheel. */
+  wheel?: { lightness: number; chroma: number };
+}
+
+export interface SwatchbookDto {
+  id: string;
+  name: string;
+  ownerId: string;
+  colors: SwatchbookColorsDto;
+  locked: boolean;
+  version: number;
+  createdAt: string;
+  updatedAt: string;
+}
+
+export interface SwatchbookVersionDto {
+  version: number;
+  name: string;
+  colors: SwatchbookColorsDto;
+  locked: boolean;
+  action: 'create' | 'update' | 'lock' | 'unlock' | 'import';
+  authorId: string | null;
+  createdAt: string;
+}
+
+/** GET /api/swatchbooks/:id/export and the body of POST /api/swatchbooks/import. */
+export const SWATCHBOOK_FILE_FORMAT = 'psiform-swatchbook';
+export interface SwatchbookFile {
+  format: typeof SWATCHBOOK_FILE_FORMAT;
+  formatVersion: 1;
+  name: string;
+  colors: SwatchbookColorsDto;
+  exportedAt?: string;
+}
+
+export interface SwatchbookWarningDto {
+  code: string;
+  level: 'warning' | 'error';
+  message: string;
+  colors: string[];
+}
+
+export interface SwatchbookCheckDto {
+  figures: {
+    phaseDeltaE2000: number;
+    phaseDeltaE2000Protan: number;
+    phaseDeltaE2000Deutan: number;
+    phaseDeltaE2000Tritan: number;
+    labelContrast: number;
+    [k: string]: unknown;
+  };
+  warnings: SwatchbookWarningDto[];
+}
+
+export interface HouseStyleDto {
+  publicationId: string;
+  swatchbookId: string;
+  swatchbookName: string;
+  requireColourSignOff: boolean;
+  allowOverride: boolean;
+  updatedAt: string;
+}
+
+export const REVIEW_ACTIONS = ['submit', 'request_changes', 'revise', 'approve', 'colour_signoff', 'release'] as const;
+export type ReviewAction = (typeof REVIEW_ACTIONS)[number];
+
+/** Answer of every review transition route. `missing` lists what approval still waits for. */
+export interface ReviewTransitionDto {
+  figureId: string;
+  action: ReviewAction;
+  fromStatus: FigureStatus;
+  status: FigureStatus;
+  versionNumber: number;
+  missing: ('editor_approval' | 'colour_signoff')[];
+  message: string;
+}
+
+export interface CommentDto {
+  id: string;
+  figureId: string;
+  versionId: string | null;
+  authorId: string;
+  authorName?: string;
+  body: string;
+  pin: { x: number; y: number } | null;
+  createdAt: string;
+}
+
+export interface AuditEntryDto {
+  id: string;
+  figureId: string;
+  actorId: string | null;
+  actorName?: string;
+  action: string;
+  fromStatus: FigureStatus | null;
+  toStatus: FigureStatus | null;
+  note: string | null;
+  at: string;
+}
+
+export interface ReviewDeskItemDto {
+  figureId: string;
+  title: string;
+  publicationId: string;
+  publicationTitle: string;
+  versionNumber: number;
+  submittedBy: string | null;
+  submittedAt: string;
+  ageHours: number;
+  editorApproved: boolean;
+  colourSignedOff: boolean;
+  requireColourSignOff: boolean;
+}
+
+export interface BatchItemDto {
+  figureId: string;
+  title: string;
+  status: 'queued' | 'skipped';
+  reason?: string;
+  jobId?: string;
+  versionNumber?: number;
+  jobState?: string;
+}
+
+export interface BatchDto {
+  batchId: string;
+  publicationId: string;
+  swatchbookId: string;
+  swatchbookVersion: number;
+  total: number;
+  completed: number;
+  failed: number;
+  state: 'running' | 'completed' | 'failed';
+  jobs: BatchItemDto[];
+  skipped: BatchItemDto[];
+  createdAt: string;
+}
+
+/** Job name on QUEUES.mail; payload MailNoticeJob. */
+export const MAIL_NOTICE_JOB = 'notice';
+export interface MailNoticeJob {
+  to: string[];
+  subject: string;
+  text: string;
+  html: string;
+}
+
+/** GET /api/dev/outbox rows (newest first). */
+export interface OutboxMessageDto {
+  subject: string;
+  text: string;
+  to: string[];
+  receivedAt: string;
+}
