@@ -13,6 +13,8 @@ export default defineConfig({
       '@psiform/contracts': lib('contracts'),
       '@psiform/orbitals': lib('orbitals'),
       '@psiform/meshing': lib('meshing'),
+      '@psiform/print': lib('print'),
+      '@psiform/colour': lib('colour'),
     },
   },
   server: {
@@ -26,7 +28,15 @@ export default defineConfig({
     outDir: 'dist',
     emptyOutDir: true,
     sourcemap: true,
+    // Two pages: the app, and the headless render page the worker drives for print exports.
+    rollupOptions: {
+      input: {
+        main: fileURLToPath(new URL('./index.html', import.meta.url)),
+        render: fileURLToPath(new URL('./render.html', import.meta.url)),
+      },
+    },
   },
+  worker: { format: 'es' },
   test: {
     environment: 'jsdom',
     // globals: true lets Testing Library register its afterEach clean-up.

@@ -6,11 +6,20 @@ import { AuthProvider } from './auth/AuthProvider';
 import { RequireAuth, RequireRole } from './auth/guards';
 import { AppShell } from './components/AppShell';
 import { HealthFooter } from './components/HealthFooter';
-import { NAV_ITEMS } from './nav/navigation';
+import { NAV_ITEMS, SUB_ROUTES } from './nav/navigation';
 import { ComingLater } from './pages/ComingLater';
+import { FigurePage } from './pages/FigurePage';
+import { LibraryPage } from './pages/LibraryPage';
+import { NewFigurePage } from './pages/NewFigurePage';
 import { NotFound } from './pages/NotFound';
 import { PublicationsPage } from './pages/PublicationsPage';
 import { SignInPage } from './pages/SignInPage';
+import { UploadPage } from './pages/UploadPage';
+import { HouseStylePage } from './review/HouseStylePage';
+import { ProofPage } from './review/ProofPage';
+import { ReviewDeskPage } from './review/ReviewDeskPage';
+import { SwatchbookPage } from './swatchbooks/SwatchbookPage';
+import { SwatchbooksPage } from './swatchbooks/SwatchbooksPage';
 
 export function createQueryClient(): QueryClient {
   return new QueryClient({
@@ -35,6 +44,20 @@ export function AppProviders({ client, children }: { client: QueryClient; childr
 
 const BUILT: Record<string, () => ReactNode> = {
   '/publications': () => <PublicationsPage />,
+  '/library': () => <LibraryPage />,
+  '/review': () => <ReviewDeskPage />,
+  '/swatchbooks': () => <SwatchbooksPage />,
+};
+
+/** Pages reached from the places (not in the navigation); SUB_ROUTES says who may open them. */
+const SUB_PAGES: Record<string, () => ReactNode> = {
+  '/publications/:publicationId/figures': () => <LibraryPage />,
+  '/figures/new': () => <NewFigurePage />,
+  '/figures/:figureId': () => <FigurePage />,
+  '/uploads/new': () => <UploadPage />,
+  '/figures/:figureId/proof': () => <ProofPage />,
+  '/swatchbooks/:swatchbookId': () => <SwatchbookPage />,
+  '/publications/:publicationId/house-style': () => <HouseStylePage />,
 };
 
 function Frame() {
@@ -67,6 +90,17 @@ export function AppRoutes() {
               element={
                 <RequireRole roles={item.roles} what={item.label}>
                   {item.ready && BUILT[item.path] ? BUILT[item.path]() : <ComingLater item={item} />}
+                </RequireRole>
+              }
+            />
+          ))}
+          {SUB_ROUTES.map((r) => (
+            <Route
+              key={r.path}
+              path={r.path}
+              element={
+                <RequireRole roles={r.roles} what={r.label}>
+                  {SUB_PAGES[r.path]()}
                 </RequireRole>
               }
             />

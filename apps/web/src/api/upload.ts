@@ -9,6 +9,10 @@ export interface UploadCubeRequest {
   cube: File;
   /** Required for raw: the JSON sidecar file. */
   sidecar?: File | null;
+  /** NRRD only (raw takes it from the sidecar): the cube holds ψ (signed) or the density |ψ|². */
+  quantity?: 'psi' | 'density';
+  /** Enclosed-probability fraction of the surface (server default 0.9). */
+  fraction?: number;
 }
 
 export interface UploadCubeResponse {
@@ -23,12 +27,14 @@ export interface UploadProgress {
   fraction: number | null;
 }
 
-/** The multipart body in the order the server reads it: publicationId, title, format, [sidecar], cube. */
+/** The multipart body in the order the server reads it: publicationId, title, format, [quantity], [fraction], [sidecar], cube. */
 export function uploadFormData(req: UploadCubeRequest): FormData {
   const form = new FormData();
   form.append('publicationId', req.publicationId);
   form.append('title', req.title);
   form.append('format', req.format);
+  if (req.format === 'nrrd' && req.quantity) form.append('quantity', req.quantity);
+  if (req.fraction !== undefined) form.append('fraction', String(req.fraction));
   if (req.format === 'raw') {
     if (!req.sidecar) throw new Error('A raw cube needs its JSON sidecar.');
     form.append('sidecar', req.sidecar, req.sidecar.name);

@@ -16,12 +16,12 @@ describe('route guards', () => {
   it('returns to the page first asked for after signing in', async () => {
     const me = user('illustrator');
     mockFetch({ 'POST /api/auth/login': () => json(201, { accessToken: 'tok-1', user: me }), ...signedInRoutes(me) });
-    renderApp('/library');
+    renderApp('/composer');
     const u = userEvent.setup();
     await u.type(await screen.findByLabelText('Email'), me.email);
     await u.type(screen.getByLabelText('Password'), 'a-long-password');
     await u.click(screen.getByRole('button', { name: 'Sign in' }));
-    await waitFor(() => expect(screen.getByTestId('location').textContent).toBe('/library'));
+    await waitFor(() => expect(screen.getByTestId('location').textContent).toBe('/composer'));
     expect(screen.getByTestId('coming-later').textContent).toContain('Coming in a later release');
   });
 
@@ -40,10 +40,10 @@ describe('route guards', () => {
 
   it('lets the right role through to the page', async () => {
     const me = user('art_director');
-    mockFetch(signedInRoutes(me));
+    mockFetch({ ...signedInRoutes(me), 'GET /api/swatchbooks': () => json(200, []) });
     storeSession(me);
     renderApp('/swatchbooks');
-    expect((await screen.findByTestId('coming-later')).textContent).toContain('Swatchbooks');
+    expect((await screen.findByTestId('swatchbooks-page')).textContent).toContain('Swatchbooks');
     expect(screen.queryByTestId('forbidden')).toBeNull();
   });
 

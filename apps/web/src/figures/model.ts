@@ -66,6 +66,14 @@ export function describeRecipe(recipe: Recipe): string {
     recipe.surface.rule === 'enclosed'
       ? `surface encloses ${percent(recipe.surface.fraction)} of the probability`
       : `surface drawn at |ψ| = ${recipe.surface.value} a0^−3/2`;
+  const src = recipe.source;
+  if (src?.kind === 'upload') {
+    const spacing = src.spacing.every((d) => d === src.spacing[0]) ? `${src.spacing[0]} a0` : `${src.spacing.join(' × ')} a0`;
+    return (
+      `Uploaded ${src.quantity === 'psi' ? 'ψ' : 'density |ψ|²'} cube ${src.sizes.join(' × ')} at ${spacing} spacing; ${surface}; ` +
+      `the model is whatever produced the cube, not Psiform's one-electron hydrogen-like model`
+    );
+  }
   const extent = recipe.grid.extent === 'auto' ? '' : ` over ±${recipe.grid.extent} a0`;
   return (
     `${recipeLabel(recipe)}, Z = ${recipe.content.Z}, one-electron hydrogen-like model; ` +

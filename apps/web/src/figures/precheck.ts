@@ -1,3 +1,5 @@
+import { UPLOAD_LIMITS } from '@psiform/contracts';
+
 /**
  * Client-side checks of a density cube before it is uploaded, so an obvious mistake is named at once
  * instead of after a long upload. The server checks again (and is the authority).
@@ -39,8 +41,11 @@ export function checkNrrdHeader(head: string): Check<{ sizes: number[]; type: st
     else if (key === 'type') type = value;
   }
   if (!sizes) return { ok: false, message: 'The NRRD header has no "sizes:" field.' };
-  if (sizes.length !== 3 || sizes.some((s) => !Number.isInteger(s) || s < 2)) {
-    return { ok: false, message: `The NRRD "sizes:" field must list three whole numbers of at least 2 (got "${sizes.join(' ')}").` };
+  if (sizes.length !== 3 || sizes.some((s) => !Number.isInteger(s) || s < UPLOAD_LIMITS.sizeMin)) {
+    return { ok: false, message: `The NRRD "sizes:" field must list three whole numbers of at least ${UPLOAD_LIMITS.sizeMin} (got "${sizes.join(' ')}").` };
+  }
+  if (sizes.some((s) => s > UPLOAD_LIMITS.sizeMax)) {
+    return { ok: false, message: `Each axis of an uploaded cube has at most ${UPLOAD_LIMITS.sizeMax} points (the NRRD says ${sizes.join(' × ')}).` };
   }
   if (dimension !== null && dimension !== 3) {
     return { ok: false, message: `A density cube has 3 dimensions; this NRRD header says dimension ${dimension}.` };
@@ -64,8 +69,9 @@ export function parseSidecar(text: string): Check<Sidecar> {
     return { ok: false, message: 'The sidecar must be a JSON object with sizes, spacing and quantity.' };
   }
   const d = doc as Record<string, unknown>;
-  if (!isTriple(d.sizes, (x) => Number.isInteger(x) && x >= 2)) {
-    return { ok: false, message: 'sidecar.sizes must be three whole numbers of at least 2, e.g. [64, 64, 64].' };
+  const { sizeMin, sizeMax } = UPLOAD_LIMITS;
+  if (!isTriple(d.sizes, (x) => Number.isInteger(x) && x >= sizeMin && x <= sizeMax)) {
+    return { ok: false, message: `sidecar.sizes must be three whole numbers from ${sizeMin} to ${sizeMax}, e.g. [64, 64, 64].` };
   }
   const spacingOk =
     (typeof d.spacing === 'number' && Number.isFinite(d.spacing) && d.spacing > 0) ||

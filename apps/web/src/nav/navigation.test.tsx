@@ -7,8 +7,8 @@ import { navItemsFor } from './navigation';
 
 const EXPECTED: Record<Role, string[]> = {
   illustrator: ['Publications', 'Library', 'Composer'],
-  editor: ['Publications', 'Review desk'],
-  art_director: ['Publications', 'Swatchbooks'],
+  editor: ['Publications', 'Library', 'Review desk'],
+  art_director: ['Publications', 'Library', 'Review desk', 'Swatchbooks'],
   admin: ['Publications', 'People'],
 };
 
@@ -45,15 +45,15 @@ describe('role-based navigation', () => {
   });
 
   it('follows a link to an unbuilt page and shows the honest panel', async () => {
-    const me = user('editor');
+    const me = user('admin');
     mockFetch(signedInRoutes(me));
     storeSession(me);
     renderApp('/publications');
-    await userEvent.setup().click(await screen.findByRole('link', { name: /Review desk/ }));
+    await userEvent.setup().click(await screen.findByRole('link', { name: /People/ }));
     const panel = await screen.findByTestId('coming-later');
     expect(panel.textContent).toContain('Coming in a later release');
-    expect(panel.textContent).toContain('proofs');
-    expect(screen.getByTestId('location').textContent).toBe('/review');
+    expect(panel.textContent).toContain('memberships');
+    expect(screen.getByTestId('location').textContent).toBe('/people');
   });
 
   it('sign-out clears the session and returns to sign-in', async () => {

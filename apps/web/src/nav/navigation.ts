@@ -26,8 +26,8 @@ export const NAV_ITEMS: readonly NavItem[] = [
     path: '/library',
     label: 'Library',
     icon: 'layers',
-    roles: ['illustrator'],
-    ready: false,
+    roles: ['illustrator', 'editor', 'art_director'],
+    ready: true,
     purpose: 'Your figures and their versions across every publication you belong to.',
   },
   {
@@ -42,8 +42,8 @@ export const NAV_ITEMS: readonly NavItem[] = [
     path: '/review',
     label: 'Review desk',
     icon: 'endorsed',
-    roles: ['editor'],
-    ready: false,
+    roles: ['editor', 'art_director'],
+    ready: true,
     purpose: 'The queue of proofs waiting for your comments, change requests and approval.',
   },
   {
@@ -51,7 +51,7 @@ export const NAV_ITEMS: readonly NavItem[] = [
     label: 'Swatchbooks',
     icon: 'tint',
     roles: ['art_director'],
-    ready: false,
+    ready: true,
     purpose: 'Palettes and house styles, pinned one swatchbook per publication.',
   },
   {
@@ -62,6 +62,27 @@ export const NAV_ITEMS: readonly NavItem[] = [
     ready: false,
     purpose: 'Accounts, roles and publication memberships.',
   },
+];
+
+/** Routes that are not places in the navigation (reached from the places above), with who may open them. */
+export interface SubRoute {
+  path: string;
+  /** Names the page in the 403 panel. */
+  label: string;
+  roles: readonly Role[];
+}
+
+const FIGURE_READERS: readonly Role[] = ['illustrator', 'editor', 'art_director'];
+
+export const SUB_ROUTES: readonly SubRoute[] = [
+  { path: '/publications/:publicationId/figures', label: 'Library', roles: FIGURE_READERS },
+  { path: '/figures/new', label: 'New figure', roles: ['illustrator'] },
+  { path: '/figures/:figureId', label: 'Figure', roles: FIGURE_READERS },
+  { path: '/uploads/new', label: 'Upload a density cube', roles: ['illustrator'] },
+  { path: '/figures/:figureId/proof', label: 'Proof', roles: FIGURE_READERS },
+  // Everyone may read swatchbooks and house styles; only art directors change them (the server enforces it).
+  { path: '/swatchbooks/:swatchbookId', label: 'Swatchbook', roles: ROLES },
+  { path: '/publications/:publicationId/house-style', label: 'House style', roles: ROLES },
 ];
 
 export function navItemsFor(role: Role): NavItem[] {

@@ -1,8 +1,10 @@
 import { Button, Callout, Card, NonIdealState, Spinner, Tag } from '@blueprintjs/core';
 import { useQuery } from '@tanstack/react-query';
+import { Link } from 'react-router-dom';
 import type { PublicationDto } from '@psiform/contracts';
 import { describeError } from '../api/client';
 import { useApi, useAuth } from '../auth/AuthProvider';
+import { canOpen, NAV_ITEMS } from '../nav/navigation';
 
 const KIND_LABELS: Record<PublicationDto['kind'], string> = {
   book: 'Book',
@@ -20,6 +22,8 @@ export function PublicationsPage() {
     queryKey: ['publications', user?.id],
     queryFn: ({ signal }) => api.publications(signal),
   });
+  const library = NAV_ITEMS.find((i) => i.path === '/library');
+  const showFigures = Boolean(user && library && library.ready && canOpen(user.role, library));
 
   return (
     <div className="pf-page" data-testid="publications-page">
@@ -72,6 +76,18 @@ export function PublicationsPage() {
                     {p.description}
                   </p>
                 )}
+                {showFigures && (
+                  <p className="pf-pub-links">
+                    <Link to={`/publications/${encodeURIComponent(p.id)}/figures`} data-testid="publication-figures">
+                      Figures
+                    </Link>
+                  </p>
+                )}
+                <p className="pf-pub-links">
+                  <Link to={`/publications/${encodeURIComponent(p.id)}/house-style`} data-testid="publication-house-style">
+                    House style
+                  </Link>
+                </p>
               </Card>
             </li>
           ))}

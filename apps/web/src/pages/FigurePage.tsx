@@ -1,0 +1,227 @@
+import { lazy, Suspense, useState } from 'react';
+import { Button, Callout, EditableText, NonIdealState, Spinner, Tag } from '@blueprintjs/core';
+import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import { Link, useParams, useSearchParams } from 'react-router-dom';
+import { parseRecipe, type AssetDto, type FigureDto, type JobDto } from '@psiform/contracts';
+import { ApiError, describeError } from '../api/client';
+import { useApi, useAuth } from '../auth/AuthProvider';
+import { AssetDownloads } from '../figures/AssetDownloads';
+import { statusIntent } from '../figures/FiguresTable';
+import { JobProgress } from '../figures/JobProgress';
+import { MeshStatsTable } from '../figures/MeshStatsTable';
+import { describeRecipe, formatDate, statusLabel } from '../figures/model';
+import { FigureReview } from '../review/FigureReview';
+
+// three.js and R3F load only when a mesh is shown (keeps them out of the first bundle).
+const FigureViewport = lazy(() => import('../viewport/FigureViewport'));
+
+function glbOf(assets: AssetDto[]): AssetDto | undefined {
+  return assets.find((a) => a.kind === 'glb');
+}
+
+/** The GLB viewport of a figure (also used by the proof view, review/ProofPage.tsx). */
+export function Viewport({ figure, asset }: { figure: FigureDto; asset: AssetDto }) {
+  const api = useApi();
+  // Presigned links are short-lived: fetched per asset when the view opens, not cached for long.
+  const link = useQuery({
+    queryKey: ['asset-link', asset.id],
+    queryFn: ({ signal }) => api.assetLink(asset.id, signal),
+    staleTime: 30_000,
+    gcTime: 30_000,
+  });
+  const parsed = parseRecipe(figure.currentVersion.recipe);
+  if (!parsed.ok) {
+    return <Callout intent="warning">The stored recipe does not read ({parsed.issues[0]?.message}); the mesh is not shown.</Callout>;
+  }
+  const recipe = parsed.recipe;
+  if (link.isPending) return <NonIdealState icon={<Spinner size={28} />} title="Fetching the mesh link…" />;
+  if (link.isError)
+    return (
+      <Callout intent="danger" title="The mesh could not be fetched" data-testid="viewport-error">
+        {describeError(link.error)}
+      </Callout>
+    );
+  return (
+    <Suspense fallback={<NonIdealState icon={<Spinner size={28} />} title="Starting the 3D view…" />}>
+      <FigureViewport url={link.data.url} palette={recipe.palette} stage={recipe.stage} />
+    </Suspense>
+  );
+}
+
+function Title({ figure, editable }: { figure: FigureDto; editable: boolean }) {
+  const api = useApi();
+  const queryClient = useQueryClient();
+  const [draft, setDraft] = useState<string | null>(null);
+  const rename = useMutation({
+    mutationFn: (title: string) => api.updateFigure(figure.id, { title }),
+    onSuccess: (fig) => {
+      queryClient.setQueryData(['figure', figure.id], fig);
+      void queryClient.invalidateQueries({ queryKey: ['figures'] });
+      setDraft(null);
+    },
+    onError: () => setDraft(null),
+  });
+  if (!editable) return <h1 data-testid="figure-title">{figure.title}</h1>;
+  return (
+    <>
+      <h1 className="pf-title-edit" data-testid="figure-title">
+        <EditableText
+          value={draft ?? figure.title}
+          onChange={setDraft}
+          onConfirm={(v) => {
+            const t = v.trim();
+            if (!t) setDraft(null);
+            else if (t !== figure.title) rename.mutate(t);
+            else setDraft(null);
+          }}
+          onCancel={() => setDraft(null)}
+          maxLength={200}
+          placeholder="Figure title"
+          selectAllOnFocus
+        />
+      </h1>
+      {rename.isError && (
+        <Callout intent="danger" data-testid="rename-error" className="pf-gap">
+          The title was not changed: {describeError(rename.error)}
+        </Callout>
+      )}
+    </>
+  );
+}
+
+export function FigurePage() {
+  const { figureId = '' } = useParams<{ figureId: string }>();
+  const api = useApi();
+  const { user } = useAuth();
+  const queryClient = useQueryClient();
+  const [search, setSearch] = useSearchParams();
+  const jobId = search.get('job');
+  const [finished, setFinished] = useState<JobDto | null>(null);
+
+  const figure = useQuery({
+    queryKey: ['figure', figureId],
+    queryFn: ({ signal }) => api.figure(figureId, signal),
+  });
+
+  const compute = useMutation({
+    mutationFn: () => api.computeMesh(figureId),
+    onSuccess: ({ jobId: id }) => {
+      setFinished(null);
+      setSearch({ job: id }, { replace: true });
+    },
+  });
+
+  function onJobFinished(job: JobDto) {
+    setFinished(job);
+    if (job.state === 'completed') void queryClient.invalidateQueries({ queryKey: ['figure', figureId] });
+  }
+
+  if (figure.isPending) {
+    return (
+      <div className="pf-page" data-testid="figure-loading">
+        <NonIdealState icon={<Spinner size={32} />} title="Loading the figure…" />
+      </div>
+    );
+  }
+  if (figure.isError) {
+    const notFound = figure.error instanceof ApiError && (figure.error.status === 404 || figure.error.status === 403);
+    return (
+      <div className="pf-page">
+        <Callout intent={notFound ? 'warning' : 'danger'} title={notFound ? 'Figure not found' : 'The figure could not be loaded'} data-testid="figure-error">
+          <p>
+            {notFound
+              ? 'There is no such figure in the publications you belong to.'
+              : describeError(figure.error)}
+          </p>
+          <Link to="/library">Back to the library</Link>
+        </Callout>
+      </div>
+    );
+  }
+
+  const f = figure.data;
+  const parsed = parseRecipe(f.currentVersion.recipe);
+  const glb = glbOf(f.assets);
+  const running = Boolean(jobId) && finished === null;
+  const canEdit = user?.role === 'illustrator' && !f.currentVersion.locked;
+
+  return (
+    <div className="pf-page pf-page-wide" data-testid="figure-page">
+      <header className="pf-page-head">
+        <p className="pf-crumbs">
+          <Link to={`/publications/${encodeURIComponent(f.publicationId)}/figures`}>Library</Link>
+        </p>
+        <Title figure={f} editable={canEdit} />
+        <div className="pf-meta">
+          <Tag minimal intent={statusIntent(f.status)} data-testid="figure-status">
+            {statusLabel(f.status)}
+          </Tag>
+          <span data-testid="figure-version">Version {f.currentVersion.number}</span>
+          {f.ownerName && <span>by {f.ownerName}</span>}
+          <span className="pf-muted">updated {formatDate(f.updatedAt)}</span>
+        </div>
+      </header>
+
+      <section className="pf-section">
+        <h2>Model</h2>
+        {parsed.ok ? (
+          <p className="pf-model-note" data-testid="figure-model">
+            {describeRecipe(parsed.recipe)}.
+          </p>
+        ) : (
+          <Callout intent="warning" data-testid="figure-model">
+            The stored recipe does not pass validation: {parsed.issues.map((i) => `${i.path}: ${i.message}`).join('; ')}
+          </Callout>
+        )}
+      </section>
+
+      <section className="pf-section">
+        <div className="pf-head-row">
+          <h2>Mesh</h2>
+          <Button
+            intent="primary"
+            icon="cube"
+            text={glb ? 'Compute the mesh again' : 'Compute mesh'}
+            onClick={() => compute.mutate()}
+            loading={compute.isPending}
+            disabled={running || !parsed.ok}
+            data-testid="compute-mesh"
+          />
+        </div>
+        {compute.isError && (
+          <Callout intent="danger" data-testid="compute-error" className="pf-gap">
+            The mesh job was not queued: {describeError(compute.error)}
+          </Callout>
+        )}
+        {jobId && <JobProgress key={jobId} jobId={jobId} onFinished={onJobFinished} />}
+        {glb ? (
+          <>
+            <Viewport key={glb.id} figure={f} asset={glb} />
+            <h3>Surfaces</h3>
+            <MeshStatsTable asset={glb} />
+          </>
+        ) : (
+          !jobId && <p className="pf-muted" data-testid="no-mesh">No mesh yet for this version. Compute one to see it here.</p>
+        )}
+        {f.assets.length > 0 && (
+          <>
+            <h3>Files</h3>
+            <AssetDownloads assets={f.assets} />
+          </>
+        )}
+      </section>
+
+      <FigureReview figure={f} />
+
+      {user?.role === 'illustrator' && (
+        <p className="pf-muted pf-small">
+          Have a density cube from elsewhere?{' '}
+          <Link to={`/uploads/new?publicationId=${encodeURIComponent(f.publicationId)}`} data-testid="figure-upload-link">
+            Upload a density cube
+          </Link>{' '}
+          as a new figure.
+        </p>
+      )}
+    </div>
+  );
+}

@@ -1,0 +1,91 @@
+// Surfaces as three.js geometry: from typed arrays (the preview worker, the render request) or from a GLB.
+import * as THREE from 'three';
+import { GLTFLoader } from 'three/examples/jsm/loaders/GLTFLoader.js';
+
+export type Phase = '+' | '-' | 'complex';
+
+/** One phase's surface as flat arrays (positions/normals xyz per vertex in a0; colors linear RGB per vertex). */
+export interface SurfaceArrays {
+  phase: Phase;
+  positions: Float32Array;
+  normals?: Float32Array | null;
+  indices?: Uint32Array | null;
+  colors?: Float32Array | null;
+}
+
+export interface PhaseGeometry {
+  phase: Phase;
+  geometry: THREE.BufferGeometry;
+}
+
+export function geometryFromArrays(s: SurfaceArrays): THREE.BufferGeometry {
+  const g = new THREE.BufferGeometry();
+  g.setAttribute('position', new THREE.BufferAttribute(s.positions, 3));
+  if (s.normals && s.normals.length === s.positions.length) g.setAttribute('normal', new THREE.BufferAttribute(s.normals, 3));
+  if (s.colors && s.colors.length === s.positions.length) g.setAttribute('color', new THREE.BufferAttribute(s.colors, 3));
+  if (s.indices && s.indices.length > 0) g.setIndex(new THREE.BufferAttribute(s.indices, 1));
+  if (!g.getAttribute('normal')) g.computeVertexNormals();
+  g.computeBoundingSphere();
+  return g;
+}
+
+/**
+ * Which phase a GLB primitive is: the encoder writes extras {phase} on the mesh and names the material
+ * "phase +", "phase −" (U+2212) or "phase (complex)"; both are accepted, plus an ASCII minus.
+ */
+export function phaseOf(mesh: THREE.Mesh): Phase | null {
+  const extra = mesh.userData?.phase;
+  if (extra === '+' || extra === '-' || extra === 'complex') return extra;
+  const mat = Array.isArray(mesh.material) ? mesh.material[0] : mesh.material;
+  const name = (mat?.name ?? mesh.name ?? '').trim();
+  if (/^phase\s*\+$/.test(name)) return '+';
+  if (/^phase\s*[-\u2212]$/.test(name)) return '-';
+  if (/^phase/.test(name)) return 'complex';
+  return null;
+}
+
+/** Loads a GLB and keeps only its geometry per phase (the file's materials are dropped; ours replace them). */
+export async function loadGlbGeometries(url: string): Promise<PhaseGeometry[]> {
+  const gltf = await new GLTFLoader().loadAsync(url);
+  const out: PhaseGeometry[] = [];
+  gltf.scene.updateMatrixWorld(true);
+  gltf.scene.traverse((o) => {
+    const mesh = o as THREE.Mesh;
+    if (!mesh.isMesh) return;
+    const phase = phaseOf(mesh) ?? (mesh.geometry.getAttribute('color') ? 'complex' : '+');
+    const geometry = mesh.geometry;
+    if (!mesh.matrixWorld.equals(new THREE.Matrix4())) geometry.applyMatrix4(mesh.matrixWorld);
+    // Real phases are coloured by our materials: a baked colour attribute would tint them twice.
+    if (phase !== 'complex' && geometry.getAttribute('color')) geometry.deleteAttribute('color');
+    out.push({ phase, geometry });
+    const mats = Array.isArray(mesh.material) ? mesh.material : [mesh.material];
+    for (const m of mats) m?.dispose();
+  });
+  return out;
+}
+
+export function disposeGeometries(list: readonly PhaseGeometry[]): void {
+  for (const g of list) g.geometry.dispose();
+}
+
+export function triangleCount(list: readonly PhaseGeometry[]): number {
+  let n = 0;
+  for (const { geometry } of list) n += (geometry.index ? geometry.index.count : geometry.getAttribute('position').count) / 3;
+  return n;
+}
+
+/**
+ * Colour for arg ψ on complex surfaces: the same HSV wheel the worker bakes into GLB files
+ * (hue from the angle, s = 0.65, v = 0.85), returned in linear RGB as three.js expects for vertex colours.
+ */
+export function phaseWheelLinear(angle: number): [number, number, number] {
+  const h = ((angle + Math.PI) / (2 * Math.PI)) * 6;
+  const s = 0.65;
+  const v = 0.85;
+  const c = v * s;
+  const x = c * (1 - Math.abs((h % 2) - 1));
+  const m = v - c;
+  const [r, g, b] = h < 1 ? [c, x, 0] : h < 2 ? [x, c, 0] : h < 3 ? [0, c, x] : h < 4 ? [0, x, c] : h < 5 ? [x, 0, c] : [c, 0, x];
+  const lin = (u: number) => (u <= 0.04045 ? u / 12.92 : ((u + 0.055) / 1.055) ** 2.4);
+  return [lin(r + m), lin(g + m), lin(b + m)];
+}

@@ -1,0 +1,104 @@
+import { Callout, HTMLTable, Tag } from '@blueprintjs/core';
+import {
+  PHASE_DELTA_E_ERROR,
+  PHASE_DELTA_E_WARN,
+  WCAG_AA_GRAPHICS,
+  WCAG_AA_TEXT,
+  type SwatchbookCheck,
+} from '@psiform/colour';
+
+function Verdict({ ok, warn, testId }: { ok: boolean; warn?: boolean; testId: string }) {
+  return (
+    <Tag minimal intent={ok ? 'success' : warn ? 'warning' : 'danger'} data-testid={testId}>
+      {ok ? 'passes' : warn ? 'low' : 'too low'}
+    </Tag>
+  );
+}
+
+const de = (v: number) => v.toFixed(1);
+const ratio = (v: number) => `${v.toFixed(2)}:1`;
+
+/** The live checks of @psiform/colour's checkSwatchbook, as numbers with their thresholds. */
+export function ColourChecks({ check }: { check: SwatchbookCheck }) {
+  const f = check.figures;
+  const phaseRows: [string, string, number][] = [
+    ['normal', 'Normal colour vision', f.phaseDeltaE2000],
+    ['protanopia', 'Simulated protanopia', f.phaseDeltaE2000Protan],
+    ['deuteranopia', 'Simulated deuteranopia', f.phaseDeltaE2000Deutan],
+    ['tritanopia', 'Simulated tritanopia', f.phaseDeltaE2000Tritan],
+  ];
+  const contrastRows: [string, string, number | undefined, number][] = [
+    ['label', 'Label on background (text)', f.labelContrast, WCAG_AA_TEXT],
+    ['positive', 'Positive phase on background', f.positiveBackgroundContrast, WCAG_AA_GRAPHICS],
+    ['negative', 'Negative phase on background', f.negativeBackgroundContrast, WCAG_AA_GRAPHICS],
+    ['nucleus', 'Nucleus on background', f.nucleusBackgroundContrast, WCAG_AA_GRAPHICS],
+    ['axes', 'Axes on background', f.axesBackgroundContrast, WCAG_AA_GRAPHICS],
+  ];
+
+  return (
+    <div className="pf-checks" data-testid="colour-checks">
+      <h3>Phases told apart (CIEDE2000)</h3>
+      <p className="pf-muted pf-small">
+        ΔE00 between the positive and negative phase; Psiform asks for at least {PHASE_DELTA_E_WARN} (below {PHASE_DELTA_E_ERROR} is an error). Deficiencies
+        simulated after Machado, Oliveira &amp; Fernandes (2009), full severity.
+      </p>
+      <HTMLTable compact className="pf-table pf-num-table">
+        <tbody>
+          {phaseRows.map(([key, label, v]) => (
+            <tr key={key}>
+              <td>{label}</td>
+              <td data-testid={`check-de-${key}`}>{de(v)}</td>
+              <td>
+                <Verdict ok={v >= PHASE_DELTA_E_WARN} warn={v >= PHASE_DELTA_E_ERROR} testId={`check-de-${key}-verdict`} />
+              </td>
+            </tr>
+          ))}
+        </tbody>
+      </HTMLTable>
+
+      <h3>Contrast (WCAG 2.1)</h3>
+      <p className="pf-muted pf-small">
+        Text needs {WCAG_AA_TEXT}:1 (success criterion 1.4.3, AA); lobes, nucleus and axes {WCAG_AA_GRAPHICS}:1 (1.4.11).
+      </p>
+      <HTMLTable compact className="pf-table pf-num-table">
+        <tbody>
+          {contrastRows
+            .filter(([, , v]) => v !== undefined)
+            .map(([key, label, v, need]) => (
+              <tr key={key}>
+                <td>{label}</td>
+                <td data-testid={`check-contrast-${key}`}>{ratio(v!)}</td>
+                <td>
+                  <Verdict ok={v! >= need} warn={key === 'label' && v! >= WCAG_AA_GRAPHICS} testId={`check-contrast-${key}-verdict`} />
+                </td>
+              </tr>
+            ))}
+        </tbody>
+      </HTMLTable>
+
+      <h3>Print gamut (approximate)</h3>
+      <p className="pf-muted pf-small" data-testid="check-gamut">
+        {f.outOfPrintGamut.length === 0
+          ? 'Every swatch looks printable on coated paper.'
+          : `May not print on coated paper: ${f.outOfPrintGamut.join(', ')}.`}{' '}
+        This is an approximate check against a modelled CMYK gamut, without an ICC profile; a real soft-proof decides.
+      </p>
+
+      {check.warnings.length > 0 ? (
+        <ul className="pf-warnings" data-testid="check-warnings">
+          {check.warnings.map((w, i) => (
+            <li key={`${w.code}-${i}`}>
+              <Callout intent={w.level === 'error' ? 'danger' : 'warning'} compact data-testid="check-warning" data-code={w.code}>
+                {w.message.charAt(0).toUpperCase() + w.message.slice(1)}.
+              </Callout>
+            </li>
+          ))}
+        </ul>
+      ) : (
+        <Callout intent="success" compact data-testid="check-all-clear">
+          No warnings: the phases are distinct for every simulated vision and the label reads on the background.
+        </Callout>
+      )}
+    </div>
+  );
+}
