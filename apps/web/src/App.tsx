@@ -20,6 +20,7 @@ import { ProofPage } from './review/ProofPage';
 import { ReviewDeskPage } from './review/ReviewDeskPage';
 import { SwatchbookPage } from './swatchbooks/SwatchbookPage';
 import { SwatchbooksPage } from './swatchbooks/SwatchbooksPage';
+import { StudioPage } from './studio/StudioPage';
 
 export function createQueryClient(): QueryClient {
   return new QueryClient({
@@ -46,6 +47,7 @@ const BUILT: Record<string, () => ReactNode> = {
   '/publications': () => <PublicationsPage />,
   '/library': () => <LibraryPage />,
   '/review': () => <ReviewDeskPage />,
+  '/composer': () => <StudioPage />,
   '/swatchbooks': () => <SwatchbooksPage />,
 };
 
@@ -54,6 +56,7 @@ const SUB_PAGES: Record<string, () => ReactNode> = {
   '/publications/:publicationId/figures': () => <LibraryPage />,
   '/figures/new': () => <NewFigurePage />,
   '/figures/:figureId': () => <FigurePage />,
+  '/figures/:figureId/studio': () => <StudioPage />,
   '/uploads/new': () => <UploadPage />,
   '/figures/:figureId/proof': () => <ProofPage />,
   '/swatchbooks/:swatchbookId': () => <SwatchbookPage />,

@@ -7,6 +7,7 @@ import { AssetEntity } from '../assets/asset.entity';
 import { UserEntity } from '../users/user.entity';
 import type { NewAsset } from '../jobs/jobs.repository';
 import type { FigureSort } from './figures.dto';
+import { isEditable } from '../reviews/review-transitions';
 
 export interface NewVersion {
   recipe: Recipe;
@@ -93,6 +94,8 @@ export class TypeormFiguresStore extends FiguresStore {
       const figures = em.getRepository(FigureEntity);
       const f = await figures.createQueryBuilder('f').setLock('pessimistic_write').where('f.id = :id', { id: figureId }).getOne();
       if (!f || f.currentVersion !== expectedCurrent) throw new ConflictException(`figure ${figureId} changed meanwhile; reload and try again`);
+      // Checked again under the row lock: a submit that commits between the edit guard and here must not be undone.
+      if (!isEditable(f.status)) throw new ConflictException(`cannot edit a figure that is ${f.status}: allowed only from draft or changes_requested`);
       const repo = em.getRepository(FigureVersionEntity);
       const v = await repo.save(repo.create({ ...version, figureId, number: expectedCurrent + 1, locked: false }));
       await figures.update({ id: figureId }, { currentVersion: v.number, status: 'draft' });

@@ -35,7 +35,7 @@ export const NAV_ITEMS: readonly NavItem[] = [
     label: 'Composer',
     icon: 'function',
     roles: ['illustrator'],
-    ready: false,
+    ready: true,
     purpose: 'Choose states, coefficients, Z and the surface rule, and see the isosurfaces as you go.',
   },
   {
@@ -78,6 +78,7 @@ export const SUB_ROUTES: readonly SubRoute[] = [
   { path: '/publications/:publicationId/figures', label: 'Library', roles: FIGURE_READERS },
   { path: '/figures/new', label: 'New figure', roles: ['illustrator'] },
   { path: '/figures/:figureId', label: 'Figure', roles: FIGURE_READERS },
+  { path: '/figures/:figureId/studio', label: 'Studio', roles: ['illustrator'] },
   { path: '/uploads/new', label: 'Upload a density cube', roles: ['illustrator'] },
   { path: '/figures/:figureId/proof', label: 'Proof', roles: FIGURE_READERS },
   // Everyone may read swatchbooks and house styles; only art directors change them (the server enforces it).

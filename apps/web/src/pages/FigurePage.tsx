@@ -11,6 +11,7 @@ import { JobProgress } from '../figures/JobProgress';
 import { MeshStatsTable } from '../figures/MeshStatsTable';
 import { describeRecipe, formatDate, statusLabel } from '../figures/model';
 import { FigureReview } from '../review/FigureReview';
+import { FigureStudioBar } from '../studio/FigureStudioBar';
 
 // three.js and R3F load only when a mesh is shown (keeps them out of the first bundle).
 const FigureViewport = lazy(() => import('../viewport/FigureViewport'));
@@ -173,6 +174,7 @@ export function FigurePage() {
             The stored recipe does not pass validation: {parsed.issues.map((i) => `${i.path}: ${i.message}`).join('; ')}
           </Callout>
         )}
+        {parsed.ok && <FigureStudioBar figure={f} recipe={parsed.recipe} />}
       </section>
 
       <section className="pf-section">

@@ -1,0 +1,300 @@
+// Export a figure: PNG at a physical size and dpi, SVG companions, the bundle, or the mesh files.
+import { useEffect, useRef, useState } from 'react';
+import { Button, ButtonGroup, Callout, Checkbox, Dialog, DialogBody, DialogFooter, FormGroup, HTMLSelect, InputGroup, ProgressBar } from '@blueprintjs/core';
+import type { AssetDto, FigureDto, JobDto, Recipe } from '@psiform/contracts';
+import { COLUMN_PRESETS, DPI_CHOICES, type ColumnPreset } from '@psiform/print';
+import { formatBytes } from '@psiform/orbitals';
+import { ApiError, describeError } from '../api/client';
+import { isTerminal, streamJob } from '../api/jobStream';
+import { useApi } from '../auth/AuthProvider';
+import { browser } from '../figures/AssetDownloads';
+import { fromMm, lengthError, pixelText, toMm, type LengthUnit } from './exportSize';
+
+export type ExportFormat = 'png' | 'svg-radial' | 'svg-section' | 'bundle' | 'glb' | 'stl';
+
+/** Body of POST /api/figures/:id/exports. */
+export type ExportRequestBody =
+  | { format: 'png'; widthMm: number; heightMm: number; dpi: number; transparent?: boolean }
+  | { format: 'svg'; kind: 'radial' | 'section' }
+  | { format: 'bundle' };
+
+const FORMATS: { value: ExportFormat; label: string }[] = [
+  { value: 'png', label: 'PNG image (print size and dpi)' },
+  { value: 'svg-radial', label: 'SVG companion: radial plot' },
+  { value: 'svg-section', label: 'SVG companion: cross-section' },
+  { value: 'bundle', label: 'Bundle (files + metadata sheet)' },
+  { value: 'glb', label: 'GLB mesh (glTF 2.0)' },
+  { value: 'stl', label: 'STL mesh' },
+];
+
+export const EXPORT_STAGE_WORDS: Record<string, string> = {
+  queued: 'Waiting in the queue',
+  loading: 'Loading the figure',
+  meshing: 'Computing the mesh',
+  rendering: 'Drawing the figure',
+  render: 'Drawing the figure',
+  encoding: 'Writing the file',
+  plotting: 'Drawing the plot',
+  bundling: 'Packing the bundle',
+  storing: 'Storing the file',
+  done: 'Done',
+};
+
+const KIND_WORDS: Record<string, string> = { png: 'PNG', svg: 'SVG', bundle: 'Bundle', glb: 'GLB', stl: 'STL' };
+
+function serverText(err: unknown): string {
+  if (err instanceof ApiError && err.status === 404 && !err.body?.message?.toString().trim()) {
+    return 'This server does not offer exports yet (POST /api/figures/:id/exports answered 404).';
+  }
+  if (err instanceof ApiError && (err.status === 404 || err.status === 405) && /Cannot POST/i.test(String(err.body?.message ?? ''))) {
+    return 'This server does not offer exports yet (POST /api/figures/:id/exports is not a route).';
+  }
+  return describeError(err);
+}
+
+export function DownloadList({ assets, testid }: { assets: AssetDto[]; testid: string }) {
+  const api = useApi();
+  const [error, setError] = useState<string | null>(null);
+  const [busy, setBusy] = useState<string | null>(null);
+  return (
+    <div className="pf-downloads" data-testid={testid}>
+      {assets.map((a) => (
+        <Button
+          key={a.id}
+          icon="download"
+          intent="primary"
+          loading={busy === a.id}
+          text={`Download ${KIND_WORDS[a.kind] ?? a.kind.toUpperCase()} · ${formatBytes(a.bytes)}`}
+          data-testid="export-download"
+          data-asset-id={a.id}
+          data-kind={a.kind}
+          onClick={async () => {
+            setBusy(a.id);
+            setError(null);
+            try {
+              const link = await api.assetLink(a.id);
+              browser.go(link.url);
+            } catch (err) {
+              setError(`The file could not be fetched: ${describeError(err)}`);
+            } finally {
+              setBusy(null);
+            }
+          }}
+        />
+      ))}
+      {error && (
+        <Callout intent="danger" data-testid="export-download-error">
+          {error}
+        </Callout>
+      )}
+    </div>
+  );
+}
+
+function ExportProgress({ jobId, onDone }: { jobId: string; onDone(job: JobDto): void }) {
+  const api = useApi();
+  const [job, setJob] = useState<JobDto | null>(null);
+  const [err, setErr] = useState<string | null>(null);
+  const done = useRef(onDone);
+  done.current = onDone;
+  useEffect(() => {
+    const ctrl = new AbortController();
+    streamJob(api, jobId, { signal: ctrl.signal, onJob: setJob })
+      .then((last) => {
+        if (last && isTerminal(last)) done.current(last);
+      })
+      .catch((e: unknown) => {
+        if (!ctrl.signal.aborted) setErr(describeError(e));
+      });
+    return () => ctrl.abort();
+  }, [api, jobId]);
+  const state = job?.state ?? 'queued';
+  const value = job ? Math.max(0, Math.min(100, job.progress)) / 100 : 0;
+  const running = state === 'queued' || state === 'active';
+  return (
+    <div className="pf-job" data-testid="export-progress" data-state={state} aria-live="polite">
+      <div className="pf-job-line">
+        <span data-testid="export-stage">{job ? (EXPORT_STAGE_WORDS[job.stage] ?? job.stage) : 'Connecting to the export job…'}</span>
+        <span className="pf-muted" data-testid="export-percent">
+          {Math.round(value * 100)}%
+        </span>
+      </div>
+      <ProgressBar value={value} intent={state === 'failed' ? 'danger' : state === 'completed' ? 'success' : 'primary'} animate={running} stripes={running} />
+      {job?.state === 'failed' && (
+        <Callout intent="danger" className="pf-job-msg" data-testid="export-error">
+          The export failed{job.stage && job.stage !== 'done' ? ` while ${(EXPORT_STAGE_WORDS[job.stage] ?? job.stage).toLowerCase()}` : ''}: {job.error?.trim() || 'the worker gave no message.'}
+        </Callout>
+      )}
+      {err && (
+        <Callout intent="warning" className="pf-job-msg" data-testid="export-stream-error">
+          Progress could not be followed: {err}
+        </Callout>
+      )}
+    </div>
+  );
+}
+
+export interface ExportFormProps {
+  figure: FigureDto;
+  canvas: Recipe['canvas'];
+  transparentDefault: boolean;
+  /** The studio has changes the server has not stored: the export would draw the saved version. */
+  unsaved?: boolean;
+}
+
+export function ExportForm({ figure, canvas, transparentDefault, unsaved }: ExportFormProps) {
+  const api = useApi();
+  const [unit, setUnit] = useState<LengthUnit>('mm');
+  const [w, setW] = useState(fromMm(canvas.widthMm, 'mm'));
+  const [h, setH] = useState(fromMm(canvas.heightMm, 'mm'));
+  const [dpi, setDpi] = useState<number>(canvas.dpi);
+  const [transparent, setTransparent] = useState(transparentDefault);
+  const [format, setFormat] = useState<ExportFormat>('png');
+  const [jobId, setJobId] = useState<string | null>(null);
+  const [result, setResult] = useState<JobDto | null>(null);
+  const [sending, setSending] = useState(false);
+  const [error, setError] = useState<string | null>(null);
+
+  const wErr = lengthError(w, unit, 'width');
+  const hErr = lengthError(h, unit, 'height');
+  const widthMm = wErr ? null : toMm(Number(w.replace(',', '.')), unit);
+  const heightMm = hErr ? null : toMm(Number(h.replace(',', '.')), unit);
+  const px = widthMm !== null && heightMm !== null ? pixelText(widthMm, heightMm, dpi) : null;
+
+  function switchUnit(u: LengthUnit) {
+    if (u === unit) return;
+    if (widthMm !== null) setW(fromMm(widthMm, u));
+    if (heightMm !== null) setH(fromMm(heightMm, u));
+    setUnit(u);
+  }
+  function preset(p: ColumnPreset) {
+    const target = COLUMN_PRESETS[p].widthMm;
+    const aspect = widthMm && heightMm ? heightMm / widthMm : canvas.heightMm / canvas.widthMm;
+    setW(fromMm(target, unit));
+    setH(fromMm(Math.max(10, Math.round(target * aspect * 10) / 10), unit));
+  }
+
+  const meshAsset = format === 'glb' || format === 'stl' ? figure.assets.find((a) => a.kind === format) : undefined;
+  const body: ExportRequestBody | null =
+    format === 'png'
+      ? widthMm !== null && heightMm !== null
+        ? { format: 'png', widthMm: Number(widthMm.toFixed(3)), heightMm: Number(heightMm.toFixed(3)), dpi, ...(transparent ? { transparent: true } : {}) }
+        : null
+      : format === 'svg-radial'
+        ? { format: 'svg', kind: 'radial' }
+        : format === 'svg-section'
+          ? { format: 'svg', kind: 'section' }
+          : format === 'bundle'
+            ? { format: 'bundle' }
+            : null;
+
+  async function submit() {
+    if (!body) return;
+    setSending(true);
+    setError(null);
+    setResult(null);
+    setJobId(null);
+    try {
+      const r = await api.request<{ jobId: string }>(`/api/figures/${encodeURIComponent(figure.id)}/exports`, { method: 'POST', body });
+      setJobId(r.jobId);
+    } catch (err) {
+      setError(serverText(err));
+    } finally {
+      setSending(false);
+    }
+  }
+
+  const running = Boolean(jobId) && !result;
+  return (
+    <div className="pf-export" data-testid="export-form">
+      <FormGroup label="Format" labelFor="exp-format">
+        <HTMLSelect id="exp-format" value={format} onChange={(e) => setFormat(e.currentTarget.value as ExportFormat)} options={FORMATS} data-testid="exp-format" fill />
+      </FormGroup>
+
+      {format === 'png' && (
+        <>
+          <div className="pf-head-row">
+            <ButtonGroup aria-label="Length unit">
+              <Button text="mm" active={unit === 'mm'} onClick={() => switchUnit('mm')} data-testid="exp-unit-mm" />
+              <Button text="inches" active={unit === 'in'} onClick={() => switchUnit('in')} data-testid="exp-unit-in" />
+            </ButtonGroup>
+            <ButtonGroup aria-label="Column width presets">
+              {(Object.keys(COLUMN_PRESETS) as ColumnPreset[]).map((p) => (
+                <Button key={p} small text={COLUMN_PRESETS[p].label} onClick={() => preset(p)} data-testid={`exp-preset-${p}`} />
+              ))}
+            </ButtonGroup>
+          </div>
+          <p className="pf-muted pf-small">Column widths are common practice, not a standard: check the publisher's author guide.</p>
+          <div className="pf-form-row">
+            <FormGroup label={`Width (${unit})`} labelFor="exp-width" intent={wErr ? 'danger' : 'none'} helperText={wErr && <span data-testid="exp-width-error">{wErr}</span>}>
+              <InputGroup id="exp-width" value={w} onValueChange={setW} data-testid="exp-width" />
+            </FormGroup>
+            <FormGroup label={`Height (${unit})`} labelFor="exp-height" intent={hErr ? 'danger' : 'none'} helperText={hErr && <span data-testid="exp-height-error">{hErr}</span>}>
+              <InputGroup id="exp-height" value={h} onValueChange={setH} data-testid="exp-height" />
+            </FormGroup>
+            <FormGroup label="Resolution" labelFor="exp-dpi">
+              <HTMLSelect id="exp-dpi" value={String(dpi)} onChange={(e) => setDpi(Number(e.currentTarget.value))} options={DPI_CHOICES.map((d) => ({ value: String(d), label: `${d} dpi` }))} data-testid="exp-dpi" />
+            </FormGroup>
+          </div>
+          <Checkbox label="Transparent background" checked={transparent} onChange={(e) => setTransparent(e.currentTarget.checked)} data-testid="exp-transparent" />
+          <p className="pf-pixels" data-testid="exp-pixels">
+            {px ? px.text : 'Enter a valid width and height to see the pixel size.'}
+          </p>
+        </>
+      )}
+
+      {(format === 'glb' || format === 'stl') &&
+        (meshAsset ? (
+          <DownloadList assets={[meshAsset]} testid="exp-mesh-download" />
+        ) : (
+          <Callout intent="primary" data-testid="exp-no-mesh">
+            This version has no {format.toUpperCase()} file yet: compute the mesh on the figure page first.
+          </Callout>
+        ))}
+
+      {unsaved && (
+        <Callout intent="warning" className="pf-gap-sm" data-testid="exp-unsaved">
+          You have unsaved changes: exports are made from the saved version {figure.currentVersion.number}. Save first to include them.
+        </Callout>
+      )}
+      {error && (
+        <Callout intent="danger" className="pf-gap-sm" data-testid="exp-server-error" title="The export was not started">
+          {error}
+        </Callout>
+      )}
+      {jobId && (
+        <ExportProgress
+          key={jobId}
+          jobId={jobId}
+          onDone={(job) => {
+            setResult(job);
+          }}
+        />
+      )}
+      {result?.state === 'completed' &&
+        (result.assets.length > 0 ? (
+          <DownloadList assets={result.assets} testid="export-ready" />
+        ) : (
+          <Callout intent="warning" data-testid="export-no-asset">
+            The export finished but reported no file.
+          </Callout>
+        ))}
+      {body && (
+        <Button intent="primary" icon="export" text={running ? 'Exporting…' : 'Export'} onClick={() => void submit()} loading={sending} disabled={running || !body} data-testid="exp-submit" className="pf-gap-sm" />
+      )}
+    </div>
+  );
+}
+
+export function ExportDialog({ isOpen, onClose, ...form }: ExportFormProps & { isOpen: boolean; onClose(): void }) {
+  return (
+    <Dialog isOpen={isOpen} onClose={onClose} title="Export the figure" icon="export" className="pf-export-dialog">
+      <DialogBody>
+        <ExportForm {...form} />
+      </DialogBody>
+      <DialogFooter actions={<Button text="Close" onClick={onClose} data-testid="exp-close" />}>
+        <span className="pf-muted pf-small">One-electron hydrogen-like model; many-electron orbitals differ.</span>
+      </DialogFooter>
+    </Dialog>
+  );
+}

@@ -1,0 +1,192 @@
+// Stage: camera, lights, material, background, annotations and the figure's canvas (physical size).
+import { Button, ButtonGroup, FormGroup, HTMLSelect, InputGroup, Menu, MenuItem, PopoverNext, Slider, Switch, TextArea } from '@blueprintjs/core';
+import type { Recipe } from '@psiform/contracts';
+import { SHORTCUTS, type Look } from './shortcuts';
+
+type Stage = Recipe['stage'];
+type Light = Stage['lights']['key'];
+
+export interface StagePanelProps {
+  look: Look;
+  onLook(l: Look): void;
+  canvas: Recipe['canvas'];
+  onCanvas(c: Recipe['canvas']): void;
+}
+
+const VIEW_BUTTONS: { view: Stage['camera']['view']; text: string; key: string }[] = [
+  { view: 'axis_x', text: 'x', key: '1' },
+  { view: 'axis_y', text: 'y', key: '2' },
+  { view: 'axis_z', text: 'z', key: '3' },
+  { view: 'three_quarter', text: '¾', key: '4' },
+  { view: 'free', text: 'Free', key: '0' },
+];
+
+export function ShortcutHelp() {
+  return (
+    <PopoverNext
+      placement="bottom-end"
+      content={
+        <Menu className="pf-shortcuts" data-testid="shortcut-help">
+          {SHORTCUTS.map((s) => (
+            <MenuItem key={s.key} text={s.what} label={s.key} disabled={false} shouldDismissPopover={false} />
+          ))}
+        </Menu>
+      }
+    >
+      <Button minimal small icon="key-command" text="Shortcuts" data-testid="shortcut-help-button" />
+    </PopoverNext>
+  );
+}
+
+function LightRow({ name, light, onChange }: { name: string; light: Light; onChange(l: Light): void }) {
+  return (
+    <div className="pf-light" data-testid={`light-${name}`}>
+      <div className="pf-light-head">
+        <strong>{name}</strong>
+        <input type="color" value={light.color} onChange={(e) => onChange({ ...light, color: e.currentTarget.value })} aria-label={`${name} light colour`} data-testid={`light-${name}-color`} />
+      </div>
+      <label className="pf-slider-label">Intensity {light.intensity.toFixed(1)}</label>
+      <Slider min={0} max={6} stepSize={0.1} labelRenderer={false} value={light.intensity} onChange={(v) => onChange({ ...light, intensity: v })} />
+      <label className="pf-slider-label">Azimuth {Math.round(light.azimuthDeg)}° (0 = from the viewer)</label>
+      <Slider min={-180} max={180} stepSize={5} labelRenderer={false} value={light.azimuthDeg} onChange={(v) => onChange({ ...light, azimuthDeg: v })} />
+      <label className="pf-slider-label">Elevation {Math.round(light.elevationDeg)}°</label>
+      <Slider min={-90} max={90} stepSize={5} labelRenderer={false} value={light.elevationDeg} onChange={(v) => onChange({ ...light, elevationDeg: v })} />
+    </div>
+  );
+}
+
+function mmField(v: number, set: (x: number) => void, id: string, label: string) {
+  return (
+    <FormGroup label={label} labelFor={id}>
+      <InputGroup
+        id={id}
+        defaultValue={String(v)}
+        key={v}
+        onBlur={(e) => {
+          const x = Number(e.currentTarget.value);
+          if (Number.isFinite(x) && x >= 10 && x <= 1000) set(x);
+          else e.currentTarget.value = String(v);
+        }}
+        data-testid={id}
+        rightElement={<span className="pf-ion">mm</span>}
+      />
+    </FormGroup>
+  );
+}
+
+export function StagePanel({ look, onLook, canvas, onCanvas }: StagePanelProps) {
+  const { stage, annotations: ann } = look;
+  const cam = stage.camera;
+  const setStage = (s: Partial<Stage>) => onLook({ ...look, stage: { ...stage, ...s } });
+  const setCam = (c: Partial<Stage['camera']>) => setStage({ camera: { ...cam, ...c } });
+  const setAnn = (a: Partial<Recipe['annotations']>) => onLook({ ...look, annotations: { ...ann, ...a } });
+  const setLight = (k: 'key' | 'fill' | 'rim', l: Light) => setStage({ lights: { ...stage.lights, [k]: l } });
+
+  return (
+    <div className="pf-stage" data-testid="stage-panel">
+      <div className="pf-head-row">
+        <h3>Camera</h3>
+        <ShortcutHelp />
+      </div>
+      <ButtonGroup aria-label="Camera view" className="pf-gap-sm">
+        {VIEW_BUTTONS.map((b) => (
+          <Button
+            key={b.view}
+            text={b.text}
+            title={`${b.view === 'free' ? 'Free orbit' : b.view === 'three_quarter' ? 'Three-quarter view' : `Along ${b.text}`} (key ${b.key})`}
+            active={cam.view === b.view}
+            aria-pressed={cam.view === b.view}
+            onClick={() => setCam({ view: b.view })}
+            data-testid={`view-${b.view}`}
+          />
+        ))}
+      </ButtonGroup>
+      <Switch
+        label="Orthographic (no perspective)"
+        checked={cam.projection === 'orthographic'}
+        onChange={(e) => setCam({ projection: e.currentTarget.checked ? 'orthographic' : 'perspective' })}
+        data-testid="stage-ortho"
+      />
+      <label className="pf-slider-label">Zoom {cam.zoom.toFixed(2)}×</label>
+      <Slider min={0.5} max={3} stepSize={0.05} labelRenderer={false} value={cam.zoom} onChange={(v) => setCam({ zoom: v })} />
+      {cam.projection === 'perspective' && (
+        <>
+          <label className="pf-slider-label">Field of view {Math.round(cam.fovDeg)}°</label>
+          <Slider min={10} max={80} stepSize={1} labelRenderer={false} value={cam.fovDeg} onChange={(v) => setCam({ fovDeg: v })} />
+        </>
+      )}
+
+      <h3>Lights</h3>
+      <LightRow name="key" light={stage.lights.key} onChange={(l) => setLight('key', l)} />
+      <LightRow name="fill" light={stage.lights.fill} onChange={(l) => setLight('fill', l)} />
+      <LightRow name="rim" light={stage.lights.rim} onChange={(l) => setLight('rim', l)} />
+      <label className="pf-slider-label">Ambient {stage.lights.ambient.toFixed(2)}</label>
+      <Slider min={0} max={2} stepSize={0.05} labelRenderer={false} value={stage.lights.ambient} onChange={(v) => setStage({ lights: { ...stage.lights, ambient: v } })} />
+
+      <h3>Material</h3>
+      <label className="pf-slider-label">Gloss {stage.material.gloss.toFixed(2)}</label>
+      <Slider min={0} max={1} stepSize={0.05} labelRenderer={false} value={stage.material.gloss} onChange={(v) => setStage({ material: { ...stage.material, gloss: v } })} />
+      <label className="pf-slider-label">Opacity {stage.material.opacity.toFixed(2)}</label>
+      <Slider min={0.1} max={1} stepSize={0.05} labelRenderer={false} value={stage.material.opacity} onChange={(v) => setStage({ material: { ...stage.material, opacity: v } })} />
+      <Switch label="Outline the lobes" checked={stage.material.nodalOutline} onChange={(e) => setStage({ material: { ...stage.material, nodalOutline: e.currentTarget.checked } })} data-testid="stage-outline" />
+
+      <h3>Background</h3>
+      <Switch label="Transparent" checked={stage.background.transparent} onChange={(e) => setStage({ background: { ...stage.background, transparent: e.currentTarget.checked } })} data-testid="stage-transparent" />
+      {!stage.background.transparent && (
+        <input type="color" value={stage.background.color} onChange={(e) => setStage({ background: { ...stage.background, color: e.currentTarget.value } })} aria-label="Background colour" data-testid="stage-bg-color" />
+      )}
+
+      <h3>Annotations</h3>
+      <Switch label="Axes (x, y, z)" checked={ann.axes} onChange={(e) => setAnn({ axes: e.currentTarget.checked })} data-testid="ann-axes" />
+      <Switch label="Nucleus marker" checked={ann.nucleus} onChange={(e) => setAnn({ nucleus: e.currentTarget.checked })} data-testid="ann-nucleus" />
+      <Switch label="Orbital label" checked={ann.label.show} onChange={(e) => setAnn({ label: { ...ann.label, show: e.currentTarget.checked } })} data-testid="ann-label" />
+      {ann.label.show && (
+        <InputGroup placeholder="Label text (default: from the state)" value={ann.label.text ?? ''} onValueChange={(v) => setAnn({ label: { ...ann.label, text: v || undefined } })} maxLength={80} data-testid="ann-label-text" />
+      )}
+      <Switch label="Scale bar" checked={ann.scaleBar.show} onChange={(e) => setAnn({ scaleBar: { ...ann.scaleBar, show: e.currentTarget.checked } })} data-testid="ann-scalebar" />
+      {ann.scaleBar.show && (
+        <div className="pf-form-row">
+          <HTMLSelect
+            value={ann.scaleBar.unit}
+            onChange={(e) => setAnn({ scaleBar: { ...ann.scaleBar, unit: e.currentTarget.value as 'angstrom' | 'bohr' } })}
+            options={[
+              { value: 'angstrom', label: 'Å (ångström)' },
+              { value: 'bohr', label: 'a0 (Bohr radius)' },
+            ]}
+            data-testid="ann-scalebar-unit"
+            aria-label="Scale bar unit"
+          />
+          <InputGroup
+            placeholder="length: auto"
+            defaultValue={ann.scaleBar.length ? String(ann.scaleBar.length) : ''}
+            key={String(ann.scaleBar.length)}
+            onBlur={(e) => {
+              const x = Number(e.currentTarget.value);
+              setAnn({ scaleBar: { ...ann.scaleBar, length: e.currentTarget.value.trim() && x > 0 ? x : undefined } });
+            }}
+            aria-label="Scale bar length (empty: a round length chosen for the view)"
+            data-testid="ann-scalebar-length"
+          />
+        </div>
+      )}
+      <FormGroup label="Caption (drawn in the figure)" labelFor="ann-caption">
+        <TextArea id="ann-caption" fill value={ann.caption ?? ''} onChange={(e) => setAnn({ caption: e.currentTarget.value || undefined })} maxLength={2000} data-testid="ann-caption" />
+      </FormGroup>
+
+      <h3>Canvas</h3>
+      <div className="pf-form-row">
+        {mmField(canvas.widthMm, (x) => onCanvas({ ...canvas, widthMm: x }), 'canvas-width', 'Width')}
+        {mmField(canvas.heightMm, (x) => onCanvas({ ...canvas, heightMm: x }), 'canvas-height', 'Height')}
+        <FormGroup label="dpi" labelFor="canvas-dpi">
+          <HTMLSelect
+            id="canvas-dpi"
+            value={String(canvas.dpi)}
+            onChange={(e) => onCanvas({ ...canvas, dpi: Number(e.currentTarget.value) as 300 | 600 | 1200 })}
+            options={['300', '600', '1200']}
+            data-testid="canvas-dpi"
+          />
+        </FormGroup>
+      </div>
+    </div>
+  );
+}
