@@ -55,7 +55,7 @@ export function FigureCanvas(props: FigureCanvasProps) {
   }, [surfaces]);
 
   // The overlay is redrawn from the frame callback (no React state per frame).
-  const onFrame = useCallback((camera: THREE.Camera, radius: number) => {
+  const onFrame = useCallback((camera: THREE.Camera, radius: number, invalidate: () => void) => {
     const el = overlay.current;
     const p = latest.current;
     if (el) {
@@ -95,7 +95,7 @@ export function FigureCanvas(props: FigureCanvasProps) {
       if (frames.current >= 2) {
         reported.current = true;
         p.onReady?.();
-      }
+      } else invalidate();
     }
   }, []);
 

@@ -29,7 +29,7 @@ export interface OrbitalSceneProps {
   /** After the camera was placed for the current view (each change of view, size or surfaces). */
   onPlaced?(info: PlacedInfo): void;
   /** Each drawn frame (cheap work only: no React state). */
-  onFrame?(camera: THREE.Camera, radius: number): void;
+  onFrame?(camera: THREE.Camera, radius: number, invalidate: () => void): void;
   /** The user finished turning or zooming: the pose to keep as the free view. */
   onOrbitEnd?(pose: { position: [number, number, number]; target: [number, number, number]; zoom: number }): void;
 }
@@ -171,12 +171,12 @@ export function OrbitalScene(props: OrbitalSceneProps) {
     // eslint-disable-next-line react-hooks/exhaustive-deps
   }, [camera, camKey, radius, aspect, invalidate, annotations.axes]);
 
-  useFrame(({ camera: cam }) => {
+  useFrame(({ camera: cam, invalidate: again }) => {
     if (rig.current && !rig.current.quaternion.equals(cam.quaternion)) {
       rig.current.quaternion.copy(cam.quaternion);
       rig.current.updateMatrixWorld(true);
     }
-    callbacks.current.onFrame?.(cam, radius);
+    callbacks.current.onFrame?.(cam, radius, again);
   });
 
   const materials = useMaterials(palette, stage.material);

@@ -65,14 +65,14 @@ export default function FigureViewport({ url, palette, stage, annotations, onRea
     reported.current = false;
   }, [surfaces]);
   // Counted in a ref (no state per frame); one state change after the second drawn frame.
-  const onFrame = useCallback(() => {
+  const onFrame = useCallback((_c: unknown, _r: number, invalidate: () => void) => {
     if (reported.current) return;
     frames.current += 1;
     if (frames.current >= 2) {
       reported.current = true;
       setReady(true);
       notify.current?.();
-    }
+    } else invalidate(); // demand frameloop: ask for the second frame
   }, []);
   const bg = stage.background.transparent ? null : stage.background.color;
 
