@@ -3,7 +3,7 @@
 // run `npm run build` first). Prints tables and PASS/MISS beside the targets; never asserts and
 // always exits 0. Sections are one function each (see SECTIONS at the bottom) so more can be added.
 //
-// Options: --quick (N = 64, 128 only; for a smoke run)   --no-isosurface   --no-skimage
+// Options: --quick (N = 64, 128 only; for a smoke run)   --no-isosurface   --no-skimage   --only=render,apijob,...
 // Internal: --child-main256 (the N = 256 3d_z² measurement in its own process, for its peak RSS).
 
 import { spawnSync } from 'node:child_process';
@@ -357,24 +357,113 @@ async function sectionLivePreview() {
 }
 
 // ---------------------------------------------------------------------------------------------
-// Section (later): POST …/meshes to a completed job at 192³, through the running API
+// Section: POST …/meshes to a completed job at 192³ (and a print PNG export), through the running API
 async function sectionApiJob() {
   heading('API: POST …/meshes to a completed job at 192³');
-  if (!process.env.PSIFORM_URL) {
+  const base = process.env.PSIFORM_URL?.replace(/\/+$/, '');
+  if (!base) {
     console.log('  skipped: PSIFORM_URL is not set (start the API and worker, then PSIFORM_URL=http://127.0.0.1:PORT npm run bench)');
     return;
   }
-  // TODO(api): log in, create a figure with a 192³ recipe, POST its meshes job, poll until completed,
-  // report the wall time. Left for when the API routes and job states are settled.
-  console.log(`  PSIFORM_URL=${process.env.PSIFORM_URL}: not wired yet (waiting for the API's routes); nothing measured`);
+  const call = async (method, path, token, body) => {
+    const res = await fetch(`${base}${path}`, {
+      method,
+      headers: { 'content-type': 'application/json', ...(token ? { authorization: `Bearer ${token}` } : {}) },
+      body: body === undefined ? undefined : JSON.stringify(body),
+    });
+    const json = await res.json().catch(() => null);
+    if (!res.ok) throw new Error(`${method} ${path} answered ${res.status}: ${JSON.stringify(json)}`);
+    return json;
+  };
+  // The demo illustrator (seeded demo data; the password is the documented demo one).
+  const { accessToken: token } = await call('POST', '/api/auth/login', null, { email: 'illustrator@demo.psiform.test', password: 'psiform-demo' });
+  const pubs = await call('GET', '/api/publications', token);
+  if (!pubs.length) throw new Error('the demo illustrator has no publication (seed the demo scenario)');
+  const waitJob = async (jobId) => {
+    for (;;) {
+      const j = await call('GET', `/api/jobs/${jobId}`, token);
+      if (j.state === 'completed' || j.state === 'failed') return j;
+      await new Promise((r) => setTimeout(r, 25));
+    }
+  };
+  const rows = [];
+  const stamp = new Date().toISOString().replace(/[:.]/g, '-');
+  for (let i = 0; i < 3; i++) {
+    const recipe = { version: 1, label: '3dz2', content: { Z: 1, terms: [{ n: 3, l: 2, m: 0, basis: 'real', re: 1 }] }, grid: { n: 192 }, surface: { rule: 'enclosed', fraction: 0.85 + 0.02 * i } };
+    const fig = await call('POST', '/api/figures', token, { publicationId: pubs[0].id, title: `Bench 192³ ${stamp} #${i + 1}`, recipe });
+    const t0 = now();
+    const { jobId } = await call('POST', `/api/figures/${fig.id}/meshes`, token);
+    const job = await waitJob(jobId);
+    const wall = now() - t0;
+    rows.push([`#${i + 1}`, job.state, fmt(wall, 0), fmt(job.timings?.total, 0), fmt(job.timings?.sample, 0), fmt(job.timings?.extract, 0)]);
+    results.apiMeshMs = Math.min(results.apiMeshMs ?? Infinity, wall);
+    if (i === 2) {
+      const t1 = now();
+      const exp = await call('POST', `/api/figures/${fig.id}/exports`, token, { format: 'png', widthMm: 89, heightMm: 60, dpi: 300 });
+      const pj = await waitJob(exp.jobId);
+      results.apiPngMs = now() - t1;
+      console.log(`  then POST …/exports png 89 × 60 mm at 300 dpi (1051 × 709 px) -> ${pj.state} in ${fmt(results.apiPngMs, 0)} ms wall (worker render ${fmt(pj.timings?.render_total, 0)} ms)`);
+    }
+  }
+  table(['run', 'state', 'wall ms', 'worker total ms', 'sample ms', 'extract ms'], rows);
+  console.log(`  best ${fmt(results.apiMeshMs, 0)} ms (target < 2000 ms): ${verdict(results.apiMeshMs < 2000)}; the figures stay in the demo publication (titles "Bench 192³ ${stamp} #n")`);
 }
 
 // ---------------------------------------------------------------------------------------------
-// Section (later): headless render of a print PNG 4252×2835
+// Section: headless render of a print PNG, 180 × 120 mm at 600 dpi = 4252 × 2835 px, through the worker's own
+// render code (apps/worker/dist/render: one Chromium, the static site with apps/web/dist, render.html, finishPng + checks).
 async function sectionRender() {
-  heading('Render: PNG 4252×2835 (36 cm × 24 cm at 300 dpi)');
-  // TODO(render): drive the worker's headless-chromium renderer once it exists; report ms and peak RSS.
-  console.log('  not measured yet (the render job does not exist yet)');
+  heading('Render: PNG 180 × 120 mm at 600 dpi (4252 × 2835 px) through the worker render path');
+  const dist = path.join(HERE, '..', 'apps', 'worker', 'dist');
+  let mods;
+  try {
+    mods = {
+      site: require(path.join(dist, 'render', 'static-site.js')),
+      browser: require(path.join(dist, 'render', 'headless-browser.js')),
+      renderer: require(path.join(dist, 'render', 'figure-renderer.js')),
+      mesh: require(path.join(dist, 'mesh', 'mesh-pipeline.js')),
+      config: require(path.join(dist, 'config', 'config.js')),
+      contracts: require('@psiform/contracts'),
+      print: require('@psiform/print'),
+    };
+  } catch (err) {
+    console.log(`  skipped: the worker is not built (${err.message.split('\n')[0]}); run \`npm run build\``);
+    return;
+  }
+  const webDist = process.env.WEB_DIST || mods.config.DEFAULT_WEB_DIST;
+  const site = new mods.site.StaticSite(webDist);
+  try {
+    site.checkBuilt();
+  } catch (err) {
+    console.log(`  skipped: ${err.message}`);
+    return;
+  }
+  const parsed = mods.contracts.parseRecipe({ version: 1, label: '3dz2', content: { Z: 1, terms: [{ n: 3, l: 2, m: 0, basis: 'real', re: 1 }] }, grid: { n: 128 }, surface: { rule: 'enclosed', fraction: 0.9 } });
+  const recipe = parsed.recipe;
+  const field = await mods.mesh.sampleComputed(recipe);
+  const surfaces = mods.mesh.extract(field, mods.mesh.threshold(field, recipe.surface));
+  const { glb } = await mods.mesh.encode(surfaces, recipe, {}, 'bench');
+  const browser = new mods.browser.HeadlessBrowser(process.env.CHROMIUM_PATH || '/usr/bin/chromium');
+  const renderer = new mods.renderer.FigureRenderer(browser, site, 600000);
+  const { width, height } = mods.print.exportPixelSize({ widthMm: 180, heightMm: 120, dpi: 600 });
+  const rows = [];
+  try {
+    for (const run of ['cold (launch + page load)', 'warm', 'warm']) {
+      const t0 = now();
+      const out = await renderer.render({ recipe, glb, widthPx: width, heightPx: height, dpi: 600 });
+      const wall = now() - t0;
+      const info = mods.print.readPngInfo(out.png);
+      rows.push([run, `${info.width}×${info.height}`, String(out.tiles), fmt(out.ms.page, 0), fmt(out.ms.render, 0), fmt(out.ms.encode, 0), fmt(out.ms.finish, 0), fmt(wall, 0), fmt(out.png.length / 1e6, 1)]);
+      if (run === 'warm') results.renderWarmMs = Math.min(results.renderWarmMs ?? Infinity, wall);
+      else results.renderColdMs = wall;
+    }
+  } finally {
+    await browser.close();
+    await site.close();
+  }
+  table(['run', 'px', 'tiles', 'page ms', 'render ms', 'page encode ms', 'finish ms', 'wall ms', 'MB'], rows);
+  console.log(`  ${surfaces.reduce((n, s) => n + s.mesh.indices.length / 3, 0)} triangles (3d_z², 128³); best warm ${fmt(results.renderWarmMs, 0)} ms (target < 5000 ms): ${verdict(results.renderWarmMs < 5000)}; cold ${fmt(results.renderColdMs, 0)} ms`);
+  orbitalsNode.closeParallelSampler?.();
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -394,6 +483,8 @@ function summary() {
   if (s) rows.push([`sampling 3d_z², 2 threads (${SIZES[SIZES.length - 1]}³)`, fmt(s.m2) + ' Mvox/s', `≥ ${TARGETS.sampleMvoxPerS}`, verdict(s.m2 >= TARGETS.sampleMvoxPerS)]);
   if (results.childRssMB !== undefined) rows.push(['peak RSS, 256³ 3d_z² child', fmt(results.childRssMB) + ' MB', `≤ ${TARGETS.peakRssMB} MB`, verdict(results.childRssMB <= TARGETS.peakRssMB)]);
   if (results.liveMeanMs !== undefined) rows.push(['live preview 128³, mean per update', fmt(results.liveMeanMs) + ' ms', `< ${TARGETS.livePreviewMs} ms`, verdict(results.liveMeanMs < TARGETS.livePreviewMs)]);
+  if (results.apiMeshMs !== undefined) rows.push(['API POST …/meshes -> completed, 192³', fmt(results.apiMeshMs, 0) + ' ms', '< 2000 ms', verdict(results.apiMeshMs < 2000)]);
+  if (results.renderWarmMs !== undefined) rows.push(['render + encode 4252 × 2835 (warm browser)', fmt(results.renderWarmMs, 0) + ' ms', '< 5000 ms', verdict(results.renderWarmMs < 5000)]);
   table(['target', 'measured', 'target', 'verdict'], rows);
   console.log(`\n  machine: ${os.cpus()[0]?.model ?? 'cpu'} × ${os.cpus().length}, Node ${process.version}; bench process peak RSS ${fmt(mb(peakRssKb()))} MB (VmHWM; process.resourceUsage().maxRSS says ${fmt(mb(process.resourceUsage().maxRSS))} MB)`);
 }
@@ -409,7 +500,10 @@ async function main() {
   const t0 = now();
   console.log(`Psiform bench (sizes ${SIZES.join(', ')}; enclosed fraction ${FRACTION}; libs from dist)`);
   console.log(`  load average at start: ${loadNote()}`);
+  // --only=render,api runs just those sections (names: sampling, extraction, memory, livepreview, apijob, render).
+  const only = process.argv.find((a) => a.startsWith('--only='))?.slice(7).toLowerCase().split(',');
   for (const section of SECTIONS) {
+    if (only && !only.some((o) => section.name.toLowerCase() === `section${o}`)) continue;
     try {
       await section();
     } catch (err) {

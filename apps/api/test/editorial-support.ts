@@ -14,7 +14,7 @@ export async function startInProcessWorker(env: Record<string, string>): Promise
   const { createWorker } = require(join(WORKER_DIST, 'worker.factory.js'));
   // eslint-disable-next-line @typescript-eslint/no-require-imports
   const { loadWorkerConfig } = require(join(WORKER_DIST, 'config', 'config.js'));
-  return createWorker(loadWorkerConfig({ ...process.env, WORKER_CONCURRENCY: '2', ...env }), { logger: ['error'] });
+  return createWorker(loadWorkerConfig({ ...process.env, WORKER_CONCURRENCY: '2', THUMBNAILS: 'off', ...env }), { logger: ['error'] });
 }
 
 export async function freePort(): Promise<number> {

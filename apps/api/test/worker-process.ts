@@ -13,10 +13,14 @@ export interface WorkerProcess {
   kill: () => Promise<void>;
 }
 
-/** Spawns the compiled worker (`node apps/worker/dist/main.js`) with the test services' env; resolves once ready. */
+/**
+ * Spawns the compiled worker (`node apps/worker/dist/main.js`) with the test services' env; resolves once ready.
+ * Thumbnails after mesh jobs are off unless a spec asks for them (THUMBNAILS: 'on'): they add png assets and
+ * objects while other specs count theirs.
+ */
 export async function startWorkerProcess(env: Record<string, string> = {}): Promise<WorkerProcess> {
   if (!existsSync(WORKER_MAIN)) throw new Error('apps/worker/dist is missing: run `npm run build -w @psiform/worker` first');
-  const child = spawn(process.execPath, [WORKER_MAIN], { env: { ...process.env, WORKER_CONCURRENCY: '2', ...env }, stdio: ['ignore', 'pipe', 'pipe'] });
+  const child = spawn(process.execPath, [WORKER_MAIN], { env: { ...process.env, WORKER_CONCURRENCY: '2', THUMBNAILS: 'off', ...env }, stdio: ['ignore', 'pipe', 'pipe'] });
   let out = '';
   child.stdout!.on('data', (d) => (out += d));
   child.stderr!.on('data', (d) => (out += d));

@@ -7,7 +7,7 @@ import { ReviewsService } from './reviews.service';
  * Hooks the review rules into PATCH /api/figures/:id (owned by the figures feature) without editing it:
  * before the handler, 409 unless the figure is draft or changes_requested; after it, a new version is
  * recorded as the "revise" step in the audit log. Matches FiguresController.update by name.
- * (Requested in /tmp/psiform/requests-review.md: the same check inside FiguresStore.addVersion's lock.)
+ * (TypeormFiguresStore.addVersion repeats the check under the figure row lock.)
  */
 @Injectable()
 export class FigureEditInterceptor implements NestInterceptor {

@@ -1,5 +1,5 @@
 // Headless render page (render.html): window.psiformRender(req) draws the figure's OrbitalScene off screen in
-// tiles and returns a print PNG. Contract for the worker: /tmp/psiform/render-contract.md.
+// tiles and returns a print PNG. Contract for the worker: apps/web/src/render/CONTRACT.md.
 import '@fontsource/lato/400.css';
 import '@fontsource/lato/700.css';
 import { useLayoutEffect, useRef, useState } from 'react';

@@ -118,6 +118,18 @@ describe('MeshJobProcessor', () => {
     expect(jobs.log.at(-1)).toMatch(/^fail:the stored recipe is not valid: grid\.n: grid\.n must be at least 16/);
   });
 
+  it('afterMesh (thumbnails) runs after the completion; its failure is logged and the mesh job still succeeds', async () => {
+    const jobs = new FakeJobs();
+    const seen: unknown[] = [];
+    const ok = new MeshJobProcessor(jobs, new FakeAssets(), {} as ObjectStorage, 'test-engine', async (d) => void seen.push({ ...d, log: [...jobs.log] }));
+    await ok.process(job());
+    expect(seen).toEqual([{ jobId: 'j1', figureId: 'f1', figureVersionId: 'v1', publicationId: 'p1', assetIds: ['asset-0', 'asset-1'], log: expect.arrayContaining([expect.stringMatching(/^complete:/)]) }]);
+    const jobs2 = new FakeJobs();
+    const failing = new MeshJobProcessor(jobs2, new FakeAssets(), {} as ObjectStorage, 'test-engine', () => Promise.reject(new Error('no browser')));
+    await expect(failing.process(job())).resolves.toEqual({ jobId: 'j1', assetIds: ['asset-0', 'asset-1'] });
+    expect(jobs2.log.some((l) => l.startsWith('fail:') || l.startsWith('requeue:'))).toBe(false);
+  });
+
   it('onFailed marks the row failed only when BullMQ gives up', async () => {
     const jobs = new FakeJobs();
     const p = new MeshJobProcessor(jobs, new FakeAssets(), {} as ObjectStorage);

@@ -3,7 +3,7 @@ import { finishPng, pixelsPerMetre, readPngInfo } from '@psiform/print';
 import type { HeadlessBrowser } from './headless-browser';
 import type { StaticSite } from './static-site';
 
-/** What the worker asks of apps/web/render.html (see /tmp/psiform/render-contract.md, the page's contract). */
+/** What the worker asks of apps/web/render.html (see apps/web/src/render/CONTRACT.md, the page's contract). */
 export interface RenderRequest {
   recipe: Recipe;
   /** GLB bytes of the figure's mesh; served to the page from the worker's own origin. */
@@ -84,7 +84,7 @@ export class FigureRenderer {
         );
       });
     } catch (err) {
-      throw new Error(pageMessage(err));
+      throw new Error(pageMessage(err), { cause: err });
     } finally {
       blob.remove();
     }

@@ -95,7 +95,7 @@ export class HeadlessBrowser {
       return browser;
     } catch (err) {
       await this.dropProfile();
-      throw new Error(`could not start Chromium at ${this.executablePath} (CHROMIUM_PATH): ${(err as Error).message.split('\n')[0]}`);
+      throw new Error(`could not start Chromium at ${this.executablePath} (CHROMIUM_PATH): ${(err as Error).message.split('\n')[0]}`, { cause: err });
     }
   }
 

@@ -1,0 +1,220 @@
+import type { AddressInfo } from 'node:net';
+import { existsSync } from 'node:fs';
+import { join } from 'node:path';
+import { DOMParser } from '@xmldom/xmldom';
+import { unzipSync, strFromU8 } from 'fflate';
+import { PNG } from 'pngjs';
+import { EXPORT_STAGES, type JobDto } from '@psiform/contracts';
+import { auth, demoTokens, login, runEmail, smallRecipe, startTestApp, DEMO_PUBLICATION, RUN_ID, type TestApp } from './support';
+import { readSse, startWorkerProcess, waitFor, type WorkerProcess } from './worker-process';
+
+const WEB_DIST = join(__dirname, '..', '..', 'web', 'dist');
+
+/** PNG chunks read by hand (PNG specification §5.3: length, type, data, CRC), so the test does not trust the encoder's own reader. */
+function pngChunks(bytes: Uint8Array): Map<string, Buffer[]> {
+  const b = Buffer.from(bytes);
+  expect(b.subarray(0, 8).equals(Buffer.from([137, 80, 78, 71, 13, 10, 26, 10]))).toBe(true);
+  const out = new Map<string, Buffer[]>();
+  for (let o = 8; o < b.length; ) {
+    const len = b.readUInt32BE(o);
+    const type = b.toString('latin1', o + 4, o + 8);
+    out.set(type, [...(out.get(type) ?? []), b.subarray(o + 8, o + 8 + len)]);
+    o += 12 + len;
+  }
+  return out;
+}
+
+/** Exports end to end: api in-process, the compiled worker (headless Chromium, apps/web/dist/render.html) as a child. */
+describe('exports (e2e)', () => {
+  let t: TestApp;
+  let base: string;
+  let tok: Awaited<ReturnType<typeof demoTokens>>;
+  let outsider: string;
+  let otherIllustrator: string;
+  let worker: WorkerProcess | undefined;
+  let figureId: string;
+  let pngJob: JobDto;
+  const pub = DEMO_PUBLICATION.id;
+
+  const getJob = async (jobId: string): Promise<JobDto> => (await t.http().get(`/api/jobs/${jobId}`).set(auth(tok.editor)).expect(200)).body;
+  const finished = (jobId: string, timeoutMs = 90000) =>
+    waitFor(`job ${jobId} to finish`, async () => {
+      const j = await getJob(jobId);
+      return j.state === 'completed' || j.state === 'failed' ? j : undefined;
+    }, timeoutMs, 200);
+  const exportJob = async (body: unknown, token = tok.illustrator, id = figureId): Promise<string> =>
+    (await t.http().post(`/api/figures/${id}/exports`).set(auth(token)).send(body as object).expect(201)).body.jobId;
+  const jobCount = async (id = figureId): Promise<number> => (await t.ds.query(`SELECT count(*)::int AS n FROM jobs WHERE figure_id = $1`, [id]))[0].n;
+
+  async function download(assetId: string, token = tok.editor): Promise<Uint8Array> {
+    const res = await t.http().get(`/api/assets/${assetId}/download`).set(auth(token)).expect(302);
+    const file = await fetch(res.headers.location as string);
+    expect(file.status).toBe(200);
+    return new Uint8Array(await file.arrayBuffer());
+  }
+
+  beforeAll(async () => {
+    if (!existsSync('/usr/bin/chromium')) throw new Error('render exports need /usr/bin/chromium (apt-get install chromium)');
+    if (!existsSync(join(WEB_DIST, 'render.html'))) throw new Error(`render exports need the built client: ${WEB_DIST}/render.html is missing (npm run build -w @psiform/web)`);
+    t = await startTestApp();
+    await t.app.listen(0, '127.0.0.1');
+    base = `http://127.0.0.1:${(t.app.getHttpServer().address() as AddressInfo).port}`;
+    tok = await demoTokens(t);
+    const email = runEmail('exports-outsider');
+    await t.http().post('/api/users').set(auth(tok.admin)).send({ email, displayName: 'Outside Viewer', password: 'long-enough-pw', role: 'editor' }).expect(201);
+    outsider = (await login(t, email, 'long-enough-pw')).accessToken;
+    const email2 = runEmail('exports-illustrator');
+    const other = (await t.http().post('/api/users').set(auth(tok.admin)).send({ email: email2, displayName: 'Second Illustrator', password: 'long-enough-pw', role: 'illustrator' }).expect(201)).body;
+    await t.http().post(`/api/publications/${pub}/members`).set(auth(tok.admin)).send({ userId: other.id }).expect(201);
+    otherIllustrator = (await login(t, email2, 'long-enough-pw')).accessToken;
+    figureId = (await t.http().post('/api/figures').set(auth(tok.illustrator)).send({ publicationId: pub, title: `Export 2p_z ${RUN_ID}`, recipe: smallRecipe({ grid: { n: 48 } }) }).expect(201)).body.id;
+    worker = await startWorkerProcess({ WEB_DIST, THUMBNAILS: 'on' });
+  }, 60000);
+
+  afterAll(async () => {
+    await worker?.stop();
+    await t?.close();
+  });
+
+  it('png 89 × 60 mm at 300 dpi: meshes first, streams its stages, stores a 1051 × 709 PNG with pHYs 11811 px/m, sRGB and both phase colours', async () => {
+    const jobId = await exportJob({ format: 'png', widthMm: 89, heightMm: 60, dpi: 300 });
+    const res = await fetch(`${base}/api/jobs/${jobId}/events`, { headers: auth(tok.editor) });
+    const seen: JobDto[] = [];
+    for await (const e of readSse(res.body!)) seen.push(e as JobDto);
+    pngJob = seen[seen.length - 1];
+    expect(pngJob).toMatchObject({ id: jobId, type: 'render', state: 'completed', stage: 'done', progress: 100 });
+    const order = seen.map((e) => EXPORT_STAGES.indexOf(e.stage as (typeof EXPORT_STAGES)[number]));
+    expect(order.every((i) => i >= 0)).toBe(true);
+    expect([...order].sort((a, b) => a - b)).toEqual(order);
+    // The version had no mesh: the job computed it (glb, stl rows for the version) before rendering.
+    expect(pngJob.assets.map((a) => a.kind).sort()).toEqual(['glb', 'png', 'stl']);
+    const asset = pngJob.assets.find((a) => a.kind === 'png')!;
+    expect(asset.stats).toMatchObject({ widthPx: 1051, heightPx: 709, dpi: 300, widthMm: 89, heightMm: 60 });
+    expect(asset.stats!.ms).toBeGreaterThan(0);
+
+    const bytes = await download(asset.id);
+    expect(bytes.length).toBe(asset.bytes);
+    const chunks = pngChunks(bytes);
+    const ihdr = chunks.get('IHDR')![0];
+    // round(89 / 25.4 × 300) = 1051, round(60 / 25.4 × 300) = 709 (1 in = 25.4 mm exactly).
+    expect([ihdr.readUInt32BE(0), ihdr.readUInt32BE(4)]).toEqual([1051, 709]);
+    // pHYs (PNG spec §11.3.5.3): x, y pixels per unit and unit 1 = metre; 300 dpi = round(300 / 0.0254) = 11811.
+    const phys = chunks.get('pHYs')![0];
+    expect([phys.readUInt32BE(0), phys.readUInt32BE(4), phys[8]]).toEqual([11811, 11811, 1]);
+    expect(chunks.get('sRGB')).toHaveLength(1);
+
+    // Both lobes of 2p_z are in the picture, in the recipe's default phase colours (#c8553d warm, #2f6690 cool):
+    // shading changes their brightness, not which channel dominates.
+    const img = PNG.sync.read(Buffer.from(bytes));
+    let warm = 0;
+    let cool = 0;
+    for (let i = 0; i < img.data.length; i += 4) {
+      const [r, g, b] = [img.data[i], img.data[i + 1], img.data[i + 2]];
+      if (r > 1.6 * b && r > 1.4 * g && r > 60) warm++;
+      if (b > 1.5 * r && b > 1.1 * g && b > 60) cool++;
+    }
+    const total = img.width * img.height;
+    expect(warm / total).toBeGreaterThan(0.03);
+    expect(cool / total).toBeGreaterThan(0.03);
+  }, 120000);
+
+  it('a mesh job leaves a 320 × 240 thumbnail on the figure (stats.thumbnail) without waiting for it', async () => {
+    const id = (await t.http().post('/api/figures').set(auth(tok.illustrator)).send({ publicationId: pub, title: `Thumb ${RUN_ID}`, recipe: smallRecipe({ label: 'thumb', grid: { n: 40 } }) }).expect(201)).body.id;
+    const meshJob = await finished((await t.http().post(`/api/figures/${id}/meshes`).set(auth(tok.illustrator)).expect(201)).body.jobId);
+    expect(meshJob.state).toBe('completed');
+    expect(meshJob.assets.map((a) => a.kind).sort()).toEqual(['glb', 'stl']);
+    const fig = await waitFor('the thumbnail', async () => {
+      const f = (await t.http().get(`/api/figures/${id}`).set(auth(tok.editor)).expect(200)).body;
+      return f.thumbnailAssetId ? f : undefined;
+    }, 60000, 300);
+    const thumb = fig.assets.find((a: { id: string }) => a.id === fig.thumbnailAssetId);
+    expect(thumb).toMatchObject({ kind: 'png', stats: { thumbnail: true, widthPx: 320, heightPx: 240, dpi: 96 } });
+    const ihdr = pngChunks(await download(thumb.id)).get('IHDR')![0];
+    expect([ihdr.readUInt32BE(0), ihdr.readUInt32BE(4)]).toEqual([320, 240]);
+    const list = (await t.http().get(`/api/figures?publicationId=${pub}&q=${encodeURIComponent(`Thumb ${RUN_ID}`)}`).set(auth(tok.editor)).expect(200)).body;
+    expect(list.items[0].thumbnailAssetId).toBe(fig.thumbnailAssetId);
+  }, 120000);
+
+  it('svg section map (2p_z, xz plane, 3 levels) parses as XML with 3 + 3 contours and one nodal line; the radial plot embeds Lato', async () => {
+    const job = await finished(await exportJob({ format: 'svg', kind: 'section', plane: 'xz', levels: 3, widthMm: 80, heightMm: 80 }, tok.editor));
+    expect(job).toMatchObject({ type: 'export', state: 'completed' });
+    const svg = strFromU8(await download(job.assets[0].id));
+    const errors: string[] = [];
+    const doc = new DOMParser({ onError: (level, msg) => void (level !== 'warning' && errors.push(msg)) }).parseFromString(svg, 'image/svg+xml');
+    expect(errors).toEqual([]);
+    const paths = Array.from(doc.getElementsByTagName('path'));
+    const cls = (c: string) => paths.filter((p) => (p.getAttribute('class') ?? '').split(/\s+/).includes(c));
+    // 2p_z ∝ z e^{-r/2}: in the xz plane one lobe of each sign, cut by the nodal line z = 0 (Y_10 ∝ cos θ).
+    expect(cls('contour-pos')).toHaveLength(3);
+    expect(cls('contour-neg')).toHaveLength(3);
+    expect(cls('nodal')).toHaveLength(1);
+    expect(doc.documentElement?.getAttribute('width')).toBe('80mm');
+    expect(svg).toContain('#c8553d');
+
+    const radial = await finished(await exportJob({ format: 'svg', kind: 'radial' }));
+    const rsvg = strFromU8(await download(radial.assets[0].id));
+    const rdoc = new DOMParser().parseFromString(rsvg, 'image/svg+xml');
+    expect(rsvg).toMatch(/@font-face\s*\{[^}]*Lato[^}]*data:font\/woff2;base64,/);
+    // R_21 has n − l − 1 = 0 radial nodes (hydrogen-like radial functions; e.g. Griffiths, Introduction to QM, §4.2).
+    expect(Array.from(rdoc.getElementsByTagName('circle')).filter((c) => c.getAttribute('class') === 'node')).toHaveLength(0);
+    expect(Array.from(rdoc.getElementsByTagName('g')).some((g) => g.getAttribute('class') === 'plot')).toBe(true);
+  }, 60000);
+
+  it('glb export hands over the existing mesh asset; bundle zips GLB, STL, the latest PNG, radial SVG, recipe, metadata (model note, enclosed fraction), README', async () => {
+    const glbJob = await finished(await exportJob({ format: 'glb' }));
+    const meshGlb = pngJob.assets.find((a) => a.kind === 'glb')!;
+    expect(glbJob.assets.map((a) => a.id)).toEqual([meshGlb.id]);
+
+    const bundle = await finished(await exportJob({ format: 'bundle' }, tok.artDirector));
+    expect(bundle.state).toBe('completed');
+    expect(bundle.assets[0].kind).toBe('bundle');
+    const files = unzipSync(await download(bundle.assets[0].id));
+    expect(Object.keys(files).sort()).toEqual(['README.txt', 'figure.glb', 'figure.png', 'figure.stl', 'metadata.json', 'radial.svg', 'recipe.json']);
+    const meta = JSON.parse(strFromU8(files['metadata.json']));
+    expect(meta.model.note).toMatch(/one-electron hydrogen-like model/);
+    expect(meta.surface).toMatchObject({ rule: 'enclosed', target: 0.9 });
+    expect(meta.surface.enclosedAchieved).toBeCloseTo(meshGlb.stats!.enclosed!, 9);
+    expect(meta.surface.enclosedAchieved).toBeGreaterThan(0.89);
+    expect(meta.grid.n).toBe(48);
+    expect(JSON.parse(strFromU8(files['recipe.json'])).content.terms[0]).toMatchObject({ n: 2, l: 1, m: 0 });
+    expect(strFromU8(files['README.txt'])).toMatch(/hydrogen-like/);
+    // The PNG is the latest print render of this version (the one from the first test), byte for byte.
+    const png = pngJob.assets.find((a) => a.kind === 'png')!;
+    expect(Buffer.from(files['figure.png']).equals(Buffer.from(await download(png.id)))).toBe(true);
+    expect(Buffer.from(files['figure.glb']).subarray(0, 4).toString('latin1')).toBe('glTF');
+  }, 120000);
+
+  it('invalid export requests answer 400 naming the field and queue nothing', async () => {
+    const before = await jobCount();
+    const cases: [unknown, RegExp][] = [
+      [{ format: 'png', widthMm: 5, heightMm: 60, dpi: 300 }, /^widthMm: .*10 to 1000/],
+      [{ format: 'png', widthMm: 89, heightMm: 'tall', dpi: 300 }, /^heightMm: /],
+      [{ format: 'png', widthMm: 89, heightMm: 60, dpi: 72 }, /^dpi: must be one of 300, 600, 1200/],
+      [{ format: 'png', widthMm: 89, heightMm: 60, dpi: 300, transparent: 'yes' }, /^transparent: /],
+      [{ format: 'png', widthMm: 1000, heightMm: 1000, dpi: 1200 }, /^dpi: .*47244 × 47244 px/],
+      [{ format: 'png', widthMm: 89, heightMm: 60, dpi: 300, colour: 'red' }, /^colour: is not a field/],
+      [{ format: 'tiff' }, /^format: must be one of png, svg, glb, stl, bundle/],
+      [{ format: 'svg', kind: 'pie' }, /^kind: /],
+      [{ format: 'svg', kind: 'section', plane: 'xw' }, /^plane: /],
+      [{ format: 'svg', kind: 'section', levels: 0 }, /^levels: /],
+    ];
+    for (const [body, message] of cases) {
+      const res = await t.http().post(`/api/figures/${figureId}/exports`).set(auth(tok.illustrator)).send(body as object).expect(400);
+      expect([res.body.message].flat().some((m: string) => message.test(m))).toBe(true);
+    }
+    expect(await jobCount()).toBe(before);
+  });
+
+  it('a non-member can neither export nor download (404); another illustrator of the publication gets 403; editors may export', async () => {
+    const before = await jobCount();
+    await t.http().post(`/api/figures/${figureId}/exports`).set(auth(outsider)).send({ format: 'glb' }).expect(404);
+    await t.http().post(`/api/figures/${figureId}/exports`).set(auth(otherIllustrator)).send({ format: 'glb' }).expect(403);
+    expect(await jobCount()).toBe(before);
+    const png = pngJob.assets.find((a) => a.kind === 'png')!;
+    await t.http().get(`/api/assets/${png.id}/download`).set(auth(outsider)).expect(404);
+    await t.http().get(`/api/jobs/${pngJob.id}`).set(auth(outsider)).expect(404);
+    await t.http().post(`/api/figures/${figureId}/exports`).send({ format: 'glb' }).expect(401);
+    const stl = await finished(await exportJob({ format: 'stl' }, tok.editor));
+    expect(stl.assets.map((a) => a.kind)).toEqual(['stl']);
+  });
+});
