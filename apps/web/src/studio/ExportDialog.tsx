@@ -52,6 +52,12 @@ function serverText(err: unknown): string {
   return describeError(err);
 }
 
+/** The file the user asked for comes first; a job that had to compute the mesh first also lists its GLB and STL. */
+export function askedForFirst(assets: AssetDto[], kind: string | undefined): AssetDto[] {
+  if (!kind) return assets;
+  return [...assets].sort((a, b) => Number(b.kind === kind) - Number(a.kind === kind));
+}
+
 export function DownloadList({ assets, testid }: { assets: AssetDto[]; testid: string }) {
   const api = useApi();
   const [error, setError] = useState<string | null>(null);
@@ -150,6 +156,7 @@ export function ExportForm({ figure, canvas, transparentDefault, unsaved }: Expo
   const [dpi, setDpi] = useState<number>(canvas.dpi);
   const [transparent, setTransparent] = useState(transparentDefault);
   const [format, setFormat] = useState<ExportFormat>('png');
+  const [requestedKind, setRequestedKind] = useState<string | undefined>();
   const [jobId, setJobId] = useState<string | null>(null);
   const [result, setResult] = useState<JobDto | null>(null);
   const [sending, setSending] = useState(false);
@@ -190,6 +197,7 @@ export function ExportForm({ figure, canvas, transparentDefault, unsaved }: Expo
 
   async function submit() {
     if (!body) return;
+    setRequestedKind(body.format === 'svg' ? 'svg' : body.format);
     setSending(true);
     setError(null);
     setResult(null);
@@ -273,7 +281,7 @@ export function ExportForm({ figure, canvas, transparentDefault, unsaved }: Expo
       )}
       {result?.state === 'completed' &&
         (result.assets.length > 0 ? (
-          <DownloadList assets={result.assets} testid="export-ready" />
+          <DownloadList assets={askedForFirst(result.assets, requestedKind)} testid="export-ready" />
         ) : (
           <Callout intent="warning" data-testid="export-no-asset">
             The export finished but reported no file.
