@@ -49,6 +49,8 @@ try {
   migrateAndSeed(svc.env);
   const env = { ...svc.env, PSIFORM_TEST_DATA: dataDir, NODE_ENV: 'test' };
 
+  // Lint first: it needs no services and fails fast on a broken import rule (libs stay pure).
+  await suite('lint', 'eslint', process.execPath, [path.join(ROOT, 'scripts/lint.mjs')], { env });
   const vitest = path.join(ROOT, 'node_modules/.bin/vitest');
   const jest = path.join(ROOT, 'node_modules/.bin/jest');
   for (const [name, dir] of [['contracts', 'libs/contracts'], ['colour', 'libs/colour'], ['orbitals', 'libs/orbitals'], ['meshing', 'libs/meshing'], ['print', 'libs/print'], ['cli', 'apps/cli'], ['web', 'apps/web']]) {

@@ -18,5 +18,9 @@ export function parseCounts(runner, output) {
   if (runner === 'node') {
     return { passed: num(/^ℹ pass (\d+)$/m) || num(/^# pass (\d+)$/m), failed: num(/^ℹ fail (\d+)$/m) || num(/^# fail (\d+)$/m), skipped: num(/^ℹ skipped (\d+)$/m) || num(/^# skip (\d+)$/m) };
   }
+  if (runner === 'eslint') {
+    const m = text.match(/^lint: (\d+) files checked, (\d+) with errors$/m);
+    return m ? { passed: Number(m[1]) - Number(m[2]), failed: Number(m[2]), skipped: 0 } : { passed: 0, failed: 0, skipped: 0 };
+  }
   throw new Error(`unknown runner ${runner}`);
 }

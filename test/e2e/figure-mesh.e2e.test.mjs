@@ -90,7 +90,7 @@ async function expectOutcome(page, { ok, errors, what, timeout }) {
     result = await Promise.any([okPromise, ...errPromises]);
   } catch (err) {
     const reasons = err instanceof AggregateError ? err.errors.map((e) => e.message.split('\n')[0]) : [String(err)];
-    throw new Error(`${what} did not happen within ${timeout / 1000} s (${reasons[0]})`);
+    throw new Error(`${what} did not happen within ${timeout / 1000} s (${reasons[0]})`, { cause: err });
   }
   if (!result.ok) throw new Error(`${what} failed; the page says (${result.testId}): ${result.text}`);
 }

@@ -50,7 +50,7 @@ export function streamJob(api: ApiClient, jobId: string, opts: StreamJobOptions)
         retries = 0;
         return;
       }
-      let body: unknown = null;
+      let body: unknown;
       try {
         body = JSON.parse(await res.text());
       } catch {

@@ -65,7 +65,7 @@ export function uploadCube(
     xhr.onerror = () => reject(new ApiError('network', 0, 'The upload could not reach the Psiform server.'));
     xhr.onabort = () => reject(new DOMException('Upload cancelled', 'AbortError'));
     xhr.onload = () => {
-      let data: unknown = undefined;
+      let data: unknown;
       try {
         data = xhr.responseText ? JSON.parse(xhr.responseText) : null;
       } catch {

@@ -209,7 +209,7 @@ export function checkContent(d: ContentDraft): ContentCheck {
   if (Object.keys(errors).length > 0 || !terms) return { built: null, errors };
   const Z = num(d.Z);
   const state: OrbitalState = { Z, terms };
-  let isReal = true;
+  let isReal: boolean;
   try {
     isReal = isRealState(state);
   } catch {
