@@ -95,3 +95,23 @@ export async function apiGet(path, token, url = baseUrl()) {
   if (!res.ok) throw new Error(`GET ${path} answered ${res.status}: ${text.slice(0, 200)}`);
   return JSON.parse(text);
 }
+
+/** Waits for the page to reach `ok`, or throws with the first error the page shows instead (by data-testid). */
+export async function expectOutcome(page, { ok, errors, what, timeout }) {
+  const okPromise = ok().then(() => ({ ok: true }));
+  const errPromises = errors.map((testId) =>
+    page
+      .getByTestId(testId)
+      .first()
+      .waitFor({ state: 'visible', timeout })
+      .then(async () => ({ ok: false, testId, text: (await page.getByTestId(testId).first().textContent())?.trim() })),
+  );
+  let result;
+  try {
+    result = await Promise.any([okPromise, ...errPromises]);
+  } catch (err) {
+    const reasons = err instanceof AggregateError ? err.errors.map((e) => e.message.split('\n')[0]) : [String(err)];
+    throw new Error(`${what} did not happen within ${timeout / 1000} s (${reasons[0]})`, { cause: err });
+  }
+  if (!result.ok) throw new Error(`${what} failed; the page says (${result.testId}): ${result.text}`);
+}

@@ -7,7 +7,8 @@
 import assert from 'node:assert/strict';
 import { after, before, test } from 'node:test';
 import { PNG } from 'pngjs';
-import { apiGet, baseUrl, DEMO_ILLUSTRATOR, launchBrowser, newPage, signIn } from './browser.mjs';
+import { apiGet, baseUrl, DEMO_ILLUSTRATOR, expectOutcome, launchBrowser, newPage, signIn } from './browser.mjs';
+import { countPhasePixels, pngChunks } from './pixels.mjs';
 
 let launched;
 
@@ -19,81 +20,6 @@ before(async () => {
 after(async () => {
   await launched?.close();
 });
-
-/** '#c8553d' -> [200, 85, 61] */
-function hexRgb(hex) {
-  const m = /^#([0-9a-f]{2})([0-9a-f]{2})([0-9a-f]{2})$/i.exec(hex);
-  if (!m) throw new Error(`not a #rrggbb colour: ${hex}`);
-  return [parseInt(m[1], 16), parseInt(m[2], 16), parseInt(m[3], 16)];
-}
-
-/** HSV with hue in degrees, s and v in 0..1 (the usual hexcone model, common practice). */
-export function hsv([r, g, b]) {
-  const R = r / 255;
-  const G = g / 255;
-  const B = b / 255;
-  const max = Math.max(R, G, B);
-  const min = Math.min(R, G, B);
-  const d = max - min;
-  let h = 0;
-  if (d > 0) {
-    if (max === R) h = 60 * (((G - B) / d) % 6);
-    else if (max === G) h = 60 * ((B - R) / d + 2);
-    else h = 60 * ((R - G) / d + 4);
-  }
-  if (h < 0) h += 360;
-  return { h, s: max === 0 ? 0 : d / max, v: max };
-}
-
-function hueDistance(a, b) {
-  const d = Math.abs(a - b) % 360;
-  return d > 180 ? 360 - d : d;
-}
-
-/**
- * Counts pixels that read as each palette colour under shading. Lighting scales brightness and, with
- * specular highlights, pulls saturation down; the hue survives. So a pixel counts for a colour when its hue is
- * within HUE_TOL degrees of the colour's hue and it is clearly coloured (s >= MIN_S) and not near black.
- * Tolerances are our own choice (common practice for such checks), wide enough for shading, narrow enough
- * that the two palette hues (about 10° and 205°) and the near-white background can never be confused.
- */
-const HUE_TOL = 20;
-const MIN_S = 0.25;
-const MIN_V = 0.12;
-
-function countPhasePixels(png, colours) {
-  const targets = colours.map((c) => hsv(hexRgb(c)));
-  const counts = colours.map(() => 0);
-  const { width, height, data } = png;
-  for (let i = 0; i < width * height; i++) {
-    const p = hsv([data[4 * i], data[4 * i + 1], data[4 * i + 2]]);
-    if (p.s < MIN_S || p.v < MIN_V) continue;
-    targets.forEach((t, k) => {
-      if (hueDistance(p.h, t.h) <= HUE_TOL) counts[k] += 1;
-    });
-  }
-  return { counts, total: width * height };
-}
-
-/** Waits for the page to reach `ok`, or throws with the first error the page shows instead. */
-async function expectOutcome(page, { ok, errors, what, timeout }) {
-  const okPromise = ok().then(() => ({ ok: true }));
-  const errPromises = errors.map((testId) =>
-    page
-      .getByTestId(testId)
-      .first()
-      .waitFor({ state: 'visible', timeout })
-      .then(async () => ({ ok: false, testId, text: (await page.getByTestId(testId).first().textContent())?.trim() })),
-  );
-  let result;
-  try {
-    result = await Promise.any([okPromise, ...errPromises]);
-  } catch (err) {
-    const reasons = err instanceof AggregateError ? err.errors.map((e) => e.message.split('\n')[0]) : [String(err)];
-    throw new Error(`${what} did not happen within ${timeout / 1000} s (${reasons[0]})`, { cause: err });
-  }
-  if (!result.ok) throw new Error(`${what} failed; the page says (${result.testId}): ${result.text}`);
-}
 
 test('an illustrator creates a 2p_z figure, computes its mesh and sees both phase colours', { timeout: 240_000 }, async () => {
   const { context, page, errors } = await newPage(launched.browser);

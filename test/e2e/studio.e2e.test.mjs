@@ -6,7 +6,8 @@
 import assert from 'node:assert/strict';
 import { after, before, test } from 'node:test';
 import { PNG } from 'pngjs';
-import { apiGet, baseUrl, DEMO_ILLUSTRATOR, launchBrowser, newPage, signIn } from './browser.mjs';
+import { apiGet, baseUrl, DEMO_ILLUSTRATOR, expectOutcome, launchBrowser, newPage, signIn } from './browser.mjs';
+import { countPhasePixels, pngChunks } from './pixels.mjs';
 
 let launched;
 before(async () => {
@@ -16,79 +17,6 @@ before(async () => {
 after(async () => {
   await launched?.close();
 });
-
-function hexRgb(hex) {
-  const m = /^#([0-9a-f]{2})([0-9a-f]{2})([0-9a-f]{2})$/i.exec(hex);
-  if (!m) throw new Error(`not a #rrggbb colour: ${hex}`);
-  return [parseInt(m[1], 16), parseInt(m[2], 16), parseInt(m[3], 16)];
-}
-
-/** HSV with hue in degrees (the usual hexcone model, common practice); as in figure-mesh.e2e.test.mjs. */
-function hsv([r, g, b]) {
-  const R = r / 255, G = g / 255, B = b / 255;
-  const max = Math.max(R, G, B), min = Math.min(R, G, B), d = max - min;
-  let h = 0;
-  if (d > 0) {
-    if (max === R) h = 60 * (((G - B) / d) % 6);
-    else if (max === G) h = 60 * ((B - R) / d + 2);
-    else h = 60 * ((R - G) / d + 4);
-  }
-  if (h < 0) h += 360;
-  return { h, s: max === 0 ? 0 : d / max, v: max };
-}
-const hueDistance = (a, b) => {
-  const d = Math.abs(a - b) % 360;
-  return d > 180 ? 360 - d : d;
-};
-// Same tolerances as the figure page test (our choice, common practice for such checks).
-function countPhasePixels(png, colours) {
-  const targets = colours.map((c) => hsv(hexRgb(c)));
-  const counts = colours.map(() => 0);
-  for (let i = 0; i < png.width * png.height; i++) {
-    if (png.data[4 * i + 3] === 0) continue;
-    const p = hsv([png.data[4 * i], png.data[4 * i + 1], png.data[4 * i + 2]]);
-    if (p.s < 0.25 || p.v < 0.12) continue;
-    targets.forEach((t, k) => {
-      if (hueDistance(p.h, t.h) <= 20) counts[k] += 1;
-    });
-  }
-  return { counts, total: png.width * png.height };
-}
-
-/** PNG chunks (PNG specification §5.3): length, type, data; IHDR first. */
-function pngChunks(buf) {
-  const sig = [137, 80, 78, 71, 13, 10, 26, 10];
-  assert.deepEqual([...buf.subarray(0, 8)], sig, 'the file starts with the PNG signature');
-  const chunks = [];
-  let off = 8;
-  while (off + 8 <= buf.length) {
-    const len = buf.readUInt32BE(off);
-    const type = buf.toString('ascii', off + 4, off + 8);
-    chunks.push({ type, data: buf.subarray(off + 8, off + 8 + len) });
-    off += 12 + len;
-    if (type === 'IEND') break;
-  }
-  return chunks;
-}
-
-async function expectOutcome(page, { ok, errors, what, timeout }) {
-  const okPromise = ok().then(() => ({ ok: true }));
-  const errPromises = errors.map((id) =>
-    page
-      .getByTestId(id)
-      .first()
-      .waitFor({ state: 'visible', timeout })
-      .then(async () => ({ ok: false, id, text: (await page.getByTestId(id).first().textContent())?.trim() })),
-  );
-  let result;
-  try {
-    result = await Promise.any([okPromise, ...errPromises]);
-  } catch (err) {
-    const reasons = err instanceof AggregateError ? err.errors.map((e) => e.message.split('\n')[0]) : [String(err)];
-    throw new Error(`${what} did not happen within ${timeout / 1000} s (${reasons[0]})`, { cause: err });
-  }
-  if (!result.ok) throw new Error(`${what} failed; the page says (${result.id}): ${result.text}`);
-}
 
 test('an illustrator composes 2p_z in the studio, sees both phases and exports a 1051 × 709 px PNG at 300 dpi', { timeout: 300_000 }, async () => {
   const { context, page, errors } = await newPage(launched.browser);
