@@ -28,10 +28,10 @@ export function failureText(job: JobDto): string {
 }
 
 /**
- * Follows one job over its event stream and shows a progress bar with the stage name. Calls onFinished
- * once with the terminal job (completed or failed).
+ * Follows one job over its event stream: the latest JobDto and, if the stream broke, a readable reason.
+ * Calls onFinished once with the terminal job (completed or failed). Shared by every progress bar of jobs.
  */
-export function JobProgress({ jobId, onFinished }: { jobId: string; onFinished?(job: JobDto): void }) {
+export function useFollowJob(jobId: string, onFinished?: (job: JobDto) => void): { job: JobDto | null; streamError: string | null } {
   const api = useApi();
   const [job, setJob] = useState<JobDto | null>(null);
   const [streamError, setStreamError] = useState<string | null>(null);
@@ -51,6 +51,12 @@ export function JobProgress({ jobId, onFinished }: { jobId: string; onFinished?(
       });
     return () => ctrl.abort();
   }, [api, jobId]);
+  return { job, streamError };
+}
+
+/** A progress bar with the stage name for one job. */
+export function JobProgress({ jobId, onFinished }: { jobId: string; onFinished?(job: JobDto): void }) {
+  const { job, streamError } = useFollowJob(jobId, onFinished);
 
   const state = job?.state ?? 'queued';
   const value = job ? Math.max(0, Math.min(100, job.progress)) / 100 : 0;

@@ -1,11 +1,11 @@
 // Export a figure: PNG at a physical size and dpi, SVG companions, the bundle, or the mesh files.
-import { useEffect, useRef, useState } from 'react';
+import { useState } from 'react';
 import { Button, ButtonGroup, Callout, Checkbox, Dialog, DialogBody, DialogFooter, FormGroup, HTMLSelect, InputGroup, ProgressBar } from '@blueprintjs/core';
 import type { AssetDto, FigureDto, JobDto, Recipe } from '@psiform/contracts';
 import { COLUMN_PRESETS, DPI_CHOICES, type ColumnPreset } from '@psiform/print';
 import { formatBytes } from '@psiform/orbitals';
 import { ApiError, describeError } from '../api/client';
-import { isTerminal, streamJob } from '../api/jobStream';
+import { useFollowJob } from '../figures/JobProgress';
 import { useApi } from '../auth/AuthProvider';
 import { browser } from '../figures/AssetDownloads';
 import { fromMm, lengthError, pixelText, toMm, type LengthUnit } from './exportSize';
@@ -98,22 +98,7 @@ export function DownloadList({ assets, testid }: { assets: AssetDto[]; testid: s
 }
 
 function ExportProgress({ jobId, onDone }: { jobId: string; onDone(job: JobDto): void }) {
-  const api = useApi();
-  const [job, setJob] = useState<JobDto | null>(null);
-  const [err, setErr] = useState<string | null>(null);
-  const done = useRef(onDone);
-  done.current = onDone;
-  useEffect(() => {
-    const ctrl = new AbortController();
-    streamJob(api, jobId, { signal: ctrl.signal, onJob: setJob })
-      .then((last) => {
-        if (last && isTerminal(last)) done.current(last);
-      })
-      .catch((e: unknown) => {
-        if (!ctrl.signal.aborted) setErr(describeError(e));
-      });
-    return () => ctrl.abort();
-  }, [api, jobId]);
+  const { job, streamError: err } = useFollowJob(jobId, onDone);
   const state = job?.state ?? 'queued';
   const value = job ? Math.max(0, Math.min(100, job.progress)) / 100 : 0;
   const running = state === 'queued' || state === 'active';
