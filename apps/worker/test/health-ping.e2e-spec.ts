@@ -17,6 +17,8 @@ function config(): WorkerConfig {
   }
 }
 
+// Jobs are kept after they finish: with removeOnComplete a fast worker can delete the job before
+// waitUntilFinished reads it ("Missing key for job"); the test Redis is thrown away after the run.
 describe('worker health ping (e2e)', () => {
   let worker: INestApplicationContext;
   let queue: Queue;
@@ -38,7 +40,7 @@ describe('worker health ping (e2e)', () => {
   });
 
   it('answers a ping job with pong and the worker id', async () => {
-    const job = await queue.add(HEALTH_PING_JOB, {}, { removeOnComplete: true, removeOnFail: true });
+    const job = await queue.add(HEALTH_PING_JOB, {});
     const result = await job.waitUntilFinished(events, 10000);
     expect(result.pong).toBe(true);
     expect(result.worker).toMatch(new RegExp(`^${hostname()}/\\d+$`));
@@ -48,12 +50,12 @@ describe('worker health ping (e2e)', () => {
   });
 
   it('fails a job with an unknown name, with a message', async () => {
-    const job = await queue.add('no-such-job', {}, { removeOnComplete: true, removeOnFail: true, attempts: 1 });
+    const job = await queue.add('no-such-job', {}, { attempts: 1 });
     await expect(job.waitUntilFinished(events, 10000)).rejects.toThrow('unknown job name "no-such-job" on queue psiform-health');
   });
 
   it('handles several pings concurrently', async () => {
-    const jobs = await queue.addBulk(Array.from({ length: 10 }, () => ({ name: HEALTH_PING_JOB, data: {}, opts: { removeOnComplete: true } })));
+    const jobs = await queue.addBulk(Array.from({ length: 10 }, () => ({ name: HEALTH_PING_JOB, data: {} })));
     const results = await Promise.all(jobs.map((j) => j.waitUntilFinished(events, 10000)));
     expect(results.every((r) => r.pong === true)).toBe(true);
   });
@@ -90,7 +92,7 @@ describe('worker entry point (compiled)', () => {
       });
       await events.waitUntilReady();
       // Our in-process worker is closed by now, so the child answers.
-      const job = await queue.add(HEALTH_PING_JOB, {}, { removeOnComplete: true });
+      const job = await queue.add(HEALTH_PING_JOB, {});
       expect(await job.waitUntilFinished(events, 10000)).toEqual({ pong: true, worker: `${hostname()}/${child.pid}` });
       const exited = new Promise<NodeJS.Signals | null>((resolve) => child.on('exit', (_c, s) => resolve(s)));
       child.kill('SIGTERM');
