@@ -34,6 +34,7 @@ describe('exports (e2e)', () => {
   let worker: WorkerProcess | undefined;
   let figureId: string;
   let pngJob: JobDto;
+  let thumbFigure: { id: string; title: string } | undefined;
   const pub = DEMO_PUBLICATION.id;
 
   const getJob = async (jobId: string): Promise<JobDto> => (await t.http().get(`/api/jobs/${jobId}`).set(auth(tok.editor)).expect(200)).body;
@@ -133,7 +134,31 @@ describe('exports (e2e)', () => {
     expect([ihdr.readUInt32BE(0), ihdr.readUInt32BE(4)]).toEqual([320, 240]);
     const list = (await t.http().get(`/api/figures?publicationId=${pub}&q=${encodeURIComponent(`Thumb ${RUN_ID}`)}`).set(auth(tok.editor)).expect(200)).body;
     expect(list.items[0].thumbnailAssetId).toBe(fig.thumbnailAssetId);
+    thumbFigure = { id, title: `Thumb ${RUN_ID}` };
   }, 120000);
+
+  it('the figures list carries a presigned thumbnailUrl that downloads the 320 × 240 PNG; null for a figure without one', async () => {
+    expect(thumbFigure).toBeDefined();
+    const bare = (await t.http().post('/api/figures').set(auth(tok.illustrator)).send({ publicationId: pub, title: `Thumb ${RUN_ID} none`, recipe: smallRecipe({ grid: { n: 32 } }) }).expect(201)).body.id;
+    const list = (await t.http().get(`/api/figures?publicationId=${pub}&pageSize=100&q=${encodeURIComponent(thumbFigure!.title)}`).set(auth(tok.editor)).expect(200)).body;
+    const row = list.items.find((f: { id: string }) => f.id === thumbFigure!.id);
+    const bareRow = list.items.find((f: { id: string }) => f.id === bare);
+    expect(bareRow).toMatchObject({ thumbnailAssetId: null, thumbnailUrl: null });
+    expect(typeof row.thumbnailUrl).toBe('string');
+    // A presigned S3 GET (query-string signature, AWS SigV4) straight to the object store, no api token needed.
+    const url = new URL(row.thumbnailUrl);
+    expect(url.searchParams.get('X-Amz-Signature')).toMatch(/^[0-9a-f]{64}$/);
+    expect(Number(url.searchParams.get('X-Amz-Expires'))).toBeLessThanOrEqual(600);
+    const res = await fetch(row.thumbnailUrl);
+    expect(res.status).toBe(200);
+    const img = PNG.sync.read(Buffer.from(await res.arrayBuffer()));
+    expect([img.width, img.height]).toEqual([320, 240]);
+    // Not a blank picture: the background and the lobes differ.
+    const first = img.data.readUInt32BE(0);
+    let other = 0;
+    for (let i = 0; i < img.data.length; i += 4) if (img.data.readUInt32BE(i) !== first) other++;
+    expect(other / (img.width * img.height)).toBeGreaterThan(0.02);
+  }, 60000);
 
   it('svg section map (2p_z, xz plane, 3 levels) parses as XML with 3 + 3 contours and one nodal line; the radial plot embeds Lato', async () => {
     const job = await finished(await exportJob({ format: 'svg', kind: 'section', plane: 'xz', levels: 3, widthMm: 80, heightMm: 80 }, tok.editor));

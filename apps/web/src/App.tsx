@@ -21,6 +21,7 @@ import { ReviewDeskPage } from './review/ReviewDeskPage';
 import { SwatchbookPage } from './swatchbooks/SwatchbookPage';
 import { SwatchbooksPage } from './swatchbooks/SwatchbooksPage';
 import { StudioPage } from './studio/StudioPage';
+import { FigureSetsPage } from './sets/FigureSetsPage';
 
 export function createQueryClient(): QueryClient {
   return new QueryClient({
@@ -49,6 +50,7 @@ const BUILT: Record<string, () => ReactNode> = {
   '/review': () => <ReviewDeskPage />,
   '/composer': () => <StudioPage />,
   '/swatchbooks': () => <SwatchbooksPage />,
+  '/sets': () => <FigureSetsPage />,
 };
 
 /** Pages reached from the places (not in the navigation); SUB_ROUTES says who may open them. */

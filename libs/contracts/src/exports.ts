@@ -81,6 +81,8 @@ export interface FigureSetDto {
   title: string;
   figureIds: string[];
   columns: number;
+  /** The set's latest exported PNG (asset id), null before the first export. */
+  pngAssetId: string | null;
   createdBy: string | null;
   createdAt: string;
 }

@@ -39,6 +39,8 @@ export interface FigureSummaryDto {
   versionNumber: number;
   label?: string;
   thumbnailAssetId?: string | null;
+  /** Short-lived presigned GET link to the 320 × 240 PNG thumbnail (about 5 minutes); null when there is none. */
+  thumbnailUrl?: string | null;
   updatedAt: string;
 }
 

@@ -1,4 +1,4 @@
-import { Body, Controller, Get, Param, Post } from '@nestjs/common';
+import { Body, Controller, Get, Param, Post, Query } from '@nestjs/common';
 import type { CreateFigureSetRequest, CreateJobResponse, FigureSetDto, UserDto } from '@psiform/contracts';
 import { CurrentUser, Roles } from '../auth/auth.decorators';
 import { uuidParam } from '../common/uuid-param.pipe';
@@ -19,6 +19,11 @@ export class ExportsController {
   @Roles('illustrator', 'editor', 'art_director', 'admin')
   createSet(@CurrentUser() user: UserDto, @Body() body: Record<string, unknown>): Promise<FigureSetDto> {
     return this.exports.createSet(user, body as unknown as CreateFigureSetRequest);
+  }
+
+  @Get('figure-sets')
+  listSets(@CurrentUser() user: UserDto, @Query('publicationId') publicationId: unknown): Promise<FigureSetDto[]> {
+    return this.exports.listSets(user, publicationId);
   }
 
   @Get('figure-sets/:id')

@@ -72,6 +72,12 @@ export class ExportsService {
     return toFigureSetDto(set);
   }
 
+  async listSets(user: Caller, publicationId: unknown): Promise<FigureSetDto[]> {
+    if (typeof publicationId !== 'string' || !UUID.test(publicationId)) throw new BadRequestException(['publicationId: must be a UUID']);
+    await this.membership.requireAccess(user, publicationId);
+    return (await this.sets.listForPublication(publicationId)).map(toFigureSetDto);
+  }
+
   /** One PNG of all panels: one camera, one scale (the largest extent of the set), panels labelled a, b, c ... */
   async requestSetExport(user: Caller, id: string, body: unknown): Promise<CreateJobResponse> {
     const set = await this.sets.findById(id);

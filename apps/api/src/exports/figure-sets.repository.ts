@@ -14,6 +14,8 @@ export interface NewFigureSet {
 export abstract class FigureSetsStore {
   abstract insert(set: NewFigureSet): Promise<FigureSetEntity>;
   abstract findById(id: string): Promise<FigureSetEntity | null>;
+  /** A publication's sets, newest first (at most 100). */
+  abstract listForPublication(publicationId: string): Promise<FigureSetEntity[]>;
 }
 
 @Injectable()
@@ -29,5 +31,9 @@ export class TypeormFigureSetsStore extends FigureSetsStore {
 
   findById(id: string): Promise<FigureSetEntity | null> {
     return this.ds.getRepository(FigureSetEntity).findOne({ where: { id } });
+  }
+
+  listForPublication(publicationId: string): Promise<FigureSetEntity[]> {
+    return this.ds.getRepository(FigureSetEntity).find({ where: { publicationId }, order: { createdAt: 'DESC' }, take: 100 });
   }
 }

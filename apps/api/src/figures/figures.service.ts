@@ -3,6 +3,7 @@ import type { CreateJobResponse, FigureDto, FigureSummaryDto, Page, Recipe, User
 import { MembershipService } from '../publications/membership.service';
 import { AssetStore } from '../assets/asset-store';
 import { toAssetDto } from '../assets/asset.entity';
+import { LINK_TTL_SECONDS } from '../assets/assets.service';
 import { JobsService } from '../jobs/jobs.service';
 import { ENGINE_VERSION } from '../pipeline/engine';
 import { FiguresStore, type NewVersion } from './figures.repository';
@@ -72,6 +73,7 @@ export class FiguresService {
       offset: (page - 1) * pageSize,
       limit: pageSize,
     });
+    const thumbnailUrls = await this.thumbnailUrls(rows.map((r) => r.figure.thumbnailAssetId).filter((id): id is string => !!id));
     return {
       items: rows.map(({ figure: f, ownerName, label }) => ({
         id: f.id,
@@ -83,12 +85,26 @@ export class FiguresService {
         versionNumber: f.currentVersion,
         label: label ?? undefined,
         thumbnailAssetId: f.thumbnailAssetId ?? null,
+        thumbnailUrl: (f.thumbnailAssetId && thumbnailUrls.get(f.thumbnailAssetId)) || null,
         updatedAt: f.updatedAt.toISOString(),
       })),
       total,
       page,
       pageSize,
     };
+  }
+
+  /**
+   * Presigned GET links for the page's thumbnails: one asset query for the page, then presigning (local signing,
+   * no request per row). Same short lifetime as /api/assets/:id/link; the list is only shown to members.
+   */
+  private async thumbnailUrls(ids: string[]): Promise<Map<string, string>> {
+    const urls = new Map<string, string>();
+    if (ids.length === 0) return urls;
+    for (const asset of await this.assets.findByIds([...new Set(ids)])) {
+      urls.set(asset.id, await this.assets.presignGet(asset.storageKey, LINK_TTL_SECONDS));
+    }
+    return urls;
   }
 
   /** Queues a mesh job for the current version. */

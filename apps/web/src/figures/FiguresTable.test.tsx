@@ -153,4 +153,38 @@ describe('library: the figures table', () => {
     const empty = await screen.findByTestId('figures-empty');
     expect(empty.textContent).toContain('No figures yet');
   });
+
+  it('shows the thumbnail (lazy, sized, alt text from title and label) when the row has a link, a placeholder otherwise', async () => {
+    const me = user('editor');
+    mockFetch({
+      ...signedInRoutes(me),
+      'GET /api/figures': () =>
+        json(
+          200,
+          page(
+            [
+              summary(1, { title: 'Plate 1: 2p_z', label: '2p_z', thumbnailAssetId: 'a-7', thumbnailUrl: 'http://store.test/psiform/thumbs/a-7.png?X-Amz-Signature=ab' }),
+              summary(2, { title: 'Plate 2: 3s', label: '3s', thumbnailAssetId: null, thumbnailUrl: null }),
+            ],
+            2,
+          ),
+        ),
+    });
+    storeSession(me);
+    renderApp('/library');
+
+    const rows = await screen.findAllByTestId('figure-row');
+    const img = within(rows[0]).getByRole('img') as HTMLImageElement;
+    expect(img.tagName).toBe('IMG');
+    expect(img.getAttribute('src')).toBe('http://store.test/psiform/thumbs/a-7.png?X-Amz-Signature=ab');
+    expect(img.getAttribute('alt')).toBe('Plate 1: 2p_z (2p_z)');
+    expect(img.getAttribute('loading')).toBe('lazy');
+    expect([img.getAttribute('width'), img.getAttribute('height')]).toEqual(['64', '48']);
+    expect(within(rows[0]).queryByTestId('figure-thumb-none')).toBeNull();
+
+    const r2 = within(rows[1]);
+    expect(r2.queryByTestId('figure-thumb')).toBeNull();
+    expect(r2.getByTestId('figure-thumb-none').getAttribute('aria-label')).toBe('No preview yet');
+    expect(r2.queryByRole('img', { name: /Plate 2/ })).toBeNull();
+  });
 });

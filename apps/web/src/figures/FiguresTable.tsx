@@ -2,7 +2,7 @@ import { useEffect, useState } from 'react';
 import { Button, Callout, HTMLSelect, HTMLTable, InputGroup, NonIdealState, Spinner, Tag } from '@blueprintjs/core';
 import { keepPreviousData, useQuery } from '@tanstack/react-query';
 import { Link } from 'react-router-dom';
-import { FIGURE_STATUSES, type FigureStatus } from '@psiform/contracts';
+import { FIGURE_STATUSES, type FigureStatus, type FigureSummaryDto } from '@psiform/contracts';
 import { describeError, type FigureListParams, type FigureSortKey } from '../api/client';
 import { useApi } from '../auth/AuthProvider';
 import { formatDate, statusLabel } from './model';
@@ -12,6 +12,7 @@ export const PAGE_SIZE = 25;
 export const SEARCH_DEBOUNCE_MS = 300;
 
 const COLUMNS: { key: string; label: string; sort?: FigureSortKey }[] = [
+  { key: 'thumbnail', label: 'Preview' },
   { key: 'title', label: 'Title', sort: 'title' },
   { key: 'label', label: 'Label' },
   { key: 'status', label: 'Status', sort: 'status' },
@@ -41,6 +42,40 @@ export function statusIntent(s: FigureStatus | string) {
     default:
       return 'none' as const;
   }
+}
+
+/** Shown size of the worker's 320 × 240 thumbnail (same 4:3 aspect). */
+export const THUMB_WIDTH = 64;
+export const THUMB_HEIGHT = 48;
+
+/** A row's thumbnail (presigned link from the list), or a neutral box of the same size while there is none. */
+export function FigureThumbnail({ figure }: { figure: Pick<FigureSummaryDto, 'title' | 'label' | 'thumbnailUrl'> }) {
+  const [failed, setFailed] = useState(false);
+  useEffect(() => setFailed(false), [figure.thumbnailUrl]);
+  if (!figure.thumbnailUrl || failed) {
+    return (
+      <span
+        className="pf-thumb pf-thumb-none"
+        style={{ width: THUMB_WIDTH, height: THUMB_HEIGHT }}
+        role="img"
+        aria-label={figure.thumbnailUrl ? 'Preview could not be loaded' : 'No preview yet'}
+        data-testid="figure-thumb-none"
+      />
+    );
+  }
+  return (
+    <img
+      className="pf-thumb"
+      src={figure.thumbnailUrl}
+      width={THUMB_WIDTH}
+      height={THUMB_HEIGHT}
+      loading="lazy"
+      decoding="async"
+      alt={figure.label ? `${figure.title} (${figure.label})` : figure.title}
+      onError={() => setFailed(true)}
+      data-testid="figure-thumb"
+    />
+  );
 }
 
 /** The figures of one publication: searchable, filterable by proof state, sortable, paged by the server. */
@@ -165,6 +200,9 @@ export function FiguresTable({ publicationId, pageSize = PAGE_SIZE }: { publicat
             <tbody>
               {items.map((f) => (
                 <tr key={f.id} data-testid="figure-row">
+                  <td className="pf-thumb-cell">
+                    <FigureThumbnail figure={f} />
+                  </td>
                   <td>
                     <Link to={`/figures/${encodeURIComponent(f.id)}`} data-testid="figure-title">
                       {f.title}

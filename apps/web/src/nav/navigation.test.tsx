@@ -6,7 +6,7 @@ import { mockFetch, renderApp, signedInRoutes, storeSession, user } from '../tes
 import { navItemsFor } from './navigation';
 
 const EXPECTED: Record<Role, string[]> = {
-  illustrator: ['Publications', 'Library', 'Composer'],
+  illustrator: ['Publications', 'Library', 'Composer', 'Figure sets'],
   editor: ['Publications', 'Library', 'Review desk'],
   art_director: ['Publications', 'Library', 'Review desk', 'Swatchbooks'],
   admin: ['Publications', 'People'],

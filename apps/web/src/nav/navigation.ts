@@ -39,6 +39,14 @@ export const NAV_ITEMS: readonly NavItem[] = [
     purpose: 'Choose states, coefficients, Z and the surface rule, and see the isosurfaces as you go.',
   },
   {
+    path: '/sets',
+    label: 'Figure sets',
+    icon: 'grid-view',
+    roles: ['illustrator'],
+    ready: true,
+    purpose: 'Several figures as labelled panels of one image, at one camera and one scale, exported like a single figure.',
+  },
+  {
     path: '/review',
     label: 'Review desk',
     icon: 'endorsed',

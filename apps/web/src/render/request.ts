@@ -11,6 +11,9 @@ export interface RenderRequest {
   dpi: number;
   transparent?: boolean;
   maxTile?: number;
+  /** A figure set: panels in a grid, one camera and one length scale (CONTRACT.md "Panels"). */
+  panels?: { recipe: unknown; glbUrl: string; label?: string }[];
+  columns?: number;
 }
 
 export interface RenderResult {
@@ -21,6 +24,8 @@ export interface RenderResult {
   tiles: number;
   triangles: number;
   ms: { load: number; render: number; encode: number };
+  /** Figure sets only: the grid, how many tile × panel regions were drawn, the common scale and framing radius. */
+  panels?: { count: number; rows: number; columns: number; regions: number; a0PerPixel: number; radius: number };
 }
 
 export interface CheckedRequest {
@@ -31,7 +36,20 @@ export interface CheckedRequest {
   dpi: number;
   transparent: boolean;
   maxTile: number;
+  /** Present for a figure set; `recipe` is then the stage's recipe (the request's, else the first panel's). */
+  panels?: CheckedPanel[];
+  columns: number;
 }
+
+export interface CheckedPanel {
+  recipe: Recipe;
+  url: string;
+  /** Shown label; empty = the recipe's own label. */
+  label: string;
+}
+
+export const MAX_PANELS = 12;
+export const MAX_COLUMNS = 6;
 
 export const MAX_IMAGE_SIDE = 20000;
 /** Render-target side: at most 4096 (the brief's limit); 2048 by default keeps SwiftShader's memory modest. */
@@ -56,15 +74,11 @@ function floats(name: string, v: unknown, multipleOf: number): Float32Array {
 export function checkRequest(req: unknown): CheckedRequest {
   if (!req || typeof req !== 'object') throw new Error('the render request must be an object');
   const r = req as RenderRequest;
+  if (r.panels !== undefined) return checkPanelRequest(r);
   const parsed = parseRecipe(r.recipe);
   if (!parsed.ok) throw new Error(`recipe is not valid: ${formatRecipeIssues(parsed.issues).join('; ')}`);
-  const width = int('widthPx', r.widthPx, 1, MAX_IMAGE_SIDE);
-  const height = int('heightPx', r.heightPx, 1, MAX_IMAGE_SIDE);
-  if (typeof r.dpi !== 'number' || !Number.isFinite(r.dpi) || r.dpi <= 0 || r.dpi > 4800) {
-    throw new Error(`dpi must be a positive number up to 4800 (got ${JSON.stringify(r.dpi)})`);
-  }
-  if (r.transparent !== undefined && typeof r.transparent !== 'boolean') throw new Error('transparent must be true or false');
-  const maxTile = r.maxTile === undefined ? DEFAULT_TILE : int('maxTile', r.maxTile, 16, MAX_TILE);
+  const { width, height, maxTile } = checkSize(r);
+  if (r.columns !== undefined) throw new Error('columns is only used with panels');
   const hasUrl = typeof r.glbUrl === 'string' && r.glbUrl.length > 0;
   const hasArrays = Array.isArray(r.surfaces);
   if (hasUrl === hasArrays) throw new Error('give exactly one of glbUrl or surfaces');
@@ -96,5 +110,51 @@ export function checkRequest(req: unknown): CheckedRequest {
     };
   }
   const recipe = parsed.recipe;
-  return { recipe, source, width, height, dpi: r.dpi, transparent: r.transparent ?? recipe.stage.background.transparent, maxTile };
+  return { recipe, source, width, height, dpi: r.dpi, transparent: r.transparent ?? recipe.stage.background.transparent, maxTile, columns: 1 };
+}
+
+function checkSize(r: RenderRequest): { width: number; height: number; maxTile: number } {
+  const width = int('widthPx', r.widthPx, 1, MAX_IMAGE_SIDE);
+  const height = int('heightPx', r.heightPx, 1, MAX_IMAGE_SIDE);
+  if (typeof r.dpi !== 'number' || !Number.isFinite(r.dpi) || r.dpi <= 0 || r.dpi > 4800) {
+    throw new Error(`dpi must be a positive number up to 4800 (got ${JSON.stringify(r.dpi)})`);
+  }
+  if (r.transparent !== undefined && typeof r.transparent !== 'boolean') throw new Error('transparent must be true or false');
+  const maxTile = r.maxTile === undefined ? DEFAULT_TILE : int('maxTile', r.maxTile, 16, MAX_TILE);
+  return { width, height, maxTile };
+}
+
+/** A figure set: panels[i] = {recipe, glbUrl, label?}; the stage (camera, lights, background, scale bar) is shared. */
+function checkPanelRequest(r: RenderRequest): CheckedRequest {
+  if (!Array.isArray(r.panels) || r.panels.length < 1 || r.panels.length > MAX_PANELS) {
+    throw new Error(`panels must list 1 to ${MAX_PANELS} panels`);
+  }
+  if (r.glbUrl !== undefined || r.surfaces !== undefined) throw new Error('give panels or glbUrl/surfaces, not both');
+  const { width, height, maxTile } = checkSize(r);
+  const columns = r.columns === undefined ? Math.min(r.panels.length, 3) : int('columns', r.columns, 1, MAX_COLUMNS);
+  const panels = r.panels.map((p, i): CheckedPanel => {
+    if (!p || typeof p !== 'object') throw new Error(`panels[${i}] must be an object`);
+    const parsed = parseRecipe(p.recipe);
+    if (!parsed.ok) throw new Error(`panels[${i}].recipe is not valid: ${formatRecipeIssues(parsed.issues).join('; ')}`);
+    if (typeof p.glbUrl !== 'string' || p.glbUrl.length === 0) throw new Error(`panels[${i}].glbUrl must be a URL`);
+    if (p.label !== undefined && (typeof p.label !== 'string' || p.label.length > 200)) throw new Error(`panels[${i}].label must be a text of at most 200 characters`);
+    return { recipe: parsed.recipe, url: p.glbUrl, label: p.label ?? '' };
+  });
+  let recipe = panels[0].recipe;
+  if (r.recipe !== undefined) {
+    const parsed = parseRecipe(r.recipe);
+    if (!parsed.ok) throw new Error(`recipe is not valid: ${formatRecipeIssues(parsed.issues).join('; ')}`);
+    recipe = parsed.recipe;
+  }
+  return {
+    recipe,
+    source: { kind: 'glb', url: panels[0].url },
+    width,
+    height,
+    dpi: r.dpi,
+    transparent: r.transparent ?? recipe.stage.background.transparent,
+    maxTile,
+    panels,
+    columns,
+  };
 }

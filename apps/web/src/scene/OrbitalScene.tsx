@@ -24,6 +24,8 @@ export interface OrbitalSceneProps {
   aspect?: number;
   /** Overrides stage.background.transparent (export option). */
   transparent?: boolean;
+  /** Framing radius in a0 instead of the surfaces' own (figure sets: the largest panel's, one scale for all). */
+  frameRadius?: number;
   /** Free orbit with the mouse (studio, figure page). */
   controls?: boolean;
   /** After the camera was placed for the current view (each change of view, size or surfaces). */
@@ -146,7 +148,7 @@ export function OrbitalScene(props: OrbitalSceneProps) {
   }, []);
   const camera = ortho ? cameras.o : cameras.p;
 
-  const radius = useMemo(() => maxRadius(surfaces.map((s) => s.geometry)), [surfaces]);
+  const radius = useMemo(() => props.frameRadius ?? maxRadius(surfaces.map((s) => s.geometry)), [surfaces, props.frameRadius]);
   const rig = useRef<THREE.Group>(null);
   const orbit = useRef<{ target: THREE.Vector3; update(): void } | null>(null);
   const callbacks = useRef(props);

@@ -97,7 +97,7 @@ export function DownloadList({ assets, testid }: { assets: AssetDto[]; testid: s
   );
 }
 
-function ExportProgress({ jobId, onDone }: { jobId: string; onDone(job: JobDto): void }) {
+export function ExportProgress({ jobId, onDone }: { jobId: string; onDone(job: JobDto): void }) {
   const { job, streamError: err } = useFollowJob(jobId, onDone);
   const state = job?.state ?? 'queued';
   const value = job ? Math.max(0, Math.min(100, job.progress)) / 100 : 0;

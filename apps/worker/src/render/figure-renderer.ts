@@ -14,6 +14,12 @@ export interface RenderRequest {
   transparent?: boolean;
   /** Render-target side limit the page tiles with (planTiles); the page's default when absent. */
   maxTile?: number;
+  /**
+   * A figure set: panels drawn in a grid with one camera and one length scale (recipe/glb above are then not sent;
+   * the first panel's recipe gives the shared stage). CONTRACT.md "Panels".
+   */
+  panels?: { recipe: Recipe; glb: Uint8Array; label?: string }[];
+  columns?: number;
 }
 
 interface PageResult {
@@ -59,7 +65,9 @@ export class FigureRenderer {
   async render(req: RenderRequest): Promise<RenderOutput> {
     this.site.checkBuilt();
     const t0 = performance.now();
-    const blob = await this.site.addBlob(req.glb, 'model/gltf-binary');
+    // One after another: the first addBlob starts the site, concurrent ones would race it.
+    const blobs: { url: string; remove: () => void }[] = [];
+    for (const glb of req.panels ? req.panels.map((p) => p.glb) : [req.glb]) blobs.push(await this.site.addBlob(glb, 'model/gltf-binary'));
     let pageMs = 0;
     let result: PageResult;
     try {
@@ -76,7 +84,10 @@ export class FigureRenderer {
           if (startError) throw new Error(`the render page could not start: ${startError}`);
           pageMs = performance.now() - tp;
         }
-        const pageReq = { recipe: req.recipe, glbUrl: blob.url, widthPx: req.widthPx, heightPx: req.heightPx, dpi: req.dpi, transparent: req.transparent, ...(req.maxTile ? { maxTile: req.maxTile } : {}) };
+        const common = { widthPx: req.widthPx, heightPx: req.heightPx, dpi: req.dpi, transparent: req.transparent, ...(req.maxTile ? { maxTile: req.maxTile } : {}) };
+        const pageReq = req.panels
+          ? { ...common, columns: req.columns, panels: req.panels.map((p, i) => ({ recipe: p.recipe, glbUrl: blobs[i].url, ...(p.label ? { label: p.label } : {}) })) }
+          : { ...common, recipe: req.recipe, glbUrl: blobs[0].url };
         return withTimeout(
           page.evaluate((r) => window.psiformRender(r), pageReq),
           this.timeoutMs,
@@ -86,7 +97,7 @@ export class FigureRenderer {
     } catch (err) {
       throw new Error(pageMessage(err), { cause: err });
     } finally {
-      blob.remove();
+      for (const b of blobs) b.remove();
     }
     const tf = performance.now();
     const raw = Buffer.from(result.pngBase64, 'base64');

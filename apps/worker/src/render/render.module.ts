@@ -1,7 +1,7 @@
 import { Inject, Module, type DynamicModule, type OnApplicationShutdown } from '@nestjs/common';
 import { DataSource } from 'typeorm';
 import type Redis from 'ioredis';
-import { AssetStore, JobsStore, ObjectStorage } from '@psiform/api/pipeline';
+import { AssetStore, ENGINE_VERSION, JobsStore, ObjectStorage } from '@psiform/api/pipeline';
 import type { WorkerConfig } from '../config/config';
 import { REDIS_CONNECTION } from '../infra/redis-connection';
 import { ExportJobProcessor } from '../export/export.processor';
@@ -10,6 +10,7 @@ import { HeadlessBrowser } from './headless-browser';
 import { RenderJobProcessor } from './render.processor';
 import { StaticSite } from './static-site';
 import { ThumbnailScheduler, ThumbnailStore } from './thumbnails';
+import { FigureSetStore } from './figure-sets';
 
 /**
  * Render and export processors with their one browser and static site per worker process. Chromium starts on the
@@ -32,11 +33,12 @@ export class RenderModule implements OnApplicationShutdown {
         { provide: HeadlessBrowser, useFactory: () => new HeadlessBrowser(config.render.chromiumPath) },
         { provide: FigureRenderer, inject: [HeadlessBrowser, StaticSite], useFactory: (b: HeadlessBrowser, s: StaticSite) => new FigureRenderer(b, s, config.render.timeoutMs) },
         { provide: ThumbnailStore, inject: [DataSource], useFactory: (ds: DataSource) => new ThumbnailStore(ds) },
+        { provide: FigureSetStore, inject: [DataSource], useFactory: (ds: DataSource) => new FigureSetStore(ds) },
         { provide: ThumbnailScheduler, inject: [JobsStore, REDIS_CONNECTION], useFactory: (j: JobsStore, r: Redis) => new ThumbnailScheduler(j, r) },
         {
           provide: RenderJobProcessor,
-          inject: [JobsStore, AssetStore, ObjectStorage, FigureRenderer, ThumbnailStore],
-          useFactory: (j: JobsStore, a: AssetStore, s: ObjectStorage, r: FigureRenderer, t: ThumbnailStore) => new RenderJobProcessor(j, a, s, r, t),
+          inject: [JobsStore, AssetStore, ObjectStorage, FigureRenderer, ThumbnailStore, FigureSetStore],
+          useFactory: (j: JobsStore, a: AssetStore, s: ObjectStorage, r: FigureRenderer, t: ThumbnailStore, f: FigureSetStore) => new RenderJobProcessor(j, a, s, r, t, ENGINE_VERSION, f),
         },
         {
           provide: ExportJobProcessor,

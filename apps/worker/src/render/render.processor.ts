@@ -1,11 +1,12 @@
 import { Injectable, Logger } from '@nestjs/common';
 import { UnrecoverableError } from 'bullmq';
-import { QUEUES } from '@psiform/contracts';
+import { parseRecipe, QUEUES, type Recipe } from '@psiform/contracts';
 import { AssetStore, CONTENT_TYPES, ENGINE_VERSION, JobsStore, ObjectStorage, exportKey, sha256Hex, type JobPayload, type NewAsset } from '@psiform/api/pipeline';
 import type { JobProcessor, ProcessorJob } from '../queues/job-processor';
 import type { FigureRenderer } from './figure-renderer';
+import type { FigureSetStore } from './figure-sets';
 import type { ThumbnailStore } from './thumbnails';
-import { ensureMesh, runTracked, versionOf, type TrackedResult } from './tracked-job';
+import { ensureMesh, runTracked, versionOf, type TrackedJob, type TrackedResult } from './tracked-job';
 
 /** jobs.params of a render job (apps/api exports/export-request.ts, or the thumbnail scheduler). */
 export interface RenderParams {
@@ -17,7 +18,11 @@ export interface RenderParams {
   heightMm?: number;
   transparent?: boolean | null;
   thumbnail?: boolean;
+  /** Figure sets (apps/api ExportsService.requestSetExport): the versions pinned when the export was asked for. */
   figureSetId?: string;
+  columns?: number;
+  title?: string;
+  panels?: { figureId: string; figureVersionId: string }[];
 }
 
 /**
@@ -40,6 +45,7 @@ export class RenderJobProcessor implements JobProcessor<JobPayload, TrackedResul
     private readonly renderer: FigureRenderer,
     private readonly thumbnails: ThumbnailStore,
     private readonly engineVersion: string = ENGINE_VERSION,
+    private readonly sets?: FigureSetStore,
   ) {}
 
   async process(job: ProcessorJob<JobPayload>): Promise<TrackedResult> {
@@ -48,7 +54,7 @@ export class RenderJobProcessor implements JobProcessor<JobPayload, TrackedResul
       if (p.format !== 'png' || !Number.isInteger(p.widthPx) || !Number.isInteger(p.heightPx) || !(p.dpi > 0)) {
         throw new UnrecoverableError(`render job ${t.id} has no valid png parameters`);
       }
-      if (p.figureSetId) throw new UnrecoverableError('figure-set renders are not available yet: the render page does not draw panels');
+      if (p.figureSetId) return this.renderSet(t, p);
       const { version, recipe } = versionOf(t.ctx);
       const total = performance.now();
       const mesh = await ensureMesh({ assets: this.assets, storage: this.storage, engineVersion: this.engineVersion }, t, version, recipe);
@@ -80,6 +86,10 @@ export class RenderJobProcessor implements JobProcessor<JobPayload, TrackedResul
     });
     const ctx = await this.jobs.loadContext(res.jobId);
     const params = ctx?.job.params as RenderParams | undefined;
+    if (params?.figureSetId && this.sets && res.assetIds.length > 0) {
+      const pngId = res.assetIds[res.assetIds.length - 1];
+      await this.sets.setPng(params.figureSetId, pngId).catch((e: Error) => this.log.warn(`figure set ${params.figureSetId}: ${e.message}`));
+    }
     if (params?.thumbnail && ctx?.figure && ctx.version) {
       const pngId = res.assetIds[res.assetIds.length - 1];
       const set = await this.thumbnails.setThumbnail(ctx.figure.id, ctx.version.id, pngId).catch((e: Error) => {
@@ -89,6 +99,70 @@ export class RenderJobProcessor implements JobProcessor<JobPayload, TrackedResul
       if (!set) this.log.log(`thumbnail ${pngId} kept but not shown: figure ${ctx.figure.id} has a newer version`);
     }
     return { jobId: res.jobId, assetIds: res.assetIds };
+  }
+
+  /**
+   * A figure set: every panel's pinned version, meshed first when it has no mesh (the mesh job's own code), drawn by
+   * the render page with panels (one camera, one a0-per-pixel scale). The PNG belongs to the set: its asset row has
+   * no figure version, stats name the set and its panels; figure_sets.png_asset_id is pointed at it afterwards.
+   */
+  private async renderSet(t: TrackedJob, p: RenderParams): Promise<{ timings: Record<string, number>; assets: NewAsset[] }> {
+    if (!this.sets) throw new UnrecoverableError('this worker cannot render figure sets (no figure-set store)');
+    const refs = Array.isArray(p.panels) ? p.panels : [];
+    if (refs.length === 0) throw new UnrecoverableError(`figure-set job ${t.id} lists no panels`);
+    const total = performance.now();
+    const versions = await this.sets.versions(refs.map((r) => r.figureVersionId));
+    const panels: { recipe: Recipe; glb: Uint8Array; recipeHash: string; figureId: string; figureVersionId: string }[] = [];
+    const meshAssets: NewAsset[] = [];
+    let meshMs = 0;
+    for (const [i, v] of versions.entries()) {
+      if (!v) throw new UnrecoverableError(`panel ${i + 1}: figure version ${refs[i].figureVersionId} no longer exists`);
+      const parsed = parseRecipe(v.recipe);
+      if (!parsed.ok) throw new UnrecoverableError(`panel ${i + 1}: the stored recipe is not valid: ${parsed.issues.map((x) => `${x.path}: ${x.message}`).join('; ')}`);
+      const mesh = await ensureMesh({ assets: this.assets, storage: this.storage, engineVersion: this.engineVersion }, t, v, parsed.recipe);
+      meshAssets.push(...mesh.newAssets);
+      meshMs += mesh.meshMs;
+      panels.push({ recipe: parsed.recipe, glb: mesh.glb, recipeHash: v.recipeHash, figureId: refs[i].figureId, figureVersionId: v.id });
+    }
+    await t.stage('rendering');
+    const transparent = p.transparent ?? undefined;
+    const out = await this.renderer.render({
+      recipe: panels[0].recipe,
+      glb: panels[0].glb,
+      panels: panels.map((x) => ({ recipe: x.recipe, glb: x.glb })),
+      columns: p.columns ?? Math.min(panels.length, 3),
+      widthPx: p.widthPx,
+      heightPx: p.heightPx,
+      dpi: p.dpi,
+      transparent,
+    });
+    await t.stage('encoding');
+    await t.stage('storing');
+    const ts = performance.now();
+    // Content-derived: the panels' recipes in order name the folder, the bytes the file.
+    const setHash = sha256Hex(new TextEncoder().encode(panels.map((x) => x.recipeHash).join(',')));
+    const stored = await this.assets.storeObject(exportKey(setHash, sha256Hex(out.png), 'png'), out.png, CONTENT_TYPES.png);
+    const ms = Math.round(performance.now() - total);
+    const stats = {
+      figureSetId: p.figureSetId,
+      title: p.title,
+      columns: p.columns,
+      panels: panels.map((x) => ({ figureId: x.figureId, figureVersionId: x.figureVersionId, recipeHash: x.recipeHash })),
+      widthPx: out.widthPx,
+      heightPx: out.heightPx,
+      dpi: p.dpi,
+      widthMm: p.widthMm ?? round3((out.widthPx / p.dpi) * 25.4),
+      heightMm: p.heightMm ?? round3((out.heightPx / p.dpi) * 25.4),
+      transparent: transparent ?? panels[0].recipe.stage.background.transparent,
+      ms,
+      tiles: out.tiles,
+      triangles: out.triangles,
+      engineVersion: this.engineVersion,
+      model: 'one-electron hydrogen-like model; many-electron orbitals differ',
+    };
+    const png: NewAsset = { figureVersionId: null, publicationId: t.ctx.job.publicationId, kind: 'png', storageKey: stored.key, bytes: stored.bytes, sha256: stored.sha256, stats };
+    const timings = { mesh: meshMs, ...prefixed('render_', out.ms), store: Math.round(performance.now() - ts), total: ms };
+    return { timings, assets: [...meshAssets, png] };
   }
 
   async onFailed(job: ProcessorJob<JobPayload>, error: Error, final: boolean): Promise<void> {

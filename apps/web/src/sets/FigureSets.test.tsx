@@ -1,0 +1,76 @@
+import { screen, waitFor, within } from '@testing-library/react';
+import userEvent from '@testing-library/user-event';
+import { json, mockFetch, renderApp, signedInRoutes, storeSession, user, PUBLICATIONS } from '../test/utils';
+import { page, summary } from '../test/figures';
+import { labelKey, matchFigures, orbitalRecipe, shellOrbitals } from './shell';
+
+describe('shell preset arithmetic', () => {
+  it('shell n holds n² real orbitals for n ≤ 4 (l < n, 2l + 1 each); subshell 2p is p_x, p_y, p_z', () => {
+    for (const n of [1, 2, 3, 4]) expect(shellOrbitals(n)).toHaveLength(n * n);
+    // n = 5: l ≤ 3 only (real forms up to f): 1 + 3 + 5 + 7 = 16.
+    expect(shellOrbitals(5)).toHaveLength(16);
+    expect(shellOrbitals(2, 1).map((o) => o.label)).toEqual(['2p_x', '2p_y', '2p_z']);
+    expect(() => shellOrbitals(2, 2)).toThrow(/l must be from 0 to 1/);
+    expect(() => shellOrbitals(8)).toThrow(/n must be/);
+  });
+
+  it('matches existing figures by label, each figure at most once', () => {
+    const wanted = shellOrbitals(2, 1);
+    expect(matchFigures(wanted, [{ id: 'a', label: '2pz' }, { id: 'b', label: '2p_x' }, { id: 'c', label: '2P_X' }])).toEqual(['b', null, 'a']);
+    expect(labelKey('3d_x²−y²')).toBe(labelKey('3dx2-y2'));
+  });
+
+  it('recipes carry the real-form terms (m = −1 is p_y, libs/orbitals README)', () => {
+    const r = orbitalRecipe(shellOrbitals(2, 1)[1]);
+    expect(r.label).toBe('2p_y');
+    expect(r.content.terms).toEqual([{ n: 2, l: 1, m: -1, basis: 'real', re: 1, im: 0 }]);
+  });
+});
+
+describe('Figure sets page', () => {
+  it('the 2p preset creates the missing 2p_y, picks x, y, z in order, creates the set and asks for a 178 × 60 mm PNG', async () => {
+    const me = user('illustrator');
+    const pub = PUBLICATIONS[0].id;
+    const existing = [summary(1, { id: 'fz', title: 'p z', label: '2pz', publicationId: pub }), summary(2, { id: 'fx', title: 'p x', label: '2p_x', publicationId: pub })];
+    const created: unknown[] = [];
+    const sets: unknown[] = [];
+    const { callsTo } = mockFetch({
+      ...signedInRoutes(me, [PUBLICATIONS[0]]),
+      'GET /api/figures': () => json(200, page(existing, existing.length, 1, 100)),
+      'GET /api/figure-sets': () => json(200, sets),
+      'POST /api/figures': ({ body }) => {
+        created.push(body);
+        return json(201, { id: 'fy' });
+      },
+      'POST /api/figure-sets': ({ body }) => {
+        const b = body as { title: string; figureIds: string[]; columns: number };
+        const dto = { id: 's1', publicationId: pub, pngAssetId: null, createdBy: me.id, createdAt: new Date(0).toISOString(), ...b };
+        sets.push(dto);
+        return json(201, dto);
+      },
+      'POST /api/figure-sets/s1/exports': () => json(201, { jobId: 'j1' }),
+    });
+    storeSession(me);
+    renderApp('/sets');
+    const form = await screen.findByTestId('new-set-form');
+    await userEvent.selectOptions(within(form).getByTestId('set-shell-l'), '1');
+    expect(screen.getByTestId('set-shell-summary').textContent).toMatch(/not yet in this publication.*2p_y/);
+    await userEvent.click(screen.getByTestId('set-shell-apply'));
+    await waitFor(() => expect(created).toHaveLength(1));
+    expect(created[0]).toMatchObject({ publicationId: pub, title: '2p_y', recipe: { label: '2p_y', content: { terms: [{ n: 2, l: 1, m: -1 }] } } });
+    expect((screen.getByTestId('set-title') as HTMLInputElement).value).toBe('Shell n = 2 (p)');
+    await userEvent.click(screen.getByTestId('set-create'));
+    await waitFor(() => expect(callsTo('POST', '/api/figure-sets')).toHaveLength(1));
+    expect(callsTo('POST', '/api/figure-sets')[0].body).toEqual({ publicationId: pub, title: 'Shell n = 2 (p)', figureIds: ['fx', 'fy', 'fz'], columns: 3 });
+
+    const exp = await screen.findByTestId('set-export-form');
+    await userEvent.clear(within(exp).getByTestId('set-height'));
+    await userEvent.type(within(exp).getByTestId('set-height'), '60');
+    // round(178 / 25.4 × 300) = 2102, round(60 / 25.4 × 300) = 709.
+    expect(screen.getByTestId('set-pixels').textContent).toMatch(/^2102 × 709 px .* 3 panels in 3 columns/);
+    await userEvent.click(screen.getByTestId('set-export'));
+    await waitFor(() => expect(callsTo('POST', '/api/figure-sets/s1/exports')).toHaveLength(1));
+    expect(callsTo('POST', '/api/figure-sets/s1/exports')[0].body).toEqual({ format: 'png', widthMm: 178, heightMm: 60, dpi: 300 });
+    expect(await screen.findByTestId('export-progress')).toBeTruthy();
+  });
+});

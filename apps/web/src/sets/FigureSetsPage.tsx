@@ -1,0 +1,360 @@
+// Figure sets: several figures of one publication as labelled panels of ONE image (one camera, one length scale),
+// exported like a single figure. Create from the library's figures or the "every orbital of one shell" preset.
+import { useEffect, useMemo, useState } from 'react';
+import { useQuery, useQueryClient } from '@tanstack/react-query';
+import { Button, ButtonGroup, Callout, Checkbox, FormGroup, HTMLSelect, HTMLTable, InputGroup, NonIdealState, Spinner } from '@blueprintjs/core';
+import { FIGURE_SET_LIMITS, type FigureSetDto, type FigureSummaryDto, type JobDto } from '@psiform/contracts';
+import { COLUMN_PRESETS, DPI_CHOICES, type ColumnPreset } from '@psiform/print';
+import { describeError } from '../api/client';
+import { useApi } from '../auth/AuthProvider';
+import { PublicationChooser } from '../figures/PublicationChooser';
+import { usePublications } from '../figures/usePublications';
+import { DownloadList, ExportProgress } from '../studio/ExportDialog';
+import { fromMm, lengthError, pixelText, toMm, type LengthUnit } from '../studio/exportSize';
+import { matchFigures, orbitalRecipe, SHELL_MAX_N, shellOrbitals } from './shell';
+import './sets.css';
+
+const MODEL_NOTE = 'One-electron hydrogen-like model; many-electron orbitals differ. Every panel is drawn with the same camera and the same length scale.';
+
+export function FigureSetsPage() {
+  const publications = usePublications();
+  const list = publications.data ?? [];
+  const [chosen, setChosen] = useState<string>('');
+  const current = list.find((p) => p.id === chosen) ?? list[0];
+
+  return (
+    <div className="pf-page pf-page-wide" data-testid="sets-page">
+      <header className="pf-page-head pf-head-row">
+        <div>
+          <h1>Figure sets</h1>
+          <p className="pf-muted">Several figures as labelled panels of one print image, at one scale.</p>
+        </div>
+        {current && <PublicationChooser publications={list} value={current.id} onChange={setChosen} inline />}
+      </header>
+      {publications.isPending && <NonIdealState icon={<Spinner size={32} />} title="Loading publications…" />}
+      {publications.isError && (
+        <Callout intent="danger" title="Publications could not be loaded" data-testid="sets-error">
+          {describeError(publications.error)}
+        </Callout>
+      )}
+      {publications.isSuccess && !current && <NonIdealState icon="book" title="No publications yet" description="Ask an admin to add you to a publication." />}
+      {current && <SetsOfPublication key={current.id} publicationId={current.id} />}
+      <p className="pf-muted pf-small" data-testid="sets-model">
+        {MODEL_NOTE}
+      </p>
+    </div>
+  );
+}
+
+function SetsOfPublication({ publicationId }: { publicationId: string }) {
+  const api = useApi();
+  const sets = useQuery({
+    queryKey: ['figure-sets', publicationId],
+    queryFn: ({ signal }) => api.request<FigureSetDto[]>(`/api/figure-sets?publicationId=${encodeURIComponent(publicationId)}`, { signal }),
+  });
+  const figures = useQuery({
+    queryKey: ['figures', 'set-picker', publicationId],
+    queryFn: ({ signal }) => api.listFigures({ publicationId, page: 1, pageSize: 100, sort: 'title', order: 'asc' }, signal),
+  });
+  const [selected, setSelected] = useState<string | null>(null);
+  const chosenSet = (sets.data ?? []).find((s) => s.id === selected) ?? null;
+  const byId = useMemo(() => new Map((figures.data?.items ?? []).map((f) => [f.id, f])), [figures.data]);
+
+  return (
+    <div className="pf-sets">
+      <section>
+        <h2>New set</h2>
+        {figures.isPending && <Spinner size={24} />}
+        {figures.isError && (
+          <Callout intent="danger" data-testid="set-figures-error">
+            The figures could not be loaded: {describeError(figures.error)}
+          </Callout>
+        )}
+        {figures.data && <NewSetForm publicationId={publicationId} figures={figures.data.items} onCreated={(s) => setSelected(s.id)} />}
+      </section>
+      <section>
+        <h2>Sets of this publication</h2>
+        {sets.isError && <Callout intent="danger">The sets could not be loaded: {describeError(sets.error)}</Callout>}
+        {sets.data && sets.data.length === 0 && (
+          <p className="pf-muted" data-testid="set-list-empty">
+            No figure sets yet.
+          </p>
+        )}
+        {sets.data && sets.data.length > 0 && (
+          <HTMLTable compact interactive className="pf-table" data-testid="set-list">
+            <thead>
+              <tr>
+                <th>Title</th>
+                <th>Panels</th>
+                <th>Columns</th>
+                <th>Created</th>
+              </tr>
+            </thead>
+            <tbody>
+              {sets.data.map((s) => (
+                <tr key={s.id} data-testid="set-row" data-set-id={s.id} onClick={() => setSelected(s.id)} className={s.id === selected ? 'pf-row-selected' : undefined}>
+                  <td>{s.title}</td>
+                  <td>{s.figureIds.map((id) => byId.get(id)?.label || byId.get(id)?.title || '?').join(', ')}</td>
+                  <td>{s.columns}</td>
+                  <td>{new Date(s.createdAt).toLocaleDateString('en-GB')}</td>
+                </tr>
+              ))}
+            </tbody>
+          </HTMLTable>
+        )}
+        {chosenSet && <SetExportForm key={chosenSet.id} set={chosenSet} />}
+      </section>
+    </div>
+  );
+}
+
+export function NewSetForm({ publicationId, figures, onCreated }: { publicationId: string; figures: FigureSummaryDto[]; onCreated(set: FigureSetDto): void }) {
+  const api = useApi();
+  const queryClient = useQueryClient();
+  const [title, setTitle] = useState('');
+  const [picked, setPicked] = useState<string[]>([]);
+  const [columns, setColumns] = useState(3);
+  const [shellN, setShellN] = useState(2);
+  const [shellL, setShellL] = useState<string>('all');
+  const [busy, setBusy] = useState(false);
+  const [error, setError] = useState<string | null>(null);
+
+  const wanted = useMemo(() => {
+    try {
+      return { ok: true as const, list: shellOrbitals(shellN, shellL === 'all' ? null : Number(shellL)) };
+    } catch (e) {
+      return { ok: false as const, message: (e as Error).message };
+    }
+  }, [shellN, shellL]);
+  const matches = wanted.ok ? matchFigures(wanted.list, figures) : [];
+  const missing = wanted.ok ? wanted.list.filter((_, i) => !matches[i]) : [];
+
+  const L = FIGURE_SET_LIMITS;
+  const titleError = title.trim() === '' ? 'Give the set a title.' : title.length > 200 ? 'Keep the title under 200 characters.' : null;
+  const countError = picked.length < L.figuresMin ? 'Pick at least one figure.' : picked.length > L.figuresMax ? `A set holds at most ${L.figuresMax} figures.` : null;
+
+  function toggle(id: string, on: boolean) {
+    setPicked((p) => (on ? (p.includes(id) ? p : [...p, id]) : p.filter((x) => x !== id)));
+  }
+
+  async function applyShell() {
+    if (!wanted.ok) return;
+    setBusy(true);
+    setError(null);
+    try {
+      const ids: string[] = [];
+      for (const [i, o] of wanted.list.entries()) {
+        const existing = matches[i];
+        if (existing) ids.push(existing);
+        else ids.push((await api.createFigure({ publicationId, title: o.label, recipe: orbitalRecipe(o) })).id);
+      }
+      if (missing.length) void queryClient.invalidateQueries({ queryKey: ['figures'] });
+      setPicked(ids);
+      setColumns(Math.min(ids.length, wanted.list.length === 3 ? 3 : 4));
+      if (!title.trim()) setTitle(`Shell n = ${shellN}${shellL === 'all' ? '' : ` (${'spdf'[Number(shellL)]})`}`);
+    } catch (err) {
+      setError(`The missing figures could not be created: ${describeError(err)}`);
+    } finally {
+      setBusy(false);
+    }
+  }
+
+  async function create() {
+    if (titleError || countError) return;
+    setBusy(true);
+    setError(null);
+    try {
+      const set = await api.request<FigureSetDto>('/api/figure-sets', { method: 'POST', body: { publicationId, title: title.trim(), figureIds: picked, columns: Math.min(columns, picked.length) } });
+      void queryClient.invalidateQueries({ queryKey: ['figure-sets', publicationId] });
+      onCreated(set);
+    } catch (err) {
+      setError(describeError(err));
+    } finally {
+      setBusy(false);
+    }
+  }
+
+  const lChoices = [{ value: 'all', label: 'every subshell' }, ...[...Array(Math.min(shellN, 4)).keys()].map((l) => ({ value: String(l), label: `${shellN}${'spdf'[l]} only` }))];
+  return (
+    <div className="pf-set-form" data-testid="new-set-form">
+      <div className="pf-form-row">
+        <FormGroup label="Every orbital of shell n" labelFor="set-shell-n">
+          <HTMLSelect
+            id="set-shell-n"
+            value={String(shellN)}
+            onChange={(e) => {
+              setShellN(Number(e.currentTarget.value));
+              setShellL('all');
+            }}
+            options={[...Array(SHELL_MAX_N).keys()].map((i) => ({ value: String(i + 1), label: `n = ${i + 1}` }))}
+            data-testid="set-shell-n"
+          />
+        </FormGroup>
+        <FormGroup label="Subshell" labelFor="set-shell-l">
+          <HTMLSelect id="set-shell-l" value={shellL} onChange={(e) => setShellL(e.currentTarget.value)} options={lChoices} data-testid="set-shell-l" />
+        </FormGroup>
+        <FormGroup label=" ">
+          <Button icon="grid-view" text="Pick these" onClick={() => void applyShell()} loading={busy} disabled={!wanted.ok || wanted.list.length > L.figuresMax} data-testid="set-shell-apply" />
+        </FormGroup>
+      </div>
+      {wanted.ok && (
+        <p className="pf-muted pf-small" data-testid="set-shell-summary">
+          {wanted.list.map((o) => o.label).join(', ')}
+          {wanted.list.length > L.figuresMax
+            ? ` — ${wanted.list.length} orbitals, more than a set holds (${L.figuresMax}): choose one subshell.`
+            : missing.length
+              ? ` — not yet in this publication, created on "Pick these": ${missing.map((o) => o.label).join(', ')} (Z = 1, grid 64, 90% enclosed).`
+              : ' — all in this publication already.'}
+        </p>
+      )}
+
+      <HTMLTable compact className="pf-table" data-testid="set-figures">
+        <thead>
+          <tr>
+            <th />
+            <th>Title</th>
+            <th>Orbital</th>
+            <th>Status</th>
+            <th>Panel</th>
+          </tr>
+        </thead>
+        <tbody>
+          {figures.map((f) => {
+            const at = picked.indexOf(f.id);
+            return (
+              <tr key={f.id}>
+                <td>
+                  <Checkbox checked={at >= 0} onChange={(e) => toggle(f.id, e.currentTarget.checked)} aria-label={`Use ${f.title}`} data-testid="set-figure-check" data-figure-id={f.id} className="pf-no-margin" />
+                </td>
+                <td>{f.title}</td>
+                <td>{f.label ?? ''}</td>
+                <td>{f.status.replace('_', ' ')}</td>
+                <td data-testid="set-figure-order">{at >= 0 ? at + 1 : ''}</td>
+              </tr>
+            );
+          })}
+          {figures.length === 0 && (
+            <tr>
+              <td colSpan={5} className="pf-muted">
+                This publication has no figures yet: use the shell preset above, or create figures in the Library.
+              </td>
+            </tr>
+          )}
+        </tbody>
+      </HTMLTable>
+
+      <div className="pf-form-row">
+        <FormGroup label="Title" labelFor="set-title" intent={titleError && title ? 'danger' : 'none'} helperText={title && titleError}>
+          <InputGroup id="set-title" value={title} onValueChange={setTitle} data-testid="set-title" />
+        </FormGroup>
+        <FormGroup label="Columns" labelFor="set-columns">
+          <HTMLSelect id="set-columns" value={String(columns)} onChange={(e) => setColumns(Number(e.currentTarget.value))} options={[...Array(L.columnsMax).keys()].map((i) => ({ value: String(i + 1), label: String(i + 1) }))} data-testid="set-columns" />
+        </FormGroup>
+      </div>
+      {countError && picked.length > 0 && (
+        <Callout intent="warning" data-testid="set-count-error">
+          {countError}
+        </Callout>
+      )}
+      {error && (
+        <Callout intent="danger" data-testid="set-error" title="Not done">
+          {error}
+        </Callout>
+      )}
+      <Button intent="primary" icon="add" text="Create the set" onClick={() => void create()} disabled={Boolean(titleError || countError) || busy} loading={busy} data-testid="set-create" />
+    </div>
+  );
+}
+
+/** Canvas size (mm or inches, column presets, dpi) and the PNG export of a set, with progress and download. */
+export function SetExportForm({ set }: { set: FigureSetDto }) {
+  const api = useApi();
+  const [unit, setUnit] = useState<LengthUnit>('mm');
+  const [w, setW] = useState(fromMm(COLUMN_PRESETS.double.widthMm, 'mm'));
+  const [h, setH] = useState(fromMm(60, 'mm'));
+  const [dpi, setDpi] = useState<number>(300);
+  const [transparent, setTransparent] = useState(false);
+  const [jobId, setJobId] = useState<string | null>(null);
+  const [result, setResult] = useState<JobDto | null>(null);
+  const [error, setError] = useState<string | null>(null);
+  const [sending, setSending] = useState(false);
+  useEffect(() => setResult(null), [jobId]);
+
+  const wErr = lengthError(w, unit, 'width');
+  const hErr = lengthError(h, unit, 'height');
+  const widthMm = wErr ? null : toMm(Number(w.replace(',', '.')), unit);
+  const heightMm = hErr ? null : toMm(Number(h.replace(',', '.')), unit);
+  const px = widthMm !== null && heightMm !== null ? pixelText(widthMm, heightMm, dpi) : null;
+
+  function switchUnit(u: LengthUnit) {
+    if (u === unit) return;
+    if (widthMm !== null) setW(fromMm(widthMm, u));
+    if (heightMm !== null) setH(fromMm(heightMm, u));
+    setUnit(u);
+  }
+
+  async function submit() {
+    if (widthMm === null || heightMm === null) return;
+    setSending(true);
+    setError(null);
+    setJobId(null);
+    try {
+      const body = { format: 'png', widthMm: Number(widthMm.toFixed(3)), heightMm: Number(heightMm.toFixed(3)), dpi, ...(transparent ? { transparent: true } : {}) };
+      const r = await api.request<{ jobId: string }>(`/api/figure-sets/${encodeURIComponent(set.id)}/exports`, { method: 'POST', body });
+      setJobId(r.jobId);
+    } catch (err) {
+      setError(describeError(err));
+    } finally {
+      setSending(false);
+    }
+  }
+
+  const running = Boolean(jobId) && !result;
+  const png = result?.assets.filter((a) => a.kind === 'png') ?? [];
+  return (
+    <div className="pf-export pf-gap-sm" data-testid="set-export-form">
+      <h3>Export “{set.title}”</h3>
+      <div className="pf-head-row">
+        <ButtonGroup aria-label="Length unit">
+          <Button text="mm" active={unit === 'mm'} onClick={() => switchUnit('mm')} data-testid="set-unit-mm" />
+          <Button text="inches" active={unit === 'in'} onClick={() => switchUnit('in')} data-testid="set-unit-in" />
+        </ButtonGroup>
+        <ButtonGroup aria-label="Column width presets">
+          {(Object.keys(COLUMN_PRESETS) as ColumnPreset[]).map((p) => (
+            <Button key={p} small text={COLUMN_PRESETS[p].label} onClick={() => setW(fromMm(COLUMN_PRESETS[p].widthMm, unit))} data-testid={`set-preset-${p}`} />
+          ))}
+        </ButtonGroup>
+      </div>
+      <div className="pf-form-row">
+        <FormGroup label={`Width (${unit})`} labelFor="set-width" intent={wErr ? 'danger' : 'none'} helperText={wErr && <span data-testid="set-width-error">{wErr}</span>}>
+          <InputGroup id="set-width" value={w} onValueChange={setW} data-testid="set-width" />
+        </FormGroup>
+        <FormGroup label={`Height (${unit})`} labelFor="set-height" intent={hErr ? 'danger' : 'none'} helperText={hErr && <span data-testid="set-height-error">{hErr}</span>}>
+          <InputGroup id="set-height" value={h} onValueChange={setH} data-testid="set-height" />
+        </FormGroup>
+        <FormGroup label="Resolution" labelFor="set-dpi">
+          <HTMLSelect id="set-dpi" value={String(dpi)} onChange={(e) => setDpi(Number(e.currentTarget.value))} options={DPI_CHOICES.map((d) => ({ value: String(d), label: `${d} dpi` }))} data-testid="set-dpi" />
+        </FormGroup>
+      </div>
+      <Checkbox label="Transparent background" checked={transparent} onChange={(e) => setTransparent(e.currentTarget.checked)} data-testid="set-transparent" />
+      <p className="pf-pixels" data-testid="set-pixels">
+        {px ? `${px.text}, ${set.figureIds.length} panels in ${Math.min(set.columns, set.figureIds.length)} columns` : 'Enter a valid width and height to see the pixel size.'}
+      </p>
+      {error && (
+        <Callout intent="danger" data-testid="set-export-error" title="The export was not started">
+          {error}
+        </Callout>
+      )}
+      {jobId && <ExportProgress key={jobId} jobId={jobId} onDone={setResult} />}
+      {result?.state === 'completed' &&
+        (png.length > 0 ? (
+          <DownloadList assets={png} testid="export-ready" />
+        ) : (
+          <Callout intent="warning" data-testid="export-no-asset">
+            The export finished but reported no file.
+          </Callout>
+        ))}
+      <Button intent="primary" icon="export" text={running ? 'Exporting…' : 'Export PNG'} onClick={() => void submit()} loading={sending} disabled={running || !px} data-testid="set-export" className="pf-gap-sm" />
+    </div>
+  );
+}
