@@ -44,5 +44,7 @@ export default defineConfig({
     setupFiles: ['./src/test/setup.ts'],
     include: ['src/**/*.test.{ts,tsx}'],
     css: false,
+    // Component tests with Blueprint and the Composer take seconds on a loaded 2-core machine: 5 s is too tight.
+    testTimeout: 20000,
   },
 });
