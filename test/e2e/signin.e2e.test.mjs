@@ -43,7 +43,7 @@ test('demo illustrator signs in and sees the publications the API returns', { ti
     const nav = await page.getByTestId('main-nav').getByRole('link').allTextContents();
     assert.deepEqual(
       nav.map((t) => t.replace(/later$/, '').trim()),
-      ['Publications', 'Library', 'Composer'],
+      ['Publications', 'Library', 'Composer', 'Figure sets'],
     );
 
     // Fonts come from our own origin: Lato is applied and loaded.
