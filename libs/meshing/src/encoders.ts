@@ -42,7 +42,14 @@ export interface GlbOptions {
   colors?: Partial<Record<'+' | '-', Rgb>>;
   /** Complex surfaces: sRGB colour for arg psi (radians). Required when a complex surface is given. */
   colorWheel?: (angle: number) => Rgb;
+  /** Nodal surfaces (psi = 0): written as an extra mesh and node named "nodal" (material "nodal", translucent ink,
+   * extras {nodal: true}) only when given and not empty. Readers that do not know it see one more mesh. */
+  nodal?: Mesh | null;
 }
+
+/** Ink of the nodal outline (our house ink #1f1d1a), sRGB. */
+export const NODAL_INK: Rgb = [0x1f / 255, 0x1d / 255, 0x1a / 255];
+export const NODAL_NAME = 'nodal';
 
 /** The model convention every export states (one-electron hydrogen-like model). */
 export const MODEL_NOTE =
@@ -108,6 +115,25 @@ export async function encodeGlb(surfaces: readonly EncodeSurface[], opts: GlbOpt
     const mesh = doc.createMesh(materialName(s.phase)).addPrimitive(prim);
     mesh.setExtras({ phase: s.phase });
     scene.addChild(doc.createNode(materialName(s.phase)).setMesh(mesh));
+  }
+  const nodal = opts.nodal;
+  if (nodal && nodal.indices.length > 0) {
+    const mat = doc
+      .createMaterial(NODAL_NAME)
+      .setDoubleSided(true)
+      .setAlphaMode('BLEND')
+      .setBaseColorFactor([srgbToLinear(NODAL_INK[0]), srgbToLinear(NODAL_INK[1]), srgbToLinear(NODAL_INK[2]), 0.35])
+      .setRoughnessFactor(1)
+      .setMetallicFactor(0);
+    const prim = doc
+      .createPrimitive()
+      .setAttribute('POSITION', doc.createAccessor().setType('VEC3').setArray(nodal.positions).setBuffer(buffer))
+      .setAttribute('NORMAL', doc.createAccessor().setType('VEC3').setArray(nodal.normals).setBuffer(buffer))
+      .setIndices(doc.createAccessor().setType('SCALAR').setArray(nodal.indices).setBuffer(buffer))
+      .setMaterial(mat);
+    const mesh = doc.createMesh(NODAL_NAME).addPrimitive(prim);
+    mesh.setExtras({ nodal: true });
+    scene.addChild(doc.createNode(NODAL_NAME).setMesh(mesh));
   }
   root.setDefaultScene(scene);
   return new WebIO().writeBinary(doc);

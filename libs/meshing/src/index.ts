@@ -6,6 +6,7 @@ export * from './marching-cubes';
 export * from './stats';
 export * from './orbital-surfaces';
 export * from './pipeline';
+export * from './nodal';
 export * from './encoders';
 export * from './nrrd';
 export * from './sections';

@@ -3,6 +3,7 @@
 import { autoExtent, compileState, enclosedFractionAt, enclosedThreshold, type Bohr, type CompiledState, type OrbitalState } from '@psiform/orbitals';
 import { extractOrbitalSurfaces, type CubeGrid, type Phase, type OrbitalSurfaceOptions } from './orbital-surfaces';
 import type { Mesh } from './mesh';
+import { extractNodalSurface } from './nodal';
 import { meshStats, type MeshStats } from './stats';
 
 export type SurfaceRule = { rule: 'enclosed'; fraction: number } | { rule: 'psi'; value: number };
@@ -18,6 +19,8 @@ export interface BuildOptions extends Pick<OrbitalSurfaceOptions, 'normals' | 's
   sample?: (compiled: CompiledState, grid: CubeGrid) => { re: Float32Array; im: Float32Array | null };
   /** Skip meshStats (timings_ms.stats is then 0). */
   stats?: boolean;
+  /** Also extract the nodal surfaces (psi = 0) where they cut the figure (real states; see extractNodalSurface). */
+  nodal?: boolean;
 }
 
 export interface OrbitalMeshResult {
@@ -28,6 +31,9 @@ export interface OrbitalMeshResult {
   enclosed: number;
   grid: { n: number; extent: number };
   surfaces: { phase: Phase; mesh: Mesh; stats: MeshStats | null }[];
+  /** Only with opts.nodal: psi = 0 between the lobes, or null (complex state, or no node, as 1s). Not a surface of
+   * the figure: no stats, not in `surfaces`. */
+  nodal?: Mesh | null;
   timings_ms: { sample: number; threshold: number; extract: number; stats: number };
 }
 
@@ -146,6 +152,7 @@ export function buildOrbitalMesh(req: BuildRequest, opts: BuildOptions = {}): Or
     skipEmpty: opts.skipEmpty,
     blockSize: opts.blockSize,
   });
+  const nodal = opts.nodal ? (compiled.isReal ? extractNodalSurface(field.re, grid, isovalue) : null) : undefined;
   const tExtract = performance.now() - t0;
 
   t0 = performance.now();
@@ -157,6 +164,7 @@ export function buildOrbitalMesh(req: BuildRequest, opts: BuildOptions = {}): Or
     enclosed,
     grid: { n, extent },
     surfaces: withStats,
+    ...(nodal !== undefined ? { nodal } : {}),
     timings_ms: { sample: tSample, threshold: tThreshold, extract: tExtract, stats: tStats },
   };
 }

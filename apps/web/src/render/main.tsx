@@ -8,7 +8,7 @@ import { Canvas, useThree, type RootState } from '@react-three/fiber';
 import * as THREE from 'three';
 import { flipRowsInPlace, planTiles } from '@psiform/print';
 import { recipeLabel } from '../figures/model';
-import { disposeGeometries, geometryFromArrays, loadGlbGeometries, triangleCount, type PhaseGeometry } from '../scene/geometry';
+import { disposeGeometries, geometryFromArrays, loadGlbGeometries, splitNodal, triangleCount, type PhaseGeometry } from '../scene/geometry';
 import { axisTips, OrbitalScene, type PlacedInfo } from '../scene/OrbitalScene';
 import { drawOverlay, inkFor } from '../scene/overlay';
 import { bytesToBase64, compositeOver, encodeFigurePng, readBandSrgb } from './pixels';
@@ -321,7 +321,7 @@ async function renderPanels(req: CheckedRequest, keep: (all: PhaseGeometry[]) =>
   const W = req.width;
   const H = req.height;
   const grid = panelGrid(W, H, panels.length, req.columns);
-  const radius = commonRadius(loaded.map((g) => maxRadius(g.map((s) => s.geometry))));
+  const radius = commonRadius(loaded.map((g) => maxRadius(splitNodal(g).lobes.map((s) => s.geometry))));
   const aspect = grid.cellWidth / grid.cellHeight;
   const recipe = req.recipe;
   const bg = req.transparent ? null : recipe.stage.background.color;

@@ -2,11 +2,11 @@
 // so an export looks like the screen. z (the quantisation axis) is up; lengths are in a0.
 import { useEffect, useLayoutEffect, useMemo, useRef } from 'react';
 import { useFrame, useThree } from '@react-three/fiber';
-import { OrbitControls, Outlines } from '@react-three/drei';
+import { OrbitControls } from '@react-three/drei';
 import * as THREE from 'three';
 import type { Recipe } from '@psiform/contracts';
 import { lightOffset, maxRadius, placeCamera, type Framing } from './framing';
-import type { Phase, PhaseGeometry } from './geometry';
+import { boundaryEdges, splitNodal, type Phase, type PhaseGeometry } from './geometry';
 import { inkFor } from './overlay';
 
 export interface PlacedInfo {
@@ -16,6 +16,7 @@ export interface PlacedInfo {
 }
 
 export interface OrbitalSceneProps {
+  /** Lobe surfaces per phase; an entry of phase 'nodal' (from the GLB or the preview) is drawn only as the nodal outline. */
   surfaces: readonly PhaseGeometry[];
   palette: Pick<Recipe['palette'], 'positive' | 'negative'>;
   stage: Recipe['stage'];
@@ -114,6 +115,41 @@ function Nucleus({ radius, ink }: { radius: number; ink: string }) {
   return <mesh name="nucleus" geometry={geo} material={mat} />;
 }
 
+/**
+ * stage.material.nodalOutline: the nodal surfaces (psi = 0) where they cut the figure, as a faint translucent ink
+ * film with a thin ink line where it ends at the lobes. Unlit, so it stays quiet under any light.
+ */
+function NodalOutline({ geometries, ink }: { geometries: readonly THREE.BufferGeometry[]; ink: string }) {
+  const parts = useMemo(() => {
+    const film = new THREE.MeshBasicMaterial({ color: new THREE.Color(ink), transparent: true, opacity: 0.18, side: THREE.DoubleSide, depthWrite: false, name: 'nodal' });
+    const line = new THREE.LineBasicMaterial({ color: new THREE.Color(ink), transparent: true, opacity: 0.7, name: 'nodal edge' });
+    const edges = geometries.map((g) => {
+      const e = new THREE.BufferGeometry();
+      e.setAttribute('position', new THREE.BufferAttribute(boundaryEdges(g), 3));
+      return e;
+    });
+    return { film, line, edges };
+  }, [geometries, ink]);
+  useEffect(
+    () => () => {
+      parts.film.dispose();
+      parts.line.dispose();
+      parts.edges.forEach((e) => e.dispose());
+    },
+    [parts],
+  );
+  return (
+    <group name="nodal">
+      {geometries.map((g, i) => (
+        <group key={g.uuid}>
+          <mesh geometry={g} material={parts.film} renderOrder={2} name="nodal" />
+          <lineSegments geometry={parts.edges[i]} material={parts.line} renderOrder={3} name="nodal edge" />
+        </group>
+      ))}
+    </group>
+  );
+}
+
 /** Key, fill and rim lights in a rig that turns with the camera (see lightOffset), plus ambient light. */
 function LightRig({ lights, rigRef }: { lights: Recipe['stage']['lights']; rigRef: React.RefObject<THREE.Group | null> }) {
   const { key, fill, rim, ambient } = lights;
@@ -130,7 +166,9 @@ function LightRig({ lights, rigRef }: { lights: Recipe['stage']['lights']; rigRe
 }
 
 export function OrbitalScene(props: OrbitalSceneProps) {
-  const { surfaces, palette, stage, annotations, controls } = props;
+  const { palette, stage, annotations, controls } = props;
+  const split = useMemo(() => splitNodal(props.surfaces), [props.surfaces]);
+  const surfaces = split.lobes;
   const set = useThree((s) => s.set);
   const size = useThree((s) => s.size);
   const invalidate = useThree((s) => s.invalidate);
@@ -197,11 +235,10 @@ export function OrbitalScene(props: OrbitalSceneProps) {
       <LightRig lights={stage.lights} rigRef={rig} />
       <group name="surfaces">
         {surfaces.map((s, i) => (
-          <mesh key={`${s.phase}-${i}-${s.geometry.uuid}`} geometry={s.geometry} material={materials[s.phase]} name={`phase ${s.phase}`}>
-            {stage.material.nodalOutline && <Outlines thickness={radius * 0.012} color={ink} screenspace={false} />}
-          </mesh>
+          <mesh key={`${s.phase}-${i}-${s.geometry.uuid}`} geometry={s.geometry} material={materials[s.phase]} name={`phase ${s.phase}`} />
         ))}
       </group>
+      {stage.material.nodalOutline && split.nodal.length > 0 && <NodalOutline geometries={split.nodal} ink={ink} />}
       {annotations.axes && <Axes radius={radius} ink={ink} />}
       {annotations.nucleus && <Nucleus radius={radius} ink={ink} />}
       {controls && (

@@ -3,10 +3,12 @@ import * as THREE from 'three';
 import { GLTFLoader } from 'three/examples/jsm/loaders/GLTFLoader.js';
 
 export type Phase = '+' | '-' | 'complex';
+/** A lobe surface of one phase, or the nodal surfaces (psi = 0 between the lobes; drawn only as an ink outline). */
+export type SurfaceKind = Phase | 'nodal';
 
 /** One phase's surface as flat arrays (positions/normals xyz per vertex in a0; colors linear RGB per vertex). */
 export interface SurfaceArrays {
-  phase: Phase;
+  phase: SurfaceKind;
   positions: Float32Array;
   normals?: Float32Array | null;
   indices?: Uint32Array | null;
@@ -14,7 +16,7 @@ export interface SurfaceArrays {
 }
 
 export interface PhaseGeometry {
-  phase: Phase;
+  phase: SurfaceKind;
   geometry: THREE.BufferGeometry;
 }
 
@@ -33,7 +35,9 @@ export function geometryFromArrays(s: SurfaceArrays): THREE.BufferGeometry {
  * Which phase a GLB primitive is: the encoder writes extras {phase} on the mesh and names the material
  * "phase +", "phase −" (U+2212) or "phase (complex)"; both are accepted, plus an ASCII minus.
  */
-export function phaseOf(mesh: THREE.Mesh): Phase | null {
+export function phaseOf(mesh: THREE.Mesh): SurfaceKind | null {
+  // The encoder's nodal mesh: extras {nodal: true}, mesh and material named "nodal".
+  if (mesh.userData?.nodal === true) return 'nodal';
   const extra = mesh.userData?.phase;
   if (extra === '+' || extra === '-' || extra === 'complex') return extra;
   const mat = Array.isArray(mesh.material) ? mesh.material[0] : mesh.material;
@@ -41,12 +45,21 @@ export function phaseOf(mesh: THREE.Mesh): Phase | null {
   if (/^phase\s*\+$/.test(name)) return '+';
   if (/^phase\s*[-\u2212]$/.test(name)) return '-';
   if (/^phase/.test(name)) return 'complex';
+  if (name === 'nodal') return 'nodal';
   return null;
 }
 
 /** Loads a GLB and keeps only its geometry per phase (the file's materials are dropped; ours replace them). */
 export async function loadGlbGeometries(url: string): Promise<PhaseGeometry[]> {
-  const gltf = await new GLTFLoader().loadAsync(url);
+  return gltfGeometries(await new GLTFLoader().loadAsync(url));
+}
+
+/** As loadGlbGeometries, for GLB bytes already in memory. */
+export async function parseGlbGeometries(bytes: ArrayBuffer): Promise<PhaseGeometry[]> {
+  return gltfGeometries(await new GLTFLoader().parseAsync(bytes, ''));
+}
+
+function gltfGeometries(gltf: { scene: THREE.Object3D }): PhaseGeometry[] {
   const out: PhaseGeometry[] = [];
   gltf.scene.updateMatrixWorld(true);
   gltf.scene.traverse((o) => {
@@ -68,10 +81,49 @@ export function disposeGeometries(list: readonly PhaseGeometry[]): void {
   for (const g of list) g.geometry.dispose();
 }
 
+/** Triangles of the lobe surfaces (the nodal outline is not counted). */
 export function triangleCount(list: readonly PhaseGeometry[]): number {
   let n = 0;
-  for (const { geometry } of list) n += (geometry.index ? geometry.index.count : geometry.getAttribute('position').count) / 3;
+  for (const { phase, geometry } of list) if (phase !== 'nodal') n += (geometry.index ? geometry.index.count : geometry.getAttribute('position').count) / 3;
   return n;
+}
+
+/** The lobe surfaces and the nodal surfaces (if any) of one list. */
+export function splitNodal(list: readonly PhaseGeometry[]): { lobes: (PhaseGeometry & { phase: Phase })[]; nodal: THREE.BufferGeometry[] } {
+  const lobes: (PhaseGeometry & { phase: Phase })[] = [];
+  const nodal: THREE.BufferGeometry[] = [];
+  for (const g of list) {
+    if (g.phase === 'nodal') nodal.push(g.geometry);
+    else lobes.push(g as PhaseGeometry & { phase: Phase });
+  }
+  return { lobes, nodal };
+}
+
+/**
+ * Border of a triangle mesh: the edges used by exactly one triangle (where a clipped nodal surface ends at the
+ * lobes), as pairs of positions for LineSegments. Vertices are matched by index (marching cubes shares them).
+ */
+export function boundaryEdges(geometry: THREE.BufferGeometry): Float32Array {
+  const pos = geometry.getAttribute('position');
+  const index = geometry.index;
+  const tri = index ? index.count : pos.count;
+  const idx = (i: number) => (index ? index.getX(i) : i);
+  const count = new Map<string, number>();
+  const key = (a: number, b: number) => (a < b ? `${a},${b}` : `${b},${a}`);
+  for (let t = 0; t < tri; t += 3) {
+    const v = [idx(t), idx(t + 1), idx(t + 2)];
+    for (let e = 0; e < 3; e++) {
+      const k = key(v[e], v[(e + 1) % 3]);
+      count.set(k, (count.get(k) ?? 0) + 1);
+    }
+  }
+  const out: number[] = [];
+  for (const [k, c] of count) {
+    if (c !== 1) continue;
+    const [a, b] = k.split(',').map(Number);
+    out.push(pos.getX(a), pos.getY(a), pos.getZ(a), pos.getX(b), pos.getY(b), pos.getZ(b));
+  }
+  return new Float32Array(out);
 }
 
 /**

@@ -128,7 +128,7 @@ export function StagePanel({ look, onLook, canvas, onCanvas }: StagePanelProps) 
       <Slider min={0} max={1} stepSize={0.05} labelRenderer={false} value={stage.material.gloss} onChange={(v) => setStage({ material: { ...stage.material, gloss: v } })} />
       <label className="pf-slider-label">Opacity {stage.material.opacity.toFixed(2)}</label>
       <Slider min={0.1} max={1} stepSize={0.05} labelRenderer={false} value={stage.material.opacity} onChange={(v) => setStage({ material: { ...stage.material, opacity: v } })} />
-      <Switch label="Outline the lobes" checked={stage.material.nodalOutline} onChange={(e) => setStage({ material: { ...stage.material, nodalOutline: e.currentTarget.checked } })} data-testid="stage-outline" />
+      <Switch label="Outline nodal surfaces (ψ = 0)" checked={stage.material.nodalOutline} onChange={(e) => setStage({ material: { ...stage.material, nodalOutline: e.currentTarget.checked } })} data-testid="stage-outline" />
 
       <h3>Background</h3>
       <Switch label="Transparent" checked={stage.background.transparent} onChange={(e) => setStage({ background: { ...stage.background, transparent: e.currentTarget.checked } })} data-testid="stage-transparent" />

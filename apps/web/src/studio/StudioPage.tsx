@@ -112,7 +112,7 @@ function Studio({ initial, figure }: StudioProps) {
   }, [JSON.stringify([check.built, surf.rule, gridN, gridError, look, canvas]), initial]);
 
   const state = check.built ? { Z: check.built.Z, terms: check.built.terms } : null;
-  const { surfaces, status, previewN } = usePreview(gridError ? null : state, gridError ? 128 : gridN, initial.grid.extent, surf.rule);
+  const { surfaces, status, previewN } = usePreview(gridError ? null : state, gridError ? 128 : gridN, initial.grid.extent, surf.rule && { ...surf.rule, nodal: look.stage.material.nodalOutline });
 
   // Stage shortcuts (not while typing in a field).
   useEffect(() => {

@@ -11,7 +11,8 @@ export const previewWorker = {
   create: (): Worker => new Worker(new URL('../workers/preview.worker.ts', import.meta.url), { type: 'module' }),
 };
 
-export type PreviewRule = { rule: 'enclosed'; fraction: number } | { rule: 'psi'; value: number };
+/** The surface rule, plus whether the nodal surfaces (ψ = 0) are wanted for the Stage's outline. */
+export type PreviewRule = ({ rule: 'enclosed'; fraction: number } | { rule: 'psi'; value: number }) & { nodal?: boolean };
 
 export interface PreviewStatus {
   phase: 'idle' | 'sampling' | 'extracting' | 'ready' | 'error';

@@ -5,7 +5,12 @@ import type { SurfaceArrays } from '../scene/geometry';
 
 export type PreviewRequest =
   | { type: 'sample'; seq: number; state: OrbitalState; n: number; extent: 'auto' | number }
-  | { type: 'surface'; seq: number; sampleSeq: number; rule: { rule: 'enclosed'; fraction: number } | { rule: 'psi'; value: number } };
+  | {
+      type: 'surface';
+      seq: number;
+      sampleSeq: number;
+      rule: ({ rule: 'enclosed'; fraction: number } | { rule: 'psi'; value: number }) & { nodal?: boolean };
+    };
 
 export type PreviewResponse =
   | { type: 'sampled'; seq: number; n: number; extent: number; ms: number }

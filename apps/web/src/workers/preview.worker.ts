@@ -41,9 +41,11 @@ function handle(req: PreviewRequest): void {
   const t0 = performance.now();
   const grid = current;
   // The kept grid stands in for sampling (buildOrbitalMesh squares a real field in place and restores it exactly).
+  const { nodal, ...surface } = req.rule;
   const result = buildOrbitalMesh(
-    { state: grid.compiled.state, grid: { n: grid.n, extent: grid.extent }, surface: req.rule },
-    { sample: () => ({ re: grid.re, im: grid.im }), stats: false },
+    { state: grid.compiled.state, grid: { n: grid.n, extent: grid.extent }, surface },
+    // Nodal surfaces only while the Stage's outline switch is on: they cost 15-70 ms an update at 112³.
+    { sample: () => ({ re: grid.re, im: grid.im }), stats: false, nodal: nodal === true },
   );
   const surfaces: SurfaceArrays[] = [];
   const transfer: Transferable[] = [];
@@ -59,6 +61,11 @@ function handle(req: PreviewRequest): void {
     surfaces.push({ phase: s.phase, positions: s.mesh.positions, normals: s.mesh.normals, indices: s.mesh.indices, colors });
     transfer.push(s.mesh.positions.buffer, s.mesh.normals.buffer, s.mesh.indices.buffer);
     triangles += s.mesh.indices.length / 3;
+  }
+  if (result.nodal) {
+    const m = result.nodal;
+    surfaces.push({ phase: 'nodal', positions: m.positions, normals: m.normals, indices: m.indices });
+    transfer.push(m.positions.buffer, m.normals.buffer, m.indices.buffer);
   }
   post(
     {

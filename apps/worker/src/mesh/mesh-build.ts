@@ -2,7 +2,7 @@ import { UnrecoverableError } from 'bullmq';
 import type { Recipe } from '@psiform/contracts';
 import { AssetStore, CONTENT_TYPES, ObjectStorage, meshKey, type MeshStage, type NewAsset } from '@psiform/api/pipeline';
 import { MODEL_NOTE } from '@psiform/meshing';
-import { cubeFromNrrd, encode, extract, gridLabel, sampleComputed, surfaceStats, threshold, type Field, type Surface } from './mesh-pipeline';
+import { cubeFromNrrd, encode, extract, gridLabel, nodalSurface, sampleComputed, surfaceStats, threshold, type Field, type Surface } from './mesh-pipeline';
 
 export interface MeshBuildInput {
   recipe: Recipe;
@@ -49,6 +49,7 @@ export async function buildMesh(
   await stage('extracting');
   t0 = performance.now();
   const surfaces = extract(field, level);
+  const nodal = nodalSurface(field, level, recipe);
   timings.extract = ms(t0);
   t0 = performance.now();
   const stats = surfaceStats(surfaces);
@@ -68,7 +69,7 @@ export async function buildMesh(
     grid,
     source: recipe.source?.kind === 'upload' ? { kind: 'upload', quantity: recipe.source.quantity, sha256: recipe.source.sha256 } : { kind: 'computed' },
   };
-  const files = await encode(surfaces, recipe, summary, deps.engineVersion);
+  const files = await encode(surfaces, recipe, summary, deps.engineVersion, nodal);
   timings.encode = ms(t0);
 
   await stage('storing');

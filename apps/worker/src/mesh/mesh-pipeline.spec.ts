@@ -2,7 +2,7 @@ import { parseRecipe, type Recipe } from '@psiform/contracts';
 import { buildOrbitalMesh, meshStats } from '@psiform/meshing';
 import { autoExtent } from '@psiform/orbitals';
 import { closeParallelSampler } from '@psiform/orbitals/node';
-import { cubeFromNrrd, extract, gridLabel, phaseWheel, sampleComputed, stateOf, threshold, type Field } from './mesh-pipeline';
+import { cubeFromNrrd, encode, extract, gridLabel, nodalSurface, phaseWheel, sampleComputed, stateOf, threshold, type Field } from './mesh-pipeline';
 import { nrrdHeaderFor } from '@psiform/api/pipeline';
 
 const recipe = (over: Record<string, unknown>): Recipe => {
@@ -32,6 +32,25 @@ describe('staged mesh pipeline vs buildOrbitalMesh', () => {
       expect(Array.from(s.mesh.indices)).toEqual(Array.from(ref.surfaces[i].mesh.indices));
       expect(Array.from(s.mesh.positions)).toEqual(Array.from(ref.surfaces[i].mesh.positions));
     });
+  });
+});
+
+describe('nodal outline (stage.material.nodalOutline)', () => {
+  it('only when the recipe asks: the same psi = 0 mesh as buildOrbitalMesh, written into the GLB as a "nodal" mesh', async () => {
+    const on = recipe({ stage: { material: { nodalOutline: true } } });
+    const field = await sampleComputed(on, { threads: 2 });
+    const t = threshold(field, on.surface);
+    const surfaces = extract(field, t);
+    expect(nodalSurface(field, t, recipe({}))).toBeNull();
+    const nodal = nodalSurface(field, t, on)!;
+    const ref = buildOrbitalMesh({ state: stateOf(on), grid: { n: on.grid.n, extent: on.grid.extent }, surface: on.surface }, { nodal: true });
+    expect(Array.from(nodal.positions)).toEqual(Array.from(ref.nodal!.positions));
+    const names = async (glb: Uint8Array) => {
+      const len = new DataView(glb.buffer, glb.byteOffset).getUint32(12, true); // GLB JSON chunk (glTF 2.0, 4.4)
+      return JSON.parse(new TextDecoder().decode(glb.subarray(20, 20 + len))).meshes.map((m: { name: string }) => m.name);
+    };
+    expect(await names((await encode(surfaces, on, {}, 'test', nodal)).glb)).toEqual(['phase +', 'phase \u2212', 'nodal']);
+    expect(await names((await encode(surfaces, on, {}, 'test')).glb)).toEqual(['phase +', 'phase \u2212']);
   });
 });
 

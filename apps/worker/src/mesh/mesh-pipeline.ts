@@ -13,6 +13,7 @@ import {
   encodeGlb,
   encodeStl,
   extractIsosurface,
+  extractNodalSurface,
   extractOrbitalSurfaces,
   levelBetweenSamples,
   meshStats,
@@ -178,6 +179,12 @@ export function extract(field: Field, t: Threshold): Surface[] {
   ];
 }
 
+/** Nodal surfaces (psi = 0) where they cut the figure, for stage.material.nodalOutline: computed real states only. */
+export function nodalSurface(field: Field, t: Threshold, recipe: Recipe): Mesh | null {
+  if (!recipe.stage?.material?.nodalOutline || field.kind !== 'orbital' || !field.compiled.isReal) return null;
+  return extractNodalSurface(field.re, field.grid, t.isovalue);
+}
+
 export function surfaceStats(surfaces: Surface[]): Array<{ phase: Phase } & MeshStats> {
   return surfaces.map((s) => ({ phase: s.phase, ...meshStats(s.mesh) }));
 }
@@ -199,9 +206,16 @@ export function phaseWheel(angle: number): Rgb {
   return [r + m, g + m, b + m];
 }
 
-export async function encode(surfaces: Surface[], recipe: Recipe, extras: Record<string, unknown>, engineVersion: string): Promise<{ glb: Uint8Array; stl: Uint8Array }> {
+export async function encode(
+  surfaces: Surface[],
+  recipe: Recipe,
+  extras: Record<string, unknown>,
+  engineVersion: string,
+  nodal: Mesh | null = null,
+): Promise<{ glb: Uint8Array; stl: Uint8Array }> {
   const colors = { '+': hexToRgb(recipe.palette.positive), '-': hexToRgb(recipe.palette.negative) };
-  const glb = await encodeGlb(surfaces, { version: engineVersion, extras, colors, colorWheel: phaseWheel });
+  // The nodal mesh goes into the GLB only (an outline for the scene); the STL is the printable lobes.
+  const glb = await encodeGlb(surfaces, { version: engineVersion, extras, colors, colorWheel: phaseWheel, nodal });
   const stl = encodeStl(surfaces);
   return { glb, stl };
 }
