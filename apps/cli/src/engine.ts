@@ -12,6 +12,7 @@ import {
   mostProbableRadius,
   parseOrbitalLabel,
   probabilityOutside,
+  prettyLabel,
   radialNodes,
   stateFromNlm,
   type CompiledState,
@@ -23,7 +24,8 @@ import { UsageError, oneLine } from './errors';
 export function stateForLabel(label: string): { label: string; terms: Term[] } {
   try {
     const p = parseOrbitalLabel(label);
-    return { label: p.label, terms: p.state.terms };
+    // The typeset form (3d_z², sp³ #2) is what figures print and what the Composer writes.
+    return { label: prettyLabel(p.label), terms: p.state.terms };
   } catch (err) {
     if (err instanceof LabelError || err instanceof RangeError) throw new UsageError(oneLine(err.message));
     throw err;

@@ -143,7 +143,7 @@ describe('recipe', () => {
     expect(r.code).toBe(0);
     const doc = JSON.parse(r.stdout);
     expect(doc.version).toBe(RECIPE_VERSION);
-    expect(doc.label).toBe('3dz2');
+    expect(doc.label).toBe('3d_z²'); // prettyLabel: the typeset form figures print
     expect(doc.content.Z).toBe(2);
     expect(doc.content.terms).toEqual([{ n: 3, l: 2, m: 0, basis: 'real', re: 1, im: 0 }]);
     expect(doc.grid).toEqual({ n: 128, extent: 'auto' });
