@@ -1,28 +1,2 @@
-// Jest with @swc/jest (stack notes: decorators need legacyDecorator + decoratorMetadata).
-const swc = [
-  '@swc/jest',
-  {
-    jsc: {
-      parser: { syntax: 'typescript', decorators: true },
-      transform: { legacyDecorator: true, decoratorMetadata: true },
-      target: 'es2022',
-    },
-    module: { type: 'commonjs' },
-  },
-];
-// @gltf-transform/core (through @psiform/meshing) requires the ESM-only property-graph and d3-contour (d3-array, internmap), which Jest cannot
-// load as is on Node 20: swc compiles those packages to CommonJS.
-const common = {
-  testEnvironment: 'node',
-  transform: { '^.+\\.ts$': swc, '^.+/node_modules/(property-graph|d3-[a-z]+|internmap)/.+\\.m?js$': swc },
-  transformIgnorePatterns: ['/node_modules/(?!(property-graph|d3-[a-z]+|internmap)/)'],
-  moduleFileExtensions: ['ts', 'js', 'mjs', 'json'],
-};
-
 /** @type {import('jest').Config} */
-module.exports = {
-  projects: [
-    { ...common, displayName: 'unit', rootDir: __dirname, testMatch: ['<rootDir>/src/**/*.spec.ts'] },
-    { ...common, displayName: 'e2e', rootDir: __dirname, testMatch: ['<rootDir>/test/**/*.e2e-spec.ts'], testTimeout: 20000 },
-  ],
-};
+module.exports = require('../../shared/jest.base.js').nestJestConfig(__dirname, { e2eTimeout: 20000 });
