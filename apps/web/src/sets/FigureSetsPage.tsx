@@ -2,15 +2,16 @@
 // exported like a single figure. Create from the library's figures or the "every orbital of one shell" preset.
 import { useEffect, useMemo, useState } from 'react';
 import { useQuery, useQueryClient } from '@tanstack/react-query';
-import { Button, ButtonGroup, Callout, Checkbox, FormGroup, HTMLSelect, HTMLTable, InputGroup, NonIdealState, Spinner } from '@blueprintjs/core';
+import { Button, Callout, Checkbox, FormGroup, HTMLSelect, HTMLTable, InputGroup, NonIdealState, Spinner } from '@blueprintjs/core';
 import { FIGURE_SET_LIMITS, type FigureSetDto, type FigureSummaryDto, type JobDto } from '@psiform/contracts';
-import { COLUMN_PRESETS, DPI_CHOICES, type ColumnPreset } from '@psiform/print';
+import { COLUMN_PRESETS } from '@psiform/print';
 import { describeError } from '../api/client';
 import { useApi } from '../auth/AuthProvider';
 import { PublicationChooser } from '../figures/PublicationChooser';
 import { usePublications } from '../figures/usePublications';
 import { DownloadList, ExportProgress } from '../studio/ExportDialog';
-import { fromMm, lengthError, pixelText, toMm, type LengthUnit } from '../studio/exportSize';
+import { fromMm } from '../studio/exportSize';
+import { CanvasSizeFields, useCanvasSize } from '../studio/CanvasSizeFields';
 import { matchFigures, orbitalRecipe, SHELL_MAX_N, shellOrbitals } from './shell';
 import './sets.css';
 
@@ -269,29 +270,14 @@ export function NewSetForm({ publicationId, figures, onCreated }: { publicationI
 /** Canvas size (mm or inches, column presets, dpi) and the PNG export of a set, with progress and download. */
 export function SetExportForm({ set }: { set: FigureSetDto }) {
   const api = useApi();
-  const [unit, setUnit] = useState<LengthUnit>('mm');
-  const [w, setW] = useState(fromMm(COLUMN_PRESETS.double.widthMm, 'mm'));
-  const [h, setH] = useState(fromMm(60, 'mm'));
-  const [dpi, setDpi] = useState<number>(300);
-  const [transparent, setTransparent] = useState(false);
+  const size = useCanvasSize({ widthMm: COLUMN_PRESETS.double.widthMm, heightMm: 60, dpi: 300, transparent: false });
+  const { unit, setW, dpi, transparent, widthMm, heightMm, px } = size;
   const [jobId, setJobId] = useState<string | null>(null);
   const [result, setResult] = useState<JobDto | null>(null);
   const [error, setError] = useState<string | null>(null);
   const [sending, setSending] = useState(false);
   useEffect(() => setResult(null), [jobId]);
 
-  const wErr = lengthError(w, unit, 'width');
-  const hErr = lengthError(h, unit, 'height');
-  const widthMm = wErr ? null : toMm(Number(w.replace(',', '.')), unit);
-  const heightMm = hErr ? null : toMm(Number(h.replace(',', '.')), unit);
-  const px = widthMm !== null && heightMm !== null ? pixelText(widthMm, heightMm, dpi) : null;
-
-  function switchUnit(u: LengthUnit) {
-    if (u === unit) return;
-    if (widthMm !== null) setW(fromMm(widthMm, u));
-    if (heightMm !== null) setH(fromMm(heightMm, u));
-    setUnit(u);
-  }
 
   async function submit() {
     if (widthMm === null || heightMm === null) return;
@@ -314,29 +300,7 @@ export function SetExportForm({ set }: { set: FigureSetDto }) {
   return (
     <div className="pf-export pf-gap-sm" data-testid="set-export-form">
       <h3>Export “{set.title}”</h3>
-      <div className="pf-head-row">
-        <ButtonGroup aria-label="Length unit">
-          <Button text="mm" active={unit === 'mm'} onClick={() => switchUnit('mm')} data-testid="set-unit-mm" />
-          <Button text="inches" active={unit === 'in'} onClick={() => switchUnit('in')} data-testid="set-unit-in" />
-        </ButtonGroup>
-        <ButtonGroup aria-label="Column width presets">
-          {(Object.keys(COLUMN_PRESETS) as ColumnPreset[]).map((p) => (
-            <Button key={p} small text={COLUMN_PRESETS[p].label} onClick={() => setW(fromMm(COLUMN_PRESETS[p].widthMm, unit))} data-testid={`set-preset-${p}`} />
-          ))}
-        </ButtonGroup>
-      </div>
-      <div className="pf-form-row">
-        <FormGroup label={`Width (${unit})`} labelFor="set-width" intent={wErr ? 'danger' : 'none'} helperText={wErr && <span data-testid="set-width-error">{wErr}</span>}>
-          <InputGroup id="set-width" value={w} onValueChange={setW} data-testid="set-width" />
-        </FormGroup>
-        <FormGroup label={`Height (${unit})`} labelFor="set-height" intent={hErr ? 'danger' : 'none'} helperText={hErr && <span data-testid="set-height-error">{hErr}</span>}>
-          <InputGroup id="set-height" value={h} onValueChange={setH} data-testid="set-height" />
-        </FormGroup>
-        <FormGroup label="Resolution" labelFor="set-dpi">
-          <HTMLSelect id="set-dpi" value={String(dpi)} onChange={(e) => setDpi(Number(e.currentTarget.value))} options={DPI_CHOICES.map((d) => ({ value: String(d), label: `${d} dpi` }))} data-testid="set-dpi" />
-        </FormGroup>
-      </div>
-      <Checkbox label="Transparent background" checked={transparent} onChange={(e) => setTransparent(e.currentTarget.checked)} data-testid="set-transparent" />
+      <CanvasSizeFields size={size} idPrefix="set" onPreset={(k) => setW(fromMm(COLUMN_PRESETS[k].widthMm, unit))} />
       <p className="pf-pixels" data-testid="set-pixels">
         {px ? `${px.text}, ${set.figureIds.length} panels in ${Math.min(set.columns, set.figureIds.length)} columns` : 'Enter a valid width and height to see the pixel size.'}
       </p>

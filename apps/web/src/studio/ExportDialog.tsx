@@ -1,14 +1,15 @@
 // Export a figure: PNG at a physical size and dpi, SVG companions, the bundle, or the mesh files.
 import { useState } from 'react';
-import { Button, ButtonGroup, Callout, Checkbox, Dialog, DialogBody, DialogFooter, FormGroup, HTMLSelect, InputGroup, ProgressBar } from '@blueprintjs/core';
+import { Button, Callout, Dialog, DialogBody, DialogFooter, FormGroup, HTMLSelect, ProgressBar } from '@blueprintjs/core';
 import type { AssetDto, FigureDto, JobDto, Recipe } from '@psiform/contracts';
-import { COLUMN_PRESETS, DPI_CHOICES, type ColumnPreset } from '@psiform/print';
+import { COLUMN_PRESETS, type ColumnPreset } from '@psiform/print';
 import { formatBytes } from '@psiform/orbitals';
 import { ApiError, describeError } from '../api/client';
 import { useFollowJob } from '../figures/JobProgress';
 import { useApi } from '../auth/AuthProvider';
 import { browser } from '../figures/AssetDownloads';
-import { fromMm, lengthError, pixelText, toMm, type LengthUnit } from './exportSize';
+import { fromMm } from './exportSize';
+import { CanvasSizeFields, useCanvasSize } from './CanvasSizeFields';
 
 export type ExportFormat = 'png' | 'svg-radial' | 'svg-section' | 'bundle' | 'glb' | 'stl';
 
@@ -135,11 +136,8 @@ export interface ExportFormProps {
 
 export function ExportForm({ figure, canvas, transparentDefault, unsaved }: ExportFormProps) {
   const api = useApi();
-  const [unit, setUnit] = useState<LengthUnit>('mm');
-  const [w, setW] = useState(fromMm(canvas.widthMm, 'mm'));
-  const [h, setH] = useState(fromMm(canvas.heightMm, 'mm'));
-  const [dpi, setDpi] = useState<number>(canvas.dpi);
-  const [transparent, setTransparent] = useState(transparentDefault);
+  const size = useCanvasSize({ widthMm: canvas.widthMm, heightMm: canvas.heightMm, dpi: canvas.dpi, transparent: transparentDefault });
+  const { unit, setW, setH, dpi, transparent, widthMm, heightMm, px } = size;
   const [format, setFormat] = useState<ExportFormat>('png');
   const [requestedKind, setRequestedKind] = useState<string | undefined>();
   const [jobId, setJobId] = useState<string | null>(null);
@@ -147,18 +145,6 @@ export function ExportForm({ figure, canvas, transparentDefault, unsaved }: Expo
   const [sending, setSending] = useState(false);
   const [error, setError] = useState<string | null>(null);
 
-  const wErr = lengthError(w, unit, 'width');
-  const hErr = lengthError(h, unit, 'height');
-  const widthMm = wErr ? null : toMm(Number(w.replace(',', '.')), unit);
-  const heightMm = hErr ? null : toMm(Number(h.replace(',', '.')), unit);
-  const px = widthMm !== null && heightMm !== null ? pixelText(widthMm, heightMm, dpi) : null;
-
-  function switchUnit(u: LengthUnit) {
-    if (u === unit) return;
-    if (widthMm !== null) setW(fromMm(widthMm, u));
-    if (heightMm !== null) setH(fromMm(heightMm, u));
-    setUnit(u);
-  }
   function preset(p: ColumnPreset) {
     const target = COLUMN_PRESETS[p].widthMm;
     const aspect = widthMm && heightMm ? heightMm / widthMm : canvas.heightMm / canvas.widthMm;
@@ -206,30 +192,12 @@ export function ExportForm({ figure, canvas, transparentDefault, unsaved }: Expo
 
       {format === 'png' && (
         <>
-          <div className="pf-head-row">
-            <ButtonGroup aria-label="Length unit">
-              <Button text="mm" active={unit === 'mm'} onClick={() => switchUnit('mm')} data-testid="exp-unit-mm" />
-              <Button text="inches" active={unit === 'in'} onClick={() => switchUnit('in')} data-testid="exp-unit-in" />
-            </ButtonGroup>
-            <ButtonGroup aria-label="Column width presets">
-              {(Object.keys(COLUMN_PRESETS) as ColumnPreset[]).map((p) => (
-                <Button key={p} small text={COLUMN_PRESETS[p].label} onClick={() => preset(p)} data-testid={`exp-preset-${p}`} />
-              ))}
-            </ButtonGroup>
-          </div>
-          <p className="pf-muted pf-small">Column widths are common practice, not a standard: check the publisher's author guide.</p>
-          <div className="pf-form-row">
-            <FormGroup label={`Width (${unit})`} labelFor="exp-width" intent={wErr ? 'danger' : 'none'} helperText={wErr && <span data-testid="exp-width-error">{wErr}</span>}>
-              <InputGroup id="exp-width" value={w} onValueChange={setW} data-testid="exp-width" />
-            </FormGroup>
-            <FormGroup label={`Height (${unit})`} labelFor="exp-height" intent={hErr ? 'danger' : 'none'} helperText={hErr && <span data-testid="exp-height-error">{hErr}</span>}>
-              <InputGroup id="exp-height" value={h} onValueChange={setH} data-testid="exp-height" />
-            </FormGroup>
-            <FormGroup label="Resolution" labelFor="exp-dpi">
-              <HTMLSelect id="exp-dpi" value={String(dpi)} onChange={(e) => setDpi(Number(e.currentTarget.value))} options={DPI_CHOICES.map((d) => ({ value: String(d), label: `${d} dpi` }))} data-testid="exp-dpi" />
-            </FormGroup>
-          </div>
-          <Checkbox label="Transparent background" checked={transparent} onChange={(e) => setTransparent(e.currentTarget.checked)} data-testid="exp-transparent" />
+          <CanvasSizeFields
+            size={size}
+            idPrefix="exp"
+            onPreset={preset}
+            note={<p className="pf-muted pf-small">Column widths are common practice, not a standard: check the publisher's author guide.</p>}
+          />
           <p className="pf-pixels" data-testid="exp-pixels">
             {px ? px.text : 'Enter a valid width and height to see the pixel size.'}
           </p>
