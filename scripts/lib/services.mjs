@@ -12,12 +12,12 @@ export const ROOT = path.resolve(here, '..', '..');
 
 /** Ports and folders of one mode. `start` keeps its data in the git-ignored .data folder; `test` in a throwaway one. */
 export function layout(mode, dataDir) {
-  // PSIFORM_TEST_PORT_OFFSET shifts every test port, so several checkouts can run `npm test` side by side.
-  const off = mode === 'test' ? Number(process.env.PSIFORM_TEST_PORT_OFFSET ?? 0) : 0;
-  if (!Number.isInteger(off) || off < 0 || off > 1000) throw new Error('PSIFORM_TEST_PORT_OFFSET must be a whole number from 0 to 1000');
+  // PSIFORM_PORT_OFFSET shifts every port (default 0), so several checkouts can run `npm test` or `npm start` side by side.
+  const off = Number(process.env.PSIFORM_PORT_OFFSET ?? 0);
+  if (!Number.isInteger(off) || off < 0 || off > 1000) throw new Error('PSIFORM_PORT_OFFSET must be a whole number from 0 to 1000');
   const base = mode === 'test'
     ? { pg: 5434 + off, redis: 6381 + off, s3: 4570 + off, smtp: 2526 + off, app: Number(process.env.PSIFORM_TEST_PORT ?? 3100 + off) }
-    : { pg: 5433, redis: 6380, s3: 4569, smtp: 2525, app: Number(process.env.PORT ?? 3000) };
+    : { pg: 5433 + off, redis: 6380 + off, s3: 4569 + off, smtp: 2525 + off, app: Number(process.env.PORT ?? 3000 + off) };
   return { mode, dataDir, ports: base };
 }
 
