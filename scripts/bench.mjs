@@ -131,7 +131,8 @@ async function bestAsync(times, fn) {
 
 /** Our extraction as the product runs it: both phases (or one for complex), analytic normals. */
 function extractOurs(compiled, field, grid, c) {
-  const surfaces = meshing.extractOrbitalSurfaces(compiled, field, grid, c);
+  // Real states: the extraction field is psi itself (the pipeline's extractionField returns it unchanged).
+  const surfaces = meshing.extractOrbitalSurfaces(compiled, field.re, grid, c);
   let triangles = 0;
   let vertices = 0;
   for (const s of surfaces) {
@@ -145,8 +146,8 @@ function extractOurs(compiled, field, grid, c) {
 function extractKernel(field, grid, c) {
   const { dims, origin, spacing } = meshing.cubeGeometry(grid);
   const geom = { origin, spacing };
-  const a = meshing.extractIsosurface(field, dims, geom, c, { inside: 'above' });
-  const b = meshing.extractIsosurface(field, dims, geom, -c, { inside: 'below' });
+  const a = meshing.extractIsosurface(field, dims, geom, c, { inside: 'above', closeAtBoundary: false });
+  const b = meshing.extractIsosurface(field, dims, geom, -c, { inside: 'below', closeAtBoundary: false });
   return a.indices.length / 3 + b.indices.length / 3;
 }
 
@@ -282,7 +283,7 @@ async function sectionExtraction() {
   }
   table(['state', 'N', 'thresh ms', 'ours ms', 'kernel ms', 'triangles', 'skimage ms', 'sk tris', 'ours/sk', 'isosurf ms', 'iso/ours'], rows);
   console.log('  (kernel = bare extractIsosurface per phase with central-difference normals, the like-for-like with skimage;');
-  console.log('   skimage leaves surfaces open at the box, ours closes them, so triangle counts may differ slightly)');
+  console.log('   both leave surfaces open where they reach the box, so triangle counts agree closely)');
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -295,14 +296,15 @@ async function childMain256() {
   const t0 = now();
   const field = await orbitalsNode.sampleGridParallel(state, grid, { threads: 2 });
   const t1 = now();
-  const r = meshing.buildOrbitalMesh({ state, grid, surface: { rule: 'enclosed', fraction: FRACTION } }, { sample: () => field });
+  // recipeToSurfaces with the grid fixed at 256 (its 'threshold' is the all-space level solve, timed as 'plan').
+  const r = await meshing.recipeToSurfaces({ content: state, grid: { n: 256, extent: Number(grid.extent) }, surface: { rule: 'enclosed', fraction: FRACTION } }, { sample: () => field });
   const triangles = r.surfaces.reduce((s, x) => s + x.mesh.indices.length / 3, 0);
   console.log(
     JSON.stringify({
       sample_ms: t1 - t0,
-      threshold_ms: r.timings_ms.threshold,
-      extract_ms: r.timings_ms.extract,
-      stats_ms: r.timings_ms.stats,
+      threshold_ms: r.timings_ms.plan + r.timings_ms.threshold,
+      extract_ms: r.timings_ms.extracting,
+      stats_ms: r.timings_ms.statistics,
       triangles,
       maxRSS_kb: peakRssKb(),
     }),
@@ -310,7 +312,7 @@ async function childMain256() {
 }
 
 async function sectionMemory() {
-  heading('Peak memory (RSS): the product path (sampleGridParallel + buildOrbitalMesh + meshStats) in a fresh process');
+  heading('Peak memory (RSS): the product path (sampleGridParallel + recipeToSurfaces) in a fresh process');
   const r = spawnSync(process.execPath, [fileURLToPath(import.meta.url), '--child-main256'], { encoding: 'utf8' });
   let child = null;
   try {
@@ -332,26 +334,27 @@ async function sectionMemory() {
 // ---------------------------------------------------------------------------------------------
 // Section: live preview (re-extraction at 10 fractions on an already sampled 128³ grid)
 async function sectionLivePreview() {
-  heading('Live preview: 128³ 3d_z² already sampled; per fraction change = threshold + both phases');
+  heading('Live preview: 128³ 3d_z² already sampled; per fraction change = recipeToSurfaces on the kept grid (all-space level, box check, both phases)');
   const state = STATES['3d_z2']();
-  const compiled = orbitals.compileState(state);
   const grid = gridFor(state, 128);
   const field = await orbitalsNode.sampleGridParallel(state, grid, { threads: 2 });
-  const dens = density(field.re); // kept between updates, as the preview worker would
+  // The preview worker's sampler hands the kept grid back (a copy: the pipeline may write into it).
+  const sample = () => ({ re: field.re.slice(), im: null });
+  const recipeAt = (f) => ({ content: state, grid: { n: 128, extent: Number(grid.extent) }, surface: { rule: 'enclosed', fraction: f } });
   const fractions = [0.5, 0.55, 0.6, 0.65, 0.7, 0.75, 0.8, 0.85, 0.9, 0.95];
-  extractOurs(compiled, field, grid, Math.sqrt(orbitals.enclosedThreshold(dens, 0.9))); // warm-up
+  await meshing.recipeToSurfaces(recipeAt(0.9), { sample, stats: false }); // warm-up
   const rows = [];
   let total = 0;
   for (const f of fractions) {
     const t0 = now();
-    const c = Math.sqrt(orbitals.enclosedThreshold(dens, f));
-    const t1 = now();
-    const { triangles } = extractOurs(compiled, field, grid, c);
-    const t2 = now();
-    total += t2 - t0;
-    rows.push([fmt(f, 2), c.toExponential(3), fmt(t1 - t0), fmt(t2 - t1), fmt(t2 - t0), String(triangles)]);
+    const r = await meshing.recipeToSurfaces(recipeAt(f), { sample, stats: false });
+    const t = r.timings_ms;
+    const dt = now() - t0;
+    total += dt;
+    const triangles = r.surfaces.reduce((n, s) => n + s.mesh.indices.length / 3, 0);
+    rows.push([fmt(f, 2), r.isovalue.toExponential(3), fmt(t.plan + t.threshold), fmt(t.extracting), fmt(dt), String(triangles)]);
   }
-  table(['fraction', 'isovalue', 'thresh ms', 'extract ms', 'update ms', 'triangles'], rows);
+  table(['fraction', 'isovalue', 'level ms', 'extract ms', 'update ms', 'triangles'], rows);
   results.liveMeanMs = total / fractions.length;
   console.log(`  mean ${fmt(results.liveMeanMs)} ms per update (target < ${TARGETS.livePreviewMs} ms): ${verdict(results.liveMeanMs < TARGETS.livePreviewMs)}`);
 }

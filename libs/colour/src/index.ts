@@ -5,3 +5,4 @@ export * from './contrast';
 export * from './print-gamut';
 export * from './phase-wheel';
 export * from './swatchbook-check';
+export * from './phase-colour';

@@ -102,13 +102,9 @@ export class ExportJobProcessor implements JobProcessor<JobPayload, TrackedResul
       const svgParams: SvgParams = { kind: 'radial', plane: 'xz', offset: 0, levels: 4, widthMm: recipe.canvas.widthMm, heightMm: recipe.canvas.heightMm };
       files.push({ name: 'radial.svg', bytes: new TextEncoder().encode(figureSvg(recipe, svgParams, latoFonts())) });
     }
-    const s = mesh.stats as { isovalue: number; enclosed: number; grid: { n: number; extent: number }; surfaces?: Array<{ phase: '+' | '-' | 'complex' } & Record<string, unknown>> };
-    const result: MeshResultLike = {
-      isovalue: s.isovalue,
-      enclosed: s.enclosed,
-      grid: { n: s.grid.n, extent: s.grid.extent },
-      surfaces: (s.surfaces ?? []).map(({ phase, ...stats }) => ({ phase, stats: stats as never })),
-    };
+    // The mesh summary (@psiform/meshing summariseSurfaces) is what the metadata sheet and caption read: the
+    // all-space fraction, the part inside the box, the grids and every warning travel with the figure.
+    const result = mesh.stats as unknown as MeshResultLike;
     const palette = plotPalette(recipe);
     const meta = figureMetadata({
       recipe: recipe as never,

@@ -1,7 +1,7 @@
 import type { Recipe, SectionPlane } from '@psiform/contracts';
 import { autoExtent, type OrbitalState } from '@psiform/orbitals';
 import { radialPlotSvg, sectionMapSvg, type FontBytes, type PlotPalette } from '@psiform/print';
-import { stateOf } from '../mesh/mesh-pipeline';
+import { recipeState as stateOf } from '@psiform/meshing';
 
 export interface SvgParams {
   kind: 'radial' | 'section';
