@@ -28,6 +28,7 @@ import {
   type Term,
 } from '@psiform/orbitals';
 import { enclosedFractionAt, enclosedThreshold } from '@psiform/orbitals';
+import { ENGINE_CONVENTIONS } from '@psiform/contracts';
 import { extractIsosurface } from './marching-cubes';
 import { mergeMeshes, type Mesh } from './mesh';
 import { extractNodalSurface } from './nodal';
@@ -39,12 +40,7 @@ export const MODEL_NOTE =
   'One-electron hydrogen-like model (psi_nlm = R_nl Y_lm); many-electron orbitals differ. Lengths in Bohr radii (a0).';
 
 /** The sign conventions every figure states (CLI help, API docs and exported metadata quote this text). */
-export const CONVENTIONS_NOTE =
-  'Y_lm carry the Condon–Shortley phase (-1)^m (as SciPy sph_harm); R_nl > 0 near the nucleus. Real forms: ' +
-  'm > 0 is the cos type, Y^c = [(-1)^m Y_lm + Y_l,-m]/sqrt2; m < 0 the sin type, Y^s = -i[(-1)^m Y_l|m| - Y_l,-|m|]/sqrt2, ' +
-  'so p_x, d_xz ... point along +x. Hybrids: textbook coefficients with each term multiplied by (-1)^(n-l-1), ' +
-  'so the large lobe is positive and points along the named direction. Coefficients are relative: the engine ' +
-  'scales them once so that sum |c|^2 = 1 over the orthonormal (complex Y_lm) expansion.';
+export const CONVENTIONS_NOTE = ENGINE_CONVENTIONS;
 
 /** Units of every number a result carries. */
 export const RESULT_UNITS = {
@@ -302,11 +298,14 @@ function layeredRegions(a: SurfaceAnalysis, extent: number, cap: number): GridRe
   const present = a.layers.filter((l) => l.present);
   const groups: { E: number; step: number; lobes: typeof present }[] = [];
   const globalStep = (2 * extent) / (Math.min(cap, AUTO_GRID.base) - 1);
+  // A cube grows past the base grid by at most a quarter before the finer lobes get a cube of their own: inner
+  // cubes are small, so this costs fewer points than one fine cube for everything.
+  const growCap = Math.min(cap, Math.round(1.25 * AUTO_GRID.base));
   let cur = { E: extent, step: globalStep, lobes: [] as typeof present };
   for (let i = present.length - 1; i >= 0; i--) {
     const layer = present[i];
     const need = Math.min(cur.step, stepFor(layer.smallest));
-    if (cur.lobes.length === 0 || Math.ceil((2 * cur.E) / need) + 1 <= cap) {
+    if (cur.lobes.length === 0 || Math.ceil((2 * cur.E) / need) + 1 <= (groups.length < 6 ? growCap : cap)) {
       cur.lobes.push(layer);
       cur.step = need;
       continue;
@@ -464,7 +463,8 @@ export async function recipeToSurfaces(recipe: SurfaceRecipe, hooks: SurfaceHook
 
   await hooks.onStage?.('threshold');
   t0 = performance.now();
-  const outside = plan.solver.outsideBox(plan.level.density, plan.extent);
+  // The cube holds the whole surface when its half-width exceeds the surface's: then nothing lies outside.
+  const outside = boxHoldsSurface ? { fraction: 0, error: 0 } : plan.solver.outsideBox(plan.level.density, plan.extent);
   timings.threshold = performance.now() - t0;
 
   await hooks.onStage?.('extracting');

@@ -23,6 +23,8 @@ export interface CompiledState {
   radial(b: number, r: number): number;
   /** Angular part of block b at a unit vector: H_b = sum_m c_{n_b l_b m} Y_{l_b m}. */
   angular(b: number, ux: number, uy: number, uz: number): Complex;
+  /** The same for many unit vectors (x, y, z per direction) into caller-owned arrays (no allocation per point). */
+  angularInto(b: number, dirs: Float64Array, outRe: Float64Array, outIm: Float64Array | null): void;
   /**
    * psi along rays (the spherical quadrature's kernel): out[i * M + j] = psi(radii[j] * dirs[i]), M = radii.length,
    * dirs = unit vectors (x, y, z per direction). psi(r u) = sum_b R_b(r) H_b(u), so the cost is one radial table and
@@ -452,6 +454,23 @@ export function compileState(state: OrbitalState): CompiledState {
     }
     return { re, im: real ? 0 : im };
   };
+  const angularInto = (b: number, dirs: Float64Array, outRe: Float64Array, outIm: Float64Array | null): void => {
+    checkBlock(b);
+    const D = dirs.length / 3;
+    if (outRe.length < D || (outIm && outIm.length < D)) throw new RangeError(`angularInto: output arrays must hold ${D} values`);
+    for (let i = 0; i < D; i++) {
+      powers(dirs[3 * i], dirs[3 * i + 1], dirs[3 * i + 2]);
+      let re = 0;
+      let im = 0;
+      for (let o = monoStart[b]; o < monoStart[b + 1]; o++) {
+        const v = xp[mA[o]] * yp[mB[o]] * zp[mC[o]];
+        re += mRe[o] * v;
+        im += mIm[o] * v;
+      }
+      outRe[i] = re;
+      if (outIm) outIm[i] = real ? 0 : im;
+    }
+  };
   const sampleRays = (dirs: Float64Array, radii: Float64Array, outRe: Float64Array, outIm: Float64Array | null): void => {
     const D = dirs.length / 3;
     const M = radii.length;
@@ -473,5 +492,5 @@ export function compileState(state: OrbitalState): CompiledState {
     }
   };
 
-  return { isReal: real, state: cx, evaluate, gradient, sampleGrid, blocks: blockKeys.map((b) => ({ n: b.n, l: b.l })), radial, angular, sampleRays };
+  return { isReal: real, state: cx, evaluate, gradient, sampleGrid, blocks: blockKeys.map((b) => ({ n: b.n, l: b.l })), radial, angular, angularInto, sampleRays };
 }

@@ -94,13 +94,6 @@ function sphereGrid(compiled: CompiledState, field: 'signed' | 'radial-sign', nT
   const single = new Set(cx.terms.map((t) => t.m)).size === 1;
   const m = Math.abs(cx.terms[0].m);
   const l = compiled.blocks[0].l;
-  const valueAt = (x: number, y: number, z: number): number => {
-    const v = compiled.angular(0, x, y, z);
-    if (compiled.isReal) return v.re;
-    const mod = Math.hypot(v.re, v.im);
-    if (field === 'signed' && single) return Math.sign(assocLegendre(l, m, z)) * mod || 0;
-    return mod;
-  };
   for (let i = 0; i < nT; i++) {
     const th = ((i + 0.5) * Math.PI) / nT;
     const st = Math.sin(th);
@@ -111,39 +104,24 @@ function sphereGrid(compiled: CompiledState, field: 'signed' | 'radial-sign', nT
       ux[p] = st * Math.cos(ph);
       uy[p] = st * Math.sin(ph);
       uz[p] = ct;
-      h[p] = valueAt(ux[p], uy[p], uz[p]);
     }
   }
   uz[N - 2] = 1;
   uz[N - 1] = -1;
-  h[N - 2] = valueAt(0, 0, 1);
-  h[N - 1] = valueAt(0, 0, -1);
+  const dirs = new Float64Array(3 * N);
+  for (let p = 0; p < N; p++) {
+    dirs[3 * p] = ux[p];
+    dirs[3 * p + 1] = uy[p];
+    dirs[3 * p + 2] = uz[p];
+  }
+  const im = new Float64Array(N);
+  compiled.angularInto(0, dirs, h, im);
+  for (let p = 0; p < N; p++) {
+    if (compiled.isReal) continue;
+    const mod = Math.hypot(h[p], im[p]);
+    h[p] = field === 'signed' && single ? Math.sign(assocLegendre(l, m, uz[p])) * mod || 0 : mod;
+  }
   return { nT, nP, h, ux, uy, uz };
-}
-
-class UnionFind {
-  readonly p: Int32Array;
-  constructor(n: number) {
-    this.p = new Int32Array(n).fill(-1);
-  }
-  add(i: number) {
-    if (this.p[i] === -1) this.p[i] = i;
-  }
-  find(x: number): number {
-    let r = x;
-    while (this.p[r] !== r) r = this.p[r];
-    while (this.p[x] !== r) {
-      const n = this.p[x];
-      this.p[x] = r;
-      x = n;
-    }
-    return r;
-  }
-  union(a: number, b: number) {
-    const ra = this.find(a);
-    const rb = this.find(b);
-    if (ra !== rb) this.p[rb] = ra;
-  }
 }
 
 interface Component {
@@ -155,132 +133,164 @@ interface Component {
   inradius: number;
 }
 
-/** Components of {sign * h > level} on the sphere with their Euler characteristics. */
-function components(g: SphereGrid, sign: number, level: number): Component[] {
+/** Components of {sign * h > level} on the sphere with their Euler characteristics (typed arrays, no maps). */
+function components(g: SphereGrid, sign: number, level: number, dist: Float64Array | null): Component[] {
   const { nT, nP, h } = g;
   const N = nT * nP;
   const north = N;
   const south = N + 1;
-  const inSet = new Uint8Array(N + 2);
-  for (let p = 0; p < N + 2; p++) inSet[p] = sign * h[p] > level ? 1 : 0;
-  const uf = new UnionFind(N + 2);
-  for (let p = 0; p < N + 2; p++) if (inSet[p]) uf.add(p);
-  const right = (p: number) => {
-    const i = Math.floor(p / nP);
-    const j = p - i * nP;
-    return i * nP + ((j + 1) % nP);
+  const T = N + 2;
+  const inSet = new Uint8Array(T);
+  let any = false;
+  for (let p = 0; p < T; p++) {
+    if (sign * h[p] > level) {
+      inSet[p] = 1;
+      any = true;
+    }
+  }
+  if (!any) return [];
+  const parent = new Int32Array(T);
+  for (let p = 0; p < T; p++) parent[p] = inSet[p] ? p : -1;
+  const find = (x: number): number => {
+    let r = x;
+    while (parent[r] !== r) r = parent[r];
+    while (parent[x] !== r) {
+      const nx = parent[x];
+      parent[x] = r;
+      x = nx;
+    }
+    return r;
+  };
+  const union = (a: number, b: number) => {
+    const ra = find(a);
+    const rb = find(b);
+    if (ra !== rb) parent[rb] = ra;
   };
   for (let i = 0; i < nT; i++) {
+    const row = i * nP;
     for (let j = 0; j < nP; j++) {
-      const p = i * nP + j;
+      const p = row + j;
       if (!inSet[p]) continue;
-      const q = right(p);
-      if (inSet[q]) uf.union(p, q);
-      if (i + 1 < nT && inSet[p + nP]) uf.union(p, p + nP);
+      const q = row + (j + 1 === nP ? 0 : j + 1);
+      if (inSet[q]) union(p, q);
+      if (i + 1 < nT && inSet[p + nP]) union(p, p + nP);
     }
   }
   for (let j = 0; j < nP; j++) {
-    if (inSet[north] && inSet[j]) uf.union(north, j);
+    if (inSet[north] && inSet[j]) union(north, j);
     const s = (nT - 1) * nP + j;
-    if (inSet[south] && inSet[s]) uf.union(south, s);
+    if (inSet[south] && inSet[s]) union(south, s);
   }
-  // χ = V - E + F per component.
-  const chi = new Map<number, number>();
-  const add = (p: number, d: number) => {
-    const r = uf.find(p);
-    chi.set(r, (chi.get(r) ?? 0) + d);
-  };
-  for (let p = 0; p < N + 2; p++) if (inSet[p]) add(p, 1);
+  // Component index per root, then V - E + F per component on the pixel complex.
+  const index = new Int32Array(T).fill(-1);
+  let C = 0;
+  const comp = new Int32Array(T).fill(-1);
+  for (let p = 0; p < T; p++) {
+    if (!inSet[p]) continue;
+    const r = find(p);
+    if (index[r] < 0) index[r] = C++;
+    comp[p] = index[r];
+  }
+  const chi = new Float64Array(C);
+  const hMax = new Float64Array(C);
+  const count = new Int32Array(C);
+  const inr = new Float64Array(C);
+  for (let p = 0; p < T; p++) {
+    const k = comp[p];
+    if (k < 0) continue;
+    chi[k] += 1;
+    count[k]++;
+    const a = Math.abs(h[p]);
+    if (a > hMax[k]) hMax[k] = a;
+    if (dist && p < N && dist[p] > inr[k]) inr[k] = dist[p];
+  }
   for (let i = 0; i < nT; i++) {
+    const row = i * nP;
     for (let j = 0; j < nP; j++) {
-      const p = i * nP + j;
-      if (!inSet[p]) continue;
-      const q = right(p);
-      if (inSet[q]) add(p, -1);
+      const p = row + j;
+      const k = comp[p];
+      if (k < 0) continue;
+      const q = row + (j + 1 === nP ? 0 : j + 1);
+      if (inSet[q]) chi[k] -= 1;
       if (i + 1 < nT) {
         const d = p + nP;
-        if (inSet[d]) add(p, -1);
-        const dq = right(d);
-        if (inSet[q] && inSet[d] && inSet[dq]) add(p, 1);
+        if (inSet[d]) chi[k] -= 1;
+        if (inSet[q] && inSet[d] && inSet[d - j + (j + 1 === nP ? 0 : j + 1)]) chi[k] += 1;
       }
     }
   }
   for (let j = 0; j < nP; j++) {
-    const jn = (j + 1) % nP;
-    if (inSet[north] && inSet[j]) add(north, -1);
-    if (inSet[north] && inSet[j] && inSet[jn]) add(north, 1);
+    const jn = j + 1 === nP ? 0 : j + 1;
+    if (inSet[north] && inSet[j]) chi[comp[north]] -= 1;
+    if (inSet[north] && inSet[j] && inSet[jn]) chi[comp[north]] += 1;
     const s = (nT - 1) * nP + j;
     const sn = (nT - 1) * nP + jn;
-    if (inSet[south] && inSet[s]) add(south, -1);
-    if (inSet[south] && inSet[s] && inSet[sn]) add(south, 1);
+    if (inSet[south] && inSet[s]) chi[comp[south]] -= 1;
+    if (inSet[south] && inSet[s] && inSet[sn]) chi[comp[south]] += 1;
   }
-  const byRoot = new Map<number, Component>();
-  for (let p = 0; p < N + 2; p++) {
-    if (!inSet[p]) continue;
-    const r = uf.find(p);
-    let c = byRoot.get(r);
-    if (!c) {
-      c = { pixels: [], chi: chi.get(r) ?? 0, hMax: 0, inradius: 0 };
-      byRoot.set(r, c);
-    }
-    c.pixels.push(p);
-    c.hMax = Math.max(c.hMax, Math.abs(h[p]));
-  }
-  const list = [...byRoot.values()];
-  inradii(g, inSet, list);
-  return list;
+  const pixels: number[][] = Array.from({ length: C }, () => []);
+  for (let p = 0; p < T; p++) if (comp[p] >= 0) pixels[comp[p]].push(p);
+  const out: Component[] = [];
+  for (let k = 0; k < C; k++) out.push({ pixels: pixels[k], chi: chi[k], hMax: hMax[k], inradius: dist ? inr[k] : 0 });
+  return out;
 }
 
 /**
- * Angular inradius of each component: the largest angular distance from a pixel of the component to a pixel
- * outside it, by a breadth-first distance transform on the pixel graph with step lengths Δθ (along θ) and
- * sin θ Δφ (along φ). A whole-sphere component gets π.
+ * Angular distance from each pixel to the nearest source pixel (0 at sources): a chamfer transform on the (θ, φ)
+ * pixel grid with steps Δθ and sin θ Δφ, φ periodic, the rows next to a pole joined through it; three
+ * forward/backward sweeps. No source at all gives Infinity everywhere. Approximate (a few per cent), which is all a
+ * feature width needs.
  */
-function inradii(g: SphereGrid, inSet: Uint8Array, comps: Component[]): void {
+function chamfer(g: SphereGrid, isSource: (p: number) => boolean): Float64Array {
   const { nT, nP } = g;
   const N = nT * nP;
-  const dist = new Float64Array(N).fill(Infinity);
-  const dT = Math.PI / nT;
-  const dP = (2 * Math.PI) / nP;
-  // Dijkstra-like relaxation with a simple bucket sweep (few passes suffice on a 4-neighbour grid).
-  let frontier: number[] = [];
+  const dist = new Float64Array(N);
+  let any = false;
   for (let p = 0; p < N; p++) {
-    if (!inSet[p]) {
-      dist[p] = 0;
-      frontier.push(p);
-    }
+    if (isSource(p)) any = true;
+    else dist[p] = Infinity;
   }
-  if (frontier.length === 0) {
-    for (const c of comps) c.inradius = Math.PI;
-    return;
-  }
-  for (let pass = 0; pass < 4 * (nT + nP) && frontier.length; pass++) {
-    const next: number[] = [];
-    for (const p of frontier) {
-      const i = Math.floor(p / nP);
-      const j = p - i * nP;
-      const st = Math.sin(((i + 0.5) * Math.PI) / nT);
-      const nbrs: Array<[number, number]> = [
-        [i * nP + ((j + 1) % nP), st * dP],
-        [i * nP + ((j + nP - 1) % nP), st * dP],
-      ];
-      if (i > 0) nbrs.push([p - nP, dT]);
-      if (i + 1 < nT) nbrs.push([p + nP, dT]);
-      for (const [q, d] of nbrs) {
-        const nd = dist[p] + d;
-        if (nd < dist[q] - 1e-15) {
-          dist[q] = nd;
-          next.push(q);
-        }
+  if (!any) return dist;
+  const dT = Math.PI / nT;
+  const dP = new Float64Array(nT);
+  for (let i = 0; i < nT; i++) dP[i] = Math.sin(((i + 0.5) * Math.PI) / nT) * ((2 * Math.PI) / nP);
+  for (let pass = 0; pass < 3; pass++) {
+    for (let i = 0; i < nT; i++) {
+      const row = i * nP;
+      for (let j = 0; j < nP; j++) {
+        const p = row + j;
+        let d = dist[p];
+        if (d === 0) continue;
+        if (i > 0 && dist[p - nP] + dT < d) d = dist[p - nP] + dT;
+        const left = j > 0 ? p - 1 : row + nP - 1;
+        if (dist[left] + dP[i] < d) d = dist[left] + dP[i];
+        dist[p] = d;
       }
     }
-    frontier = next;
+    for (let i = nT - 1; i >= 0; i--) {
+      const row = i * nP;
+      for (let j = nP - 1; j >= 0; j--) {
+        const p = row + j;
+        let d = dist[p];
+        if (d === 0) continue;
+        if (i + 1 < nT && dist[p + nP] + dT < d) d = dist[p + nP] + dT;
+        const right = j + 1 < nP ? p + 1 : row;
+        if (dist[right] + dP[i] < d) d = dist[right] + dP[i];
+        dist[p] = d;
+      }
+    }
+    for (const row of [0, (nT - 1) * nP]) {
+      let m = Infinity;
+      for (let j = 0; j < nP; j++) m = Math.min(m, dist[row + j]);
+      for (let j = 0; j < nP; j++) dist[row + j] = Math.min(dist[row + j], m + dT);
+    }
   }
-  for (const c of comps) {
-    let best = 0;
-    for (const p of c.pixels) if (p < N) best = Math.max(best, dist[p]);
-    c.inradius = best;
-  }
+  return dist;
+}
+
+/** Distance from each pixel of {sign h > level} to the nearest pixel outside it. */
+function distanceToOutside(g: SphereGrid, sign: number, level: number): Float64Array {
+  return chamfer(g, (p) => !(sign * g.h[p] > level));
 }
 
 function fmt(x: number): string {
@@ -295,6 +305,7 @@ function lobeWords(lobe: RadialLobe, K: number): string {
 }
 
 const cache = new Map<string, SurfaceAnalysis>();
+const grids = new Map<string, SphereGrid>();
 
 /**
  * Analysis of the surface |psi| = sqrt(t) for a one-block compiled state (null for states of several (n, l)
@@ -311,8 +322,15 @@ export function analyseSurface(compiled: CompiledState, t: number): SurfaceAnaly
   const ms = new Set(compiled.state.terms.map((x) => x.m));
   const oneM = ms.size === 1;
   const field: 'signed' | 'radial-sign' = compiled.isReal || oneM ? 'signed' : 'radial-sign';
-  const nT = 2 * Math.round(60 + 8 * l);
-  const g = sphereGrid(compiled, field, nT);
+  // s states are the same in every direction: a coarse sphere grid is exact for them.
+  const nT = l === 0 ? 8 : 2 * Math.round(60 + 8 * l);
+  const gKey = `${JSON.stringify(compiled.state)}|${field}|${nT}`;
+  let g = grids.get(gKey);
+  if (!g) {
+    g = sphereGrid(compiled, field, nT);
+    if (grids.size >= 8) grids.delete(grids.keys().next().value as string);
+    grids.set(gKey, g);
+  }
   const c = Math.sqrt(t);
   const K = lobes.lobes.length;
   const layers: SurfaceLayer[] = [];
@@ -334,7 +352,7 @@ export function analyseSurface(compiled: CompiledState, t: number): SurfaceAnaly
     let aMin = Infinity;
     for (const fs of [1, -1] as const) {
       // f = R h > c with R = σ|R|: in this lobe sign(f) = σ sign(h).
-      const comps = components(g, fs * lobe.sign, level);
+      const comps = components(g, fs * lobe.sign, level, distanceToOutside(g, fs * lobe.sign, level));
       const count = fs === 1 ? layer.plus : layer.minus;
       for (const comp of comps) {
         layer.present = true;
@@ -433,34 +451,19 @@ function nodalCones(l: number, m: number): number[] {
 
 /**
  * Diameter of the hole of a ring component: 2 min over its pixels of a(Ω) sin ∠(Ω, axis), the axis through the
- * point of the sphere farthest from the component (the middle of the cap it winds round).
+ * pixel farthest from the component (the middle of the cap it winds round; by the chamfer distance).
  */
 function ringHole(g: SphereGrid, comp: Component, lobe: RadialLobe, c: number): number {
-  const { nT, nP } = g;
-  const N = nT * nP;
-  // Farthest outside pixel from the component's pixels: by angle to the nearest component pixel (sampled).
-  const members = comp.pixels.filter((p) => p < N);
-  const stride = Math.max(1, Math.floor(members.length / 400));
-  let axis = 0;
-  let bestD = -1;
+  const N = g.nT * g.nP;
   const inComp = new Uint8Array(N + 2);
   for (const p of comp.pixels) inComp[p] = 1;
-  for (let p = 0; p < N + 2; p += p < N ? 7 : 1) {
-    if (inComp[p]) continue;
-    let dmin = Infinity;
-    for (let k = 0; k < members.length; k += stride) {
-      const q = members[k];
-      const dot = g.ux[p] * g.ux[q] + g.uy[p] * g.uy[q] + g.uz[p] * g.uz[q];
-      dmin = Math.min(dmin, Math.acos(Math.max(-1, Math.min(1, dot))));
-    }
-    if (dmin > bestD) {
-      bestD = dmin;
-      axis = p;
-    }
-  }
+  const d = chamfer(g, (p) => inComp[p] === 1);
+  let axis = 0;
+  for (let p = 1; p < N; p++) if (d[p] > d[axis]) axis = p;
   const ax = [g.ux[axis], g.uy[axis], g.uz[axis]];
   let best = Infinity;
-  for (const p of members) {
+  for (const p of comp.pixels) {
+    if (p >= N) continue;
     const iv = lobeInterval(lobe, (c / Math.abs(g.h[p])) ** 2);
     if (!iv) continue;
     const dot = g.ux[p] * ax[0] + g.uy[p] * ax[1] + g.uz[p] * ax[2];

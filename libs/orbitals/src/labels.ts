@@ -285,12 +285,20 @@ export function prettyLabel(input: string | OrbitalState | Term): string {
     if (ts.length === 1 && ts[0].re === 1 && ts[0].im === 0) return termPretty(ts[0]);
     const named = namedRealForm(ts);
     if (named) return named;
+    const hybrid = namedHybrid(ts);
+    if (hybrid) return hybrid;
+    // A sum with its coefficients: "0.5·2s − 0.5·2p_x + 0.707·3d_z²" (real); complex ones in parentheses.
     return ts
-      .map((t) => {
-        const c = t.im === 0 ? fmt(t.re) : `(${fmt(t.re)}${t.im < 0 ? '−' : '+'}${fmt(Math.abs(t.im))}i)`;
-        return `${c}·${termPretty(t)}`;
+      .map((t, i) => {
+        if (t.im === 0) {
+          const sign = t.re < 0 ? '−' : '+';
+          const c = `${fmt(Math.abs(t.re))}·${termPretty(t)}`;
+          return i === 0 ? (t.re < 0 ? `−${c}` : c) : ` ${sign} ${c}`;
+        }
+        const c = `(${fmt(t.re)}${t.im < 0 ? '−' : '+'}${fmt(Math.abs(t.im))}i)·${termPretty(t)}`;
+        return i === 0 ? c : ` + ${c}`;
       })
-      .join(' + ');
+      .join('');
   }
   return termPretty(input);
 }
@@ -329,6 +337,44 @@ function namedRealForm(ts: readonly Term[]): string | null {
     }
   }
   return null;
+}
+
+/**
+ * The hybrid a state is, when its terms are one member of a textbook set up to a positive common factor:
+ * '2sp³ #2' style names, the n written when it is not the set's default.
+ */
+function namedHybrid(ts: readonly Term[]): string | null {
+  if (ts.length < 2 || ts.some((t) => t.basis !== 'real' || t.im !== 0 || t.n !== ts[0].n)) return null;
+  const n = ts[0].n;
+  for (const [key, set] of Object.entries(HYBRIDS)) {
+    for (let k = 0; k < set.members.length; k++) {
+      let state: OrbitalState;
+      try {
+        state = parseOrbitalLabel(`${n}${key}#${k + 1}`).state;
+      } catch {
+        continue;
+      }
+      if (sameUpToScale(state.terms, ts)) return `${n === set.n ? '' : n}${set.pretty} #${k + 1}`;
+    }
+  }
+  return null;
+}
+
+function sameUpToScale(a: readonly Term[], b: readonly Term[]): boolean {
+  const key = (t: Term) => `${t.l}/${t.m}`;
+  const ma = new Map<string, number>();
+  const mb = new Map<string, number>();
+  for (const t of a) ma.set(key(t), (ma.get(key(t)) ?? 0) + t.re);
+  for (const t of b) mb.set(key(t), (mb.get(key(t)) ?? 0) + t.re);
+  let na = 0;
+  let nb = 0;
+  for (const v of ma.values()) na += v * v;
+  for (const v of mb.values()) nb += v * v;
+  if (!(na > 0 && nb > 0)) return false;
+  na = Math.sqrt(na);
+  nb = Math.sqrt(nb);
+  for (const k of new Set([...ma.keys(), ...mb.keys()])) if (Math.abs((ma.get(k) ?? 0) / na - (mb.get(k) ?? 0) / nb) > 1e-9) return false;
+  return true;
 }
 
 /** Complex-basis view of a parsed label (convenience for UIs showing coefficients). */

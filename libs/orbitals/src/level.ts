@@ -67,10 +67,11 @@ function angularRule(compiled: CompiledState, nTheta: number, nPhi: number): Ang
       dirs[3 * i + 1] = y;
       dirs[3 * i + 2] = ct;
       w[i] = (g.weights[it] * 2 * Math.PI) / nPhi;
-      const h = compiled.angular(0, x, y, ct);
-      A[i] = h.re * h.re + h.im * h.im;
     }
   }
+  const im = new Float64Array(D);
+  compiled.angularInto(0, dirs, A, im);
+  for (let i = 0; i < D; i++) A[i] = A[i] * A[i] + im[i] * im[i];
   return { D, dirs, w, A };
 }
 
@@ -151,9 +152,14 @@ function separableSolver(compiled: CompiledState): LevelSolver {
   let aMax = 0;
 
   // --- axial: 1D in μ with breakpoints at the rim points
+  const one = new Float64Array(3);
+  const oneRe = new Float64Array(1);
+  const oneIm = new Float64Array(1);
   const Amu = (mu: number): number => {
-    const h = compiled.angular(0, Math.sqrt(Math.max(0, 1 - mu * mu)), 0, mu);
-    return h.re * h.re + h.im * h.im;
+    one[0] = Math.sqrt(Math.max(0, 1 - mu * mu));
+    one[2] = mu;
+    compiled.angularInto(0, one, oneRe, oneIm);
+    return oneRe[0] * oneRe[0] + oneIm[0] * oneIm[0];
   };
   const MU_SAMPLES = 4000;
   const muGrid = new Float64Array(MU_SAMPLES + 1);
@@ -270,6 +276,21 @@ function separableSolver(compiled: CompiledState): LevelSolver {
     halfWidth(t) {
       checkLevel(t);
       let best = 0;
+      if (axial) {
+        // A(μ) only: at polar angle θ the cube's norm of r u is r max(sin θ, |cos θ|) (φ = 0 gives sin θ).
+        for (let i = 0; i <= MU_SAMPLES; i++) {
+          const A = aGrid[i];
+          if (!(A > 0)) continue;
+          let bOut = 0;
+          for (const lobe of lobes.lobes) {
+            const iv = lobeInterval(lobe, t / A);
+            if (iv) bOut = Math.max(bOut, iv.b);
+          }
+          const mu = muGrid[i];
+          best = Math.max(best, bOut * Math.max(Math.sqrt(Math.max(0, 1 - mu * mu)), Math.abs(mu)));
+        }
+        return best as Bohr;
+      }
       const fine = get2d().fine;
       for (let i = 0; i < fine.D; i++) {
         const A = fine.A[i];
@@ -320,7 +341,18 @@ function raySolver(compiled: CompiledState): LevelSolver {
   };
 }
 
-/** The all-space level machinery for a compiled (normalised) state; see the file comment for the methods. */
+const solvers = new Map<string, LevelSolver>();
+
+/**
+ * The all-space level machinery for a compiled (normalised) state; see the file comment for the methods. Solvers
+ * are kept per state (a few), so moving a fraction slider reuses the angular rules and radial tables.
+ */
 export function levelSolver(compiled: CompiledState): LevelSolver {
-  return compiled.blocks.length === 1 ? separableSolver(compiled) : raySolver(compiled);
+  const key = JSON.stringify(compiled.state);
+  const hit = solvers.get(key);
+  if (hit) return hit;
+  const s = compiled.blocks.length === 1 ? separableSolver(compiled) : raySolver(compiled);
+  if (solvers.size >= 8) solvers.delete(solvers.keys().next().value as string);
+  solvers.set(key, s);
+  return s;
 }

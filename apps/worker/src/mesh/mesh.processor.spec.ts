@@ -4,6 +4,8 @@ import { AssetStore, JobsStore, ObjectStorage, meshKey, recipeHash, type JobCont
 import { closeParallelSampler } from '@psiform/orbitals/node';
 import { MeshJobProcessor } from './mesh.processor';
 
+// Each job runs the real engine (all-space level, surface analysis, sampling on worker threads): allow for a busy machine.
+jest.setTimeout(60_000);
 afterAll(() => closeParallelSampler());
 
 const recipe = (() => {
