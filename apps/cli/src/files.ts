@@ -3,6 +3,7 @@
 // encodes what it returns.
 import { canonicalJson, type Recipe } from '@psiform/contracts';
 import {
+  CONVENTIONS_NOTE,
   cubeExtentFor,
   encodeGlb,
   encodeNrrd,
@@ -128,6 +129,7 @@ export function encodeDensityNrrd(cube: DensityCube, recipe: Recipe): Uint8Array
       'psiform.content': JSON.stringify(recipe.content),
       'psiform.grid': `${cube.n}^3 points, -${cube.extent}..+${cube.extent} a0 inclusive`,
       'psiform.version': CLI_VERSION,
+      'psiform.conventions': CONVENTIONS_NOTE,
     },
   });
 }

@@ -70,7 +70,10 @@ export interface MeshStatsDto {
   volume: number;
   components: number;
   euler: number;
+  /** Closed and consistently oriented; false where the box cuts the surface open. */
   watertight: boolean;
+  /** Edges used by one triangle only (where the box cuts the surface); 0 for a closed surface. */
+  boundaryEdges?: number;
 }
 
 /**

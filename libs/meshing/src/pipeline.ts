@@ -28,7 +28,7 @@ import {
   type Term,
 } from '@psiform/orbitals';
 import { enclosedFractionAt, enclosedThreshold } from '@psiform/orbitals';
-import { ENGINE_CONVENTIONS } from '@psiform/contracts';
+import { ENGINE_CONVENTIONS, type MeshStatsDto } from '@psiform/contracts';
 import { extractIsosurface } from './marching-cubes';
 import { mergeMeshes, type Mesh } from './mesh';
 import { extractNodalSurface } from './nodal';
@@ -729,19 +729,8 @@ export function recipeState(recipe: Pick<SurfaceRecipe, 'content'>): OrbitalStat
   return stateOf(recipe as SurfaceRecipe);
 }
 
-/** Mesh statistics as reported (per surface). */
-export interface SurfaceStatsSummary {
-  phase: Phase;
-  vertices: number;
-  triangles: number;
-  area: number;
-  volume: number;
-  components: number;
-  euler: number;
-  /** Closed and consistently oriented; false for a surface the box cuts open. */
-  watertight: boolean;
-  boundaryEdges: number;
-}
+/** Mesh statistics as reported per surface: the contracts' MeshStatsDto with the open edges counted. */
+export type SurfaceStatsSummary = MeshStatsDto & { boundaryEdges: number };
 
 /**
  * The JSON summary of a result (no meshes): what the CLI prints with --json, what mesh assets and jobs store,

@@ -170,6 +170,22 @@ export function compileState(state: OrbitalState): CompiledState {
     }
   };
 
+  // H_b at the point whose powers were last set by powers(): one Horner-free monomial sum, shared by evaluate and
+  // the angular kernels (results in polyRe / polyIm, no allocation).
+  let polyRe = 0;
+  let polyIm = 0;
+  const blockPoly = (b: number): void => {
+    let re = 0;
+    let im = 0;
+    for (let o = monoStart[b]; o < monoStart[b + 1]; o++) {
+      const v = xp[mA[o]] * yp[mB[o]] * zp[mC[o]];
+      re += mRe[o] * v;
+      im += mIm[o] * v;
+    }
+    polyRe = re;
+    polyIm = im;
+  };
+
   const evaluate = (x: number, y: number, z: number): Complex => {
     powers(x, y, z);
     const r = Math.sqrt(x * x + y * y + z * z);
@@ -179,15 +195,9 @@ export function compileState(state: OrbitalState): CompiledState {
     for (let i = 0; i < B; i++) {
       if (bNewExp[i]) e = Math.exp(-bKappa[i] * r);
       const rad = bScale[i] * e * laguerre(i, bRhoF[i] * r);
-      let hr = 0;
-      let hi = 0;
-      for (let o = monoStart[i]; o < monoStart[i + 1]; o++) {
-        const v = xp[mA[o]] * yp[mB[o]] * zp[mC[o]];
-        hr += mRe[o] * v;
-        hi += mIm[o] * v;
-      }
-      re += rad * hr;
-      im += rad * hi;
+      blockPoly(i);
+      re += rad * polyRe;
+      im += rad * polyIm;
     }
     return { re, im: real ? 0 : im };
   };
@@ -445,14 +455,8 @@ export function compileState(state: OrbitalState): CompiledState {
   const angular = (b: number, ux: number, uy: number, uz: number): Complex => {
     checkBlock(b);
     powers(ux, uy, uz);
-    let re = 0;
-    let im = 0;
-    for (let o = monoStart[b]; o < monoStart[b + 1]; o++) {
-      const v = xp[mA[o]] * yp[mB[o]] * zp[mC[o]];
-      re += mRe[o] * v;
-      im += mIm[o] * v;
-    }
-    return { re, im: real ? 0 : im };
+    blockPoly(b);
+    return { re: polyRe, im: real ? 0 : polyIm };
   };
   const angularInto = (b: number, dirs: Float64Array, outRe: Float64Array, outIm: Float64Array | null): void => {
     checkBlock(b);
@@ -460,15 +464,9 @@ export function compileState(state: OrbitalState): CompiledState {
     if (outRe.length < D || (outIm && outIm.length < D)) throw new RangeError(`angularInto: output arrays must hold ${D} values`);
     for (let i = 0; i < D; i++) {
       powers(dirs[3 * i], dirs[3 * i + 1], dirs[3 * i + 2]);
-      let re = 0;
-      let im = 0;
-      for (let o = monoStart[b]; o < monoStart[b + 1]; o++) {
-        const v = xp[mA[o]] * yp[mB[o]] * zp[mC[o]];
-        re += mRe[o] * v;
-        im += mIm[o] * v;
-      }
-      outRe[i] = re;
-      if (outIm) outIm[i] = real ? 0 : im;
+      blockPoly(b);
+      outRe[i] = polyRe;
+      if (outIm) outIm[i] = real ? 0 : polyIm;
     }
   };
   const sampleRays = (dirs: Float64Array, radii: Float64Array, outRe: Float64Array, outIm: Float64Array | null): void => {

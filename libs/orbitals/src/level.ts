@@ -16,7 +16,7 @@ import type { CompiledState } from './compile';
 import { gaussLegendreRule } from './laguerre';
 import { solveDecreasingLevel } from './roots';
 import { lobeInterval, lobePin, radialLobes, radialProbabilityAbove, type RadialLobes } from './radial-lobes';
-import { enclosedProbability, rayQuadrature, solveEnclosedLevel, superlevelHalfWidth, type EnclosedLevel, type RayQuadrature } from './rays';
+import { enclosedProbability, rayQuadrature, solveEnclosedLevel, sphereProductRule, superlevelHalfWidth, type EnclosedLevel, type RayQuadrature } from './rays';
 import { Bohr } from './units';
 
 export interface FractionEstimate {
@@ -50,25 +50,8 @@ interface AngularRule {
 }
 
 function angularRule(compiled: CompiledState, nTheta: number, nPhi: number): AngularRule {
-  const g = gaussLegendreRule(nTheta);
-  const D = nTheta * nPhi;
-  const dirs = new Float64Array(3 * D);
-  const w = new Float64Array(D);
+  const { D, dirs, w } = sphereProductRule(nTheta, nPhi);
   const A = new Float64Array(D);
-  for (let it = 0; it < nTheta; it++) {
-    const ct = g.nodes[it];
-    const st = Math.sqrt(Math.max(0, 1 - ct * ct));
-    for (let ip = 0; ip < nPhi; ip++) {
-      const ph = (2 * Math.PI * ip) / nPhi;
-      const i = it * nPhi + ip;
-      const x = st * Math.cos(ph);
-      const y = st * Math.sin(ph);
-      dirs[3 * i] = x;
-      dirs[3 * i + 1] = y;
-      dirs[3 * i + 2] = ct;
-      w[i] = (g.weights[it] * 2 * Math.PI) / nPhi;
-    }
-  }
   const im = new Float64Array(D);
   compiled.angularInto(0, dirs, A, im);
   for (let i = 0; i < D; i++) A[i] = A[i] * A[i] + im[i] * im[i];

@@ -146,25 +146,16 @@ export function radialLobes(n: number, l: number, Z: number, tail = 1e-12): Radi
   return out;
 }
 
-/** Index i with key[i] <= x < key[i + 1] for increasing keys (clamped to 0..len-2). */
-function searchUp(key: Float64Array, x: number): number {
+/**
+ * Index i of the cell holding x in a monotone table: key[i] <= x < key[i + 1] for increasing keys, key[i] >= x >
+ * key[i + 1] for decreasing ones (clamped to 0..len-2).
+ */
+function search(key: Float64Array, x: number, increasing = true): number {
   let lo = 0;
   let hi = key.length - 1;
   while (hi - lo > 1) {
     const m = (lo + hi) >> 1;
-    if (key[m] <= x) lo = m;
-    else hi = m;
-  }
-  return lo;
-}
-
-/** Index i with key[i] >= x > key[i + 1] for decreasing keys. */
-function searchDown(key: Float64Array, x: number): number {
-  let lo = 0;
-  let hi = key.length - 1;
-  while (hi - lo > 1) {
-    const m = (lo + hi) >> 1;
-    if (key[m] >= x) lo = m;
+    if (increasing ? key[m] <= x : key[m] >= x) lo = m;
     else hi = m;
   }
   return lo;
@@ -176,7 +167,7 @@ function searchDown(key: Float64Array, x: number): number {
  * interpolant with the exact slope dPin/dr = s r². Fourth order in the cell width.
  */
 function crossing(sd: LobeSide, x: number, up: boolean): { r: number; pin: number } {
-  const i = up ? searchUp(sd.s, x) : searchDown(sd.s, x);
+  const i = search(sd.s, x, up);
   const r0 = sd.r[i];
   const r1 = sd.r[i + 1];
   const h = r1 - r0;
@@ -241,7 +232,7 @@ export function lobeInterval(lobe: RadialLobe, s: number): { a: number; b: numbe
 export function lobePin(lobe: RadialLobe, r: number): number {
   const sd = lobe.rising && r <= lobe.rPeak ? lobe.rising : lobe.falling;
   const x = Math.min(sd.r[sd.r.length - 1], Math.max(sd.r[0], r));
-  const i = searchUp(sd.r, x);
+  const i = search(sd.r, x);
   const f = sd.r[i + 1] === sd.r[i] ? 0 : (x - sd.r[i]) / (sd.r[i + 1] - sd.r[i]);
   return sd.pin[i] + f * (sd.pin[i + 1] - sd.pin[i]);
 }

@@ -79,7 +79,11 @@ function even(n: number, name: string): number {
   return n;
 }
 
-function raySet(compiled: CompiledState, nTheta: number, nPhi: number, step: number): RaySet {
+/**
+ * The product rule on the sphere both level methods use: Gauss–Legendre in cos θ (nTheta nodes) × trapezoid in φ
+ * (nPhi nodes); directions as unit vectors (x, y, z per direction) and their weights (sum 4π).
+ */
+export function sphereProductRule(nTheta: number, nPhi: number): { D: number; dirs: Float64Array; w: Float64Array } {
   const g = gaussLegendreRule(nTheta);
   const D = nTheta * nPhi;
   const dirs = new Float64Array(3 * D);
@@ -96,16 +100,15 @@ function raySet(compiled: CompiledState, nTheta: number, nPhi: number, step: num
       w[i] = (g.weights[it] * 2 * Math.PI) / nPhi;
     }
   }
+  return { D, dirs, w };
+}
+
+function raySet(compiled: CompiledState, nTheta: number, nPhi: number, step: number): RaySet {
+  const { D, dirs, w } = sphereProductRule(nTheta, nPhi);
   const B = compiled.blocks.length;
   const angRe = new Float64Array(B * D);
   const angIm = new Float64Array(B * D);
-  for (let b = 0; b < B; b++) {
-    for (let i = 0; i < D; i++) {
-      const h = compiled.angular(b, dirs[3 * i], dirs[3 * i + 1], dirs[3 * i + 2]);
-      angRe[b * D + i] = h.re;
-      angIm[b * D + i] = h.im;
-    }
-  }
+  for (let b = 0; b < B; b++) compiled.angularInto(b, dirs, angRe.subarray(b * D, (b + 1) * D), angIm.subarray(b * D, (b + 1) * D));
   return { D, dirs, w, angRe, angIm, step };
 }
 
