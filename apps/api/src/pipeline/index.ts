@@ -18,3 +18,4 @@ export { DEFAULT_JOB_OPTIONS, JOB_ROUTES, MESH_PROGRESS, type JobPayload, type M
 export { ENGINE_VERSION } from './engine';
 export { recipeHash } from '../figures/recipe-input';
 export { nrrdHeaderFor } from '../uploads/cube-check';
+export { assetsDir, assetPath } from './assets-dir';
