@@ -22,12 +22,17 @@ const common = {
 /** Two projects per app: unit specs beside the code (fakes only) and e2e specs on the real services. */
 function nestJestConfig(rootDir, { e2eTimeout }) {
   return {
-    // Jest reads testTimeout from the top level only: set inside a project it was silently ignored (5 s default),
-    // and e2e specs timed out whenever the shared cores were busy.
-    testTimeout: e2eTimeout,
     projects: [
       { ...common, displayName: 'unit', rootDir, testMatch: ['<rootDir>/src/**/*.spec.ts'] },
-      { ...common, displayName: 'e2e', rootDir, testMatch: ['<rootDir>/test/**/*.e2e-spec.ts'], testTimeout: e2eTimeout },
+      // testTimeout is a global Jest option and is ignored inside `projects`, so the e2e project sets it in a set-up file.
+      {
+        ...common,
+        displayName: 'e2e',
+        rootDir,
+        testMatch: ['<rootDir>/test/**/*.e2e-spec.ts'],
+        globals: { PSIFORM_E2E_TIMEOUT_MS: e2eTimeout },
+        setupFilesAfterEnv: [require.resolve('./jest.e2e-setup.js')],
+      },
     ],
   };
 }

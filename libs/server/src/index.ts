@@ -39,6 +39,7 @@ export * from './infra/storage/storage-health';
 export * from './infra/storage/storage.module';
 export * from './jobs/job.entity';
 export * from './jobs/jobs.repository';
+export * from './pipeline/assets-dir';
 export * from './pipeline/engine';
 export * from './pipeline/mesh-job';
 export * from './pipeline/storage-keys';
