@@ -56,6 +56,7 @@ try {
   for (const [name, dir] of [['contracts', 'libs/contracts'], ['colour', 'libs/colour'], ['orbitals', 'libs/orbitals'], ['meshing', 'libs/meshing'], ['print', 'libs/print'], ['cli', 'apps/cli'], ['web', 'apps/web']]) {
     await suite(name, 'vitest', vitest, ['run'], { cwd: path.join(ROOT, dir), env });
   }
+  await suite('server', 'jest', jest, ['--runInBand', '--ci'], { cwd: path.join(ROOT, 'libs/server'), env });
   await suite('api', 'jest', jest, ['--runInBand', '--ci'], { cwd: path.join(ROOT, 'apps/api'), env });
   await suite('worker', 'jest', jest, ['--runInBand', '--ci'], { cwd: path.join(ROOT, 'apps/worker'), env });
 

@@ -2,7 +2,7 @@ import { Module } from '@nestjs/common';
 import { DataSource } from 'typeorm';
 import { PublicationsModule } from '../publications/publications.module';
 import { FiguresModule } from '../figures/figures.module';
-import { DeliveryProfilesStore, PreflightReportsStore, TypeormDeliveryProfilesStore, TypeormPreflightReportsStore } from './delivery-profiles.repository';
+import { DeliveryProfilesStore, PreflightReportsStore, TypeormDeliveryProfilesStore, TypeormPreflightReportsStore } from '@psiform/server';
 import { DeliveryProfilesService } from './delivery-profiles.service';
 import { DeliveryProfilesController, FigurePreflightController, PressConditionsController } from './delivery-profiles.controller';
 

@@ -13,7 +13,7 @@ import {
 import { isHex } from '@psiform/colour';
 import { preflightFailures } from '@psiform/print';
 import { MembershipService } from '../publications/membership.service';
-import { DeliveryProfilesStore, PreflightReportsStore } from './delivery-profiles.repository';
+import { DeliveryProfilesStore, PreflightReportsStore } from '@psiform/server';
 import { checkColours } from './press';
 
 type Caller = Pick<UserDto, 'id' | 'role'>;

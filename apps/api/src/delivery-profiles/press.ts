@@ -1,7 +1,7 @@
 import { readFileSync } from 'node:fs';
 import { iccPressTransform, pressCheck, type PressSwatch, type PressTransform } from '@psiform/colour';
 import { pressCondition, PRESS_CONDITIONS, type PressConditionId } from '@psiform/contracts';
-import { assetPath } from '../pipeline/assets-dir';
+import { assetPath } from '@psiform/server';
 
 const cache = new Map<string, PressTransform>();
 

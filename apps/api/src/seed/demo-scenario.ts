@@ -1,6 +1,6 @@
 import { readFileSync } from 'node:fs';
 import type { DeliveryProfile, PublicationKind, Role } from '@psiform/contracts';
-import { assetPath } from '../pipeline/assets-dir';
+import { assetPath } from '@psiform/server';
 
 /**
  * Psiform's own invented demo scenario (assets/demo/scenario.json): publisher, book and people are fictional.

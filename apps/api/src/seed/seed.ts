@@ -1,10 +1,7 @@
 import { hash } from 'bcryptjs';
 import type { DataSource } from 'typeorm';
-import { UserEntity } from '../users/user.entity';
-import { PublicationEntity } from '../publications/publication.entity';
-import { MembershipEntity } from '../publications/membership.entity';
+import { UserEntity, PublicationEntity, MembershipEntity, DeliveryProfileEntity } from '@psiform/server';
 import { DEMO_DELIVERY_PROFILE, DEMO_PASSWORD, DEMO_PUBLICATION, DEMO_USERS } from './demo-scenario';
-import { DeliveryProfileEntity } from '../delivery-profiles/delivery-profile.entity';
 import { BCRYPT_ROUNDS } from '../users/password';
 
 export interface SeedSummary {

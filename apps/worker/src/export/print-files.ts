@@ -9,7 +9,7 @@ import SVGtoPDF from 'svg-to-pdfkit';
 import { iccPressTransform, readIccProfile, hexToLabD50, type PressTransform } from '@psiform/colour';
 import { pressCondition, type ColourMode, type PressConditionId, type Recipe } from '@psiform/contracts';
 import { figureTextFacts, mmToPt, readPngInfo, svgPrintFacts, type PreflightSubject } from '@psiform/print';
-import { assetPath } from '@psiform/api/pipeline';
+import { assetPath } from '@psiform/server';
 
 const iccCache = new Map<string, Uint8Array>();
 const transformCache = new Map<string, PressTransform>();

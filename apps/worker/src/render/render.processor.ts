@@ -4,7 +4,7 @@ import { DEFAULT_DELIVERY_PROFILE, parseRecipe, QUEUES, type ColourMode, type De
 import { preflightReport } from '@psiform/print';
 import { encodeTiff, rasterSubject, softProofPng, tiffFacts } from '../export/print-files';
 import { altOf, figureWords } from '../export/figure-words';
-import { AssetStore, CONTENT_TYPES, ENGINE_VERSION, JobsStore, ObjectStorage, exportKey, sha256Hex, type JobPayload, type NewAsset } from '@psiform/api/pipeline';
+import { AssetStore, CONTENT_TYPES, ENGINE_VERSION, JobsStore, ObjectStorage, exportKey, sha256Hex, type JobPayload, type NewAsset } from '@psiform/server';
 import type { JobProcessor, ProcessorJob } from '../queues/job-processor';
 import type { FigureRenderer } from './figure-renderer';
 import type { FigureSetStore } from './figure-sets';
