@@ -1,5 +1,5 @@
 import { spawnSync } from 'node:child_process';
-import { existsSync, mkdtempSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { unzipSync, strFromU8 } from 'fflate';
@@ -129,7 +129,7 @@ describe('print production (e2e)', () => {
 
   it("a bundle's preflight report lists every rule with pass or fail for each print file", async () => {
     const job = await exportOk({ format: 'bundle' });
-    const zip = unzipSync(new Uint8Array(require('node:fs').readFileSync(await download(job.assets[0].id, 'bundle.zip'))));
+    const zip = unzipSync(new Uint8Array(readFileSync(await download(job.assets[0].id, 'bundle.zip'))));
     expect(Object.keys(zip)).toEqual(expect.arrayContaining(['figure.png', 'figure.tif', 'radial.svg', 'radial.pdf', 'preflight.json', 'PREFLIGHT.txt']));
     const report = JSON.parse(strFromU8(zip['preflight.json'])) as PreflightReport;
     expect(report.files.map((f) => f.file)).toEqual(expect.arrayContaining(['figure.png', 'figure.tif', 'radial.svg', 'radial.pdf']));

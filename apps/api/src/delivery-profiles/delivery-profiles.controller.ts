@@ -1,9 +1,9 @@
 import { Body, Controller, Get, HttpCode, Param, Post, Put } from '@nestjs/common';
-import type { DeliveryProfileDto, UserDto } from '@psiform/contracts';
+import type { DeliveryProfileDto, FigurePreflightDto, UserDto } from '@psiform/contracts';
 import { CurrentUser, Roles } from '../auth/auth.decorators';
 import { uuidParam } from '../common/uuid-param.pipe';
 import { FiguresService } from '../figures/figures.service';
-import { DeliveryProfilesService, type FigurePreflightDto } from './delivery-profiles.service';
+import { DeliveryProfilesService } from './delivery-profiles.service';
 
 /** A publication's delivery profile: members read it; its art directors (and admins) set it. */
 @Controller('publications')

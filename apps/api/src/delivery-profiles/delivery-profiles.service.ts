@@ -6,7 +6,7 @@ import {
   PRESS_CONDITIONS,
   type DeliveryProfile,
   type DeliveryProfileDto,
-  type PreflightReport,
+  type FigurePreflightDto,
   type PressConditionId,
   type UserDto,
 } from '@psiform/contracts';
@@ -17,16 +17,6 @@ import { DeliveryProfilesStore, PreflightReportsStore } from '@psiform/server';
 import { checkColours } from './press';
 
 type Caller = Pick<UserDto, 'id' | 'role'>;
-
-export interface FigurePreflightDto {
-  figureId: string;
-  versionNumber: number;
-  /** The newest report of each asset kind of the current version (a newer export replaces an older one). */
-  reports: { assetId: string; kind: string; createdAt: string; report: PreflightReport }[];
-  failures: string[];
-  /** True when approval would be blocked (failures and no override). */
-  blocksApproval: boolean;
-}
 
 /** Delivery profiles (one per publication, set by art directors), press-condition checks and preflight status. */
 @Injectable()

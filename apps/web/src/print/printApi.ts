@@ -1,13 +1,5 @@
-import type { DeliveryProfile, DeliveryProfileDto, PreflightReport, ReviewTransitionDto } from '@psiform/contracts';
+import type { DeliveryProfile, DeliveryProfileDto, FigurePreflightDto, ReviewTransitionDto } from '@psiform/contracts';
 import type { ApiClient } from '../api/client';
-
-export interface FigurePreflightDto {
-  figureId: string;
-  versionNumber: number;
-  reports: { assetId: string; kind: string; createdAt: string; report: PreflightReport }[];
-  failures: string[];
-  blocksApproval: boolean;
-}
 
 export const getDeliveryProfile = (api: ApiClient, publicationId: string) => api.request<DeliveryProfileDto>(`/api/publications/${encodeURIComponent(publicationId)}/delivery-profile`);
 export const putDeliveryProfile = (api: ApiClient, publicationId: string, profile: DeliveryProfile) =>

@@ -1,6 +1,8 @@
 // TIFF and PDF writers, read back by tools no one here wrote (Debian: libtiff-tools `tiffinfo`, poppler-utils
 // `pdffonts` / `pdfinfo -box`, `qpdf --check`; installed by `npm test`), plus our own read-back used by preflight.
 import { spawnSync } from 'node:child_process';
+import { writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
 import { DEFAULT_DELIVERY_PROFILE } from '@psiform/contracts';
 import { encodeRgbaPng, exportPixelSize, preflightFile, sectionMapSvg } from '@psiform/print';
 import { encodePdf, encodeTiff, pdfFacts, pdfSubject, pngFacts, tiffFacts } from './print-files';
@@ -11,8 +13,8 @@ function tool(cmd: string, args: string[]): { code: number; out: string } {
   return { code: r.status ?? 1, out: `${r.stdout}${r.stderr}` };
 }
 const tmp = (name: string, bytes: Uint8Array) => {
-  const p = `${require('node:os').tmpdir()}/psiform-print-${process.pid}-${name}`;
-  require('node:fs').writeFileSync(p, bytes);
+  const p = `${tmpdir()}/psiform-print-${process.pid}-${name}`;
+  writeFileSync(p, bytes);
   return p;
 };
 

@@ -39,7 +39,7 @@ export function pressTransformFor(id: PressConditionId): PressTransform {
 /** What an embedded ICC profile is: one of our press conditions (by its bytes' description), sRGB, or other. */
 export function identifyIcc(icc: Uint8Array | undefined): { description: string; condition: string } | null {
   if (!icc || icc.length < 132) return null;
-  let description = '';
+  let description: string;
   try {
     description = readIccProfile(icc).description;
   } catch {
