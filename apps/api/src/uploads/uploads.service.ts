@@ -14,6 +14,7 @@ import { FiguresService } from '../figures/figures.service';
 import { FIGURE_TITLE_MAX } from '../figures/figures.dto';
 import { validateRecipe } from '../figures/recipe-input';
 import { uploadKey, uploadTempKey } from '../pipeline/storage-keys';
+import { inputProblems } from '../common/input/input-rules';
 import { CubeCheck, parseSidecar, UploadRejected, type CubeCheckResult, type CubeGeometry } from './cube-check';
 
 type Caller = Pick<UserDto, 'id' | 'role'>;
@@ -181,7 +182,8 @@ export class UploadsService {
   }
 
   private readFields(f: Record<string, string>): UploadMeta {
-    const problems: string[] = [];
+    const problems: string[] = inputProblems(f, 'fields'); // the rules every JSON body meets (NUL, lone surrogates…)
+    if (problems.length) throw new BadRequestException(problems);
     if (!UUID.test(f.publicationId ?? '')) problems.push('publicationId must be a UUID (a field part before the cube)');
     const title = (f.title ?? '').trim();
     if (!title) problems.push('title must not be empty');
