@@ -2,6 +2,8 @@ import { Module } from '@nestjs/common';
 import { APP_GUARD } from '@nestjs/core';
 import { JwtModule } from '@nestjs/jwt';
 import { PassportModule } from '@nestjs/passport';
+import { ThrottlerModule } from '@nestjs/throttler';
+import { RateLimitGuard, rateLimitOptions } from './rate-limit';
 import { APP_CONFIG } from '../config/config.tokens';
 import type { AppConfig } from '../config/config';
 import { UsersModule } from '../users/users.module';
@@ -9,6 +11,8 @@ import { AuthController } from './auth.controller';
 import { AuthService } from './auth.service';
 import { JwtStrategy } from './jwt.strategy';
 import { LoginThrottle } from './login-throttle';
+import { AttemptGate } from './attempt-gate';
+import { RedisAttemptGate } from './redis-attempt-gate';
 import { AccessGuard } from './access.guard';
 import { PassportJwtAuthenticator, RequestAuthenticator } from './request-authenticator';
 
@@ -16,6 +20,7 @@ import { PassportJwtAuthenticator, RequestAuthenticator } from './request-authen
   imports: [
     UsersModule,
     PassportModule,
+    ThrottlerModule.forRootAsync({ inject: [APP_CONFIG], useFactory: (config: AppConfig) => rateLimitOptions(config) }),
     JwtModule.registerAsync({
       inject: [APP_CONFIG],
       useFactory: (config: AppConfig) => ({
@@ -30,8 +35,10 @@ import { PassportJwtAuthenticator, RequestAuthenticator } from './request-authen
     AuthService,
     JwtStrategy,
     LoginThrottle,
+    { provide: AttemptGate, useClass: RedisAttemptGate },
     { provide: RequestAuthenticator, useClass: PassportJwtAuthenticator },
     { provide: APP_GUARD, useClass: AccessGuard },
+    { provide: APP_GUARD, useClass: RateLimitGuard }, // after AccessGuard: it counts signed-in callers by account
   ],
 })
 export class AuthModule {}

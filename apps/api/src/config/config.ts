@@ -21,6 +21,8 @@ export interface AppConfig {
   http: { port: number; host: string; webDist: string | undefined; trustProxy: TrustProxy };
   /** Largest accepted cube file of POST /api/uploads, in bytes (UPLOAD_MAX_BYTES). */
   uploads: { maxBytes: number };
+  /** requestsPerMinute: general rate limit per signed-in account or client address (RATE_LIMIT_PER_MINUTE; 0 = off). */
+  limits: { requestsPerMinute: number };
 }
 
 export type Env = Record<string, string | undefined>;
@@ -40,6 +42,7 @@ export const DEFAULTS = {
   PORT: '3000',
   HOST: '127.0.0.1',
   UPLOAD_MAX_BYTES: '536870912',
+  RATE_LIMIT_PER_MINUTE: '1200',
 } as const;
 
 export const MIN_JWT_SECRET_LENGTH = 32;
@@ -160,6 +163,7 @@ export function loadConfig(env: Env): AppConfig {
       trustProxy: r.trustProxy('TRUST_PROXY'),
     },
     uploads: { maxBytes: r.int('UPLOAD_MAX_BYTES', DEFAULTS.UPLOAD_MAX_BYTES, 1, 17179869184) },
+    limits: { requestsPerMinute: r.int('RATE_LIMIT_PER_MINUTE', DEFAULTS.RATE_LIMIT_PER_MINUTE, 0, 1_000_000) },
   };
   r.done();
   return config;
