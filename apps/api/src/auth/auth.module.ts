@@ -4,15 +4,12 @@ import { JwtModule } from '@nestjs/jwt';
 import { PassportModule } from '@nestjs/passport';
 import { ThrottlerModule } from '@nestjs/throttler';
 import { RateLimitGuard, rateLimitOptions } from './rate-limit';
-import { APP_CONFIG } from '../config/config.tokens';
-import type { AppConfig } from '../config/config';
+import { APP_CONFIG, type AppConfig } from '@psiform/server';
 import { UsersModule } from '../users/users.module';
 import { AuthController } from './auth.controller';
 import { AuthService } from './auth.service';
 import { JwtStrategy } from './jwt.strategy';
 import { LoginThrottle } from './login-throttle';
-import { AttemptGate } from './attempt-gate';
-import { RedisAttemptGate } from './redis-attempt-gate';
 import { AccessGuard } from './access.guard';
 import { PassportJwtAuthenticator, RequestAuthenticator } from './request-authenticator';
 
@@ -35,7 +32,6 @@ import { PassportJwtAuthenticator, RequestAuthenticator } from './request-authen
     AuthService,
     JwtStrategy,
     LoginThrottle,
-    { provide: AttemptGate, useClass: RedisAttemptGate },
     { provide: RequestAuthenticator, useClass: PassportJwtAuthenticator },
     { provide: APP_GUARD, useClass: AccessGuard },
     { provide: APP_GUARD, useClass: RateLimitGuard }, // after AccessGuard: it counts signed-in callers by account

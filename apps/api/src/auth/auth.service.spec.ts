@@ -1,12 +1,10 @@
 import { ServiceUnavailableException, UnauthorizedException } from '@nestjs/common';
 import { JwtService } from '@nestjs/jwt';
 import { hashSync } from 'bcryptjs';
+import { AttemptGate, backoffDelayMs, UsersStore, type BackoffPolicy, type GateVerdict, type NewUser, type UserEntity } from '@psiform/server';
 import { TooManyRequestsException } from '../common/too-many-requests.exception';
-import { UsersStore, type NewUser } from '../users/users.repository';
-import type { UserEntity } from '../users/user.entity';
 import { AuthService } from './auth.service';
 import { LoginThrottle, type LoginThrottlePolicy } from './login-throttle';
-import { AttemptGate, backoffDelayMs, type BackoffPolicy, type GateVerdict } from './attempt-gate';
 
 /** In-memory gate with a hand-driven clock (ms), following the rule of attempt-gate.ts (backoffDelayMs). */
 class FakeGate extends AttemptGate {

@@ -1,9 +1,7 @@
 import { Inject, Injectable, Logger, Optional, ServiceUnavailableException } from '@nestjs/common';
-import { APP_CONFIG } from '../config/config.tokens';
-import type { AppConfig } from '../config/config';
+import { APP_CONFIG, AttemptGate, type AppConfig, type BackoffPolicy, type GateVerdict } from '@psiform/server';
 import { TooManyRequestsException } from '../common/too-many-requests.exception';
 import { withDeadline } from '../common/deadline';
-import { AttemptGate, type BackoffPolicy, type GateVerdict } from './attempt-gate';
 
 export interface LoginThrottlePolicy {
   /** Per account (e-mail): 5 free tries, then 5 s, 10 s, 20 s … up to 15 min between tries. */

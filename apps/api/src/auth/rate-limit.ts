@@ -1,6 +1,6 @@
 import { Injectable, type ExecutionContext } from '@nestjs/common';
 import { ThrottlerGuard, type ThrottlerModuleOptions } from '@nestjs/throttler';
-import type { AppConfig } from '../config/config';
+import type { AppConfig } from '@psiform/server';
 
 /**
  * General rate limits (@nestjs/throttler 6), after AccessGuard so a signed-in caller is counted by account (many

@@ -1,6 +1,6 @@
 import { Inject, Injectable } from '@nestjs/common';
 import type Redis from 'ioredis';
-import { REDIS_CLIENT } from '../infra/redis/redis.tokens';
+import { REDIS_CLIENT } from './redis.tokens';
 import { AttemptGate, type BackoffPolicy, type GateVerdict } from './attempt-gate';
 
 const PREFIX = 'psiform:attempts:';
