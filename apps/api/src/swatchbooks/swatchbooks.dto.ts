@@ -15,8 +15,8 @@ export class CreateSwatchbookBody {
   publicationId?: string;
 
   @OptionalNotNull()
-  @IsString({ message: 'publisher must be a string' })
   @MaxLength(200, { message: 'publisher must be at most 200 characters' })
+  @IsString({ message: 'publisher must be a string' })
   publisher?: string;
 }
 
@@ -51,8 +51,8 @@ export class ImportSwatchbookBody {
   publicationId?: string;
 
   @OptionalNotNull()
-  @IsString({ message: 'publisher must be a string' })
   @MaxLength(200, { message: 'publisher must be at most 200 characters' })
+  @IsString({ message: 'publisher must be a string' })
   publisher?: string;
 }
 

@@ -109,14 +109,17 @@ export class UploadsService {
         settled = true;
         const received = work ? await work.catch((e) => (fail(e), undefined)) : undefined;
         if (!work && failure === undefined) fail(new BadRequestException('cube: the file part is missing'));
+        let outcome: { ok: UploadResponse } | { err: unknown };
         try {
           if (failure !== undefined) throw failure;
-          resolve(await this.persist(user, received!));
+          outcome = { ok: await this.persist(user, received!) };
         } catch (err) {
-          reject(toHttp(err));
-        } finally {
-          if (received) await this.storage.delete(received.tempKey).catch(() => undefined);
+          outcome = { err };
         }
+        // The temporary object goes before the answer, so a client that sees the answer sees no leftovers.
+        if (received) await this.storage.delete(received.tempKey).catch(() => undefined);
+        if ('ok' in outcome) resolve(outcome.ok);
+        else reject(toHttp(outcome.err));
       };
       bb.on('error', (err: Error) => {
         fail(new BadRequestException(`malformed multipart request: ${err.message}`));
