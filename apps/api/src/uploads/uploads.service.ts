@@ -10,6 +10,7 @@ import { FiguresService } from '../figures/figures.service';
 import { FIGURE_TITLE_MAX } from '../figures/figures.dto';
 import { validateRecipe } from '../figures/recipe-input';
 import { inputProblems } from '../common/input/input-rules';
+import { dependencyError } from '../common/http-error.filter';
 
 type Caller = Pick<UserDto, 'id' | 'role'>;
 type Sidecar = ReturnType<typeof parseSidecar>;
@@ -27,6 +28,8 @@ const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
 
 function toHttp(err: unknown): HttpException {
   if (err instanceof HttpException) return err;
+  const unavailable = dependencyError(err); // storage or database not answering: 503, not the client's fault
+  if (unavailable) return unavailable;
   if (err instanceof UploadRejected) return err.status === 413 ? new PayloadTooLargeException(err.message) : new BadRequestException(err.message);
   return new BadRequestException(`upload failed: ${(err as Error).message}`);
 }
