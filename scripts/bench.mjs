@@ -504,7 +504,8 @@ async function sectionRender() {
   const parsed = mods.contracts.parseRecipe({ version: 1, label: '3dz2', content: { Z: 1, terms: [{ n: 3, l: 2, m: 0, basis: 'real', re: 1 }] }, grid: { n: 128 }, surface: { rule: 'enclosed', fraction: 0.9 } });
   const recipe = parsed.recipe;
   const r = await meshing.recipeToSurfaces(recipe, { sample: (state, grid) => orbitalsNode.sampleGridParallel(state, { n: grid.n, extent: grid.extent }) });
-  const { glb } = await mods.mesh.encode(r.surfaces.filter((x) => x.mesh.indices.length > 0), recipe, {}, 'bench');
+  const surfaces = r.surfaces.filter((x) => x.mesh.indices.length > 0);
+  const { glb } = await mods.mesh.encode(surfaces, recipe, {}, 'bench');
   const browser = new mods.browser.HeadlessBrowser(process.env.CHROMIUM_PATH || '/usr/bin/chromium');
   const renderer = new mods.renderer.FigureRenderer(browser, site, 600000);
   const { width, height } = mods.print.exportPixelSize({ widthMm: 180, heightMm: 120, dpi: 600 });
