@@ -14,6 +14,7 @@ import { checkContent, defaultDraft, draftFromTerms, type ContentDraft } from '.
 import { ExportDialog } from './ExportDialog';
 import { applyShortcut, isTypingTarget, type Look } from './shortcuts';
 import { StagePanel } from './StagePanel';
+import { SurfaceWarnings } from './SurfaceWarnings';
 import { usePreview, type PreviewRule } from './usePreview';
 
 const StudioCanvas = lazy(() => import('./StudioCanvas'));
@@ -25,7 +26,8 @@ export function defaultRecipe(): Recipe {
     version: RECIPE_VERSION,
     label: '2p_z',
     content: { Z: 1, terms: [{ n: 2, l: 1, m: 0, basis: 'real', re: 1, im: 0 }] },
-    grid: { n: 128, extent: 'auto' },
+    // The engine's defaults: the grid and box that resolve this state's surface (recipe schema).
+    grid: { n: 'auto', extent: 'auto' },
     surface: { rule: 'enclosed', fraction: 0.9 },
   });
   if (!r.ok) throw new Error('default recipe invalid');
@@ -81,6 +83,8 @@ function Studio({ initial, figure }: StudioProps) {
   );
   const [surface, setSurface] = useState<SurfaceDraft>(() => surfaceFrom(initial));
   const [grid, setGrid] = useState(String(initial.grid.n));
+  // Half-width of the box (a0) or 'auto'; the warnings offer to widen it when it cuts the surface.
+  const [extent, setExtent] = useState<number | 'auto'>(initial.grid.extent);
   const [look, setLook] = useState<Look>({ stage: initial.stage, annotations: initial.annotations });
   const [canvas, setCanvas] = useState(initial.canvas);
   const [title, setTitle] = useState('');
@@ -102,7 +106,7 @@ function Studio({ initial, figure }: StudioProps) {
       version: RECIPE_VERSION,
       label: look.annotations.label.text || check.built.label,
       content: { Z: check.built.Z, terms: check.built.terms },
-      grid: { n: gridN, extent: initial.grid.extent },
+      grid: { n: gridN, extent },
       surface: surf.rule,
       stage: look.stage,
       annotations: look.annotations,
@@ -111,10 +115,10 @@ function Studio({ initial, figure }: StudioProps) {
     const parsed = parseRecipe(doc);
     return parsed.ok ? { ok: true as const, recipe: parsed.recipe } : { ok: false as const, issues: formatRecipeIssues(parsed.issues) };
     // eslint-disable-next-line react-hooks/exhaustive-deps
-  }, [JSON.stringify([check.built, surf.rule, gridN, gridError, look, canvas]), initial]);
+  }, [JSON.stringify([check.built, surf.rule, gridN, extent, gridError, look, canvas]), initial]);
 
   const state = check.built ? { Z: check.built.Z, terms: check.built.terms } : null;
-  const { surfaces, status, previewN } = usePreview(gridError ? null : state, gridError ? 128 : gridN, initial.grid.extent, surf.rule && { ...surf.rule, nodal: look.stage.material.nodalOutline });
+  const { surfaces, status, previewN } = usePreview(gridError ? null : state, gridError ? 128 : gridN, extent, surf.rule && { ...surf.rule, nodal: look.stage.material.nodalOutline });
 
   // Stage shortcuts (not while typing in a field).
   useEffect(() => {
@@ -280,12 +284,25 @@ function Studio({ initial, figure }: StudioProps) {
                   </>
                 )}
                 {status.triangles > 0 && <> · {status.triangles.toLocaleString('en-GB')} triangles</>}
-                {status.enclosed !== null && <> · encloses {(status.enclosed * 100).toFixed(1)}%</>}
+                {status.enclosed !== null && (
+                  <>
+                    {' '}
+                    · encloses <span data-testid="preview-enclosed">{(status.enclosed * 100).toFixed(1)}</span>% over all space
+                    {status.enclosedError !== null && status.enclosedError >= 5e-4 && <> ± {(status.enclosedError * 100).toFixed(1)}</>}
+                    {status.enclosedInBox !== null && status.enclosedInBox < status.enclosed - 5e-4 && (
+                      <>
+                        {' '}
+                        (<span data-testid="preview-enclosed-in-box">{(status.enclosedInBox * 100).toFixed(1)}</span>% inside the box)
+                      </>
+                    )}
+                  </>
+                )}
                 {status.isovalue !== null && <> · |ψ| = {status.isovalue.toPrecision(3)} a0^−3/2</>}
                 {(status.phase === 'sampling' || status.phase === 'extracting') && <> · updating…</>}
               </>
             )}
           </p>
+          <SurfaceWarnings warnings={status.warnings} extent={extent} onExtent={setExtent} gridAuto={gridAuto} onGridAuto={() => setGrid('auto')} />
           <div className="pf-legend" aria-label="Phase colours">
             <span>
               <i style={{ background: initial.palette.positive }} /> ψ &gt; 0
