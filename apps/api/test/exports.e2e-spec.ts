@@ -4,8 +4,8 @@ import { join } from 'node:path';
 import { DOMParser } from '@xmldom/xmldom';
 import { unzipSync, strFromU8 } from 'fflate';
 import { PNG } from 'pngjs';
-import { EXPORT_STAGES, type JobDto } from '@psiform/contracts';
-import { auth, demoTokens, login, runEmail, smallRecipe, startTestApp, DEMO_PUBLICATION, RUN_ID, type TestApp } from './support';
+import { EXPORT_STAGES, PSIFORM_PALETTE, type JobDto } from '@psiform/contracts';
+import { auth, demoTokens, login, phasePixels, runEmail, smallRecipe, startTestApp, DEMO_PUBLICATION, RUN_ID, type TestApp } from './support';
 import { readSse, startWorkerProcess, waitFor, type WorkerProcess } from './worker-process';
 
 const WEB_DIST = join(__dirname, '..', '..', 'web', 'dist');
@@ -104,19 +104,13 @@ describe('exports (e2e)', () => {
     expect([phys.readUInt32BE(0), phys.readUInt32BE(4), phys[8]]).toEqual([11811, 11811, 1]);
     expect(chunks.get('sRGB')).toHaveLength(1);
 
-    // Both lobes of 2p_z are in the picture, in the recipe's default phase colours (#c8553d warm, #2f6690 cool):
-    // shading changes their brightness, not which channel dominates.
+    // Both lobes of 2p_z are in the picture, in the recipe's default phase colours (Psiform's verdigris and
+    // ochre, contracts PSIFORM_PALETTE): shading changes their brightness, not their hue.
     const img = PNG.sync.read(Buffer.from(bytes));
-    let warm = 0;
-    let cool = 0;
-    for (let i = 0; i < img.data.length; i += 4) {
-      const [r, g, b] = [img.data[i], img.data[i + 1], img.data[i + 2]];
-      if (r > 1.6 * b && r > 1.4 * g && r > 60) warm++;
-      if (b > 1.5 * r && b > 1.1 * g && b > 60) cool++;
-    }
+    const [pos, neg] = phasePixels(img, [PSIFORM_PALETTE.positive, PSIFORM_PALETTE.negative]);
     const total = img.width * img.height;
-    expect(warm / total).toBeGreaterThan(0.03);
-    expect(cool / total).toBeGreaterThan(0.03);
+    expect(pos / total).toBeGreaterThan(0.03);
+    expect(neg / total).toBeGreaterThan(0.03);
   }, 120000);
 
   it('a mesh job leaves a 320 × 240 thumbnail on the figure (stats.thumbnail) without waiting for it', async () => {
@@ -174,7 +168,7 @@ describe('exports (e2e)', () => {
     expect(cls('contour-neg')).toHaveLength(3);
     expect(cls('nodal')).toHaveLength(1);
     expect(doc.documentElement?.getAttribute('width')).toBe('80mm');
-    expect(svg).toContain('#c8553d');
+    expect(svg).toContain(PSIFORM_PALETTE.positive);
 
     const radial = await finished(await exportJob({ format: 'svg', kind: 'radial' }));
     const rsvg = strFromU8(await download(radial.assets[0].id));

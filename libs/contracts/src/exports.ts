@@ -1,3 +1,5 @@
+import { CANVAS_LIMITS, RASTER_LIMITS } from './limits';
+
 /**
  * Exports of a figure (issue "The studio"): POST /api/figures/:id/exports with one of these bodies answers
  * 201 CreateJobResponse; the job (GET /api/jobs/:id) completes with the produced asset(s).
@@ -17,10 +19,10 @@ export type SectionPlane = (typeof SECTION_PLANES)[number];
  * well inside one worker's memory.
  */
 export const EXPORT_LIMITS = {
-  mmMin: 10,
-  mmMax: 1000,
-  pxMax: 20000,
-  megapixelsMax: 64,
+  mmMin: CANVAS_LIMITS.mmMin,
+  mmMax: CANVAS_LIMITS.mmMax,
+  pxMax: RASTER_LIMITS.pxMax,
+  megapixelsMax: RASTER_LIMITS.megapixelsMax,
   sectionLevelsMin: 1,
   sectionLevelsMax: 12,
   sectionLevelsDefault: 4,

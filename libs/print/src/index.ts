@@ -10,3 +10,5 @@ export * from './radial-plot';
 export * from './section-map';
 export * from './metadata';
 export * from './bundle';
+export * from './typeset';
+export * from './file-names';

@@ -1,4 +1,4 @@
-import { EXPORT_DPI, EXPORT_FORMATS, EXPORT_LIMITS, SECTION_PLANES, type ExportFormat, type Recipe, type SectionPlane } from '@psiform/contracts';
+import { EXPORT_DPI, EXPORT_FORMATS, EXPORT_LIMITS, SECTION_PLANES, rasterProblem, type ExportFormat, type Recipe, type SectionPlane } from '@psiform/contracts';
 import { exportPixelSize } from '@psiform/print';
 
 /** What a render/export job is asked to do; stored in jobs.params and read by the worker. */
@@ -53,14 +53,8 @@ export function parseExportRequest(body: unknown, recipe: Pick<Recipe, 'canvas' 
     if (b.transparent !== undefined && typeof b.transparent !== 'boolean') problems.push(`transparent: must be true or false (got ${show(b.transparent)})`);
     if (problems.length) return { ok: false, messages: problems };
     const { width, height } = exportPixelSize({ widthMm, heightMm, dpi: dpi as number });
-    if (width > EXPORT_LIMITS.pxMax || height > EXPORT_LIMITS.pxMax || width * height > EXPORT_LIMITS.megapixelsMax * 1e6) {
-      return {
-        ok: false,
-        messages: [
-          `dpi: ${widthMm} × ${heightMm} mm at ${dpi} dpi is ${width} × ${height} px; the largest raster export is ${EXPORT_LIMITS.pxMax} px a side and ${EXPORT_LIMITS.megapixelsMax} megapixels (choose a lower dpi or a smaller size)`,
-        ],
-      };
-    }
+    const raster = rasterProblem(widthMm, heightMm, dpi as number);
+    if (raster) return { ok: false, messages: [`dpi: ${raster}`] };
     return { ok: true, params: { format: 'png', widthMm, heightMm, dpi: dpi as number, widthPx: width, heightPx: height, transparent: (b.transparent as boolean | undefined) ?? null } };
   }
 

@@ -1,5 +1,5 @@
 import { BadRequestException, ForbiddenException, Injectable, NotFoundException } from '@nestjs/common';
-import { FIGURE_SET_LIMITS, parseRecipe, type CreateFigureSetRequest, type CreateJobResponse, type FigureSetDto, type UserDto } from '@psiform/contracts';
+import { FIGURE_SET_LIMITS, parseRecipe, titleProblem, type CreateFigureSetRequest, type CreateJobResponse, type FigureSetDto, type UserDto } from '@psiform/contracts';
 import { FiguresService } from '../figures/figures.service';
 import { FiguresStore } from '../figures/figures.repository';
 import type { FigureEntity } from '../figures/figure.entity';
@@ -110,7 +110,8 @@ export function checkSetBody(body: Partial<CreateFigureSetRequest> | null | unde
   const b = (body ?? {}) as Record<string, unknown>;
   for (const k of Object.keys(b)) if (!['publicationId', 'title', 'figureIds', 'columns'].includes(k)) p.push(`${k}: is not a field of a figure set`);
   if (typeof b.publicationId !== 'string' || !UUID.test(b.publicationId)) p.push('publicationId: must be a UUID');
-  if (typeof b.title !== 'string' || b.title.trim().length < 1 || b.title.trim().length > 200) p.push('title: must be 1 to 200 characters');
+  const tp = titleProblem(b.title);
+  if (tp) p.push(`title: ${tp}`);
   const L = FIGURE_SET_LIMITS;
   if (!Array.isArray(b.figureIds) || b.figureIds.length < L.figuresMin || b.figureIds.length > L.figuresMax) p.push(`figureIds: must list ${L.figuresMin} to ${L.figuresMax} figure ids`);
   else {

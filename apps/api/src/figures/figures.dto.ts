@@ -1,10 +1,13 @@
 import { Transform, Type } from 'class-transformer';
 import { IsDefined, IsIn, IsInt, IsNotEmpty, IsOptional, IsString, IsUUID, Max, MaxLength, Min } from 'class-validator';
-import { FIGURE_STATUSES, type CreateFigureRequest, type FigureStatus, type UpdateFigureRequest } from '@psiform/contracts';
+import { FIGURE_STATUSES, TEXT_LIMITS, titleProblem, type CreateFigureRequest, type FigureStatus, type UpdateFigureRequest } from '@psiform/contracts';
+import type { ValidationArguments } from 'class-validator';
 
 const trim = ({ value }: { value: unknown }) => (typeof value === 'string' ? value.trim() : value);
 
-export const FIGURE_TITLE_MAX = 200;
+/** From libs/contracts, so the client names the same limit in the same words. */
+export const FIGURE_TITLE_MAX = TEXT_LIMITS.titleMax;
+const titleTooLong = (a: ValidationArguments) => `title ${titleProblem(a.value) ?? `must be at most ${FIGURE_TITLE_MAX} characters`}`;
 
 export class CreateFigureBody implements CreateFigureRequest {
   @IsUUID('all', { message: 'publicationId must be a UUID' })
@@ -13,7 +16,7 @@ export class CreateFigureBody implements CreateFigureRequest {
   @Transform(trim)
   @IsString({ message: 'title must be a string' })
   @IsNotEmpty({ message: 'title must not be empty' })
-  @MaxLength(FIGURE_TITLE_MAX, { message: `title must be at most ${FIGURE_TITLE_MAX} characters` })
+  @MaxLength(FIGURE_TITLE_MAX, { message: titleTooLong })
   title: string;
 
   /** Checked by parseRecipe in the service (messages name recipe.<path>). */
@@ -26,7 +29,7 @@ export class UpdateFigureBody implements UpdateFigureRequest {
   @Transform(trim)
   @IsString({ message: 'title must be a string' })
   @IsNotEmpty({ message: 'title must not be empty' })
-  @MaxLength(FIGURE_TITLE_MAX, { message: `title must be at most ${FIGURE_TITLE_MAX} characters` })
+  @MaxLength(FIGURE_TITLE_MAX, { message: titleTooLong })
   title?: string;
 
   @IsOptional()

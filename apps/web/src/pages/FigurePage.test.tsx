@@ -67,8 +67,8 @@ describe('figure page', () => {
 
     const probe = await screen.findByTestId('viewport-probe');
     expect(probe.getAttribute('data-url')).toBe('http://storage.test/bucket/a.glb?sig=1');
-    expect(probe.getAttribute('data-positive')).toBe('#c8553d');
-    expect(probe.getAttribute('data-negative')).toBe('#2f6690');
+    expect(probe.getAttribute('data-positive')).toBe('#267069');
+    expect(probe.getAttribute('data-negative')).toBe('#b8741a');
     expect((screen.getByTestId('compute-mesh') as HTMLButtonElement).disabled).toBe(false);
 
     // Downloads ask for a presigned link (a plain link cannot carry the token) and then go there.

@@ -3,7 +3,7 @@ import { Button, Callout, FormGroup, InputGroup, NumericInput, Tag } from '@blue
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { useNavigate } from 'react-router-dom';
 import { checkSwatchbook, DEFAULT_WHEEL, isHex } from '@psiform/colour';
-import type { SwatchbookColorsDto, SwatchbookDto } from '@psiform/contracts';
+import { PSIFORM_PALETTE, type SwatchbookColorsDto, type SwatchbookDto } from '@psiform/contracts';
 import { ApiError, describeError } from '../api/client';
 import { useApi } from '../auth/AuthProvider';
 import { ColourChecks } from './ColourChecks';
@@ -11,10 +11,10 @@ import { ColourField } from './ColourField';
 import { CvdPreviews, PhaseWheelStrip } from './CvdPreviews';
 import { createSwatchbook, updateSwatchbook } from './swatchbookApi';
 
-/** Starting colours of a new swatchbook (our own neutral choice, matching the recipe's default phases). */
+/** Starting colours of a new swatchbook: Psiform's own default palette (contracts PSIFORM_PALETTE). */
 export const NEW_SWATCHBOOK_COLOURS: SwatchbookColorsDto = {
-  positive: '#c8553d',
-  negative: '#2f6690',
+  positive: PSIFORM_PALETTE.positive,
+  negative: PSIFORM_PALETTE.negative,
   background: '#ffffff',
   label: '#222222',
   nucleus: '#222222',

@@ -70,13 +70,13 @@ describe('swatchbook editor: live checks in the browser', () => {
     const first = screen.getByTestId('check-de-normal').textContent;
     expect(Number(first)).toBeGreaterThan(20);
 
-    await setHex(ue, 'negative', '#c8553d'); // same as positive: no difference at all
+    await setHex(ue, 'negative', '#267069'); // same as positive (Psiform's default verdigris): no difference at all
     expect(screen.getByTestId('check-de-normal').textContent).toBe('0.0');
     for (const k of ['protanopia', 'deuteranopia', 'tritanopia']) expect(screen.getByTestId(`check-de-${k}`).textContent).toBe('0.0');
     expect(screen.getByTestId('check-de-normal-verdict').textContent).toBe('too low');
     expect(screen.getAllByTestId('check-warning').some((w) => w.getAttribute('data-code') === 'phases_too_similar')).toBe(true);
 
-    await setHex(ue, 'negative', '#2f6690');
+    await setHex(ue, 'negative', '#b8741a');
     expect(screen.getByTestId('check-de-normal').textContent).toBe(first);
 
     // The colour picker drives the same state as the hex text.
@@ -111,7 +111,7 @@ describe('swatchbook editor: live checks in the browser', () => {
     await ue.click(screen.getByTestId('sw-save'));
     await waitFor(() => expect(screen.getByTestId('location').textContent).toBe('/swatchbooks/s9'));
     const [post] = api.callsTo('POST', '/api/swatchbooks');
-    expect(post.body).toMatchObject({ name: 'Fenwright journal', colors: { positive: '#b5452f', negative: '#2f6690', background: '#ffffff' } });
+    expect(post.body).toMatchObject({ name: 'Fenwright journal', colors: { positive: '#b5452f', negative: '#b8741a', background: '#ffffff' } });
     expect((await screen.findByTestId('swatchbook-title')).textContent).toBe('Fenwright journal');
     expect(await screen.findAllByTestId('sw-version-row')).toHaveLength(1);
   });
