@@ -20,6 +20,9 @@ export const RECIPE_LIMITS = {
   extentMax: 2000,
 } as const;
 
+/** Starting values of a new figure, the same in the Composer, its presets and the CLI's help. */
+export const RECIPE_DEFAULTS = { gridN: 96, fraction: 0.9 } as const;
+
 const finite = (what: string) =>
   z.number({ error: `${what} must be a number` }).refine(Number.isFinite, { message: `${what} must be a finite number` });
 

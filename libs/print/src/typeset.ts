@@ -67,8 +67,9 @@ function group(s: string, open: number): [string, number] | null {
  * - `^−3/2`, `^2`, `^{…}`, `^(…)`: superscript;
  * - `a0` / `a₀` as a unit (not inside a word or number): a with subscript 0;
  * - a complex form `2p(m=+1)`: 2p with subscript +1 (the m value);
- * - Unicode superscript digits and signs at base level (Li²⁺, sp³): a superscript run of plain digits,
- *   so the font's figures are used; inside a subscript (z², x²−y²) they stay as the font's own glyphs.
+ * - Unicode superscripts at base level: ¹ ² ³ alone stay the font's own superscript figures (sp³, 96³);
+ *   a run holding any other (Li²⁺, Zn²⁹⁺) becomes one superscript run of plain digits and signs;
+ *   inside a subscript (z², x²−y²) they stay glyphs.
  * Hyphen-minus in exponents and m values becomes the minus sign U+2212.
  */
 export function typeset(text: string): TextRun[] {
@@ -146,9 +147,17 @@ export function typeset(text: string): TextRun[] {
       continue;
     }
     if (SUPERSCRIPT_CHARS[ch] !== undefined) {
-      flush();
-      push(runs, SUPERSCRIPT_CHARS[ch], 'sup');
-      i++;
+      // A run of Unicode superscripts: ¹ ² ³ alone are the font's own superscript figures (Lato has them);
+      // a run with any other (⁴…⁹, ⁰, ⁺, ⁻) becomes one superscript run, so Li²⁺ is set evenly.
+      let j = i;
+      while (j < s.length && SUPERSCRIPT_CHARS[s[j]] !== undefined) j++;
+      const chars = s.slice(i, j);
+      if (/^[¹²³]+$/.test(chars)) base += chars;
+      else {
+        flush();
+        push(runs, [...chars].map((c) => SUPERSCRIPT_CHARS[c]).join(''), 'sup');
+      }
+      i = j;
       continue;
     }
     if (SUBSCRIPT_CHARS[ch] !== undefined) {

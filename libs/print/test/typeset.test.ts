@@ -36,9 +36,11 @@ describe('typeset: the one parser for names, units and exponents', () => {
     // Not a unit: inside words, hex colours, numbers.
     expect(typeset('data0 #a0b0c0 ka0')).toEqual([b('data0 #a0b0c0 ka0')]);
   });
-  it('Unicode superscripts at base level become superscript runs (Li²⁺, sp³); inside a subscript they stay glyphs', () => {
+  it('Unicode superscripts: ¹²³ stay the font glyphs (sp³, 96³); a run with ⁺ or ⁴…⁹ becomes one superscript run (Li²⁺); inside a subscript they stay glyphs', () => {
     expect(typeset('Li²⁺')).toEqual([b('Li'), sup('2+')]);
-    expect(typeset('sp³ #2')).toEqual([b('sp'), sup('3'), b(' #2')]);
+    expect(typeset('Zn²⁹⁺')).toEqual([b('Zn'), sup('29+')]);
+    expect(typeset('sp³ #2')).toEqual([b('sp³ #2')]);
+    expect(typeset('grid 96³')).toEqual([b('grid 96³')]);
     expect(typeset('3d_z²')).toEqual([b('3d'), sub('z²')]);
   });
   it('a trailing full stop is not an exponent; braces group', () => {

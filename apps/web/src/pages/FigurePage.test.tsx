@@ -32,7 +32,7 @@ describe('figure page', () => {
 
     const model = await screen.findByTestId('figure-model');
     expect(model.textContent).toBe(
-      '2p_z, Z = 1, one-electron hydrogen-like model; surface encloses 90% of the probability; grid 48³ — many-electron orbitals differ.',
+      '2pz, Z = 1, one-electron hydrogen-like model; surface encloses 90% of the probability; grid 48³ — many-electron orbitals differ.', // 2p with a typeset subscript z
     );
     expect(screen.getByTestId('figure-status').textContent).toBe('Draft');
     expect(screen.getByTestId('figure-version').textContent).toBe('Version 1');

@@ -12,6 +12,7 @@ import { MeshStatsTable } from '../figures/MeshStatsTable';
 import { describeRecipe, formatDate, statusLabel } from '../figures/model';
 import { FigureReview } from '../review/FigureReview';
 import { FigureStudioBar } from '../studio/FigureStudioBar';
+import { Typeset } from '../components/Typeset';
 
 // three.js and R3F load only when a mesh is shown (keeps them out of the first bundle).
 const FigureViewport = lazy(() => import('../viewport/FigureViewport'));
@@ -167,7 +168,7 @@ export function FigurePage() {
         <h2>Model</h2>
         {parsed.ok ? (
           <p className="pf-model-note" data-testid="figure-model">
-            {describeRecipe(parsed.recipe)}.
+            <Typeset text={`${describeRecipe(parsed.recipe)}.`} />
           </p>
         ) : (
           <Callout intent="warning" data-testid="figure-model">

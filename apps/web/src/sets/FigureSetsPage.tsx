@@ -14,6 +14,7 @@ import { fromMm } from '../studio/exportSize';
 import { CanvasSizeFields, useCanvasSize } from '../studio/CanvasSizeFields';
 import { matchFigures, orbitalRecipe, SHELL_MAX_N, shellOrbitals } from './shell';
 import './sets.css';
+import { Typeset } from '../components/Typeset';
 
 const MODEL_NOTE = 'One-electron hydrogen-like model; many-electron orbitals differ. Every panel is drawn with the same camera and the same length scale.';
 
@@ -228,7 +229,7 @@ export function NewSetForm({ publicationId, figures, onCreated }: { publicationI
                   <Checkbox checked={at >= 0} onChange={(e) => toggle(f.id, e.currentTarget.checked)} aria-label={`Use ${f.title}`} data-testid="set-figure-check" data-figure-id={f.id} className="pf-no-margin" />
                 </td>
                 <td>{f.title}</td>
-                <td>{f.label ?? ''}</td>
+                <td>{f.label ? <Typeset text={f.label} /> : ''}</td>
                 <td>{f.status.replace('_', ' ')}</td>
                 <td data-testid="set-figure-order">{at >= 0 ? at + 1 : ''}</td>
               </tr>

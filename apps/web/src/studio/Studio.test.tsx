@@ -1,7 +1,7 @@
 import { act, render, screen, waitFor, within } from '@testing-library/react';
 import userEvent from '@testing-library/user-event';
 import { vi } from 'vitest';
-import type { FigureDto } from '@psiform/contracts';
+import { parseRecipe, type FigureDto } from '@psiform/contracts';
 import { AppProviders, createQueryClient } from '../App';
 import { json, mockFetch, renderApp, signedInRoutes, storeSession, user } from '../test/utils';
 import { figure } from '../test/figures';
@@ -28,7 +28,7 @@ class FakeWorker {
   postMessage(req: PreviewRequest) {
     this.sent.push(req);
     const reply = (msg: PreviewResponse) => queueMicrotask(() => act(() => this.onmessage?.({ data: msg } as MessageEvent<PreviewResponse>)));
-    if (req.type === 'sample') reply({ type: 'sampled', seq: req.seq, n: req.n, extent: 10, ms: 12 });
+    if (req.type === 'sample') reply({ type: 'sampled', seq: req.seq, n: req.n, extent: 10, ms: 12, maxAbs: 0.05 });
     else {
       const tri = () => ({ positions: new Float32Array([0, 0, 1, 1, 0, 1, 0, 1, 1]), normals: new Float32Array([0, 0, 1, 0, 0, 1, 0, 0, 1]), indices: new Uint32Array([0, 1, 2]) });
       reply({
@@ -95,7 +95,8 @@ describe('Composer: quantum numbers as you type', () => {
     await ue.clear(screen.getByTestId('cmp-m'));
     await ue.type(screen.getByTestId('cmp-m'), '-2');
     expect(screen.queryByTestId('cmp-m-error')).toBeNull();
-    expect(screen.getByTestId('studio-model').textContent).toContain('3d_xy, Z = 1, one-electron hydrogen-like model');
+    expect(screen.getByTestId('studio-model').textContent).toContain('3dxy, Z = 1, one-electron hydrogen-like model'); // typeset: 3d with a subscript xy
+    expect(screen.getByTestId('studio-model').querySelector('sub')?.textContent).toBe('xy');
     expect(screen.getByTestId('studio-model').textContent).toContain('many-electron orbitals differ');
     await waitFor(() => expect(save().disabled).toBe(false));
 
@@ -131,10 +132,24 @@ describe('Composer: superposition coefficients', () => {
     renderApp('/composer');
     await ue.type(await screen.findByTestId('studio-title'), 'Plate 3: 2p(m=+1) by hand');
     await ue.click(screen.getByTestId('cmp-mode-superposition'));
-    // Default rows: 2p_x with |c| = 1, phase 0°, and 2p_y with |c| = 1, phase 90°: c = 1 and c = i.
+    // The view shows the current state exactly: the default 2p_z as one row, |c| = 1, phase 0°.
+    expect(screen.getAllByTestId('cmp-row')).toHaveLength(1);
+    expect(screen.getByTestId('cmp-sumsq').textContent).toBe('Σ|c|² = 1');
+    const coefs = () => screen.getAllByTestId('cmp-norm-coef').map((li) => li.textContent);
+    // Make it 2p_x (m = +1) and add 2p_y (m = −1) at phase 90°: c = 1 and c = i.
+    await ue.clear(screen.getByTestId('cmp-row-m'));
+    await ue.type(screen.getByTestId('cmp-row-m'), '1');
+    await ue.click(screen.getByTestId('cmp-add-row'));
+    expect(screen.getByTestId('cmp-sumsq').textContent).toBe('Σ|c|² = 1'); // a new row starts at |c| = 0: ψ unchanged
+    const second = within(screen.getAllByTestId('cmp-row')[1]);
+    await ue.clear(second.getByTestId('cmp-row-m'));
+    await ue.type(second.getByTestId('cmp-row-m'), '-1');
+    await ue.clear(second.getByTestId('cmp-row-mag'));
+    await ue.type(second.getByTestId('cmp-row-mag'), '1');
+    await ue.clear(second.getByTestId('cmp-row-phase'));
+    await ue.type(second.getByTestId('cmp-row-phase'), '90');
     // 2p_x and 2p_y are orthonormal, so Σ|c|² = 1 + 1 = 2 and each normalised |c| = 1/√2 ≈ 0.7071 (by hand).
     expect(screen.getByTestId('cmp-sumsq').textContent).toBe('Σ|c|² = 2');
-    const coefs = () => screen.getAllByTestId('cmp-norm-coef').map((li) => li.textContent);
     expect(coefs()).toEqual(['0.7071 · e^(i·0°) = 0.7071 + 0i', '0.7071 · e^(i·90°) = 0 + 0.7071i']);
 
     // A third term at |c| = 2, phase 180°: c = −2, Σ|c|² = 1 + 1 + 4 = 6.
@@ -183,7 +198,7 @@ describe('Composer: superposition coefficients', () => {
     const samples = () => w.sent.filter((m) => m.type === 'sample');
     const surfaces = () => w.sent.filter((m) => m.type === 'surface');
     expect(samples()).toHaveLength(1);
-    expect(samples()[0]).toMatchObject({ n: 112, state: { Z: 1, terms: [{ n: 2, l: 1, m: 0 }] } }); // recipe grid 128, preview capped at 112
+    expect(samples()[0]).toMatchObject({ n: 96, state: { Z: 1, terms: [{ n: 2, l: 1, m: 0 }] } }); // recipe grid 96 (contracts RECIPE_DEFAULTS), under the 112 preview cap
     await ue.clear(screen.getByTestId('cmp-fraction'));
     await ue.type(screen.getByTestId('cmp-fraction'), '75');
     await waitFor(() => expect(surfaces().at(-1)).toMatchObject({ rule: { rule: 'enclosed', fraction: 0.75 } }));
@@ -192,9 +207,42 @@ describe('Composer: superposition coefficients', () => {
     expect(screen.getByTestId('preview-ms')).toBeTruthy();
     await ue.clear(screen.getByTestId('cmp-z'));
     await ue.type(screen.getByTestId('cmp-z'), '3');
-    expect(screen.getByTestId('cmp-ion').textContent).toBe('Li²⁺');
+    expect(screen.getByTestId('cmp-ion').textContent).toBe('Li2+'); // Li with a typeset superscript 2+
+    expect(screen.getByTestId('cmp-ion').querySelector('sup')?.textContent).toBe('2+');
     await waitFor(() => expect(samples()).toHaveLength(2));
     expect(samples()[1]).toMatchObject({ state: { Z: 3 } });
+  });
+});
+
+describe('Opening a saved figure', () => {
+  it('a complex 2p(m=+1) made through the API opens clean, and no view switch changes its terms or enables Save', async () => {
+    const stored = parseRecipe({ version: 1, label: '2p(m=+1)', content: { Z: 1, terms: [{ n: 2, l: 1, m: 1, basis: 'complex', re: 1, im: 0 }] }, grid: { n: 64 }, surface: { rule: 'enclosed', fraction: 0.9 } });
+    if (!stored.ok) throw new Error('bad test recipe');
+    const f = figure({ currentVersion: { ...figure().currentVersion, recipe: stored.recipe } });
+    mockFetch({ ...signedInRoutes(me), 'GET /api/figures/f1': () => json(200, f) });
+    storeSession(me);
+    const ue = userEvent.setup();
+    renderApp('/figures/f1/studio');
+    await screen.findByTestId('canvas-probe', {}, { timeout: 15000 });
+    const save = () => screen.getByTestId('studio-save') as HTMLButtonElement;
+    expect(save().disabled).toBe(true);
+    expect(screen.queryByTestId('studio-dirty')).toBeNull();
+    for (const mode of ['superposition', 'label', 'hybrid', 'nlm', 'superposition']) {
+      await ue.click(screen.getByTestId(`cmp-mode-${mode}`));
+      expect({ mode, dirty: screen.queryByTestId('studio-dirty'), disabled: save().disabled }).toEqual({ mode, dirty: null, disabled: true });
+    }
+    // The superposition view shows the one stored term, not a default pair.
+    const rows = screen.getAllByTestId('cmp-row');
+    expect(rows).toHaveLength(1);
+    expect(['n', 'l', 'm', 'mag', 'phase'].map((k) => (within(rows[0]).getByTestId(`cmp-row-${k}`) as HTMLInputElement).value)).toEqual(['2', '1', '1', '1', '0']);
+    expect(screen.getByTestId('cmp-sumsq').textContent).toBe('Σ|c|² = 1');
+    // The hybrid view cannot show it: it says so and offers an explicit replacement.
+    await ue.click(screen.getByTestId('cmp-mode-hybrid'));
+    expect(screen.getByTestId('cmp-current-state').textContent).toContain('cannot show the current state exactly');
+    expect(screen.getByTestId('cmp-replace').textContent).toBe('Replace with a hybrid…');
+    // The sampled state sent to the preview is the stored one every time.
+    const samples = FakeWorker.last!.sent.filter((m) => m.type === 'sample');
+    expect(samples.every((m) => m.type === 'sample' && JSON.stringify(m.state.terms) === JSON.stringify([{ n: 2, l: 1, m: 1, basis: 'complex', re: 1, im: 0 }]))).toBe(true);
   });
 });
 

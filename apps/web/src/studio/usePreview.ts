@@ -23,6 +23,8 @@ export interface PreviewStatus {
   triangles: number;
   enclosed: number | null;
   isovalue: number | null;
+  /** Largest |ψ| on the preview grid (a0^-3/2): no |ψ| surface exists above it. */
+  maxAbs: number | null;
   n: number;
   error: string | null;
 }
@@ -47,6 +49,7 @@ export function usePreview(state: OrbitalState | null, gridN: number, extent: 'a
     triangles: 0,
     enclosed: null,
     isovalue: null,
+    maxAbs: null,
     n: 0,
     error: null,
   });
@@ -80,7 +83,7 @@ export function usePreview(state: OrbitalState | null, gridN: number, extent: 'a
       const msg = ev.data;
       if (msg.type === 'sampled') {
         if (msg.seq !== sampleSeq.current) return;
-        setStatus((s) => ({ ...s, sampleMs: msg.ms, n: msg.n }));
+        setStatus((s) => ({ ...s, sampleMs: msg.ms, n: msg.n, maxAbs: msg.maxAbs }));
         return;
       }
       if (inFlight.current && msg.seq === inFlight.current.seq) {
@@ -128,7 +131,7 @@ export function usePreview(state: OrbitalState | null, gridN: number, extent: 'a
     sampleSeq.current = s;
     inFlight.current = null;
     pending.current = null;
-    setStatus((st) => ({ ...st, phase: 'sampling', error: null }));
+    setStatus((st) => ({ ...st, phase: 'sampling', error: null, maxAbs: null }));
     send({ type: 'sample', seq: s, state, n, extent });
     if (ruleRef.current) requestSurface(ruleRef.current);
     // stateKey stands for the state's content

@@ -13,7 +13,7 @@ export type PreviewRequest =
     };
 
 export type PreviewResponse =
-  | { type: 'sampled'; seq: number; n: number; extent: number; ms: number }
+  | { type: 'sampled'; seq: number; n: number; extent: number; ms: number; /** Largest |ψ| on the grid, a0^-3/2. */ maxAbs: number }
   | {
       type: 'surface';
       seq: number;

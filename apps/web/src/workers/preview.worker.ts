@@ -31,7 +31,13 @@ function handle(req: PreviewRequest): void {
     const im = compiled.isReal ? null : new Float32Array(N);
     compiled.sampleGrid({ n: req.n, extent: extent as never }, re, im);
     current = { seq: req.seq, compiled, n: req.n, extent, re, im };
-    post({ type: 'sampled', seq: req.seq, n: req.n, extent, ms: performance.now() - t0 });
+    // The |ψ| rule's upper limit: above it there is no surface.
+    let max2 = 0;
+    for (let i = 0; i < N; i++) {
+      const a = re[i] * re[i] + (im ? im[i] * im[i] : 0);
+      if (a > max2) max2 = a;
+    }
+    post({ type: 'sampled', seq: req.seq, n: req.n, extent, ms: performance.now() - t0, maxAbs: Math.sqrt(max2) });
     return;
   }
   if (!current || current.seq !== req.sampleSeq) {
