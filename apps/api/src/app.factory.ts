@@ -5,7 +5,7 @@ import { ValidationPipe, type LogLevel } from '@nestjs/common';
 import { NestFactory } from '@nestjs/core';
 import type { NestExpressApplication } from '@nestjs/platform-express';
 import type { NextFunction, Request, Response } from 'express';
-import type { AppConfig } from './config/config';
+import { type AppConfig } from '@psiform/server';
 import { AppModule } from './app.module';
 
 export const API_PREFIX = 'api';

@@ -12,3 +12,4 @@ export * from './metadata';
 export * from './bundle';
 export * from './typeset';
 export * from './file-names';
+export * from './preflight';

@@ -1,10 +1,8 @@
 import { ServiceUnavailableException, UnauthorizedException } from '@nestjs/common';
 import { JwtService } from '@nestjs/jwt';
 import { hashSync } from 'bcryptjs';
-import { AttemptCounter, type AttemptCount } from '../infra/redis/attempt-counter';
+import { AttemptCounter, type AttemptCount, UsersStore, type NewUser, type UserEntity } from '@psiform/server';
 import { TooManyRequestsException } from '../common/too-many-requests.exception';
-import { UsersStore, type NewUser } from '../users/users.repository';
-import type { UserEntity } from '../users/user.entity';
 import { AuthService } from './auth.service';
 import { LoginThrottle } from './login-throttle';
 

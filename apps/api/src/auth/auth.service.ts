@@ -1,8 +1,7 @@
 import { Injectable, UnauthorizedException } from '@nestjs/common';
 import { JwtService } from '@nestjs/jwt';
 import type { LoginResponse } from '@psiform/contracts';
-import { UsersStore } from '../users/users.repository';
-import { toUserDto } from '../users/user.entity';
+import { UsersStore, toUserDto } from '@psiform/server';
 import { dummyPasswordHash, verifyPassword } from '../users/password';
 import { LoginThrottle } from './login-throttle';
 import type { JwtPayload } from './jwt.strategy';

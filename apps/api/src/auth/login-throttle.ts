@@ -1,5 +1,5 @@
 import { Inject, Injectable, Logger, Optional, ServiceUnavailableException } from '@nestjs/common';
-import { AttemptCounter } from '../infra/redis/attempt-counter';
+import { AttemptCounter } from '@psiform/server';
 import { TooManyRequestsException } from '../common/too-many-requests.exception';
 
 export interface LoginThrottlePolicy {

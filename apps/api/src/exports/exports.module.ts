@@ -5,7 +5,7 @@ import { FiguresModule } from '../figures/figures.module';
 import { JobsModule } from '../jobs/jobs.module';
 import { ExportsController } from './exports.controller';
 import { ExportsService } from './exports.service';
-import { FigureSetsStore, TypeormFigureSetsStore } from './figure-sets.repository';
+import { FigureSetsStore, TypeormFigureSetsStore } from '@psiform/server';
 
 @Module({
   imports: [PublicationsModule, FiguresModule, JobsModule],

@@ -1,13 +1,10 @@
 import { BadRequestException, ForbiddenException, Injectable, NotFoundException } from '@nestjs/common';
 import { FIGURE_SET_LIMITS, parseRecipe, titleProblem, type CreateFigureSetRequest, type CreateJobResponse, type FigureSetDto, type UserDto } from '@psiform/contracts';
 import { FiguresService } from '../figures/figures.service';
-import { FiguresStore } from '../figures/figures.repository';
-import type { FigureEntity } from '../figures/figure.entity';
+import { FiguresStore, type FigureEntity, FigureSetsStore, toFigureSetDto } from '@psiform/server';
 import { JobsService } from '../jobs/jobs.service';
 import { MembershipService } from '../publications/membership.service';
 import { parseExportRequest } from './export-request';
-import { FigureSetsStore } from './figure-sets.repository';
-import { toFigureSetDto } from './figure-set.entity';
 
 type Caller = Pick<UserDto, 'id' | 'role'>;
 

@@ -2,6 +2,7 @@ import { Transform, Type } from 'class-transformer';
 import { IsDefined, IsIn, IsInt, IsNotEmpty, IsOptional, IsString, IsUUID, Max, MaxLength, Min } from 'class-validator';
 import { FIGURE_STATUSES, TEXT_LIMITS, titleProblem, type CreateFigureRequest, type FigureStatus, type UpdateFigureRequest } from '@psiform/contracts';
 import type { ValidationArguments } from 'class-validator';
+import { FIGURE_SORTS, type FigureSort } from '@psiform/server';
 
 const trim = ({ value }: { value: unknown }) => (typeof value === 'string' ? value.trim() : value);
 
@@ -36,8 +37,6 @@ export class UpdateFigureBody implements UpdateFigureRequest {
   recipe?: unknown;
 }
 
-export const FIGURE_SORTS = ['updatedAt', 'createdAt', 'title', 'status'] as const;
-export type FigureSort = (typeof FIGURE_SORTS)[number];
 
 export class ListFiguresQuery {
   @IsOptional()

@@ -4,7 +4,7 @@ import { CurrentUser, Roles } from '../auth/auth.decorators';
 import { uuidParam } from '../common/uuid-param.pipe';
 import { CommentBody, OptionalNoteBody, RequestChangesBody } from './reviews.dto';
 import { ReviewsService } from './reviews.service';
-import { REVIEW_TRANSITIONS as T } from './review-transitions';
+import { REVIEW_TRANSITIONS as T } from '@psiform/server';
 
 /** Review steps on a figure; roles from the transition table, membership and state in ReviewsService. */
 @Controller('figures')

@@ -3,7 +3,7 @@ import { APP_INTERCEPTOR } from '@nestjs/core';
 import { DataSource } from 'typeorm';
 import { PublicationsModule } from '../publications/publications.module';
 import { MailNoticesModule } from '../mail-notices/mail-notices.module';
-import { ReviewsStore, TypeormReviewsStore } from './reviews.repository';
+import { ReviewsStore, TypeormReviewsStore } from '@psiform/server';
 import { ReviewsService } from './reviews.service';
 import { ReviewDeskController, ReviewsController } from './reviews.controller';
 import { FigureEditInterceptor } from './figure-edit.interceptor';

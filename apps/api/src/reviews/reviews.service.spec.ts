@@ -1,13 +1,8 @@
 import { ConflictException, ForbiddenException, NotFoundException } from '@nestjs/common';
 import type { FigureStatus, MailNoticeJob, UserDto } from '@psiform/contracts';
-import type { FigureEntity } from '../figures/figure.entity';
-import type { FigureVersionEntity } from '../figures/figure-version.entity';
+import { type FigureEntity, type FigureVersionEntity, type NewAuditEntry, ReviewsStore, type HouseRules, type ReviewTx, type ReviewRoundEntity, type CommentEntity } from '@psiform/server';
 import type { MembershipService } from '../publications/membership.service';
 import type { NoticesService } from '../mail-notices/notices.service';
-import type { NewAuditEntry } from '../audit/audit.repository';
-import { ReviewsStore, type HouseRules, type ReviewTx } from './reviews.repository';
-import type { ReviewRoundEntity } from './review-round.entity';
-import type { CommentEntity } from './comment.entity';
 import { ReviewsService } from './reviews.service';
 
 const PUB = 'pub-1';

@@ -3,10 +3,7 @@ import type { CommentDto, FigureStatus, ReviewAction, ReviewDeskItemDto, ReviewT
 import { MembershipService } from '../publications/membership.service';
 import { NoticesService } from '../mail-notices/notices.service';
 import { approvedNotice, changesRequestedNotice, submittedNotice, type NoticeFigure } from '../mail-notices/compose';
-import type { FigureEntity } from '../figures/figure.entity';
-import { ReviewsStore, type ReviewTx } from './reviews.repository';
-import { approvalOutcome, assertTransition, isEditable, TransitionConflict, type ApprovalPart } from './review-transitions';
-import type { CommentEntity } from './comment.entity';
+import { type FigureEntity, ReviewsStore, type ReviewTx, approvalOutcome, assertTransition, isEditable, TransitionConflict, type ApprovalPart, type CommentEntity } from '@psiform/server';
 
 type Caller = Pick<UserDto, 'id' | 'role'>;
 

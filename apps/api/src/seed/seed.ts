@@ -1,8 +1,6 @@
 import { hash } from 'bcryptjs';
 import type { DataSource } from 'typeorm';
-import { UserEntity } from '../users/user.entity';
-import { PublicationEntity } from '../publications/publication.entity';
-import { MembershipEntity } from '../publications/membership.entity';
+import { UserEntity, PublicationEntity, MembershipEntity } from '@psiform/server';
 import { DEMO_PASSWORD, DEMO_PUBLICATION, DEMO_USERS } from './demo-scenario';
 import { BCRYPT_ROUNDS } from '../users/password';
 

@@ -4,17 +4,11 @@ import type { Readable } from 'node:stream';
 import { BadRequestException, HttpException, Inject, Injectable, PayloadTooLargeException } from '@nestjs/common';
 import busboy from 'busboy';
 import { RECIPE_LIMITS, RECIPE_VERSION, UPLOAD_FORMATS, type Recipe, type UploadFormat, type UploadResponse, type UserDto } from '@psiform/contracts';
-import { APP_CONFIG } from '../config/config.tokens';
-import type { AppConfig } from '../config/config';
-import { ObjectStorage } from '../infra/storage/object-storage';
+import { APP_CONFIG, type AppConfig, ObjectStorage, AssetStore, FiguresStore, uploadKey, uploadTempKey, CubeCheck, parseSidecar, UploadRejected, type CubeCheckResult, type CubeGeometry } from '@psiform/server';
 import { MembershipService } from '../publications/membership.service';
-import { AssetStore } from '../assets/asset-store';
-import { FiguresStore } from '../figures/figures.repository';
 import { FiguresService } from '../figures/figures.service';
 import { FIGURE_TITLE_MAX } from '../figures/figures.dto';
 import { validateRecipe } from '../figures/recipe-input';
-import { uploadKey, uploadTempKey } from '../pipeline/storage-keys';
-import { CubeCheck, parseSidecar, UploadRejected, type CubeCheckResult, type CubeGeometry } from './cube-check';
 
 type Caller = Pick<UserDto, 'id' | 'role'>;
 type Sidecar = ReturnType<typeof parseSidecar>;

@@ -1,7 +1,7 @@
 import { Injectable } from '@nestjs/common';
 import { UnrecoverableError } from 'bullmq';
 import { QUEUES, type Recipe } from '@psiform/contracts';
-import { AssetStore, CONTENT_TYPES, ENGINE_VERSION, JobsStore, ObjectStorage, exportKey, sha256Hex, type JobPayload, type NewAsset } from '@psiform/api/pipeline';
+import { AssetStore, CONTENT_TYPES, ENGINE_VERSION, JobsStore, ObjectStorage, exportKey, sha256Hex, type JobPayload, type NewAsset } from '@psiform/server';
 import { buildBundle, figureMetadata, type BundleFile, type MeshResultLike } from '@psiform/print';
 import type { JobProcessor, ProcessorJob } from '../queues/job-processor';
 import type { FigureRenderer } from '../render/figure-renderer';

@@ -1,6 +1,6 @@
 import { UnrecoverableError } from 'bullmq';
 import type { Recipe } from '@psiform/contracts';
-import { AssetStore, CONTENT_TYPES, ObjectStorage, meshKey, type MeshStage, type NewAsset } from '@psiform/api/pipeline';
+import { AssetStore, CONTENT_TYPES, ObjectStorage, meshKey, type MeshStage, type NewAsset } from '@psiform/server';
 import { MODEL_NOTE } from '@psiform/meshing';
 import { cubeFromNrrd, encode, extract, gridLabel, nodalSurface, sampleComputed, surfaceStats, threshold, type Field, type Surface } from './mesh-pipeline';
 

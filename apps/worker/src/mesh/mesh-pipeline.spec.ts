@@ -3,7 +3,7 @@ import { buildOrbitalMesh, meshStats } from '@psiform/meshing';
 import { autoExtent } from '@psiform/orbitals';
 import { closeParallelSampler } from '@psiform/orbitals/node';
 import { cubeFromNrrd, encode, extract, gridLabel, nodalSurface, phaseWheel, sampleComputed, stateOf, threshold, type Field } from './mesh-pipeline';
-import { nrrdHeaderFor } from '@psiform/api/pipeline';
+import { nrrdHeaderFor } from '@psiform/server';
 
 const recipe = (over: Record<string, unknown>): Recipe => {
   const r = parseRecipe({ version: 1, content: { Z: 1, terms: [{ n: 2, l: 1, m: 0, basis: 'real', re: 1 }] }, grid: { n: 24 }, surface: { rule: 'enclosed', fraction: 0.9 }, ...over });

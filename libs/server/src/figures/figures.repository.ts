@@ -6,8 +6,11 @@ import { FigureVersionEntity } from './figure-version.entity';
 import { AssetEntity } from '../assets/asset.entity';
 import { UserEntity } from '../users/user.entity';
 import type { NewAsset } from '../jobs/jobs.repository';
-import type { FigureSort } from './figures.dto';
 import { isEditable } from '../reviews/review-transitions';
+
+/** Columns the figure list can be sorted by (GET /api/figures?sort=). */
+export const FIGURE_SORTS = ['updatedAt', 'createdAt', 'title', 'status'] as const;
+export type FigureSort = (typeof FIGURE_SORTS)[number];
 
 export interface NewVersion {
   recipe: Recipe;
