@@ -1,38 +1,36 @@
-// Names of delivered files, made from the figure through ONE template. A publication's delivery profile may
-// bring its own template later (it is a plain value: pass it to fileNameFor); everything that names a file
-// (download links, the files inside a bundle) goes through here.
+// Names of delivered files, made from the figure through ONE template: the publication's delivery profile's
+// `fileNameTemplate` (libs/contracts print.ts: its words and its default). Everything that names a file
+// (download links, the files inside a bundle) goes through fileNameFor.
 
-import { plainLabel, plainText, typeset } from './typeset';
+import { DEFAULT_DELIVERY_PROFILE, FILE_NAME_TOKENS } from '@psiform/contracts';
+import { plainText, typeset } from './typeset';
 
-/**
- * Placeholders:
- * - {title}: the figure title up to its first colon, as a slug ("Plate 4.7: the 3d_z² orbital" -> plate-4-7);
- * - {label}: the orbital label as a slug (3d_z² -> 3dz2, sp³ #2 -> sp3-2, 2p(m=−1) -> 2p-mminus1);
- * - {part}: what the file is beyond its format (radial, section-xz, bundle, thumbnail; empty for the main image);
- * - {size}: the physical size, 180x120mm (empty for files without one, such as meshes);
- * - {dpi}: 600dpi (empty for vector and 3D files);
- * - {version}: v3.
- * Empty placeholders drop out with their separator; the extension comes from the format.
- */
-export const DEFAULT_FILE_NAME_TEMPLATE = '{title}_{label}_{part}_{size}_{dpi}';
-
-export const FILE_NAME_PLACEHOLDERS = ['title', 'label', 'part', 'size', 'dpi', 'version'] as const;
-export type FileNamePlaceholder = (typeof FILE_NAME_PLACEHOLDERS)[number];
+export type FileNameToken = (typeof FILE_NAME_TOKENS)[number];
 
 /** File formats a figure is delivered in, with their extensions. */
-export const FILE_EXTENSIONS = { png: 'png', svg: 'svg', glb: 'glb', stl: 'stl', ply: 'ply', obj: 'obj', nrrd: 'nrrd', bundle: 'zip', json: 'json', txt: 'txt' } as const;
+export const FILE_EXTENSIONS = { png: 'png', tiff: 'tif', pdf: 'pdf', svg: 'svg', glb: 'glb', stl: 'stl', ply: 'ply', obj: 'obj', nrrd: 'nrrd', bundle: 'zip', json: 'json', txt: 'txt' } as const;
 export type FileFormat = keyof typeof FILE_EXTENSIONS;
 
 export interface FileNameFields {
-  title: string;
-  /** Orbital label as the engine writes it ('3d_z²'). */
+  /** The publication's title ({publication}). */
+  publication?: string;
+  /** The figure's title ({figure}: up to its first colon, "Plate 4.7: the 3d_z² orbital" -> plate-4-7). */
+  figure: string;
+  /** Orbital label as the engine writes it ('3d_z²') ({label}). */
   label?: string;
+  version?: number;
   format: FileFormat;
+  /**
+   * What the file is beyond its format, for files other than the figure image itself: radial, section-xz,
+   * bundle, thumbnail ({kind}). When the template has no {kind}, a part is added before the extension, so
+   * two different files of one figure never share a name.
+   */
   part?: string;
   widthMm?: number;
   heightMm?: number;
   dpi?: number;
-  version?: number;
+  /** rgb or cmyk ({colour}). */
+  colour?: string;
 }
 
 /** The most a name may hold before its extension (common file systems take 255 bytes; we stay well inside). */
@@ -40,7 +38,7 @@ export const FILE_NAME_MAX = 120;
 
 /** Lower-case ASCII slug: letters, digits and single hyphens; '²' -> 2, 'Å' -> a (NFKD folds accents and scripts). */
 export function slug(text: string, max = 40): string {
-  const s = plainLabel(text)
+  const s = plainText(typeset(text))
     .normalize('NFKD')
     .replace(/[\u0300-\u036f]/g, '')
     .toLowerCase()
@@ -68,38 +66,44 @@ function mm(x: number): string {
   return String(Number(x.toFixed(1)));
 }
 
-/** Checks a template: known placeholders only, at least {title} or {label}, nothing that could leave a folder. */
-export function templateProblem(template: unknown): string | null {
-  if (typeof template !== 'string' || template.trim() === '') return 'must be a non-empty text such as {title}_{label}_{size}_{dpi}';
-  if (template.length > 200) return 'must be at most 200 characters';
-  const unknown = [...template.matchAll(/\{([^}]*)\}/g)].map((m) => m[1]).filter((p) => !(FILE_NAME_PLACEHOLDERS as readonly string[]).includes(p));
-  if (unknown.length) return `has unknown placeholders ${unknown.map((p) => `{${p}}`).join(', ')} (known: ${FILE_NAME_PLACEHOLDERS.map((p) => `{${p}}`).join(', ')})`;
-  if (!/\{(title|label)\}/.test(template)) return 'must contain {title} or {label}, so files of different figures differ';
-  if (/[/\\]|\.\./.test(template.replace(/\{[^}]*\}/g, ''))) return 'must not contain /, \\ or ..';
-  return null;
-}
-
 /**
- * The file name for a delivered file: the template filled in, unsafe characters replaced, empty placeholders
- * removed with their separators, at most FILE_NAME_MAX characters, plus the extension of the format.
- * e.g. fileNameFor({title: 'Plate 4.7', label: '3d_z²', format: 'png', widthMm: 180, heightMm: 120, dpi: 600})
+ * The file name for a delivered file: the template's words filled in; a segment of the template (the text
+ * between '_' or '-' separators, e.g. "{widthMm}x{heightMm}mm") whose word has no value for this file is left out
+ * with its separator (a mesh has no size, an SVG no dpi); unsafe characters replaced; at most FILE_NAME_MAX
+ * characters; then the extension of the format.
+ * e.g. fileNameFor({publication: 'Shells and Lobes', figure: 'Plate 4.7', label: '3d_z²', format: 'png',
+ * widthMm: 180, heightMm: 120, dpi: 600}, '{figure}_{label}_{widthMm}x{heightMm}mm_{dpi}dpi')
  * -> 'plate-4-7_3dz2_180x120mm_600dpi.png'.
  */
-export function fileNameFor(fields: FileNameFields, template: string = DEFAULT_FILE_NAME_TEMPLATE): string {
-  const problem = templateProblem(template);
-  if (problem) throw new RangeError(`file-name template ${problem}`);
+export function fileNameFor(fields: FileNameFields, template: string = DEFAULT_DELIVERY_PROFILE.fileNameTemplate): string {
+  if (typeof template !== 'string' || template.trim() === '') throw new RangeError('file-name template must be a non-empty text');
+  const unknown = [...template.matchAll(/\{([^}]*)\}/g)].map((m) => m[1]).filter((w) => !(FILE_NAME_TOKENS as readonly string[]).includes(w));
+  if (unknown.length) throw new RangeError(`file-name template has unknown words ${unknown.map((w) => `{${w}}`).join(', ')} (known: ${FILE_NAME_TOKENS.map((w) => `{${w}}`).join(', ')})`);
   const ext = FILE_EXTENSIONS[fields.format];
   if (!ext) throw new RangeError(`format must be one of ${Object.keys(FILE_EXTENSIONS).join(', ')} (got ${String(fields.format)})`);
-  const values: Record<FileNamePlaceholder, string> = {
-    title: slug(fields.title.split(':')[0] || fields.title),
+  const values: Record<FileNameToken, string> = {
+    publication: fields.publication ? slug(fields.publication, 32) : '',
+    figure: slug(fields.figure.split(':')[0] || fields.figure),
     label: fields.label ? labelSlug(fields.label) : '',
-    part: fields.part ? slug(fields.part, 24) : '',
-    size: fields.widthMm !== undefined && fields.heightMm !== undefined ? `${mm(fields.widthMm)}x${mm(fields.heightMm)}mm` : '',
-    dpi: fields.dpi !== undefined ? `${Math.round(fields.dpi)}dpi` : '',
     version: fields.version !== undefined ? `v${fields.version}` : '',
+    kind: fields.part ? slug(fields.part, 24) : '',
+    widthMm: fields.widthMm !== undefined ? mm(fields.widthMm) : '',
+    heightMm: fields.heightMm !== undefined ? mm(fields.heightMm) : '',
+    dpi: fields.dpi !== undefined ? String(Math.round(fields.dpi)) : '',
+    colour: fields.colour ? slug(fields.colour, 8) : '',
   };
-  let name = template.replace(/\{([a-z]+)\}/g, (_, k: FileNamePlaceholder) => values[k]);
-  // Only safe characters; separators that an empty placeholder left doubled or hanging are removed.
+  // Split the TEMPLATE (not the values, which contain hyphens) into segments and their separators.
+  const pieces = template.split(/([_-])/);
+  const kept: string[] = [];
+  for (let i = 0; i < pieces.length; i += 2) {
+    const seg = pieces[i];
+    const words = [...seg.matchAll(/\{([a-zA-Z]+)\}/g)].map((m) => m[1] as FileNameToken);
+    const filled = seg.replace(/\{([a-zA-Z]+)\}/g, (_, w: FileNameToken) => values[w]);
+    // A segment stays when it has text and every word in it has a value; it brings the separator before it.
+    if (filled !== '' && words.every((w) => values[w] !== '')) kept.push((kept.length && i > 0 ? pieces[i - 1] : '') + filled);
+  }
+  let name = kept.join('');
+  if (fields.part && !/\{kind\}/.test(template)) name += `_${values.kind}`;
   name = name
     .replace(/[^A-Za-z0-9._-]+/g, '-')
     .replace(/([_.-])[_.-]+/g, '$1')

@@ -1,34 +1,43 @@
+import { DEFAULT_DELIVERY_PROFILE } from '@psiform/contracts';
 import { prettyLabel } from '@psiform/orbitals';
 import { describe, expect, it } from 'vitest';
-import { attachmentDisposition, DEFAULT_FILE_NAME_TEMPLATE, FILE_NAME_MAX, fileNameFor, slug, templateProblem } from '../src';
+import { attachmentDisposition, FILE_NAME_MAX, fileNameFor, slug } from '../src';
 
-describe('fileNameFor: files named from the figure through one template', () => {
-  it('a print PNG: title up to the colon, label, size and dpi', () => {
-    expect(fileNameFor({ title: 'Plate 4.7: the 3d_z² orbital', label: prettyLabel('3dz2'), format: 'png', widthMm: 180, heightMm: 120, dpi: 600 })).toBe('plate-4-7_3dz2_180x120mm_600dpi.png');
+// The template language is the delivery profile's (libs/contracts print.ts FILE_NAME_TOKENS).
+const FIGURE_LABEL_SIZE_DPI = '{figure}_{label}_{widthMm}x{heightMm}mm_{dpi}dpi';
+
+describe('fileNameFor: files named from the figure through the delivery profile template', () => {
+  it('a print PNG: figure title up to the colon, label, size and dpi', () => {
+    expect(fileNameFor({ figure: 'Plate 4.7: the 3d_z² orbital', label: prettyLabel('3dz2'), format: 'png', widthMm: 180, heightMm: 120, dpi: 600 }, FIGURE_LABEL_SIZE_DPI)).toBe('plate-4-7_3dz2_180x120mm_600dpi.png');
   });
-  it('empty placeholders drop out with their separator: meshes have no size, vector files no dpi', () => {
-    expect(fileNameFor({ title: 'Plate 4.7', label: '2p_x', format: 'glb' })).toBe('plate-4-7_2px.glb');
-    expect(fileNameFor({ title: 'Plate 4.7', label: '2p(m=+1)', format: 'svg', part: 'section xz', widthMm: 88.5, heightMm: 60 })).toBe('plate-4-7_2p-mplus1_section-xz_88.5x60mm.svg');
-    expect(fileNameFor({ title: 'Plate 4.7', label: '2p(m=-1)', format: 'glb' })).toBe('plate-4-7_2p-mminus1.glb');
-    expect(fileNameFor({ title: 'Plate 4.7', label: 'sp³ #2', format: 'bundle', part: 'bundle' })).toBe('plate-4-7_sp3-2_bundle.zip');
+  it('the default template (delivery profile default) puts the publication first', () => {
+    expect(DEFAULT_DELIVERY_PROFILE.fileNameTemplate).toContain('{publication}');
+    expect(fileNameFor({ publication: 'Shells and Lobes', figure: 'Plate 4.7', label: '3d_z²', format: 'png', widthMm: 89, heightMm: 60, dpi: 300 })).toBe('shells-and-lobes_plate-4-7_3dz2_89x60mm_300dpi.png');
   });
-  it('a publication can bring its own template (a plain value)', () => {
-    expect(fileNameFor({ title: 'Fig. 12', label: '4f_xyz', format: 'png', widthMm: 85, heightMm: 60, dpi: 1200, version: 3 }, 'ch04-{title}-{version}_{dpi}')).toBe('ch04-fig-12-v3_1200dpi.png');
+  it('segments whose words have no value drop out with their separator: meshes have no size, vector files no dpi', () => {
+    expect(fileNameFor({ figure: 'Plate 4.7', label: '2p_x', format: 'glb' }, FIGURE_LABEL_SIZE_DPI)).toBe('plate-4-7_2px.glb');
+    expect(fileNameFor({ figure: 'Plate 4.7', label: '2p(m=+1)', format: 'svg', part: 'section xz', widthMm: 88.5, heightMm: 60 }, FIGURE_LABEL_SIZE_DPI)).toBe('plate-4-7_2p-mplus1_88.5x60mm_section-xz.svg');
+    expect(fileNameFor({ figure: 'Plate 4.7', label: '2p(m=-1)', format: 'glb' }, FIGURE_LABEL_SIZE_DPI)).toBe('plate-4-7_2p-mminus1.glb');
+    expect(fileNameFor({ figure: 'Plate 4.7', label: 'sp³ #2', format: 'bundle', part: 'bundle' }, FIGURE_LABEL_SIZE_DPI)).toBe('plate-4-7_sp3-2_bundle.zip');
+  });
+  it('two different files of one figure never share a name, whatever the template', () => {
+    const base = { figure: 'Plate 4.7', label: '3d_z²', format: 'svg' as const, widthMm: 89, heightMm: 60 };
+    expect(fileNameFor({ ...base, part: 'radial' }, '{figure}')).not.toBe(fileNameFor({ ...base, part: 'section-xz' }, '{figure}'));
+  });
+  it('a publication can bring its own template with {kind}, {version} and {colour}', () => {
+    expect(fileNameFor({ figure: 'Fig. 12', label: '4f_xyz', format: 'png', widthMm: 85, heightMm: 60, dpi: 1200, version: 3, colour: 'rgb' }, 'ch04-{figure}-{version}_{dpi}dpi_{colour}')).toBe('ch04-fig-12-v3_1200dpi_rgb.png');
+    expect(fileNameFor({ figure: 'Fig. 12', format: 'svg', part: 'radial' }, '{figure}_{kind}')).toBe('fig-12_radial.svg');
   });
   it('only safe characters, never a folder, bounded length', () => {
-    const n = fileNameFor({ title: 'Ångström scale / "quoted" \\ ../../etc', label: '3d_x²−y²', format: 'png', widthMm: 89, heightMm: 60, dpi: 300 });
+    const n = fileNameFor({ figure: 'Ångström scale / "quoted" \\ ../../etc', label: '3d_x²−y²', format: 'png', widthMm: 89, heightMm: 60, dpi: 300 }, FIGURE_LABEL_SIZE_DPI);
     expect(n).toMatch(/^[a-z0-9._-]+\.png$/);
     expect(n).toBe('angstrom-scale-quoted-etc_3dx2-y2_89x60mm_300dpi.png');
-    const long = fileNameFor({ title: 'x'.repeat(500), label: 'y'.repeat(500), format: 'png' }, '{title}{title}{title}{label}{label}{label}');
+    const long = fileNameFor({ figure: 'x'.repeat(500), label: 'y'.repeat(500), format: 'png' }, '{figure}{figure}{figure}{label}{label}{label}');
     expect(long.length).toBeLessThanOrEqual(FILE_NAME_MAX + 4);
-    expect(fileNameFor({ title: '???', format: 'stl' })).toBe('figure.stl');
+    expect(fileNameFor({ figure: '???', format: 'stl' }, '{figure}')).toBe('figure.stl');
   });
-  it('bad templates are refused with the reason', () => {
-    expect(templateProblem(DEFAULT_FILE_NAME_TEMPLATE)).toBeNull();
-    expect(templateProblem('{title}_{colour}')).toMatch(/unknown placeholders \{colour\}/);
-    expect(templateProblem('{size}_{dpi}')).toMatch(/\{title\} or \{label\}/);
-    expect(templateProblem('../{title}')).toMatch(/must not contain/);
-    expect(() => fileNameFor({ title: 'a', format: 'png' }, '{nope}')).toThrow(/file-name template/);
+  it('unknown words are refused', () => {
+    expect(() => fileNameFor({ figure: 'a', format: 'png' }, '{figure}_{nope}')).toThrow(/unknown words \{nope\}/);
   });
   it('slug folds accents and scripts to ASCII', () => {
     expect(slug('Li²⁺ Ångström')).toBe('li2-angstrom');
