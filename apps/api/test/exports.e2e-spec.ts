@@ -203,6 +203,28 @@ describe('exports (e2e)', () => {
     expect(Buffer.from(files['figure.glb']).subarray(0, 4).toString('latin1')).toBe('glTF');
   }, 120000);
 
+  it('downloads are attachments named from the figure through the file-name template; every file of the figure gets its own name', async () => {
+    const png = pngJob.assets.find((a) => a.kind === 'png')!;
+    const figure = (await t.http().get(`/api/figures/${figureId}`).set(auth(tok.editor)).expect(200)).body;
+    const names = new Map<string, string>();
+    for (const a of figure.assets as { id: string; kind: string; stats: { thumbnail?: boolean } | null }[]) {
+      const link = (await t.http().get(`/api/assets/${a.id}/link`).set(auth(tok.editor)).expect(200)).body;
+      expect(link.fileName).toMatch(/^[a-z0-9._-]+$/);
+      names.set(a.id, link.fileName);
+      // The storage answers the presigned link as an attachment with that name (RFC 6266), so the browser
+      // saves the file and the app's page stays.
+      const res = await fetch(link.url);
+      expect(res.status).toBe(200);
+      expect(res.headers.get('content-disposition')).toBe(`attachment; filename="${link.fileName}"; filename*=UTF-8''${link.fileName}`);
+      await res.arrayBuffer();
+    }
+    // The default delivery profile's template: {publication}_{figure}_{label}_{widthMm}x{heightMm}mm_{dpi}dpi.
+    const slugTitle = `export-2pz-${RUN_ID}`; // "Export 2p_z <run>": the title is typeset first (2p with subscript z), then slugged
+    expect(names.get(png.id)).toBe(`shells-and-lobes_${slugTitle}_2pz_89x60mm_300dpi.png`);
+    expect([...names.values()].filter((n) => n.endsWith('.glb'))).toContain(`shells-and-lobes_${slugTitle}_2pz.glb`);
+    expect(new Set(names.values()).size).toBe(names.size); // never two files under one name
+  });
+
   it('invalid export requests answer 400 naming the field and queue nothing', async () => {
     const before = await jobCount();
     const cases: [unknown, RegExp][] = [

@@ -1,3 +1,5 @@
+import { readFileSync } from 'node:fs';
+import path from 'node:path';
 import { PSIFORM_PALETTE, recipeSchema } from '@psiform/contracts';
 import { describe, expect, it } from 'vitest';
 import { checkSwatchbook, contrastRatio, deltaE2000, PHASE_DELTA_E_WARN, simulateCvd, WCAG_AA_GRAPHICS } from '../src';
@@ -6,6 +8,11 @@ import { checkSwatchbook, contrastRatio, deltaE2000, PHASE_DELTA_E_WARN, simulat
 describe("Psiform's default palette", () => {
   const { positive, negative, label } = PSIFORM_PALETTE;
   const backgrounds = { default: PSIFORM_PALETTE.background, white: '#ffffff', paper: '#f8f5ee' };
+
+  it("is the brand's Verdigris and Ochre swatchbook (assets/palettes), so the two never drift apart", () => {
+    const book = JSON.parse(readFileSync(path.resolve(__dirname, '../../../assets/palettes/verdigris-and-ochre.json'), 'utf8'));
+    expect({ positive: book.colors.positive, negative: book.colors.negative }).toEqual({ positive, negative });
+  });
 
   it('is what a recipe gets when it names no swatchbook', () => {
     const r = recipeSchema.parse({ version: 1, content: { Z: 1, terms: [{ n: 2, l: 1, m: 0, basis: 'real', re: 1 }] }, grid: { n: 32 }, surface: { rule: 'enclosed', fraction: 0.9 } });
@@ -28,7 +35,7 @@ describe("Psiform's default palette", () => {
     }
   });
 
-  it('is not the red/blue pair: the positive phase is a green-blue (verdigris), the negative a yellow-orange (ochre)', () => {
+  it('is not the red/blue pair: the positive phase is a green-blue (verdigris), the negative an orange-yellow (ochre)', () => {
     const hue = (hex: string) => {
       const [r, g, b] = [1, 3, 5].map((i) => parseInt(hex.slice(i, i + 2), 16) / 255);
       const max = Math.max(r, g, b);

@@ -29,15 +29,16 @@ const finite = (what: string) =>
 const hexColor = z.string().regex(HEX_COLOUR, { message: HEX_COLOUR_MESSAGE });
 
 /**
- * Psiform's own default colours, drawn from the brand (deep verdigris accent #1f5e5b, warm paper, ink): a
- * verdigris for ψ > 0 and an ochre for ψ < 0, not the red/blue pair most tools and textbooks use. They pass
- * our swatchbook checks (libs/colour checkSwatchbook: ΔE00 between the phases ≥ 20 for normal vision and
- * every simulated dichromacy, contrast ≥ 3:1 on the default, white and paper backgrounds; tested in
- * libs/colour/test/default-palette.test.ts). New swatchbooks start from them too.
+ * Psiform's own default colours, from the brand: the phases of the "Verdigris and Ochre" swatchbook
+ * (assets/palettes/verdigris-and-ochre.json; the verdigris is the brand accent #1f5e5b) for ψ > 0 and ψ < 0 —
+ * not the red/blue pair most tools and textbooks use. They pass our swatchbook checks (libs/colour
+ * checkSwatchbook: ΔE00 between the phases ≥ 20 for normal vision and every simulated dichromacy, contrast ≥ 3:1
+ * on the default, white and paper backgrounds; libs/colour/test/default-palette.test.ts, which also keeps this
+ * constant equal to the preset file). New swatchbooks start from them too.
  */
 export const PSIFORM_PALETTE = {
-  positive: '#267069',
-  negative: '#b8741a',
+  positive: '#1f5e5b',
+  negative: '#a86a1c',
   background: '#fbfaf7',
   label: '#1f1d1a',
 } as const;

@@ -35,7 +35,7 @@ describe('parseRecipe: valid documents', () => {
     expect(rec.surface).toEqual({ rule: 'enclosed', fraction: 0.9 });
     expect(rec.phase).toEqual({ mode: 'auto' });
     expect(rec.palette).toEqual({ swatchbookId: null, positive: PSIFORM_PALETTE.positive, negative: PSIFORM_PALETTE.negative });
-    expect(PSIFORM_PALETTE).toMatchObject({ positive: '#267069', negative: '#b8741a' });
+    expect(PSIFORM_PALETTE).toMatchObject({ positive: '#1f5e5b', negative: '#a86a1c' });
     expect(rec.canvas).toEqual({ widthMm: 89, heightMm: 60, dpi: 300 });
     expect(rec.stage.camera).toEqual({ view: 'three_quarter', projection: 'perspective', target: [0, 0, 0], fovDeg: 35, zoom: 1 });
     expect(rec.stage.lights.ambient).toBe(0.35);

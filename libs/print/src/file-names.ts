@@ -12,7 +12,7 @@ export const FILE_EXTENSIONS = { png: 'png', tiff: 'tif', pdf: 'pdf', svg: 'svg'
 export type FileFormat = keyof typeof FILE_EXTENSIONS;
 
 export interface FileNameFields {
-  /** The publication's title ({publication}). */
+  /** The publication's title ({publication}: up to its first colon, "Shells and Lobes: Inorganic …" -> shells-and-lobes). */
   publication?: string;
   /** The figure's title ({figure}: up to its first colon, "Plate 4.7: the 3d_z² orbital" -> plate-4-7). */
   figure: string;
@@ -82,7 +82,7 @@ export function fileNameFor(fields: FileNameFields, template: string = DEFAULT_D
   const ext = FILE_EXTENSIONS[fields.format];
   if (!ext) throw new RangeError(`format must be one of ${Object.keys(FILE_EXTENSIONS).join(', ')} (got ${String(fields.format)})`);
   const values: Record<FileNameToken, string> = {
-    publication: fields.publication ? slug(fields.publication, 32) : '',
+    publication: fields.publication ? slug(fields.publication.split(':')[0] || fields.publication, 32) : '',
     figure: slug(fields.figure.split(':')[0] || fields.figure),
     label: fields.label ? labelSlug(fields.label) : '',
     version: fields.version !== undefined ? `v${fields.version}` : '',
@@ -116,4 +116,29 @@ export function fileNameFor(fields: FileNameFields, template: string = DEFAULT_D
 export function attachmentDisposition(fileName: string): string {
   const ascii = fileName.replace(/[^\x20-\x7e]/g, '_').replace(/["\\]/g, '_');
   return `attachment; filename="${ascii}"; filename*=UTF-8''${encodeURIComponent(fileName)}`;
+}
+
+/**
+ * The name fields of a stored file from its kind and the stats its job wrote (png: widthMm, heightMm, dpi,
+ * thumbnail; svg: svg radial|section, plane, widthMm, heightMm). One mapping for download links and bundles.
+ */
+export function fileFieldsFor(kind: string, stats: Record<string, unknown> | null | undefined): Pick<FileNameFields, 'format' | 'part' | 'widthMm' | 'heightMm' | 'dpi' | 'colour'> {
+  const s = stats ?? {};
+  const n = (k: string) => (typeof s[k] === 'number' && Number.isFinite(s[k]) ? (s[k] as number) : undefined);
+  const size = { widthMm: n('widthMm'), heightMm: n('heightMm') };
+  switch (kind) {
+    case 'png':
+    case 'tiff':
+      if (s.thumbnail === true) return { format: kind, part: 'thumbnail' };
+      return { format: kind, ...size, dpi: n('dpi'), colour: typeof s.colourMode === 'string' ? s.colourMode : kind === 'png' ? 'rgb' : undefined };
+    case 'pdf':
+      return { format: 'pdf', ...size, part: typeof s.part === 'string' ? s.part : undefined };
+    case 'svg':
+      return { format: 'svg', ...size, part: s.svg === 'section' ? `section ${typeof s.plane === 'string' ? s.plane : ''}`.trim() : s.svg === 'radial' ? 'radial' : 'companion' };
+    case 'bundle':
+      return { format: 'bundle', part: 'bundle' };
+    default:
+      if (kind in FILE_EXTENSIONS) return { format: kind as FileFormat };
+      throw new RangeError(`no file name for assets of kind ${JSON.stringify(kind)}`);
+  }
 }

@@ -14,9 +14,9 @@ export interface TextRun {
 
 /**
  * Size and shift of scripts relative to the base font size (common practice in print: scripts at about
- * 70 % of the body size, subscripts dropped by about a fifth of an em, superscripts raised by about a third).
+ * 68 % of the body size, subscripts dropped by about a fifth of an em, superscripts raised by about a third).
  */
-export const SCRIPT_METRICS = { size: 0.7, subShift: 0.22, supShift: 0.38 } as const;
+export const SCRIPT_METRICS = { size: 0.68, subShift: 0.22, supShift: 0.38 } as const;
 
 /** Markup for the length units a figure may use, and for ψ's unit (a0^-3/2). */
 export const UNIT_TEXT = { angstrom: 'Å', bohr: 'a0' } as const;

@@ -1,7 +1,7 @@
 import { DEFAULT_DELIVERY_PROFILE } from '@psiform/contracts';
 import { prettyLabel } from '@psiform/orbitals';
 import { describe, expect, it } from 'vitest';
-import { attachmentDisposition, FILE_NAME_MAX, fileNameFor, slug } from '../src';
+import { attachmentDisposition, FILE_NAME_MAX, fileFieldsFor, fileNameFor, slug } from '../src';
 
 // The template language is the delivery profile's (libs/contracts print.ts FILE_NAME_TOKENS).
 const FIGURE_LABEL_SIZE_DPI = '{figure}_{label}_{widthMm}x{heightMm}mm_{dpi}dpi';
@@ -44,5 +44,31 @@ describe('fileNameFor: files named from the figure through the delivery profile 
   });
   it('Content-Disposition: attachment with an ASCII name and the UTF-8 form (RFC 6266, RFC 8187)', () => {
     expect(attachmentDisposition('plate-4-7_3dz2.png')).toBe(`attachment; filename="plate-4-7_3dz2.png"; filename*=UTF-8''plate-4-7_3dz2.png`);
+  });
+});
+
+describe('fileFieldsFor: the name fields of a stored file from its kind and stats', () => {
+  const t = FIGURE_LABEL_SIZE_DPI;
+  const fig = { figure: 'Plate 4.7: the 3d_z² orbital', label: '3d_z²' };
+  it('a print PNG, a thumbnail, the two SVG companions, a bundle and meshes all get different, telling names', () => {
+    const names = [
+      fileNameFor({ ...fig, ...fileFieldsFor('png', { widthPx: 4252, heightPx: 2835, widthMm: 180, heightMm: 120, dpi: 600 }) }, t),
+      fileNameFor({ ...fig, ...fileFieldsFor('png', { thumbnail: true, widthPx: 320, heightPx: 240, dpi: 96 }) }, t),
+      fileNameFor({ ...fig, ...fileFieldsFor('svg', { svg: 'radial', widthMm: 89, heightMm: 60 }) }, t),
+      fileNameFor({ ...fig, ...fileFieldsFor('svg', { svg: 'section', plane: 'xz', widthMm: 89, heightMm: 60 }) }, t),
+      fileNameFor({ ...fig, ...fileFieldsFor('bundle', { files: [] }) }, t),
+      fileNameFor({ ...fig, ...fileFieldsFor('glb', {}) }, t),
+      fileNameFor({ ...fig, ...fileFieldsFor('stl', null) }, t),
+    ];
+    expect(names).toEqual([
+      'plate-4-7_3dz2_180x120mm_600dpi.png',
+      'plate-4-7_3dz2_thumbnail.png',
+      'plate-4-7_3dz2_89x60mm_radial.svg',
+      'plate-4-7_3dz2_89x60mm_section-xz.svg',
+      'plate-4-7_3dz2_bundle.zip',
+      'plate-4-7_3dz2.glb',
+      'plate-4-7_3dz2.stl',
+    ]);
+    expect(() => fileFieldsFor('mystery', {})).toThrow(/kind "mystery"/);
   });
 });

@@ -49,7 +49,7 @@ describe('figureMetadata', () => {
     expect(meta.terms).toEqual([{ n: 3, l: 2, m: -2, subshell: '3d', basis: 'real', coefficient: { re: 1, im: 0 }, label: '3d_xy' }]);
     expect(meta.surfaces.map((s) => s.phase).sort()).toEqual(['+', '-']);
     expect(meta.engineVersion).toBe('0.1.0');
-    expect(meta.palette.positive).toBe('#267069'); // Psiform's default verdigris (contracts PSIFORM_PALETTE)
+    expect(meta.palette.positive).toBe('#1f5e5b'); // Psiform's default verdigris (contracts PSIFORM_PALETTE)
   });
   it('ion names for one-electron ions: H, He⁺, Li²⁺, Be³⁺, C⁵⁺, Ne⁹⁺, Zn²⁹⁺ (charge Z − 1; symbols from memory)', () => {
     expect([1, 2, 3, 4, 6, 10, 30].map(ionName)).toEqual(['H', 'He⁺', 'Li²⁺', 'Be³⁺', 'C⁵⁺', 'Ne⁹⁺', 'Zn²⁹⁺']);

@@ -65,7 +65,7 @@ describe('runsToSvg: real sub- and superscripts as tspans', () => {
   it('shifts with dy and takes the shift back on the next run; script size from SCRIPT_METRICS', () => {
     const svg = runsToSvg(typeset('a0^−3/2 here'), 10);
     // a, then sub 0 (down 2.2), then sup (up 2.2 + 3.8 = 6), then base (down 3.8).
-    expect(svg).toBe('a<tspan dy="2.2" font-size="7" class="sub">0</tspan><tspan dy="-6" font-size="7" class="sup">−3/2</tspan><tspan dy="3.8"> here</tspan>');
+    expect(svg).toBe('a<tspan dy="2.2" font-size="6.8" class="sub">0</tspan><tspan dy="-6" font-size="6.8" class="sup">−3/2</tspan><tspan dy="3.8"> here</tspan>');
     const doc = new DOMParser().parseFromString(`<svg xmlns="http://www.w3.org/2000/svg"><text>${svgText('3d_x²−y² & <b>', 3)}</text></svg>`, 'image/svg+xml');
     const tspans = Array.from(doc.getElementsByTagName('tspan'));
     expect(tspans.map((t) => t.getAttribute('class'))).toEqual(['sub', null]);
@@ -92,9 +92,9 @@ describe('drawRuns / measureRuns on a Canvas 2D stand-in that records calls', ()
     const w = drawRuns(ctx, runs, 5, 100, 10, 'Lato', 700);
     expect(calls).toEqual([
       { text: '2p', x: 5, y: 100, font: '700 10.00px Lato' },
-      { text: 'x', x: 25, y: 102.2, font: '700 7.00px Lato' },
+      { text: 'x', x: 25, y: 102.2, font: '700 6.80px Lato' },
     ]);
-    expect(w).toBeCloseTo(27, 9);
-    expect(measureRuns(ctx, runs, 10, 'Lato', 700)).toBeCloseTo(27, 9);
+    expect(w).toBeCloseTo(26.8, 9);
+    expect(measureRuns(ctx, runs, 10, 'Lato', 700)).toBeCloseTo(26.8, 9);
   });
 });

@@ -1,13 +1,12 @@
 // Export a figure: PNG at a physical size and dpi, SVG companions, the bundle, or the mesh files.
 import { useState } from 'react';
 import { Button, Callout, Dialog, DialogBody, DialogFooter, FormGroup, HTMLSelect, ProgressBar } from '@blueprintjs/core';
-import type { AssetDto, FigureDto, JobDto, Recipe } from '@psiform/contracts';
+import { rasterProblem, type AssetDto, type FigureDto, type JobDto, type Recipe } from '@psiform/contracts';
 import { COLUMN_PRESETS, type ColumnPreset } from '@psiform/print';
-import { formatBytes } from '@psiform/orbitals';
 import { ApiError, describeError } from '../api/client';
 import { useFollowJob } from '../figures/JobProgress';
 import { useApi } from '../auth/AuthProvider';
-import { browser } from '../figures/AssetDownloads';
+import { AssetDownloads } from '../figures/AssetDownloads';
 import { fromMm } from './exportSize';
 import { CanvasSizeFields, useCanvasSize } from './CanvasSizeFields';
 
@@ -41,8 +40,6 @@ export const EXPORT_STAGE_WORDS: Record<string, string> = {
   done: 'Done',
 };
 
-const KIND_WORDS: Record<string, string> = { png: 'PNG', svg: 'SVG', bundle: 'Bundle', glb: 'GLB', stl: 'STL' };
-
 function serverText(err: unknown): string {
   if (err instanceof ApiError && err.status === 404 && !err.body?.message?.toString().trim()) {
     return 'This server does not offer exports yet (POST /api/figures/:id/exports answered 404).';
@@ -59,43 +56,9 @@ export function askedForFirst(assets: AssetDto[], kind: string | undefined): Ass
   return [...assets].sort((a, b) => Number(b.kind === kind) - Number(a.kind === kind));
 }
 
+/** The downloads of an export, each button naming kind, size and dpi (see figures/AssetDownloads). */
 export function DownloadList({ assets, testid }: { assets: AssetDto[]; testid: string }) {
-  const api = useApi();
-  const [error, setError] = useState<string | null>(null);
-  const [busy, setBusy] = useState<string | null>(null);
-  return (
-    <div className="pf-downloads" data-testid={testid}>
-      {assets.map((a) => (
-        <Button
-          key={a.id}
-          icon="download"
-          intent="primary"
-          loading={busy === a.id}
-          text={`Download ${KIND_WORDS[a.kind] ?? a.kind.toUpperCase()} · ${formatBytes(a.bytes)}`}
-          data-testid="export-download"
-          data-asset-id={a.id}
-          data-kind={a.kind}
-          onClick={async () => {
-            setBusy(a.id);
-            setError(null);
-            try {
-              const link = await api.assetLink(a.id);
-              browser.go(link.url);
-            } catch (err) {
-              setError(`The file could not be fetched: ${describeError(err)}`);
-            } finally {
-              setBusy(null);
-            }
-          }}
-        />
-      ))}
-      {error && (
-        <Callout intent="danger" data-testid="export-download-error">
-          {error}
-        </Callout>
-      )}
-    </div>
-  );
+  return <AssetDownloads assets={assets} containerTestid={testid} testid={() => 'export-download'} primary />;
 }
 
 export function ExportProgress({ jobId, onDone }: { jobId: string; onDone(job: JobDto): void }) {
@@ -184,6 +147,18 @@ export function ExportForm({ figure, canvas, transparentDefault, unsaved }: Expo
   }
 
   const running = Boolean(jobId) && !result;
+  const raster = format === 'png' && widthMm !== null && heightMm !== null ? rasterProblem(Number(widthMm.toFixed(3)), Number(heightMm.toFixed(3)), dpi) : null;
+  const blocked = format === 'png' && (widthMm === null || heightMm === null) ? 'Export waits for a valid width and height (see the fields above).' : raster ? `Cannot export: ${raster}.` : null;
+  const what =
+    format === 'png'
+      ? `PNG · ${widthMm !== null ? Number(widthMm.toFixed(1)) : '?'} × ${heightMm !== null ? Number(heightMm.toFixed(1)) : '?'} mm · ${dpi} dpi`
+      : format === 'svg-radial'
+        ? `SVG radial plot · ${canvas.widthMm} × ${canvas.heightMm} mm`
+        : format === 'svg-section'
+          ? `SVG section (xz) · ${canvas.widthMm} × ${canvas.heightMm} mm`
+          : format === 'bundle'
+            ? 'bundle (zip)'
+            : format.toUpperCase();
   return (
     <div className="pf-export" data-testid="export-form">
       <FormGroup label="Format" labelFor="exp-format">
@@ -240,8 +215,22 @@ export function ExportForm({ figure, canvas, transparentDefault, unsaved }: Expo
             The export finished but reported no file.
           </Callout>
         ))}
-      {body && (
-        <Button intent="primary" icon="export" text={running ? 'Exporting…' : 'Export'} onClick={() => void submit()} loading={sending} disabled={running || !body} data-testid="exp-submit" className="pf-gap-sm" />
+      {blocked && (
+        <p className="pf-error-line" data-testid="exp-blocked" role="alert">
+          {blocked}
+        </p>
+      )}
+      {format !== 'glb' && format !== 'stl' && (
+        <Button
+          intent="primary"
+          icon="export"
+          text={running ? 'Exporting…' : `Export ${what}`}
+          onClick={() => void submit()}
+          loading={sending}
+          disabled={running || !body || Boolean(blocked)}
+          data-testid="exp-submit"
+          className="pf-gap-sm"
+        />
       )}
     </div>
   );

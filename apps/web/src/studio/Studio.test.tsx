@@ -49,6 +49,10 @@ class FakeWorker {
   terminate() {}
 }
 
+// These tests type field by field through userEvent; on a shared 2-core machine under load that alone can pass
+// the default 20 s. The limit only stops a hung test: nothing here measures speed.
+vi.setConfig({ testTimeout: 90_000 });
+
 beforeEach(() => {
   FakeWorker.last = null;
   vi.spyOn(previewWorker, 'create').mockImplementation(() => new FakeWorker() as unknown as Worker);
@@ -105,7 +109,7 @@ describe('Composer: quantum numbers as you type', () => {
     const body = api.callsTo('POST', '/api/figures')[0].body as { title: string; recipe: { content: { terms: unknown[] } } };
     expect(body.title).toBe('Plate 7: 3d');
     expect(body.recipe.content.terms).toEqual([{ n: 3, l: 2, m: -2, basis: 'real', re: 1, im: 0 }]);
-    await waitFor(() => expect(screen.getByTestId('location').textContent).toBe('/figures/f9/studio'));
+    await waitFor(() => expect(screen.getByTestId('location').textContent).toBe('/figures/f9/studio'), { timeout: 15_000 });
   });
 
   it('shows a 400 from the server as its list of messages', async () => {
@@ -344,8 +348,28 @@ describe('Export dialog: size arithmetic', () => {
     await ue.clear(screen.getByTestId('exp-width'));
     await ue.type(screen.getByTestId('exp-width'), '5');
     expect(screen.getByTestId('exp-width-error').textContent).toBe('The width must be between 10 mm and 1000 mm.');
-    expect(screen.queryByTestId('exp-submit')).toBeNull();
-  });
+    // The Export button stays where it was, disabled, and says why.
+    expect((screen.getByTestId('exp-submit') as HTMLButtonElement).disabled).toBe(true);
+    expect(screen.getByTestId('exp-blocked').textContent).toBe('Export waits for a valid width and height (see the fields above).');
+
+    // Too many pixels: the limit of libs/contracts, in the server's words, before anything is sent.
+    await ue.clear(screen.getByTestId('exp-width'));
+    await ue.type(screen.getByTestId('exp-width'), '1000');
+    await ue.clear(screen.getByTestId('exp-height'));
+    await ue.type(screen.getByTestId('exp-height'), '1000');
+    await ue.selectOptions(screen.getByTestId('exp-dpi'), '1200');
+    expect(screen.getByTestId('exp-blocked').textContent).toBe(
+      'Cannot export: 1000 × 1000 mm at 1200 dpi is 47244 × 47244 px; the largest raster export is 20000 px a side and 64 megapixels (choose a lower dpi or a smaller size).',
+    );
+    expect((screen.getByTestId('exp-submit') as HTMLButtonElement).disabled).toBe(true);
+    await ue.clear(screen.getByTestId('exp-width'));
+    await ue.type(screen.getByTestId('exp-width'), '120');
+    await ue.clear(screen.getByTestId('exp-height'));
+    await ue.type(screen.getByTestId('exp-height'), '80');
+    expect(screen.queryByTestId('exp-blocked')).toBeNull();
+    // The button names what it makes: kind, size and dpi.
+    expect(screen.getByTestId('exp-submit').textContent).toBe('Export PNG · 120 × 80 mm · 1200 dpi');
+  }, 60_000);
 
   it('posts the PNG export, follows the job and offers the new file; a missing route reads plainly', async () => {
     const { sseStream, job } = await import('../test/figures');

@@ -1,4 +1,4 @@
-import { useMemo, useState } from 'react';
+import { useCallback, useMemo, useState } from 'react';
 import { Button, Callout, FormGroup, InputGroup, NumericInput, Tag } from '@blueprintjs/core';
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { useNavigate } from 'react-router-dom';
@@ -91,7 +91,17 @@ export function SwatchbookEditor({ existing, canEdit }: { existing?: SwatchbookD
     setColours((c) => ({ ...c, wheel: { ...(c.wheel ?? DEFAULT_WHEEL), [part]: v } }));
   }
 
-  const canSave = !readOnly && dirty && name.trim() !== '' && check !== null;
+  const [problems, setProblems] = useState<Record<string, string>>({});
+  const onProblem = useCallback((field: string, problem: string | null) => {
+    setProblems((p) => {
+      if ((p[field] ?? null) === problem) return p;
+      const next = { ...p };
+      if (problem) next[field] = problem;
+      else delete next[field];
+      return next;
+    });
+  }, []);
+  const canSave = !readOnly && dirty && name.trim() !== '' && check !== null && Object.keys(problems).length === 0;
 
   return (
     <form
@@ -111,7 +121,7 @@ export function SwatchbookEditor({ existing, canEdit }: { existing?: SwatchbookD
               }} maxLength={120} disabled={readOnly} data-testid="sw-name" />
           </FormGroup>
           {SWATCHES.map((s) => (
-            <ColourField key={s.key} name={s.key} label={s.label} value={colours[s.key]} optional={s.optional} disabled={readOnly} onChange={(v) => set(s.key, v)} />
+            <ColourField key={s.key} name={s.key} label={s.label} value={colours[s.key]} optional={s.optional} disabled={readOnly} onChange={(v) => set(s.key, v)} onProblem={onProblem} />
           ))}
           <h3>Complex phase wheel</h3>
           <p className="pf-muted pf-small">For complex states the phase arg ψ is a hue at constant OKLCH lightness and chroma.</p>
@@ -143,6 +153,11 @@ export function SwatchbookEditor({ existing, canEdit }: { existing?: SwatchbookD
             <Tag minimal intent="success" data-testid="sw-saved">
               Saved
             </Tag>
+          )}
+          {Object.keys(problems).length > 0 && (
+            <span className="pf-error-line" data-testid="sw-save-blocked" role="status">
+              Saving waits for {Object.keys(problems).length === 1 ? 'the colour' : 'the colours'} marked in red.
+            </span>
           )}
           <Button type="submit" intent="primary" icon="floppy-disk" text={existing ? 'Save changes' : 'Create swatchbook'} disabled={!canSave} loading={save.isPending} data-testid="sw-save" />
         </div>

@@ -27,5 +27,6 @@ export abstract class ObjectStorage {
   abstract delete(key: string): Promise<void>;
   /** Keys under a prefix (all pages). */
   abstract list(prefix: string): Promise<string[]>;
-  abstract presignGet(key: string, expiresInSeconds: number): Promise<string>;
+  /** opts.disposition: the Content-Disposition the storage answers with (S3 response-content-disposition). */
+  abstract presignGet(key: string, expiresInSeconds: number, opts?: { disposition?: string }): Promise<string>;
 }
