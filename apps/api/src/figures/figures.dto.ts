@@ -1,7 +1,7 @@
 import { Transform, Type } from 'class-transformer';
-import { IsDefined, IsIn, IsInt, IsNotEmpty, IsOptional, IsString, IsUUID, Max, MaxLength, Min } from 'class-validator';
+import { IsDefined, IsIn, IsInt, IsNotEmpty, IsString, IsUUID, Max, MaxLength, Min, type ValidationArguments } from 'class-validator';
+import { OptionalNotNull } from '../common/validation';
 import { FIGURE_STATUSES, TEXT_LIMITS, titleProblem, type CreateFigureRequest, type FigureStatus, type UpdateFigureRequest } from '@psiform/contracts';
-import type { ValidationArguments } from 'class-validator';
 import { FIGURE_SORTS, type FigureSort } from '@psiform/server';
 
 const trim = ({ value }: { value: unknown }) => (typeof value === 'string' ? value.trim() : value);
@@ -9,6 +9,8 @@ const trim = ({ value }: { value: unknown }) => (typeof value === 'string' ? val
 /** From libs/contracts, so the client names the same limit in the same words. */
 export const FIGURE_TITLE_MAX = TEXT_LIMITS.titleMax;
 const titleTooLong = (a: ValidationArguments) => `title ${titleProblem(a.value) ?? `must be at most ${FIGURE_TITLE_MAX} characters`}`;
+/** Highest page number a list accepts: keeps (page - 1) × pageSize far inside PostgreSQL's bigint OFFSET. */
+export const PAGE_MAX = 1_000_000;
 
 export class CreateFigureBody implements CreateFigureRequest {
   @IsUUID('all', { message: 'publicationId must be a UUID' })
@@ -26,50 +28,51 @@ export class CreateFigureBody implements CreateFigureRequest {
 }
 
 export class UpdateFigureBody implements UpdateFigureRequest {
-  @IsOptional()
+  @OptionalNotNull()
   @Transform(trim)
   @IsString({ message: 'title must be a string' })
   @IsNotEmpty({ message: 'title must not be empty' })
   @MaxLength(FIGURE_TITLE_MAX, { message: titleTooLong })
   title?: string;
 
-  @IsOptional()
+  @OptionalNotNull()
   recipe?: unknown;
 }
 
 
 export class ListFiguresQuery {
-  @IsOptional()
+  @OptionalNotNull()
   @IsUUID('all', { message: 'publicationId must be a UUID' })
   publicationId?: string;
 
-  @IsOptional()
+  @OptionalNotNull()
   @Type(() => Number)
   @IsInt({ message: 'page must be an integer' })
-  @Min(1, { message: 'page must be at least 1' })
+  @Min(1, { message: `page must be 1..${PAGE_MAX}` })
+  @Max(PAGE_MAX, { message: `page must be 1..${PAGE_MAX}` })
   page?: number;
 
-  @IsOptional()
+  @OptionalNotNull()
   @Type(() => Number)
   @IsInt({ message: 'pageSize must be an integer' })
   @Min(1, { message: 'pageSize must be 1..100' })
   @Max(100, { message: 'pageSize must be 1..100' })
   pageSize?: number;
 
-  @IsOptional()
-  @IsString()
+  @OptionalNotNull()
+  @IsString({ message: 'q must be a string' })
   @MaxLength(200, { message: 'q must be at most 200 characters' })
   q?: string;
 
-  @IsOptional()
+  @OptionalNotNull()
   @IsIn(FIGURE_STATUSES as readonly string[], { message: `status must be one of: ${FIGURE_STATUSES.join(', ')}` })
   status?: FigureStatus;
 
-  @IsOptional()
+  @OptionalNotNull()
   @IsIn(FIGURE_SORTS as readonly string[], { message: `sort must be one of: ${FIGURE_SORTS.join(', ')}` })
   sort?: FigureSort;
 
-  @IsOptional()
+  @OptionalNotNull()
   @IsIn(['asc', 'desc'], { message: 'order must be asc or desc' })
   order?: 'asc' | 'desc';
 }
