@@ -75,6 +75,8 @@ export interface CreateFigureSetRequest {
   title: string;
   figureIds: string[];
   columns: number;
+  /** Printed under the panels (at most TEXT_LIMITS.captionMax characters); the panels are lettered a, b, c … */
+  caption?: string;
 }
 
 export interface FigureSetDto {
@@ -83,6 +85,7 @@ export interface FigureSetDto {
   title: string;
   figureIds: string[];
   columns: number;
+  caption: string | null;
   /** The set's latest exported PNG (asset id), null before the first export. */
   pngAssetId: string | null;
   createdBy: string | null;

@@ -2,7 +2,7 @@
 // exported like a single figure. Create from the library's figures or the "every orbital of one shell" preset.
 import { useEffect, useMemo, useState } from 'react';
 import { useQuery, useQueryClient } from '@tanstack/react-query';
-import { Button, Callout, Checkbox, FormGroup, HTMLSelect, HTMLTable, InputGroup, NonIdealState, Spinner } from '@blueprintjs/core';
+import { Button, Callout, Checkbox, FormGroup, HTMLSelect, HTMLTable, InputGroup, NonIdealState, Spinner, TextArea } from '@blueprintjs/core';
 import { FIGURE_SET_LIMITS, FIGURE_STATUSES, TEXT_LIMITS, titleProblem, type FigureSetDto, type FigureSummaryDto, type JobDto } from '@psiform/contracts';
 import { COLUMN_PRESETS } from '@psiform/print';
 import { describeError } from '../api/client';
@@ -150,6 +150,7 @@ export function NewSetForm({ publicationId, figures, onCreated }: { publicationI
   const api = useApi();
   const queryClient = useQueryClient();
   const [title, setTitle] = useState('');
+  const [caption, setCaption] = useState('');
   const [pickedFigures, setPickedFigures] = useState<FigureSummaryDto[]>([]);
   const picked = pickedFigures.map((f) => f.id);
   const [query, setQuery] = useState('');
@@ -185,6 +186,7 @@ export function NewSetForm({ publicationId, figures, onCreated }: { publicationI
   const L = FIGURE_SET_LIMITS;
   const tp = titleProblem(title);
   const titleError = tp ? `The title ${tp}.` : null;
+  const captionError = caption.length > TEXT_LIMITS.captionMax ? `The caption must be at most ${TEXT_LIMITS.captionMax} characters (this one has ${caption.length}).` : null;
   const countError = picked.length < L.figuresMin ? 'Pick at least one figure.' : picked.length > L.figuresMax ? `A set holds at most ${L.figuresMax} figures.` : null;
 
   function toggle(f: FigureSummaryDto, on: boolean) {
@@ -231,10 +233,12 @@ export function NewSetForm({ publicationId, figures, onCreated }: { publicationI
     setBusy(true);
     setError(null);
     try {
-      const set = await api.request<FigureSetDto>('/api/figure-sets', { method: 'POST', body: { publicationId, title: title.trim(), figureIds: picked, columns: Math.min(columns, picked.length) } });
+      const body = { publicationId, title: title.trim(), figureIds: picked, columns: Math.min(columns, picked.length), ...(caption.trim() ? { caption: caption.trim() } : {}) };
+      const set = await api.request<FigureSetDto>('/api/figure-sets', { method: 'POST', body });
       onCreated(set);
       setPickedFigures([]);
       setTitle('');
+      setCaption('');
     } catch (err) {
       setError(describeError(err));
     } finally {
@@ -377,6 +381,14 @@ export function NewSetForm({ publicationId, figures, onCreated }: { publicationI
           <HTMLSelect id="set-columns" value={String(columns)} onChange={(e) => setColumns(Number(e.currentTarget.value))} options={[...Array(L.columnsMax).keys()].map((i) => ({ value: String(i + 1), label: String(i + 1) }))} data-testid="set-columns" />
         </FormGroup>
       </div>
+      <FormGroup
+        label="Caption (printed under the panels, which are lettered a, b, c …)"
+        labelFor="set-caption"
+        intent={captionError ? 'danger' : 'none'}
+        helperText={<span data-testid={captionError ? 'set-caption-error' : undefined}>{captionError ?? `Up to ${TEXT_LIMITS.captionMax} characters.`}</span>}
+      >
+        <TextArea id="set-caption" fill value={caption} onChange={(e) => setCaption(e.currentTarget.value)} data-testid="set-caption" />
+      </FormGroup>
       {countError && (
         <Callout intent="warning" data-testid="set-count-error">
           {countError}
@@ -387,7 +399,7 @@ export function NewSetForm({ publicationId, figures, onCreated }: { publicationI
           {error}
         </Callout>
       )}
-      <Button intent="primary" icon="add" text="Create the set" onClick={() => void create()} disabled={Boolean(titleError || countError) || busy} loading={busy} data-testid="set-create" />
+      <Button intent="primary" icon="add" text="Create the set" onClick={() => void create()} disabled={Boolean(titleError || countError || captionError) || busy} loading={busy} data-testid="set-create" />
     </div>
   );
 }

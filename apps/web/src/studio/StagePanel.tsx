@@ -2,6 +2,8 @@
 import { Button, ButtonGroup, FormGroup, HTMLSelect, InputGroup, Menu, MenuItem, PopoverNext, Slider, Switch, TextArea } from '@blueprintjs/core';
 import type { Dispatch } from 'react';
 import { CANVAS_LIMITS, TEXT_LIMITS, type Recipe } from '@psiform/contracts';
+import { UNIT_TEXT } from '@psiform/print';
+import { Typeset } from '../components/Typeset';
 import { fieldText, type ComposerDraft, type DraftAction } from './draft';
 import { SHORTCUTS } from './shortcuts';
 
@@ -12,6 +14,8 @@ export interface StagePanelProps {
   draft: ComposerDraft;
   dispatch: Dispatch<DraftAction>;
   errors: Record<string, string>;
+  /** The publication's one length unit: figures state their lengths in it (the server applies it on save). */
+  publicationUnit?: Recipe['annotations']['scaleBar']['unit'];
 }
 
 const VIEW_BUTTONS: { view: Stage['camera']['view']; text: string; key: string }[] = [
@@ -88,7 +92,7 @@ function MmField({ draft, dispatch, errors, k, label }: { draft: ComposerDraft; 
   );
 }
 
-export function StagePanel({ draft, dispatch, errors }: StagePanelProps) {
+export function StagePanel({ draft, dispatch, errors, publicationUnit }: StagePanelProps) {
   const { stage, annotations: ann, canvas } = draft.recipe;
   const look = { stage, annotations: ann };
   const onLook = (l: typeof look) => dispatch({ type: 'look', stage: l.stage, annotations: l.annotations });
@@ -167,16 +171,17 @@ export function StagePanel({ draft, dispatch, errors }: StagePanelProps) {
       <Switch label="Scale bar" checked={ann.scaleBar.show} onChange={(e) => setAnn({ scaleBar: { ...ann.scaleBar, show: e.currentTarget.checked } })} data-testid="ann-scalebar" />
       {ann.scaleBar.show && (
         <div className="pf-form-row">
-          <HTMLSelect
-            value={ann.scaleBar.unit}
-            onChange={(e) => setAnn({ scaleBar: { ...ann.scaleBar, unit: e.currentTarget.value as 'angstrom' | 'bohr' } })}
-            options={[
-              { value: 'angstrom', label: 'Å (ångström)' },
-              { value: 'bohr', label: 'a0 (Bohr radius)' },
-            ]}
-            data-testid="ann-scalebar-unit"
-            aria-label="Scale bar unit"
-          />
+          <span className="pf-muted pf-small" data-testid="ann-scalebar-unit" data-unit={ann.scaleBar.unit} title="Set per publication on its House style page">
+            in <Typeset text={UNIT_TEXT[ann.scaleBar.unit]} />
+            {publicationUnit && publicationUnit !== ann.scaleBar.unit ? (
+              <>
+                {' '}
+                (the publication now uses <Typeset text={UNIT_TEXT[publicationUnit]} />: the next saved version will)
+              </>
+            ) : (
+              ' (the publication’s unit)'
+            )}
+          </span>
           <InputGroup
             placeholder="length: auto"
             defaultValue={ann.scaleBar.length ? String(ann.scaleBar.length) : ''}

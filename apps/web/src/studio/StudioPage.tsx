@@ -79,6 +79,11 @@ function Studio({ initial, figure, publicationId }: StudioProps) {
     if (h) dispatch({ type: 'palette', palette: { swatchbookId: h.swatchbookId, positive: h.positive, negative: h.negative }, background: h.background });
     else dispatch({ type: 'palette', palette: presetRecipe(null).palette, background: presetRecipe(null).stage.background.color });
   }, [figure, house.data]);
+  // A new figure states its lengths in the publication's unit from the start (the server applies it on save).
+  const unit = publication?.lengthUnit;
+  useEffect(() => {
+    if (!figure && unit) dispatch({ type: 'unit', unit });
+  }, [figure, unit]);
 
   const errors = draftErrors(draft);
   const stateOk = !errors.rows;
@@ -331,7 +336,7 @@ function Studio({ initial, figure, publicationId }: StudioProps) {
           </div>
         </main>
         <aside className="pf-studio-right">
-          <StagePanel draft={draft} dispatch={dispatch} errors={errors} />
+          <StagePanel draft={draft} dispatch={dispatch} errors={errors} publicationUnit={publication?.lengthUnit} />
         </aside>
       </div>
 

@@ -52,6 +52,8 @@ export type DraftAction =
   | { type: 'look'; stage: Recipe['stage']; annotations: Recipe['annotations'] }
   | { type: 'canvas'; canvas: Partial<Recipe['canvas']> }
   | { type: 'palette'; palette: Recipe['palette']; background?: string }
+  /** The publication's one length unit (a new figure takes it; the server applies it to every saved version). */
+  | { type: 'unit'; unit: Recipe['annotations']['scaleBar']['unit'] }
   /** Load a recipe as the new starting point (after a save, or a preset for a new figure). */
   | { type: 'load'; recipe: Recipe; keepTitle?: boolean; keepMode?: boolean };
 
@@ -454,6 +456,11 @@ export function draftReducer(d: ComposerDraft, a: DraftAction): ComposerDraft {
     case 'palette': {
       const stage = a.background && !r.stage.background.transparent ? { ...r.stage, background: { ...r.stage.background, color: a.background } } : r.stage;
       return { ...d, recipe: { ...r, palette: a.palette, stage } };
+    }
+    case 'unit': {
+      if (r.annotations.scaleBar.unit === a.unit) return d;
+      const { length: _length, ...bar } = r.annotations.scaleBar;
+      return { ...d, recipe: { ...r, annotations: { ...r.annotations, scaleBar: { ...bar, unit: a.unit } } } };
     }
     case 'load': {
       const next = createDraft(a.recipe, { isNew: d.isNew, title: a.keepTitle ? d.title : '' });
