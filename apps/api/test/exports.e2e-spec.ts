@@ -73,6 +73,7 @@ describe('exports (e2e)', () => {
   }, 60000);
 
   afterAll(async () => {
+    if (process.env.PSIFORM_SHOW_WORKER) console.log(worker?.output());
     await worker?.stop();
     await t?.close();
   });
