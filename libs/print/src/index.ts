@@ -13,3 +13,4 @@ export * from './bundle';
 export * from './typeset';
 export * from './file-names';
 export * from './preflight';
+export * from './figure-text';

@@ -1,5 +1,5 @@
 import { Transform, Type } from 'class-transformer';
-import { IsDefined, IsNotEmpty, IsNumber, IsString, IsUUID, Max, MaxLength, Min, ValidateNested } from 'class-validator';
+import { IsDefined, IsNotEmpty, IsNumber, IsObject, IsString, IsUUID, Max, MaxLength, Min, ValidateNested } from 'class-validator';
 import { OptionalNotNull } from '../common/validation';
 
 const trim = ({ value }: { value: unknown }) => (typeof value === 'string' ? value.trim() : value);
@@ -22,6 +22,13 @@ export class OptionalNoteBody {
   @IsString({ message: 'note must be a string' })
   @MaxLength(NOTE_MAX, { message: `note must be at most ${NOTE_MAX} characters` })
   note?: string;
+}
+
+/** Approve: an optional note, and `override: { reason }` to go past failed preflight (checked by gates/gate.ts). */
+export class ApproveBody extends OptionalNoteBody {
+  @OptionalNotNull()
+  @IsObject({ message: 'override must be an object { reason }' })
+  override?: { reason?: unknown };
 }
 
 export class PinBody {

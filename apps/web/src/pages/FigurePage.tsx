@@ -11,6 +11,7 @@ import { JobProgress } from '../figures/JobProgress';
 import { MeshStatsTable } from '../figures/MeshStatsTable';
 import { describeRecipe, formatDate, statusLabel } from '../figures/model';
 import { FigureReview } from '../review/FigureReview';
+import { PreflightPanel } from '../print/PreflightPanel';
 import { FigureStudioBar } from '../studio/FigureStudioBar';
 import { Typeset } from '../components/Typeset';
 
@@ -215,6 +216,7 @@ export function FigurePage() {
       </section>
 
       <FigureReview figure={f} />
+      <PreflightPanel figure={f} />
 
       {user?.role === 'illustrator' && (
         <p className="pf-muted pf-small">

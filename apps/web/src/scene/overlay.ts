@@ -3,7 +3,7 @@
 // into each tile and composites it, so both show the same layer at any resolution.
 import { BOHR_RADIUS_ANGSTROM } from '@psiform/orbitals';
 import type { Recipe } from '@psiform/contracts';
-import { drawRuns, measureRuns, typeset, UNIT_TEXT, type TextCanvas, type TextRun } from '@psiform/print';
+import { drawRuns, measureRuns, OVERLAY_MM, typeset, UNIT_TEXT, type TextCanvas, type TextRun } from '@psiform/print';
 
 export type ScaleUnit = Recipe['annotations']['scaleBar']['unit'];
 
@@ -89,8 +89,8 @@ export function captionLayout(ctx: TextCanvas, caption: string | undefined, widt
   return { lines, bandMm };
 }
 
-/** Sizes in mm of the printed figure (our choice; readable at a single-column width). */
-export const OVERLAY_MM = { margin: 3, label: 3.6, small: 2.4, caption: 2.2, bar: 0.35, axisLetter: 2.6 } as const;
+// Sizes in mm of the printed figure and the subscript scale live in @psiform/print (preflight reads them too).
+export { OVERLAY_MM, SUBSCRIPT_SCALE } from '@psiform/print';
 
 function font(px: number, family: string, weight = 400): string {
   return `${weight} ${px.toFixed(2)}px ${family}`;
