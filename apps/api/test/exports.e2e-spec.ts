@@ -203,6 +203,25 @@ describe('exports (e2e)', () => {
     const png = pngJob.assets.find((a) => a.kind === 'png')!;
     expect(Buffer.from(files['figure.png']).equals(Buffer.from(await download(png.id)))).toBe(true);
     expect(Buffer.from(files['figure.glb']).subarray(0, 4).toString('latin1')).toBe('glTF');
+
+    // metadata.json describes every file inside, and every PNG matches its entry: IHDR size and pHYs read by hand
+    // (PNG specification §11.2.2, §11.3.5.3), sha256 by node:crypto. No file claims a size it does not have.
+    const { createHash } = await import('node:crypto');
+    expect(meta.canvas).toBeUndefined();
+    expect(meta.files.map((f: { name: string }) => f.name).sort()).toEqual(Object.keys(files).filter((n) => n !== 'metadata.json').sort());
+    for (const f of meta.files as { name: string; format: string; bytes: number; sha256: string; widthPx?: number; heightPx?: number; dpi?: number; widthMm?: number; heightMm?: number }[]) {
+      expect({ name: f.name, bytes: f.bytes, sha256: f.sha256 }).toEqual({ name: f.name, bytes: files[f.name].length, sha256: createHash('sha256').update(files[f.name]).digest('hex') });
+      if (f.format !== 'png') continue;
+      const c = pngChunks(files[f.name]);
+      const ihdr = c.get('IHDR')![0];
+      const phys = c.get('pHYs')![0];
+      const dpi = Math.round(phys.readUInt32BE(0) * 0.0254);
+      expect({ name: f.name, w: f.widthPx, h: f.heightPx, dpi: f.dpi }).toEqual({ name: f.name, w: ihdr.readUInt32BE(0), h: ihdr.readUInt32BE(4), dpi });
+      expect(f.widthMm).toBeCloseTo((ihdr.readUInt32BE(0) / dpi) * 25.4, 1);
+      expect(strFromU8(files['README.txt'])).toContain(`${f.name}: PNG, ${f.widthPx} × ${f.heightPx} px, ${Number(f.widthMm!.toPrecision(4))} × ${Number(f.heightMm!.toPrecision(4))} mm at ${dpi} dpi`);
+    }
+    expect(meta.altText.length).toBeLessThanOrEqual(125);
+    expect(meta.longDescription.length).toBeGreaterThan(meta.altText.length);
   }, 120000);
 
   it('downloads are attachments named from the figure through the file-name template; every file of the figure gets its own name', async () => {
@@ -220,10 +239,13 @@ describe('exports (e2e)', () => {
       expect(res.headers.get('content-disposition')).toBe(`attachment; filename="${link.fileName}"; filename*=UTF-8''${link.fileName}`);
       await res.arrayBuffer();
     }
-    // The default delivery profile's template: {publication}_{figure}_{label}_{widthMm}x{heightMm}mm_{dpi}dpi.
+    // The publication's delivery profile template (the demo book's: shells-lobes_{figure}_{label}_{widthMm}x{heightMm}mm_{dpi}dpi),
+    // filled in by hand here: the figure title up to a colon and the label as slugs, the PNG's size and dpi.
+    const template: string = (await t.http().get(`/api/publications/${pub}/delivery-profile`).set(auth(tok.editor)).expect(200)).body.fileNameTemplate;
     const slugTitle = `export-2pz-${RUN_ID}`; // "Export 2p_z <run>": the title is typeset first (2p with subscript z), then slugged
-    expect(names.get(png.id)).toBe(`shells-and-lobes_${slugTitle}_2pz_89x60mm_300dpi.png`);
-    expect([...names.values()].filter((n) => n.endsWith('.glb'))).toContain(`shells-and-lobes_${slugTitle}_2pz.glb`);
+    const fill = (w: Record<string, string>) => template.replace(/\{(\w+)\}/g, (_, k: string) => w[k] ?? '');
+    expect(names.get(png.id)).toBe(`${fill({ publication: 'shells-and-lobes', figure: slugTitle, label: '2pz', widthMm: '89', heightMm: '60', dpi: '300' })}.png`);
+    expect([...names.values()].some((n) => n.endsWith('.glb') && n.includes(`${slugTitle}_2pz`))).toBe(true);
     expect(new Set(names.values()).size).toBe(names.size); // never two files under one name
   });
 

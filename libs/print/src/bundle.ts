@@ -33,8 +33,10 @@ export interface BundleFileEntry {
   /** Physical size: pixels / dpi × 25.4 for rasters (0.01 mm), the root width/height for SVG. */
   widthMm?: number;
   heightMm?: number;
-  /** Colour space the file declares (PNG sRGB chunk). */
-  colourSpace?: 'sRGB';
+  /** Colour space the file declares: PNG sRGB chunk; TIFF photometric interpretation (RGB or CMYK). */
+  colourSpace?: 'sRGB' | 'RGB' | 'CMYK';
+  /** PDF: pages in the file. */
+  pages?: number;
 }
 
 /**
@@ -76,6 +78,68 @@ function describeSvg(bytes: Uint8Array): ReturnType<FileDescriber> {
   return { format: 'svg', mediaType: 'image/svg+xml', ...(w && h ? { widthMm: Number(w), heightMm: Number(h) } : {}) };
 }
 
+/**
+ * TIFF baseline (TIFF 6.0 §2 and §8): byte order, the first IFD, ImageWidth (256), ImageLength (257),
+ * PhotometricInterpretation (262: 2 RGB, 5 separated = CMYK), XResolution (282, RATIONAL) and ResolutionUnit
+ * (296: 2 inch, 3 centimetre).
+ */
+function describeTiff(bytes: Uint8Array): ReturnType<FileDescriber> {
+  if (bytes.length < 8) throw new RangeError('not a TIFF file (too short)');
+  const le = bytes[0] === 0x49 && bytes[1] === 0x49;
+  if (!le && !(bytes[0] === 0x4d && bytes[1] === 0x4d)) throw new RangeError('not a TIFF file (no II or MM byte order)');
+  const dv = new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength);
+  const u16 = (o: number) => dv.getUint16(o, le);
+  const u32 = (o: number) => dv.getUint32(o, le);
+  if (u16(2) !== 42) throw new RangeError('not a TIFF file (magic 42 missing)');
+  const ifd = u32(4);
+  if (ifd + 2 > bytes.length) throw new RangeError('TIFF directory lies outside the file');
+  const tags = new Map<number, number>();
+  const n = u16(ifd);
+  for (let i = 0; i < n; i++) {
+    const e = ifd + 2 + 12 * i;
+    if (e + 12 > bytes.length) throw new RangeError('TIFF directory is cut short');
+    const tag = u16(e);
+    const type = u16(e + 2);
+    // SHORT values sit in the first two bytes of the value field; LONG and RATIONAL offsets fill it.
+    if (tag === 282 && type === 5) {
+      const off = u32(e + 8);
+      tags.set(tag, u32(off) / u32(off + 4));
+    } else tags.set(tag, type === 3 ? u16(e + 8) : u32(e + 8));
+  }
+  const w = tags.get(256);
+  const h = tags.get(257);
+  if (!w || !h) throw new RangeError('TIFF without ImageWidth/ImageLength');
+  const out: ReturnType<FileDescriber> = { format: 'tiff', mediaType: 'image/tiff', widthPx: w, heightPx: h };
+  const photometric = tags.get(262);
+  if (photometric === 2) out.colourSpace = 'RGB';
+  if (photometric === 5) out.colourSpace = 'CMYK';
+  const res = tags.get(282);
+  const unit = tags.get(296) ?? 2;
+  if (res && res > 0 && (unit === 2 || unit === 3)) {
+    const dpi = Math.round(unit === 2 ? res : res * 2.54);
+    out.dpi = dpi;
+    out.widthMm = round2((w / dpi) * 25.4);
+    out.heightMm = round2((h / dpi) * 25.4);
+  }
+  return out;
+}
+
+/** PDF (ISO 32000-1 §7.7.3.3): the first page's MediaBox in points (1/72 in), and the page count. */
+function describePdf(bytes: Uint8Array): ReturnType<FileDescriber> {
+  const text = new TextDecoder('latin1').decode(bytes);
+  if (!text.startsWith('%PDF-')) throw new RangeError('not a PDF file (no %PDF- header)');
+  const out: ReturnType<FileDescriber> = { format: 'pdf', mediaType: 'application/pdf' };
+  const box = /\/MediaBox\s*\[\s*([-\d.]+)\s+([-\d.]+)\s+([-\d.]+)\s+([-\d.]+)\s*\]/.exec(text);
+  if (box) {
+    const [x0, y0, x1, y1] = box.slice(1).map(Number);
+    out.widthMm = round2(((x1 - x0) / 72) * 25.4);
+    out.heightMm = round2(((y1 - y0) / 72) * 25.4);
+  }
+  const pages = text.match(/\/Type\s*\/Page(?![a-z])/g);
+  if (pages) out.pages = pages.length;
+  return out;
+}
+
 function describeGlb(bytes: Uint8Array): ReturnType<FileDescriber> {
   // GLB header (glTF 2.0 specification §4.4): magic "glTF", version 2.
   if (bytes.length < 12 || decoder.decode(bytes.subarray(0, 4)) !== 'glTF') throw new RangeError('not a GLB file (no glTF magic)');
@@ -88,6 +152,9 @@ function plain(format: string, mediaType: string): FileDescriber {
 
 export const DEFAULT_DESCRIBERS: Record<string, FileDescriber> = {
   png: describePng,
+  tif: describeTiff,
+  tiff: describeTiff,
+  pdf: describePdf,
   svg: describeSvg,
   glb: describeGlb,
   stl: plain('stl', 'model/stl'),

@@ -240,6 +240,7 @@ export function fileLine(f: BundleFileEntry): string {
   if (f.widthPx !== undefined && f.heightPx !== undefined) parts.push(`${f.widthPx} × ${f.heightPx} px`);
   if (f.widthMm !== undefined && f.heightMm !== undefined) parts.push(`${g(f.widthMm)} × ${g(f.heightMm)} mm${f.dpi ? ` at ${f.dpi} dpi` : ''}`);
   if (f.colourSpace) parts.push(f.colourSpace);
+  if (f.pages) parts.push(`${f.pages} page${f.pages === 1 ? '' : 's'}`);
   parts.push(bytesText(f.bytes), `sha256 ${f.sha256}`);
   return `- ${f.name}${f.role ? ` (${f.role})` : ''}: ${parts.join(', ')}`;
 }

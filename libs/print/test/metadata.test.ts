@@ -1,6 +1,10 @@
 import { recipeSchema, type Recipe } from '@psiform/contracts';
 import { buildOrbitalMesh } from '@psiform/meshing';
+import { execFileSync } from 'node:child_process';
 import { createHash } from 'node:crypto';
+import { mkdtempSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
 import { strFromU8, unzipSync } from 'fflate';
 import { describe, expect, it } from 'vitest';
 import { ALT_TEXT_MAX, MODEL_NOTE, buildBundle, encodeRgbaPng, figureMetadata, ionName, metadataSheetText, readPngInfo, shapeDescription, shortAltText, type MeshResultLike, type RecipeLike } from '../src';
@@ -185,5 +189,80 @@ describe('shortAltText', () => {
     const t = shortAltText({ Z: 92, terms }, label, 92);
     expect(t.length).toBeLessThanOrEqual(ALT_TEXT_MAX);
     expect(t).toMatch(/superposition of 16 terms/);
+  });
+});
+
+/** A tiny uncompressed RGB TIFF written by hand (TIFF 6.0 baseline: one strip, little-endian), `dpi` in XResolution. */
+function handTiff(width: number, height: number, dpi: number, photometric = 2): Uint8Array {
+  const spp = photometric === 5 ? 4 : 3;
+  const pixels = width * height * spp;
+  const entries: [number, number, number, number][] = []; // tag, type, count, value
+  const dataAt = 8;
+  const resAt = dataAt + pixels;
+  const ifdAt = resAt + 8 + ((resAt + 8) % 2);
+  entries.push([256, 3, 1, width], [257, 3, 1, height], [258, 3, 1, 8], [259, 3, 1, 1], [262, 3, 1, photometric], [273, 4, 1, dataAt], [277, 3, 1, spp], [278, 3, 1, height], [279, 4, 1, pixels], [282, 5, 1, resAt], [283, 5, 1, resAt], [296, 3, 1, 2]);
+  const buf = new Uint8Array(ifdAt + 2 + 12 * entries.length + 4);
+  const dv = new DataView(buf.buffer);
+  buf.set([0x49, 0x49]);
+  dv.setUint16(2, 42, true);
+  dv.setUint32(4, ifdAt, true);
+  buf.fill(128, dataAt, dataAt + pixels);
+  dv.setUint32(resAt, dpi, true);
+  dv.setUint32(resAt + 4, 1, true);
+  dv.setUint16(ifdAt, entries.length, true);
+  entries.forEach(([tag, type, count, value], i) => {
+    const e = ifdAt + 2 + 12 * i;
+    dv.setUint16(e, tag, true);
+    dv.setUint16(e + 2, type, true);
+    dv.setUint32(e + 4, count, true);
+    if (type === 3) dv.setUint16(e + 8, value, true);
+    else dv.setUint32(e + 8, value, true);
+  });
+  return buf;
+}
+
+/** A one-page PDF with a MediaBox of w × h points, written by hand with a correct cross-reference table. */
+function handPdf(wPt: number, hPt: number): Uint8Array {
+  const objs = ['<< /Type /Catalog /Pages 2 0 R >>', '<< /Type /Pages /Kids [3 0 R] /Count 1 >>', `<< /Type /Page /Parent 2 0 R /MediaBox [0 0 ${wPt} ${hPt}] >>`];
+  let out = '%PDF-1.4\n';
+  const offs: number[] = [];
+  objs.forEach((o, i) => {
+    offs.push(out.length);
+    out += `${i + 1} 0 obj\n${o}\nendobj\n`;
+  });
+  const xref = out.length;
+  out += `xref\n0 ${objs.length + 1}\n0000000000 65535 f \n${offs.map((o) => `${String(o).padStart(10, '0')} 00000 n \n`).join('')}`;
+  out += `trailer\n<< /Size ${objs.length + 1} /Root 1 0 R >>\nstartxref\n${xref}\n%%EOF\n`;
+  return new TextEncoder().encode(out);
+}
+
+describe('bundle metadata for print files (TIFF, PDF), checked against Debian libtiff tiffinfo and poppler pdfinfo', () => {
+  const recipe = recipeFor(dxy, 1, 24);
+  const meta = figureMetadata({ recipe, result: resultFor(recipe), engineVersion: '0.1.0', palette: recipe.palette, generatedAt: GENERATED });
+  it('a TIFF is described by its own tags (size, dpi, photometric), the same numbers tiffinfo reads', () => {
+    const tif = handTiff(20, 10, 600, 5);
+    const dir = mkdtempSync(join(tmpdir(), 'psiform-tif-'));
+    writeFileSync(join(dir, 'f.tif'), tif);
+    const info = execFileSync('tiffinfo', [join(dir, 'f.tif')], { encoding: 'utf8' });
+    expect(info).toMatch(/Image Width: 20 Image Length: 10/);
+    expect(info).toMatch(/Resolution: 600, 600 pixels\/inch/);
+    expect(info).toMatch(/Photometric Interpretation: separated/);
+    const out = unzipSync(buildBundle([{ name: 'figure.tif', bytes: tif }], meta));
+    const f = JSON.parse(strFromU8(out['metadata.json'])).files.find((x: { name: string }) => x.name === 'figure.tif');
+    expect(f).toMatchObject({ format: 'tiff', widthPx: 20, heightPx: 10, dpi: 600, colourSpace: 'CMYK' });
+    expect(f.widthMm).toBeCloseTo((20 / 600) * 25.4, 2);
+  });
+  it('a PDF is described by its MediaBox (1 pt = 1/72 in), the page size pdfinfo reads', () => {
+    const pdf = handPdf(252.283, 170.079); // 89 × 60 mm
+    const dir = mkdtempSync(join(tmpdir(), 'psiform-pdf-'));
+    writeFileSync(join(dir, 'f.pdf'), pdf);
+    const info = execFileSync('pdfinfo', [join(dir, 'f.pdf')], { encoding: 'utf8' });
+    const m = /Page size:\s+([\d.]+) x ([\d.]+) pts/.exec(info)!;
+    const out = unzipSync(buildBundle([{ name: 'radial.pdf', bytes: pdf }], meta));
+    const f = JSON.parse(strFromU8(out['metadata.json'])).files.find((x: { name: string }) => x.name === 'radial.pdf');
+    expect(f).toMatchObject({ format: 'pdf', pages: 1 });
+    expect(f.widthMm).toBeCloseTo((Number(m[1]) / 72) * 25.4, 1);
+    expect(f.heightMm).toBeCloseTo((Number(m[2]) / 72) * 25.4, 1);
+    expect(f.widthMm).toBeCloseTo(89, 1);
   });
 });

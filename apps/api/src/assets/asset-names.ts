@@ -1,4 +1,5 @@
 import { DataSource } from 'typeorm';
+import { DeliveryProfilesStore } from '@psiform/server';
 import { DEFAULT_DELIVERY_PROFILE, parseRecipe } from '@psiform/contracts';
 import { fileFieldsFor, fileNameFor } from '@psiform/print';
 
@@ -15,9 +16,9 @@ export interface AssetNameFacts {
 }
 
 /**
- * Port for the facts a download name is made from, and the publication's file-name template. The template
- * is the delivery profile's (libs/contracts print.ts); until a publication stores its own profile, the
- * default profile's template applies. Only TypeormAssetNames touches the tables.
+ * Port for the facts a download name is made from, and the publication's file-name template: its delivery
+ * profile's (libs/contracts print.ts), or the default profile's while it has none. Only TypeormAssetNames
+ * touches the tables.
  */
 export abstract class AssetNames {
   abstract facts(assetId: string): Promise<AssetNameFacts | null>;
@@ -25,7 +26,10 @@ export abstract class AssetNames {
 }
 
 export class TypeormAssetNames extends AssetNames {
-  constructor(private readonly ds: DataSource) {
+  constructor(
+    private readonly ds: DataSource,
+    private readonly profiles: DeliveryProfilesStore,
+  ) {
     super();
   }
 
@@ -45,8 +49,8 @@ export class TypeormAssetNames extends AssetNames {
     return rows[0] ?? null;
   }
 
-  async templateFor(_publicationId: string): Promise<string> {
-    return DEFAULT_DELIVERY_PROFILE.fileNameTemplate;
+  async templateFor(publicationId: string): Promise<string> {
+    return (await this.profiles.find(publicationId))?.profile.fileNameTemplate ?? DEFAULT_DELIVERY_PROFILE.fileNameTemplate;
   }
 }
 
