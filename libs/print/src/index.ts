@@ -14,3 +14,4 @@ export * from './typeset';
 export * from './file-names';
 export * from './preflight';
 export * from './figure-text';
+export * from './figure-files';

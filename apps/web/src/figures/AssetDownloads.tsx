@@ -49,7 +49,11 @@ function mm(x: number): string {
 export function assetCaption(a: AssetDto): string {
   const s = (a.stats ?? {}) as Record<string, unknown>;
   const parts: string[] = [];
-  if (a.kind === 'svg') parts.push(s.svg === 'section' ? `SVG section${typeof s.plane === 'string' ? ` (${s.plane})` : ''}` : s.svg === 'radial' ? 'SVG radial plot' : 'SVG');
+  const plot = a.kind === 'svg' ? s.svg : a.kind === 'pdf' ? s.pdf : undefined;
+  if (a.kind === 'svg' || a.kind === 'pdf') {
+    const k = a.kind.toUpperCase();
+    parts.push(plot === 'section' ? `${k} section${typeof s.plane === 'string' ? ` (${s.plane})` : ''}` : plot === 'radial' ? `${k} radial plot` : k);
+  }
   else if (a.kind === 'png' && s.thumbnail === true) parts.push('PNG thumbnail');
   else parts.push(KIND_WORDS[a.kind] ?? a.kind.toUpperCase());
   const w = num(a.stats, 'widthMm');
@@ -62,6 +66,8 @@ export function assetCaption(a: AssetDto): string {
     if (w !== undefined && h !== undefined) parts.push(`${mm(w)} × ${mm(h)} mm`);
     if (dpi !== undefined && a.kind !== 'svg') parts.push(`${dpi} dpi`);
   }
+  // Print files say their colour: CMYK with the press condition, or RGB.
+  if ((a.kind === 'tiff' || a.kind === 'pdf') && (s.colour === 'cmyk' || s.colour === 'rgb')) parts.push(s.colour === 'cmyk' ? `CMYK${typeof s.pressCondition === 'string' ? ` ${s.pressCondition.toUpperCase()}` : ''}` : 'RGB');
   return parts.join(' · ');
 }
 

@@ -3,15 +3,15 @@
 import { useEffect, useMemo, useState } from 'react';
 import { useQuery, useQueryClient } from '@tanstack/react-query';
 import { Button, Callout, Checkbox, FormGroup, HTMLSelect, HTMLTable, InputGroup, NonIdealState, Spinner, TextArea } from '@blueprintjs/core';
-import { FIGURE_SET_LIMITS, FIGURE_STATUSES, TEXT_LIMITS, titleProblem, type FigureSetDto, type FigureSummaryDto, type JobDto } from '@psiform/contracts';
-import { COLUMN_PRESETS } from '@psiform/print';
+import { DEFAULT_DELIVERY_PROFILE, FIGURE_SET_LIMITS, FIGURE_STATUSES, TEXT_LIMITS, titleProblem, type DeliveryProfile, type FigureSetDto, type FigureSummaryDto, type JobDto } from '@psiform/contracts';
 import { describeError } from '../api/client';
 import { useApi } from '../auth/AuthProvider';
 import { PublicationChooser } from '../figures/PublicationChooser';
 import { usePublications } from '../figures/usePublications';
-import { DownloadList, ExportProgress } from '../studio/ExportDialog';
+import { DownloadList, ExportProgress, firstDpi } from '../studio/ExportDialog';
+import { getDeliveryProfile } from '../print/printApi';
 import { fromMm } from '../studio/exportSize';
-import { CanvasSizeFields, useCanvasSize } from '../studio/CanvasSizeFields';
+import { CanvasSizeFields, columnChoices, useCanvasSize } from '../studio/CanvasSizeFields';
 import { matchFigures, orbitalRecipe, SHELL_MAX_N, shellOrbitals } from './shell';
 import './sets.css';
 import { Typeset } from '../components/Typeset';
@@ -404,10 +404,20 @@ export function NewSetForm({ publicationId, figures, onCreated }: { publicationI
   );
 }
 
-/** Canvas size (mm or inches, column presets, dpi) and the PNG export of a set, with progress and download. */
+/** The set's export, once the publication's delivery profile is read (its column widths and minimum dpi come first). */
 export function SetExportForm({ set }: { set: FigureSetDto }) {
   const api = useApi();
-  const size = useCanvasSize({ widthMm: COLUMN_PRESETS.double.widthMm, heightMm: 60, dpi: 300, transparent: false });
+  const q = useQuery({ queryKey: ['delivery-profile', set.publicationId], queryFn: () => getDeliveryProfile(api, set.publicationId), retry: false });
+  if (q.isPending) return <Spinner size={24} />;
+  return <ProfiledSetExportForm set={set} profile={q.data ?? DEFAULT_DELIVERY_PROFILE} />;
+}
+
+/** Canvas size (mm or inches, the profile's column presets, dpi) and the PNG export of a set, with progress and download. */
+function ProfiledSetExportForm({ set, profile }: { set: FigureSetDto; profile: DeliveryProfile }) {
+  const api = useApi();
+  const columns = useMemo(() => columnChoices(profile), [profile]);
+  const widest = columns.reduce((a, b) => (b.widthMm > a.widthMm ? b : a));
+  const size = useCanvasSize({ widthMm: widest.widthMm, heightMm: 60, dpi: firstDpi(300, profile.minDpi), transparent: false });
   const { unit, setW, dpi, transparent, widthMm, heightMm, px } = size;
   const [jobId, setJobId] = useState<string | null>(null);
   const [result, setResult] = useState<JobDto | null>(null);
@@ -437,7 +447,7 @@ export function SetExportForm({ set }: { set: FigureSetDto }) {
   return (
     <div className="pf-export pf-gap-sm" data-testid="set-export-form">
       <h3>Export “{set.title}”</h3>
-      <CanvasSizeFields size={size} idPrefix="set" onPreset={(k) => setW(fromMm(COLUMN_PRESETS[k].widthMm, unit))} />
+      <CanvasSizeFields size={size} idPrefix="set" presets={columns} minDpi={profile.minDpi} onPreset={(c) => setW(fromMm(c.widthMm, unit))} />
       <p className="pf-pixels" data-testid="set-pixels">
         {px ? `${px.text}, ${set.figureIds.length} panels in ${Math.min(set.columns, set.figureIds.length)} columns` : 'Enter a valid width and height to see the pixel size.'}
       </p>

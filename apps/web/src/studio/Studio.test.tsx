@@ -1,7 +1,7 @@
 import { act, render, screen, waitFor, within } from '@testing-library/react';
 import userEvent from '@testing-library/user-event';
 import { vi } from 'vitest';
-import { parseRecipe, type FigureDto } from '@psiform/contracts';
+import { DEFAULT_DELIVERY_PROFILE, parseRecipe, type FigureDto } from '@psiform/contracts';
 import { AppProviders, createQueryClient } from '../App';
 import { json, mockFetch, renderApp, signedInRoutes, storeSession, user } from '../test/utils';
 import { figure } from '../test/figures';
@@ -302,9 +302,13 @@ describe('Stage shortcuts', () => {
   });
 });
 
+/** A publication's delivery profile for the export dialog: PNG first at 300 dpi (what these tests measure), RGB. */
+const pngProfile = { ...DEFAULT_DELIVERY_PROFILE, rasterFormats: ['png', 'tiff'], minDpi: 300, colourMode: 'rgb', publicationId: 'p1', isDefault: false, updatedAt: null, updatedBy: null };
+const profileRoute = (profile: object = pngProfile) => ({ 'GET /api/publications/p1/delivery-profile': () => json(200, profile) });
+
 describe('Export dialog: size arithmetic', () => {
   function renderForm() {
-    mockFetch({ ...signedInRoutes(me) });
+    mockFetch({ ...signedInRoutes(me), ...profileRoute() });
     storeSession(me);
     const client = createQueryClient();
     const f = figure();
@@ -320,6 +324,7 @@ describe('Export dialog: size arithmetic', () => {
     renderForm();
     const px = () => screen.getByTestId('exp-pixels').textContent;
     // 120 mm / 25.4 × 300 = 1417.3 -> 1417; 80 mm -> 944.9 -> 945.
+    expect(await screen.findByTestId('exp-pixels')).toBeTruthy();
     expect(px()).toBe('1417 × 945 px (1.34 megapixels) at 300 dpi');
     await ue.clear(screen.getByTestId('exp-width'));
     await ue.type(screen.getByTestId('exp-width'), '89');
@@ -367,8 +372,9 @@ describe('Export dialog: size arithmetic', () => {
     await ue.clear(screen.getByTestId('exp-height'));
     await ue.type(screen.getByTestId('exp-height'), '80');
     expect(screen.queryByTestId('exp-blocked')).toBeNull();
-    // The button names what it makes: kind, size and dpi.
-    expect(screen.getByTestId('exp-submit').textContent).toBe('Export PNG · 120 × 80 mm · 1200 dpi');
+    // The button names what it makes: kind, size and dpi, and the preflight's failures (this figure has no mesh yet,
+    // so no alt text: one rule fails).
+    expect(screen.getByTestId('exp-submit').textContent).toBe('Export PNG · 120 × 80 mm · 1200 dpi (preflight: 1 failing)');
   }, 60_000);
 
   it('posts the PNG export, follows the job and offers the new file; a missing route reads plainly', async () => {
@@ -378,6 +384,7 @@ describe('Export dialog: size arithmetic', () => {
       ...signedInRoutes(me),
       'POST /api/figures/f1/exports': () => json(202, { jobId: 'j7' }),
       'GET /api/jobs/j7/events': () => stream.response,
+      ...profileRoute(),
     });
     storeSession(me);
     const ue = userEvent.setup();
@@ -386,7 +393,7 @@ describe('Export dialog: size arithmetic', () => {
         <ExportForm figure={figure()} canvas={{ widthMm: 89, heightMm: 60, dpi: 300 }} transparentDefault={false} />
       </AppProviders>,
     );
-    await ue.click(screen.getByTestId('exp-transparent'));
+    await ue.click(await screen.findByTestId('exp-transparent'));
     await ue.click(screen.getByTestId('exp-submit'));
     await waitFor(() => expect(api.callsTo('POST', '/api/figures/f1/exports')).toHaveLength(1));
     expect(api.callsTo('POST', '/api/figures/f1/exports')[0].body).toEqual({ format: 'png', widthMm: 89, heightMm: 60, dpi: 300, transparent: true });
@@ -410,8 +417,66 @@ describe('Export dialog: size arithmetic', () => {
         <ExportForm figure={figure()} canvas={{ widthMm: 89, heightMm: 60, dpi: 300 }} transparentDefault={false} />
       </AppProviders>,
     );
+    // No delivery-profile route either: the dialog says so and offers the default profile's choices.
+    expect((await screen.findByTestId('exp-profile-error')).textContent).toContain('default profile');
     await ue.selectOptions(screen.getByTestId('exp-format'), 'bundle');
     await ue.click(screen.getByTestId('exp-submit'));
     expect((await screen.findByTestId('exp-server-error')).textContent).toContain('No mock for POST /api/figures/f1/exports');
   });
+});
+
+describe('Export dialog: the delivery profile first, the preflight before export', () => {
+  it('offers the profile\'s formats, columns, dpi, colour and press condition first; the planned file is preflighted before anything is sent', async () => {
+    const api = mockFetch({
+      ...signedInRoutes(me),
+      ...profileRoute({ ...DEFAULT_DELIVERY_PROFILE, publicationId: 'p1', isDefault: false, updatedAt: null, updatedBy: null, pressCondition: 'gracol', columnWidthsMm: [{ name: 'text', widthMm: 84 }, { name: 'full page', widthMm: 174 }] }),
+      'POST /api/figures/f1/exports': () => json(202, { jobId: 'j9' }),
+    });
+    storeSession(me);
+    const ue = userEvent.setup();
+    render(
+      <AppProviders client={createQueryClient()}>
+        <ExportForm figure={figure()} canvas={{ widthMm: 84, heightMm: 60, dpi: 300 }} transparentDefault={false} />
+      </AppProviders>,
+    );
+    const format = (await screen.findByTestId('exp-format')) as HTMLSelectElement;
+    // The profile lists TIFF, PNG, then PDF and SVG: in that order, TIFF chosen.
+    expect(Array.from(format.options).map((o) => o.value).slice(0, 6)).toEqual(['tiff', 'png', 'pdf-radial', 'pdf-section', 'svg-radial', 'svg-section']);
+    expect(format.value).toBe('tiff');
+    expect((screen.getByTestId('exp-colour') as HTMLSelectElement).value).toBe('cmyk');
+    expect((screen.getByTestId('exp-press') as HTMLSelectElement).value).toBe('gracol');
+    expect(screen.getByTestId('exp-preset-text').textContent).toBe('text 84 mm');
+    expect(screen.getByTestId('exp-preset-full-page').textContent).toBe('full page 174 mm');
+    // The canvas asks 300 dpi, the profile at least 600: the dialog starts at 600. 84 mm / 25.4 × 600 = 1984.25 -> 1984.
+    expect((screen.getByTestId('exp-dpi') as HTMLSelectElement).value).toBe('600');
+    expect(screen.getByTestId('exp-pixels').textContent).toMatch(/^1984 × 1417 px/);
+
+    // Preflight of the planned file: every rule, each with its verdict; the figure has no mesh yet, so no alt text.
+    const pf = screen.getByTestId('exp-preflight');
+    const rows = () => Object.fromEntries(within(screen.getByTestId('exp-preflight')).getAllByTestId('preflight-row').map((r) => [r.getAttribute('data-rule'), r.getAttribute('data-status')]));
+    expect(Object.keys(rows())).toHaveLength(10);
+    expect(rows()).toMatchObject({ format: 'pass', size: 'pass', resolution: 'pass', column_width: 'pass', colour_mode: 'pass', icc_profile: 'pass', fonts_embedded: 'pass', alt_text: 'fail' });
+    expect(pf.textContent).toContain('compute the mesh first');
+
+    // 300 dpi and 200 mm: below the profile's minimum and wider than its widest column; the button says so.
+    await ue.selectOptions(screen.getByTestId('exp-dpi'), '300');
+    await ue.clear(screen.getByTestId('exp-width'));
+    await ue.type(screen.getByTestId('exp-width'), '200');
+    expect(rows()).toMatchObject({ resolution: 'fail', column_width: 'fail' });
+    expect(within(screen.getByTestId('exp-preflight')).getByText(/wider than every column: it would be reduced to 174 mm \(87%\)/)).toBeTruthy();
+    expect(screen.getByTestId('exp-submit').textContent).toMatch(/^Export TIFF · 200 × 60 mm · 300 dpi · CMYK GRACOL \(preflight: \d+ failing\)$/);
+
+    // RGB instead: the colour-mode rule now fails against this CMYK profile.
+    await ue.selectOptions(screen.getByTestId('exp-colour'), 'rgb');
+    expect(rows()).toMatchObject({ colour_mode: 'fail', icc_profile: 'fail' });
+    await ue.selectOptions(screen.getByTestId('exp-colour'), 'cmyk');
+    await ue.click(screen.getByTestId('exp-submit'));
+    await waitFor(() => expect(api.callsTo('POST', '/api/figures/f1/exports')).toHaveLength(1));
+    expect(api.callsTo('POST', '/api/figures/f1/exports')[0].body).toEqual({ format: 'tiff', widthMm: 200, heightMm: 60, dpi: 300, colour: 'cmyk', pressCondition: 'gracol' });
+
+    // A PDF companion: its page and text sizes come from the very plot it will draw.
+    await ue.selectOptions(screen.getByTestId('exp-format'), 'pdf-section');
+    expect(screen.getByTestId('exp-preflight').getAttribute('data-passed')).not.toBeNull();
+    expect(rows()).toMatchObject({ size: 'pass', fonts_embedded: 'pass', colour_mode: 'pass', alt_text: 'pass' });
+  }, 60_000);
 });

@@ -3,7 +3,7 @@ import { UnrecoverableError } from 'bullmq';
 import { QUEUES, type Recipe } from '@psiform/contracts';
 import { AssetStore, CONTENT_TYPES, ENGINE_VERSION, JobsStore, ObjectStorage, exportKey, sha256Hex, type JobPayload, type NewAsset } from '@psiform/server';
 import { DEFAULT_DELIVERY_PROFILE, type ColourMode, type DeliveryProfile, type PressConditionId } from '@psiform/contracts';
-import { buildBundle, preflightReport, preflightText, type BundleFile, type PreflightSubject } from '@psiform/print';
+import { buildBundle, plotAlt, preflightReport, preflightText, type BundleFile, type PreflightSubject } from '@psiform/print';
 import type { JobProcessor, ProcessorJob } from '../queues/job-processor';
 import type { FigureRenderer } from '../render/figure-renderer';
 import { ensureMesh, runTracked, versionOf, type TrackedJob, type TrackedResult } from '../render/tracked-job';
@@ -23,14 +23,6 @@ type ExportParams = (({ format: 'svg' } & SvgParams) | ({ format: 'pdf' } & SvgP
   /** The publication's delivery profile when the export was asked for (apps/api fills it in). */
   profile?: DeliveryProfile;
 };
-
-/** The words a plot companion carries as alt text: its SVG title, and title + description as the long text. */
-export function plotAlt(svg: string): { short: string; long: string } {
-  const un = (x: string) => x.replace(/&lt;/g, '<').replace(/&gt;/g, '>').replace(/&quot;/g, '"').replace(/&apos;/g, "'").replace(/&amp;/g, '&');
-  const title = un(/<title>([\s\S]*?)<\/title>/.exec(svg)?.[1] ?? '');
-  const desc = un(/<desc>([\s\S]*?)<\/desc>/.exec(svg)?.[1] ?? '');
-  return { short: title, long: `${title}. ${desc}`.trim() };
-}
 
 /**
  * Export jobs (QUEUES.export): svg (radial plot or section map, Lato embedded), glb/stl (the version's mesh,
