@@ -15,3 +15,4 @@ export * from './file-names';
 export * from './preflight';
 export * from './figure-text';
 export * from './figure-files';
+export * from './svg-fonts';
