@@ -132,6 +132,23 @@ describe('exports (e2e)', () => {
     thumbFigure = { id, title: `Thumb ${RUN_ID}` };
   }, 120000);
 
+  it('a mesh made by an export (no mesh job) also leaves a thumbnail on the figure', async () => {
+    const id = (await t.http().post('/api/figures').set(auth(tok.illustrator)).send({ publicationId: pub, title: `Thumb export ${RUN_ID}`, recipe: smallRecipe({ label: 'thumb-export', grid: { n: 36 } }) }).expect(201)).body.id;
+    const job = await finished((await t.http().post(`/api/figures/${id}/exports`).set(auth(tok.illustrator)).send({ format: 'glb' }).expect(201)).body.jobId);
+    expect(job.state).toBe('completed');
+    expect(job.assets.map((a) => a.kind).sort()).toEqual(['glb', 'stl']); // the export computed the mesh itself
+    const fig = await waitFor('the thumbnail of the export-made mesh', async () => {
+      const f = (await t.http().get(`/api/figures/${id}`).set(auth(tok.editor)).expect(200)).body;
+      return f.thumbnailAssetId ? f : undefined;
+    }, 90000, 300);
+    expect(fig.assets.find((a: { id: string }) => a.id === fig.thumbnailAssetId)).toMatchObject({ kind: 'png', stats: { thumbnail: true, widthPx: 320, heightPx: 240 } });
+    // A second export of the same version reuses the mesh: no second thumbnail job.
+    const again = await finished((await t.http().post(`/api/figures/${id}/exports`).set(auth(tok.illustrator)).send({ format: 'stl' }).expect(201)).body.jobId);
+    expect(again.state).toBe('completed');
+    const after = (await t.http().get(`/api/figures/${id}`).set(auth(tok.editor)).expect(200)).body;
+    expect(after.assets.filter((a: { kind: string; stats: { thumbnail?: boolean } | null }) => a.kind === 'png' && a.stats?.thumbnail)).toHaveLength(1);
+  }, 150000);
+
   it('the figures list carries a presigned thumbnailUrl that downloads the 320 × 240 PNG; null for a figure without one', async () => {
     expect(thumbFigure).toBeDefined();
     const bare = (await t.http().post('/api/figures').set(auth(tok.illustrator)).send({ publicationId: pub, title: `Thumb ${RUN_ID} none`, recipe: smallRecipe({ grid: { n: 32 } }) }).expect(201)).body.id;

@@ -6,7 +6,7 @@ import { DEFAULT_DELIVERY_PROFILE, type ColourMode, type DeliveryProfile, type P
 import { buildBundle, plotAlt, preflightReport, preflightText, type BundleFile, type PreflightSubject } from '@psiform/print';
 import type { JobProcessor, ProcessorJob } from '../queues/job-processor';
 import type { FigureRenderer } from '../render/figure-renderer';
-import { ensureMesh, runTracked, versionOf, type TrackedJob, type TrackedResult } from '../render/tracked-job';
+import { ensureMesh, runTracked, versionOf, type AfterMesh, type TrackedJob, type TrackedResult } from '../render/tracked-job';
 import { companionSvg, figureSvg, type SvgParams } from './svg-export';
 import { altOf, figureWords } from './figure-words';
 import { encodePdf, encodeTiff, pdfSubject, pngFacts, rasterSubject, svgSubject, tiffFacts } from './print-files';
@@ -38,6 +38,8 @@ export class ExportJobProcessor implements JobProcessor<JobPayload, TrackedResul
     private readonly renderer: FigureRenderer | null,
     private readonly engineVersion: string = ENGINE_VERSION,
     private readonly now: () => Date = () => new Date(),
+    /** The mesh job's after-mesh hook (thumbnails), for meshes this job computes first (glb, stl, bundle). */
+    private readonly afterMesh?: AfterMesh,
   ) {}
 
   async process(job: ProcessorJob<JobPayload>): Promise<TrackedResult> {
@@ -53,7 +55,7 @@ export class ExportJobProcessor implements JobProcessor<JobPayload, TrackedResul
       else if (p.format === 'bundle') assets = await this.bundle(t, recipe, version, profile);
       else throw new UnrecoverableError(`export job ${t.id} has an unknown format ${JSON.stringify((p as { format?: unknown }).format)}`);
       return { timings: { total: Math.round(performance.now() - total) }, assets };
-    });
+    }, this.afterMesh);
     return { jobId: res.jobId, assetIds: res.assetIds };
   }
 

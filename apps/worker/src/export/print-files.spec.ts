@@ -7,6 +7,9 @@ import { DEFAULT_DELIVERY_PROFILE, parseRecipe, type DeliveryProfile } from '@ps
 import { encodeRgbaPng, exportPixelSize, figureSvg, plannedSubject, plotAlt, preflightFile, sectionMapSvg, type PreflightSubject } from '@psiform/print';
 import { encodePdf, encodeTiff, pdfFacts, pdfSubject, pngFacts, rasterSubject, tiffFacts } from './print-files';
 
+// sharp, pdfkit and the Debian readers on the shared 2-core machine: a loaded run has taken over 5 s per file.
+jest.setTimeout(60_000);
+
 function tool(cmd: string, args: string[]): { code: number; out: string } {
   const r = spawnSync(cmd, args, { encoding: 'utf8' });
   if (r.error) throw new Error(`${cmd} is needed (Debian package; npm test installs it): ${r.error.message}`);
