@@ -5,6 +5,7 @@
 import { pressCondition, type ColourMode, type PressConditionId, type Recipe, type SectionPlane } from '@psiform/contracts';
 import { autoExtent, type OrbitalState } from '@psiform/orbitals';
 import { figureTextFacts } from './figure-text';
+import { usesPhaseKey } from './phase-key';
 import { figureMetadata, type FigureMetadata, type MeshResultLike } from './metadata';
 import { svgPrintFacts, type PreflightSubject } from './preflight';
 import { radialPlotSvg } from './radial-plot';
@@ -125,7 +126,7 @@ export function plannedSubject(file: PlannedFile, recipe: Recipe, rasterAlt: { s
   const icc = (colour: ColourMode, press: PressConditionId) =>
     colour === 'cmyk' ? { description: pressCondition(press)?.name ?? press, condition: press } : { description: 'sRGB IEC61966-2.1', condition: 'srgb' };
   if (file.format === 'png' || file.format === 'tiff') {
-    const facts = figureTextFacts(recipe.annotations, printedLabel(recipe));
+    const facts = figureTextFacts(recipe.annotations, printedLabel(recipe), usesPhaseKey(recipe));
     const colour: ColourMode = file.format === 'tiff' ? file.colour : 'rgb';
     return {
       file: `figure.${file.format === 'tiff' ? 'tif' : 'png'}`,

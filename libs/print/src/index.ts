@@ -16,3 +16,4 @@ export * from './preflight';
 export * from './figure-text';
 export * from './figure-files';
 export * from './svg-fonts';
+export * from './phase-key';

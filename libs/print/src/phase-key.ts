@@ -4,6 +4,19 @@
 // PNG, figure sets) and SVG files. Angles run counterclockwise from the right, as arg z in the complex plane
 // (common practice for Argand diagrams).
 
+import type { Recipe } from '@psiform/contracts';
+import { isRealState } from '@psiform/orbitals';
+
+/**
+ * True when the figure is coloured by arg ψ (phase mode 'argument', or 'auto' on a complex state): then it carries
+ * the phase key, and the ψ > 0 / ψ < 0 legend does not apply.
+ */
+export function usesPhaseKey(recipe: Pick<Recipe, 'content' | 'phase'>): boolean {
+  const mode = recipe.phase?.mode ?? 'auto';
+  if (mode !== 'auto') return mode === 'argument';
+  return !isRealState({ Z: recipe.content.Z, terms: recipe.content.terms });
+}
+
 /** Colour (#rrggbb) of the phase angle `angle` (radians) on the figure's wheel. */
 export type PhaseColourAt = (angle: number) => string;
 

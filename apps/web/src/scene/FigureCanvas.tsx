@@ -5,6 +5,7 @@ import { Callout } from '@blueprintjs/core';
 import { Canvas, useThree } from '@react-three/fiber';
 import * as THREE from 'three';
 import type { Recipe } from '@psiform/contracts';
+import type { PhaseColourAt } from '@psiform/print';
 import { visibleHeightNow } from './framing';
 import type { PhaseGeometry } from './geometry';
 import { axisTips, OrbitalScene, type OrbitalSceneProps } from './OrbitalScene';
@@ -22,6 +23,8 @@ export interface FigureCanvasProps {
   onOrbitEnd?: OrbitalSceneProps['onOrbitEnd'];
   /** Once per set of surfaces, after a frame of them has been drawn. */
   onReady?(): void;
+  /** A figure coloured by arg ψ: its phase key's colours (scene/phaseKeyColours), drawn in the 2D layer. */
+  phaseKey?: PhaseColourAt;
 }
 
 export class CanvasBoundary extends Component<{ children: ReactNode }, { error: string | null }> {
@@ -95,6 +98,7 @@ export function FigureCanvas(props: FigureCanvasProps) {
           ink: inkFor(bg),
           axisLetters: letters,
           caption: p.caption,
+          phaseKey: p.phaseKey,
         });
       }
     }

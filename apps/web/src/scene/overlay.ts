@@ -3,7 +3,7 @@
 // into each tile and composites it, so both show the same layer at any resolution.
 import { BOHR_RADIUS_ANGSTROM } from '@psiform/orbitals';
 import type { Recipe } from '@psiform/contracts';
-import { drawRuns, measureRuns, OVERLAY_MM, typeset, UNIT_TEXT, type TextCanvas, type TextRun } from '@psiform/print';
+import { drawPhaseKey, drawRuns, measureRuns, OVERLAY_MM, typeset, UNIT_TEXT, type PhaseColourAt, type TextCanvas, type TextRun } from '@psiform/print';
 
 export type ScaleUnit = Recipe['annotations']['scaleBar']['unit'];
 
@@ -59,6 +59,8 @@ export interface OverlayInput {
   fontFamily?: string;
   /** The caption's lines and band (captionLayout); computed here when absent. */
   caption?: CaptionLayout;
+  /** A figure coloured by arg ψ: the phase key (the figure's own colour rule), top right of the figure area. */
+  phaseKey?: PhaseColourAt;
 }
 
 /** The caption set in its own band under the figure: lines, and the band's height in mm. */
@@ -154,6 +156,13 @@ export function drawOverlay(ctx: CanvasRenderingContext2D, o: OverlayInput): voi
     const runs: TextRun[] = [{ text: `${formatLength(length)} `, script: 'base' }, ...unitRuns(bar.unit)];
     const w = measureRuns(ctx, runs, textPx, family, 400);
     drawRuns(ctx, runs, (x0 + x1) / 2 - w / 2, yBar - 1.4 * mm, textPx, family, 400);
+  }
+
+  if (o.phaseKey) {
+    const fontPx = OVERLAY_MM.small * mm;
+    const r = OVERLAY_MM.keyRadius * mm;
+    // Room right of the ring for the "0" mark, above it for the title and the π/2 mark.
+    drawPhaseKey(ctx, { cx: o.width - margin - r - fontPx * 1.2, cy: margin + fontPx * 2.2 + r, r, colourAt: o.phaseKey, ink: o.ink, fontPx, fontFamily: family, title: 'arg ψ' });
   }
 
   if (cap.lines.length) {

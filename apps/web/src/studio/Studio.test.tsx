@@ -198,6 +198,9 @@ describe('Composer: superposition coefficients', () => {
     const ue = userEvent.setup();
     renderApp('/composer');
     await screen.findByTestId('canvas-probe');
+    // A real state (2p_z): the sign legend, no phase key.
+    expect(screen.getByTestId('phase-legend').textContent).toContain('ψ > 0');
+    expect(screen.queryByTestId('phase-key')).toBeNull();
     const w = FakeWorker.last!;
     const samples = () => w.sent.filter((m) => m.type === 'sample');
     const surfaces = () => w.sent.filter((m) => m.type === 'surface');
@@ -231,6 +234,11 @@ describe('Opening a saved figure', () => {
     const save = () => screen.getByTestId('studio-save') as HTMLButtonElement;
     expect(save().disabled).toBe(true);
     expect(screen.queryByTestId('studio-dirty')).toBeNull();
+    // Coloured by arg ψ: the phase key (a ring marked 0, π/2, π, 3π/2), not the ψ > 0 / ψ < 0 legend of real states.
+    const key = screen.getByTestId('phase-key');
+    expect(Array.from(key.querySelectorAll('.phase-key-mark')).map((t) => t.textContent)).toEqual(['0', 'π/2', 'π', '3π/2']);
+    expect(key.querySelectorAll('path')).toHaveLength(72);
+    expect(screen.getByTestId('phase-legend').textContent).not.toContain('ψ > 0');
     for (const mode of ['superposition', 'label', 'hybrid', 'nlm', 'superposition']) {
       await ue.click(screen.getByTestId(`cmp-mode-${mode}`));
       expect({ mode, dirty: screen.queryByTestId('studio-dirty'), disabled: save().disabled }).toEqual({ mode, dirty: null, disabled: true });

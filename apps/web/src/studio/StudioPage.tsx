@@ -22,7 +22,8 @@ import { COMPOSER_PRESETS, presetRecipe } from './presets';
 import { applyShortcut, isTypingTarget } from './shortcuts';
 import { StagePanel } from './StagePanel';
 import { usePreview } from './usePreview';
-
+import { phaseKeyColours } from '../scene/phaseKeyColours';
+import { PhaseKeyLegend } from '../components/PhaseKeyLegend';
 const StudioCanvas = lazy(() => import('./StudioCanvas'));
 
 export const MODEL_NOTE = 'One-electron hydrogen-like model: the shapes are ψ_nlm = R_nl Y_lm of a single electron; many-electron orbitals differ.';
@@ -103,6 +104,13 @@ function Studio({ initial, figure, publicationId }: StudioProps) {
     }
     // eslint-disable-next-line react-hooks/exhaustive-deps
   }, [JSON.stringify(recipe.content)]);
+
+  // Coloured by arg ψ: the phase key (same colours as the surfaces) in the legend and the figure's 2D layer.
+  const keyColours = useMemo(
+    () => phaseKeyColours(recipe),
+    // eslint-disable-next-line react-hooks/exhaustive-deps -- the key depends on the state and phase mode only
+    [JSON.stringify(recipe.content), recipe.phase?.mode],
+  );
 
   // Stage shortcuts (not while typing in a field).
   const look = { stage: recipe.stage, annotations: recipe.annotations };
@@ -285,6 +293,7 @@ function Studio({ initial, figure, publicationId }: StudioProps) {
                   annotations={recipe.annotations}
                   canvas={recipe.canvas}
                   label={label}
+                  phaseKey={keyColours}
                   controls
                   onOrbitEnd={(pose) =>
                     dispatch({ type: 'look', annotations: recipe.annotations, stage: { ...recipe.stage, camera: { ...recipe.stage.camera, view: 'free', position: pose.position, target: pose.target, zoom: pose.zoom } } })
@@ -322,7 +331,8 @@ function Studio({ initial, figure, publicationId }: StudioProps) {
             )}
           </p>
           <div className="pf-legend" aria-label="Phase colours" data-testid="phase-legend">
-            {!complex && (
+            {keyColours && <PhaseKeyLegend colourAt={keyColours} />}
+            {!keyColours && (
               <>
                 <span>
                   <i style={{ background: recipe.palette.positive }} /> ψ &gt; 0
