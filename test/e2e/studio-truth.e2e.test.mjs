@@ -29,7 +29,7 @@ async function followJob(token, jobId, what) {
   return job;
 }
 
-test('a complex 2p(m=+1) made through the API opens clean in the studio, and no view switch changes its state', { timeout: 120_000 }, async () => {
+test('a complex 2p(m=+1) made through the API opens clean in the studio with its phase key, and no view switch changes its state', { timeout: 120_000 }, async () => {
   const token = await apiLogin(DEMO_ILLUSTRATOR);
   const [pub] = await api('publications', 'GET', '/api/publications', { token });
   const terms = [{ n: 2, l: 1, m: 1, basis: 'complex', re: 1, im: 0 }];
@@ -45,6 +45,14 @@ test('a complex 2p(m=+1) made through the API opens clean in the studio, and no 
       assert.equal(await page.getByTestId('studio-save').isDisabled(), true, `Save stays disabled ${when}`);
     };
     await clean('on opening');
+    // Coloured by arg ψ: the phase key (ring of 72 sectors marked 0, π/2, π, 3π/2), not the ψ > 0 / ψ < 0 legend.
+    const key = page.getByTestId('phase-legend').getByTestId('phase-key');
+    await key.waitFor();
+    assert.deepEqual(await key.locator('.phase-key-mark').allTextContents(), ['0', 'π/2', 'π', '3π/2']);
+    assert.equal(await key.locator('path').count(), 72);
+    const fills = await key.locator('path').evaluateAll((els) => els.map((e) => e.getAttribute('fill')));
+    assert.ok(new Set(fills).size > 36, 'the ring runs through the wheel (many distinct colours)');
+    assert.doesNotMatch(await page.getByTestId('phase-legend').textContent(), /ψ > 0/);
     for (const mode of ['superposition', 'label', 'hybrid', 'nlm', 'superposition']) {
       await page.getByTestId(`cmp-mode-${mode}`).click();
       await clean(`after switching to ${mode}`);
