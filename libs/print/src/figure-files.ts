@@ -3,7 +3,8 @@
 // file that is about to be made. One owner, so the preflight shown before an export checks the same drawing and
 // the same sizes the export job then writes (and checks again on the written bytes).
 import { pressCondition, type ColourMode, type PressConditionId, type Recipe, type SectionPlane } from '@psiform/contracts';
-import { autoExtent, type OrbitalState } from '@psiform/orbitals';
+import { autoExtent } from '@psiform/orbitals';
+import { recipeState } from '@psiform/meshing';
 import { figureTextFacts } from './figure-text';
 import { usesPhaseKey } from './phase-key';
 import { figureMetadata, type FigureMetadata, type MeshResultLike } from './metadata';
@@ -28,10 +29,6 @@ export const PLOT_INK = '#1f1d1a';
 export const SECTION_SAMPLES = 201;
 
 const L = 'spdfghiklmnoqrtuv';
-
-function recipeState(recipe: Recipe): OrbitalState {
-  return { Z: recipe.content.Z, terms: recipe.content.terms.map((t) => ({ n: t.n, l: t.l, m: t.m, basis: t.basis, re: t.re, im: t.im })) };
-}
 
 /** The recipe's phase colours on its background (white when the stage is transparent: an SVG is printed on paper). */
 export function plotPalette(recipe: Recipe): PlotPalette {
@@ -72,13 +69,9 @@ export function figureSvg(recipe: Recipe, p: SvgParams, fonts: FontBytes | undef
 
 /** The metadata sheet (caption, alt text, model note) of a version from its mesh statistics: one place for every job. */
 export function figureWords(recipe: Recipe, meshStats: Record<string, unknown>, engineVersion: string, generatedAt: string): FigureMetadata {
-  const s = meshStats as { isovalue: number; enclosed: number; grid: { n: number; extent: number }; surfaces?: Array<{ phase: '+' | '-' | 'complex' } & Record<string, unknown>> };
-  const result: MeshResultLike = {
-    isovalue: s.isovalue,
-    enclosed: s.enclosed,
-    grid: { n: s.grid.n, extent: s.grid.extent },
-    surfaces: (s.surfaces ?? []).map(({ phase, ...stats }) => ({ phase, stats: stats as never })),
-  };
+  // The mesh statistics ARE the summary (@psiform/meshing summariseSurfaces): the all-space fraction with its
+  // error, the part inside the box, the grids and every warning travel with the figure into caption and sheet.
+  const result = meshStats as unknown as MeshResultLike;
   const palette = plotPalette(recipe);
   return figureMetadata({
     recipe: recipe as never,

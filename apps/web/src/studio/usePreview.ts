@@ -5,6 +5,7 @@ import { useEffect, useRef, useState } from 'react';
 import type { OrbitalState } from '@psiform/orbitals';
 import { disposeGeometries, geometryFromArrays, type PhaseGeometry } from '../scene/geometry';
 import type { PreviewRequest, PreviewResponse } from '../workers/preview-protocol';
+import type { SurfaceWarning } from '@psiform/meshing';
 
 /** Swappable in tests (jsdom has no module workers). */
 export const previewWorker = {
@@ -21,10 +22,16 @@ export interface PreviewStatus {
   /** Round trip of the last surface update as seen by the page. */
   updateMs: number | null;
   triangles: number;
+  /** Probability inside the surface over all space, its estimated error and the part inside the box. */
   enclosed: number | null;
+  enclosedError: number | null;
+  enclosedInBox: number | null;
+  /** What the preview cannot show truthfully (e.g. 'box-cuts-surface' with suggestedExtent: offer to widen the box). */
+  warnings: SurfaceWarning[];
   isovalue: number | null;
   /** Largest |ψ| on the preview grid (a0^-3/2): no |ψ| surface exists above it. */
   maxAbs: number | null;
+  /** Points per side of the preview's outer grid. */
   n: number;
   error: string | null;
 }
@@ -32,7 +39,16 @@ export interface PreviewStatus {
 /** Preview grid: the recipe's N, capped at 112 so the slider stays responsive (about 1.4 M voxels). */
 export const PREVIEW_MAX_N = 112;
 
-export function usePreview(state: OrbitalState | null, gridN: number, extent: 'auto' | number, rule: PreviewRule | null) {
+export function usePreview(
+  state: OrbitalState | null,
+  gridN: number | 'auto',
+  extent: 'auto' | number,
+  rule: PreviewRule | null,
+  /** The recipe's palette (with its swatchbook's wheel) and phase mode: the colours the surfaces and key share. */
+  colours?: { palette: { positive: string; negative: string; wheel?: { lightness: number; chroma: number } | null }; mode?: 'auto' | 'sign' | 'argument' },
+) {
+  const coloursRef = useRef(colours);
+  coloursRef.current = colours;
   const workerRef = useRef<Worker | null>(null);
   const seq = useRef(0);
   const sampleSeq = useRef(-1);
@@ -48,12 +64,16 @@ export function usePreview(state: OrbitalState | null, gridN: number, extent: 'a
     updateMs: null,
     triangles: 0,
     enclosed: null,
+    enclosedError: null,
+    enclosedInBox: null,
+    warnings: [],
     isovalue: null,
     maxAbs: null,
     n: 0,
     error: null,
   });
-  const n = Math.min(gridN, PREVIEW_MAX_N);
+  // 'auto': the engine picks the grid (capped at the preview's ceiling in the worker).
+  const n: number | 'auto' = gridN === 'auto' ? 'auto' : Math.min(gridN, PREVIEW_MAX_N);
 
   function send(req: PreviewRequest) {
     workerRef.current?.postMessage(req);
@@ -67,7 +87,7 @@ export function usePreview(state: OrbitalState | null, gridN: number, extent: 'a
     const s = ++seq.current;
     inFlight.current = { seq: s, sent: performance.now() };
     setStatus((st) => ({ ...st, phase: st.phase === 'sampling' ? 'sampling' : 'extracting' }));
-    send({ type: 'surface', seq: s, sampleSeq: sampleSeq.current, rule: r });
+    send({ type: 'surface', seq: s, sampleSeq: sampleSeq.current, rule: r, palette: coloursRef.current?.palette, mode: coloursRef.current?.mode });
   }
 
   useEffect(() => {
@@ -83,7 +103,7 @@ export function usePreview(state: OrbitalState | null, gridN: number, extent: 'a
       const msg = ev.data;
       if (msg.type === 'sampled') {
         if (msg.seq !== sampleSeq.current) return;
-        setStatus((s) => ({ ...s, sampleMs: msg.ms, n: msg.n, maxAbs: msg.maxAbs }));
+        setStatus((s) => ({ ...s, sampleMs: msg.ms, n: typeof msg.n === 'number' ? msg.n : s.n }));
         return;
       }
       if (inFlight.current && msg.seq === inFlight.current.seq) {
@@ -99,11 +119,16 @@ export function usePreview(state: OrbitalState | null, gridN: number, extent: 'a
             updateMs: performance.now() - sent,
             triangles: msg.triangles,
             enclosed: msg.enclosed,
+            enclosedError: msg.enclosedError ?? null,
+            enclosedInBox: msg.enclosedInBox ?? null,
+            warnings: msg.warnings ?? [],
             isovalue: msg.isovalue,
+            n: msg.grid?.n ?? s.n,
+            maxAbs: msg.maxAbs ?? s.maxAbs,
             error: null,
           }));
         } else if (msg.type === 'error') {
-          setStatus((s) => ({ ...s, phase: 'error', error: msg.message }));
+          setStatus((s) => ({ ...s, phase: 'error', error: msg.message, maxAbs: msg.maxAbs ?? s.maxAbs }));
         }
         const next = pending.current;
         pending.current = null;
@@ -149,5 +174,5 @@ export function usePreview(state: OrbitalState | null, gridN: number, extent: 'a
     // eslint-disable-next-line react-hooks/exhaustive-deps
   }, [ruleKey]);
 
-  return { surfaces, status, previewN: n };
+  return { surfaces, status, previewN: n === 'auto' ? status.n || PREVIEW_MAX_N : n };
 }
