@@ -106,7 +106,8 @@ describe('figureMetadata', () => {
     expect(t).toContain(meta.caption);
     expect(t).toContain(meta.altText);
     expect(t).toContain(meta.longDescription);
-    expect(t).not.toMatch(/_|a0\^/); // typeset for plain text: no underscores, no caret exponents
+    // Typeset for plain text: no underscores, no caret exponents (the conventions note quotes the engine's own text).
+    expect(t.split('## Conventions')[0]).not.toMatch(/_|a0\^/);
     expect(t).toContain(MODEL_NOTE);
     expect(t).toContain('40³ points');
     expect(t).toContain('## Warnings');
