@@ -6,7 +6,7 @@ import { phaseHex } from '@psiform/colour';
 import { usesPhaseKey, type PhaseColourAt } from '@psiform/print';
 
 export function phaseKeyColours(recipe: Pick<Recipe, 'content' | 'phase' | 'palette'>): PhaseColourAt | undefined {
-  let keyed = false;
+  let keyed: boolean;
   try {
     keyed = usesPhaseKey(recipe);
   } catch {
