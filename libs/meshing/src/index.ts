@@ -13,3 +13,4 @@ export * from './sections';
 export * from './refine';
 export * from './sparse';
 export * from './tolerance';
+export * from './optimise';

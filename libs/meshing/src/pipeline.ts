@@ -186,6 +186,8 @@ export interface SurfacesResult {
   warnings: SurfaceWarning[];
   /** How exact the surfaces are (computed states; null for uploaded cubes, which have no analytic field). */
   refinement: SurfaceRefinement | null;
+  /** The analytic field the surfaces lie on (computed states; null for uploads): for checks and the screen GLB. */
+  field: CompiledState | null;
   /** How psi was sampled: 'sparse' (coarse-to-fine, blocks the surface can cross) or 'dense' (every grid point). */
   sampling: { method: 'sparse' | 'dense'; points: number; densePoints: number; blocksActive: number; blocksTotal: number };
   timings_ms: Record<SurfaceStage | 'plan', number>;
@@ -675,7 +677,7 @@ export async function recipeToSurfaces(recipe: SurfaceRecipe, hooks: SurfaceHook
     if (!refinement.met) {
       plan.warnings.push({
         code: 'tolerance-unmet',
-        message: `the mesh lies up to ${fmt(refinement.maxDeviation)} a0 from the true surface, more than the ${fmt(refinement.tolerance)} a0 the output needs: refinement stopped at its triangle limit`,
+        message: `the mesh lies up to ${fmt(refinement.maxDeviation)} a0 from the true surface, more than the ${fmt(refinement.tolerance)} a0 the output needs: refinement stopped at its triangle limit or at a detail the grid does not resolve`,
       });
     }
   }
@@ -752,6 +754,7 @@ export async function recipeToSurfaces(recipe: SurfaceRecipe, hooks: SurfaceHook
     },
     warnings,
     refinement,
+    field: plan.compiled,
     sampling: {
       method: sparse ? 'sparse' : 'dense',
       points: meshes.reduce((s, m) => s + m.points, 0),
@@ -785,6 +788,7 @@ function exactSurfaces(plan: SurfacePlan, surfaces: PhaseSurface[], hooks: Surfa
     toleranceFrom = 'none';
   }
   const maxMove = Math.max(...plan.regions.map((r) => r.spacing));
+  const minSpacing = Math.min(...plan.regions.map((r) => r.spacing));
   const c = plan.level.isovalue;
   const out: SurfaceRefinement = { tolerance, toleranceFrom, maxDeviation: 0, projected: 0, projectionFailed: 0, trianglesBefore: 0, trianglesAfter: 0, rounds: 0, met: true };
   const pi: ProjectInfo = { maxDistance: 0, failed: 0 };
@@ -798,7 +802,7 @@ function exactSurfaces(plan: SurfacePlan, surfaces: PhaseSurface[], hooks: Surfa
     let mesh = s.mesh;
     if (Number.isFinite(tolerance)) {
       const ri = {} as RefineInfo;
-      mesh = refineMesh(s.mesh, F, s.phase, { tolerance, maxTriangles: hooks.maxTriangles }, ri);
+      mesh = refineMesh(s.mesh, F, s.phase, { tolerance, maxTriangles: hooks.maxTriangles, minEdge: minSpacing / 256 }, ri);
       out.maxDeviation = Math.max(out.maxDeviation, ri.maxDeviation);
       out.rounds = Math.max(out.rounds, ri.rounds);
       if (ri.limited) out.met = false;
@@ -925,6 +929,7 @@ async function cubeToSurfaces(recipe: SurfaceRecipe, hooks: SurfaceHooks): Promi
     features: { smallest: null, radialNodes: [], ring: false },
     warnings,
     refinement: null,
+    field: null,
     sampling: { method: 'dense', points: nx * ny * nz, densePoints: nx * ny * nz, blocksActive: 0, blocksTotal: 0 },
     timings_ms: timings,
   };

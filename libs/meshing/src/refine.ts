@@ -18,7 +18,7 @@
 // lies farther than the tolerance from the surface gets a new vertex (projected); a triangle with 1, 2 or 3
 // split edges becomes 2, 3 or 4 triangles, so neighbours always agree and a watertight mesh stays watertight.
 
-import type { Mesh } from './mesh';
+import { EdgeTable, GrowableUint32, type Mesh } from './mesh';
 import type { Phase } from './orbital-surfaces';
 
 /** What projection needs from @psiform/orbitals' CompiledState: gradient with the value (out of length 8). */
@@ -200,6 +200,12 @@ export interface RefineOptions {
   maxTriangles?: number;
   /** Rounds of splitting at most (each round halves the split edges). */
   maxRounds?: number;
+  /**
+   * Edges shorter than this (a0) are not split further: where a chord this short still misses the surface, the
+   * mesh spans a detail it does not resolve (a closed ring hole, a singular line), and splitting cannot converge.
+   * Default 0 (off).
+   */
+  minEdge?: number;
 }
 
 export interface RefineInfo {
@@ -209,7 +215,7 @@ export interface RefineInfo {
   rounds: number;
   trianglesBefore: number;
   trianglesAfter: number;
-  /** True when the triangle or round limit stopped refinement before the tolerance was met. */
+  /** True when the triangle, round or shortest-edge limit stopped refinement before the tolerance was met. */
   limited: boolean;
 }
 
@@ -224,6 +230,9 @@ export function refineMesh(mesh: Mesh, F: LevelFunction, phase: Phase, opts: Ref
   if (!(tol > 0) || !Number.isFinite(tol)) throw new RangeError(`tolerance must be a positive length in a0 (got ${tol})`);
   const maxTriangles = opts.maxTriangles ?? 4_000_000;
   const maxRounds = opts.maxRounds ?? 12;
+  const minEdge2 = (opts.minEdge ?? 0) ** 2;
+  let stuck = false;
+  let stuckWorst = 0;
   const V0 = mesh.positions.length / 3;
   if (V0 >= KEY) throw new RangeError(`refineMesh handles fewer than ${KEY} vertices`);
   const pos = new Grow64(mesh.positions.length * 2);
@@ -247,8 +256,9 @@ export function refineMesh(mesh: Mesh, F: LevelFunction, phase: Phase, opts: Ref
   for (;;) {
     const T = tri.length / 3;
     const X = P();
-    const checked = new Map<number, number>();
-    const mids = new Map<number, number>();
+    // Per edge key: CHECKED (within tolerance), MARKED (to split), then the new vertex's id.
+    const edges = new EdgeTable();
+    let marked = 0;
     worstMarked = 0;
     for (let t = 0; t < T; t++) {
       if (!fresh[t]) continue;
@@ -257,13 +267,20 @@ export function refineMesh(mesh: Mesh, F: LevelFunction, phase: Phase, opts: Ref
         const a = e === 0 ? ia : e === 1 ? ib : ic;
         const b = e === 0 ? ib : e === 1 ? ic : ia;
         const key = a < b ? a * KEY + b : b * KEY + a;
-        if (checked.has(key)) continue;
+        if (edges.get(key) !== NONE) continue;
         const d = dev(0.5 * (X[3 * a] + X[3 * b]), 0.5 * (X[3 * a + 1] + X[3 * b + 1]), 0.5 * (X[3 * a + 2] + X[3 * b + 2]));
-        checked.set(key, d);
-        if (d > tol) {
-          mids.set(key, -1);
+        if (d > tol && (X[3 * a] - X[3 * b]) ** 2 + (X[3 * a + 1] - X[3 * b + 1]) ** 2 + (X[3 * a + 2] - X[3 * b + 2]) ** 2 < minEdge2) {
+          stuck = true;
+          edges.set(key, CHECKED);
+          if (d > stuckWorst) stuckWorst = d;
+        } else if (d > tol) {
+          edges.set(key, MARKED);
+          marked++;
           if (d > worstMarked) worstMarked = d;
-        } else if (d > accepted) accepted = d;
+        } else {
+          edges.set(key, CHECKED);
+          if (d > accepted) accepted = d;
+        }
       }
       const d = dev((X[3 * ia] + X[3 * ib] + X[3 * ic]) / 3, (X[3 * ia + 1] + X[3 * ib + 1] + X[3 * ic + 1]) / 3, (X[3 * ia + 2] + X[3 * ib + 2] + X[3 * ic + 2]) / 3);
       if (d <= tol) {
@@ -279,23 +296,33 @@ export function refineMesh(mesh: Mesh, F: LevelFunction, phase: Phase, opts: Ref
         const a = e === 0 ? ia : e === 1 ? ib : ic;
         const b = e === 0 ? ib : e === 1 ? ic : ia;
         const key = a < b ? a * KEY + b : b * KEY + a;
-        if (mids.has(key)) any = true;
+        if (edges.get(key) === MARKED) any = true;
         const len = (X[3 * a] - X[3 * b]) ** 2 + (X[3 * a + 1] - X[3 * b + 1]) ** 2 + (X[3 * a + 2] - X[3 * b + 2]) ** 2;
         if (len > bestLen) {
           bestLen = len;
           bestKey = key;
         }
       }
-      if (!any) mids.set(bestKey, -1);
+      if (!any && bestLen >= minEdge2) {
+        edges.set(bestKey, MARKED);
+        marked++;
+      } else if (!any) stuck = true;
     }
-    if (mids.size === 0) break;
-    if (rounds >= maxRounds || T + 3 * mids.size > maxTriangles) {
+    if (marked === 0) {
+      limited ||= stuck;
+      break;
+    }
+    if (rounds >= maxRounds || T + 3 * marked > maxTriangles) {
       limited = true;
       break;
     }
     rounds++;
     // New vertices: chord midpoints projected onto the surface (moving at most half the edge).
-    for (const key of mids.keys()) {
+    const markedKeys: number[] = [];
+    edges.forEach((key, val) => {
+      if (val === MARKED) markedKeys.push(key);
+    });
+    for (const key of markedKeys) {
       const a = Math.floor(key / KEY);
       const b = key - a * KEY;
       const Y = P();
@@ -318,15 +345,17 @@ export function refineMesh(mesh: Mesh, F: LevelFunction, phase: Phase, opts: Ref
       nor.push(-g[1] / gl);
       nor.push(-g[2] / gl);
       ang?.push(Math.atan2(psi[1], psi[0]));
-      mids.set(key, id);
+      edges.set(key, id);
     }
-    const out = new Grow32(tri.length * 2);
-    const outFresh: number[] = [];
+    const out = new GrowableUint32(tri.length * 2);
+    const outFresh = new GrowableUint32(tri.length);
     const emit = (a: number, b: number, c: number, isNew: number) => {
-      out.push(a);
-      out.push(b);
-      out.push(c);
-      outFresh.push(isNew);
+      out.reserve(3);
+      out.data[out.length++] = a;
+      out.data[out.length++] = b;
+      out.data[out.length++] = c;
+      outFresh.reserve(1);
+      outFresh.data[outFresh.length++] = isNew;
     };
     const X2 = P();
     const d2 = (a: number, b: number) => (X2[3 * a] - X2[3 * b]) ** 2 + (X2[3 * a + 1] - X2[3 * b + 1]) ** 2 + (X2[3 * a + 2] - X2[3 * b + 2]) ** 2;
@@ -340,9 +369,9 @@ export function refineMesh(mesh: Mesh, F: LevelFunction, phase: Phase, opts: Ref
       for (let e = 0; e < 3; e++) {
         const a = v[e];
         const b = v[(e + 1) % 3];
-        const id = mids.get(a < b ? a * KEY + b : b * KEY + a);
-        m[e] = id ?? -1; // m[e] on edge v[e] v[e+1]
-        if (id !== undefined) count++;
+        const id = edges.get(a < b ? a * KEY + b : b * KEY + a);
+        m[e] = id >= 0 ? id : -1; // m[e] on edge v[e] v[e+1]
+        if (id >= 0) count++;
       }
       if (count === 0) emit(v[0], v[1], v[2], 0);
       else if (count === 3) {
@@ -372,19 +401,22 @@ export function refineMesh(mesh: Mesh, F: LevelFunction, phase: Phase, opts: Ref
         }
       }
     }
-    tri = out.toUint32();
-    fresh = Uint8Array.from(outFresh);
+    tri = out.toArray();
+    fresh = Uint8Array.from(outFresh.data.subarray(0, outFresh.length));
   }
   const positions = Float32Array.from(pos.data.subarray(0, pos.length));
   const result: Mesh = { positions, normals: Float32Array.from(nor.data.subarray(0, nor.length)), indices: tri };
   if (ang) result.phaseAngle = Float32Array.from(ang.data.subarray(0, ang.length));
-  const maxDeviation = limited ? Math.max(accepted, worstMarked) : accepted;
+  const maxDeviation = limited ? Math.max(accepted, worstMarked, stuckWorst) : accepted;
   if (info) Object.assign(info, { tolerance: tol, maxDeviation, rounds, trianglesBefore, trianglesAfter: tri.length / 3, limited } satisfies RefineInfo);
   return result;
 }
 
 /** Edge keys lo * KEY + hi stay exact doubles for fewer than 2^26 vertices. */
 const KEY = 2 ** 26;
+const NONE = -1;
+const MARKED = -2;
+const CHECKED = -3;
 
 class Grow64 {
   data: Float64Array;
@@ -402,24 +434,6 @@ class Grow64 {
   }
 }
 
-class Grow32 {
-  data: Uint32Array;
-  length = 0;
-  constructor(cap: number) {
-    this.data = new Uint32Array(Math.max(16, cap));
-  }
-  push(x: number): void {
-    if (this.length === this.data.length) {
-      const next = new Uint32Array(this.data.length * 2);
-      next.set(this.data);
-      this.data = next;
-    }
-    this.data[this.length++] = x;
-  }
-  toUint32(): Uint32Array {
-    return this.data.slice(0, this.length);
-  }
-}
 
 
 /**

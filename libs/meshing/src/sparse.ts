@@ -13,7 +13,7 @@
 // arithmetic and recursive subdivision for implicit functions and constructive solid geometry", SIGGRAPH 1992.
 
 import { CDX, CDY, CDZ, CORNER_OFFSETS, EDGE_AXIS, EDGE_HI, EDGE_LO, EDGE_TABLE, TRI_TABLE } from './mc-tables';
-import { GrowableFloat32, GrowableUint32, type Mesh } from './mesh';
+import { EdgeTable, GrowableFloat32, GrowableUint32, type Mesh } from './mesh';
 import type { CubeGrid } from './orbital-surfaces';
 
 /** The field as blocks: a safe enclosure over a box, and exact values at a block of lattice points. */
@@ -188,45 +188,4 @@ export function extractSparse(field: BlockField, grid: CubeGrid, levels: readonl
     const positions = o.pos.toArray();
     return { positions, normals: new Float32Array(positions.length), indices: o.idx.toArray() };
   });
-}
-
-/**
- * Lattice edge key -> vertex id: open addressing with linear probing on typed arrays (Knuth, TAOCP vol. 3,
- * sec. 6.4, algorithm L), several times faster than a Map for the millions of lookups a fine grid makes.
- */
-class EdgeTable {
-  private keys = new Float64Array(1 << 14).fill(-1);
-  private vals = new Int32Array(1 << 14);
-  private size = 0;
-  private mask = (1 << 14) - 1;
-  private slot(key: number): number {
-    // Fibonacci hashing of the key's low and high 26 bits.
-    const lo = key % 67108864;
-    const hi = (key - lo) / 67108864;
-    let i = (Math.imul(lo ^ Math.imul(hi, 0x27d4eb2d), 0x9e3779b1) >>> 0) & this.mask;
-    while (this.keys[i] !== -1 && this.keys[i] !== key) i = (i + 1) & this.mask;
-    return i;
-  }
-  get(key: number): number {
-    const i = this.slot(key);
-    return this.keys[i] === key ? this.vals[i] : -1;
-  }
-  set(key: number, val: number): void {
-    if (2 * (this.size + 1) > this.keys.length) this.grow();
-    const i = this.slot(key);
-    if (this.keys[i] !== key) {
-      this.keys[i] = key;
-      this.size++;
-    }
-    this.vals[i] = val;
-  }
-  private grow(): void {
-    const ok = this.keys;
-    const ov = this.vals;
-    this.keys = new Float64Array(ok.length * 2).fill(-1);
-    this.vals = new Int32Array(ok.length * 2);
-    this.mask = this.keys.length - 1;
-    this.size = 0;
-    for (let i = 0; i < ok.length; i++) if (ok[i] !== -1) this.set(ok[i], ov[i]);
-  }
 }
