@@ -606,10 +606,9 @@ export async function recipeToSurfaces(recipe: SurfaceRecipe, hooks: SurfaceHook
 
   // sampling + extracting, region by region (sampling dominates; timings are split accordingly)
   const meshes: RegionMesh[] = [];
-  // Coarse-to-fine unless the caller samples (its own grid, e.g. the preview's kept one) or the nodal surfaces,
-  // which are extracted from the dense field, are wanted.
+  // Coarse-to-fine unless the caller samples (its own grid, e.g. the preview's kept one).
   const wantNodal = hooks.nodal ?? recipe.stage?.material?.nodalOutline === true;
-  const sparse = !hooks.sample && !(wantNodal && plan.compiled.isReal);
+  const sparse = !hooks.sample;
   const run = async (region: GridRegion) => {
     const m = await meshRegion(plan, region, hooks, verify, sparse);
     timings.sampling += m.ms.sample;
@@ -663,7 +662,9 @@ export async function recipeToSurfaces(recipe: SurfaceRecipe, hooks: SurfaceHook
   }
   let surfaces = mergeRegions(meshes, plan.compiled.isReal);
   t0 = performance.now();
-  const nodal = wantNodal && plan.compiled.isReal && meshes[0].field ? extractNodalSurface(meshes[0].field, { n: meshes[0].region.n, extent: meshes[0].region.extent }, plan.level.isovalue) : wantNodal ? null : undefined;
+  // The nodal surfaces come from the dense field of the first grid (sampled here when it was sampled coarse-to-fine).
+  const nodalField = (): Float32Array => meshes[0].field ?? extractionField(plan, meshes[0].region, defaultSample(plan.state, { n: meshes[0].region.n, extent: meshes[0].region.extent }, plan.compiled));
+  const nodal = wantNodal && plan.compiled.isReal ? extractNodalSurface(nodalField(), { n: meshes[0].region.n, extent: meshes[0].region.extent }, plan.level.isovalue) : wantNodal ? null : undefined;
   timings.extracting += performance.now() - t0;
 
   await hooks.onStage?.('refining');

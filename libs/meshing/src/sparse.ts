@@ -165,9 +165,10 @@ export function extractSparse(field: BlockField, grid: CubeGrid, levels: readonl
                 const t = (level - va) / (vb - va);
                 id = o.pos.length / 3;
                 o.pos.reserve(3);
-                o.pos.data[o.pos.length++] = coord(gi) + (axis === 0 ? t * h : 0);
-                o.pos.data[o.pos.length++] = coord(gj) + (axis === 1 ? t * h : 0);
-                o.pos.data[o.pos.length++] = coord(gk) + (axis === 2 ? t * h : 0);
+                // The same arithmetic as extractIsosurface, so both give identical vertices.
+                o.pos.data[o.pos.length++] = -extent + h * (gi + (axis === 0 ? t : 0));
+                o.pos.data[o.pos.length++] = -extent + h * (gj + (axis === 1 ? t : 0));
+                o.pos.data[o.pos.length++] = -extent + h * (gk + (axis === 2 ? t : 0));
                 o.ids.set(key, id);
               }
               ev[e] = id;
