@@ -194,7 +194,7 @@ describe('exports (e2e)', () => {
     expect(bundle.state).toBe('completed');
     expect(bundle.assets[0].kind).toBe('bundle');
     const files = unzipSync(await download(bundle.assets[0].id));
-    expect(Object.keys(files).sort()).toEqual(['README.txt', 'figure.glb', 'figure.png', 'figure.stl', 'metadata.json', 'radial.svg', 'recipe.json']);
+    expect(Object.keys(files).sort()).toEqual(['README.txt', 'figure-screen.glb', 'figure.glb', 'figure.png', 'figure.stl', 'metadata.json', 'radial.svg', 'recipe.json']);
     const meta = JSON.parse(strFromU8(files['metadata.json']));
     expect(meta.model.note).toMatch(/one-electron hydrogen-like model/);
     expect(meta.surface).toMatchObject({ rule: 'enclosed', target: 0.9 });

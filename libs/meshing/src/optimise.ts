@@ -137,3 +137,35 @@ export async function encodeScreenGlb(surfaces: readonly EncodeSurface[], opts: 
   if (info) Object.assign(info, out);
   return io.writeBinary(doc);
 }
+
+/**
+ * The screen GLB made from an archival GLB (encodeGlb's layout: one mesh per phase, extras.phase): for bundles
+ * of figures whose archival mesh is already stored. arg psi of complex surfaces is taken from the field again.
+ */
+export async function screenGlbFromArchival(archival: Uint8Array, opts: Omit<ScreenGlbOptions, 'extras'>, info?: ScreenGlbInfo): Promise<Uint8Array> {
+  const { WebIO } = await import('@gltf-transform/core');
+  const doc = await new WebIO().readBinary(archival);
+  const surfaces: EncodeSurface[] = [];
+  const w = new Float64Array(8);
+  for (const mesh of doc.getRoot().listMeshes()) {
+    const phase = (mesh.getExtras() as { phase?: Phase }).phase;
+    if (phase !== '+' && phase !== '-' && phase !== 'complex') continue; // the nodal outline is not a surface
+    const prim = mesh.listPrimitives()[0];
+    const positions = new Float32Array(prim.getAttribute('POSITION')!.getArray() as Float32Array);
+    const normals = new Float32Array(prim.getAttribute('NORMAL')!.getArray() as Float32Array);
+    const indices = new Uint32Array(prim.getIndices()!.getArray() as Uint32Array);
+    const m: Mesh = { positions, normals, indices };
+    if (phase === 'complex') {
+      m.phaseAngle = new Float32Array(positions.length / 3);
+      for (let v = 0; v < m.phaseAngle.length; v++) {
+        opts.field.gradient(positions[3 * v], positions[3 * v + 1], positions[3 * v + 2], w);
+        m.phaseAngle[v] = Math.atan2(w[7], w[6]);
+      }
+    }
+    surfaces.push({ phase, mesh: m });
+  }
+  const extras = ((doc.getRoot().getExtras() as { psiform?: Record<string, unknown> }).psiform ?? {}) as Record<string, unknown>;
+  const rest = { ...extras };
+  delete rest.model; // encodeGlb writes the model note itself
+  return encodeScreenGlb(surfaces, { ...opts, extras: rest }, info);
+}

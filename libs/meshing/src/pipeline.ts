@@ -197,6 +197,8 @@ export interface SurfaceRefinement {
   /** The distance (a0) asked for, and where it came from. */
   tolerance: number;
   toleranceFrom: 'caller' | 'print' | '3D file' | 'none';
+  /** The surface's half-width (a0) the print and 3D-file tolerances scale with (tolerance.ts). */
+  surfaceHalfWidth: number;
   /** Largest first-order distance |F| / |grad F| of vertices, edge midpoints and centroids from the surface (a0); NaN: not measured. */
   maxDeviation: number;
   /** Vertices projected, and those whose Newton iteration failed (left where marching cubes put them). */
@@ -791,7 +793,7 @@ function exactSurfaces(plan: SurfacePlan, surfaces: PhaseSurface[], hooks: Surfa
   const maxMove = Math.max(...plan.regions.map((r) => r.spacing));
   const minSpacing = Math.min(...plan.regions.map((r) => r.spacing));
   const c = plan.level.isovalue;
-  const out: SurfaceRefinement = { tolerance, toleranceFrom, maxDeviation: 0, projected: 0, projectionFailed: 0, trianglesBefore: 0, trianglesAfter: 0, rounds: 0, met: true };
+  const out: SurfaceRefinement = { tolerance, toleranceFrom, surfaceHalfWidth: plan.surfaceHalfWidth, maxDeviation: 0, projected: 0, projectionFailed: 0, trianglesBefore: 0, trianglesAfter: 0, rounds: 0, met: true };
   const pi: ProjectInfo = { maxDistance: 0, failed: 0 };
   const next = surfaces.map((s) => {
     out.trianglesBefore += s.mesh.indices.length / 3;

@@ -1,8 +1,7 @@
 import { UnrecoverableError } from 'bullmq';
 import type { Recipe } from '@psiform/contracts';
 import { AssetStore, CONTENT_TYPES, ObjectStorage, meshKey, type MeshStage, type NewAsset } from '@psiform/api/pipeline';
-import { encodeGlb, encodeStl, parseNrrdHeader, recipeToSurfaces, summariseSurfaces, type Mesh, type PhaseSurface, type SurfaceStage } from '@psiform/meshing';
-import { sampleGridParallel } from '@psiform/orbitals/node';
+import { encodeGlb, encodeStl, parseNrrdHeader, printTolerance, recipeToSurfaces, summariseSurfaces, type Mesh, type PhaseSurface, type SurfaceStage } from '@psiform/meshing';
 
 export interface MeshBuildInput {
   recipe: Recipe;
@@ -45,9 +44,11 @@ export async function buildMesh(
   const cube = recipe.source?.kind === 'upload' ? await uploadedCube(deps, recipe) : undefined;
   let result;
   try {
+    // Coarse-to-fine sampling (the pipeline's own; no dense grid in memory) and the 3D-file tolerance: the stored
+    // GLB/STL are the archival meshes every print render starts from (a finer print re-meshes, see ensureMesh).
     result = await recipeToSurfaces(recipe, {
       cube,
-      sample: (state, grid) => sampleGridParallel(state, { n: grid.n, extent: grid.extent as never }),
+      tolerance: 'file',
       onStage: async (s) => {
         const js = JOB_STAGE[s];
         if (js) await stage(js);
@@ -117,4 +118,23 @@ async function uploadedCube(deps: { assets: AssetStore; storage: ObjectStorage }
   const dv = new DataView(bytes.buffer, bytes.byteOffset + h.dataOffset, h.dataBytes);
   for (let i = 0; i < count; i++) data[i] = dv.getFloat32(4 * i, true);
   return data;
+}
+
+/**
+ * A print needs its own mesh when the stored one is coarser than a quarter of its pixel (tolerance.ts
+ * printTolerance, from the image size and the recipe's camera): then the surfaces are made again to that
+ * tolerance by the one pipeline and encoded for this render only. Returns null when the stored GLB is fine enough
+ * (or the figure is an uploaded cube, which has no analytic surface to refine onto).
+ */
+export async function printGlb(recipe: Recipe, stored: Record<string, unknown>, image: { widthPx: number; heightPx: number }, engineVersion: string): Promise<{ glb: Uint8Array; tolerance: number } | null> {
+  if (recipe.source?.kind === 'upload') return null;
+  const ref = stored.refinement as { tolerance?: number; surfaceHalfWidth?: number } | null | undefined;
+  const output = { ...image, camera: recipe.stage.camera };
+  if (ref?.surfaceHalfWidth && ref.tolerance !== undefined && ref.tolerance <= printTolerance(output, ref.surfaceHalfWidth)) return null;
+  const result = await recipeToSurfaces(recipe, { output });
+  const summary = summariseSurfaces(result);
+  const surfaces = result.surfaces.filter((s) => s.mesh.indices.length > 0).map((s) => ({ phase: s.phase, mesh: s.mesh }));
+  const colouring = { palette: recipe.palette, mode: recipe.phase?.mode };
+  const glb = await encodeGlb(surfaces, { version: engineVersion, extras: { ...summary, label: recipe.label ?? null }, colouring, nodal: result.nodal ?? null });
+  return { glb, tolerance: result.refinement?.tolerance ?? NaN };
 }
