@@ -4,7 +4,8 @@
 // always exits 0. Sections are one function each (see SECTIONS at the bottom) so more can be added.
 //
 // Options: --quick (N = 64, 128 only; for a smoke run)   --no-isosurface   --no-skimage   --only=render,apijob,...
-// Internal: --child-main256 (the N = 256 3d_z² measurement in its own process, for its peak RSS).
+//          --all-rows (every state of the topology table)
+// Internal: --child-main256, --child-sparse512 (measurements in their own process, for their peak RSS).
 
 import { spawnSync } from 'node:child_process';
 import * as fs from 'node:fs';
@@ -12,6 +13,7 @@ import { createRequire } from 'node:module';
 import * as os from 'node:os';
 import * as path from 'node:path';
 import { fileURLToPath } from 'node:url';
+import { exactSections } from './bench/exact.mjs';
 
 const require = createRequire(import.meta.url);
 const HERE = path.dirname(fileURLToPath(import.meta.url));
@@ -488,22 +490,32 @@ function summary() {
   if (results.liveMeanMs !== undefined) rows.push(['live preview 128³, mean per update', fmt(results.liveMeanMs) + ' ms', `< ${TARGETS.livePreviewMs} ms`, verdict(results.liveMeanMs < TARGETS.livePreviewMs)]);
   if (results.apiMeshMs !== undefined) rows.push(['API POST …/meshes -> completed, 192³', fmt(results.apiMeshMs, 0) + ' ms', '< 2000 ms', verdict(results.apiMeshMs < 2000)]);
   if (results.renderWarmMs !== undefined) rows.push(['render + encode 4252 × 2835 (warm browser)', fmt(results.renderWarmMs, 0) + ' ms', '< 5000 ms', verdict(results.renderWarmMs < 5000)]);
+  rows.push(...EXACT.summaryRows(verdict));
   table(['target', 'measured', 'target', 'verdict'], rows);
   console.log(`\n  machine: ${os.cpus()[0]?.model ?? 'cpu'} × ${os.cpus().length}, Node ${process.version}; bench process peak RSS ${fmt(mb(peakRssKb()))} MB (VmHWM; process.resourceUsage().maxRSS says ${fmt(mb(process.resourceUsage().maxRSS))} MB)`);
 }
 
+// Exact surfaces (scripts/bench/exact.mjs): geometric error, coarse-to-fine cost and memory, topology.
+const EXACT = exactSections({ orbitals, meshing, table, heading, fmt, results, ARGS, HERE, extractSkimage, skimageAvailable, peakRssKb, now });
+const { sectionExact, sectionSparse, sectionTopology } = EXACT;
+
 // Order matters only for readability; each section is independent.
-const SECTIONS = [sectionSampling, sectionExtraction, sectionMemory, sectionLivePreview, sectionApiJob, sectionRender];
+const SECTIONS = [sectionSampling, sectionExtraction, sectionMemory, sectionLivePreview, sectionApiJob, sectionRender, sectionExact, sectionSparse, sectionTopology];
 
 async function main() {
   if (ARGS.has('--child-main256')) {
     await childMain256();
     return;
   }
+  if (ARGS.has('--child-sparse512')) {
+    await EXACT.childSparse512();
+    return;
+  }
   const t0 = now();
   console.log(`Psiform bench (sizes ${SIZES.join(', ')}; enclosed fraction ${FRACTION}; libs from dist)`);
   console.log(`  load average at start: ${loadNote()}`);
-  // --only=render,api runs just those sections (names: sampling, extraction, memory, livepreview, apijob, render).
+  // --only=render,api runs just those sections (names: sampling, extraction, memory, livepreview, apijob, render,
+  // exact, sparse, topology).
   const only = process.argv.find((a) => a.startsWith('--only='))?.slice(7).toLowerCase().split(',');
   for (const section of SECTIONS) {
     if (only && !only.some((o) => section.name.toLowerCase() === `section${o}`)) continue;

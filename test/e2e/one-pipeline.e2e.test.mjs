@@ -2,7 +2,9 @@
 // (apps/cli/bin/psiform.js) and the Studio's preview Web Worker (the built bundle apps/web/dist/assets/
 // preview.worker-*.js, run in a Node worker thread with a `self` stand-in) all call @psiform/meshing's
 // recipeToSurfaces and colour with @psiform/colour's phaseColoursInto. Positions, triangles and vertex colours
-// must agree to the bit. Needs the whole stack (PSIFORM_URL) and the built CLI and client.
+// must agree to the bit: the worker and the CLI at the 3D-file tolerance, the preview (which projects its
+// vertices but splits nothing, to stay quick) with the CLI at --tolerance none. Needs the whole stack
+// (PSIFORM_URL) and the built CLI and client.
 import assert from 'node:assert/strict';
 import { spawnSync } from 'node:child_process';
 import * as fs from 'node:fs';
@@ -121,6 +123,10 @@ test('worker job, CLI and preview worker give the same vertices, triangles and c
       const r = spawnSync(process.execPath, [path.join(ROOT, 'apps/cli/bin/psiform.js'), 'mesh', '--recipe', path.join(dir, 'r.json'), '--out', out, '--json'], { encoding: 'utf8', timeout: 120_000 });
       assert.equal(r.status, 0, `CLI: ${r.stderr}`);
       const fromCli = readGlb(new Uint8Array(fs.readFileSync(out)));
+      const outNone = path.join(dir, 'cli-none.glb');
+      const rn = spawnSync(process.execPath, [path.join(ROOT, 'apps/cli/bin/psiform.js'), 'mesh', '--recipe', path.join(dir, 'r.json'), '--out', outNone, '--tolerance', 'none'], { encoding: 'utf8', timeout: 120_000 });
+      assert.equal(rn.status, 0, `CLI --tolerance none: ${rn.stderr}`);
+      const fromCliNone = readGlb(new Uint8Array(fs.readFileSync(outNone)));
       const fromPreview = await preview(recipe);
 
       assert.deepEqual(Object.keys(fromCli).sort(), Object.keys(fromWorker).sort());
@@ -128,13 +134,16 @@ test('worker job, CLI and preview worker give the same vertices, triangles and c
         const w = fromWorker[phase];
         const c = fromCli[phase];
         const p = fromPreview.surfaces.find((s) => s.phase === phase);
+        const n = fromCliNone[phase];
         assert.ok(p, `the preview has the ${phase} surface`);
         sameArray(c.positions, w.positions, `${input.label} ${phase} positions, CLI vs worker`);
         sameArray(c.indices, w.indices, `${input.label} ${phase} triangles, CLI vs worker`);
         sameArray(c.colors, w.colors, `${input.label} ${phase} colours, CLI vs worker`);
-        sameArray(p.positions, w.positions, `${input.label} ${phase} positions, preview vs worker`);
-        sameArray(p.indices, w.indices, `${input.label} ${phase} triangles, preview vs worker`);
-        sameArray(p.colors, w.colors, `${input.label} ${phase} colours (linear), preview vs worker`);
+        sameArray(p.positions, n.positions, `${input.label} ${phase} positions, preview vs CLI --tolerance none`);
+        sameArray(p.indices, n.indices, `${input.label} ${phase} triangles, preview vs CLI --tolerance none`);
+        sameArray(p.colors, n.colors, `${input.label} ${phase} colours (linear), preview vs CLI --tolerance none`);
+        // The refined mesh keeps every projected vertex of the unrefined one, first and in order.
+        sameArray(w.positions.subarray(0, n.positions.length), n.positions, `${input.label} ${phase} projected vertices kept by refinement`);
       }
       // And the claims agree: level, all-space fraction and warnings.
       const cli = JSON.parse(r.stdout);

@@ -37,7 +37,7 @@ import { ENGINE_CONVENTIONS, type MeshStatsDto } from '@psiform/contracts';
 import { extractIsosurface } from './marching-cubes';
 import { mergeMeshes, type Mesh } from './mesh';
 import { extractNodalSurface } from './nodal';
-import { cubeGeometry, extractOrbitalSurfaces, type CubeGrid, type Phase, type PhaseSurface } from './orbital-surfaces';
+import { cubeGeometry, type CubeGrid, type Phase, type PhaseSurface } from './orbital-surfaces';
 import { meshStats, type MeshStats } from './stats';
 import { levelFunction, meshDeviation, projectMesh, refineMesh, type ProjectInfo, type RefineInfo } from './refine';
 import { extractSparse, type BlockField, type SparseInfo } from './sparse';
@@ -111,6 +111,7 @@ export interface SurfaceHooks {
   nodal?: boolean;
   /** Skip mesh statistics (timings_ms.statistics is then 0; topology is not compared). */
   stats?: boolean;
+  /** Kept for older callers: normals are always analytic now (the refining stage writes -grad F at every vertex). */
   normals?: 'analytic' | 'field';
   /**
    * Largest distance (a0) the mesh may lie from the true surface (vertices, edge midpoints, triangle centroids);
@@ -559,22 +560,52 @@ interface RegionMesh {
   ms: { sample: number; extract: number };
 }
 
+/**
+ * Marching cubes on a region through the block extractor (sparse.ts), whatever sampled it: coarse-to-fine blocks,
+ * or a dense field read block by block with exact block ranges. One extractor means one vertex and triangle
+ * order, so the same grid gives bit-identical meshes on every path (worker, CLI, preview).
+ */
+function extractRegion(plan: SurfacePlan, region: GridRegion, field: BlockField, withStats: boolean): { surfaces: PhaseSurface[]; stats: Map<Phase, MeshStats>; info: SparseInfo } {
+  const info = {} as SparseInfo;
+  const c = plan.level.isovalue;
+  const [plus, minus] = extractSparse(field, { n: region.n, extent: region.extent }, [{ level: c, inside: 'above' }, { level: -c, inside: 'below' }], {}, info);
+  const surfaces: PhaseSurface[] = plan.compiled.isReal
+    ? [
+        { phase: '+', mesh: plus },
+        { phase: '-', mesh: minus },
+      ]
+    : [{ phase: 'complex', mesh: mergeMeshes([plus, minus]) }];
+  const stats = new Map<Phase, MeshStats>();
+  if (withStats) for (const s of surfaces) stats.set(s.phase, meshStats(s.mesh));
+  return { surfaces, stats, info };
+}
+
+/**
+ * A dense sampled field as blocks: every block is offered (the bound is unbounded) and the extractor skips the
+ * levels outside each block's own sampled range, which is exact; values are read from the array.
+ */
+function denseBlockField(f: Float32Array, n: number): BlockField {
+  return {
+    bound(_x0, _x1, _y0, _y1, _z0, _z1, out) {
+      out[0] = -Infinity;
+      out[1] = Infinity;
+    },
+    sample(start, size, out) {
+      for (let k = 0, i = 0; k < size[2]; k++)
+        for (let j = 0; j < size[1]; j++) {
+          const row = start[0] + n * (start[1] + j + n * (start[2] + k));
+          for (let q = 0; q < size[0]; q++, i++) out[i] = f[row + q];
+        }
+    },
+  };
+}
+
 async function meshRegion(plan: SurfacePlan, region: GridRegion, hooks: SurfaceHooks, withStats: boolean, sparse: boolean): Promise<RegionMesh> {
   const grid: CubeGrid = { n: region.n, extent: region.extent };
   if (sparse) {
     const timer = { ms: 0 };
     const t0 = performance.now();
-    const info = {} as SparseInfo;
-    const c = plan.level.isovalue;
-    const [plus, minus] = extractSparse(regionBlockField(plan, region, timer), grid, [{ level: c, inside: 'above' }, { level: -c, inside: 'below' }], {}, info);
-    const surfaces: PhaseSurface[] = plan.compiled.isReal
-      ? [
-          { phase: '+', mesh: plus },
-          { phase: '-', mesh: minus },
-        ]
-      : [{ phase: 'complex', mesh: mergeMeshes([plus, minus]) }];
-    const stats = new Map<Phase, MeshStats>();
-    if (withStats) for (const s of surfaces) stats.set(s.phase, meshStats(s.mesh));
+    const { surfaces, stats, info } = extractRegion(plan, region, regionBlockField(plan, region, timer), withStats);
     const total = performance.now() - t0;
     return { region, surfaces, stats, field: null, points: info.pointsSampled, blocks: { active: info.blocksActive, total: info.blocksTotal }, ms: { sample: timer.ms, extract: total - timer.ms } };
   }
@@ -586,9 +617,7 @@ async function meshRegion(plan: SurfacePlan, region: GridRegion, hooks: SurfaceH
   const tSample = performance.now() - t0;
   t0 = performance.now();
   const f = extractionField(plan, region, field);
-  const surfaces = extractOrbitalSurfaces(plan.compiled, f, grid, plan.level.isovalue, { normals: hooks.normals });
-  const stats = new Map<Phase, MeshStats>();
-  if (withStats) for (const s of surfaces) stats.set(s.phase, meshStats(s.mesh));
+  const { surfaces, stats } = extractRegion(plan, region, denseBlockField(f, region.n), withStats);
   const nb = Math.ceil((region.n - 1) / 8) ** 3;
   return { region, surfaces, stats, field: f, points: N, blocks: { active: nb, total: nb }, ms: { sample: tSample, extract: performance.now() - t0 } };
 }

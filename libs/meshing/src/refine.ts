@@ -226,8 +226,10 @@ export interface RefineInfo {
  * final mesh's size.
  */
 export function refineMesh(mesh: Mesh, F: LevelFunction, phase: Phase, opts: RefineOptions, info?: RefineInfo): Mesh {
-  const tol = opts.tolerance;
-  if (!(tol > 0) || !Number.isFinite(tol)) throw new RangeError(`tolerance must be a positive length in a0 (got ${tol})`);
+  if (!(opts.tolerance > 0) || !Number.isFinite(opts.tolerance)) throw new RangeError(`tolerance must be a positive length in a0 (got ${opts.tolerance})`);
+  // Refine to 1 % below the tolerance: the mesh is stored in float32, whose rounding (a relative 6e-8 of the
+  // coordinates) may move a chord by a few parts in a thousand of a tight tolerance.
+  const tol = 0.99 * opts.tolerance;
   const maxTriangles = opts.maxTriangles ?? 4_000_000;
   const maxRounds = opts.maxRounds ?? 12;
   const minEdge2 = (opts.minEdge ?? 0) ** 2;
@@ -408,7 +410,7 @@ export function refineMesh(mesh: Mesh, F: LevelFunction, phase: Phase, opts: Ref
   const result: Mesh = { positions, normals: Float32Array.from(nor.data.subarray(0, nor.length)), indices: tri };
   if (ang) result.phaseAngle = Float32Array.from(ang.data.subarray(0, ang.length));
   const maxDeviation = limited ? Math.max(accepted, worstMarked, stuckWorst) : accepted;
-  if (info) Object.assign(info, { tolerance: tol, maxDeviation, rounds, trianglesBefore, trianglesAfter: tri.length / 3, limited } satisfies RefineInfo);
+  if (info) Object.assign(info, { tolerance: opts.tolerance, maxDeviation, rounds, trianglesBefore, trianglesAfter: tri.length / 3, limited } satisfies RefineInfo);
   return result;
 }
 
