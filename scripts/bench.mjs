@@ -14,6 +14,7 @@ import * as os from 'node:os';
 import * as path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { exactSections } from './bench/exact.mjs';
+import { ensureDebianPackages } from './lib/system.mjs';
 
 const require = createRequire(import.meta.url);
 const HERE = path.dirname(fileURLToPath(import.meta.url));
@@ -176,6 +177,12 @@ function skimageAvailable() {
     return false;
   }
   const py = '/usr/bin/python3';
+  try {
+    // The peer comes from Debian (python3-skimage), installed here when missing (needs root, as npm start).
+    ensureDebianPackages(['python3-skimage']);
+  } catch (err) {
+    console.log(`  (could not install python3-skimage: ${err.message.split('\n')[0]})`);
+  }
   const r = spawnSync(py, ['-c', 'import skimage, numpy; print(skimage.__version__)'], { encoding: 'utf8' });
   skimageState = r.status === 0;
   results.skimageNote = skimageState ? `scikit-image ${r.stdout.trim()} (Debian python3-skimage, /usr/bin/python3)` : `skipped: /usr/bin/python3 has no skimage (${(r.stderr || '').trim().split('\n').pop()})`;

@@ -10,6 +10,8 @@ const PACKAGES = [
   { name: 'chromium', present: () => existsSync('/usr/bin/chromium') },
   // SciPy on Debian's own python: the independent reference the engine's tests compare with.
   { name: 'python3-scipy', present: () => pythonHas('scipy') },
+  // scikit-image: the bench's peer for marching cubes (installed by `npm run bench` only, see ensureDebianPackages).
+  { name: 'python3-skimage', present: () => pythonHas('skimage'), onlyWhenAsked: true },
 ];
 
 /** Whether Debian's /usr/bin/python3 can import a module (the pyenv python first on PATH may lack it). */
@@ -29,7 +31,7 @@ export function postgresBinDir() {
 }
 
 /** Installs the missing Debian packages (apt-get update first). `needed` limits which are checked. */
-export function ensureDebianPackages(needed = PACKAGES.map((p) => p.name)) {
+export function ensureDebianPackages(needed = PACKAGES.filter((p) => !p.onlyWhenAsked).map((p) => p.name)) {
   const missing = PACKAGES.filter((p) => needed.includes(p.name) && !p.present()).map((p) => p.name);
   if (missing.length === 0) return;
   if (process.getuid && process.getuid() !== 0) {

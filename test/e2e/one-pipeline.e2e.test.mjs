@@ -14,6 +14,7 @@ import { test } from 'node:test';
 import { fileURLToPath, pathToFileURL } from 'node:url';
 import { Worker } from 'node:worker_threads';
 import { baseUrl, DEMO_ILLUSTRATOR } from './browser.mjs';
+import { readGlb } from './glb.mjs';
 
 const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '../..');
 
@@ -26,32 +27,6 @@ async function api(method, route, token, body) {
   const text = await res.text();
   if (!res.ok) throw new Error(`${method} ${route} answered ${res.status}: ${text.slice(0, 300)}`);
   return text ? JSON.parse(text) : null;
-}
-
-/** Meshes of a GLB per phase: positions, indices, COLOR_0 (interleaving and offsets per glTF 2.0 §3.6). */
-function readGlb(bytes) {
-  const dv = new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength);
-  assert.equal(dv.getUint32(0, true), 0x46546c67, 'GLB magic');
-  const jsonLen = dv.getUint32(12, true);
-  const json = JSON.parse(new TextDecoder().decode(bytes.subarray(20, 20 + jsonLen)));
-  const bin = 20 + jsonLen + 8;
-  const read = (index, comps) => {
-    const acc = json.accessors[index];
-    const view = json.bufferViews[acc.bufferView];
-    const stride = view.byteStride ?? 4 * comps;
-    const base = bin + (view.byteOffset ?? 0) + (acc.byteOffset ?? 0);
-    const out = acc.componentType === 5125 ? new Uint32Array(acc.count * comps) : new Float32Array(acc.count * comps);
-    for (let i = 0; i < acc.count; i++)
-      for (let k = 0; k < comps; k++) out[i * comps + k] = acc.componentType === 5125 ? dv.getUint32(base + i * stride + 4 * k, true) : dv.getFloat32(base + i * stride + 4 * k, true);
-    return out;
-  };
-  const out = {};
-  for (const m of json.meshes) {
-    if (!m.extras?.phase) continue;
-    const p = m.primitives[0];
-    out[m.extras.phase] = { positions: read(p.attributes.POSITION, 3), indices: read(p.indices, 1), colors: read(p.attributes.COLOR_0, 3) };
-  }
-  return out;
 }
 
 /** Runs the built preview worker bundle in a worker thread; resolves with its 'surface' answer. */
