@@ -252,7 +252,7 @@ export function refineMesh(mesh: Mesh, F: LevelFunction, phase: Phase, opts: Ref
   const trianglesBefore = tri.length / 3;
   let rounds = 0;
   let accepted = 0; // largest distance checked and kept
-  let worstMarked = 0;
+  let worstMarked: number;
   let limited = false;
   const dev = (x: number, y: number, z: number) => levelDistance(F, x, y, z, g);
   for (;;) {
