@@ -99,10 +99,18 @@ export function mergeMeshes(parts: readonly Mesh[]): Mesh {
  * objects) for the millions of lookups of a fine grid or a refinement round.
  */
 export class EdgeTable {
-  private keys = new Float64Array(1 << 14).fill(-1);
-  private vals = new Int32Array(1 << 14);
+  private keys: Float64Array;
+  private vals: Int32Array;
   size = 0;
-  private mask = (1 << 14) - 1;
+  private mask: number;
+  /** capacity: expected number of keys (the table starts at twice that, a power of two). */
+  constructor(capacity = 8192) {
+    let cap = 1 << 14;
+    while (cap < 2 * capacity && cap < 1 << 28) cap *= 2;
+    this.keys = new Float64Array(cap).fill(-1);
+    this.vals = new Int32Array(cap);
+    this.mask = cap - 1;
+  }
   private slot(key: number): number {
     // Fibonacci hashing of the key's low and high 26 bits.
     const lo = key % 67108864;

@@ -97,7 +97,10 @@ export function extractSparse(field: BlockField, grid: CubeGrid, levels: readonl
   // 2. Sample and mesh each active block.
   const S = B + 1;
   const vals = new Float32Array(S * S * S);
-  const out = levels.map(() => ({ pos: new GrowableFloat32(4096), idx: new GrowableUint32(8192), ids: new EdgeTable() }));
+  // Sized for about 2B vertices per active block (a surface crossing a block of B³ cells meets about B² edges, and
+  // most blocks are active only because the bound is not tight): tables then grow a few times at most.
+  const guess = Math.max(1024, order.length * B * 2);
+  const out = levels.map(() => ({ pos: new GrowableFloat32(guess * 3), idx: new GrowableUint32(guess * 6), ids: new EdgeTable(guess) }));
   const cv = new Float64Array(8);
   const coff = new Int32Array(8);
   const ev = new Uint32Array(12);
@@ -124,6 +127,9 @@ export function extractSparse(field: BlockField, grid: CubeGrid, levels: readonl
       const level = levels[q].level;
       if ((mask & (1 << q)) === 0 || level < vmin || level > vmax) continue;
       const o = out[q];
+      // Room for this block at once (12 edge vertices and 5 triangles per cell at most), not per vertex.
+      o.pos.reserve(3 * 12 * (sx - 1) * (sy - 1) * (sz - 1));
+      o.idx.reserve(15 * (sx - 1) * (sy - 1) * (sz - 1));
       const s = levels[q].inside === 'above' ? 1 : -1;
       const sl = s * level;
       for (let k = 0; k < sz - 1; k++)
@@ -164,7 +170,6 @@ export function extractSparse(field: BlockField, grid: CubeGrid, levels: readonl
                 const vb = cv[EDGE_HI[e]];
                 const t = (level - va) / (vb - va);
                 id = o.pos.length / 3;
-                o.pos.reserve(3);
                 // The same arithmetic as extractIsosurface, so both give identical vertices.
                 o.pos.data[o.pos.length++] = -extent + h * (gi + (axis === 0 ? t : 0));
                 o.pos.data[o.pos.length++] = -extent + h * (gj + (axis === 1 ? t : 0));
@@ -174,7 +179,6 @@ export function extractSparse(field: BlockField, grid: CubeGrid, levels: readonl
               ev[e] = id;
             }
             // Bits mark inside corners, so Bourke's triangles wind clockwise seen from outside: emit (a, c, b).
-            o.idx.reserve(15);
             for (let t = ci * 16; t < ci * 16 + 15 && TRI_TABLE[t] >= 0; t += 3) {
               o.idx.data[o.idx.length++] = ev[TRI_TABLE[t]];
               o.idx.data[o.idx.length++] = ev[TRI_TABLE[t + 2]];
