@@ -3,7 +3,7 @@
 import { mkdtempSync, rmSync } from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
-import { ensureDebianPackages } from './lib/system.mjs';
+import { TEST_PACKAGES, ensureDebianPackages } from './lib/system.mjs';
 import { buildAll, ensureNodeModules } from './lib/npm.mjs';
 import { ROOT, layout, startServices } from './lib/services.mjs';
 import { migrateAndSeed, startApps } from './lib/apps.mjs';
@@ -39,7 +39,7 @@ async function suite(name, runner, cmd, args, opts = {}) {
 let exitCode;
 try {
   const t0 = Date.now();
-  ensureDebianPackages();
+  ensureDebianPackages(TEST_PACKAGES);
   ensureNodeModules(ROOT);
   if (!process.env.PSIFORM_SKIP_BUILD) buildAll(ROOT);
   dataDir = mkdtempSync(path.join(os.tmpdir(), 'psiform-test-'));
@@ -56,6 +56,7 @@ try {
   for (const [name, dir] of [['contracts', 'libs/contracts'], ['colour', 'libs/colour'], ['orbitals', 'libs/orbitals'], ['meshing', 'libs/meshing'], ['print', 'libs/print'], ['cli', 'apps/cli'], ['web', 'apps/web']]) {
     await suite(name, 'vitest', vitest, ['run'], { cwd: path.join(ROOT, dir), env });
   }
+  await suite('server', 'jest', jest, ['--runInBand', '--ci'], { cwd: path.join(ROOT, 'libs/server'), env });
   await suite('api', 'jest', jest, ['--runInBand', '--ci'], { cwd: path.join(ROOT, 'apps/api'), env });
   await suite('worker', 'jest', jest, ['--runInBand', '--ci'], { cwd: path.join(ROOT, 'apps/worker'), env });
 

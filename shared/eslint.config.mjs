@@ -16,14 +16,27 @@ export default tseslint.config(
     },
   },
   {
-    // libs stay pure: no React, three, Nest or I/O (DEVELOPERS.md). The Node-only parallel sampler is the one exception.
+    // libs stay pure: no React, three, Nest or I/O (DEVELOPERS.md). The Node-only parallel sampler is one exception;
+    // libs/server (the server core both NestJS apps share: persistence and adapters) is the other.
     files: ['libs/*/src/**/*.ts'],
-    ignores: ['libs/orbitals/src/node/**'],
+    ignores: ['libs/orbitals/src/node/**', 'libs/server/src/**'],
     rules: {
       'no-restricted-imports': ['error', {
         patterns: [
           { group: ['react', 'react-*', 'three', 'three/*', '@react-three/*', '@nestjs/*'], message: 'libs/* must not import UI or server frameworks' },
           { group: ['fs', 'node:fs', 'fs/*', 'node:fs/*', 'net', 'node:net', 'http', 'node:http', 'child_process', 'node:child_process', 'worker_threads', 'node:worker_threads'], message: 'libs/* do no I/O' },
+        ],
+      }],
+    },
+  },
+  {
+    // No app imports another app: what two apps share lives in libs/ (the server core in libs/server).
+    files: ['apps/*/src/**/*.{ts,tsx}', 'libs/server/src/**/*.ts'],
+    rules: {
+      'no-restricted-imports': ['error', {
+        patterns: [
+          { group: ['@psiform/api', '@psiform/api/*', '@psiform/worker', '@psiform/worker/*', '@psiform/web', '@psiform/web/*', '@psiform/cli', '@psiform/cli/*'], message: 'apps import libs, never another app: move what they share into libs/ (libs/server for the server core)' },
+          { group: ['**/apps/*/src/**', '**/apps/*/dist/**'], message: 'apps import libs, never another app' },
         ],
       }],
     },

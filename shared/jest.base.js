@@ -27,7 +27,15 @@ function nestJestConfig(rootDir, { e2eTimeout }) {
     testTimeout: e2eTimeout,
     projects: [
       { ...common, displayName: 'unit', rootDir, testMatch: ['<rootDir>/src/**/*.spec.ts'] },
-      { ...common, displayName: 'e2e', rootDir, testMatch: ['<rootDir>/test/**/*.e2e-spec.ts'], testTimeout: e2eTimeout },
+      // testTimeout is a global Jest option and is ignored inside `projects`, so the e2e project sets it in a set-up file.
+      {
+        ...common,
+        displayName: 'e2e',
+        rootDir,
+        testMatch: ['<rootDir>/test/**/*.e2e-spec.ts'],
+        globals: { PSIFORM_E2E_TIMEOUT_MS: e2eTimeout },
+        setupFilesAfterEnv: [require.resolve('./jest.e2e-setup.js')],
+      },
     ],
   };
 }

@@ -1,17 +1,11 @@
 import { Logger, Module, type DynamicModule, type OnApplicationShutdown } from '@nestjs/common';
 import { APP_FILTER } from '@nestjs/core';
 import { TypeOrmModule } from '@nestjs/typeorm';
-import type { AppConfig } from './config/config';
-import { ConfigModule } from './config/config.module';
-import { dataSourceOptions } from './db/schema';
-import { RedisModule } from './infra/redis/redis.module';
-import { StorageModule } from './infra/storage/storage.module';
-import { MailModule } from './infra/mail/mail.module';
+import { type AppConfig, ConfigModule, dataSourceOptions, RedisModule, StorageModule, MailModule, QueueModule } from '@psiform/server';
 import { UsersModule } from './users/users.module';
 import { AuthModule } from './auth/auth.module';
 import { PublicationsModule } from './publications/publications.module';
 import { HealthModule } from './health/health.module';
-import { QueueModule } from './infra/queue/queue.module';
 import { AssetsModule } from './assets/assets.module';
 import { JobsModule } from './jobs/jobs.module';
 import { FiguresModule } from './figures/figures.module';
@@ -22,6 +16,7 @@ import { AuditModule } from './audit/audit.module';
 import { SwatchbooksModule } from './swatchbooks/swatchbooks.module';
 import { DevModule } from './dev/dev.module';
 import { ExportsModule } from './exports/exports.module';
+import { DeliveryProfilesModule } from './delivery-profiles/delivery-profiles.module';
 import { HttpErrorFilter } from './common/http-error.filter';
 
 @Module({})
@@ -54,6 +49,7 @@ export class AppModule implements OnApplicationShutdown {
         SwatchbooksModule,
         DevModule,
         ExportsModule,
+        DeliveryProfilesModule,
       ],
       providers: [{ provide: APP_FILTER, useClass: HttpErrorFilter }],
     };

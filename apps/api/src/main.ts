@@ -1,6 +1,6 @@
 import 'reflect-metadata';
 import { Logger } from '@nestjs/common';
-import { loadConfig, loadOrExit } from './config/config';
+import { loadConfig, loadOrExit } from '@psiform/server';
 import { createApp } from './app.factory';
 
 /** `node dist/main.js`: validates the environment, then serves the API on HOST:PORT under /api. */

@@ -1,8 +1,7 @@
 import request from 'supertest';
 import { startTestApp, runEmail, RUN_ID, e2eConfig, type TestApp } from './support';
 import { createApp } from '../src/app.factory';
-import { ObjectStorage } from '../src/infra/storage/object-storage';
-import { Mailer } from '../src/infra/mail/mailer';
+import { ObjectStorage, Mailer } from '@psiform/server';
 
 describe('health and adapters (e2e)', () => {
   let t: TestApp;

@@ -3,7 +3,7 @@ import { join } from 'node:path';
 import { promisify } from 'node:util';
 import type { AddressInfo } from 'node:net';
 import { MESH_STAGES, type JobDto } from '@psiform/contracts';
-import { ObjectStorage } from '../src/infra/storage/object-storage';
+import { ObjectStorage } from '@psiform/server';
 import { auth, demoTokens, login, runEmail, smallRecipe, startTestApp, DEMO_PUBLICATION, RUN_ID, type TestApp } from './support';
 import { readSse, startWorkerProcess, waitFor, type WorkerProcess } from './worker-process';
 

@@ -4,12 +4,9 @@ import request from 'supertest';
 import { DataSource } from 'typeorm';
 import type Redis from 'ioredis';
 import type { LoginResponse } from '@psiform/contracts';
-import { loadConfig, type AppConfig } from '../src/config/config';
-import { runMigrations } from '../src/db/run-migrations';
-import { dataSourceOptions } from '../src/db/schema';
+import { loadConfig, type AppConfig, runMigrations, dataSourceOptions, REDIS_CLIENT } from '@psiform/server';
 import { runSeed } from '../src/seed/seed';
 import { createApp } from '../src/app.factory';
-import { REDIS_CLIENT } from '../src/infra/redis/redis.tokens';
 import { DEMO_PASSWORD as DEMO_PASSWORD_VALUE } from '../src/seed/demo-scenario';
 
 export { DEMO_PASSWORD, DEMO_USERS, DEMO_PUBLICATION } from '../src/seed/demo-scenario';

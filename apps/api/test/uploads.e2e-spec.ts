@@ -1,7 +1,7 @@
 import type { JobDto } from '@psiform/contracts';
 import { compileState, type Bohr } from '@psiform/orbitals';
 import { encodeNrrd } from '@psiform/meshing';
-import { ObjectStorage } from '../src/infra/storage/object-storage';
+import { ObjectStorage } from '@psiform/server';
 import { auth, demoTokens, smallRecipe, startTestApp, DEMO_PUBLICATION, RUN_ID, type TestApp } from './support';
 import { startWorkerProcess, waitFor, type WorkerProcess } from './worker-process';
 

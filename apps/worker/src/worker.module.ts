@@ -1,5 +1,5 @@
 import { Module, type DynamicModule } from '@nestjs/common';
-import { AssetStore, JobsStore, ObjectStorage } from '@psiform/api/pipeline';
+import { AssetStore, JobsStore, ObjectStorage } from '@psiform/server';
 import type { WorkerConfig } from './config/config';
 import { WORKER_CONFIG } from './config/config.tokens';
 import { RedisConnectionModule } from './infra/redis-connection';

@@ -1,7 +1,7 @@
 import { deltaE2000 } from './difference';
 import { simulateCvd, type CvdKind } from './cvd';
 import { contrastRatio, WCAG_AA_GRAPHICS, WCAG_AA_TEXT } from './contrast';
-import { printGamutReport } from './print-gamut';
+import { pressCheck, PRESS_DELTA_E_LIMIT, type PressConditionInfo, type PressSwatch, type PressTransform } from './press';
 import { phaseWheel, DEFAULT_WHEEL } from './phase-wheel';
 
 export interface SwatchbookColors {
@@ -35,8 +35,10 @@ export interface SwatchbookFigures {
   negativeBackgroundContrast: number;
   nucleusBackgroundContrast?: number;
   axesBackgroundContrast?: number;
-  /** Swatch names outside the approximate print gamut (see printGamutReport). */
+  /** Swatch names out of gamut on the press condition checked (empty when none was given: see `print`). */
   outOfPrintGamut: string[];
+  /** Each swatch through the press condition's ICC profile; null when the caller passed no press transform. */
+  print: { condition: PressConditionInfo; swatches: (PressSwatch & { name: string })[] } | null;
   wheel?: { lightness: number; chroma: number; requestedChroma: number; clamped: boolean; neighbourDeltaE2000: number };
 }
 
@@ -62,7 +64,12 @@ const CVD: [CvdKind, 'phaseDeltaE2000Protan' | 'phaseDeltaE2000Deutan' | 'phaseD
 
 const round = (v: number, d = 2) => Math.round(v * 10 ** d) / 10 ** d;
 
-export function checkSwatchbook(colors: SwatchbookColors): SwatchbookCheck {
+export interface SwatchbookCheckOptions {
+  /** The press condition to check the swatches on (the apps build it from assets/icc; see press.ts). */
+  press?: PressTransform;
+}
+
+export function checkSwatchbook(colors: SwatchbookColors, options: SwatchbookCheckOptions = {}): SwatchbookCheck {
   const warnings: SwatchbookWarning[] = [];
   const { positive, negative, background, label } = colors;
 
@@ -120,13 +127,25 @@ export function checkSwatchbook(colors: SwatchbookColors): SwatchbookCheck {
     ['axes', colors.axes],
   ];
   const outOfPrintGamut: string[] = [];
-  for (const [name, hex] of named) {
-    if (!hex) continue;
-    const r = printGamutReport(hex);
-    if (r.outOfGamut) {
-      outOfPrintGamut.push(name);
-      warnings.push({ code: 'out_of_print_gamut', level: 'warning', colors: [name], message: `${name} ${hex} may not print on coated paper (approximate check, no ICC profile): ${r.reason}` });
+  let print: SwatchbookFigures['print'] = null;
+  const press = options.press;
+  if (press) {
+    const swatches: (PressSwatch & { name: string })[] = [];
+    for (const [name, hex] of named) {
+      if (!hex) continue;
+      const r = { name, ...pressCheck(hex, press) };
+      swatches.push(r);
+      if (!r.inGamut) {
+        outOfPrintGamut.push(name);
+        warnings.push({
+          code: 'out_of_print_gamut',
+          level: 'warning',
+          colors: [name],
+          message: `${name} ${hex} is out of gamut on ${press.condition.name}: it separates to C ${r.cmyk[0]} M ${r.cmyk[1]} Y ${r.cmyk[2]} K ${r.cmyk[3]} and prints ΔE00 ${r.deltaE00.toFixed(1)} away (over ${PRESS_DELTA_E_LIMIT})`,
+        });
+      }
     }
+    print = { condition: press.condition, swatches };
   }
 
   const figures: SwatchbookFigures = {
@@ -136,6 +155,7 @@ export function checkSwatchbook(colors: SwatchbookColors): SwatchbookCheck {
     positiveBackgroundContrast: onBackground('positive', positive),
     negativeBackgroundContrast: onBackground('negative', negative),
     outOfPrintGamut,
+    print,
   };
   if (colors.nucleus) figures.nucleusBackgroundContrast = onBackground('nucleus', colors.nucleus);
   if (colors.axes) figures.axesBackgroundContrast = onBackground('axes', colors.axes);

@@ -5,12 +5,10 @@ import {
   contrastRatio,
   deltaE2000,
   MACHADO_2009,
-  outOfPrintGamut,
   PHASE_DELTA_E_ERROR,
   PHASE_DELTA_E_WARN,
   phaseColor,
   phaseWheel,
-  printGamutReport,
   simulateCvd,
   DEFAULT_WHEEL,
   phaseColoursInto,
@@ -143,18 +141,6 @@ describe('simulateCvd (Machado, Oliveira & Fernandes 2009, severity 1.0)', () =>
     expect(trit).toBeLessThan(normal);
     const rg = deltaE2000(simulateCvd('#d03020', 'tritanopia'), simulateCvd('#20a040', 'tritanopia'));
     expect(rg).toBeGreaterThan(0.7 * deltaE2000('#d03020', '#20a040'));
-  });
-});
-
-describe('outOfPrintGamut (approximate coated-paper CMYK check)', () => {
-  it('screen primaries far outside any CMYK gamut are flagged; muted colours and neutrals are not', () => {
-    for (const hex of ['#00ff00', '#0000ff', '#ff00ff', '#00ffff']) expect(outOfPrintGamut(hex)).toBe(true);
-    for (const hex of ['#c8553d', '#2f6690', '#808080', '#ffffff', '#000000', '#1a1a1a']) expect(outOfPrintGamut(hex)).toBe(false);
-  });
-  it('explains why, naming the modelled limit', () => {
-    const r = printGamutReport('#00ff00');
-    expect(r.reason).toMatch(/chroma C\* \d+ above the approximate printable \d+/);
-    expect(r.maxChroma).toBeLessThan(r.C);
   });
 });
 

@@ -5,3 +5,4 @@ export * from './recipe';
 export * from './figures';
 export * from './reviews';
 export * from './exports';
+export * from './print';

@@ -10,3 +10,6 @@ export * from './radial-plot';
 export * from './section-map';
 export * from './metadata';
 export * from './bundle';
+export * from './preflight';
+export * from './figure-text';
+export * from './svg-fonts';

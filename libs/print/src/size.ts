@@ -1,4 +1,5 @@
 // Physical size <-> pixel arithmetic for print exports, and tiling for images larger than the GPU limit.
+import { DEFAULT_DELIVERY_PROFILE } from '@psiform/contracts';
 
 export const MM_PER_INCH = 25.4;
 
@@ -45,10 +46,15 @@ export function dpiFromPixelsPerMetre(ppm: number): number {
  * Journal column widths. Common practice, no source: publishers' author guides differ; single
  * columns run about 85–90 mm, one-and-a-half 120–140 mm, double 170–180 mm. The values are our picks.
  */
+const col = (i: number, label: string) => {
+  const w = DEFAULT_DELIVERY_PROFILE.columnWidthsMm[i].widthMm;
+  return { widthMm: w, label: `${label} (${w} mm)` };
+};
+/** The default delivery profile's columns (libs/contracts), which a publication's own profile replaces. */
 export const COLUMN_PRESETS = {
-  single: { widthMm: 88, label: 'Single column (88 mm)' },
-  oneAndHalf: { widthMm: 130, label: 'One-and-a-half column (130 mm)' },
-  double: { widthMm: 178, label: 'Double column (178 mm)' },
+  single: col(0, 'Single column'),
+  oneAndHalf: col(1, 'One-and-a-half column'),
+  double: col(2, 'Double column'),
 } as const;
 
 export type ColumnPreset = keyof typeof COLUMN_PRESETS;

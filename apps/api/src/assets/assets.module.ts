@@ -1,8 +1,7 @@
 import { Module } from '@nestjs/common';
 import { DataSource } from 'typeorm';
 import { PublicationsModule } from '../publications/publications.module';
-import { ObjectStorage } from '../infra/storage/object-storage';
-import { AssetStore, S3AssetStore } from './asset-store';
+import { ObjectStorage, AssetStore, S3AssetStore } from '@psiform/server';
 import { AssetsService } from './assets.service';
 import { AssetsController } from './assets.controller';
 import { MembershipService } from '../publications/membership.service';

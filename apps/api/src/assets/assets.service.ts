@@ -1,7 +1,7 @@
 import { Injectable, NotFoundException } from '@nestjs/common';
 import type { AssetLinkDto, UserDto } from '@psiform/contracts';
 import { MembershipService } from '../publications/membership.service';
-import { AssetStore } from './asset-store';
+import { AssetStore } from '@psiform/server';
 
 /** Presigned links live this long (short: a link forwarded outside the publication soon stops working). */
 export const LINK_TTL_SECONDS = 300;

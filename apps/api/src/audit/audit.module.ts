@@ -1,8 +1,7 @@
 import { Module } from '@nestjs/common';
 import { DataSource } from 'typeorm';
 import { PublicationsModule } from '../publications/publications.module';
-import { ReviewsStore, TypeormReviewsStore } from '../reviews/reviews.repository';
-import { AuditStore, TypeormAuditStore } from './audit.repository';
+import { ReviewsStore, TypeormReviewsStore, AuditStore, TypeormAuditStore } from '@psiform/server';
 import { AuditService } from './audit.service';
 import { AuditController } from './audit.controller';
 

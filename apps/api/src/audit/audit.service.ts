@@ -1,9 +1,7 @@
 import { Injectable, NotFoundException } from '@nestjs/common';
 import type { AuditEntryDto, UserDto } from '@psiform/contracts';
 import { MembershipService } from '../publications/membership.service';
-import { ReviewsStore } from '../reviews/reviews.repository';
-import { AuditStore } from './audit.repository';
-import { toAuditEntryDto } from './audit-entry.entity';
+import { ReviewsStore, AuditStore, toAuditEntryDto } from '@psiform/server';
 
 @Injectable()
 export class AuditService {

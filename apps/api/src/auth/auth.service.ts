@@ -1,8 +1,7 @@
 import { Injectable, UnauthorizedException } from '@nestjs/common';
 import { JwtService } from '@nestjs/jwt';
 import type { LoginResponse } from '@psiform/contracts';
-import { UsersStore } from '../users/users.repository';
-import { toUserDto } from '../users/user.entity';
+import { UsersStore, toUserDto } from '@psiform/server';
 import { dummyPasswordHash, verifyPassword } from '../users/password';
 import { LoginThrottle } from './login-throttle';
 import type { JwtPayload } from './jwt.strategy';
@@ -17,15 +16,12 @@ export class AuthService {
 
   async login(emailInput: string, password: string, ip: string): Promise<LoginResponse> {
     const email = emailInput.trim().toLowerCase();
-    await this.throttle.assertAllowed(email, ip);
+    const attempt = await this.throttle.admit(email, ip); // counted before the password is checked
     const user = await this.users.findByEmail(email);
     // Compare against a dummy hash for unknown emails so both paths take the same time.
     const ok = await verifyPassword(password, user?.passwordHash ?? (await dummyPasswordHash()));
-    if (!user || !ok) {
-      await this.throttle.recordFailure(email, ip);
-      throw new UnauthorizedException('email or password is incorrect');
-    }
-    await this.throttle.recordSuccess(email);
+    if (!user || !ok) throw new UnauthorizedException('email or password is incorrect');
+    await attempt.succeeded();
     const payload: JwtPayload = { sub: user.id, role: user.role };
     return { accessToken: await this.jwt.signAsync(payload), user: toUserDto(user) };
   }

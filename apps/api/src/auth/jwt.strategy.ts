@@ -2,10 +2,7 @@ import { Inject, Injectable, UnauthorizedException } from '@nestjs/common';
 import { PassportStrategy } from '@nestjs/passport';
 import { ExtractJwt, Strategy } from 'passport-jwt';
 import type { UserDto } from '@psiform/contracts';
-import { APP_CONFIG } from '../config/config.tokens';
-import type { AppConfig } from '../config/config';
-import { UsersStore } from '../users/users.repository';
-import { toUserDto } from '../users/user.entity';
+import { APP_CONFIG, type AppConfig, UsersStore, toUserDto } from '@psiform/server';
 
 export interface JwtPayload {
   sub: string;

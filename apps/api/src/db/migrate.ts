@@ -1,6 +1,5 @@
 import 'reflect-metadata';
-import { loadDatabaseConfig, loadOrExit } from '../config/config';
-import { runMigrations } from './run-migrations';
+import { loadDatabaseConfig, loadOrExit, runMigrations } from '@psiform/server';
 
 /** `node dist/db/migrate.js`: applies pending migrations to DATABASE_URL, exits 0 on success. */
 async function main(): Promise<void> {

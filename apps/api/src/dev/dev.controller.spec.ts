@@ -1,5 +1,5 @@
 import { NotFoundException } from '@nestjs/common';
-import type { AppConfig } from '../config/config';
+import { type AppConfig } from '@psiform/server';
 import { DevController } from './dev.controller';
 import { OutboxReader } from './outbox-reader';
 

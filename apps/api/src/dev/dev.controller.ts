@@ -1,8 +1,7 @@
 import { Controller, Get, Inject, NotFoundException } from '@nestjs/common';
 import type { OutboxMessageDto } from '@psiform/contracts';
 import { Roles } from '../auth/auth.decorators';
-import { APP_CONFIG } from '../config/config.tokens';
-import type { AppConfig } from '../config/config';
+import { APP_CONFIG, type AppConfig } from '@psiform/server';
 import { OutboxReader, parseOutbox } from './outbox-reader';
 
 /** Development aids; they exist only while the local fakes are in use. */

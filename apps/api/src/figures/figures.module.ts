@@ -3,7 +3,7 @@ import { DataSource } from 'typeorm';
 import { PublicationsModule } from '../publications/publications.module';
 import { AssetsModule } from '../assets/assets.module';
 import { JobsModule } from '../jobs/jobs.module';
-import { FiguresStore, TypeormFiguresStore } from './figures.repository';
+import { FiguresStore, TypeormFiguresStore } from '@psiform/server';
 import { FiguresService } from './figures.service';
 import { FiguresController } from './figures.controller';
 

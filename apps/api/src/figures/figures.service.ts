@@ -1,16 +1,11 @@
 import { BadRequestException, Injectable, NotFoundException } from '@nestjs/common';
 import type { CreateJobResponse, FigureDto, FigureSummaryDto, Page, Recipe, UserDto } from '@psiform/contracts';
 import { MembershipService } from '../publications/membership.service';
-import { AssetStore } from '../assets/asset-store';
-import { toAssetDto } from '../assets/asset.entity';
+import { AssetStore, toAssetDto, ENGINE_VERSION, FiguresStore, type NewVersion, type FigureEntity, toFigureVersionDto, type FigureVersionEntity, recipeHash } from '@psiform/server';
 import { LINK_TTL_SECONDS } from '../assets/assets.service';
 import { JobsService } from '../jobs/jobs.service';
-import { ENGINE_VERSION } from '../pipeline/engine';
-import { FiguresStore, type NewVersion } from './figures.repository';
-import type { FigureEntity } from './figure.entity';
-import { toFigureVersionDto, type FigureVersionEntity } from './figure-version.entity';
 import type { CreateFigureBody, ListFiguresQuery, UpdateFigureBody } from './figures.dto';
-import { recipeHash, validateRecipe } from './recipe-input';
+import { validateRecipe } from './recipe-input';
 
 type Caller = Pick<UserDto, 'id' | 'role'>;
 

@@ -1,6 +1,5 @@
-import { createHash } from 'node:crypto';
 import { BadRequestException } from '@nestjs/common';
-import { canonicalJson, formatRecipeIssues, parseRecipe, type Recipe } from '@psiform/contracts';
+import { formatRecipeIssues, parseRecipe, type Recipe } from '@psiform/contracts';
 
 /** Validates a recipe document (defaults filled in) or throws 400 with one `recipe.<path>: <reason>` per issue. */
 export function validateRecipe(doc: unknown): Recipe {
@@ -11,7 +10,3 @@ export function validateRecipe(doc: unknown): Recipe {
   );
 }
 
-/** sha256 (hex) of the canonical JSON: equal recipes hash equally whatever their key order. */
-export function recipeHash(recipe: Recipe): string {
-  return createHash('sha256').update(canonicalJson(recipe)).digest('hex');
-}

@@ -1,5 +1,5 @@
 import { HealthService, describeFailure } from './health.service';
-import type { HealthProbe, ServiceName } from './health.probe';
+import { type HealthProbe, type ServiceName } from '@psiform/server';
 
 const probe = (name: ServiceName, check: () => Promise<void>): HealthProbe => ({ name, check });
 const ok = (name: ServiceName) => probe(name, async () => undefined);

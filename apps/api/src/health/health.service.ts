@@ -1,6 +1,6 @@
 import { Inject, Injectable, Optional } from '@nestjs/common';
 import type { HealthResponse } from '@psiform/contracts';
-import { HEALTH_PROBES, type HealthProbe, type ServiceName } from './health.probe';
+import { HEALTH_PROBES, type HealthProbe, type ServiceName } from '@psiform/server';
 
 export const HEALTH_TIMEOUT_MS = Symbol('HEALTH_TIMEOUT_MS');
 const DEFAULT_TIMEOUT_MS = 2000;

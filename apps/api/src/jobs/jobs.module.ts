@@ -2,7 +2,7 @@ import { Module } from '@nestjs/common';
 import { DataSource } from 'typeorm';
 import { PublicationsModule } from '../publications/publications.module';
 import { AssetsModule } from '../assets/assets.module';
-import { JobsStore, TypeormJobsStore } from './jobs.repository';
+import { JobsStore, TypeormJobsStore } from '@psiform/server';
 import { JobsService } from './jobs.service';
 import { JobsController } from './jobs.controller';
 

@@ -1,12 +1,7 @@
 import { Injectable, NotFoundException, ServiceUnavailableException } from '@nestjs/common';
 import type { JobDto, UserDto } from '@psiform/contracts';
-import { JobsStore, type NewJob } from './jobs.repository';
-import type { JobEntity } from './job.entity';
-import { JobQueue } from '../infra/queue/job-queue';
-import { AssetStore } from '../assets/asset-store';
-import { toAssetDto } from '../assets/asset.entity';
+import { JobsStore, type NewJob, type JobEntity, JobQueue, AssetStore, toAssetDto, DEFAULT_JOB_OPTIONS, JOB_ROUTES, type RoutedJobType } from '@psiform/server';
 import { MembershipService } from '../publications/membership.service';
-import { DEFAULT_JOB_OPTIONS, JOB_ROUTES, type RoutedJobType } from '../pipeline/mesh-job';
 
 const FINAL: ReadonlySet<string> = new Set(['completed', 'failed']);
 

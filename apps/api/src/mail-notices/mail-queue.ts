@@ -2,8 +2,7 @@ import { Inject, Injectable, type OnApplicationShutdown } from '@nestjs/common';
 import { Queue } from 'bullmq';
 import Redis from 'ioredis';
 import { MAIL_NOTICE_JOB, QUEUES, type MailNoticeJob } from '@psiform/contracts';
-import { APP_CONFIG } from '../config/config.tokens';
-import type { AppConfig } from '../config/config';
+import { APP_CONFIG, type AppConfig } from '@psiform/server';
 
 /**
  * Retries of a notice: 8 attempts, exponential backoff from 1 s (1, 2, 4 ... 64 s, about two minutes in

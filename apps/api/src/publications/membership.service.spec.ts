@@ -1,8 +1,6 @@
 import { NotFoundException } from '@nestjs/common';
 import { MembershipService } from './membership.service';
-import { PublicationsStore, type NewPublication } from './publications.repository';
-import type { PublicationEntity } from './publication.entity';
-import type { UserEntity } from '../users/user.entity';
+import { PublicationsStore, type NewPublication, type PublicationEntity, type UserEntity } from '@psiform/server';
 
 const pub = (id: string): PublicationEntity => ({ id, title: id, publisher: 'P', kind: 'book', description: '', createdAt: new Date(0) });
 

@@ -1,7 +1,6 @@
 import { Injectable, NotFoundException } from '@nestjs/common';
 import type { UserDto } from '@psiform/contracts';
-import { PublicationsStore } from './publications.repository';
-import type { PublicationEntity } from './publication.entity';
+import { PublicationsStore, type PublicationEntity } from '@psiform/server';
 
 /**
  * The one place that decides who may see a publication (and, later, its figures and reviews).

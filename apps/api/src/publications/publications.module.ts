@@ -1,10 +1,7 @@
 import { Module } from '@nestjs/common';
 import { TypeOrmModule } from '@nestjs/typeorm';
 import { UsersModule } from '../users/users.module';
-import { UserEntity } from '../users/user.entity';
-import { PublicationEntity } from './publication.entity';
-import { MembershipEntity } from './membership.entity';
-import { PublicationsStore, TypeormPublicationsStore } from './publications.repository';
+import { UserEntity, PublicationEntity, MembershipEntity, PublicationsStore, TypeormPublicationsStore } from '@psiform/server';
 import { MembershipService } from './membership.service';
 import { PublicationsService } from './publications.service';
 import { PublicationsController } from './publications.controller';

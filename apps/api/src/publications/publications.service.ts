@@ -1,10 +1,7 @@
 import { ConflictException, Injectable, NotFoundException } from '@nestjs/common';
 import type { CreatePublicationRequest, MembershipDto, PublicationDto, UserDto } from '@psiform/contracts';
-import { PublicationsStore } from './publications.repository';
+import { PublicationsStore, toPublicationDto, toUserDto, UsersStore } from '@psiform/server';
 import { MembershipService } from './membership.service';
-import { toPublicationDto } from './publication.entity';
-import { toUserDto } from '../users/user.entity';
-import { UsersStore } from '../users/users.repository';
 
 @Injectable()
 export class PublicationsService {

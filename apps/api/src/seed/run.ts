@@ -1,7 +1,6 @@
 import 'reflect-metadata';
 import { DataSource } from 'typeorm';
-import { loadDatabaseConfig, loadOrExit } from '../config/config';
-import { dataSourceOptions } from '../db/schema';
+import { loadDatabaseConfig, loadOrExit, dataSourceOptions } from '@psiform/server';
 import { formatSeedSummary, runSeed } from './seed';
 
 /** `node dist/seed/run.js`: loads the demo scenario into DATABASE_URL (run migrations first). */

@@ -2,9 +2,7 @@ import { ConflictException, Injectable, NotFoundException } from '@nestjs/common
 import type { BatchDto, BatchItemDto, FigureStatus, Recipe, UserDto } from '@psiform/contracts';
 import { MembershipService } from '../publications/membership.service';
 import { JobsService } from '../jobs/jobs.service';
-import { ENGINE_VERSION } from '../pipeline/engine';
-import { recipeHash } from '../figures/recipe-input';
-import { SwatchbooksStore } from './swatchbooks.repository';
+import { ENGINE_VERSION, SwatchbooksStore, recipeHash } from '@psiform/server';
 import type { SwatchbookColorsDto } from '@psiform/contracts';
 
 type Caller = Pick<UserDto, 'id' | 'role'>;

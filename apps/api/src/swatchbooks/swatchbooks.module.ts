@@ -3,7 +3,7 @@ import { APP_INTERCEPTOR } from '@nestjs/core';
 import { DataSource } from 'typeorm';
 import { PublicationsModule } from '../publications/publications.module';
 import { JobsModule } from '../jobs/jobs.module';
-import { SwatchbooksStore, TypeormSwatchbooksStore } from './swatchbooks.repository';
+import { SwatchbooksStore, TypeormSwatchbooksStore } from '@psiform/server';
 import { SwatchbooksService } from './swatchbooks.service';
 import { RerenderService } from './rerender.service';
 import { BatchesController, HouseStyleController, SwatchbooksController } from './swatchbooks.controller';

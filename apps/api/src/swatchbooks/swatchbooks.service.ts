@@ -11,8 +11,7 @@ import {
   type UserDto,
 } from '@psiform/contracts';
 import { MembershipService } from '../publications/membership.service';
-import { SwatchbooksStore } from './swatchbooks.repository';
-import { toSwatchbookDto, toSwatchbookVersionDto, type SwatchbookEntity } from './swatchbook.entity';
+import { SwatchbooksStore, toSwatchbookDto, toSwatchbookVersionDto, type SwatchbookEntity } from '@psiform/server';
 import { parseColors, parseName, parseSwatchbookFile } from './swatchbook-input';
 
 type Caller = Pick<UserDto, 'id' | 'role'>;

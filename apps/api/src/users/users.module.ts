@@ -1,7 +1,6 @@
 import { Module } from '@nestjs/common';
 import { TypeOrmModule } from '@nestjs/typeorm';
-import { UserEntity } from './user.entity';
-import { TypeormUsersStore, UsersStore } from './users.repository';
+import { UserEntity, TypeormUsersStore, UsersStore } from '@psiform/server';
 import { UsersService } from './users.service';
 import { UsersController } from './users.controller';
 

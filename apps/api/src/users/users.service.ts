@@ -1,7 +1,6 @@
 import { ConflictException, Injectable } from '@nestjs/common';
 import type { CreateUserRequest, UserDto } from '@psiform/contracts';
-import { DuplicateEmailError, UsersStore } from './users.repository';
-import { toUserDto } from './user.entity';
+import { DuplicateEmailError, UsersStore, toUserDto } from '@psiform/server';
 import { hashPassword } from './password';
 
 @Injectable()

@@ -76,12 +76,13 @@ export function ColourChecks({ check }: { check: SwatchbookCheck }) {
         </tbody>
       </HTMLTable>
 
-      <h3>Print gamut (approximate)</h3>
+      <h3>Print</h3>
       <p className="pf-muted pf-small" data-testid="check-gamut">
-        {f.outOfPrintGamut.length === 0
-          ? 'Every swatch looks printable on coated paper.'
-          : `May not print on coated paper: ${f.outOfPrintGamut.join(', ')}.`}{' '}
-        This is an approximate check against a modelled CMYK gamut, without an ICC profile; a real soft-proof decides.
+        {f.print === null
+          ? 'CMYK values and gamut come from the press condition\'s ICC profile (On press, below).'
+          : f.outOfPrintGamut.length === 0
+            ? `Every swatch prints in gamut on ${f.print.condition.name}.`
+            : `Out of gamut on ${f.print.condition.name}: ${f.outOfPrintGamut.join(', ')}.`}
       </p>
 
       {check.warnings.length > 0 ? (

@@ -84,7 +84,7 @@ describe('swatchbook editor: live checks in the browser', () => {
     await waitFor(() => expect((screen.getByTestId('sw-negative-hex') as HTMLInputElement).value).toBe('#3a7d44'));
     expect(screen.getByTestId('check-de-normal').textContent).not.toBe(first);
     expect(screen.getByTestId('cvd-preview-normal').querySelector('[data-part="negative"]')?.getAttribute('fill')).toBe('#3a7d44');
-    expect(screen.getByTestId('check-gamut').textContent).toContain('approximate');
+    expect(screen.getByTestId('check-gamut').textContent).toContain('ICC profile');
   });
 
   it('creates a swatchbook with the edited colours and opens it', async () => {

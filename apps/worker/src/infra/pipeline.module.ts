@@ -1,6 +1,6 @@
 import { Global, Inject, Module, type DynamicModule, type OnApplicationShutdown } from '@nestjs/common';
 import { DataSource } from 'typeorm';
-import { AssetStore, JobsStore, ObjectStorage, S3AssetStore, S3ObjectStorage, TypeormJobsStore, dataSourceOptions } from '@psiform/api/pipeline';
+import { AssetStore, JobsStore, ObjectStorage, S3AssetStore, S3ObjectStorage, TypeormJobsStore, dataSourceOptions } from '@psiform/server';
 import type { WorkerConfig } from '../config/config';
 
 /**

@@ -1,6 +1,6 @@
 import { UnrecoverableError } from 'bullmq';
 import type { Recipe } from '@psiform/contracts';
-import { AssetStore, CONTENT_TYPES, ObjectStorage, meshKey, type MeshStage, type NewAsset } from '@psiform/api/pipeline';
+import { AssetStore, CONTENT_TYPES, ObjectStorage, meshKey, type MeshStage, type NewAsset } from '@psiform/server';
 import { encodeGlb, encodeStl, parseNrrdHeader, printTolerance, recipeToSurfaces, summariseSurfaces, type Mesh, type PhaseSurface, type SurfaceStage } from '@psiform/meshing';
 
 export interface MeshBuildInput {

@@ -1,6 +1,6 @@
 import { UnrecoverableError } from 'bullmq';
 import { parseRecipe } from '@psiform/contracts';
-import { AssetStore, JobsStore, ObjectStorage, meshKey, recipeHash, type JobContext, type NewAsset, type StoredObject } from '@psiform/api/pipeline';
+import { AssetStore, JobsStore, ObjectStorage, meshKey, recipeHash, type JobContext, type NewAsset, type StoredObject } from '@psiform/server';
 import { closeParallelSampler } from '@psiform/orbitals/node';
 import { MeshJobProcessor } from './mesh.processor';
 

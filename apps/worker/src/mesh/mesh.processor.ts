@@ -1,7 +1,7 @@
 import { Injectable, Logger } from '@nestjs/common';
 import { UnrecoverableError } from 'bullmq';
 import { parseRecipe, QUEUES } from '@psiform/contracts';
-import { AssetStore, ENGINE_VERSION, JobsStore, MESH_PROGRESS, ObjectStorage, type JobPayload, type MeshStage } from '@psiform/api/pipeline';
+import { AssetStore, ENGINE_VERSION, JobsStore, MESH_PROGRESS, ObjectStorage, type JobPayload, type MeshStage } from '@psiform/server';
 import type { JobProcessor, ProcessorJob } from '../queues/job-processor';
 import { buildMesh } from './mesh-assets';
 

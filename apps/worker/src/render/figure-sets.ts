@@ -1,5 +1,5 @@
 import type { DataSource } from 'typeorm';
-import { FigureVersionEntity } from '@psiform/api/pipeline';
+import { FigureVersionEntity } from '@psiform/server';
 
 /** What a figure-set render job needs from the database; the only worker code touching figure_sets. */
 export class FigureSetStore {

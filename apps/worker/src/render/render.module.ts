@@ -1,7 +1,7 @@
 import { Inject, Module, type DynamicModule, type OnApplicationShutdown } from '@nestjs/common';
 import { DataSource } from 'typeorm';
 import type Redis from 'ioredis';
-import { AssetStore, ENGINE_VERSION, JobsStore, ObjectStorage } from '@psiform/api/pipeline';
+import { AssetStore, ENGINE_VERSION, JobsStore, ObjectStorage } from '@psiform/server';
 import type { WorkerConfig } from '../config/config';
 import { REDIS_CONNECTION } from '../infra/redis-connection';
 import { ExportJobProcessor } from '../export/export.processor';

@@ -1,6 +1,6 @@
 import { UnrecoverableError } from 'bullmq';
 import { parseRecipe, type Recipe } from '@psiform/contracts';
-import { AssetStore, JobsStore, ObjectStorage, meshKey, recipeHash, sha256Hex, type AssetEntity, type FigureVersionEntity, type JobContext, type NewAsset, type StoredObject } from '@psiform/api/pipeline';
+import { AssetStore, JobsStore, ObjectStorage, meshKey, recipeHash, sha256Hex, type AssetEntity, type FigureVersionEntity, type JobContext, type NewAsset, type StoredObject } from '@psiform/server';
 import { closeParallelSampler } from '@psiform/orbitals/node';
 import { RenderJobProcessor } from './render.processor';
 import type { FigureRenderer, RenderRequest } from './figure-renderer';

@@ -3,7 +3,7 @@ import { Queue } from 'bullmq';
 import type Redis from 'ioredis';
 import type { DataSource } from 'typeorm';
 import { QUEUES, THUMBNAIL } from '@psiform/contracts';
-import { DEFAULT_JOB_OPTIONS, JOB_ROUTES, JobsStore } from '@psiform/api/pipeline';
+import { DEFAULT_JOB_OPTIONS, JOB_ROUTES, JobsStore } from '@psiform/server';
 import type { MeshDone } from '../mesh/mesh.processor';
 
 /** figures.thumbnail_asset_id; the only code of the worker that writes the figures table. */

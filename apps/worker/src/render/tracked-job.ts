@@ -1,6 +1,6 @@
 import { UnrecoverableError } from 'bullmq';
 import { parseRecipe, type ExportStage, type Recipe } from '@psiform/contracts';
-import { AssetStore, JobsStore, ObjectStorage, meshKey, type JobContext, type JobPayload, type NewAsset } from '@psiform/api/pipeline';
+import { AssetStore, JobsStore, ObjectStorage, meshKey, type JobContext, type JobPayload, type NewAsset } from '@psiform/server';
 import type { ProcessorJob } from '../queues/job-processor';
 import { buildMesh, gridLabel } from '../mesh/mesh-assets';
 

@@ -1,0 +1,183 @@
+/**
+ * Start-up configuration: read once from the environment, validated into a typed object.
+ * A bad or missing value raises ConfigError naming the variable; entry points print it and exit 1.
+ */
+export interface DatabaseConfig {
+  url: string;
+}
+
+export interface AppConfig {
+  database: DatabaseConfig;
+  redis: { url: string };
+  s3: { endpoint: string; bucket: string; accessKeyId: string; secretAccessKey: string; region: string };
+  /** outboxFile: MAIL_OUTBOX_FILE, set only while the local mail fake is in use (GET /api/dev/outbox). */
+  smtp: { url: string; from: string; outboxFile?: string };
+  jwt: { secret: string; ttl: string };
+  /**
+   * trustProxy: Express's `trust proxy` (TRUST_PROXY: unset/false = the socket address is the client; true, a hop
+   * count, or a comma list of addresses/CIDRs/loopback|linklocal|uniquelocal). Only with it set does sign-in
+   * throttling also count per client address, since only then is that address the client's and not a proxy's.
+   */
+  http: { port: number; host: string; webDist: string | undefined; trustProxy: TrustProxy };
+  /** Largest accepted cube file of POST /api/uploads, in bytes (UPLOAD_MAX_BYTES). */
+  uploads: { maxBytes: number };
+  /** requestsPerMinute: general rate limit per signed-in account or client address (RATE_LIMIT_PER_MINUTE; 0 = off). */
+  limits: { requestsPerMinute: number };
+}
+
+export type Env = Record<string, string | undefined>;
+export type TrustProxy = false | true | number | string[];
+
+export class ConfigError extends Error {
+  constructor(readonly problems: string[]) {
+    super(`Invalid configuration: ${problems.join('; ')}`);
+    this.name = 'ConfigError';
+  }
+}
+
+export const DEFAULTS = {
+  S3_REGION: 'us-east-1',
+  MAIL_FROM: 'Psiform <no-reply@psiform.test>',
+  JWT_TTL: '8h',
+  PORT: '3000',
+  HOST: '127.0.0.1',
+  UPLOAD_MAX_BYTES: '536870912',
+  RATE_LIMIT_PER_MINUTE: '1200',
+} as const;
+
+export const MIN_JWT_SECRET_LENGTH = 32;
+
+/** Collects problems so one run reports every bad variable at once. */
+class Reader {
+  readonly problems: string[] = [];
+  constructor(private readonly env: Env) {}
+
+  private raw(name: string, fallback?: string): string | undefined {
+    const v = this.env[name];
+    if (v === undefined || v.trim() === '') return fallback;
+    return v.trim();
+  }
+
+  url(name: string, protocols: string[], what: string): string {
+    const v = this.raw(name);
+    if (v === undefined) return this.fail(`${name} is required (${what})`);
+    let parsed: URL;
+    try {
+      parsed = new URL(v);
+    } catch {
+      return this.fail(`${name} must be ${what}`);
+    }
+    if (!protocols.includes(parsed.protocol) || parsed.hostname === '') return this.fail(`${name} must be ${what}`);
+    return v;
+  }
+
+  string(name: string, fallback?: string, minLength = 1): string {
+    const v = this.raw(name, fallback);
+    if (v === undefined) return this.fail(`${name} is required`);
+    if (v.length < minLength) return this.fail(`${name} must be at least ${minLength} characters`);
+    return v;
+  }
+
+  optional(name: string): string | undefined {
+    return this.raw(name);
+  }
+
+  int(name: string, fallback: string, min: number, max: number): number {
+    const v = this.raw(name, fallback)!;
+    const n = /^\d+$/.test(v) ? Number(v) : NaN;
+    if (!Number.isInteger(n) || n < min || n > max) {
+      this.fail(`${name} must be an integer from ${min} to ${max}`);
+      return 0;
+    }
+    return n;
+  }
+
+  trustProxy(name: string): TrustProxy {
+    const v = this.raw(name);
+    if (v === undefined || v === 'false') return false;
+    if (v === 'true') return true;
+    if (/^\d+$/.test(v)) return Number(v);
+    const parts = v.split(',').map((p) => p.trim()).filter(Boolean);
+    const ok = parts.every((p) => ['loopback', 'linklocal', 'uniquelocal'].includes(p) || /^[0-9a-fA-F.:]+(\/\d{1,3})?$/.test(p));
+    if (!parts.length || !ok) {
+      this.fail(`${name} must be false, true, a hop count, or a comma list of addresses, CIDR ranges or loopback/linklocal/uniquelocal`);
+      return false;
+    }
+    return parts;
+  }
+
+  duration(name: string, fallback: string): string {
+    const v = this.raw(name, fallback)!;
+    // Format understood by jsonwebtoken's expiresIn (the `ms` package): number + optional unit.
+    if (!/^\d+(ms|s|m|h|d|w|y)?$/.test(v)) return this.fail(`${name} must be a duration like 900s, 30m, 8h or 1d`);
+    return v;
+  }
+
+  private fail(problem: string): string {
+    this.problems.push(problem);
+    return '';
+  }
+
+  done(): void {
+    if (this.problems.length > 0) throw new ConfigError(this.problems);
+  }
+}
+
+function readDatabase(r: Reader): DatabaseConfig {
+  return { url: r.url('DATABASE_URL', ['postgres:', 'postgresql:'], 'a postgres:// URL') };
+}
+
+/** Only what the migration and seed scripts need. */
+export function loadDatabaseConfig(env: Env): DatabaseConfig {
+  const r = new Reader(env);
+  const db = readDatabase(r);
+  r.done();
+  return db;
+}
+
+export function loadConfig(env: Env): AppConfig {
+  const r = new Reader(env);
+  const config: AppConfig = {
+    database: readDatabase(r),
+    redis: { url: r.url('REDIS_URL', ['redis:', 'rediss:'], 'a redis:// URL') },
+    s3: {
+      endpoint: r.url('S3_ENDPOINT', ['http:', 'https:'], 'an http:// or https:// URL'),
+      bucket: r.string('S3_BUCKET'),
+      accessKeyId: r.string('S3_ACCESS_KEY_ID'),
+      secretAccessKey: r.string('S3_SECRET_ACCESS_KEY'),
+      region: r.string('S3_REGION', DEFAULTS.S3_REGION),
+    },
+    smtp: {
+      url: r.url('SMTP_URL', ['smtp:'], 'an smtp://host:port URL'),
+      from: r.string('MAIL_FROM', DEFAULTS.MAIL_FROM),
+      outboxFile: r.optional('MAIL_OUTBOX_FILE'),
+    },
+    jwt: {
+      secret: r.string('JWT_SECRET', undefined, MIN_JWT_SECRET_LENGTH),
+      ttl: r.duration('JWT_TTL', DEFAULTS.JWT_TTL),
+    },
+    http: {
+      port: r.int('PORT', DEFAULTS.PORT, 0, 65535),
+      host: r.string('HOST', DEFAULTS.HOST),
+      webDist: r.optional('WEB_DIST'),
+      trustProxy: r.trustProxy('TRUST_PROXY'),
+    },
+    uploads: { maxBytes: r.int('UPLOAD_MAX_BYTES', DEFAULTS.UPLOAD_MAX_BYTES, 1, 17179869184) },
+    limits: { requestsPerMinute: r.int('RATE_LIMIT_PER_MINUTE', DEFAULTS.RATE_LIMIT_PER_MINUTE, 0, 1_000_000) },
+  };
+  r.done();
+  return config;
+}
+
+/** Entry-point helper: on a ConfigError print the message (naming the variable) and exit 1. */
+export function loadOrExit<T>(load: () => T): T {
+  try {
+    return load();
+  } catch (err) {
+    if (err instanceof ConfigError) {
+      process.stderr.write(`${err.message}\n`);
+      process.exit(1);
+    }
+    throw err;
+  }
+}

@@ -1,0 +1,41 @@
+import type { DataSourceOptions } from 'typeorm';
+import { UserEntity } from '../users/user.entity';
+import { PublicationEntity } from '../publications/publication.entity';
+import { MembershipEntity } from '../publications/membership.entity';
+import { FigureEntity } from '../figures/figure.entity';
+import { FigureVersionEntity } from '../figures/figure-version.entity';
+import { AssetEntity } from '../assets/asset.entity';
+import { JobEntity } from '../jobs/job.entity';
+import { Foundation1764633600000 } from './migrations/1764633600000-Foundation';
+import { FigureJobs1764720000000 } from './migrations/1764720000000-FigureJobs';
+import { SwatchbookEntity, SwatchbookVersionEntity } from '../swatchbooks/swatchbook.entity';
+import { HouseStyleEntity } from '../swatchbooks/house-style.entity';
+import { BatchEntity, BatchItemEntity } from '../swatchbooks/batch.entity';
+import { ReviewRoundEntity } from '../reviews/review-round.entity';
+import { CommentEntity } from '../reviews/comment.entity';
+import { AuditEntryEntity } from '../audit/audit-entry.entity';
+import { EditorialReview1764806400000 } from './migrations/1764806400000-EditorialReview';
+import { FigureSetEntity } from '../exports/figure-set.entity';
+import { StudioExports1764979200000 } from './migrations/1764979200000-StudioExports';
+import { FigureSetExports1765238400000 } from './migrations/1765238400000-FigureSetExports';
+import { PrintProduction1765411200000 } from './migrations/1765411200000-PrintProduction';
+import { DeliveryProfileEntity } from '../delivery-profiles/delivery-profile.entity';
+
+/** Entities and migrations are listed as classes (not globs) so the same list works compiled and under Jest. */
+export const ENTITIES = [UserEntity, PublicationEntity, MembershipEntity, FigureEntity, FigureVersionEntity, AssetEntity, JobEntity,
+  SwatchbookEntity, SwatchbookVersionEntity, HouseStyleEntity, BatchEntity, BatchItemEntity, ReviewRoundEntity, CommentEntity, AuditEntryEntity, FigureSetEntity, DeliveryProfileEntity];
+export const MIGRATIONS = [Foundation1764633600000, FigureJobs1764720000000, EditorialReview1764806400000, StudioExports1764979200000, FigureSetExports1765238400000, PrintProduction1765411200000];
+
+export function dataSourceOptions(url: string, extra: { poolSize?: number } = {}): DataSourceOptions {
+  return {
+    type: 'postgres',
+    url,
+    entities: ENTITIES,
+    migrations: MIGRATIONS,
+    migrationsTableName: 'typeorm_migrations',
+    synchronize: false,
+    migrationsRun: false,
+    logging: ['error'],
+    ...(extra.poolSize ? { extra: { max: extra.poolSize } } : {}),
+  };
+}
