@@ -45,6 +45,8 @@ export interface MeshResultLike {
   surfaces: ({ phase: '+' | '-' | 'complex'; stats?: SurfaceStatsLike | null } & Partial<SurfaceStatsLike>)[];
   warnings?: WarningLike[];
   conventions?: string;
+  /** How close the mesh is to the exact surface (@psiform/meshing SurfaceRefinement); absent for uploads. */
+  refinement?: { tolerance: number; toleranceFrom: string; maxDeviation: number } | null;
 }
 
 export interface FigureMetadataInput {
@@ -215,6 +217,10 @@ export function figureMetadata(input: FigureMetadataInput): FigureMetadata {
       enclosedInBox: inBox,
       isovalue: result.isovalue,
       phaseColouring,
+      // Vertices lie on the exact level set; chords within maxDeviationBohr of it (null: not refined, e.g. uploads).
+      exactness: result.refinement
+        ? { toleranceBohr: Number.isFinite(result.refinement.tolerance) ? result.refinement.tolerance : null, toleranceFrom: result.refinement.toleranceFrom, maxDeviationBohr: Number.isFinite(result.refinement.maxDeviation) ? result.refinement.maxDeviation : null }
+        : null,
     },
     grid: {
       n,
@@ -260,6 +266,8 @@ export function metadataSheetText(meta: FigureMetadata): string {
     ...(s.enclosedInBox < s.enclosedAchieved ? [`- Drawn inside the box: ${(s.enclosedInBox * 100).toFixed(2)}% (the box cuts the surface)`] : []),
     `- Isovalue |ψ|: ${g(s.isovalue)} a0^-3/2`, `- Colouring: ${s.phaseColouring === 'sign' ? 'sign of ψ' : 'phase (argument) of ψ'}`);
   for (const x of meta.surfaces) if (x.stats) L.push(`- Surface ${x.phase}: ${x.stats.triangles} triangles, area ${g(x.stats.area)} a0²`);
+  const ex = s.exactness;
+  if (ex) L.push(`- Mesh vertices on the exact surface; chords and triangle centres within ${ex.maxDeviationBohr !== null ? `${g(ex.maxDeviationBohr)} a0` : 'an unmeasured distance'} of it${ex.toleranceBohr !== null ? ` (tolerance ${g(ex.toleranceBohr)} a0, ${ex.toleranceFrom})` : ''}`);
   L.push('', '## Grid', '');
   const gr = meta.grid;
   L.push(`- ${gr.n}³ points; extent ±${g(gr.extentBohr)} a0 (±${g(gr.extentAngstrom)} Å)${gr.requestedExtent === 'auto' ? ', chosen automatically' : ''}`);
