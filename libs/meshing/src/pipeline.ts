@@ -62,7 +62,7 @@ export const RESULT_UNITS = {
 } as const;
 
 /** Points per side the automatic grid starts from, and its ceilings. */
-export const AUTO_GRID = { base: 96, max: 256, maxComplex: 224, min: 24, maxSparse: 512 } as const;
+export const AUTO_GRID = { base: 96, max: 256, maxComplex: 224, min: 24 } as const;
 
 export type SurfaceRule = { rule: 'enclosed'; fraction: number } | { rule: 'psi'; value: number };
 
@@ -272,7 +272,7 @@ function nFor(extent: number, step: number, lo: number, hi: number): number {
 }
 
 /** Stage 1: level over all space, features, box and grids. Synchronous and cheap next to sampling. */
-export function planSurfaces(recipe: SurfaceRecipe, opts: { maxN?: number; sparse?: boolean } = {}): SurfacePlan {
+export function planSurfaces(recipe: SurfaceRecipe, opts: { maxN?: number } = {}): SurfacePlan {
   validate(recipe);
   const state = stateOf(recipe);
   const compiled = compileState(state);
@@ -292,9 +292,7 @@ export function planSurfaces(recipe: SurfaceRecipe, opts: { maxN?: number; spars
   }
   const analysis = analyseSurface(compiled, level.density);
   const halfWidth = Number(solver.halfWidth(level.density));
-  // Sampled coarse-to-fine, a grid costs what its surface's area costs, not its volume: automatic grids may then go
-  // to 512 points per side where a detail or the topology check asks for it.
-  const cap = Math.max(AUTO_GRID.min, Math.min(opts.maxN ?? Infinity, opts.sparse ? AUTO_GRID.maxSparse : compiled.isReal ? AUTO_GRID.max : AUTO_GRID.maxComplex));
+  const cap = Math.max(AUTO_GRID.min, Math.min(opts.maxN ?? Infinity, compiled.isReal ? AUTO_GRID.max : AUTO_GRID.maxComplex));
   const warnings: SurfaceWarning[] = [];
   const fixedN = recipe.grid.n === 'auto' ? null : (recipe.grid.n as number);
   const extentIn = recipe.grid.extent ?? 'auto';
@@ -630,7 +628,7 @@ export async function recipeToSurfaces(recipe: SurfaceRecipe, hooks: SurfaceHook
   const timings: SurfacesResult['timings_ms'] = { plan: 0, sampling: 0, threshold: 0, extracting: 0, refining: 0, statistics: 0 };
   let t0 = performance.now();
   await hooks.onStage?.('sampling');
-  const plan = planSurfaces(recipe, { maxN: hooks.maxN, sparse: !hooks.sample });
+  const plan = planSurfaces(recipe, { maxN: hooks.maxN });
   timings.plan = performance.now() - t0;
   const withStats = hooks.stats !== false;
   // A box that cuts the surface leaves it open: its topology cannot be the closed surface's, so it is not compared.

@@ -2,6 +2,7 @@ import { UnrecoverableError } from 'bullmq';
 import type { Recipe } from '@psiform/contracts';
 import { AssetStore, CONTENT_TYPES, ObjectStorage, meshKey, type MeshStage, type NewAsset } from '@psiform/server';
 import { encodeGlb, encodeStl, parseNrrdHeader, printTolerance, recipeToSurfaces, summariseSurfaces, type Mesh, type PhaseSurface, type SurfaceStage } from '@psiform/meshing';
+import { SamplingBufferPool, sampleGridParallel, type SamplingBuffers } from '@psiform/orbitals/node';
 
 export interface MeshBuildInput {
   recipe: Recipe;
@@ -21,6 +22,13 @@ export interface MeshBuild {
 
 const ms = (x: number) => Math.round(x * 10) / 10;
 
+/**
+ * Sampling buffers reused by every mesh build of this process (issue "Stays up and stays scoped": a worker's RSS grew
+ * by about 200 MB per 384³ job because each job's fresh SharedArrayBuffer stayed reachable from the idle sampling
+ * threads). A set is made only when every existing one is in use; 64 is only a ceiling.
+ */
+const samplingBuffers = new SamplingBufferPool(64);
+
 /** Grid label used in storage keys: "96" or "auto" for computed cubes, "40x40x48" for uploads. */
 export function gridLabel(recipe: Recipe): string {
   return recipe.source?.kind === 'upload' ? recipe.source.sizes.join('x') : String(recipe.grid.n);
@@ -39,16 +47,41 @@ export async function buildMesh(
   input: MeshBuildInput,
   stage: (s: Exclude<MeshStage, 'queued' | 'done'>) => Promise<void>,
 ): Promise<MeshBuild> {
+  if (input.recipe.source?.kind === 'upload') return buildMeshWith(deps, input, stage, null);
+  // One set of buffers per cube of the plan (the outer box and any finer inner cubes, told apart by half-width):
+  // the pipeline keeps every cube's field until the surfaces are merged, so two cubes must never share a set.
+  // A refinement of a cube re-samples into that cube's set (its old field is no longer read). All are held until
+  // the files are encoded, and given back whatever happens.
+  const held = new Map<number, SamplingBuffers>();
+  try {
+    return await buildMeshWith(deps, input, stage, async (extent) => {
+      let b = held.get(extent);
+      if (!b) held.set(extent, (b = await samplingBuffers.acquire()));
+      return b;
+    });
+  } finally {
+    for (const b of held.values()) samplingBuffers.release(b);
+  }
+}
+
+async function buildMeshWith(
+  deps: { assets: AssetStore; storage: ObjectStorage; engineVersion: string },
+  input: MeshBuildInput,
+  stage: (s: Exclude<MeshStage, 'queued' | 'done'>) => Promise<void>,
+  buffersFor: ((extent: number) => Promise<SamplingBuffers>) | null,
+): Promise<MeshBuild> {
   const { recipe, version, publicationId } = input;
   const total = performance.now();
   const cube = recipe.source?.kind === 'upload' ? await uploadedCube(deps, recipe) : undefined;
   let result;
   try {
-    // Coarse-to-fine sampling (the pipeline's own; no dense grid in memory) and the 3D-file tolerance: the stored
-    // GLB/STL are the archival meshes every print render starts from (a finer print re-meshes, see ensureMesh).
+    // The 3D-file tolerance: the stored GLB/STL are the archival meshes every print render starts from (a finer
+    // print re-meshes, see printGlb). The pooled dense sampler gives the same meshes as coarse-to-fine sampling
+    // (one extractor, libs/meshing sparse.ts).
     result = await recipeToSurfaces(recipe, {
       cube,
       tolerance: 'file',
+      sample: async (state, grid) => sampleGridParallel(state, { n: grid.n, extent: grid.extent as never }, { into: buffersFor ? await buffersFor(Number(grid.extent)) : undefined }),
       onStage: async (s) => {
         const js = JOB_STAGE[s];
         if (js) await stage(js);
