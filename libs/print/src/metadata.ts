@@ -78,6 +78,8 @@ export interface FigureMetadata {
     enclosedInBox: number;
     /** |psi| level of the surfaces, a0^-3/2. */
     isovalue: number;
+    /** How close the mesh is to the exact surface (a0); null for meshes that were not placed on it (uploads). */
+    exactness: { toleranceBohr: number | null; toleranceFrom: string; maxDeviationBohr: number | null } | null;
     phaseColouring: 'sign' | 'argument';
   };
   grid: {
