@@ -176,11 +176,53 @@ export function projectMesh(mesh: Mesh, F: LevelFunction, maxMove: number, phase
     if (phaseAngle) phaseAngle[v] = Math.atan2(psi[1], psi[0]);
   }
   if (phaseAngle) mesh.phaseAngle = phaseAngle;
+  fillMissingNormals(mesh);
   if (info) {
     info.maxDistance = maxD;
     info.failed = failed;
   }
   return mesh;
+}
+
+/**
+ * Where grad F vanishes or is undefined (|psi| = 0 on a singular line a coarse mesh spans), the vertex gets the
+ * normalised sum of its triangles' normals (right-hand rule, outward for our meshes), else +z: glTF needs unit normals.
+ */
+export function fillMissingNormals(mesh: Mesh): void {
+  const N = mesh.normals;
+  const P = mesh.positions;
+  const I = mesh.indices;
+  const V = P.length / 3;
+  const missing = new Uint8Array(V);
+  let any = false;
+  for (let v = 0; v < V; v++) {
+    const l = Math.hypot(N[3 * v], N[3 * v + 1], N[3 * v + 2]);
+    if (!(l > 0.5) || !Number.isFinite(l)) {
+      missing[v] = 1;
+      N[3 * v] = N[3 * v + 1] = N[3 * v + 2] = 0;
+      any = true;
+    }
+  }
+  if (!any) return;
+  for (let t = 0; t < I.length; t += 3) {
+    const a = I[t], b = I[t + 1], c = I[t + 2];
+    if (!missing[a] && !missing[b] && !missing[c]) continue;
+    const ux = P[3 * b] - P[3 * a], uy = P[3 * b + 1] - P[3 * a + 1], uz = P[3 * b + 2] - P[3 * a + 2];
+    const wx = P[3 * c] - P[3 * a], wy = P[3 * c + 1] - P[3 * a + 1], wz = P[3 * c + 2] - P[3 * a + 2];
+    const nx = uy * wz - uz * wy, ny = uz * wx - ux * wz, nz = ux * wy - uy * wx;
+    for (const v of [a, b, c]) {
+      if (!missing[v]) continue;
+      N[3 * v] += nx;
+      N[3 * v + 1] += ny;
+      N[3 * v + 2] += nz;
+    }
+  }
+  for (let v = 0; v < V; v++) {
+    if (!missing[v]) continue;
+    const l = Math.hypot(N[3 * v], N[3 * v + 1], N[3 * v + 2]);
+    if (l > 0) for (let k = 0; k < 3; k++) N[3 * v + k] /= l;
+    else N[3 * v + 2] = 1;
+  }
 }
 
 /** Outward unit normal -grad F / |grad F| into Nn at vertex v (left as it was where grad F vanishes). */
@@ -409,6 +451,7 @@ export function refineMesh(mesh: Mesh, F: LevelFunction, phase: Phase, opts: Ref
   const positions = Float32Array.from(pos.data.subarray(0, pos.length));
   const result: Mesh = { positions, normals: Float32Array.from(nor.data.subarray(0, nor.length)), indices: tri };
   if (ang) result.phaseAngle = Float32Array.from(ang.data.subarray(0, ang.length));
+  fillMissingNormals(result);
   const maxDeviation = limited ? Math.max(accepted, worstMarked, stuckWorst) : accepted;
   if (info) Object.assign(info, { tolerance: opts.tolerance, maxDeviation, rounds, trianglesBefore, trianglesAfter: tri.length / 3, limited } satisfies RefineInfo);
   return result;

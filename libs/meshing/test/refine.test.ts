@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { compileState, parseOrbitalLabel } from '@psiform/orbitals';
-import { levelFunction, meshDeviation, projectMesh, projectPoint, refineMesh, type AnalyticField, type RefineInfo } from '../src/refine';
+import { fillMissingNormals, levelFunction, meshDeviation, projectMesh, projectPoint, refineMesh, type AnalyticField, type RefineInfo } from '../src/refine';
 import { fileTolerance, printTolerance } from '../src/tolerance';
 import { meshStats } from '../src/stats';
 import type { Mesh } from '../src/mesh';
@@ -43,6 +43,15 @@ describe('projection onto the analytic level set (safeguarded Newton)', () => {
     const o = new Float64Array([0, 0, 0]);
     expect(projectPoint(F1s, o, 1)).toBe(Infinity);
     expect([...o]).toEqual([0, 0, 0]);
+  });
+
+  it('a vertex where the gradient vanishes gets the unit normal of its triangles (glTF needs unit normals)', () => {
+    const m = octahedron(1);
+    m.normals.fill(0);
+    fillMissingNormals(m);
+    // vertex 4 (0, 0, 1): the four upper faces' normals sum to +z
+    expect([m.normals[12], m.normals[13], m.normals[14]].map((x) => Math.round(x * 1e9) / 1e9)).toEqual([0, 0, 1]);
+    for (let v = 0; v < 6; v++) expect(Math.hypot(m.normals[3 * v], m.normals[3 * v + 1], m.normals[3 * v + 2])).toBeCloseTo(1, 12);
   });
 
   it('the minus phase and complex surfaces: 2p_z lobe below the plane, 2p(m = 1) ring |psi| = c', () => {
