@@ -9,7 +9,7 @@ import type { JobProcessor, ProcessorJob } from '../queues/job-processor';
 import type { FigureRenderer } from './figure-renderer';
 import type { FigureSetStore } from './figure-sets';
 import type { ThumbnailStore } from './thumbnails';
-import { ensureMesh, runTracked, versionOf, type TrackedJob, type TrackedResult } from './tracked-job';
+import { ensureMesh, runTracked, versionOf, type AfterMesh, type TrackedJob, type TrackedResult } from './tracked-job';
 import { printGlb } from '../mesh/mesh-assets';
 
 /** jobs.params of a render job (apps/api exports/export-request.ts, or the thumbnail scheduler). */
@@ -55,6 +55,8 @@ export class RenderJobProcessor implements JobProcessor<JobPayload, TrackedResul
     private readonly thumbnails: ThumbnailStore,
     private readonly engineVersion: string = ENGINE_VERSION,
     private readonly sets?: FigureSetStore,
+    /** The mesh job's after-mesh hook (thumbnails), for meshes this job computes first. */
+    private readonly afterMesh?: AfterMesh,
   ) {}
 
   async process(job: ProcessorJob<JobPayload>): Promise<TrackedResult> {
@@ -97,7 +99,7 @@ export class RenderJobProcessor implements JobProcessor<JobPayload, TrackedResul
       const png: NewAsset = { figureVersionId: version.id, publicationId: t.ctx.job.publicationId, kind: 'png', storageKey: stored.key, bytes: stored.bytes, sha256: stored.sha256, stats };
       const timings = { mesh: mesh.meshMs, ...prefixed('render_', out.ms), store: Math.round(performance.now() - ts), total: ms };
       return { timings, assets: [...mesh.newAssets, png] };
-    });
+    }, this.afterMesh);
     const ctx = await this.jobs.loadContext(res.jobId);
     const params = ctx?.job.params as RenderParams | undefined;
     if (params?.figureSetId && this.sets && res.assetIds.length > 0) {
@@ -126,9 +128,11 @@ export class RenderJobProcessor implements JobProcessor<JobPayload, TrackedResul
     const colour = p.colour ?? profile.colourMode;
     const pressCondition = p.pressCondition ?? profile.pressCondition;
     const mesh = await ensureMesh({ assets: this.assets, storage: this.storage, engineVersion: this.engineVersion }, t, version, recipe);
+    // As for PNG: a print finer than the stored mesh gets surfaces refined to its quarter pixel.
+    const print = await printGlb(recipe, mesh.stats, { widthPx: p.widthPx, heightPx: p.heightPx }, this.engineVersion);
     await t.stage('rendering');
     const alpha = colour === 'rgb' && p.alpha === true;
-    const out = await this.renderer.render({ recipe, glb: mesh.glb, widthPx: p.widthPx, heightPx: p.heightPx, dpi: p.dpi, transparent: alpha ? (p.transparent ?? undefined) : false });
+    const out = await this.renderer.render({ recipe, glb: print?.glb ?? mesh.glb, widthPx: p.widthPx, heightPx: p.heightPx, dpi: p.dpi, transparent: alpha ? (p.transparent ?? undefined) : false });
     await t.stage('encoding');
     const te = performance.now();
     const bg = recipe.stage.background;
