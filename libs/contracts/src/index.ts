@@ -5,4 +5,5 @@ export * from './recipe';
 export * from './figures';
 export * from './reviews';
 export * from './exports';
+export * from './limits';
 export * from './print';
