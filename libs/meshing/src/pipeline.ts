@@ -494,9 +494,9 @@ function regionBlockField(plan: SurfacePlan, region: GridRegion, timer: { ms: nu
         re = new Float32Array(N);
         if (im) im = new Float32Array(N);
       }
-      compiled.sampleBox({ origin, spacing: h, start, size }, re, im);
-      if (!rule) out.set(re.subarray(0, N));
+      if (!rule) compiled.sampleBox({ origin, spacing: h, start, size }, out, null);
       else {
+        compiled.sampleBox({ origin, spacing: h, start, size }, re, im);
         for (let k = 0, i = 0; k < size[2]; k++) {
           const z = -extent + (start[2] + k) * h;
           for (let j = 0; j < size[1]; j++) {
