@@ -156,34 +156,55 @@ export function exactSections(ctx) {
   }
 
   async function sectionTopology() {
-    heading('Topology at the defaults (grid and box auto, 90 %): found vs the true surface (analyseSurface)');
+    heading('Topology at the defaults (grid and box auto, 90 % over all space): the mesh against the true surface (SciPy, libs/meshing/test/topology_reference.py)');
+    // Every named real form up to n = 7 (cos types m = 0..l: a sin type is its cos type turned about z by pi/2m, so
+    // it has the same parts), complex m = +1, +2 rings up to n = 7 (m and -m give the same |psi|), ns for n = 8..12.
     const cases = [];
     const maxN = ARGS.has('--quick') ? 3 : 7;
     for (let n = 1; n <= maxN; n++)
       for (let l = 0; l < n; l++)
-        for (let m = 0; m <= l; m++) cases.push([`${n}${'spdfghi'[l]} m=${m} real`, orbitals.stateFromNlm(n, l, m, { complex: false })]);
-    for (let n = 2; n <= Math.min(maxN, 4); n++) for (let l = 1; l < n; l++) for (let m = 1; m <= l; m++) cases.push([`${n}${'spdfghi'[l]} m=${m} complex`, orbitals.stateFromNlm(n, l, m, { complex: true })]);
-    for (let n = 8; n <= (ARGS.has('--quick') ? 8 : 12); n++) cases.push([`${n}s`, orbitals.stateFromNlm(n, 0, 0, { complex: false })]);
+        for (let m = 0; m <= l; m++) cases.push({ name: `${n}${'spdfghi'[l]} m=${m} real`, kind: 'real', n, l, m });
+    for (let n = 2; n <= maxN; n++) for (let l = 1; l < n; l++) for (const m of [1, 2]) if (m <= l) cases.push({ name: `${n}${'spdfghi'[l]} m=+${m} complex`, kind: 'complex', n, l, m });
+    for (let n = 8; n <= (ARGS.has('--quick') ? 8 : 12); n++) cases.push({ name: `${n}s`, kind: 'real', n, l: 0, m: 0 });
+    for (const c of cases) {
+      c.state = orbitals.stateFromNlm(c.n, c.l, c.m, { complex: c.kind === 'complex' });
+      c.t = orbitals.levelSolver(orbitals.compileState(c.state)).solve(0.9).density;
+    }
+    const ref = spawnSync('/usr/bin/python3', [path.join(HERE, '..', 'libs', 'meshing', 'test', 'topology_reference.py')], {
+      input: JSON.stringify(cases.map((c) => ({ kind: c.kind, n: c.n, l: c.l, m: c.m, Z: 1, t: c.t }))),
+      encoding: 'utf8',
+      timeout: 600000,
+    });
+    if (ref.status !== 0) {
+      console.log(`  SciPy reference failed (python3-scipy needed): ${(ref.stderr || '').trim().split('\n').pop()}`);
+      return;
+    }
+    const truth = JSON.parse(ref.stdout);
     const rows = [];
     let ok = 0;
     const t0 = now();
-    for (const [name, content] of cases) {
+    const fmtT = (t) => (t ? Object.entries(t).filter(([, v]) => v && v[0] > 0).map(([p, v]) => `${p}:${v[0]}/${v[1]}`).join(' ') : '-');
+    for (let i = 0; i < cases.length; i++) {
+      const c = cases[i];
       let r;
       try {
-        r = await meshing.recipeToSurfaces(recipe(content));
+        r = await meshing.recipeToSurfaces(recipe(c.state));
       } catch (err) {
-        rows.push([name, '-', '-', `error: ${err.message}`]);
+        rows.push([c.name, fmtT(truth[i]), '-', `error: ${err.message}`, '-']);
         continue;
       }
-      const fmtT = (t) => (t ? Object.entries(t).filter(([, v]) => v && v.components > 0).map(([p, v]) => `${p}:${v.components}/${v.euler}`).join(' ') : '-');
-      const match = r.topology.matches === true;
+      const found = {};
+      for (const s of r.surfaces) if (s.stats && s.stats.components > 0) found[s.phase] = [s.stats.components, s.stats.euler];
+      const want = Object.fromEntries(Object.entries(truth[i]).filter(([, v]) => v[0] > 0));
+      const canon = (t) => JSON.stringify(Object.keys(t).sort().map((k) => [k, t[k]]));
+      const match = canon(found) === canon(want);
       if (match) ok++;
-      rows.push([name, fmtT(r.topology.expected), fmtT(r.topology.found), match ? 'ok' : 'DIFFERS', String(r.grid.regions.map((g) => g.n).join('+'))]);
+      rows.push([c.name, fmtT(want), fmtT(found), match ? 'ok' : 'DIFFERS', String(r.grid.regions.map((g) => g.n).join('+'))]);
     }
     results.topology = { ok, total: cases.length };
     const bad = rows.filter((r) => r[3] !== 'ok');
-    table(['state', 'true (parts/Euler)', 'mesh', 'match', 'grid n'], ARGS.has('--all-rows') ? rows : [...rows.slice(0, 12), ...bad]);
-    console.log(`  ${ok} of ${cases.length} states match (${rows.length - 12 > 0 && !ARGS.has('--all-rows') ? 'first 12 rows and every difference shown; --all-rows for all' : 'all shown'}); ${fmt((now() - t0) / 1000, 0)} s`);
+    table(['state', 'true (parts/Euler, SciPy)', 'mesh', 'match', 'grid n'], ARGS.has('--all-rows') ? rows : [...rows.slice(0, 12), ...bad]);
+    console.log(`  ${ok} of ${cases.length} states match (${!ARGS.has('--all-rows') ? 'first 12 rows and every difference shown; --all-rows for all' : 'all shown'}); ${fmt((now() - t0) / 1000, 0)} s; load ${os.loadavg().map((x) => x.toFixed(2)).join(' ')}`);
   }
 
   function summaryRows(verdict) {
