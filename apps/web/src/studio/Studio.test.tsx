@@ -30,7 +30,7 @@ class FakeWorker {
   postMessage(req: PreviewRequest) {
     this.sent.push(req);
     const reply = (msg: PreviewResponse) => queueMicrotask(() => act(() => this.onmessage?.({ data: msg } as MessageEvent<PreviewResponse>)));
-    if (req.type === 'sample') reply({ type: 'sampled', seq: req.seq, n: req.n, extent: 10, ms: 12, maxAbs: 0.05 });
+    if (req.type === 'sample') reply({ type: 'sampled', seq: req.seq, n: req.n, extent: 10, ms: 12 });
     else {
       const tri = () => ({ positions: new Float32Array([0, 0, 1, 1, 0, 1, 0, 1, 1]), normals: new Float32Array([0, 0, 1, 0, 0, 1, 0, 0, 1]), indices: new Uint32Array([0, 1, 2]) });
       reply({
@@ -46,6 +46,7 @@ class FakeWorker {
         triangles: 2,
         ms: { extract: 3, total: 4 },
         warnings: this.warningsNow(),
+        maxAbs: 0.05,
       });
     }
   }
