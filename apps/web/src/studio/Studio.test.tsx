@@ -45,6 +45,7 @@ class FakeWorker {
         enclosed: req.rule.rule === 'enclosed' ? req.rule.fraction : 0.5,
         triangles: 2,
         ms: { extract: 3, total: 4 },
+        maxAbs: 0.05,
         warnings: this.warningsNow(),
         maxAbs: 0.05,
       });
