@@ -47,7 +47,6 @@ class FakeWorker {
         ms: { extract: 3, total: 4 },
         maxAbs: 0.05,
         warnings: this.warningsNow(),
-        maxAbs: 0.05,
       });
     }
   }
