@@ -227,8 +227,10 @@ test("the Composer uses the engine's grid: a new figure starts on 'auto', 7s the
     assert.match(await coarse.first().textContent(), /shell|lobe|node|ring|feature/i, 'the warning names what the grid cannot resolve');
     await page.getByTestId('studio-grid-auto').click();
     assert.equal(await page.getByTestId('cmp-grid').inputValue(), 'auto');
+    // The warning goes once the preview on the engine's grid replaces the coarse one (polled, not timed).
+    await coarse.first().waitFor({ state: 'detached', timeout: 120_000 });
     await previewDone('The 7s preview back on the automatic grid');
-    assert.equal(await coarse.count(), 0);
+    assert.equal(await page.getByTestId('studio-warning').count(), 0);
 
     // A box that cuts the surface: the warning, and the offer to widen the box, which clears it.
     await page.goto(`${baseUrl()}/figures/${narrow.id}/studio`);
@@ -236,6 +238,7 @@ test("the Composer uses the engine's grid: a new figure starts on 'auto', 7s the
     const box = page.locator('[data-testid=studio-warning][data-code=box-cuts-surface]');
     await box.first().waitFor({ timeout: 120_000 });
     await page.getByTestId('studio-widen-box').click();
+    await box.first().waitFor({ state: 'detached', timeout: 120_000 }); // the widened box holds the surface
     await previewDone('The preview in the widened box');
     assert.equal(await box.count(), 0, 'the widened box holds the surface');
     assert.equal(await page.getByTestId('studio-save').isDisabled(), false, 'the wider box is a change to save');
