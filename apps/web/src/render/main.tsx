@@ -1,7 +1,6 @@
 // Headless render page (render.html): window.psiformRender(req) draws the figure's OrbitalScene off screen in
 // tiles and returns a print PNG. Contract for the worker: apps/web/src/render/CONTRACT.md.
-import '@fontsource/lato/400.css';
-import '@fontsource/lato/700.css';
+import { loadOverlayFonts } from '../scene/fonts';
 import { useLayoutEffect, useRef, useState } from 'react';
 import { createRoot } from 'react-dom/client';
 import { Canvas, useThree, type RootState } from '@react-three/fiber';
@@ -116,8 +115,7 @@ async function render(raw: unknown): Promise<RenderResult> {
     } else {
       surfaces = req.source.surfaces.map((s) => ({ phase: s.phase, geometry: geometryFromArrays(s) }));
     }
-    await document.fonts.load('700 32px Lato');
-    await document.fonts.load('400 32px Lato');
+    await loadOverlayFonts();
     const tLoad = performance.now() - t0;
 
     const id = nextId++;
@@ -317,8 +315,7 @@ async function renderPanels(req: CheckedRequest, keep: (all: PhaseGeometry[]) =>
   } finally {
     keep(loaded.flat());
   }
-  await document.fonts.load('700 32px Lato');
-  await document.fonts.load('400 32px Lato');
+  await loadOverlayFonts();
   const tLoad = performance.now() - t0;
 
   const t1 = performance.now();
