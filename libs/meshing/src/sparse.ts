@@ -173,22 +173,20 @@ export function extractSparse(field: BlockField, grid: CubeGrid, levels: readonl
         const i0 = bx * B, j0 = by * B, k0 = bz * B;
         const sx = Math.min(S, n - i0), sy = Math.min(S, n - j0), sz = Math.min(S, n - k0);
         const row0 = nb * (by + nb * bz);
-        if (bx === 0 || masks[row0 + bx - 1] === 0) {
-          // First block of a run of active blocks along x: sample the run in one box (long rows cost less per point
-          // than short ones). Faces the active lower neighbours already sampled are skipped (their values are still in
-          // the rings: the -y neighbours in this slab, the -z neighbours in the slab just before, whose top plane
-          // keeps its slot) when every block of the run has that neighbour.
+        // The lower faces an active neighbour already sampled are skipped: their values are still in the rings (the
+        // -x and -y neighbours in this slab, the -z neighbour in the slab just before, whose top plane keeps its slot).
+        const dy = active(bx, by - 1, bz) ? 1 : 0;
+        const dz = active(bx, by, bz - 1) ? 1 : 0;
+        const prev = bx > 0 && masks[row0 + bx - 1] !== 0;
+        if (!prev || dy !== (active(bx - 1, by - 1, bz) ? 1 : 0) || dz !== (active(bx - 1, by, bz - 1) ? 1 : 0)) {
+          // First block of a run of active blocks along x with the same faces to skip: sample the run in one box
+          // (long rows cost less per point than short ones).
           let end = bx;
-          while (end + 1 < nb && masks[row0 + end + 1] !== 0) end++;
-          let dy = 1;
-          let dz = 1;
-          for (let b = bx; b <= end && (dy || dz); b++) {
-            if (!active(b, by - 1, bz)) dy = 0;
-            if (!active(b, by, bz - 1)) dz = 0;
-          }
-          const ux = Math.min((end - bx + 1) * B + 1, n - i0), uy = sy - dy, uz = sz - dz;
+          while (end + 1 < nb && masks[row0 + end + 1] !== 0 && (active(end + 1, by - 1, bz) ? 1 : 0) === dy && (active(end + 1, by, bz - 1) ? 1 : 0) === dz) end++;
+          const dx = prev ? 1 : 0;
+          const ux = Math.min((end - bx + 1) * B + 1, n - i0) - dx, uy = sy - dy, uz = sz - dz;
           if (box.length < ux * uy * uz) box = new Float32Array(ux * S * S);
-          start[0] = i0;
+          start[0] = i0 + dx;
           start[1] = j0 + dy;
           start[2] = k0 + dz;
           size[0] = ux;
@@ -199,7 +197,7 @@ export function extractSparse(field: BlockField, grid: CubeGrid, levels: readonl
           for (let k = 0, b = 0; k < uz; k++) {
             const slot = (k0 + dz + k) % R;
             for (let j = 0; j < uy; j++) {
-              const row = (j0 + dy + j) * nR + slot * n + i0;
+              const row = (j0 + dy + j) * nR + slot * n + i0 + dx;
               for (let i = 0; i < ux; i++, b++) vals[row + i] = box[b];
             }
           }
