@@ -6,7 +6,7 @@ import { encode, extract, sampleComputed, threshold } from '../src/mesh/mesh-pip
 import { FigureRenderer } from '../src/render/figure-renderer';
 import { HeadlessBrowser } from '../src/render/headless-browser';
 import { StaticSite } from '../src/render/static-site';
-import { DEFAULT_WEB_DIST } from '../src/config/config';
+import { DEFAULT_WEB_DIST } from '@psiform/server';
 
 /** The worker's render path against the real Debian Chromium and the built render page (no other services). */
 describe('headless render (e2e)', () => {

@@ -1,12 +1,8 @@
-import { EXPORT_DPI, EXPORT_FORMATS, EXPORT_LIMITS, SECTION_PLANES, type ExportFormat, type Recipe, type SectionPlane } from '@psiform/contracts';
+import { EXPORT_DPI, EXPORT_FORMATS, EXPORT_LIMITS, SECTION_PLANES, type ExportFormat, type ExportParams as ExportJobParams, type Recipe, type RenderParams, type SectionPlane } from '@psiform/contracts';
 import { exportPixelSize } from '@psiform/print';
 
-/** What a render/export job is asked to do; stored in jobs.params and read by the worker. */
-export type ExportParams =
-  | { format: 'png'; widthMm: number; heightMm: number; dpi: number; widthPx: number; heightPx: number; transparent: boolean | null }
-  | { format: 'svg'; kind: 'radial' | 'section'; plane: SectionPlane; offset: number; levels: number; widthMm: number; heightMm: number }
-  | { format: 'glb' | 'stl' }
-  | { format: 'bundle' };
+/** What a render (png) or export job is asked to do: the job contract's params (libs/contracts jobs.ts). */
+export type ExportParams = RenderParams | ExportJobParams;
 
 export type ExportParse = { ok: true; params: ExportParams } | { ok: false; messages: string[] };
 

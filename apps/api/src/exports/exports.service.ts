@@ -32,14 +32,9 @@ export class ExportsService {
     if (!recipe.ok) throw new BadRequestException(['recipe: the stored recipe of this figure is not valid; save the figure again']);
     const parsed = parseExportRequest(body, recipe.recipe);
     if (!parsed.ok) throw new BadRequestException(parsed.messages);
-    const type = parsed.params.format === 'png' ? 'render' : 'export';
-    const job = await this.jobs.enqueue(type, {
-      publicationId: figure.publicationId,
-      figureId: figure.id,
-      figureVersionId: version.id,
-      requestedBy: user.id,
-      params: parsed.params,
-    });
+    const p = parsed.params;
+    const kind = p.format === 'png' ? { type: 'render' as const, params: p } : { type: 'export' as const, params: p };
+    const job = await this.jobs.enqueue({ ...kind, publicationId: figure.publicationId, figureId: figure.id, figureVersionId: version.id, requestedBy: user.id });
     return { jobId: job.id };
   }
 
@@ -89,7 +84,8 @@ export class ExportsService {
       const v = await this.figureStore.findVersion(f.id, f.currentVersion);
       panels.push({ figureId: f.id, figureVersionId: v!.id });
     }
-    const job = await this.jobs.enqueue('render', {
+    const job = await this.jobs.enqueue({
+      type: 'render',
       publicationId: set.publicationId,
       figureId: null,
       figureVersionId: null,

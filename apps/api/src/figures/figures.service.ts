@@ -106,7 +106,7 @@ export class FiguresService {
   async requestMesh(user: Caller, id: string): Promise<CreateJobResponse> {
     const figure = await this.requireFigure(user, id);
     const version = await this.currentVersion(figure);
-    const job = await this.jobs.enqueue('mesh', { publicationId: figure.publicationId, figureId: figure.id, figureVersionId: version.id, requestedBy: user.id });
+    const job = await this.jobs.enqueue({ type: 'mesh', params: {}, publicationId: figure.publicationId, figureId: figure.id, figureVersionId: version.id, requestedBy: user.id });
     return { jobId: job.id };
   }
 

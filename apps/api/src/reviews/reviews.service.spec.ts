@@ -1,9 +1,9 @@
 import { ConflictException, ForbiddenException, NotFoundException } from '@nestjs/common';
 import type { FigureStatus, MailNoticeJob, UserDto } from '@psiform/contracts';
-import { type FigureEntity, type FigureVersionEntity, type NewAuditEntry, ReviewsStore, type HouseRules, type ReviewTx, type ReviewRoundEntity, type CommentEntity } from '@psiform/server';
+import { ConflictError, type FigureEntity, type FigureVersionEntity, type NewAuditEntry, ReviewsStore, type HouseRules, type ReviewTx, type ReviewRoundEntity, type CommentEntity } from '@psiform/server';
 import type { MembershipService } from '../publications/membership.service';
-import type { NoticesService } from '../mail-notices/notices.service';
 import { ReviewsService } from './reviews.service';
+import { toHttpException } from '../common/http-error.filter';
 
 const PUB = 'pub-1';
 const users: Record<string, { email: string; displayName: string }> = {
@@ -19,6 +19,8 @@ class FakeStore extends ReviewsStore {
   version = { id: 'v1', figureId: 'f1', number: 1, locked: false } as FigureVersionEntity;
   rounds: ReviewRoundEntity[] = [];
   audit: NewAuditEntry[] = [];
+  /** Notices written in committed steps (the outbox rows). */
+  notices: MailNoticeJob[] = [];
   rules: HouseRules | null = null;
 
   async findFigure(id: string) {
@@ -28,7 +30,7 @@ class FakeStore extends ReviewsStore {
     return id === this.version.id ? this.version : null;
   }
   async inFigureTransaction<T>(_id: string, fn: (tx: ReviewTx) => Promise<T>): Promise<T> {
-    const saved = { status: this.figure.status, locked: this.version.locked, rounds: this.rounds.map((r) => ({ ...r })), audit: [...this.audit] };
+    const saved = { status: this.figure.status, locked: this.version.locked, rounds: this.rounds.map((r) => ({ ...r })), audit: [...this.audit], notices: [...this.notices] };
     const tx: ReviewTx = {
       figure: this.figure,
       version: this.version,
@@ -50,6 +52,9 @@ class FakeStore extends ReviewsStore {
       audit: async (e) => {
         this.audit.push({ ...e, figureId: 'f1' });
       },
+      notify: async (m) => {
+        this.notices.push(m);
+      },
       addComment: async (c) => ({ id: 'c1', figureId: 'f1', createdAt: new Date(), ...c }) as CommentEntity,
     };
     try {
@@ -59,6 +64,7 @@ class FakeStore extends ReviewsStore {
       this.version.locked = saved.locked;
       this.rounds = saved.rounds;
       this.audit = saved.audit;
+      this.notices.splice(saved.notices.length); // rolled back: the step's notice is not sent
       throw err;
     }
   }
@@ -87,10 +93,8 @@ class FakeStore extends ReviewsStore {
 
 function setup(members = ['ill', 'ed', 'ad']) {
   const store = new FakeStore();
-  const sent: MailNoticeJob[] = [];
   const membership = { canAccess: async (u: { id: string; role: string }) => u.role === 'admin' || members.includes(u.id) } as unknown as MembershipService;
-  const notices = { send: async (m: MailNoticeJob) => (sent.push(m), true) } as unknown as NoticesService;
-  return { store, sent, svc: new ReviewsService(store, membership, notices) };
+  return { store, sent: store.notices, svc: new ReviewsService(store, membership) };
 }
 
 describe('ReviewsService', () => {
@@ -108,7 +112,9 @@ describe('ReviewsService', () => {
 
   it('a step not allowed from the current state is 409 and changes nothing', async () => {
     const { store, sent, svc } = setup();
-    await expect(svc.approve(caller('ed', 'editor'), 'f1')).rejects.toThrow(new ConflictException('cannot approve a figure that is draft: allowed only from in_review'));
+    const err = await svc.approve(caller('ed', 'editor'), 'f1').catch((e: unknown) => e);
+    expect(err).toBeInstanceOf(ConflictError);
+    expect(toHttpException(err as ConflictError)).toEqual(new ConflictException('cannot approve a figure that is draft: allowed only from in_review'));
     expect(store.audit).toEqual([]);
     expect(sent).toEqual([]);
   });
@@ -130,7 +136,7 @@ describe('ReviewsService', () => {
     const first = await svc.approve(caller('ed', 'editor'), 'f1');
     expect(first).toMatchObject({ status: 'in_review', missing: ['colour_signoff'] });
     expect(store.figure.status).toBe('in_review');
-    await expect(svc.approve(caller('ed', 'editor'), 'f1')).rejects.toThrow(ConflictException);
+    await expect(svc.approve(caller('ed', 'editor'), 'f1')).rejects.toThrow(ConflictError); // 409 through the filter
     expect(sent).toHaveLength(1); // no approval notice yet
     const done = await svc.colourSignoff(caller('ad', 'art_director'), 'f1', 'ok');
     expect(done).toMatchObject({ status: 'approved', missing: [] });

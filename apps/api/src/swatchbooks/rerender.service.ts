@@ -61,7 +61,7 @@ export class RerenderService {
         continue;
       }
       try {
-        const job = await this.jobs.enqueue('mesh', { publicationId, figureId: figure.id, figureVersionId: v.id, requestedBy: user.id });
+        const job = await this.jobs.enqueue({ type: 'mesh', params: {}, publicationId, figureId: figure.id, figureVersionId: v.id, requestedBy: user.id });
         items.push({ figureId: figure.id, status: 'queued', reason: null, jobId: job.id, figureVersionId: v.id });
       } catch (err) {
         // The new version stays (it is the figure's current draft); its mesh can be queued again later.

@@ -1,29 +1,27 @@
 import { Injectable } from '@nestjs/common';
 import { UnrecoverableError } from 'bullmq';
-import { QUEUES, type Recipe } from '@psiform/contracts';
-import { AssetStore, CONTENT_TYPES, ENGINE_VERSION, JobsStore, ObjectStorage, exportKey, sha256Hex, type JobPayload, type NewAsset } from '@psiform/server';
+import type { Recipe } from '@psiform/contracts';
+import { AssetStore, CONTENT_TYPES, ENGINE_VERSION, ObjectStorage, exportKey, sha256Hex, type NewAsset, type TrackedJobHandler, type TrackedOutcome, type TrackedRun } from '@psiform/server';
 import { buildBundle, figureMetadata, type BundleFile, type MeshResultLike } from '@psiform/print';
-import type { JobProcessor, ProcessorJob } from '../queues/job-processor';
 import type { FigureRenderer } from '../render/figure-renderer';
-import { ensureMesh, runTracked, versionOf, type TrackedJob, type TrackedResult } from '../render/tracked-job';
+import { EXPORT_PROGRESS, ensureMesh, versionOf, type TrackedJob } from '../render/tracked-job';
 import { latoFonts } from './fonts';
 import { figureSvg, plotPalette, type SvgParams } from './svg-export';
 
 /** The PNG a bundle gets when the version has no print render yet (a single column, common practice). */
 export const BUNDLE_DEFAULT_PNG = { widthMm: 89, heightMm: 60, dpi: 300, widthPx: 1051, heightPx: 709 } as const;
 
-type ExportParams = ({ format: 'svg' } & SvgParams) | { format: 'glb' | 'stl' } | { format: 'bundle' };
-
 /**
  * Export jobs (QUEUES.export): svg (radial plot or section map, Lato embedded), glb/stl (the version's mesh,
  * computed first when missing) and bundle (zip: GLB, STL, PNG, radial SVG, recipe.json, metadata.json, README.txt).
  */
 @Injectable()
-export class ExportJobProcessor implements JobProcessor<JobPayload, TrackedResult> {
-  readonly queue = QUEUES.export;
+export class ExportJobProcessor implements TrackedJobHandler<'export'> {
+  readonly kind = 'tracked';
+  readonly name = 'export';
+  readonly progress = EXPORT_PROGRESS;
 
   constructor(
-    private readonly jobs: JobsStore,
     private readonly assets: AssetStore,
     private readonly storage: ObjectStorage,
     private readonly renderer: FigureRenderer | null,
@@ -31,23 +29,16 @@ export class ExportJobProcessor implements JobProcessor<JobPayload, TrackedResul
     private readonly now: () => Date = () => new Date(),
   ) {}
 
-  async process(job: ProcessorJob<JobPayload>): Promise<TrackedResult> {
-    const res = await runTracked(this.jobs, job, async (t) => {
-      const p = t.params as unknown as ExportParams;
-      const { version, recipe } = versionOf(t.ctx);
-      const total = performance.now();
-      let assets: NewAsset[];
-      if (p.format === 'svg') assets = await this.svg(t, recipe, version.id, version.recipeHash, p);
-      else if (p.format === 'glb' || p.format === 'stl') assets = await this.mesh(t, recipe, version, p.format);
-      else if (p.format === 'bundle') assets = await this.bundle(t, recipe, version);
-      else throw new UnrecoverableError(`export job ${t.id} has an unknown format ${JSON.stringify((p as { format?: unknown }).format)}`);
-      return { timings: { total: Math.round(performance.now() - total) }, assets };
-    });
-    return { jobId: res.jobId, assetIds: res.assetIds };
-  }
-
-  async onFailed(job: ProcessorJob<JobPayload>, error: Error, final: boolean): Promise<void> {
-    if (final && typeof job.data?.jobId === 'string') await this.jobs.fail(job.data.jobId, error.message);
+  /** The payload (params included) was checked against the job contract by the runner: no cast. */
+  async run(t: TrackedRun<'export'>): Promise<TrackedOutcome> {
+    const p = t.params;
+    const { version, recipe } = versionOf(t.ctx);
+    const total = performance.now();
+    let assets: NewAsset[];
+    if (p.format === 'svg') assets = await this.svg(t, recipe, version.id, version.recipeHash, p);
+    else if (p.format === 'glb' || p.format === 'stl') assets = await this.mesh(t, recipe, version, p.format);
+    else assets = await this.bundle(t, recipe, version);
+    return { timings: { total: Math.round(performance.now() - total) }, assets };
   }
 
   private async svg(t: TrackedJob, recipe: Recipe, versionId: string, recipeHash: string, p: SvgParams): Promise<NewAsset[]> {

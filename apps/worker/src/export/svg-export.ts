@@ -1,16 +1,10 @@
-import type { Recipe, SectionPlane } from '@psiform/contracts';
+import type { ExportParams, Recipe } from '@psiform/contracts';
 import { autoExtent, type OrbitalState } from '@psiform/orbitals';
 import { radialPlotSvg, sectionMapSvg, type FontBytes, type PlotPalette } from '@psiform/print';
 import { stateOf } from '../mesh/mesh-pipeline';
 
-export interface SvgParams {
-  kind: 'radial' | 'section';
-  plane: SectionPlane;
-  offset: number;
-  levels: number;
-  widthMm: number;
-  heightMm: number;
-}
+/** An SVG export's parameters: the job contract's svg params (libs/contracts jobs.ts) without the format tag. */
+export type SvgParams = Omit<Extract<ExportParams, { format: 'svg' }>, 'format'>;
 
 /** Ink of the plots' text and axes (the client's ink colour, apps/web styles.css). */
 export const PLOT_INK = '#1f1d1a';

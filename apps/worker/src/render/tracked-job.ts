@@ -1,67 +1,17 @@
 import { UnrecoverableError } from 'bullmq';
 import { parseRecipe, type ExportStage, type Recipe } from '@psiform/contracts';
-import { AssetStore, JobsStore, ObjectStorage, meshKey, type JobContext, type JobPayload, type NewAsset } from '@psiform/server';
-import type { ProcessorJob } from '../queues/job-processor';
+import { AssetStore, ObjectStorage, meshKey, type JobContext, type NewAsset, type TrackedRun } from '@psiform/server';
 import { buildMesh } from '../mesh/mesh-build';
 import { gridLabel } from '../mesh/mesh-pipeline';
 
-/** Progress (0..100) on entering each stage of a render or export job. */
+/**
+ * Helpers of render and export jobs (their lifecycle is the job runner's, libs/server jobs/job-runner.ts).
+ * Progress (0..100) on entering each stage of a render or export job.
+ */
 export const EXPORT_PROGRESS: Record<ExportStage, number> = { queued: 0, meshing: 5, rendering: 30, encoding: 70, storing: 90, done: 100 };
 
-export interface TrackedJob {
-  id: string;
-  ctx: JobContext;
-  params: Record<string, unknown>;
-  /** Writes the stage (and its progress) to the Job row. */
-  stage(s: Exclude<ExportStage, 'queued' | 'done'>): Promise<void>;
-}
-
-export interface TrackedResult {
-  jobId: string;
-  assetIds: string[];
-}
-
-/**
- * The life of a render/export Job row, as the mesh processor keeps it: active on the first stage, back to queued
- * with the error while attempts remain, failed on the last attempt or an UnrecoverableError, completed with the
- * asset rows in one transaction (JobsStore.complete). A completed row is never redone.
- */
-export async function runTracked(
-  jobs: JobsStore,
-  job: ProcessorJob<JobPayload>,
-  work: (t: TrackedJob) => Promise<{ timings: Record<string, number>; assets: NewAsset[] }>,
-): Promise<TrackedResult & { assets: NewAsset[] }> {
-  const id = job.data?.jobId;
-  if (typeof id !== 'string') throw new UnrecoverableError('job without a jobId');
-  const ctx = await jobs.loadContext(id);
-  if (!ctx) throw new UnrecoverableError(`job ${id} no longer exists`);
-  if (ctx.job.state === 'completed') return { jobId: id, assetIds: ctx.job.assetIds, assets: [] };
-  const attempt = job.attemptsMade + 1;
-  const attempts = job.opts?.attempts ?? 1;
-  let active = false;
-  const stage = async (s: Exclude<ExportStage, 'queued' | 'done'>) => {
-    if (!active) {
-      active = true;
-      await jobs.markActive(id, attempt, s, EXPORT_PROGRESS[s]);
-    } else await jobs.setStage(id, s, EXPORT_PROGRESS[s]);
-  };
-  try {
-    const { timings, assets } = await work({ id, ctx, params: (ctx.job.params ?? {}) as Record<string, unknown>, stage });
-    const assetIds = await jobs.complete(id, timings, assets);
-    return { jobId: id, assetIds, assets };
-  } catch (err) {
-    const e = err as Error;
-    const final = e instanceof UnrecoverableError || attempt >= attempts;
-    if (final) await jobs.fail(id, readable(e));
-    else await jobs.requeue(id, `attempt ${attempt} of ${attempts} failed: ${readable(e)}; retrying`);
-    throw err;
-  }
-}
-
-export function readable(e: Error): string {
-  const msg = e?.message || String(e);
-  return msg.length > 2000 ? `${msg.slice(0, 2000)}…` : msg;
-}
+/** What ensureMesh needs of a running render/export job: its row and the stage reporter (the runner's). */
+export type TrackedJob = Pick<TrackedRun<'render' | 'export'>, 'id' | 'ctx' | 'stage'>;
 
 /** The job's figure version and its parsed recipe, or an UnrecoverableError. */
 export function versionOf(ctx: JobContext): { version: NonNullable<JobContext['version']>; recipe: Recipe } {

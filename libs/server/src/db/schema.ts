@@ -18,11 +18,17 @@ import { EditorialReview1764806400000 } from './migrations/1764806400000-Editori
 import { FigureSetEntity } from '../exports/figure-set.entity';
 import { StudioExports1764979200000 } from './migrations/1764979200000-StudioExports';
 import { FigureSetExports1765238400000 } from './migrations/1765238400000-FigureSetExports';
+import { OutboxEntity } from '../outbox/outbox.entity';
+import { Outbox1796188459275 } from './migrations/1796188459275-Outbox';
 
-/** Entities and migrations are listed as classes (not globs) so the same list works compiled and under Jest. */
+/**
+ * Entities and migrations are listed as classes (not globs) so the same list works compiled and under Jest.
+ * A new table: its entity in libs/server/src/<feature>/, a hand-written migration with a fresh timestamp in
+ * db/migrations/, and one entry in each list below (DEVELOPERS.md "Persistence").
+ */
 export const ENTITIES = [UserEntity, PublicationEntity, MembershipEntity, FigureEntity, FigureVersionEntity, AssetEntity, JobEntity,
-  SwatchbookEntity, SwatchbookVersionEntity, HouseStyleEntity, BatchEntity, BatchItemEntity, ReviewRoundEntity, CommentEntity, AuditEntryEntity, FigureSetEntity];
-export const MIGRATIONS = [Foundation1764633600000, FigureJobs1764720000000, EditorialReview1764806400000, StudioExports1764979200000, FigureSetExports1765238400000];
+  SwatchbookEntity, SwatchbookVersionEntity, HouseStyleEntity, BatchEntity, BatchItemEntity, ReviewRoundEntity, CommentEntity, AuditEntryEntity, FigureSetEntity, OutboxEntity];
+export const MIGRATIONS = [Foundation1764633600000, FigureJobs1764720000000, EditorialReview1764806400000, StudioExports1764979200000, FigureSetExports1765238400000, Outbox1796188459275];
 
 export function dataSourceOptions(url: string, extra: { poolSize?: number } = {}): DataSourceOptions {
   return {

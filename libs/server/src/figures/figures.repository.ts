@@ -51,6 +51,8 @@ export abstract class FiguresStore {
   abstract addVersion(figureId: string, expectedCurrent: number, version: NewVersion): Promise<FigureVersionEntity>;
   abstract setTitle(figureId: string, title: string): Promise<void>;
   abstract list(filter: FigureListFilter): Promise<{ rows: FigureListRow[]; total: number }>;
+  /** Points the figure at a thumbnail when the version is still its current one; false otherwise. */
+  abstract setThumbnail(figureId: string, figureVersionId: string, assetId: string): Promise<boolean>;
 }
 
 const SORT_COLUMNS: Record<FigureSort, string> = { updatedAt: 'f.updated_at', createdAt: 'f.created_at', title: 'f.title', status: 'f.status' };
@@ -127,5 +129,15 @@ export class TypeormFiguresStore extends FiguresStore {
     const [{ entities, raw }, total] = await Promise.all([qb.getRawAndEntities(), qb.getCount()]);
     const rows = entities.map((figure, i) => ({ figure, ownerName: (raw[i]?.owner_name as string | undefined) ?? null, label: (raw[i]?.label as string | undefined) ?? null }));
     return { rows, total };
+  }
+
+  async setThumbnail(figureId: string, figureVersionId: string, assetId: string): Promise<boolean> {
+    const [, count] = (await this.ds.query(
+      `UPDATE figures f SET thumbnail_asset_id = $1
+        FROM figure_versions v
+       WHERE f.id = $2 AND v.id = $3 AND v.figure_id = f.id AND v.number = f.current_version`,
+      [assetId, figureId, figureVersionId],
+    )) as [unknown, number];
+    return count > 0;
   }
 }

@@ -1,19 +1,36 @@
 import { Injectable } from '@nestjs/common';
-import { DataSource } from 'typeorm';
-import type { AssetKind, AssetDto } from '@psiform/contracts';
-import { JobEntity, type JobType } from './job.entity';
+import { DataSource, type EntityManager } from 'typeorm';
+import type { AssetKind, AssetDto, JobItem, JobOf, TrackedJobName } from '@psiform/contracts';
+import { enqueueIn } from '../outbox/outbox.repository';
+import { JobEntity } from './job.entity';
 import { AssetEntity } from '../assets/asset.entity';
 import { FigureEntity } from '../figures/figure.entity';
 import { FigureVersionEntity } from '../figures/figure-version.entity';
 
-export interface NewJob {
-  type: JobType;
+interface NewJobBase {
   publicationId: string;
   figureId: string | null;
   figureVersionId: string | null;
   requestedBy: string | null;
-  /** Render/export parameters (jobs.params). */
-  params?: Record<string, unknown> | null;
+  /** BullMQ tries (default: the job name's, JOB_OPTIONS). */
+  maxAttempts?: number;
+}
+
+/** A job request: its type and the parameters the job contract declares for it (stored in jobs.params too). */
+export type NewJob = { [N in TrackedJobName]: NewJobBase & { type: N; params: JobOf<N>['params'] } }[TrackedJobName];
+
+/**
+ * A Job row and its outbox row in the caller's transaction (the one enqueue path): committed together with the change
+ * that asks for the job, or not at all. The relay puts it on the queue; the row's bull_job_id is the outbox row id.
+ */
+export async function requestJobIn(em: EntityManager, job: NewJob): Promise<JobEntity> {
+  const { maxAttempts, ...fields } = job;
+  const repo = em.getRepository(JobEntity);
+  const row = await repo.save(repo.create({ ...fields, state: 'queued', stage: 'queued', progress: 0 }));
+  const item = { name: job.type, data: { jobId: row.id, params: job.params } } as JobItem;
+  row.bullJobId = await enqueueIn(em, item, { maxAttempts });
+  await repo.update({ id: row.id }, { bullJobId: row.bullJobId });
+  return row;
 }
 
 export interface NewAsset {
@@ -37,9 +54,12 @@ export interface JobContext {
  * touching the jobs table; it takes a DataSource so the worker can build it without the api's Nest modules.
  */
 export abstract class JobsStore {
-  abstract insert(job: NewJob): Promise<JobEntity>;
-  abstract setBullJobId(id: string, bullJobId: string): Promise<void>;
-  abstract remove(id: string): Promise<void>;
+  /** Job row + outbox row in one transaction (requestJobIn). */
+  abstract request(job: NewJob): Promise<JobEntity>;
+  /** Queued rows not touched for `olderThanMs` (the sweeper checks their queue entry). */
+  abstract staleQueued(olderThanMs: number, limit: number): Promise<JobEntity[]>;
+  /** A queued row whose queue entry is gone gets a fresh outbox row (under its row lock); false if it moved on meanwhile. */
+  abstract redriveQueued(id: string): Promise<boolean>;
   abstract findById(id: string): Promise<JobEntity | null>;
   abstract loadContext(id: string): Promise<JobContext | null>;
   abstract markActive(id: string, attempt: number, stage: string, progress: number): Promise<void>;
@@ -61,16 +81,29 @@ export class TypeormJobsStore extends JobsStore {
     return this.ds.getRepository(JobEntity);
   }
 
-  insert(job: NewJob): Promise<JobEntity> {
-    return this.jobs.save(this.jobs.create({ ...job, state: 'queued', stage: 'queued', progress: 0 }));
+  request(job: NewJob): Promise<JobEntity> {
+    return this.ds.transaction((em) => requestJobIn(em, job));
   }
 
-  async setBullJobId(id: string, bullJobId: string): Promise<void> {
-    await this.jobs.update({ id }, { bullJobId });
+  staleQueued(olderThanMs: number, limit: number): Promise<JobEntity[]> {
+    return this.jobs
+      .createQueryBuilder('j')
+      .where(`j.state = 'queued' AND j.updated_at <= now() - (:ms || ' milliseconds')::interval`, { ms: String(olderThanMs) })
+      .orderBy('j.updated_at', 'ASC')
+      .limit(limit)
+      .getMany();
   }
 
-  async remove(id: string): Promise<void> {
-    await this.jobs.delete({ id });
+  redriveQueued(id: string): Promise<boolean> {
+    return this.ds.transaction(async (em) => {
+      const row = await em.getRepository(JobEntity).createQueryBuilder('j').setLock('pessimistic_write').setOnLocked('skip_locked').where('j.id = :id', { id }).getOne();
+      if (!row || row.state !== 'queued') return false;
+      const params = row.params ?? {};
+      const bullJobId = await enqueueIn(em, { name: row.type, data: { jobId: row.id, params } } as JobItem);
+      // updated_at moves on, so the sweeper looks at this row again only after another full wait.
+      await em.getRepository(JobEntity).update({ id }, { bullJobId });
+      return true;
+    });
   }
 
   findById(id: string): Promise<JobEntity | null> {

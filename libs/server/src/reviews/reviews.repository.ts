@@ -1,6 +1,7 @@
 import { Injectable } from '@nestjs/common';
 import { DataSource, IsNull, type EntityManager } from 'typeorm';
-import type { FigureStatus } from '@psiform/contracts';
+import type { FigureStatus, MailNoticeJob } from '@psiform/contracts';
+import { enqueueIn } from '../outbox/outbox.repository';
 import { FigureEntity } from '../figures/figure.entity';
 import { FigureVersionEntity } from '../figures/figure-version.entity';
 import { PublicationEntity } from '../publications/publication.entity';
@@ -22,6 +23,8 @@ export interface ReviewTx {
   lockVersion(): Promise<void>;
   setStatus(status: FigureStatus): Promise<void>;
   audit(entry: Omit<NewAuditEntry, 'figureId'>): Promise<void>;
+  /** A mail notice about this step, written to the outbox in the step's transaction: sent only if the step commits. */
+  notify(notice: MailNoticeJob): Promise<void>;
   addComment(c: { figureVersionId: string | null; authorId: string; body: string; pinX: number | null; pinY: number | null }): Promise<CommentEntity>;
 }
 
@@ -97,6 +100,7 @@ export class TypeormReviewsStore extends ReviewsStore {
         figure.status = status;
       },
       audit: (entry) => insertAudit(em, { ...entry, figureId: figure.id }),
+      notify: async (notice) => void (await enqueueIn(em, { name: 'notice', data: notice })),
       addComment: (c) => em.getRepository(CommentEntity).save(em.getRepository(CommentEntity).create({ ...c, figureId: figure.id })),
     };
   }
