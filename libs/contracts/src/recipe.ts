@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { N_MAX, quantumNumberIssues } from './quantum';
 
 /**
  * The figure recipe: one versioned JSON document that fully describes a figure's content and look
@@ -11,7 +12,7 @@ export const RECIPE_VERSION = 1;
 
 /** Engine limits shared by the CLI, API, worker and web (memory: 384³ float32 ≈ 226 MB per field). */
 export const RECIPE_LIMITS = {
-  nMax: 12,
+  nMax: N_MAX,
   zMax: 118,
   gridMin: 16,
   gridMax: 384,
@@ -26,9 +27,10 @@ const hexColor = z.string().regex(/^#[0-9a-fA-F]{6}$/, { message: 'must be a col
 
 export const termSchema = z
   .object({
-    n: z.number().int({ message: 'n must be an integer' }).min(1, { message: 'n must be at least 1' }).max(RECIPE_LIMITS.nMax, { message: `n must be at most ${RECIPE_LIMITS.nMax}` }),
-    l: z.number().int({ message: 'l must be an integer' }).min(0, { message: 'l must be at least 0' }),
-    m: z.number().int({ message: 'm must be an integer' }),
+    // The rule on n, l, m (ranges and relations) is quantum.ts's, checked below with its one wording.
+    n: z.number({ error: 'n must be a number' }).describe(`principal quantum number: an integer, 1 ≤ n ≤ ${N_MAX}`),
+    l: z.number({ error: 'l must be a number' }).describe('angular momentum quantum number: an integer, 0 ≤ l < n'),
+    m: z.number({ error: 'm must be a number' }).describe('magnetic quantum number: an integer, |m| ≤ l'),
     /** 'complex': Y_lm with the Condon–Shortley phase; 'real': the chemists' real combination (m>0 cos-type, m<0 sin-type). */
     basis: z.enum(['complex', 'real']),
     /** Complex coefficient c_k of this term in Σ c_k ψ_k (normalised by the engine). */
@@ -36,8 +38,7 @@ export const termSchema = z
     im: finite('im').default(0),
   })
   .superRefine((t, ctx) => {
-    if (t.l >= t.n) ctx.addIssue({ code: 'custom', path: ['l'], message: `l must be less than n (got n=${t.n}, l=${t.l})` });
-    if (Math.abs(t.m) > t.l) ctx.addIssue({ code: 'custom', path: ['m'], message: `|m| must not exceed l (got l=${t.l}, m=${t.m})` });
+    for (const issue of quantumNumberIssues(t)) ctx.addIssue({ code: 'custom', path: [issue.field], message: issue.message });
   });
 
 export const surfaceSchema = z.discriminatedUnion('rule', [

@@ -93,12 +93,12 @@ describe('parseRecipe: rejected documents name the field', () => {
 
   it('n = 13 (over RECIPE_LIMITS.nMax)', () => {
     const issues = issuesOf(withTerm({ n: 13, l: 0, m: 0, basis: 'real', re: 1 }));
-    expect(issues).toEqual([{ path: 'content.terms.0.n', message: 'n must be at most 12' }]);
+    expect(issues).toEqual([{ path: 'content.terms.0.n', message: 'n must be between 1 and 12 (got n=13)' }]);
   });
 
   it('n = 0 and a fractional n', () => {
-    expect(issuesOf(withTerm({ n: 0, l: 0, m: 0, basis: 'real', re: 1 }))).toContainEqual({ path: 'content.terms.0.n', message: 'n must be at least 1' });
-    expect(issuesOf(withTerm({ n: 2.5, l: 0, m: 0, basis: 'real', re: 1 }))).toContainEqual({ path: 'content.terms.0.n', message: 'n must be an integer' });
+    expect(issuesOf(withTerm({ n: 0, l: 0, m: 0, basis: 'real', re: 1 }))).toContainEqual({ path: 'content.terms.0.n', message: 'n must be between 1 and 12 (got n=0)' });
+    expect(issuesOf(withTerm({ n: 2.5, l: 0, m: 0, basis: 'real', re: 1 }))).toContainEqual({ path: 'content.terms.0.n', message: 'n must be an integer (got n=2.5)' });
   });
 
   it('the second term is named by its index', () => {

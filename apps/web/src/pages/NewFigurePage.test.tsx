@@ -25,10 +25,10 @@ async function retype(ue: ReturnType<typeof userEvent.setup>, testId: string, te
 
 describe('new figure: quantum-number rules as you type', () => {
   it('checkQuantumNumbers names each broken rule with the allowed values', () => {
-    expect(checkQuantumNumbers('2', '2', '0').l).toBe('l must be less than n: with n = 2, l can be 0 or 1 (got 2).');
-    expect(checkQuantumNumbers('3', '1', '-2').m).toBe('|m| must not exceed l: with l = 1, m can be −1, 0 or 1 (got -2).');
-    expect(checkQuantumNumbers('13', '0', '0').n).toBe('n must be between 1 and 12 (got 13).');
-    expect(checkQuantumNumbers('0', '0', '0').n).toBe('n must be between 1 and 12 (got 0).');
+    expect(checkQuantumNumbers('2', '2', '0').l).toBe('l must be less than n (got n=2, l=2): with n = 2, l can be 0 or 1.');
+    expect(checkQuantumNumbers('3', '1', '-2').m).toBe('|m| must not exceed l (got l=1, m=-2): with l = 1, m can be −1, 0 or 1.');
+    expect(checkQuantumNumbers('13', '0', '0').n).toBe('n must be between 1 and 12 (got n=13).');
+    expect(checkQuantumNumbers('0', '0', '0').n).toBe('n must be between 1 and 12 (got n=0).');
     expect(checkQuantumNumbers('2.5', '0', '0').n).toBe('n must be a whole number.');
     expect(checkQuantumNumbers('4', '3', '−3')).toMatchObject({ n: null, l: null, m: null, values: { n: 4, l: 3, m: -3 } });
     expect(checkQuantumNumbers('1', '0', '0').values).toEqual({ n: 1, l: 0, m: 0 });
@@ -43,7 +43,7 @@ describe('new figure: quantum-number rules as you type', () => {
     expect(submit().disabled).toBe(false);
 
     await retype(ue, 'nf-l', '2');
-    expect(screen.getByTestId('nf-l-error').textContent).toBe('l must be less than n: with n = 2, l can be 0 or 1 (got 2).');
+    expect(screen.getByTestId('nf-l-error').textContent).toBe('l must be less than n (got n=2, l=2): with n = 2, l can be 0 or 1.');
     expect(submit().disabled).toBe(true);
 
     await retype(ue, 'nf-n', '3');
@@ -51,11 +51,11 @@ describe('new figure: quantum-number rules as you type', () => {
     expect(submit().disabled).toBe(false);
 
     await retype(ue, 'nf-m', '-3');
-    expect(screen.getByTestId('nf-m-error').textContent).toBe('|m| must not exceed l: with l = 2, m can be −2, −1, 0, 1 or 2 (got -3).');
+    expect(screen.getByTestId('nf-m-error').textContent).toBe('|m| must not exceed l (got l=2, m=-3): with l = 2, m can be −2, −1, 0, 1 or 2.');
     expect(submit().disabled).toBe(true);
 
     await retype(ue, 'nf-n', '13');
-    expect(screen.getByTestId('nf-n-error').textContent).toBe('n must be between 1 and 12 (got 13).');
+    expect(screen.getByTestId('nf-n-error').textContent).toBe('n must be between 1 and 12 (got n=13).');
 
     await retype(ue, 'nf-n', '3');
     await retype(ue, 'nf-m', '-2');
@@ -91,7 +91,7 @@ describe('new figure: quantum-number rules as you type', () => {
     await retype(ue, 'nf-label', '3dz2');
     expect(screen.getByTestId('nf-summary').textContent).toMatch(/^3d_z², Z = 1, one-electron hydrogen-like model/);
     await retype(ue, 'nf-label', '2dxy');
-    expect(screen.getByTestId('nf-label-error').textContent).toContain('l must satisfy 0 <= l < n');
+    expect(screen.getByTestId('nf-label-error').textContent).toContain('l must be less than n (got n=2, l=2)');
     expect(submit().disabled).toBe(true);
     await retype(ue, 'nf-label', '3qx');
     expect(screen.getByTestId('nf-label-error').textContent).toContain('is not recognised');

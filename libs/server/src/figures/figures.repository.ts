@@ -1,12 +1,17 @@
-import { ConflictException, Injectable } from '@nestjs/common';
+import { Injectable } from '@nestjs/common';
 import { DataSource, type EntityManager } from 'typeorm';
 import type { FigureStatus, Recipe } from '@psiform/contracts';
 import { FigureEntity } from './figure.entity';
 import { FigureVersionEntity } from './figure-version.entity';
 import { AssetEntity } from '../assets/asset.entity';
 import { UserEntity } from '../users/user.entity';
-import type { NewAsset } from '../jobs/jobs.repository';
-import { isEditable } from '../reviews/review-transitions';
+import { requestJobIn, type NewAsset, type NewJob } from '../jobs/jobs.repository';
+import type { JobEntity } from '../jobs/job.entity';
+import { insertAudit, type NewAuditEntry } from '../audit/audit.repository';
+import { HouseStyleEntity } from '../swatchbooks/house-style.entity';
+import { SwatchbookEntity } from '../swatchbooks/swatchbook.entity';
+import { NotFoundError } from '../common/domain-errors';
+import type { PaletteColours } from './palette';
 
 /** Columns the figure list can be sorted by (GET /api/figures?sort=). */
 export const FIGURE_SORTS = ['updatedAt', 'createdAt', 'title', 'status'] as const;
@@ -35,6 +40,24 @@ export interface FigureListRow {
   label: string | null;
 }
 
+/**
+ * What a figure write may do inside its transaction; the figure row is locked FOR UPDATE for its whole length, so a
+ * concurrent submit (which takes the same lock) sees the write complete or not at all. FiguresService.saveVersion is
+ * the one caller.
+ */
+export interface FigureWriteTx {
+  readonly figure: FigureEntity;
+  readonly current: FigureVersionEntity;
+  /** The publication's enforced palette: a house style pinning a swatchbook without allowOverride; else null. */
+  enforcedPalette(): Promise<PaletteColours | null>;
+  /** Inserts version current + 1 and makes it current, status back to draft. Versions are only ever inserted. */
+  addVersion(v: NewVersion): Promise<FigureVersionEntity>;
+  setTitle(title: string): Promise<void>;
+  audit(entry: Omit<NewAuditEntry, 'figureId'>): Promise<void>;
+  /** A job request (row + outbox row) committed with this write. */
+  requestJob(job: NewJob): Promise<JobEntity>;
+}
+
 /** Port for figures and their versions; TypeormFiguresStore is the only class touching these tables. */
 export abstract class FiguresStore {
   abstract create(figure: { publicationId: string; title: string; ownerId: string }, version: NewVersion): Promise<{ figure: FigureEntity; version: FigureVersionEntity }>;
@@ -47,12 +70,21 @@ export abstract class FiguresStore {
   abstract findById(id: string): Promise<FigureEntity | null>;
   abstract findVersion(figureId: string, number: number): Promise<FigureVersionEntity | null>;
   abstract ownerName(userId: string): Promise<string | null>;
-  /** Inserts version current+1 and makes it current (status back to draft); 409 if current moved meanwhile. */
-  abstract addVersion(figureId: string, expectedCurrent: number, version: NewVersion): Promise<FigureVersionEntity>;
-  abstract setTitle(figureId: string, title: string): Promise<void>;
+  /** Runs `fn` under the figure's row lock in one transaction; NotFoundError when the figure does not exist. */
+  abstract inFigureTransaction<T>(figureId: string, fn: (tx: FigureWriteTx) => Promise<T>): Promise<T>;
+  /** The enforced palette of a publication (for a new figure); see FigureWriteTx.enforcedPalette. */
+  abstract enforcedPalette(publicationId: string): Promise<PaletteColours | null>;
   abstract list(filter: FigureListFilter): Promise<{ rows: FigureListRow[]; total: number }>;
   /** Points the figure at a thumbnail when the version is still its current one; false otherwise. */
   abstract setThumbnail(figureId: string, figureVersionId: string, assetId: string): Promise<boolean>;
+}
+
+async function enforcedPaletteIn(em: EntityManager, publicationId: string): Promise<PaletteColours | null> {
+  const house = await em.getRepository(HouseStyleEntity).findOne({ where: { publicationId } });
+  if (!house || house.allowOverride) return null;
+  const book = await em.getRepository(SwatchbookEntity).findOne({ where: { id: house.swatchbookId } });
+  if (!book) return null;
+  return { swatchbookId: book.id, positive: book.colors.positive, negative: book.colors.negative, background: book.colors.background };
 }
 
 const SORT_COLUMNS: Record<FigureSort, string> = { updatedAt: 'f.updated_at', createdAt: 'f.created_at', title: 'f.title', status: 'f.status' };
@@ -94,22 +126,37 @@ export class TypeormFiguresStore extends FiguresStore {
     return (await this.ds.getRepository(UserEntity).findOne({ where: { id: userId }, select: { id: true, displayName: true } }))?.displayName ?? null;
   }
 
-  addVersion(figureId: string, expectedCurrent: number, version: NewVersion): Promise<FigureVersionEntity> {
+  inFigureTransaction<T>(figureId: string, fn: (tx: FigureWriteTx) => Promise<T>): Promise<T> {
     return this.ds.transaction(async (em) => {
       const figures = em.getRepository(FigureEntity);
-      const f = await figures.createQueryBuilder('f').setLock('pessimistic_write').where('f.id = :id', { id: figureId }).getOne();
-      if (!f || f.currentVersion !== expectedCurrent) throw new ConflictException(`figure ${figureId} changed meanwhile; reload and try again`);
-      // Checked again under the row lock: a submit that commits between the edit guard and here must not be undone.
-      if (!isEditable(f.status)) throw new ConflictException(`cannot edit a figure that is ${f.status}: allowed only from draft or changes_requested`);
-      const repo = em.getRepository(FigureVersionEntity);
-      const v = await repo.save(repo.create({ ...version, figureId, number: expectedCurrent + 1, locked: false }));
-      await figures.update({ id: figureId }, { currentVersion: v.number, status: 'draft' });
-      return v;
+      const figure = await figures.createQueryBuilder('f').setLock('pessimistic_write').where('f.id = :id', { id: figureId }).getOne();
+      if (!figure) throw new NotFoundError(`figure ${figureId} not found`);
+      const current = await em.getRepository(FigureVersionEntity).findOneOrFail({ where: { figureId, number: figure.currentVersion } });
+      const tx: FigureWriteTx = {
+        figure,
+        current,
+        enforcedPalette: () => enforcedPaletteIn(em, figure.publicationId),
+        addVersion: async (v) => {
+          const repo = em.getRepository(FigureVersionEntity);
+          const saved = await repo.save(repo.create({ ...v, figureId, number: figure.currentVersion + 1, locked: false }));
+          await figures.update({ id: figureId }, { currentVersion: saved.number, status: 'draft' });
+          figure.currentVersion = saved.number;
+          figure.status = 'draft';
+          return saved;
+        },
+        setTitle: async (title) => {
+          await figures.update({ id: figureId }, { title });
+          figure.title = title;
+        },
+        audit: (entry) => insertAudit(em, { ...entry, figureId }),
+        requestJob: (job) => requestJobIn(em, job),
+      };
+      return fn(tx);
     });
   }
 
-  async setTitle(figureId: string, title: string): Promise<void> {
-    await this.ds.getRepository(FigureEntity).update({ id: figureId }, { title });
+  enforcedPalette(publicationId: string): Promise<PaletteColours | null> {
+    return enforcedPaletteIn(this.ds.manager, publicationId);
   }
 
   async list(filter: FigureListFilter): Promise<{ rows: FigureListRow[]; total: number }> {

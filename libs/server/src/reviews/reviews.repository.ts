@@ -54,8 +54,6 @@ export abstract class ReviewsStore {
   abstract userInfo(id: string): Promise<{ email: string; displayName: string } | null>;
   abstract listComments(figureId: string): Promise<{ comment: CommentEntity; authorName: string | null }[]>;
   abstract reviewDesk(publicationIds: string[] | 'all'): Promise<ReviewDeskRow[]>;
-  /** An audit entry on its own (for changes other modules commit, e.g. a PATCH making a new version). */
-  abstract recordAudit(entry: NewAuditEntry): Promise<void>;
 }
 
 @Injectable()
@@ -172,7 +170,4 @@ export class TypeormReviewsStore extends ReviewsStore {
     }));
   }
 
-  async recordAudit(entry: NewAuditEntry): Promise<void> {
-    await insertAudit(this.ds.manager, entry);
-  }
 }

@@ -1,13 +1,13 @@
-import { ConflictException, Injectable } from '@nestjs/common';
+import { Injectable } from '@nestjs/common';
 import { DataSource, type EntityManager } from 'typeorm';
-import type { FigureStatus, Recipe, SwatchbookColorsDto, SwatchbookVersionDto } from '@psiform/contracts';
+import type { Recipe, SwatchbookColorsDto, SwatchbookVersionDto } from '@psiform/contracts';
 import { FigureEntity } from '../figures/figure.entity';
 import { FigureVersionEntity } from '../figures/figure-version.entity';
 import { JobEntity } from '../jobs/job.entity';
-import { insertAudit } from '../audit/audit.repository';
 import { SwatchbookEntity, SwatchbookVersionEntity } from './swatchbook.entity';
 import { HouseStyleEntity } from './house-style.entity';
 import { BatchEntity, BatchItemEntity } from './batch.entity';
+import { ConflictError } from '../common/domain-errors';
 
 export interface SwatchbookChange {
   name?: string;
@@ -18,14 +18,6 @@ export interface SwatchbookChange {
 export interface FigureWithVersion {
   figure: FigureEntity;
   version: FigureVersionEntity;
-}
-
-export interface NewRerenderVersion {
-  recipe: Recipe;
-  recipeHash: string;
-  engineVersion: string;
-  authorId: string;
-  auditNote: string;
 }
 
 /** Port for swatchbooks, house styles and batches; TypeormSwatchbooksStore is the only class touching them. */
@@ -41,13 +33,7 @@ export abstract class SwatchbooksStore {
   abstract versions(id: string): Promise<SwatchbookVersionEntity[]>;
   abstract houseStyle(publicationId: string): Promise<HouseStyleEntity | null>;
   abstract putHouseStyle(h: { publicationId: string; swatchbookId: string; requireColourSignOff: boolean; allowOverride: boolean; updatedBy: string }): Promise<HouseStyleEntity>;
-  abstract figurePublication(figureId: string): Promise<string | null>;
   abstract figuresWithCurrentVersion(publicationId: string): Promise<FigureWithVersion[]>;
-  /**
-   * New draft version (current + 1) of a figure whose status is still one of `allowed`, made current, with
-   * its audit entry, in one transaction; null when the figure moved on meanwhile (status or version).
-   */
-  abstract addRerenderVersion(figureId: string, expectedCurrent: number, allowed: readonly FigureStatus[], v: NewRerenderVersion): Promise<FigureVersionEntity | null>;
   abstract createBatch(b: { publicationId: string; swatchbookId: string; swatchbookVersion: number; requestedBy: string }, items: Omit<BatchItemEntity, 'id' | 'batchId'>[]): Promise<BatchEntity>;
   abstract findBatch(id: string): Promise<{ batch: BatchEntity; items: { item: BatchItemEntity; title: string; versionNumber: number | null; jobState: string | null }[] } | null>;
 }
@@ -85,7 +71,7 @@ export class TypeormSwatchbooksStore extends SwatchbooksStore {
       const repo = em.getRepository(SwatchbookEntity);
       const s = await repo.createQueryBuilder('s').setLock('pessimistic_write').where('s.id = :id', { id }).getOne();
       if (!s) return null;
-      if (requireUnlocked && s.locked) throw new ConflictException(`swatchbook "${s.name}" is locked; unlock it before editing`);
+      if (requireUnlocked && s.locked) throw new ConflictError(`swatchbook "${s.name}" is locked; unlock it before editing`);
       if (change.locked !== undefined && change.locked === s.locked) return s; // nothing to record
       Object.assign(s, change);
       s.version += 1;
@@ -109,10 +95,6 @@ export class TypeormSwatchbooksStore extends SwatchbooksStore {
     return repo.findOneOrFail({ where: { publicationId: h.publicationId } });
   }
 
-  async figurePublication(figureId: string) {
-    return (await this.ds.getRepository(FigureEntity).findOne({ where: { id: figureId }, select: { id: true, publicationId: true } }))?.publicationId ?? null;
-  }
-
   async figuresWithCurrentVersion(publicationId: string): Promise<FigureWithVersion[]> {
     const figures = await this.ds.getRepository(FigureEntity).find({ where: { publicationId }, order: { createdAt: 'ASC', id: 'ASC' } });
     if (figures.length === 0) return [];
@@ -124,19 +106,6 @@ export class TypeormSwatchbooksStore extends SwatchbooksStore {
       .getMany();
     const byFigure = new Map(versions.map((v) => [v.figureId, v]));
     return figures.filter((f) => byFigure.has(f.id)).map((figure) => ({ figure, version: byFigure.get(figure.id)! }));
-  }
-
-  addRerenderVersion(figureId: string, expectedCurrent: number, allowed: readonly FigureStatus[], v: NewRerenderVersion) {
-    return this.ds.transaction(async (em) => {
-      const figures = em.getRepository(FigureEntity);
-      const f = await figures.createQueryBuilder('f').setLock('pessimistic_write').where('f.id = :id', { id: figureId }).getOne();
-      if (!f || f.currentVersion !== expectedCurrent || !allowed.includes(f.status)) return null;
-      const repo = em.getRepository(FigureVersionEntity);
-      const saved = await repo.save(repo.create({ figureId, number: expectedCurrent + 1, recipe: v.recipe, recipeHash: v.recipeHash, engineVersion: v.engineVersion, authorId: v.authorId, locked: false }));
-      await figures.update({ id: figureId }, { currentVersion: saved.number, status: 'draft' });
-      await insertAudit(em, { figureId, actorId: v.authorId, action: 'rerender', fromStatus: f.status, toStatus: 'draft', note: v.auditNote });
-      return saved;
-    });
   }
 
   createBatch(b: { publicationId: string; swatchbookId: string; swatchbookVersion: number; requestedBy: string }, items: Omit<BatchItemEntity, 'id' | 'batchId'>[]) {
