@@ -19,6 +19,7 @@ export * from './exports/figure-sets.repository';
 export * from './figures/figure-version.entity';
 export * from './figures/figure.entity';
 export * from './figures/figures.repository';
+export * from './figures/palette';
 export * from './figures/recipe-hash';
 export * from './health/health.probe';
 export * from './infra/database/database-health';

@@ -10,6 +10,8 @@ import { enqueueIn, TypeormOutboxStore } from '../src/outbox/outbox.repository';
 import { OutboxRelay } from '../src/outbox/outbox-relay';
 import { OutboxSweeper } from '../src/outbox/outbox-sweeper';
 import { TypeormJobsStore } from '../src/jobs/jobs.repository';
+import { JobEntity } from '../src/jobs/job.entity';
+import { OutboxEntity } from '../src/outbox/outbox.entity';
 
 /**
  * The transactional outbox on the real PostgreSQL and Redis of the test run: rows live and die with their transaction,
@@ -78,7 +80,7 @@ describe('outbox, relay and sweeper (e2e)', () => {
   });
 
   it('while the queue is down rows stay pending with the reason; once it is back the relay sends each once', async () => {
-    const store = new TypeormOutboxStore(ds);
+    const store = new TypeormOutboxStore(ds.getRepository(OutboxEntity));
     const id = await store.enqueue({ name: 'ping', data: {} });
     made.push(id);
     const down = new OutboxRelay(store, new DownQueue(), relaySettings);
@@ -98,7 +100,7 @@ describe('outbox, relay and sweeper (e2e)', () => {
   });
 
   it('two relays at once never send one row twice (FOR UPDATE SKIP LOCKED)', async () => {
-    const store = new TypeormOutboxStore(ds);
+    const store = new TypeormOutboxStore(ds.getRepository(OutboxEntity));
     const ids = await Promise.all(Array.from({ length: 20 }, () => store.enqueue({ name: 'ping', data: {} })));
     made.push(...ids);
     const sent: string[] = [];
@@ -119,8 +121,8 @@ describe('outbox, relay and sweeper (e2e)', () => {
   });
 
   it('the sweeper re-drives a relayed row whose queue entry is gone, and a queued job row that never reached the queue', async () => {
-    const store = new TypeormOutboxStore(ds);
-    const jobs = new TypeormJobsStore(ds);
+    const store = new TypeormOutboxStore(ds.getRepository(OutboxEntity));
+    const jobs = new TypeormJobsStore(ds.getRepository(JobEntity));
     const relay = new OutboxRelay(store, queue, relaySettings);
     const id = await store.enqueue({ name: 'ping', data: {} });
     made.push(id);

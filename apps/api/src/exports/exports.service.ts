@@ -1,9 +1,10 @@
-import { BadRequestException, ForbiddenException, Injectable, NotFoundException } from '@nestjs/common';
+import { BadRequestException, Injectable, NotFoundException } from '@nestjs/common';
 import { FIGURE_SET_LIMITS, parseRecipe, type CreateFigureSetRequest, type CreateJobResponse, type FigureSetDto, type UserDto } from '@psiform/contracts';
 import { FiguresService } from '../figures/figures.service';
-import { FiguresStore, type FigureEntity, FigureSetsStore, toFigureSetDto } from '@psiform/server';
+import { FiguresStore, FigureSetsStore, toFigureSetDto } from '@psiform/server';
 import { JobsService } from '../jobs/jobs.service';
 import { MembershipService } from '../publications/membership.service';
+import { AccessPolicy } from '../publications/access-policy';
 import { parseExportRequest } from './export-request';
 
 type Caller = Pick<UserDto, 'id' | 'role'>;
@@ -21,11 +22,12 @@ export class ExportsService {
     private readonly jobs: JobsService,
     private readonly sets: FigureSetsStore,
     private readonly membership: MembershipService,
+    private readonly policy: AccessPolicy,
   ) {}
 
   async requestExport(user: Caller, figureId: string, body: unknown): Promise<CreateJobResponse> {
     const figure = await this.figures.requireFigure(user, figureId);
-    this.requireExporter(user, figure);
+    await this.policy.requireFigureExport(user, figure);
     const version = await this.figureStore.findVersion(figure.id, figure.currentVersion);
     if (!version) throw new NotFoundException(`figure ${figureId} has no current version`);
     const recipe = parseRecipe(version.recipe);
@@ -36,12 +38,6 @@ export class ExportsService {
     const kind = p.format === 'png' ? { type: 'render' as const, params: p } : { type: 'export' as const, params: p };
     const job = await this.jobs.enqueue({ ...kind, publicationId: figure.publicationId, figureId: figure.id, figureVersionId: version.id, requestedBy: user.id });
     return { jobId: job.id };
-  }
-
-  private requireExporter(user: Caller, figure: FigureEntity): void {
-    if (user.role === 'illustrator' && figure.ownerId !== user.id) {
-      throw new ForbiddenException("only the figure's owner, the publication's editors and art directors, or an admin can export this figure");
-    }
   }
 
   // ---- figure sets -------------------------------------------------------------------------------

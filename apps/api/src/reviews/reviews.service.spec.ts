@@ -148,19 +148,4 @@ describe('ReviewsService', () => {
       ['colour_signoff', 'approved'],
     ]);
   });
-
-  it('edits: only draft and changes_requested figures; a new version is audited as revise', async () => {
-    const { store, svc } = setup();
-    const before = await svc.assertEditable(caller('ill', 'illustrator'), 'f1');
-    expect(before).toEqual({ status: 'draft', versionNumber: 1 });
-    await svc.submit(caller('ill', 'illustrator'), 'f1');
-    await expect(svc.assertEditable(caller('ill', 'illustrator'), 'f1')).rejects.toThrow('cannot edit a figure that is in_review');
-    expect(await svc.assertEditable(caller('stranger', 'illustrator'), 'f1')).toBeNull();
-    await svc.requestChanges(caller('ed', 'editor'), 'f1', 'x');
-    const b = (await svc.assertEditable(caller('ill', 'illustrator'), 'f1'))!;
-    store.figure.currentVersion = 2;
-    store.figure.status = 'draft';
-    await svc.recordRevision(caller('ill', 'illustrator'), 'f1', b);
-    expect(store.audit.at(-1)).toMatchObject({ action: 'revise', fromStatus: 'changes_requested', toStatus: 'draft', note: 'version 2 created' });
-  });
 });

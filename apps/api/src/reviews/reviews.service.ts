@@ -1,8 +1,8 @@
-import { BadRequestException, ConflictException, ForbiddenException, Injectable, NotFoundException } from '@nestjs/common';
+import { BadRequestException, ForbiddenException, Injectable, NotFoundException } from '@nestjs/common';
 import type { CommentDto, FigureStatus, MailNoticeJob, ReviewAction, ReviewDeskItemDto, ReviewTransitionDto, UserDto } from '@psiform/contracts';
 import { MembershipService } from '../publications/membership.service';
 import { approvedNotice, changesRequestedNotice, submittedNotice, type NoticeFigure } from '../mail-notices/compose';
-import { type FigureEntity, ReviewsStore, type ReviewTx, approvalOutcome, assertTransition, isEditable, TransitionConflict, type ApprovalPart, type CommentEntity } from '@psiform/server';
+import { type FigureEntity, ReviewsStore, type ReviewTx, approvalOutcome, assertTransition, TransitionConflict, type ApprovalPart, type CommentEntity } from '@psiform/server';
 
 type Caller = Pick<UserDto, 'id' | 'role'>;
 
@@ -197,29 +197,6 @@ export class ReviewsService {
         requireColourSignOff,
       };
     });
-  }
-
-  // ---- edits made through PATCH /api/figures/:id (figures feature) -------------------------------------
-
-  /**
-   * Before a figure PATCH: 409 unless the figure is draft or changes_requested (a proof in review, an
-   * approved or a released figure is not edited). Returns null when the caller cannot see the figure, so
-   * the figures feature answers 404 itself.
-   */
-  async assertEditable(user: Caller, id: string): Promise<{ status: FigureStatus; versionNumber: number } | null> {
-    const figure = await this.store.findFigure(id);
-    if (!figure || !(await this.membership.canAccess(user, figure.publicationId))) return null;
-    if (!isEditable(figure.status)) {
-      throw new ConflictException(`cannot edit a figure that is ${figure.status}: allowed only from draft or changes_requested`);
-    }
-    return { status: figure.status, versionNumber: figure.currentVersion };
-  }
-
-  /** After a figure PATCH: a new version is the "revise" step (changes_requested -> draft) in the audit log. */
-  async recordRevision(user: Caller, id: string, before: { status: FigureStatus; versionNumber: number }): Promise<void> {
-    const figure = await this.store.findFigure(id);
-    if (!figure || figure.currentVersion === before.versionNumber) return;
-    await this.store.recordAudit({ figureId: id, actorId: user.id, action: 'revise', fromStatus: before.status, toStatus: figure.status, note: `version ${figure.currentVersion} created` });
   }
 }
 

@@ -16,14 +16,6 @@ import { parseColors, parseName, parseSwatchbookFile } from './swatchbook-input'
 
 type Caller = Pick<UserDto, 'id' | 'role'>;
 
-/** The palette a figure's recipe must carry where the house style pins a swatchbook without override. */
-export interface PinnedPalette {
-  swatchbookId: string;
-  positive: string;
-  negative: string;
-  background: string;
-}
-
 @Injectable()
 export class SwatchbooksService {
   constructor(
@@ -111,22 +103,5 @@ export class SwatchbooksService {
       updatedBy: user.id,
     });
     return this.getHouseStyle(user, publicationId);
-  }
-
-  /** The pinned palette figures of this publication must use, or null (no house style, or override allowed). */
-  async enforcedPalette(publicationId: string): Promise<PinnedPalette | null> {
-    const h = await this.store.houseStyle(publicationId);
-    if (!h || h.allowOverride) return null;
-    const s = await this.store.findById(h.swatchbookId);
-    if (!s) return null;
-    return { swatchbookId: s.id, positive: s.colors.positive, negative: s.colors.negative, background: s.colors.background };
-  }
-
-  figurePublication(figureId: string): Promise<string | null> {
-    return this.store.figurePublication(figureId);
-  }
-
-  canAccess(user: Caller, publicationId: string): Promise<boolean> {
-    return this.membership.canAccess(user, publicationId);
   }
 }

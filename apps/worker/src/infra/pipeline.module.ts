@@ -1,14 +1,20 @@
 import { Global, Inject, Module, type DynamicModule, type OnApplicationShutdown } from '@nestjs/common';
 import { DataSource } from 'typeorm';
 import {
+  AssetEntity,
   AssetStore,
   BullJobQueue,
   DEFAULT_RELAY_SETTINGS,
+  FigureEntity,
+  FigureSetEntity,
   FigureSetsStore,
+  FigureVersionEntity,
   FiguresStore,
+  JobEntity,
   JobQueue,
   JobsStore,
   ObjectStorage,
+  OutboxEntity,
   OutboxRelay,
   OutboxStore,
   OutboxSweeper,
@@ -46,11 +52,12 @@ export class PipelineModule implements OnApplicationShutdown {
         },
         { provide: ObjectStorage, useFactory: () => new S3ObjectStorage({ s3: config.s3 }) },
         { provide: JobQueue, useFactory: () => new BullJobQueue({ redis: config.redis }) },
-        { provide: JobsStore, inject: [DataSource], useFactory: (ds: DataSource) => new TypeormJobsStore(ds) },
-        { provide: OutboxStore, inject: [DataSource], useFactory: (ds: DataSource) => new TypeormOutboxStore(ds) },
-        { provide: FiguresStore, inject: [DataSource], useFactory: (ds: DataSource) => new TypeormFiguresStore(ds) },
-        { provide: FigureSetsStore, inject: [DataSource], useFactory: (ds: DataSource) => new TypeormFigureSetsStore(ds) },
-        { provide: AssetStore, inject: [ObjectStorage, DataSource], useFactory: (s: ObjectStorage, ds: DataSource) => new S3AssetStore(s, ds) },
+        // The stores are built from their features' own repositories, as the api's modules inject them (forFeature).
+        { provide: JobsStore, inject: [DataSource], useFactory: (ds: DataSource) => new TypeormJobsStore(ds.getRepository(JobEntity)) },
+        { provide: OutboxStore, inject: [DataSource], useFactory: (ds: DataSource) => new TypeormOutboxStore(ds.getRepository(OutboxEntity)) },
+        { provide: FiguresStore, inject: [DataSource], useFactory: (ds: DataSource) => new TypeormFiguresStore(ds.getRepository(FigureEntity), ds.getRepository(FigureVersionEntity)) },
+        { provide: FigureSetsStore, inject: [DataSource], useFactory: (ds: DataSource) => new TypeormFigureSetsStore(ds.getRepository(FigureSetEntity)) },
+        { provide: AssetStore, inject: [ObjectStorage, DataSource], useFactory: (s: ObjectStorage, ds: DataSource) => new S3AssetStore(s, ds.getRepository(AssetEntity)) },
         { provide: OutboxRelay, inject: [OutboxStore, JobQueue], useFactory: (o: OutboxStore, q: JobQueue) => new OutboxRelay(o, q, DEFAULT_RELAY_SETTINGS) },
         {
           provide: OutboxSweeper,

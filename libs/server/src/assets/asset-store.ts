@@ -1,8 +1,40 @@
 import { createHash } from 'node:crypto';
-import { Injectable } from '@nestjs/common';
-import { DataSource, In } from 'typeorm';
+import { Inject, Injectable } from '@nestjs/common';
+import { InjectRepository } from '@nestjs/typeorm';
+import { In, Repository, type EntityManager } from 'typeorm';
+import type { AssetDto, AssetKind } from '@psiform/contracts';
 import { ObjectStorage } from '../infra/storage/object-storage';
 import { AssetEntity } from './asset.entity';
+
+export interface NewAsset {
+  figureVersionId: string | null;
+  publicationId: string;
+  kind: AssetKind;
+  storageKey: string;
+  bytes: number;
+  sha256: string;
+  stats: AssetDto['stats'];
+}
+
+/**
+ * Asset rows written inside another feature's transaction (a job's completion, an upload's figure): find-or-create,
+ * so a re-run or re-delivered job cannot duplicate a row (uq_assets_version_kind_key). Returns the ids in order.
+ * The assets feature owns the table: every asset row is written here.
+ */
+export async function upsertAssetsIn(em: EntityManager, assets: readonly (NewAsset & { id?: string })[]): Promise<string[]> {
+  const ids: string[] = [];
+  for (const a of assets) {
+    await em.createQueryBuilder().insert().into(AssetEntity).values(a as never).onConflict(`ON CONSTRAINT "uq_assets_version_kind_key" DO NOTHING`).execute();
+    const row = await em
+      .getRepository(AssetEntity)
+      .createQueryBuilder('a')
+      .where('a.kind = :kind AND a.storage_key = :key', { kind: a.kind, key: a.storageKey })
+      .andWhere(a.figureVersionId === null ? 'a.figure_version_id IS NULL' : 'a.figure_version_id = :v', { v: a.figureVersionId })
+      .getOneOrFail();
+    ids.push(row.id);
+  }
+  return ids;
+}
 
 export interface StoredObject {
   key: string;
@@ -33,14 +65,10 @@ export abstract class AssetStore {
 @Injectable()
 export class S3AssetStore extends AssetStore {
   constructor(
-    private readonly storage: ObjectStorage,
-    private readonly ds: DataSource,
+    @Inject(ObjectStorage) private readonly storage: ObjectStorage,
+    @InjectRepository(AssetEntity) private readonly assets: Repository<AssetEntity>,
   ) {
     super();
-  }
-
-  private get assets() {
-    return this.ds.getRepository(AssetEntity);
   }
 
   async storeObject(key: string, bytes: Uint8Array, contentType: string): Promise<StoredObject> {
@@ -74,3 +102,6 @@ export class S3AssetStore extends AssetStore {
     return this.storage.presignGet(key, expiresInSeconds);
   }
 }
+
+/** The table this feature owns (TypeOrmModule.forFeature in its api module). */
+export const ASSETS_ENTITIES = [AssetEntity];

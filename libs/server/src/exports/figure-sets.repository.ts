@@ -1,5 +1,6 @@
 import { Injectable } from '@nestjs/common';
-import { DataSource } from 'typeorm';
+import { InjectRepository } from '@nestjs/typeorm';
+import { Repository, type EntityManager } from 'typeorm';
 import { FigureSetEntity } from './figure-set.entity';
 import { FigureVersionEntity } from '../figures/figure-version.entity';
 
@@ -25,8 +26,15 @@ export abstract class FigureSetsStore {
 
 @Injectable()
 export class TypeormFigureSetsStore extends FigureSetsStore {
-  constructor(private readonly ds: DataSource) {
+  constructor(
+    @InjectRepository(FigureSetEntity) private readonly setRows: Repository<FigureSetEntity>,
+  ) {
     super();
+  }
+
+  /** Transactions and the joins of reads go through the manager of this feature's own repositories. */
+  private get ds(): EntityManager {
+    return this.setRows.manager;
   }
 
   insert(set: NewFigureSet): Promise<FigureSetEntity> {
@@ -53,3 +61,6 @@ export class TypeormFigureSetsStore extends FigureSetsStore {
     return (res.affected ?? 0) > 0;
   }
 }
+
+/** The tables this feature owns (TypeOrmModule.forFeature in its api module; the worker builds the store from them). */
+export const FIGURE_SETS_ENTITIES = [FigureSetEntity];

@@ -1,11 +1,13 @@
 import { Injectable } from '@nestjs/common';
-import { DataSource, type EntityManager } from 'typeorm';
+import { InjectRepository } from '@nestjs/typeorm';
+import { Repository, type EntityManager } from 'typeorm';
 import type { FigureStatus, Recipe } from '@psiform/contracts';
 import { FigureEntity } from './figure.entity';
 import { FigureVersionEntity } from './figure-version.entity';
 import { AssetEntity } from '../assets/asset.entity';
 import { UserEntity } from '../users/user.entity';
-import { requestJobIn, type NewAsset, type NewJob } from '../jobs/jobs.repository';
+import { requestJobIn, type NewJob } from '../jobs/jobs.repository';
+import { upsertAssetsIn, type NewAsset } from '../assets/asset-store';
 import type { JobEntity } from '../jobs/job.entity';
 import { insertAudit, type NewAuditEntry } from '../audit/audit.repository';
 import { HouseStyleEntity } from '../swatchbooks/house-style.entity';
@@ -79,6 +81,30 @@ export abstract class FiguresStore {
   abstract setThumbnail(figureId: string, figureVersionId: string, assetId: string): Promise<boolean>;
 }
 
+/**
+ * The figure row locked FOR UPDATE and its current version, inside the caller's transaction: the lock every figure
+ * write and every review step takes, so they never interleave. NotFoundError when the figure does not exist.
+ * (The figures feature owns figures and figure_versions: other features change them only through these functions.)
+ */
+export async function lockFigureIn(em: EntityManager, figureId: string): Promise<{ figure: FigureEntity; current: FigureVersionEntity }> {
+  const figure = await em.getRepository(FigureEntity).createQueryBuilder('f').setLock('pessimistic_write').where('f.id = :id', { id: figureId }).getOne();
+  if (!figure) throw new NotFoundError(`figure ${figureId} not found`);
+  const current = await em.getRepository(FigureVersionEntity).findOneOrFail({ where: { figureId, number: figure.currentVersion } });
+  return { figure, current };
+}
+
+/** A review step's new status (the row must be locked by lockFigureIn). */
+export async function setFigureStatusIn(em: EntityManager, figure: FigureEntity, status: FigureStatus): Promise<void> {
+  await em.getRepository(FigureEntity).update({ id: figure.id }, { status });
+  figure.status = status;
+}
+
+/** The version becomes a proof: locked, never modified again (a trigger refuses any later update). */
+export async function lockVersionIn(em: EntityManager, version: FigureVersionEntity): Promise<void> {
+  await em.getRepository(FigureVersionEntity).update({ id: version.id }, { locked: true });
+  version.locked = true;
+}
+
 async function enforcedPaletteIn(em: EntityManager, publicationId: string): Promise<PaletteColours | null> {
   const house = await em.getRepository(HouseStyleEntity).findOne({ where: { publicationId } });
   if (!house || house.allowOverride) return null;
@@ -91,8 +117,16 @@ const SORT_COLUMNS: Record<FigureSort, string> = { updatedAt: 'f.updated_at', cr
 
 @Injectable()
 export class TypeormFiguresStore extends FiguresStore {
-  constructor(private readonly ds: DataSource) {
+  constructor(
+    @InjectRepository(FigureEntity) private readonly figureRows: Repository<FigureEntity>,
+    @InjectRepository(FigureVersionEntity) private readonly versionRows: Repository<FigureVersionEntity>,
+  ) {
     super();
+  }
+
+  /** Transactions and the joins of reads go through the manager of this feature's own repositories. */
+  private get ds(): EntityManager {
+    return this.figureRows.manager;
   }
 
   private async insertFigure(em: EntityManager, figure: { publicationId: string; title: string; ownerId: string }, version: NewVersion) {
@@ -108,9 +142,8 @@ export class TypeormFiguresStore extends FiguresStore {
   createWithAsset(figure: { publicationId: string; title: string; ownerId: string }, version: NewVersion, asset: Omit<NewAsset, 'figureVersionId'> & { id: string }) {
     return this.ds.transaction(async (em) => {
       const fv = await this.insertFigure(em, figure, version);
-      const repo = em.getRepository(AssetEntity);
-      const a = await repo.save(repo.create({ ...asset, figureVersionId: fv.version.id }));
-      return { ...fv, asset: a };
+      const [id] = await upsertAssetsIn(em, [{ ...asset, figureVersionId: fv.version.id }]);
+      return { ...fv, asset: await em.getRepository(AssetEntity).findOneByOrFail({ id }) };
     });
   }
 
@@ -129,9 +162,7 @@ export class TypeormFiguresStore extends FiguresStore {
   inFigureTransaction<T>(figureId: string, fn: (tx: FigureWriteTx) => Promise<T>): Promise<T> {
     return this.ds.transaction(async (em) => {
       const figures = em.getRepository(FigureEntity);
-      const figure = await figures.createQueryBuilder('f').setLock('pessimistic_write').where('f.id = :id', { id: figureId }).getOne();
-      if (!figure) throw new NotFoundError(`figure ${figureId} not found`);
-      const current = await em.getRepository(FigureVersionEntity).findOneOrFail({ where: { figureId, number: figure.currentVersion } });
+      const { figure, current } = await lockFigureIn(em, figureId);
       const tx: FigureWriteTx = {
         figure,
         current,
@@ -156,7 +187,7 @@ export class TypeormFiguresStore extends FiguresStore {
   }
 
   enforcedPalette(publicationId: string): Promise<PaletteColours | null> {
-    return enforcedPaletteIn(this.ds.manager, publicationId);
+    return enforcedPaletteIn(this.ds, publicationId);
   }
 
   async list(filter: FigureListFilter): Promise<{ rows: FigureListRow[]; total: number }> {
@@ -188,3 +219,6 @@ export class TypeormFiguresStore extends FiguresStore {
     return count > 0;
   }
 }
+
+/** The tables this feature owns (TypeOrmModule.forFeature in its api module; the worker builds the store from them). */
+export const FIGURES_ENTITIES = [FigureEntity, FigureVersionEntity];

@@ -1,5 +1,6 @@
 import { JOB_NAMES, type JobName, type JobOf, type TrackedJobName } from '@psiform/contracts';
-import type { JobContext, NewAsset } from './jobs.repository';
+import type { JobContext } from './jobs.repository';
+import type { NewAsset } from '../assets/asset-store';
 
 /** One run of a job that has a row in the jobs table (mesh, render, export). */
 export interface TrackedRun<N extends TrackedJobName> {

@@ -1,9 +1,10 @@
 import { Injectable } from '@nestjs/common';
-import { DataSource, type EntityManager } from 'typeorm';
-import type { AssetKind, AssetDto, JobItem, JobOf, TrackedJobName } from '@psiform/contracts';
+import { InjectRepository } from '@nestjs/typeorm';
+import { Repository, type EntityManager } from 'typeorm';
+import type { JobItem, JobOf, TrackedJobName } from '@psiform/contracts';
 import { enqueueIn } from '../outbox/outbox.repository';
 import { JobEntity } from './job.entity';
-import { AssetEntity } from '../assets/asset.entity';
+import { upsertAssetsIn, type NewAsset } from '../assets/asset-store';
 import { FigureEntity } from '../figures/figure.entity';
 import { FigureVersionEntity } from '../figures/figure-version.entity';
 
@@ -33,16 +34,6 @@ export async function requestJobIn(em: EntityManager, job: NewJob): Promise<JobE
   return row;
 }
 
-export interface NewAsset {
-  figureVersionId: string | null;
-  publicationId: string;
-  kind: AssetKind;
-  storageKey: string;
-  bytes: number;
-  sha256: string;
-  stats: AssetDto['stats'];
-}
-
 export interface JobContext {
   job: JobEntity;
   figure: FigureEntity | null;
@@ -67,14 +58,21 @@ export abstract class JobsStore {
   /** Back to queued between attempts, keeping the last error readable. */
   abstract requeue(id: string, error: string): Promise<void>;
   abstract fail(id: string, error: string): Promise<void>;
-  /** One transaction: asset rows find-or-create (ON CONFLICT DO NOTHING), then the job completed. Returns asset ids. */
+  /** One transaction: asset rows find-or-create (upsertAssetsIn), then the job completed. Returns asset ids. */
   abstract complete(id: string, timings: Record<string, number>, assets: NewAsset[]): Promise<string[]>;
 }
 
 @Injectable()
 export class TypeormJobsStore extends JobsStore {
-  constructor(private readonly ds: DataSource) {
+  constructor(
+    @InjectRepository(JobEntity) private readonly jobRows: Repository<JobEntity>,
+  ) {
     super();
+  }
+
+  /** Transactions and the joins of reads go through the manager of this feature's own repositories. */
+  private get ds(): EntityManager {
+    return this.jobRows.manager;
   }
 
   private get jobs() {
@@ -152,25 +150,12 @@ export class TypeormJobsStore extends JobsStore {
 
   async complete(id: string, timings: Record<string, number>, assets: NewAsset[]): Promise<string[]> {
     return this.ds.transaction(async (em) => {
-      const ids: string[] = [];
-      for (const a of assets) {
-        await em
-          .createQueryBuilder()
-          .insert()
-          .into(AssetEntity)
-          .values(a as never)
-          .onConflict(`ON CONSTRAINT "uq_assets_version_kind_key" DO NOTHING`)
-          .execute();
-        const row = await em
-          .getRepository(AssetEntity)
-          .createQueryBuilder('a')
-          .where('a.kind = :kind AND a.storage_key = :key', { kind: a.kind, key: a.storageKey })
-          .andWhere(a.figureVersionId === null ? 'a.figure_version_id IS NULL' : 'a.figure_version_id = :v', { v: a.figureVersionId })
-          .getOneOrFail();
-        ids.push(row.id);
-      }
+      const ids = await upsertAssetsIn(em, assets);
       await em.getRepository(JobEntity).update({ id }, { state: 'completed', stage: 'done', progress: 100, error: null, timings, assetIds: ids });
       return ids;
     });
   }
 }
+
+/** The tables this feature owns (TypeOrmModule.forFeature in its api module; the worker builds the store from them). */
+export const JOBS_ENTITIES = [JobEntity];

@@ -1,5 +1,6 @@
 import { Injectable } from '@nestjs/common';
-import { DataSource, type EntityManager } from 'typeorm';
+import { InjectRepository } from '@nestjs/typeorm';
+import { Repository, type EntityManager } from 'typeorm';
 import { isJobName, parseJob, type JobItem } from '@psiform/contracts';
 import { OutboxEntity } from './outbox.entity';
 
@@ -45,8 +46,15 @@ export abstract class OutboxStore {
 
 @Injectable()
 export class TypeormOutboxStore extends OutboxStore {
-  constructor(private readonly ds: DataSource) {
+  constructor(
+    @InjectRepository(OutboxEntity) private readonly outboxRows: Repository<OutboxEntity>,
+  ) {
     super();
+  }
+
+  /** Transactions and the joins of reads go through the manager of this feature's own repositories. */
+  private get ds(): EntityManager {
+    return this.outboxRows.manager;
   }
 
   private get rows() {
@@ -54,7 +62,7 @@ export class TypeormOutboxStore extends OutboxStore {
   }
 
   enqueue(item: JobItem, opts: { maxAttempts?: number } = {}): Promise<string> {
-    return enqueueIn(this.ds.manager, item, opts);
+    return enqueueIn(this.ds, item, opts);
   }
 
   relayDue(limit: number, retryMs: (attempts: number) => number, send: (row: OutboxEntity) => Promise<void>): Promise<number> {
@@ -120,3 +128,6 @@ export class TypeormOutboxStore extends OutboxStore {
       .execute();
   }
 }
+
+/** The tables this feature owns (TypeOrmModule.forFeature in its api module; the worker builds the store from them). */
+export const OUTBOX_ENTITIES = [OutboxEntity];

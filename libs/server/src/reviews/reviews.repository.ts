@@ -1,8 +1,10 @@
 import { Injectable } from '@nestjs/common';
-import { DataSource, IsNull, type EntityManager } from 'typeorm';
+import { InjectRepository } from '@nestjs/typeorm';
+import { IsNull, Repository, type EntityManager } from 'typeorm';
 import type { FigureStatus, MailNoticeJob } from '@psiform/contracts';
 import { enqueueIn } from '../outbox/outbox.repository';
 import { FigureEntity } from '../figures/figure.entity';
+import { lockFigureIn, lockVersionIn, setFigureStatusIn } from '../figures/figures.repository';
 import { FigureVersionEntity } from '../figures/figure-version.entity';
 import { PublicationEntity } from '../publications/publication.entity';
 import { MembershipEntity } from '../publications/membership.entity';
@@ -58,8 +60,16 @@ export abstract class ReviewsStore {
 
 @Injectable()
 export class TypeormReviewsStore extends ReviewsStore {
-  constructor(private readonly ds: DataSource) {
+  constructor(
+    @InjectRepository(ReviewRoundEntity) private readonly roundRows: Repository<ReviewRoundEntity>,
+    @InjectRepository(CommentEntity) private readonly commentRows: Repository<CommentEntity>,
+  ) {
     super();
+  }
+
+  /** Transactions and the joins of reads go through the manager of this feature's own repositories. */
+  private get ds(): EntityManager {
+    return this.roundRows.manager;
   }
 
   findFigure(id: string) {
@@ -72,10 +82,8 @@ export class TypeormReviewsStore extends ReviewsStore {
 
   inFigureTransaction<T>(figureId: string, fn: (tx: ReviewTx) => Promise<T>): Promise<T> {
     return this.ds.transaction(async (em) => {
-      const figure = await em.getRepository(FigureEntity).createQueryBuilder('f').setLock('pessimistic_write').where('f.id = :id', { id: figureId }).getOne();
-      if (!figure) throw new Error(`figure ${figureId} vanished`);
-      const version = await em.getRepository(FigureVersionEntity).findOneOrFail({ where: { figureId, number: figure.currentVersion } });
-      return fn(this.tx(em, figure, version));
+      const { figure, current } = await lockFigureIn(em, figureId);
+      return fn(this.tx(em, figure, current));
     });
   }
 
@@ -89,14 +97,8 @@ export class TypeormReviewsStore extends ReviewsStore {
       saveRound: async (round) => {
         await rounds.save(round);
       },
-      lockVersion: async () => {
-        await em.getRepository(FigureVersionEntity).update({ id: version.id }, { locked: true });
-        version.locked = true;
-      },
-      setStatus: async (status) => {
-        await em.getRepository(FigureEntity).update({ id: figure.id }, { status });
-        figure.status = status;
-      },
+      lockVersion: () => lockVersionIn(em, version),
+      setStatus: (status) => setFigureStatusIn(em, figure, status),
       audit: (entry) => insertAudit(em, { ...entry, figureId: figure.id }),
       notify: async (notice) => void (await enqueueIn(em, { name: 'notice', data: notice })),
       addComment: (c) => em.getRepository(CommentEntity).save(em.getRepository(CommentEntity).create({ ...c, figureId: figure.id })),
@@ -171,3 +173,6 @@ export class TypeormReviewsStore extends ReviewsStore {
   }
 
 }
+
+/** The tables this feature owns (TypeOrmModule.forFeature in its api module; the worker builds the store from them). */
+export const REVIEWS_ENTITIES = [ReviewRoundEntity, CommentEntity];

@@ -1,6 +1,7 @@
 import { Injectable } from '@nestjs/common';
-import { DataSource, type EntityManager } from 'typeorm';
-import type { Recipe, SwatchbookColorsDto, SwatchbookVersionDto } from '@psiform/contracts';
+import { InjectRepository } from '@nestjs/typeorm';
+import { Repository, type EntityManager } from 'typeorm';
+import type { SwatchbookColorsDto, SwatchbookVersionDto } from '@psiform/contracts';
 import { FigureEntity } from '../figures/figure.entity';
 import { FigureVersionEntity } from '../figures/figure-version.entity';
 import { JobEntity } from '../jobs/job.entity';
@@ -40,8 +41,19 @@ export abstract class SwatchbooksStore {
 
 @Injectable()
 export class TypeormSwatchbooksStore extends SwatchbooksStore {
-  constructor(private readonly ds: DataSource) {
+  constructor(
+    @InjectRepository(SwatchbookEntity) private readonly bookRows: Repository<SwatchbookEntity>,
+    @InjectRepository(SwatchbookVersionEntity) private readonly bookVersionRows: Repository<SwatchbookVersionEntity>,
+    @InjectRepository(HouseStyleEntity) private readonly houseRows: Repository<HouseStyleEntity>,
+    @InjectRepository(BatchEntity) private readonly batchRows: Repository<BatchEntity>,
+    @InjectRepository(BatchItemEntity) private readonly batchItemRows: Repository<BatchItemEntity>,
+  ) {
     super();
+  }
+
+  /** Transactions and the joins of reads go through the manager of this feature's own repositories. */
+  private get ds(): EntityManager {
+    return this.bookRows.manager;
   }
 
   private async snapshot(em: EntityManager, s: SwatchbookEntity, action: SwatchbookVersionDto['action'], authorId: string | null) {
@@ -142,3 +154,6 @@ export class TypeormSwatchbooksStore extends SwatchbooksStore {
     };
   }
 }
+
+/** The tables this feature owns (TypeOrmModule.forFeature in its api module; the worker builds the store from them). */
+export const SWATCHBOOKS_ENTITIES = [SwatchbookEntity, SwatchbookVersionEntity, HouseStyleEntity, BatchEntity, BatchItemEntity];

@@ -1,8 +1,8 @@
 import { Global, Module } from '@nestjs/common';
-import { DataSource } from 'typeorm';
+import { TypeOrmModule } from '@nestjs/typeorm';
 import { JobQueue } from './job-queue';
 import { BullJobQueue } from './bull-job-queue';
-import { OutboxStore, TypeormOutboxStore } from '../../outbox/outbox.repository';
+import { OUTBOX_ENTITIES, OutboxStore, TypeormOutboxStore } from '../../outbox/outbox.repository';
 import { DEFAULT_RELAY_SETTINGS, OutboxRelay } from '../../outbox/outbox-relay';
 
 /**
@@ -12,9 +12,10 @@ import { DEFAULT_RELAY_SETTINGS, OutboxRelay } from '../../outbox/outbox-relay';
  */
 @Global()
 @Module({
+  imports: [TypeOrmModule.forFeature(OUTBOX_ENTITIES)],
   providers: [
     { provide: JobQueue, useClass: BullJobQueue },
-    { provide: OutboxStore, inject: [DataSource], useFactory: (ds: DataSource) => new TypeormOutboxStore(ds) },
+    { provide: OutboxStore, useClass: TypeormOutboxStore },
     { provide: OutboxRelay, inject: [OutboxStore, JobQueue], useFactory: (o: OutboxStore, q: JobQueue) => new OutboxRelay(o, q, DEFAULT_RELAY_SETTINGS) },
   ],
   exports: [JobQueue, OutboxStore],
