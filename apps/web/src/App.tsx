@@ -16,6 +16,7 @@ import { PublicationsPage } from './pages/PublicationsPage';
 import { SignInPage } from './pages/SignInPage';
 import { UploadPage } from './pages/UploadPage';
 import { HouseStylePage } from './review/HouseStylePage';
+import { DeliveryProfilePage } from './print/DeliveryProfilePage';
 import { ProofPage } from './review/ProofPage';
 import { ReviewDeskPage } from './review/ReviewDeskPage';
 import { SwatchbookPage } from './swatchbooks/SwatchbookPage';
@@ -63,6 +64,7 @@ const SUB_PAGES: Record<string, () => ReactNode> = {
   '/figures/:figureId/proof': () => <ProofPage />,
   '/swatchbooks/:swatchbookId': () => <SwatchbookPage />,
   '/publications/:publicationId/house-style': () => <HouseStylePage />,
+  '/publications/:publicationId/delivery-profile': () => <DeliveryProfilePage />,
 };
 
 function Frame() {

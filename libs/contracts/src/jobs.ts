@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { SECTION_PLANES } from './exports';
+import { COLOUR_MODES, PRESS_CONDITION_IDS, deliveryProfileSchema } from './print';
 import { QUEUES } from './states';
 
 /**
@@ -17,10 +18,19 @@ const positiveInt = z.number().int().positive();
 /** Mesh jobs need nothing beyond the figure version their Job row names. */
 export const meshParamsSchema = z.object({}).strict();
 
-/** A PNG render: a print export, a thumbnail, or a figure set's panels (one image). */
+/** The colour of a print file (TIFF, PDF): from the request, else the publication's delivery profile. */
+const printColour = { colour: z.enum(COLOUR_MODES).optional(), pressCondition: z.enum(PRESS_CONDITION_IDS).optional() };
+/** The publication's delivery profile when the export was asked for: the worker preflights against this copy. */
+const profile = { profile: deliveryProfileSchema.optional() };
+
+/** A raster render: a print PNG or TIFF, a thumbnail, or a figure set's panels (one image). */
 export const renderParamsSchema = z
   .object({
-    format: z.literal('png'),
+    /** tiff: rendered as the PNG is, then written as TIFF (RGB + sRGB, or CMYK through the press profile). */
+    format: z.enum(['png', 'tiff']),
+    ...printColour,
+    alpha: z.boolean().optional(),
+    ...profile,
     widthPx: positiveInt,
     heightPx: positiveInt,
     dpi: z.number().positive(),
@@ -39,21 +49,22 @@ export const renderParamsSchema = z
   })
   .strict();
 
-/** SVG companions, mesh hand-over and bundles (the png format is a render job). */
+/** A plot companion (radial plot or section map) as SVG or PDF. */
+const plot = {
+  kind: z.enum(['radial', 'section']),
+  plane: z.enum(SECTION_PLANES),
+  offset: z.number(),
+  levels: positiveInt,
+  widthMm: z.number().positive(),
+  heightMm: z.number().positive(),
+};
+
+/** Plot companions (SVG, PDF), mesh hand-over and bundles (png and tiff are render jobs). A new format: one line here. */
 export const exportParamsSchema = z.discriminatedUnion('format', [
-  z
-    .object({
-      format: z.literal('svg'),
-      kind: z.enum(['radial', 'section']),
-      plane: z.enum(SECTION_PLANES),
-      offset: z.number(),
-      levels: positiveInt,
-      widthMm: z.number().positive(),
-      heightMm: z.number().positive(),
-    })
-    .strict(),
-  z.object({ format: z.enum(['glb', 'stl']) }).strict(),
-  z.object({ format: z.literal('bundle') }).strict(),
+  z.object({ format: z.literal('svg'), ...plot, ...profile }).strict(),
+  z.object({ format: z.literal('pdf'), ...plot, ...printColour, ...profile }).strict(),
+  z.object({ format: z.enum(['glb', 'stl']), ...profile }).strict(),
+  z.object({ format: z.literal('bundle'), ...profile }).strict(),
 ]);
 
 export type MeshParams = z.infer<typeof meshParamsSchema>;

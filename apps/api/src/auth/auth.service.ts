@@ -16,15 +16,12 @@ export class AuthService {
 
   async login(emailInput: string, password: string, ip: string): Promise<LoginResponse> {
     const email = emailInput.trim().toLowerCase();
-    await this.throttle.assertAllowed(email, ip);
+    const attempt = await this.throttle.admit(email, ip); // counted before the password is checked
     const user = await this.users.findByEmail(email);
     // Compare against a dummy hash for unknown emails so both paths take the same time.
     const ok = await verifyPassword(password, user?.passwordHash ?? (await dummyPasswordHash()));
-    if (!user || !ok) {
-      await this.throttle.recordFailure(email, ip);
-      throw new UnauthorizedException('email or password is incorrect');
-    }
-    await this.throttle.recordSuccess(email);
+    if (!user || !ok) throw new UnauthorizedException('email or password is incorrect');
+    await attempt.succeeded();
     const payload: JwtPayload = { sub: user.id, role: user.role };
     return { accessToken: await this.jwt.signAsync(payload), user: toUserDto(user) };
   }

@@ -1,3 +1,4 @@
+import { DeliveryProfilesModule } from '../delivery-profiles/delivery-profiles.module';
 import { Module } from '@nestjs/common';
 import { TypeOrmModule } from '@nestjs/typeorm';
 import { PublicationsModule } from '../publications/publications.module';
@@ -8,7 +9,7 @@ import { ExportsService } from './exports.service';
 import { FIGURE_SETS_ENTITIES, FigureSetsStore, TypeormFigureSetsStore } from '@psiform/server';
 
 @Module({
-  imports: [TypeOrmModule.forFeature(FIGURE_SETS_ENTITIES), PublicationsModule, FiguresModule, JobsModule],
+  imports: [TypeOrmModule.forFeature(FIGURE_SETS_ENTITIES), PublicationsModule, FiguresModule, JobsModule, DeliveryProfilesModule],
   controllers: [ExportsController],
   providers: [{ provide: FigureSetsStore, useClass: TypeormFigureSetsStore }, ExportsService],
 })

@@ -1,11 +1,12 @@
 import { BadRequestException, Injectable, NotFoundException } from '@nestjs/common';
-import { FIGURE_SET_LIMITS, parseRecipe, type CreateFigureSetRequest, type CreateJobResponse, type FigureSetDto, type UserDto } from '@psiform/contracts';
+import { FIGURE_SET_LIMITS, parseRecipe, type DeliveryProfile, type ExportParams as ExportJobParams, type RenderParams, type CreateFigureSetRequest, type CreateJobResponse, type FigureSetDto, type UserDto } from '@psiform/contracts';
 import { FiguresService } from '../figures/figures.service';
 import { FiguresStore, FigureSetsStore, toFigureSetDto } from '@psiform/server';
 import { JobsService } from '../jobs/jobs.service';
 import { MembershipService } from '../publications/membership.service';
 import { AccessPolicy } from '../publications/access-policy';
 import { parseExportRequest } from './export-request';
+import { DeliveryProfilesService } from '../delivery-profiles/delivery-profiles.service';
 
 type Caller = Pick<UserDto, 'id' | 'role'>;
 
@@ -23,6 +24,7 @@ export class ExportsService {
     private readonly sets: FigureSetsStore,
     private readonly membership: MembershipService,
     private readonly policy: AccessPolicy,
+    private readonly deliveryProfiles: DeliveryProfilesService,
   ) {}
 
   async requestExport(user: Caller, figureId: string, body: unknown): Promise<CreateJobResponse> {
@@ -34,9 +36,14 @@ export class ExportsService {
     if (!recipe.ok) throw new BadRequestException(['recipe: the stored recipe of this figure is not valid; save the figure again']);
     const parsed = parseExportRequest(body, recipe.recipe);
     if (!parsed.ok) throw new BadRequestException(parsed.messages);
+    // The worker preflights against the profile as it is now (a copy travels with the job and into the report).
+    const profile = await this.deliveryProfiles.profileFor(figure.publicationId);
     const p = parsed.params;
-    const kind = p.format === 'png' ? { type: 'render' as const, params: p } : { type: 'export' as const, params: p };
-    const job = await this.jobs.enqueue({ ...kind, publicationId: figure.publicationId, figureId: figure.id, figureVersionId: version.id, requestedBy: user.id });
+    const on = { publicationId: figure.publicationId, figureId: figure.id, figureVersionId: version.id, requestedBy: user.id };
+    // Rasters (png, tiff) are render jobs; plots, meshes and bundles export jobs (the job contract's params of each).
+    const job = isRaster(p)
+      ? await this.jobs.enqueue({ type: 'render', params: { ...p, profile }, ...on })
+      : await this.jobs.enqueue({ type: 'export', params: withProfile(p, profile), ...on });
     return { jobId: job.id };
   }
 
@@ -90,6 +97,13 @@ export class ExportsService {
     });
     return { jobId: job.id };
   }
+}
+
+const isRaster = (p: RenderParams | ExportJobParams): p is RenderParams => p.format === 'png' || p.format === 'tiff';
+
+/** An export job's params with the delivery profile copy (a spread of the union would lose its discriminant). */
+function withProfile(p: ExportJobParams, profile: DeliveryProfile): ExportJobParams {
+  return Object.assign({}, p, { profile });
 }
 
 const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;

@@ -1,5 +1,6 @@
 import { Transform } from 'class-transformer';
-import { IsIn, IsNotEmpty, IsOptional, IsString, IsUUID, MaxLength } from 'class-validator';
+import { IsIn, IsNotEmpty, IsString, IsUUID, MaxLength } from 'class-validator';
+import { OptionalNotNull } from '../common/validation';
 import { PUBLICATION_KINDS, type AddMemberRequest, type CreatePublicationRequest, type PublicationKind } from '@psiform/contracts';
 
 const trim = ({ value }: { value: unknown }) => (typeof value === 'string' ? value.trim() : value);
@@ -20,7 +21,7 @@ export class CreatePublicationBody implements CreatePublicationRequest {
   @IsIn(PUBLICATION_KINDS as readonly string[], { message: `kind must be one of: ${PUBLICATION_KINDS.join(', ')}` })
   kind: PublicationKind;
 
-  @IsOptional()
+  @OptionalNotNull()
   @IsString()
   @MaxLength(5000)
   description?: string;

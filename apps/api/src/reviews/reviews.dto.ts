@@ -1,5 +1,6 @@
 import { Transform, Type } from 'class-transformer';
-import { IsDefined, IsNotEmpty, IsNumber, IsOptional, IsString, IsUUID, Max, MaxLength, Min, ValidateNested } from 'class-validator';
+import { IsDefined, IsNotEmpty, IsNumber, IsObject, IsString, IsUUID, Max, MaxLength, Min, ValidateNested } from 'class-validator';
+import { OptionalNotNull } from '../common/validation';
 
 const trim = ({ value }: { value: unknown }) => (typeof value === 'string' ? value.trim() : value);
 
@@ -16,11 +17,18 @@ export class RequestChangesBody {
 }
 
 export class OptionalNoteBody {
-  @IsOptional()
+  @OptionalNotNull()
   @Transform(trim)
   @IsString({ message: 'note must be a string' })
   @MaxLength(NOTE_MAX, { message: `note must be at most ${NOTE_MAX} characters` })
   note?: string;
+}
+
+/** Approve: an optional note, and `override: { reason }` to go past failed preflight (checked by gates/gate.ts). */
+export class ApproveBody extends OptionalNoteBody {
+  @OptionalNotNull()
+  @IsObject({ message: 'override must be an object { reason }' })
+  override?: { reason?: unknown };
 }
 
 export class PinBody {
@@ -43,11 +51,11 @@ export class CommentBody {
   @MaxLength(COMMENT_MAX, { message: `body must be at most ${COMMENT_MAX} characters` })
   body: string;
 
-  @IsOptional()
+  @OptionalNotNull()
   @IsUUID('all', { message: 'versionId must be a UUID' })
   versionId?: string;
 
-  @IsOptional()
+  @OptionalNotNull()
   @ValidateNested()
   @Type(() => PinBody)
   pin?: PinBody;

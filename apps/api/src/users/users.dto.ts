@@ -1,5 +1,6 @@
 import { Transform } from 'class-transformer';
 import { IsEmail, IsIn, IsNotEmpty, IsString, MaxLength, MinLength } from 'class-validator';
+import { MaxUtf8Bytes } from '../common/validation';
 import { MIN_PASSWORD_LENGTH, ROLES, type CreateUserRequest, type Role } from '@psiform/contracts';
 
 const trimLower = ({ value }: { value: unknown }) => (typeof value === 'string' ? value.trim().toLowerCase() : value);
@@ -12,14 +13,14 @@ export class CreateUserBody implements CreateUserRequest {
   email: string;
 
   @Transform(trim)
-  @IsString()
+  @IsString({ message: 'displayName must be a string' })
   @IsNotEmpty({ message: 'displayName must not be empty' })
   @MaxLength(120)
   displayName: string;
 
   @IsString()
   @MinLength(MIN_PASSWORD_LENGTH, { message: `password must be at least ${MIN_PASSWORD_LENGTH} characters` })
-  @MaxLength(72, { message: 'password must be at most 72 characters' }) // bcrypt reads only the first 72 bytes
+  @MaxUtf8Bytes(72) // bcrypt reads only the first 72 bytes
   password: string;
 
   @IsIn(ROLES as readonly string[], { message: `role must be one of: ${ROLES.join(', ')}` })

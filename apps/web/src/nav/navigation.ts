@@ -92,6 +92,8 @@ export const SUB_ROUTES: readonly SubRoute[] = [
   // Everyone may read swatchbooks and house styles; only art directors change them (the server enforces it).
   { path: '/swatchbooks/:swatchbookId', label: 'Swatchbook', roles: ROLES },
   { path: '/publications/:publicationId/house-style', label: 'House style', roles: ROLES },
+  // Every member reads the delivery profile; art directors (and admins) set it (the server enforces it).
+  { path: '/publications/:publicationId/delivery-profile', label: 'Delivery profile', roles: ROLES },
 ];
 
 export function navItemsFor(role: Role): NavItem[] {

@@ -32,12 +32,20 @@ export interface AppConfig {
   /** outboxFile: MAIL_OUTBOX_FILE, set only while the local mail fake is in use (GET /api/dev/outbox). */
   smtp: SmtpConfig & { outboxFile?: string };
   jwt: { secret: string; ttl: string };
-  http: { port: number; host: string; webDist: string | undefined };
+  /**
+   * trustProxy: Express's `trust proxy` (TRUST_PROXY: unset/false = the socket address is the client; true, a hop
+   * count, or a comma list of addresses/CIDRs/loopback|linklocal|uniquelocal). Only with it set does sign-in
+   * throttling also count per client address, since only then is that address the client's and not a proxy's.
+   */
+  http: { port: number; host: string; webDist: string | undefined; trustProxy: TrustProxy };
   /** Largest accepted cube file of POST /api/uploads, in bytes (UPLOAD_MAX_BYTES). */
   uploads: { maxBytes: number };
+  /** requestsPerMinute: general rate limit per signed-in account or client address (RATE_LIMIT_PER_MINUTE; 0 = off). */
+  limits: { requestsPerMinute: number };
 }
 
 export type Env = Record<string, string | undefined>;
+export type TrustProxy = false | true | number | string[];
 
 export class ConfigError extends Error {
   constructor(readonly problems: string[]) {
@@ -86,6 +94,7 @@ export const DEFAULTS = {
   RENDER_TIMEOUT_MS: '120000',
   OUTBOX_SWEEP_MS: '30000',
   OUTBOX_STALE_MS: '60000',
+  RATE_LIMIT_PER_MINUTE: '1200',
 } as const;
 
 export const MIN_JWT_SECRET_LENGTH = 32;
@@ -133,6 +142,20 @@ class Reader {
       return 0;
     }
     return n;
+  }
+
+  trustProxy(name: string): TrustProxy {
+    const v = this.raw(name);
+    if (v === undefined || v === 'false') return false;
+    if (v === 'true') return true;
+    if (/^\d+$/.test(v)) return Number(v);
+    const parts = v.split(',').map((p) => p.trim()).filter(Boolean);
+    const ok = parts.every((p) => ['loopback', 'linklocal', 'uniquelocal'].includes(p) || /^[0-9a-fA-F.:]+(\/\d{1,3})?$/.test(p));
+    if (!parts.length || !ok) {
+      this.fail(`${name} must be false, true, a hop count, or a comma list of addresses, CIDR ranges or loopback/linklocal/uniquelocal`);
+      return false;
+    }
+    return parts;
   }
 
   duration(name: string, fallback: string): string {
@@ -206,8 +229,10 @@ export function loadConfig(env: Env): AppConfig {
       port: r.int('PORT', DEFAULTS.PORT, 0, 65535),
       host: r.string('HOST', DEFAULTS.HOST),
       webDist: r.optional('WEB_DIST'),
+      trustProxy: r.trustProxy('TRUST_PROXY'),
     },
     uploads: { maxBytes: r.int('UPLOAD_MAX_BYTES', DEFAULTS.UPLOAD_MAX_BYTES, 1, 17179869184) },
+    limits: { requestsPerMinute: r.int('RATE_LIMIT_PER_MINUTE', DEFAULTS.RATE_LIMIT_PER_MINUTE, 0, 1_000_000) },
   };
   r.done();
   return config;

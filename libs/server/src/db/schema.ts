@@ -18,6 +18,8 @@ import { EditorialReview1764806400000 } from './migrations/1764806400000-Editori
 import { FigureSetEntity } from '../exports/figure-set.entity';
 import { StudioExports1764979200000 } from './migrations/1764979200000-StudioExports';
 import { FigureSetExports1765238400000 } from './migrations/1765238400000-FigureSetExports';
+import { PrintProduction1765411200000 } from './migrations/1765411200000-PrintProduction';
+import { DeliveryProfileEntity } from '../delivery-profiles/delivery-profile.entity';
 import { OutboxEntity } from '../outbox/outbox.entity';
 import { Outbox1796188459275 } from './migrations/1796188459275-Outbox';
 
@@ -27,8 +29,10 @@ import { Outbox1796188459275 } from './migrations/1796188459275-Outbox';
  * db/migrations/, and one entry in each list below (DEVELOPERS.md "Persistence").
  */
 export const ENTITIES = [UserEntity, PublicationEntity, MembershipEntity, FigureEntity, FigureVersionEntity, AssetEntity, JobEntity,
-  SwatchbookEntity, SwatchbookVersionEntity, HouseStyleEntity, BatchEntity, BatchItemEntity, ReviewRoundEntity, CommentEntity, AuditEntryEntity, FigureSetEntity, OutboxEntity];
-export const MIGRATIONS = [Foundation1764633600000, FigureJobs1764720000000, EditorialReview1764806400000, StudioExports1764979200000, FigureSetExports1765238400000, Outbox1796188459275];
+  SwatchbookEntity, SwatchbookVersionEntity, HouseStyleEntity, BatchEntity, BatchItemEntity, ReviewRoundEntity, CommentEntity, AuditEntryEntity, FigureSetEntity, DeliveryProfileEntity,
+  OutboxEntity];
+export const MIGRATIONS = [Foundation1764633600000, FigureJobs1764720000000, EditorialReview1764806400000, StudioExports1764979200000, FigureSetExports1765238400000, PrintProduction1765411200000,
+  Outbox1796188459275];
 
 export function dataSourceOptions(url: string, extra: { poolSize?: number } = {}): DataSourceOptions {
   return {

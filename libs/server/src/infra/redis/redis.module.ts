@@ -3,8 +3,8 @@ import type Redis from 'ioredis';
 import { APP_CONFIG } from '../../config/config.tokens';
 import type { AppConfig } from '../../config/config';
 import { REDIS_CLIENT } from './redis.tokens';
-import { AttemptCounter } from './attempt-counter';
-import { RedisAttemptCounter } from './redis-attempt-counter';
+import { AttemptGate } from './attempt-gate';
+import { RedisAttemptGate } from './redis-attempt-gate';
 import { RedisHealthProbe } from './redis-health';
 import { closeRedis, openRedis } from './redis-connection';
 
@@ -16,10 +16,10 @@ import { closeRedis, openRedis } from './redis-connection';
       inject: [APP_CONFIG],
       useFactory: (config: AppConfig) => openRedis(config.redis.url, 'requests'),
     },
-    { provide: AttemptCounter, useClass: RedisAttemptCounter },
+    { provide: AttemptGate, useClass: RedisAttemptGate },
     RedisHealthProbe,
   ],
-  exports: [REDIS_CLIENT, AttemptCounter, RedisHealthProbe],
+  exports: [REDIS_CLIENT, AttemptGate, RedisHealthProbe],
 })
 export class RedisModule implements OnApplicationShutdown {
   constructor(@Inject(REDIS_CLIENT) private readonly redis: Redis) {}
