@@ -12,6 +12,7 @@ export * from './common/domain-errors';
 export * from './config/config.module';
 export * from './config/config.tokens';
 export * from './config/config';
+export * from './db/columns';
 export * from './db/run-migrations';
 export * from './db/schema';
 export * from './delivery-profiles/delivery-profile.entity';

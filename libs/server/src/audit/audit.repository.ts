@@ -25,17 +25,10 @@ export abstract class AuditStore {
 }
 
 @Injectable()
-export class TypeormAuditStore extends AuditStore {
-  constructor(
-    @InjectRepository(AuditEntryEntity) private readonly entries: Repository<AuditEntryEntity>,
-  ) {
-    super();
-  }
-
-  /** Transactions and the joins of reads go through the manager of this feature's own repositories. */
-  private get ds(): EntityManager {
-    return this.entries.manager;
-  }
+export class TypeormAuditStore implements AuditStore {
+  constructor(@InjectRepository(AuditEntryEntity) private readonly entries: Repository<AuditEntryEntity>) {}
+  /** Transactions, and the joins of reads, run on the manager of this feature's own repositories. */
+  private get ds(): EntityManager { return this.entries.manager; }
 
   async listForFigure(figureId: string) {
     const { entities, raw } = await this.ds

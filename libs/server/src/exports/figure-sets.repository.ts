@@ -25,17 +25,10 @@ export abstract class FigureSetsStore {
 }
 
 @Injectable()
-export class TypeormFigureSetsStore extends FigureSetsStore {
-  constructor(
-    @InjectRepository(FigureSetEntity) private readonly setRows: Repository<FigureSetEntity>,
-  ) {
-    super();
-  }
-
-  /** Transactions and the joins of reads go through the manager of this feature's own repositories. */
-  private get ds(): EntityManager {
-    return this.setRows.manager;
-  }
+export class TypeormFigureSetsStore implements FigureSetsStore {
+  constructor(@InjectRepository(FigureSetEntity) private readonly setRows: Repository<FigureSetEntity>) {}
+  /** Transactions, and the joins of reads, run on the manager of this feature's own repositories. */
+  private get ds(): EntityManager { return this.setRows.manager; }
 
   insert(set: NewFigureSet): Promise<FigureSetEntity> {
     const repo = this.ds.getRepository(FigureSetEntity);

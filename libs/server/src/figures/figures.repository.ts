@@ -116,18 +116,13 @@ async function enforcedPaletteIn(em: EntityManager, publicationId: string): Prom
 const SORT_COLUMNS: Record<FigureSort, string> = { updatedAt: 'f.updated_at', createdAt: 'f.created_at', title: 'f.title', status: 'f.status' };
 
 @Injectable()
-export class TypeormFiguresStore extends FiguresStore {
+export class TypeormFiguresStore implements FiguresStore {
   constructor(
     @InjectRepository(FigureEntity) private readonly figureRows: Repository<FigureEntity>,
     @InjectRepository(FigureVersionEntity) private readonly versionRows: Repository<FigureVersionEntity>,
-  ) {
-    super();
-  }
-
-  /** Transactions and the joins of reads go through the manager of this feature's own repositories. */
-  private get ds(): EntityManager {
-    return this.figureRows.manager;
-  }
+  ) {}
+  /** Transactions, and the joins of reads, run on the manager of this feature's own repositories. */
+  private get ds(): EntityManager { return this.figureRows.manager; }
 
   private async insertFigure(em: EntityManager, figure: { publicationId: string; title: string; ownerId: string }, version: NewVersion) {
     const f = await em.getRepository(FigureEntity).save(em.getRepository(FigureEntity).create({ ...figure, status: 'draft', currentVersion: 1 }));

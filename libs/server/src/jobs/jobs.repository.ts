@@ -63,17 +63,10 @@ export abstract class JobsStore {
 }
 
 @Injectable()
-export class TypeormJobsStore extends JobsStore {
-  constructor(
-    @InjectRepository(JobEntity) private readonly jobRows: Repository<JobEntity>,
-  ) {
-    super();
-  }
-
-  /** Transactions and the joins of reads go through the manager of this feature's own repositories. */
-  private get ds(): EntityManager {
-    return this.jobRows.manager;
-  }
+export class TypeormJobsStore implements JobsStore {
+  constructor(@InjectRepository(JobEntity) private readonly jobRows: Repository<JobEntity>) {}
+  /** Transactions, and the joins of reads, run on the manager of this feature's own repositories. */
+  private get ds(): EntityManager { return this.jobRows.manager; }
 
   private get jobs() {
     return this.ds.getRepository(JobEntity);

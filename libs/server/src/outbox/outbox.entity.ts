@@ -1,4 +1,5 @@
-import { Column, CreateDateColumn, Entity, Index, PrimaryGeneratedColumn } from 'typeorm';
+import { Column, Entity, Index } from 'typeorm';
+import { IdColumn, CreatedAt } from '../db/columns';
 import type { JobName } from '@psiform/contracts';
 
 /**
@@ -17,40 +18,19 @@ export type OutboxState = (typeof OUTBOX_STATES)[number];
 @Entity({ name: 'outbox' })
 @Index('ix_outbox_state_due', ['state', 'dueAt'])
 export class OutboxEntity {
-  @PrimaryGeneratedColumn('uuid')
-  id: string;
-
+  @IdColumn() id: string;
   /** A job name of the job contract (libs/contracts jobs.ts); the payload was checked against its schema. */
-  @Column({ type: 'varchar', length: 40 })
-  name: JobName;
-
-  @Column({ type: 'jsonb' })
-  payload: Record<string, unknown>;
-
-  @Column({ type: 'varchar', length: 12, default: 'pending' })
-  state: OutboxState;
-
+  @Column({ type: 'varchar', length: 40 }) name: JobName;
+  @Column({ type: 'jsonb' }) payload: Record<string, unknown>;
+  @Column({ type: 'varchar', length: 12, default: 'pending' }) state: OutboxState;
   /** BullMQ attempts for this job (null: the job name's default). */
-  @Column({ name: 'max_attempts', type: 'int', nullable: true })
-  maxAttempts: number | null;
-
+  @Column({ name: 'max_attempts', type: 'int', nullable: true }) maxAttempts: number | null;
   /** Relay attempts that failed (queue unreachable); the next one waits dueAt. */
-  @Column({ name: 'relay_attempts', type: 'int', default: 0 })
-  relayAttempts: number;
-
-  @Column({ name: 'last_error', type: 'text', nullable: true })
-  lastError: string | null;
-
+  @Column({ name: 'relay_attempts', type: 'int', default: 0 }) relayAttempts: number;
+  @Column({ name: 'last_error', type: 'text', nullable: true }) lastError: string | null;
   /** When the relay (pending) or the sweeper (relayed) looks at the row next. */
-  @Column({ name: 'due_at', type: 'timestamptz', default: () => 'now()' })
-  dueAt: Date;
-
-  @Column({ name: 'relayed_at', type: 'timestamptz', nullable: true })
-  relayedAt: Date | null;
-
-  @Column({ name: 'done_at', type: 'timestamptz', nullable: true })
-  doneAt: Date | null;
-
-  @CreateDateColumn({ name: 'created_at', type: 'timestamptz' })
-  createdAt: Date;
+  @Column({ name: 'due_at', type: 'timestamptz', default: () => 'now()' }) dueAt: Date;
+  @Column({ name: 'relayed_at', type: 'timestamptz', nullable: true }) relayedAt: Date | null;
+  @Column({ name: 'done_at', type: 'timestamptz', nullable: true }) doneAt: Date | null;
+  @CreatedAt() createdAt: Date;
 }

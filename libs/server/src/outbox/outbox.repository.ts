@@ -45,17 +45,10 @@ export abstract class OutboxStore {
 }
 
 @Injectable()
-export class TypeormOutboxStore extends OutboxStore {
-  constructor(
-    @InjectRepository(OutboxEntity) private readonly outboxRows: Repository<OutboxEntity>,
-  ) {
-    super();
-  }
-
-  /** Transactions and the joins of reads go through the manager of this feature's own repositories. */
-  private get ds(): EntityManager {
-    return this.outboxRows.manager;
-  }
+export class TypeormOutboxStore implements OutboxStore {
+  constructor(@InjectRepository(OutboxEntity) private readonly outboxRows: Repository<OutboxEntity>) {}
+  /** Transactions, and the joins of reads, run on the manager of this feature's own repositories. */
+  private get ds(): EntityManager { return this.outboxRows.manager; }
 
   private get rows() {
     return this.ds.getRepository(OutboxEntity);

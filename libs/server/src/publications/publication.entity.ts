@@ -1,25 +1,15 @@
-import { Column, CreateDateColumn, Entity, PrimaryGeneratedColumn } from 'typeorm';
+import { Column, Entity } from 'typeorm';
+import { IdColumn, CreatedAt } from '../db/columns';
 import type { PublicationDto, PublicationKind } from '@psiform/contracts';
 
 @Entity({ name: 'publications' })
 export class PublicationEntity {
-  @PrimaryGeneratedColumn('uuid')
-  id: string;
-
-  @Column({ type: 'varchar', length: 300 })
-  title: string;
-
-  @Column({ type: 'varchar', length: 200 })
-  publisher: string;
-
-  @Column({ type: 'varchar', length: 20 })
-  kind: PublicationKind;
-
-  @Column({ type: 'text', default: '' })
-  description: string;
-
-  @CreateDateColumn({ name: 'created_at', type: 'timestamptz' })
-  createdAt: Date;
+  @IdColumn() id: string;
+  @Column({ type: 'varchar', length: 300 }) title: string;
+  @Column({ type: 'varchar', length: 200 }) publisher: string;
+  @Column({ type: 'varchar', length: 20 }) kind: PublicationKind;
+  @Column({ type: 'text', default: '' }) description: string;
+  @CreatedAt() createdAt: Date;
 }
 
 export function toPublicationDto(p: PublicationEntity): PublicationDto {

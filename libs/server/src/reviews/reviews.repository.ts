@@ -59,18 +59,13 @@ export abstract class ReviewsStore {
 }
 
 @Injectable()
-export class TypeormReviewsStore extends ReviewsStore {
+export class TypeormReviewsStore implements ReviewsStore {
   constructor(
     @InjectRepository(ReviewRoundEntity) private readonly roundRows: Repository<ReviewRoundEntity>,
     @InjectRepository(CommentEntity) private readonly commentRows: Repository<CommentEntity>,
-  ) {
-    super();
-  }
-
-  /** Transactions and the joins of reads go through the manager of this feature's own repositories. */
-  private get ds(): EntityManager {
-    return this.roundRows.manager;
-  }
+  ) {}
+  /** Transactions, and the joins of reads, run on the manager of this feature's own repositories. */
+  private get ds(): EntityManager { return this.roundRows.manager; }
 
   findFigure(id: string) {
     return this.ds.getRepository(FigureEntity).findOne({ where: { id } });

@@ -40,21 +40,16 @@ export abstract class SwatchbooksStore {
 }
 
 @Injectable()
-export class TypeormSwatchbooksStore extends SwatchbooksStore {
+export class TypeormSwatchbooksStore implements SwatchbooksStore {
   constructor(
     @InjectRepository(SwatchbookEntity) private readonly bookRows: Repository<SwatchbookEntity>,
     @InjectRepository(SwatchbookVersionEntity) private readonly bookVersionRows: Repository<SwatchbookVersionEntity>,
     @InjectRepository(HouseStyleEntity) private readonly houseRows: Repository<HouseStyleEntity>,
     @InjectRepository(BatchEntity) private readonly batchRows: Repository<BatchEntity>,
     @InjectRepository(BatchItemEntity) private readonly batchItemRows: Repository<BatchItemEntity>,
-  ) {
-    super();
-  }
-
-  /** Transactions and the joins of reads go through the manager of this feature's own repositories. */
-  private get ds(): EntityManager {
-    return this.bookRows.manager;
-  }
+  ) {}
+  /** Transactions, and the joins of reads, run on the manager of this feature's own repositories. */
+  private get ds(): EntityManager { return this.bookRows.manager; }
 
   private async snapshot(em: EntityManager, s: SwatchbookEntity, action: SwatchbookVersionDto['action'], authorId: string | null) {
     const repo = em.getRepository(SwatchbookVersionEntity);
