@@ -2,7 +2,6 @@ import { parseRecipe, type FigureStatus, type Recipe } from '@psiform/contracts'
 import { ConflictError, FiguresStore, recipeHash, type FigureEntity, type FigureVersionEntity, type FigureWriteTx, type NewAuditEntry, type NewJob, type PaletteColours } from '@psiform/server';
 import { FiguresService } from './figures.service';
 import type { MembershipService } from '../publications/membership.service';
-import type { AccessPolicy } from '../publications/access-policy';
 import type { AssetStore } from '@psiform/server';
 import type { JobsService } from '../jobs/jobs.service';
 
@@ -60,12 +59,13 @@ class FakeFigures extends FiguresStore {
   ownerName = async () => null;
   list = () => Promise.reject(new Error('unused'));
   setThumbnail = () => Promise.reject(new Error('unused'));
+  swatchbookHome = () => Promise.reject(new Error('unused'));
 }
 
 const caller = { id: 'ill', role: 'illustrator' as const };
 const setup = () => {
   const store = new FakeFigures();
-  const svc = new FiguresService(store, {} as MembershipService, {} as AccessPolicy, {} as AssetStore, {} as JobsService);
+  const svc = new FiguresService(store, {} as MembershipService, {} as AssetStore, {} as JobsService);
   return { store, svc };
 };
 

@@ -16,8 +16,8 @@ import {
   type NewVersion,
   type PaletteColours,
 } from '@psiform/server';
-import { MembershipService } from '../publications/membership.service';
-import { AccessPolicy } from '../publications/access-policy';
+import { isUUID } from 'class-validator';
+import { MembershipService, guarded, scopeOf } from '../publications/membership.service';
 import { LINK_TTL_SECONDS } from '../assets/assets.service';
 import { JobsService } from '../jobs/jobs.service';
 import type { CreateFigureBody, ListFiguresQuery, UpdateFigureBody } from './figures.dto';
@@ -55,7 +55,6 @@ export class FiguresService {
   constructor(
     private readonly store: FiguresStore,
     private readonly membership: MembershipService,
-    private readonly policy: AccessPolicy,
     private readonly assets: AssetStore,
     private readonly jobs: JobsService,
   ) {}
@@ -111,7 +110,7 @@ export class FiguresService {
   }
 
   async create(user: Caller, body: CreateFigureBody): Promise<FigureDto> {
-    await this.policy.requireFigureCreate(user, body.publicationId);
+    await this.membership.requireAccess(user, body.publicationId);
     const recipe = validateRecipe(body.recipe);
     await this.checkSource(recipe, body.publicationId);
     const { figure, version } = await this.saveFirst(user, { publicationId: body.publicationId, title: body.title }, recipe);
@@ -130,7 +129,7 @@ export class FiguresService {
    */
   async update(user: Caller, id: string, body: UpdateFigureBody): Promise<FigureDto> {
     const figure = await this.requireFigure(user, id);
-    await this.policy.requireFigureEdit(user, figure);
+    await this.membership.authorize(user, 'figure.edit', guarded.figure(figure));
     const recipe = body.recipe === undefined ? undefined : validateRecipe(body.recipe);
     if (recipe) await this.checkSource(recipe, figure.publicationId);
     const saved = await this.saveVersion(user, figure.id, { recipe, title: body.title, reason: 'edit' });
@@ -193,7 +192,7 @@ export class FiguresService {
   /** Queues a mesh job for the current version. */
   async requestMesh(user: Caller, id: string): Promise<CreateJobResponse> {
     const figure = await this.requireFigure(user, id);
-    await this.policy.requireFigureEdit(user, figure);
+    await this.membership.authorize(user, 'figure.mesh', guarded.figure(figure));
     const version = await this.currentVersion(figure);
     const job = await this.jobs.enqueue({ type: 'mesh', params: {}, publicationId: figure.publicationId, figureId: figure.id, figureVersionId: version.id, requestedBy: user.id });
     return { jobId: job.id };
@@ -216,8 +215,17 @@ export class FiguresService {
     return v;
   }
 
-  /** An upload source must name an uploaded cube of the same publication, with the same content. */
+  /**
+   * What a recipe refers to must be of the figure's publication: an upload source an uploaded cube of it with the same
+   * content; a named swatchbook one of it or of its publisher (unless the house palette replaces it anyway), so no
+   * other publication's palette flows into this one's figures. 400 naming the field; nothing is stored.
+   */
   private async checkSource(recipe: Recipe, publicationId: string): Promise<void> {
+    const named = recipe.palette.swatchbookId;
+    if (named !== null && !(await this.store.enforcedPalette(publicationId))) {
+      const [home, pub] = await Promise.all([isUUID(named) ? this.store.swatchbookHome(named) : null, this.membership.findPublication(publicationId)]);
+      if (!home || !pub || !MembershipService.reaches(scopeOf(home), pub)) throw new BadRequestException([`recipe.palette.swatchbookId: no swatchbook ${named} in this publication`]);
+    }
     const src = recipe.source;
     if (!src || src.kind !== 'upload') return;
     const asset = await this.assets.findById(src.assetId);

@@ -7,23 +7,23 @@ const trim = ({ value }: { value: unknown }) => (typeof value === 'string' ? val
 
 export class CreatePublicationBody implements CreatePublicationRequest {
   @Transform(trim)
-  @IsString()
   @IsNotEmpty({ message: 'title must not be empty' })
   @MaxLength(300)
+  @IsString()
   title: string;
 
   @Transform(trim)
-  @IsString()
   @IsNotEmpty({ message: 'publisher must not be empty' })
   @MaxLength(200)
+  @IsString()
   publisher: string;
 
   @IsIn(PUBLICATION_KINDS as readonly string[], { message: `kind must be one of: ${PUBLICATION_KINDS.join(', ')}` })
   kind: PublicationKind;
 
   @OptionalNotNull()
-  @IsString()
   @MaxLength(5000)
+  @IsString()
   description?: string;
 }
 

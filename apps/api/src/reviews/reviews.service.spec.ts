@@ -1,7 +1,7 @@
 import { BadRequestException, ConflictException, ForbiddenException, NotFoundException } from '@nestjs/common';
 import type { FigureStatus, MailNoticeJob, UserDto } from '@psiform/contracts';
-import { ConflictError, type FigureEntity, type FigureVersionEntity, type NewAuditEntry, ReviewsStore, type HouseRules, type ReviewTx, type ReviewRoundEntity, type CommentEntity } from '@psiform/server';
-import type { MembershipService } from '../publications/membership.service';
+import { ConflictError, type FigureEntity, type FigureVersionEntity, type NewAuditEntry, ReviewsStore, type HouseRules, type ReviewTx, type ReviewRoundEntity, type CommentEntity, type PublicationsStore } from '@psiform/server';
+import { MembershipService } from '../publications/membership.service';
 import type { DeliveryProfilesService } from '../delivery-profiles/delivery-profiles.service';
 import { ReviewsService } from './reviews.service';
 import { toHttpException } from '../common/http-error.filter';
@@ -95,7 +95,11 @@ class FakeStore extends ReviewsStore {
 function setup(members = ['ill', 'ed', 'ad'], failures: string[] = []) {
   const preflight = { figureId: 'f', versionNumber: 1, reports: [], failures, blocksApproval: failures.length > 0 };
   const store = new FakeStore();
-  const membership = { canAccess: async (u: { id: string; role: string }) => u.role === 'admin' || members.includes(u.id) } as unknown as MembershipService;
+  // The real access rules over a fake membership list: every publication exists, these users belong to it.
+  const membership = new MembershipService({
+    findById: async (id: string) => ({ id, publisher: 'P' }),
+    isMember: async (_p: string, userId: string) => members.includes(userId),
+  } as unknown as PublicationsStore);
   return { store, sent: store.notices, svc: new ReviewsService(store, membership, { preflightOf: async () => preflight } as unknown as DeliveryProfilesService) };
 }
 

@@ -8,19 +8,19 @@ const trim = ({ value }: { value: unknown }) => (typeof value === 'string' ? val
 
 export class CreateUserBody implements CreateUserRequest {
   @Transform(trimLower)
-  @IsEmail({}, { message: 'email must be a valid email address' })
   @MaxLength(320)
+  @IsEmail({}, { message: 'email must be a valid email address' })
   email: string;
 
   @Transform(trim)
-  @IsString({ message: 'displayName must be a string' })
   @IsNotEmpty({ message: 'displayName must not be empty' })
   @MaxLength(120)
+  @IsString({ message: 'displayName must be a string' })
   displayName: string;
 
-  @IsString()
   @MinLength(MIN_PASSWORD_LENGTH, { message: `password must be at least ${MIN_PASSWORD_LENGTH} characters` })
   @MaxUtf8Bytes(72) // bcrypt reads only the first 72 bytes
+  @IsString()
   password: string;
 
   @IsIn(ROLES as readonly string[], { message: `role must be one of: ${ROLES.join(', ')}` })

@@ -38,8 +38,12 @@ export interface AppConfig {
    * throttling also count per client address, since only then is that address the client's and not a proxy's.
    */
   http: { port: number; host: string; webDist: string | undefined; trustProxy: TrustProxy };
-  /** Largest accepted cube file of POST /api/uploads, in bytes (UPLOAD_MAX_BYTES). */
-  uploads: { maxBytes: number };
+  /**
+   * Largest accepted cube file of POST /api/uploads, in bytes (UPLOAD_MAX_BYTES); orphanAgeSeconds: after how long
+   * the leftovers of an upload whose API process died (temporary objects, unfinished multipart uploads, cubes no
+   * asset refers to) are swept (UPLOAD_ORPHAN_AGE_SECONDS).
+   */
+  uploads: { maxBytes: number; orphanAgeSeconds: number };
   /** requestsPerMinute: general rate limit per signed-in account or client address (RATE_LIMIT_PER_MINUTE; 0 = off). */
   limits: { requestsPerMinute: number };
 }
@@ -94,6 +98,7 @@ export const DEFAULTS = {
   RENDER_TIMEOUT_MS: '120000',
   OUTBOX_SWEEP_MS: '30000',
   OUTBOX_STALE_MS: '60000',
+  UPLOAD_ORPHAN_AGE_SECONDS: '21600',
   RATE_LIMIT_PER_MINUTE: '1200',
 } as const;
 
@@ -231,7 +236,10 @@ export function loadConfig(env: Env): AppConfig {
       webDist: r.optional('WEB_DIST'),
       trustProxy: r.trustProxy('TRUST_PROXY'),
     },
-    uploads: { maxBytes: r.int('UPLOAD_MAX_BYTES', DEFAULTS.UPLOAD_MAX_BYTES, 1, 17179869184) },
+    uploads: {
+      maxBytes: r.int('UPLOAD_MAX_BYTES', DEFAULTS.UPLOAD_MAX_BYTES, 1, 17179869184),
+      orphanAgeSeconds: r.int('UPLOAD_ORPHAN_AGE_SECONDS', DEFAULTS.UPLOAD_ORPHAN_AGE_SECONDS, 1, 31_536_000),
+    },
     limits: { requestsPerMinute: r.int('RATE_LIMIT_PER_MINUTE', DEFAULTS.RATE_LIMIT_PER_MINUTE, 0, 1_000_000) },
   };
   r.done();

@@ -19,6 +19,7 @@ import { FigureSetEntity } from '../exports/figure-set.entity';
 import { StudioExports1764979200000 } from './migrations/1764979200000-StudioExports';
 import { FigureSetExports1765238400000 } from './migrations/1765238400000-FigureSetExports';
 import { PrintProduction1765411200000 } from './migrations/1765411200000-PrintProduction';
+import { SwatchbookScope1796200000000 } from './migrations/1796200000000-SwatchbookScope';
 import { DeliveryProfileEntity } from '../delivery-profiles/delivery-profile.entity';
 import { OutboxEntity } from '../outbox/outbox.entity';
 import { Outbox1796188459275 } from './migrations/1796188459275-Outbox';
@@ -32,7 +33,7 @@ export const ENTITIES = [UserEntity, PublicationEntity, MembershipEntity, Figure
   SwatchbookEntity, SwatchbookVersionEntity, HouseStyleEntity, BatchEntity, BatchItemEntity, ReviewRoundEntity, CommentEntity, AuditEntryEntity, FigureSetEntity, DeliveryProfileEntity,
   OutboxEntity];
 export const MIGRATIONS = [Foundation1764633600000, FigureJobs1764720000000, EditorialReview1764806400000, StudioExports1764979200000, FigureSetExports1765238400000, PrintProduction1765411200000,
-  Outbox1796188459275];
+  Outbox1796188459275, SwatchbookScope1796200000000];
 
 export function dataSourceOptions(url: string, extra: { poolSize?: number } = {}): DataSourceOptions {
   return {

@@ -76,6 +76,8 @@ export abstract class FiguresStore {
   abstract inFigureTransaction<T>(figureId: string, fn: (tx: FigureWriteTx) => Promise<T>): Promise<T>;
   /** The enforced palette of a publication (for a new figure); see FigureWriteTx.enforcedPalette. */
   abstract enforcedPalette(publicationId: string): Promise<PaletteColours | null>;
+  /** Where a swatchbook a recipe names belongs (one publication, or a publisher's every publication); null if none. */
+  abstract swatchbookHome(swatchbookId: string): Promise<Pick<SwatchbookEntity, 'publicationId' | 'publisher'> | null>;
   abstract list(filter: FigureListFilter): Promise<{ rows: FigureListRow[]; total: number }>;
   /** Points the figure at a thumbnail when the version is still its current one; false otherwise. */
   abstract setThumbnail(figureId: string, figureVersionId: string, assetId: string): Promise<boolean>;
@@ -183,6 +185,10 @@ export class TypeormFiguresStore implements FiguresStore {
 
   enforcedPalette(publicationId: string): Promise<PaletteColours | null> {
     return enforcedPaletteIn(this.ds, publicationId);
+  }
+
+  swatchbookHome(swatchbookId: string) {
+    return this.ds.getRepository(SwatchbookEntity).findOne({ where: { id: swatchbookId }, select: { id: true, publicationId: true, publisher: true } });
   }
 
   async list(filter: FigureListFilter): Promise<{ rows: FigureListRow[]; total: number }> {

@@ -8,6 +8,9 @@ export class SwatchbookEntity {
   @IdColumn() id: string;
   @Column({ type: 'varchar', length: 120 }) name: string;
   @UuidColumn('owner_id') ownerId: string;
+  /** Where it belongs: one publication, or (publisher set instead) every publication of that publisher. */
+  @UuidColumn('publication_id', true) publicationId: string | null;
+  @Column({ type: 'varchar', length: 200, nullable: true }) publisher: string | null;
   @Column({ type: 'jsonb' }) colors: SwatchbookColorsDto;
   @Column({ type: 'boolean', default: false }) locked: boolean;
   @Column({ type: 'int', default: 1 }) version: number;
@@ -29,7 +32,7 @@ export class SwatchbookVersionEntity {
 }
 
 export function toSwatchbookDto(s: SwatchbookEntity): SwatchbookDto {
-  return { id: s.id, name: s.name, ownerId: s.ownerId, colors: s.colors, locked: s.locked, version: s.version, createdAt: s.createdAt.toISOString(), updatedAt: s.updatedAt.toISOString() };
+  return { id: s.id, name: s.name, ownerId: s.ownerId, publicationId: s.publicationId, publisher: s.publisher, colors: s.colors, locked: s.locked, version: s.version, createdAt: s.createdAt.toISOString(), updatedAt: s.updatedAt.toISOString() };
 }
 
 export function toSwatchbookVersionDto(v: SwatchbookVersionEntity): SwatchbookVersionDto {
