@@ -22,9 +22,9 @@ const common = {
 /** Two projects per app: unit specs beside the code (fakes only) and e2e specs on the real services. */
 function nestJestConfig(rootDir, { e2eTimeout }) {
   return {
-    // Unit specs mesh real (tiny) grids: on the shared, busy cores 5 s was not always enough. The e2e projects set
-    // their own, longer timeout in jest.e2e-setup.js (Jest reads testTimeout only at the top level).
-    testTimeout: 30000,
+    // testTimeout is a global option: inside `projects` Jest ignores it (measured: e2e hooks and tests stopped at the
+    // 5 s default), so it is set here for both projects (unit specs mesh real, tiny grids on busy shared cores too).
+    testTimeout: e2eTimeout,
     projects: [
       { ...common, displayName: 'unit', rootDir, testMatch: ['<rootDir>/src/**/*.spec.ts'] },
       // testTimeout is a global Jest option and is ignored inside `projects`, so the e2e project sets it in a set-up file.

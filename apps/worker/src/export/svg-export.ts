@@ -1,8 +1,8 @@
 import type { ExportParams, Recipe } from '@psiform/contracts';
 import { autoExtent, type OrbitalState } from '@psiform/orbitals';
 import { radialPlotSvg, sectionMapSvg, type FontBytes, type PlotPalette } from '@psiform/print';
+import { recipeState as stateOf } from '@psiform/meshing';
 import { latoFonts, withFallbackWhereNeeded } from './fonts';
-import { stateOf } from '../mesh/mesh-pipeline';
 
 /** An SVG export's parameters: the job contract's svg params (libs/contracts jobs.ts) without the format tag. */
 export type SvgParams = Omit<Extract<ExportParams, { format: 'svg' }>, 'format'>;

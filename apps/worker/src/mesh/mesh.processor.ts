@@ -2,7 +2,7 @@ import { Injectable } from '@nestjs/common';
 import { UnrecoverableError } from 'bullmq';
 import { parseRecipe } from '@psiform/contracts';
 import { AssetStore, ENGINE_VERSION, MESH_PROGRESS, ObjectStorage, type TrackedJobHandler, type TrackedOutcome, type TrackedRun } from '@psiform/server';
-import { buildMesh } from './mesh-build';
+import { buildMesh } from './mesh-assets';
 
 export interface MeshDone {
   jobId: string;

@@ -15,6 +15,8 @@ const FIG_VX = '1a2b3c4d-0004-4000-8000-00000000000d';
 const FIG_VZ = '1a2b3c4d-0005-4000-8000-00000000000e';
 const J1 = '1a2b3c4d-0006-4000-8000-00000000000f';
 
+// Fresh meshes run the real engine (all-space level, surface analysis, sampling): allow for a busy machine.
+jest.setTimeout(60_000);
 afterAll(() => closeParallelSampler());
 
 const recipeFor = (m: number, label: string): Recipe => {

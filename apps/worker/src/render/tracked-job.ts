@@ -1,8 +1,7 @@
 import { UnrecoverableError } from 'bullmq';
 import { parseRecipe, type ExportStage, type Recipe } from '@psiform/contracts';
 import { AssetStore, ObjectStorage, meshKey, type JobContext, type NewAsset, type TrackedRun } from '@psiform/server';
-import { buildMesh } from '../mesh/mesh-build';
-import { gridLabel } from '../mesh/mesh-pipeline';
+import { buildMesh, gridLabel } from '../mesh/mesh-assets';
 
 /**
  * Helpers of render and export jobs (their lifecycle is the job runner's, libs/server jobs/job-runner.ts).
