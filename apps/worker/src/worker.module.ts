@@ -25,13 +25,7 @@ export class WorkerModule {
       providers: [
         { provide: WORKER_CONFIG, useValue: config },
         HealthPingProcessor,
-        {
-          provide: MeshJobProcessor,
-          inject: [AssetStore, ObjectStorage, ThumbnailScheduler],
-          // THUMBNAILS=off: no thumbnail render after mesh jobs.
-          useFactory: (assets: AssetStore, storage: ObjectStorage, thumbs: ThumbnailScheduler) =>
-            new MeshJobProcessor(assets, storage, undefined, config.render.thumbnails ? thumbs.schedule : undefined),
-        },
+        { provide: MeshJobProcessor, inject: [AssetStore, ObjectStorage], useFactory: (assets: AssetStore, storage: ObjectStorage) => new MeshJobProcessor(assets, storage) },
         // Without SMTP_URL the notice handler is registered but disabled, so notices wait for a worker that can send.
         { provide: MailNoticeProcessor, useFactory: () => new MailNoticeProcessor(config.smtp ? new SmtpMailer({ smtp: config.smtp }) : null) },
         {
@@ -41,9 +35,10 @@ export class WorkerModule {
         },
         {
           provide: JobRunner,
-          inject: [REDIS_CONNECTION, JOB_HANDLERS, JobsStore, OutboxStore],
-          useFactory: (redis: Redis, handlers: JobHandler[], jobs: JobsStore, outbox: OutboxStore) =>
-            new JobRunner(redis, handlers, jobs, outbox, { concurrency: config.concurrency, lockMs: config.lockMs }),
+          inject: [REDIS_CONNECTION, JOB_HANDLERS, JobsStore, OutboxStore, ThumbnailScheduler],
+          // Every job that stores a new mesh gets the figure's thumbnail after it (THUMBNAILS=off: none).
+          useFactory: (redis: Redis, handlers: JobHandler[], jobs: JobsStore, outbox: OutboxStore, thumbs: ThumbnailScheduler) =>
+            new JobRunner(redis, handlers, jobs, outbox, { concurrency: config.concurrency, lockMs: config.lockMs, afterMesh: config.render.thumbnails ? thumbs.schedule : undefined }),
         },
       ],
     };

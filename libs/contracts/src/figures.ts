@@ -123,6 +123,8 @@ export interface JobDto {
   error?: string | null;
   figureId?: string | null;
   assets: AssetDto[];
+  /** What the job's files cannot show truthfully: every distinct warning on its assets' mesh summaries. */
+  warnings?: SurfaceWarningDto[];
   timings?: Record<string, number> | null;
   createdAt: string;
   updatedAt: string;
@@ -140,6 +142,8 @@ export interface CreateJobResponse {
 export interface AssetLinkDto {
   url: string;
   expiresAt: string;
+  /** The name the file downloads under (the storage answers the link as an attachment with this name). */
+  fileName: string;
 }
 
 /**

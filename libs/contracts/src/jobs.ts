@@ -45,6 +45,8 @@ export const renderParamsSchema = z
     figureSetId: uuid.optional(),
     columns: positiveInt.optional(),
     title: z.string().optional(),
+    /** Printed under the set's panels. */
+    caption: z.string().nullable().optional(),
     panels: z.array(z.object({ figureId: uuid, figureVersionId: uuid }).strict()).optional(),
   })
   .strict();

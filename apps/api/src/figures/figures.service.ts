@@ -1,5 +1,5 @@
 import { BadRequestException, Injectable, NotFoundException } from '@nestjs/common';
-import type { CreateJobResponse, FigureDto, FigureSummaryDto, Page, Recipe, UserDto } from '@psiform/contracts';
+import type { CreateJobResponse, FigureDto, FigureSummaryDto, LengthUnit, Page, Recipe, UserDto } from '@psiform/contracts';
 import {
   AssetStore,
   ConflictError,
@@ -25,6 +25,17 @@ import { validateRecipe } from './recipe-input';
 
 type Caller = Pick<UserDto, 'id' | 'role'>;
 
+/**
+ * One length unit per figure, the publication's choice: every version saved states its lengths (scale bar,
+ * section-map axes, radial plot) in the publication's unit.
+ */
+export function inLengthUnit(recipe: Recipe, unit: LengthUnit | undefined): Recipe {
+  if (!unit || recipe.annotations.scaleBar.unit === unit) return recipe;
+  // A fixed bar length was chosen in the old unit; the bar picks a round length in the new one instead.
+  const { length: _old, ...bar } = recipe.annotations.scaleBar;
+  return { ...recipe, annotations: { ...recipe.annotations, scaleBar: { ...bar, unit } } };
+}
+
 /** What a write changes: a recipe (a new version when it differs), a title, or both. */
 export interface VersionChange {
   recipe?: Recipe;
@@ -47,8 +58,11 @@ export interface SavedVersion {
   jobId?: string;
 }
 
-/** The house palette, where the publication enforces one, applied to a recipe. */
-const housed = (recipe: Recipe, pinned: PaletteColours | null): Recipe => (pinned ? withPalette(recipe, pinned) : recipe);
+/** The publication's house rules applied to a recipe: its length unit, and its palette where it enforces one. */
+const housed = (recipe: Recipe, pinned: PaletteColours | null, unit: LengthUnit | undefined): Recipe => {
+  const r = inLengthUnit(recipe, unit);
+  return pinned ? withPalette(r, pinned) : r;
+};
 
 @Injectable()
 export class FiguresService {
@@ -80,7 +94,8 @@ export class FiguresService {
       let version = tx.current;
       let created = false;
       if (change.recipe) {
-        const next = this.newVersion(housed(change.recipe, await tx.enforcedPalette()), caller);
+        const unit = (await this.membership.findPublication(tx.figure.publicationId))?.lengthUnit;
+        const next = this.newVersion(housed(change.recipe, await tx.enforcedPalette(), unit), caller);
         if (next.recipeHash !== tx.current.recipeHash || tx.current.locked) {
           version = await tx.addVersion(next);
           created = true;
@@ -104,7 +119,8 @@ export class FiguresService {
 
   /** Version 1 of a new figure (POST, uploads), with the house palette; an uploaded cube's asset row in the same transaction. */
   async saveFirst(caller: Caller, figure: { publicationId: string; title: string }, recipe: Recipe, asset?: Omit<NewAsset, 'figureVersionId'> & { id: string }): Promise<{ figure: FigureEntity; version: FigureVersionEntity }> {
-    const v = this.newVersion(housed(recipe, await this.store.enforcedPalette(figure.publicationId)), caller);
+    const unit = (await this.membership.findPublication(figure.publicationId))?.lengthUnit;
+    const v = this.newVersion(housed(recipe, await this.store.enforcedPalette(figure.publicationId), unit), caller);
     const fields = { ...figure, ownerId: caller.id };
     return asset ? this.store.createWithAsset(fields, v, asset) : this.store.create(fields, v);
   }

@@ -2,7 +2,7 @@ import { ForbiddenException, NotFoundException } from '@nestjs/common';
 import { MembershipService, guarded, refusalOf } from './membership.service';
 import { PublicationsStore, type NewPublication, type PublicationEntity, type UserEntity } from '@psiform/server';
 
-const pub = (id: string): PublicationEntity => ({ id, title: id, publisher: 'P', kind: 'book', description: '', createdAt: new Date(0) });
+const pub = (id: string): PublicationEntity => ({ id, title: id, publisher: 'P', kind: 'book', description: '', lengthUnit: 'angstrom', createdAt: new Date(0) });
 
 class FakeStore extends PublicationsStore {
   pubs = [pub('a'), pub('b')];
@@ -27,6 +27,9 @@ class FakeStore extends PublicationsStore {
   }
   async listMembers(): Promise<UserEntity[]> {
     return [];
+  }
+  async setLengthUnit(): Promise<void> {
+    throw new Error('not used');
   }
 }
 

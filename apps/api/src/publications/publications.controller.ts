@@ -1,8 +1,8 @@
-import { Body, Controller, Get, Param, Post } from '@nestjs/common';
+import { Body, Controller, Get, Param, Post, Put } from '@nestjs/common';
 import type { MembershipDto, PublicationDto, UserDto } from '@psiform/contracts';
 import { CurrentUser, Roles } from '../auth/auth.decorators';
 import { uuidParam } from '../common/uuid-param.pipe';
-import { AddMemberBody, CreatePublicationBody } from './publications.dto';
+import { AddMemberBody, CreatePublicationBody, LengthUnitBody } from './publications.dto';
 import { PublicationsService } from './publications.service';
 
 @Controller('publications')
@@ -23,6 +23,12 @@ export class PublicationsController {
   @Get(':id')
   get(@CurrentUser() user: UserDto, @Param('id', uuidParam('id')) id: string): Promise<PublicationDto> {
     return this.publications.get(user, id);
+  }
+
+  @Put(':id/length-unit')
+  @Roles('admin', 'art_director')
+  setLengthUnit(@CurrentUser() user: UserDto, @Param('id', uuidParam('id')) id: string, @Body() body: LengthUnitBody): Promise<PublicationDto> {
+    return this.publications.setLengthUnit(user, id, body.lengthUnit);
   }
 
   @Get(':id/members')

@@ -1,7 +1,7 @@
 import { Transform } from 'class-transformer';
 import { IsIn, IsNotEmpty, IsString, IsUUID, MaxLength } from 'class-validator';
 import { OptionalNotNull } from '../common/validation';
-import { PUBLICATION_KINDS, type AddMemberRequest, type CreatePublicationRequest, type PublicationKind } from '@psiform/contracts';
+import { LENGTH_UNITS, PUBLICATION_KINDS, type AddMemberRequest, type CreatePublicationRequest, type LengthUnit, type LengthUnitRequest, type PublicationKind } from '@psiform/contracts';
 
 const trim = ({ value }: { value: unknown }) => (typeof value === 'string' ? value.trim() : value);
 
@@ -30,4 +30,9 @@ export class CreatePublicationBody implements CreatePublicationRequest {
 export class AddMemberBody implements AddMemberRequest {
   @IsUUID('all', { message: 'userId must be a UUID' })
   userId: string;
+}
+
+export class LengthUnitBody implements LengthUnitRequest {
+  @IsIn(LENGTH_UNITS as readonly string[], { message: `lengthUnit must be one of: ${LENGTH_UNITS.join(', ')}` })
+  lengthUnit: LengthUnit;
 }

@@ -1,5 +1,5 @@
-import { ConflictException, Injectable, NotFoundException } from '@nestjs/common';
-import type { CreatePublicationRequest, MembershipDto, PublicationDto, UserDto } from '@psiform/contracts';
+import { ConflictException, ForbiddenException, Injectable, NotFoundException } from '@nestjs/common';
+import type { CreatePublicationRequest, LengthUnit, MembershipDto, PublicationDto, UserDto } from '@psiform/contracts';
 import { PublicationsStore, toPublicationDto, toUserDto, UsersStore } from '@psiform/server';
 import { MembershipService } from './membership.service';
 
@@ -31,6 +31,14 @@ export class PublicationsService {
       throw new ConflictException(`user ${userId} is already a member of publication ${publicationId}`);
     }
     return { publicationId, userId };
+  }
+
+  /** The one length unit of the publication's figures (applied to every figure version saved from now on). */
+  async setLengthUnit(user: UserDto, publicationId: string, unit: LengthUnit): Promise<PublicationDto> {
+    await this.membership.requireAccess(user, publicationId);
+    if (user.role !== 'admin' && user.role !== 'art_director') throw new ForbiddenException('only admins and art directors choose the length unit of a publication');
+    await this.store.setLengthUnit(publicationId, unit);
+    return toPublicationDto((await this.store.findById(publicationId))!);
   }
 
   async members(user: UserDto, publicationId: string): Promise<UserDto[]> {

@@ -6,6 +6,8 @@ import { FIGURE_STATUSES, type FigureStatus, type FigureSummaryDto } from '@psif
 import { describeError, type FigureListParams, type FigureSortKey } from '../api/client';
 import { useApi } from '../auth/AuthProvider';
 import { formatDate, statusLabel } from './model';
+import { Typeset } from '../components/Typeset';
+import { plainLabel } from '@psiform/print';
 
 export const PAGE_SIZE = 25;
 /** Typing pauses this long before the search is sent. */
@@ -71,7 +73,7 @@ export function FigureThumbnail({ figure }: { figure: Pick<FigureSummaryDto, 'ti
       height={THUMB_HEIGHT}
       loading="lazy"
       decoding="async"
-      alt={figure.label ? `${figure.title} (${figure.label})` : figure.title}
+      alt={figure.label ? `${figure.title} (${plainLabel(figure.label)})` : figure.title}
       onError={() => setFailed(true)}
       data-testid="figure-thumb"
     />
@@ -208,7 +210,7 @@ export function FiguresTable({ publicationId, pageSize = PAGE_SIZE }: { publicat
                       {f.title}
                     </Link>
                   </td>
-                  <td data-testid="figure-label">{f.label ?? '—'}</td>
+                  <td data-testid="figure-label">{f.label ? <Typeset text={f.label} /> : '—'}</td>
                   <td>
                     <Tag minimal intent={statusIntent(f.status)} data-testid="figure-status">
                       {statusLabel(f.status)}

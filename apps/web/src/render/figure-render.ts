@@ -5,6 +5,7 @@ import { recipeLabel } from '../figures/model';
 import { disposeGeometries, geometryFromArrays, loadGlbGeometries, splitNodal, triangleCount, type PhaseGeometry } from '../scene/geometry';
 import { axisTips, type PlacedInfo } from '../scene/OrbitalScene';
 import { drawOverlay, inkFor } from '../scene/overlay';
+import { phaseKeyColours } from '../scene/phaseKeyColours';
 import { maxRadius } from '../scene/framing';
 import { bytesToBase64, encodeFigurePng } from './pixels';
 import { checkRequest, type CheckedRequest, type RenderResult } from './request';
@@ -96,6 +97,8 @@ async function renderFigure(host: RenderHandle, req: CheckedRequest, loaded: Pha
         visibleWidthBohr: info.framing.visibleHeight * (W / H),
         ink: inkFor(bg),
         axisLetters: letters,
+        // A figure coloured by arg ψ carries its phase key in the 2D layer (the same colours as the GLB's surfaces).
+        phaseKey: phaseKeyColours(recipe),
       }),
   );
   const tRender = performance.now() - t1;
@@ -174,6 +177,7 @@ async function renderSet(host: RenderHandle, req: CheckedRequest, loaded: PhaseG
         visibleWidthBohr: 0,
         ink,
         axisLetters: letters[cell.index],
+        phaseKey: phaseKeyColours(p.recipe),
       });
       ctx.restore();
     }

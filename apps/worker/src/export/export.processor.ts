@@ -2,7 +2,9 @@ import { Injectable } from '@nestjs/common';
 import { UnrecoverableError } from 'bullmq';
 import { DEFAULT_DELIVERY_PROFILE, type ColourMode, type DeliveryProfile, type PressConditionId, type Recipe } from '@psiform/contracts';
 import { AssetStore, CONTENT_TYPES, ENGINE_VERSION, ObjectStorage, exportKey, sha256Hex, type NewAsset, type TrackedJobHandler, type TrackedOutcome, type TrackedRun } from '@psiform/server';
-import { buildBundle, preflightReport, preflightText, type BundleFile, type PreflightSubject } from '@psiform/print';
+import { buildBundle, plotAlt, preflightReport, preflightText, type BundleFile, type PreflightSubject } from '@psiform/print';
+import { recipeState, screenGlbFromArchival, screenTolerance } from '@psiform/meshing';
+import { compileState } from '@psiform/orbitals';
 import type { FigureRenderer } from '../render/figure-renderer';
 import { EXPORT_PROGRESS, ensureMesh, versionOf, type TrackedJob } from '../render/tracked-job';
 import { companionSvg, figureSvg, type SvgParams } from './svg-export';
@@ -15,14 +17,6 @@ export const BUNDLE_DEFAULT_PNG = { widthMm: 89, heightMm: 60, dpi: 300, widthPx
 interface PrintColour {
   colour?: ColourMode;
   pressCondition?: PressConditionId;
-}
-
-/** The words a plot companion carries as alt text: its SVG title, and title + description as the long text. */
-export function plotAlt(svg: string): { short: string; long: string } {
-  const un = (x: string) => x.replace(/&lt;/g, '<').replace(/&gt;/g, '>').replace(/&quot;/g, '"').replace(/&apos;/g, "'").replace(/&amp;/g, '&');
-  const title = un(/<title>([\s\S]*?)<\/title>/.exec(svg)?.[1] ?? '');
-  const desc = un(/<desc>([\s\S]*?)<\/desc>/.exec(svg)?.[1] ?? '');
-  return { short: title, long: `${title}. ${desc}`.trim() };
 }
 
 /**
@@ -139,6 +133,7 @@ export class ExportJobProcessor implements TrackedJobHandler<'export'> {
       subjects.push(rasterSubject('figure.tif', 'tiff', await tiffFacts(tiff), pngSize, recipe, alt));
     }
     if (recipe.source?.kind !== 'upload') {
+      files.push({ name: 'figure-screen.glb', bytes: await screenGlb(recipe, mesh.glb, mesh.stats, version.engineVersion || this.engineVersion) });
       const svgParams: SvgParams = { kind: 'radial', plane: 'xz', offset: 0, levels: 4, widthMm: recipe.canvas.widthMm, heightMm: recipe.canvas.heightMm };
       const svgText = companionSvg(recipe, svgParams);
       files.push({ name: 'radial.svg', bytes: new TextEncoder().encode(svgText) });
@@ -174,4 +169,20 @@ export class ExportJobProcessor implements TrackedJobHandler<'export'> {
   private deps() {
     return { assets: this.assets, storage: this.storage, engineVersion: this.engineVersion };
   }
+}
+
+/**
+ * The screen GLB beside the archival one (libs/meshing optimise.ts): decimated to a quarter pixel of a 2160-pixel
+ * display, checked against the analytic surface, quantised and meshopt-compressed.
+ */
+async function screenGlb(recipe: Recipe, archival: Uint8Array, stats: Record<string, unknown>, version: string): Promise<Uint8Array> {
+  const ref = stats.refinement as { surfaceHalfWidth?: number } | null | undefined;
+  const halfWidth = ref?.surfaceHalfWidth ?? Number((stats.grid as { extent?: number } | undefined)?.extent);
+  return screenGlbFromArchival(archival, {
+    version,
+    field: compileState(recipeState(recipe)),
+    isovalue: Number(stats.isovalue),
+    tolerance: screenTolerance(halfWidth),
+    colouring: { palette: recipe.palette, mode: recipe.phase?.mode },
+  });
 }

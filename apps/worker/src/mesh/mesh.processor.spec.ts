@@ -2,7 +2,8 @@ import { UnrecoverableError } from 'bullmq';
 import { parseRecipe } from '@psiform/contracts';
 import { AssetStore, JobsStore, ObjectStorage, meshKey, recipeHash, type JobContext, type NewAsset, type StoredObject } from '@psiform/server';
 import { closeParallelSampler } from '@psiform/orbitals/node';
-import { MeshJobProcessor, type MeshDone } from './mesh.processor';
+import type { AfterMesh, MeshDone } from '@psiform/server';
+import { MeshJobProcessor } from './mesh.processor';
 import { NoOutbox, lifecycle } from '../testing/lifecycle';
 
 // Each job runs the real engine (all-space level, surface analysis, sampling on worker threads): allow for a busy machine.
@@ -68,14 +69,15 @@ class FakeAssets extends AssetStore {
   findForVersion = () => Promise.resolve([]);
   keyReferenced = () => Promise.resolve(false);
   presignGet = () => Promise.resolve('');
+  nameFacts = () => Promise.resolve(null);
 }
 
 const J1 = '0b6f7c1e-2d3a-4b5c-9d8e-7f6a5b4c3d2e';
 const GONE = '9e8d7c6b-5a4f-4e3d-8c2b-1a0f9e8d7c6b';
 const job = (attemptsMade = 0, id = J1) => ({ id: `bull-${id}`, name: 'mesh', data: { jobId: id, params: {} }, attemptsMade, opts: { attempts: 3 } });
 /** The handler run through the job runner's own lifecycle (stages, retries, completion, failure recording). */
-const runner = (jobs: FakeJobs, p: MeshJobProcessor) => ({
-  process: (j: ReturnType<typeof job>) => lifecycle(jobs, new NoOutbox()).process('psiform-mesh', p, j),
+const runner = (jobs: FakeJobs, p: MeshJobProcessor, afterMesh?: AfterMesh) => ({
+  process: (j: ReturnType<typeof job>) => lifecycle(jobs, new NoOutbox(), afterMesh).process('psiform-mesh', p, j),
   onFailed: (j: ReturnType<typeof job>, e: Error, final: boolean) => lifecycle(jobs, new NoOutbox()).recordFailure(p, j, e, final),
 });
 
@@ -127,14 +129,14 @@ describe('MeshJobProcessor', () => {
     expect(jobs.log.at(-1)).toMatch(/^fail:the stored recipe is not valid: grid\.n: grid\.n must be at least 16/);
   });
 
-  it('afterMesh (thumbnails) runs after the completion; its failure is logged and the mesh job still succeeds', async () => {
+  it("the runner's after-mesh hook (thumbnails) runs after the completion; its failure is logged and the mesh job still succeeds", async () => {
     const jobs = new FakeJobs();
     const seen: unknown[] = [];
-    const ok = runner(jobs, new MeshJobProcessor(new FakeAssets(), {} as ObjectStorage, 'test-engine', async (d: MeshDone) => void seen.push({ ...d, log: [...jobs.log] })));
+    const ok = runner(jobs, new MeshJobProcessor(new FakeAssets(), {} as ObjectStorage, 'test-engine'), async (d: MeshDone) => void seen.push({ ...d, log: [...jobs.log] }));
     await ok.process(job());
     expect(seen).toEqual([{ jobId: J1, figureId: 'f1', figureVersionId: 'v1', publicationId: 'p1', assetIds: ['asset-0', 'asset-1'], log: expect.arrayContaining([expect.stringMatching(/^complete:/)]) }]);
     const jobs2 = new FakeJobs();
-    const failing = runner(jobs2, new MeshJobProcessor(new FakeAssets(), {} as ObjectStorage, 'test-engine', () => Promise.reject(new Error('no browser'))));
+    const failing = runner(jobs2, new MeshJobProcessor(new FakeAssets(), {} as ObjectStorage, 'test-engine'), () => Promise.reject(new Error('no browser')));
     await expect(failing.process(job())).resolves.toEqual({ jobId: J1, assetIds: ['asset-0', 'asset-1'] });
     expect(jobs2.log.some((l) => l.startsWith('fail:') || l.startsWith('requeue:'))).toBe(false);
   });
@@ -144,7 +146,7 @@ describe('MeshJobProcessor', () => {
     const cut = parseRecipe({ version: 1, content: { Z: 1, terms: [{ n: 2, l: 1, m: 0, basis: 'real', re: 1 }] }, grid: { n: 20, extent: 3 }, surface: { rule: 'enclosed', fraction: 0.9 } });
     if (!cut.ok) throw new Error('bad test recipe');
     jobs.version = { ...jobs.version!, recipe: cut.recipe, recipeHash: recipeHash(cut.recipe) };
-    await new MeshJobProcessor(jobs, new FakeAssets(), {} as ObjectStorage, 'test-engine').process(job());
+    await runner(jobs, new MeshJobProcessor(new FakeAssets(), {} as ObjectStorage, 'test-engine')).process(job());
     for (const a of jobs.completed) {
       const s = a.stats as unknown as { warnings: { code: string }[]; enclosed: number; enclosedError: number; enclosedInBox: number; surfaces: { watertight: boolean }[]; units: { length: string }; conventions: string };
       expect(s.warnings.map((w: { code: string }) => w.code)).toContain('box-cuts-surface');

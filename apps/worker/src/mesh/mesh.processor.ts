@@ -4,14 +4,6 @@ import { parseRecipe } from '@psiform/contracts';
 import { AssetStore, ENGINE_VERSION, MESH_PROGRESS, ObjectStorage, type TrackedJobHandler, type TrackedOutcome, type TrackedRun } from '@psiform/server';
 import { buildMesh } from './mesh-assets';
 
-export interface MeshDone {
-  jobId: string;
-  figureId: string;
-  figureVersionId: string;
-  publicationId: string;
-  assetIds: string[];
-}
-
 /**
  * Mesh jobs: sampling -> threshold -> extracting -> encoding -> storing -> done, each stage written to the Job
  * row by the runner (what the api streams). Outputs go to content-derived keys (recipe hash, engine version, grid),
@@ -28,8 +20,6 @@ export class MeshJobProcessor implements TrackedJobHandler<'mesh'> {
     private readonly assets: AssetStore,
     private readonly storage: ObjectStorage,
     private readonly engineVersion: string = ENGINE_VERSION,
-    /** Called after a successful completion (the worker schedules the figure's thumbnail here); errors are logged. */
-    private readonly afterMesh?: (done: MeshDone) => Promise<void>,
   ) {}
 
   async run(t: TrackedRun<'mesh'>): Promise<TrackedOutcome> {
@@ -45,12 +35,8 @@ export class MeshJobProcessor implements TrackedJobHandler<'mesh'> {
       (stage) => t.stage(stage),
     );
     const { timings, assets: out } = built;
+    // The runner calls the after-mesh hook (the figure's thumbnail) once these rows are stored, as for every job that meshes.
+    t.madeMesh(version.id);
     return { timings, assets: out };
-  }
-
-  /** Thumbnails and the like: never fail (or delay the completion of) the mesh job; the runner logs errors. */
-  async afterComplete(t: TrackedRun<'mesh'>, assetIds: string[]): Promise<void> {
-    if (!this.afterMesh || !t.ctx.figure || !t.ctx.version) return;
-    await this.afterMesh({ jobId: t.id, figureId: t.ctx.figure.id, figureVersionId: t.ctx.version.id, publicationId: t.ctx.job.publicationId, assetIds });
   }
 }

@@ -72,6 +72,7 @@ class FakeAssets extends AssetStore {
   findByIds = () => Promise.resolve([]);
   keyReferenced = () => Promise.resolve(false);
   presignGet = () => Promise.resolve('');
+  nameFacts = () => Promise.resolve(null);
 }
 
 const storage = { get: async (key: string) => new TextEncoder().encode(`stored:${key}`) } as unknown as ObjectStorage;

@@ -20,6 +20,7 @@ import {
 } from '@psiform/server';
 import type { FigureRenderer } from './figure-renderer';
 import { EXPORT_PROGRESS, ensureMesh, versionOf, type TrackedJob } from './tracked-job';
+import { printGlb } from '../mesh/mesh-assets';
 
 /**
  * Render jobs (QUEUES.render): a print PNG of the figure's current version, or its thumbnail after a mesh job.
@@ -53,9 +54,11 @@ export class RenderJobProcessor implements TrackedJobHandler<'render'> {
     const { version, recipe } = versionOf(t.ctx);
     const total = performance.now();
     const mesh = await ensureMesh({ assets: this.assets, storage: this.storage, engineVersion: this.engineVersion }, t, version, recipe);
+    // Thumbnails draw the stored mesh; a print finer than it gets surfaces refined to its quarter pixel.
+    const print = p.thumbnail ? null : await printGlb(recipe, mesh.stats, { widthPx: p.widthPx, heightPx: p.heightPx }, this.engineVersion);
     await t.stage('rendering');
     const transparent = p.transparent ?? undefined;
-    const out = await this.renderer.render({ recipe, glb: mesh.glb, widthPx: p.widthPx, heightPx: p.heightPx, dpi: p.dpi, transparent });
+    const out = await this.renderer.render({ recipe, glb: print?.glb ?? mesh.glb, widthPx: p.widthPx, heightPx: p.heightPx, dpi: p.dpi, transparent });
     await t.stage('encoding'); // finishPng and the checks ran inside render(); the stage marks the hand-over
     await t.stage('storing');
     const ts = performance.now();
@@ -71,6 +74,8 @@ export class RenderJobProcessor implements TrackedJobHandler<'render'> {
       ms,
       tiles: out.tiles,
       triangles: out.triangles,
+      // How far the drawn surface may lie from the true one (a0): a quarter pixel, or the stored mesh's tolerance.
+      surfaceTolerance: print?.tolerance ?? (mesh.stats.refinement as { tolerance?: number } | null | undefined)?.tolerance ?? null,
       ...(p.thumbnail ? { thumbnail: true } : {}),
       engineVersion: this.engineVersion,
       recipeHash: version.recipeHash,
@@ -109,9 +114,11 @@ export class RenderJobProcessor implements TrackedJobHandler<'render'> {
     const colour = p.colour ?? profile.colourMode;
     const pressCondition = p.pressCondition ?? profile.pressCondition;
     const mesh = await ensureMesh({ assets: this.assets, storage: this.storage, engineVersion: this.engineVersion }, t, version, recipe);
+    // As for PNG: a print finer than the stored mesh gets surfaces refined to its quarter pixel.
+    const print = await printGlb(recipe, mesh.stats, { widthPx: p.widthPx, heightPx: p.heightPx }, this.engineVersion);
     await t.stage('rendering');
     const alpha = colour === 'rgb' && p.alpha === true;
-    const out = await this.renderer.render({ recipe, glb: mesh.glb, widthPx: p.widthPx, heightPx: p.heightPx, dpi: p.dpi, transparent: alpha ? (p.transparent ?? undefined) : false });
+    const out = await this.renderer.render({ recipe, glb: print?.glb ?? mesh.glb, widthPx: p.widthPx, heightPx: p.heightPx, dpi: p.dpi, transparent: alpha ? (p.transparent ?? undefined) : false });
     await t.stage('encoding');
     const te = performance.now();
     const bg = recipe.stage.background;

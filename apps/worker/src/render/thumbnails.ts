@@ -1,10 +1,10 @@
 import { Logger } from '@nestjs/common';
 import { THUMBNAIL } from '@psiform/contracts';
-import { JobsStore } from '@psiform/server';
-import type { MeshDone } from '../mesh/mesh.processor';
+import { JobsStore, type MeshDone } from '@psiform/server';
 
 /**
- * After each successful mesh job: a render job (own Job row, requested by nobody) for a 320 × 240 px thumbnail,
+ * After each job that stored a new mesh (the runner's after-mesh hook: mesh jobs, and renders, exports and figure
+ * sets that meshed first): a render job (own Job row, requested by nobody) for a 320 × 240 px thumbnail,
  * requested through the outbox like every job (JobsStore.request: row + outbox row in one transaction). It runs on the
  * render queue, so the mesh job completes without waiting for Chromium; a failure only leaves the figure without a
  * thumbnail (logged; the render job row says why).

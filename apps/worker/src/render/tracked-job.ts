@@ -10,7 +10,7 @@ import { buildMesh, gridLabel } from '../mesh/mesh-assets';
 export const EXPORT_PROGRESS: Record<ExportStage, number> = { queued: 0, meshing: 5, rendering: 30, encoding: 70, storing: 90, done: 100 };
 
 /** What ensureMesh needs of a running render/export job: its row and the stage reporter (the runner's). */
-export type TrackedJob = Pick<TrackedRun<'render' | 'export'>, 'id' | 'ctx' | 'stage'>;
+export type TrackedJob = Pick<TrackedRun<'render' | 'export'>, 'id' | 'ctx' | 'stage' | 'madeMesh'>;
 
 /** The job's figure version and its parsed recipe, or an UnrecoverableError. */
 export function versionOf(ctx: JobContext): { version: NonNullable<JobContext['version']>; recipe: Recipe } {
@@ -57,5 +57,6 @@ export async function ensureMesh(
   const t0 = performance.now();
   await t.stage('meshing');
   const built = await buildMesh(deps, { recipe, version, publicationId: t.ctx.job.publicationId }, async () => undefined);
+  t.madeMesh(version.id);
   return { glb: built.files.glb, stl: async () => built.files.stl, stats: built.stats, newAssets: built.assets, existing: {}, meshMs: Math.round(performance.now() - t0) };
 }

@@ -1,4 +1,4 @@
-import { JobLifecycle, JobsStore, OutboxStore, type OutboxEntity } from '@psiform/server';
+import { JobLifecycle, JobsStore, OutboxStore, type AfterMesh, type OutboxEntity } from '@psiform/server';
 
 /** An outbox with no rows (jobs added straight to a queue, as the unit specs do); records done/failed marks. */
 export class NoOutbox extends OutboxStore {
@@ -33,6 +33,6 @@ export class NoJobs extends JobsStore {
 }
 
 /** The runner's own lifecycle over fake stores: handlers are unit-tested through exactly the code the runner uses. */
-export function lifecycle(jobs: JobsStore = new NoJobs(), outbox: OutboxStore = new NoOutbox()): JobLifecycle {
-  return new JobLifecycle(jobs, outbox);
+export function lifecycle(jobs: JobsStore = new NoJobs(), outbox: OutboxStore = new NoOutbox(), afterMesh?: AfterMesh): JobLifecycle {
+  return new JobLifecycle(jobs, outbox, afterMesh);
 }

@@ -44,6 +44,20 @@ export interface StoredObject {
   reused: boolean;
 }
 
+/** What names a stored file for download: its figure (or figure set), the version's label, the publication's template. */
+export interface AssetNameFacts {
+  kind: string;
+  stats: Record<string, unknown> | null;
+  publicationId: string;
+  publicationTitle: string;
+  figureTitle: string | null;
+  versionNumber: number | null;
+  recipe: unknown;
+  setTitle: string | null;
+  /** The publication's delivery-profile file-name template; null while it has no profile (the default's applies). */
+  fileNameTemplate: string | null;
+}
+
 export const sha256Hex = (bytes: Uint8Array) => createHash('sha256').update(bytes).digest('hex');
 
 /**
@@ -59,7 +73,10 @@ export abstract class AssetStore {
   abstract findByIds(ids: string[]): Promise<AssetEntity[]>;
   abstract findForVersion(figureVersionId: string): Promise<AssetEntity[]>;
   abstract keyReferenced(key: string): Promise<boolean>;
-  abstract presignGet(key: string, expiresInSeconds: number): Promise<string>;
+  /** opts.disposition: the Content-Disposition the storage answers the link with (e.g. an attachment's name). */
+  abstract presignGet(key: string, expiresInSeconds: number, opts?: { disposition?: string }): Promise<string>;
+  /** The facts a download name is made from (one read across the rows that describe the file); null if no such asset. */
+  abstract nameFacts(id: string): Promise<AssetNameFacts | null>;
 }
 
 @Injectable()
@@ -98,8 +115,26 @@ export class S3AssetStore extends AssetStore {
     return this.assets.exists({ where: { storageKey: key } });
   }
 
-  presignGet(key: string, expiresInSeconds: number): Promise<string> {
-    return this.storage.presignGet(key, expiresInSeconds);
+  presignGet(key: string, expiresInSeconds: number, opts?: { disposition?: string }): Promise<string> {
+    return this.storage.presignGet(key, expiresInSeconds, opts);
+  }
+
+  async nameFacts(id: string): Promise<AssetNameFacts | null> {
+    const rows = (await this.assets.query(
+      `SELECT a.kind, a.stats, a.publication_id AS "publicationId", p.title AS "publicationTitle",
+              f.title AS "figureTitle", v.number AS "versionNumber", v.recipe, s.title AS "setTitle",
+              d.profile->>'fileNameTemplate' AS "fileNameTemplate"
+         FROM assets a
+         JOIN publications p ON p.id = a.publication_id
+         LEFT JOIN figure_versions v ON v.id = a.figure_version_id
+         LEFT JOIN figures f ON f.id = v.figure_id
+         LEFT JOIN figure_sets s ON s.png_asset_id = a.id
+         LEFT JOIN delivery_profiles d ON d.publication_id = a.publication_id
+        WHERE a.id = $1
+        LIMIT 1`,
+      [id],
+    )) as AssetNameFacts[];
+    return rows[0] ?? null;
   }
 }
 

@@ -12,6 +12,8 @@ export class FigureSetEntity {
   @Column({ type: 'varchar', length: 200 }) title: string;
   @Column({ name: 'figure_ids', type: 'uuid', array: true }) figureIds: string[];
   @Column({ type: 'int' }) columns: number;
+  /** Printed under the panels of the set's PNG (migration FigureUnitsAndSetCaptions). */
+  @Column({ type: 'text', nullable: true }) caption: string | null;
   /** The latest exported PNG of the set (migration FigureSetExports). */
   @UuidColumn('png_asset_id', true) pngAssetId: string | null;
   @UuidColumn('created_by', true) createdBy: string | null;
@@ -19,5 +21,5 @@ export class FigureSetEntity {
 }
 
 export function toFigureSetDto(s: FigureSetEntity): FigureSetDto {
-  return { id: s.id, publicationId: s.publicationId, title: s.title, figureIds: s.figureIds, columns: s.columns, pngAssetId: s.pngAssetId ?? null, createdBy: s.createdBy, createdAt: s.createdAt.toISOString() };
+  return { id: s.id, publicationId: s.publicationId, title: s.title, figureIds: s.figureIds, columns: s.columns, caption: s.caption ?? null, pngAssetId: s.pngAssetId ?? null, createdBy: s.createdBy, createdAt: s.createdAt.toISOString() };
 }

@@ -16,7 +16,25 @@ export interface TrackedRun<N extends TrackedJobName> {
   readonly attempts: number;
   /** Writes a stage and its progress (the handler's `progress` table) to the row; the first call marks it active. */
   stage(stage: string): Promise<void>;
+  /**
+   * Tells the runner this run computed the mesh of a figure version (a mesh job, or a render/export/figure set that
+   * meshed first): once the completion is stored, the runner calls the after-mesh hook (the figure's thumbnail).
+   */
+  madeMesh(figureVersionId: string): void;
 }
+
+/** A mesh stored by a completed job: what the after-mesh hook gets. */
+export interface MeshDone {
+  jobId: string;
+  figureId: string;
+  figureVersionId: string;
+  publicationId: string;
+  /** The mesh's asset rows (glb, stl). */
+  assetIds: string[];
+}
+
+/** Called once per figure version whose mesh a job made (the worker schedules the figure's thumbnail). */
+export type AfterMesh = (done: MeshDone) => Promise<void>;
 
 /** What a tracked handler hands back: the runner stores the asset rows and completes the row in ONE transaction. */
 export interface TrackedOutcome {

@@ -5,13 +5,17 @@ import { JOB_QUEUE, parseJob, type JobOf, type TrackedJobName } from '@psiform/c
 import { JobsStore } from './jobs.repository';
 import { OutboxStore } from '../outbox/outbox.repository';
 import { cappedBackoffMs } from './job-options';
-import { checkHandlers, type JobHandler, type PlainJobHandler, type TrackedJobHandler, type TrackedRun } from './job-handler';
+import { checkHandlers, type AfterMesh, type JobHandler, type PlainJobHandler, type TrackedJobHandler, type TrackedRun } from './job-handler';
+import type { JobContext } from './jobs.repository';
+import type { NewAsset } from '../assets/asset-store';
 
 export interface JobRunnerSettings {
   /** Jobs at once per queue and process unless the handler says otherwise (WORKER_CONCURRENCY). */
   concurrency: number;
   /** BullMQ lock of an active job; also the stalled-job check interval (WORKER_LOCK_MS). */
   lockMs: number;
+  /** After a job stored a mesh it made (any job kind): the figure's thumbnail. Absent: nothing follows. */
+  afterMesh?: AfterMesh;
 }
 
 const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
@@ -50,7 +54,7 @@ export class JobRunner {
   ) {
     checkHandlers(handlers);
     for (const h of handlers) this.byName.set(h.name, h);
-    this.lifecycle = new JobLifecycle(jobs, outbox);
+    this.lifecycle = new JobLifecycle(jobs, outbox, settings.afterMesh);
   }
 
   /** Starts a Worker for every queue that has an enabled handler. */
@@ -129,6 +133,7 @@ export class JobLifecycle {
   constructor(
     private readonly jobs: JobsStore,
     private readonly outbox: OutboxStore,
+    private readonly afterMesh?: AfterMesh,
   ) {}
 
   /** One job as BullMQ hands it over, to the handler registered for its name (undefined: none). */
@@ -162,11 +167,14 @@ export class JobLifecycle {
         await this.jobs.markActive(id, attempt, s, progress);
       } else await this.jobs.setStage(id, s, progress);
     };
-    const run = { id, data, params: data.params, ctx, attempt, attempts, stage } as TrackedRun<TrackedJobName>;
+    const meshed: string[] = [];
+    const run = { id, data, params: data.params, ctx, attempt, attempts, stage, madeMesh: (v: string) => void meshed.push(v) } as TrackedRun<TrackedJobName>;
     let assetIds: string[];
+    let assets: NewAsset[];
     try {
-      const { timings, assets } = await h.run(run as never);
-      assetIds = await this.jobs.complete(id, timings, assets);
+      const outcome = await h.run(run as never);
+      assets = outcome.assets;
+      assetIds = await this.jobs.complete(id, outcome.timings, assets);
     } catch (err) {
       const final = err instanceof UnrecoverableError || attempt >= attempts;
       if (final) await this.jobs.fail(id, readable(err));
@@ -174,6 +182,7 @@ export class JobLifecycle {
       throw err;
     }
     if (h.afterComplete) await h.afterComplete(run as never, assetIds).catch((e: Error) => this.log.warn(`after ${h.name} job ${id}: ${e.message}`));
+    if (this.afterMesh) await afterNewMeshes(this.afterMesh, id, ctx, meshed, assets, assetIds);
     return { jobId: id, assetIds };
   }
 
@@ -186,5 +195,25 @@ export class JobLifecycle {
     const rowId = (job.data as { jobId?: unknown } | undefined)?.jobId;
     if (h?.kind === 'tracked' && typeof rowId === 'string' && UUID.test(rowId)) await this.jobs.fail(rowId, readable(err));
     if (job.id && UUID.test(job.id)) await this.outbox.markFailed(job.id, readable(err));
+  }
+}
+
+/**
+ * The after-mesh hook for every figure version whose mesh a job made (TrackedRun.madeMesh), once its rows are stored:
+ * every figure with a mesh gets its thumbnail, whichever job made the mesh (a mesh job, a render, an export, a figure
+ * set's panels). Thumbnail renders are skipped (they never start another); errors are logged, never fail the job.
+ */
+export async function afterNewMeshes(afterMesh: AfterMesh, jobId: string, ctx: JobContext, meshed: readonly string[], assets: readonly NewAsset[], assetIds: readonly string[]): Promise<void> {
+  const params = (ctx.job.params ?? {}) as { thumbnail?: boolean; panels?: { figureId?: string; figureVersionId?: string }[] };
+  if (params.thumbnail) return;
+  const figureOf = (versionId: string): string | undefined =>
+    ctx.version?.id === versionId ? ctx.figure?.id : params.panels?.find((p) => p.figureVersionId === versionId)?.figureId;
+  for (const versionId of new Set(meshed)) {
+    const figureId = figureOf(versionId);
+    if (!figureId) continue;
+    const ids = assets.map((x, k) => (x.figureVersionId === versionId && (x.kind === 'glb' || x.kind === 'stl') ? assetIds[k] : null)).filter((x): x is string => x !== null);
+    await afterMesh({ jobId, figureId, figureVersionId: versionId, publicationId: ctx.job.publicationId, assetIds: ids }).catch((e: Error) =>
+      new Logger('AfterMesh').warn(`after the mesh made by job ${jobId}: ${e.message}`),
+    );
   }
 }

@@ -1,3 +1,4 @@
+import type { LengthUnit } from '@psiform/contracts';
 import { Injectable } from '@nestjs/common';
 import { InjectRepository } from '@nestjs/typeorm';
 import { Repository } from 'typeorm';
@@ -23,6 +24,7 @@ export abstract class PublicationsStore {
   /** Returns false when the pair already exists. */
   abstract addMember(publicationId: string, userId: string): Promise<boolean>;
   abstract listMembers(publicationId: string): Promise<UserEntity[]>;
+  abstract setLengthUnit(publicationId: string, unit: LengthUnit): Promise<void>;
 }
 
 @Injectable()
@@ -63,6 +65,10 @@ export class TypeormPublicationsStore extends PublicationsStore {
   async addMember(publicationId: string, userId: string): Promise<boolean> {
     const res = await this.members.createQueryBuilder().insert().values({ publicationId, userId }).orIgnore().execute();
     return (res.raw as unknown[]).length > 0;
+  }
+
+  async setLengthUnit(publicationId: string, unit: LengthUnit): Promise<void> {
+    await this.pubs.update({ id: publicationId }, { lengthUnit: unit });
   }
 
   listMembers(publicationId: string) {

@@ -20,7 +20,8 @@ export class BullJobQueue extends JobQueue implements OnApplicationShutdown {
   private queue(name: string): Queue {
     let q = this.queues.get(name);
     if (!q) {
-      // 'requests': an add fails quickly while Redis is down; the outbox row simply stays pending until it is back.
+      // 'requests' (request-redis.ts): an add fails quickly while Redis is down or stalled; the outbox row simply
+      // stays pending until it is back.
       this.connection ??= openRedis(this.config.redis.url, 'requests', 'Queue');
       q = new Queue(name, { connection: this.connection });
       q.on('error', () => undefined);

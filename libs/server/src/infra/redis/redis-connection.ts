@@ -1,10 +1,11 @@
 import { Logger } from '@nestjs/common';
 import Redis from 'ioredis';
+import { requestRedisOptions } from './request-redis';
 
 /**
  * The one way Psiform opens a Redis connection.
- * - 'requests' (api clients, queue producers): a command fails after one retry and a connect after 2 s, so a request
- *   path answers quickly while Redis is down instead of queueing commands for a long time.
+ * - 'requests' (api clients, queue producers): request-redis.ts's options: a command fails after one retry, a connect
+ *   after 2 s and a stalled command after 1 s, so a request path answers 503 quickly while Redis is down or stalled.
  * - 'worker' (BullMQ Workers): BullMQ requires maxRetriesPerRequest null (stack notes) and waits for Redis to return.
  * ioredis reconnects by itself; only the first error of each outage is logged (/api/health reports it).
  */
@@ -12,7 +13,7 @@ export function openRedis(url: string, role: 'requests' | 'worker', name = 'Redi
   const redis =
     role === 'worker'
       ? new Redis(url, { maxRetriesPerRequest: null })
-      : new Redis(url, { maxRetriesPerRequest: 1, connectTimeout: 2000, retryStrategy: (times) => Math.min(times * 200, 2000) });
+      : new Redis(url, requestRedisOptions());
   const log = new Logger(name);
   let down = false;
   redis.on('error', (err: Error) => {
