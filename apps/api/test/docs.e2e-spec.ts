@@ -56,7 +56,8 @@ describe('OpenAPI document (e2e)', () => {
     expect(Object.keys(recipe.properties)).toEqual(expect.arrayContaining(['version', 'content', 'grid', 'surface', 'palette', 'stage', 'annotations', 'canvas']));
     const term = recipe.properties.content.properties.terms.items;
     expect(term.properties.l.description).toBe('angular momentum quantum number: an integer, 0 ≤ l < n');
-    expect(recipe.properties.grid.properties.n).toMatchObject({ type: 'integer', minimum: 16, maximum: 384 });
+    // grid.n: 'auto' (the engine chooses) or an integer within the recipe's limits.
+    expect(recipe.properties.grid.properties.n.anyOf).toEqual(expect.arrayContaining([expect.objectContaining({ type: 'string', enum: ['auto'] }), expect.objectContaining({ type: 'integer', minimum: 16, maximum: 384 })]));
   });
 
   it('serves the document browser at /api/docs without a sign-in', async () => {

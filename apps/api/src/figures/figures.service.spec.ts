@@ -65,7 +65,7 @@ class FakeFigures extends FiguresStore {
 const caller = { id: 'ill', role: 'illustrator' as const };
 const setup = () => {
   const store = new FakeFigures();
-  const svc = new FiguresService(store, {} as MembershipService, {} as AssetStore, {} as JobsService);
+  const svc = new FiguresService(store, { findPublication: async () => null } as unknown as MembershipService, {} as AssetStore, {} as JobsService);
   return { store, svc };
 };
 
