@@ -54,8 +54,7 @@ describe('mesh pipeline (e2e)', () => {
   }
 
   beforeAll(async () => {
-    // Twenty jobs polled at once by one account would meet the general rate limit (security.e2e-spec tests it).
-    t = await startTestApp({ RATE_LIMIT_PER_MINUTE: '0' });
+    t = await startTestApp();
     await t.app.listen(0, '127.0.0.1');
     base = `http://127.0.0.1:${(t.app.getHttpServer().address() as AddressInfo).port}`;
     tok = await demoTokens(t);

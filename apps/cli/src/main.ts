@@ -79,22 +79,31 @@ async function cmdSample(argv: string[]): Promise<void> {
   const bytes = encodeDensityNrrd(cube, recipe);
   const written = writeFileAtomic(v.out as string, bytes);
   const t2 = performance.now();
+  // What the cube cannot show truthfully (probability outside the box, shells finer than the grid), as mesh does.
+  const report = cube.report;
+  for (const w of report.warnings) process.stderr.write(`psiform: warning: ${oneLine(w.message)}\n`);
   const json = {
     label: recipe.label ?? null,
     Z: recipe.content.Z,
     model: MODEL_NOTE,
     conventions: CONVENTIONS,
-    units: { ...UNITS, data: 'a0^-3 (|psi|^2 of the normalised state)' },
+    units: { ...UNITS, data: 'a0^-3 (|psi|^2 of the normalised state)', max_density: 'a0^-3', in_box: 'probability, 0..1', outside_box: 'probability, 0..1' },
     quantity: '|psi|^2 in a0^-3',
     grid: { n: cube.n, extent: cube.extent, spacing: cube.spacing },
     max_density: cube.max,
+    // Probability of the normalised state inside the box, over all space (not a sum of the samples).
+    in_box: report.inBox,
+    in_box_error: report.error,
+    outside_box: report.outside,
+    warnings: report.warnings,
     out: { file: v.out as string, bytes: written },
     timings_ms: { sample: round(t1 - t0, 1), encode_write: round(t2 - t1, 1) },
   };
   print(
     v.json
       ? JSON.stringify(json, null, 2)
-      : `${json.label ?? 'state'} (Z=${json.Z}): |psi|^2 on ${cube.n}^3 voxels over +/-${fmt(cube.extent)} a0 -> ${json.out.file} (${json.out.bytes} bytes)\nmodel: ${MODEL_NOTE}`,
+      : `${json.label ?? 'state'} (Z=${json.Z}): |psi|^2 on ${cube.n}^3 voxels over +/-${fmt(cube.extent)} a0 -> ${json.out.file} (${json.out.bytes} bytes)\n` +
+          `in the box: ${(100 * report.inBox).toFixed(report.inBox > 0.9999 ? 4 : 2)}% of the probability over all space\nmodel: ${MODEL_NOTE}`,
   );
 }
 

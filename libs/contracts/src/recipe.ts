@@ -15,12 +15,18 @@ export const RECIPE_VERSION = 1;
  * The sign conventions and the normalisation rule every figure follows, in one text: the CLI help, the API docs,
  * every mesh summary and the metadata sheet quote it (@psiform/meshing CONVENTIONS_NOTE is this constant).
  */
-export const ENGINE_CONVENTIONS =
-  'Y_lm carry the Condon–Shortley phase (-1)^m (as SciPy sph_harm); R_nl > 0 near the nucleus. Real forms: ' +
-  'm > 0 is the cos type, Y^c = [(-1)^m Y_lm + Y_l,-m]/sqrt2; m < 0 the sin type, Y^s = -i[(-1)^m Y_l|m| - Y_l,-|m|]/sqrt2, ' +
-  'so p_x, d_xz ... point along +x. Hybrids: textbook coefficients with each term multiplied by (-1)^(n-l-1), ' +
-  'so the large lobe is positive and points along the named direction. Coefficients are relative: the engine ' +
-  'scales them once so that sum |c|^2 = 1 over the orthonormal (complex Y_lm) expansion.';
+/**
+ * The sign conventions and the normalisation rule, one sentence per line: THE text the API docs, the recipe schema,
+ * exported metadata (ENGINE_CONVENTIONS) and the CLI's help (its lines, wrapped) all quote.
+ */
+export const ENGINE_CONVENTION_LINES = [
+  'Y_lm carry the Condon–Shortley phase (-1)^m (as SciPy sph_harm); R_nl > 0 near the nucleus.',
+  'Real forms: m > 0 is the cos type, Y^c = [(-1)^m Y_lm + Y_l,-m]/sqrt2; m < 0 the sin type, Y^s = -i[(-1)^m Y_l|m| - Y_l,-|m|]/sqrt2, so p_x, d_xz ... point along +x.',
+  'Hybrids: textbook coefficients with each term multiplied by (-1)^(n-l-1), so the large lobe is positive and points along the named direction.',
+  'Coefficients are relative: the engine scales them once so that sum |c|^2 = 1 over the orthonormal (complex Y_lm) expansion.',
+] as const;
+
+export const ENGINE_CONVENTIONS = ENGINE_CONVENTION_LINES.join(' ');
 
 /** Engine limits shared by the CLI, API, worker and web (memory: 384³ float32 ≈ 226 MB per field). */
 export const RECIPE_LIMITS = {

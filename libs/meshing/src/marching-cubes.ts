@@ -210,6 +210,23 @@ export function activeBlockFlags(range: BlockRange, level: number, inside: 'abov
  * Extract the isosurface field = level as an indexed, watertight, outward-oriented mesh.
  * field: nx*ny*nz values, x fastest (i = x + nx*(y + ny*z)).
  */
+/**
+ * Appends the triangles of cube case `ci` (bit c set: corner c inside) to idx from ni, with ev[e] the vertex id on
+ * edge e; returns the new length (at most 15 more). One copy for the dense and the coarse-to-fine kernels.
+ * With bits marking inside corners, Bourke's triangles wind clockwise seen from outside; (a, c, b) is emitted so
+ * the right-hand rule points outward.
+ */
+export function emitCellTriangles(ci: number, ev: Uint32Array, idx: Uint32Array, ni: number): number {
+  const tb = ci * 16;
+  for (let q = tb; q < tb + 15 && TRI_TABLE[q] >= 0; q += 3) {
+    idx[ni] = ev[TRI_TABLE[q]];
+    idx[ni + 1] = ev[TRI_TABLE[q + 2]];
+    idx[ni + 2] = ev[TRI_TABLE[q + 1]];
+    ni += 3;
+  }
+  return ni;
+}
+
 export function extractIsosurface(
   field: Float32Array,
   dims: GridDims,
@@ -487,21 +504,13 @@ export function extractIsosurface(
                   ev[e] = id;
                 }
               }
-              const tb = ci * 16;
               if (ni + 15 > icap) {
                 icap *= 2;
                 const i2 = new Uint32Array(icap);
                 i2.set(idx);
                 idx = i2;
               }
-              // With bits marking inside corners, Bourke's triangles wind clockwise seen from
-              // outside; emit (a, c, b) so the right-hand rule points outward.
-              for (let q = tb; TRI_TABLE[q] >= 0 && q < tb + 15; q += 3) {
-                idx[ni] = ev[TRI_TABLE[q]];
-                idx[ni + 1] = ev[TRI_TABLE[q + 2]];
-                idx[ni + 2] = ev[TRI_TABLE[q + 1]];
-                ni += 3;
-              }
+              ni = emitCellTriangles(ci, ev, idx, ni);
             }
           }
         }
