@@ -1,5 +1,5 @@
 import { Queue } from 'bullmq';
-import { QUEUES, RECIPE_LIMITS } from '@psiform/contracts';
+import { fractionProblem, gridProblem, QUEUES, RECIPE_LIMITS } from '@psiform/contracts';
 import { auth, demoTokens, login, runEmail, smallRecipe, startTestApp, DEMO_PUBLICATION, RUN_ID, type TestApp } from './support';
 import { waitFor } from './worker-process';
 
@@ -84,7 +84,8 @@ describe('figures (e2e)', () => {
     const after = (await t.http().patch(`/api/figures/${created.id}`).set(auth(tok.illustrator)).send({ recipe: smallRecipe({ grid: { n: 40 } }) }).expect(200)).body;
     expect(after.currentVersion).toMatchObject({ number: 3, locked: false });
     const bad = await t.http().patch(`/api/figures/${created.id}`).set(auth(tok.illustrator)).send({ recipe: smallRecipe({ grid: { n: 8 } }) }).expect(400);
-    expect(bad.body.message).toEqual([`recipe.grid.n: grid.n must be at least ${RECIPE_LIMITS.gridMin}`]);
+    // The words of contracts limits.ts gridProblem: the Composer shows the same under its grid field.
+    expect(bad.body.message).toEqual([`recipe.grid.n: grid.n ${gridProblem(8)}`]);
     const [{ n }] = await t.ds.query(`SELECT count(*)::int AS n FROM figure_versions WHERE figure_id = $1`, [created.id]);
     expect(n).toBe(3);
   });
@@ -136,10 +137,10 @@ describe('figures (e2e)', () => {
   describe('malformed recipes are refused with 400 naming the field, and nothing is stored or queued', () => {
     const cases: Array<[string, Record<string, unknown>, string]> = [
       ['l >= n', smallRecipe({ content: { Z: 1, terms: [{ n: 2, l: 2, m: 0, basis: 'real', re: 1 }] } }), 'recipe.content.terms.0.l: l must be less than n (got n=2, l=2)'],
-      ['grid over the limit', smallRecipe({ grid: { n: RECIPE_LIMITS.gridMax + 1 } }), `recipe.grid.n: grid.n must be at most ${RECIPE_LIMITS.gridMax}`],
+      ['grid over the limit', smallRecipe({ grid: { n: RECIPE_LIMITS.gridMax + 1 } }), `recipe.grid.n: grid.n ${gridProblem(RECIPE_LIMITS.gridMax + 1)}`],
       ['NaN as a string', smallRecipe({ content: { Z: 1, terms: [{ n: 2, l: 1, m: 0, basis: 'real', re: 'NaN' }] } }), 'recipe.content.terms.0.re: re must be a number'],
       ['null coefficient', smallRecipe({ content: { Z: 1, terms: [{ n: 2, l: 1, m: 0, basis: 'real', re: null }] } }), 'recipe.content.terms.0.re: re must be a number'],
-      ['fraction 1', smallRecipe({ surface: { rule: 'enclosed', fraction: 1 } }), 'recipe.surface.fraction: fraction must be between 0 and 1 (exclusive)'],
+      ['fraction 1', smallRecipe({ surface: { rule: 'enclosed', fraction: 1 } }), `recipe.surface.fraction: fraction ${fractionProblem(1)}`],
     ];
     it.each(cases)('%s', async (_name, recipe, message) => {
       const before = await counts();

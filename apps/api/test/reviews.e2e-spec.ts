@@ -105,7 +105,7 @@ describe('editorial review (e2e)', () => {
     const noNote = await post(`/api/figures/${id}/request-changes`, tok.editor, {}).expect(400);
     expect(noNote.body.message).toEqual(expect.arrayContaining(['note is required']));
     const long = await post(`/api/figures/${id}/request-changes`, tok.editor, { note: 'n'.repeat(2001) }).expect(400);
-    expect(long.body.message).toEqual(['note must be at most 2000 characters']);
+    expect(long.body.message).toEqual(['note must be at most 2000 characters (this one has 2001)']); // contracts textProblem, as the client shows it
     const note = 'The nodal plane should read clearly: enlarge the grid and lighten the negative lobe.';
     const changes = (await post(`/api/figures/${id}/request-changes`, tok.editor, { note }).expect(200)).body;
     expect(changes).toMatchObject({ fromStatus: 'in_review', status: 'changes_requested' });

@@ -1,6 +1,9 @@
 import { z } from 'zod';
 import { N_MAX, quantumNumberIssues } from './quantum';
-import { CANVAS_LIMITS, HEX_COLOUR, HEX_COLOUR_MESSAGE, TEXT_LIMITS } from './limits';
+import { fractionProblem, gridProblem, HEX_COLOUR, HEX_COLOUR_MESSAGE, isovalueProblem, mmProblem, RECIPE_LIMITS, TEXT_LIMITS, textProblem, zProblem } from './limits';
+
+/** The API's message for a limit: the field, then the very words the client shows (limits.ts). */
+const says = (field: string, problem: (v: unknown) => string | null) => (iss: { input?: unknown }) => `${field} ${problem(iss.input) ?? 'is not valid'}`;
 
 /**
  * The figure recipe: one versioned JSON document that fully describes a figure's content and look
@@ -28,18 +31,11 @@ export const ENGINE_CONVENTION_LINES = [
 
 export const ENGINE_CONVENTIONS = ENGINE_CONVENTION_LINES.join(' ');
 
-/** Engine limits shared by the CLI, API, worker and web (memory: 384³ float32 ≈ 226 MB per field). */
-export const RECIPE_LIMITS = {
-  nMax: N_MAX,
-  zMax: 118,
-  gridMin: 16,
-  gridMax: 384,
-  termsMax: 16,
-  extentMax: 2000,
-} as const;
-
-/** Starting values of a new figure, the same in the Composer, its presets and the CLI's help. */
-export const RECIPE_DEFAULTS = { gridN: 96, fraction: 0.9 } as const;
+/**
+ * Starting values of a new figure, the same in the Composer, its presets, the figure-set shell and the CLI's help:
+ * the engine's own grid ('auto', the state-aware resolution that resolves the smallest feature) and 90 %.
+ */
+export const RECIPE_DEFAULTS = { gridN: 'auto', fraction: 0.9 } as const;
 
 const finite = (what: string) =>
   z.number({ error: `${what} must be a number` }).refine(Number.isFinite, { message: `${what} must be a finite number` });
@@ -87,12 +83,12 @@ export const surfaceSchema = z.discriminatedUnion('rule', [
   z.strictObject({
     rule: z.literal('enclosed'),
     /** Fraction of the probability the surface encloses, in (0, 1). */
-    fraction: finite('fraction').refine((f) => f > 0 && f < 1, { message: 'fraction must be between 0 and 1 (exclusive)' }),
+    fraction: z.number({ error: says('fraction', fractionProblem) }).refine((f) => fractionProblem(f) === null, { error: says('fraction', fractionProblem) }),
   }),
   z.strictObject({
     rule: z.literal('psi'),
     /** Absolute value c of the isosurfaces ψ = ±c (|ψ| = c for complex states), in a0^(-3/2). */
-    value: finite('value').refine((v) => v > 0, { message: 'value must be positive' }),
+    value: z.number({ error: says('value', isovalueProblem) }).refine((v) => isovalueProblem(v) === null, { error: says('value', isovalueProblem) }),
   }),
 ]);
 
@@ -147,13 +143,13 @@ export const annotationsSchema = z.strictObject({
     .strictObject({ show: z.boolean().default(true), unit: z.enum(['angstrom', 'bohr']).default('angstrom'), length: finite('length').refine((v) => v > 0, { message: 'length must be positive' }).optional() })
     .default({ show: true, unit: 'angstrom' }),
   nucleus: z.boolean().default(true),
-  label: z.strictObject({ show: z.boolean().default(true), text: z.string().max(TEXT_LIMITS.labelMax, { message: `label must be at most ${TEXT_LIMITS.labelMax} characters` }).optional() }).default({ show: true }),
-  caption: z.string().max(TEXT_LIMITS.captionMax, { message: `caption must be at most ${TEXT_LIMITS.captionMax} characters` }).optional(),
+  label: z.strictObject({ show: z.boolean().default(true), text: z.string().max(TEXT_LIMITS.labelMax, { error: says('label', (v) => textProblem(v, TEXT_LIMITS.labelMax)) }).optional() }).default({ show: true }),
+  caption: z.string().max(TEXT_LIMITS.captionMax, { error: says('caption', (v) => textProblem(v, TEXT_LIMITS.captionMax)) }).optional(),
 });
 
 export const canvasSchema = z.strictObject({
-  widthMm: finite('widthMm').refine((v) => v >= CANVAS_LIMITS.mmMin && v <= CANVAS_LIMITS.mmMax, { message: `widthMm must be from ${CANVAS_LIMITS.mmMin} to ${CANVAS_LIMITS.mmMax} mm` }),
-  heightMm: finite('heightMm').refine((v) => v >= CANVAS_LIMITS.mmMin && v <= CANVAS_LIMITS.mmMax, { message: `heightMm must be from ${CANVAS_LIMITS.mmMin} to ${CANVAS_LIMITS.mmMax} mm` }),
+  widthMm: z.number({ error: says('widthMm', mmProblem) }).refine((v) => mmProblem(v) === null, { error: says('widthMm', mmProblem) }),
+  heightMm: z.number({ error: says('heightMm', mmProblem) }).refine((v) => mmProblem(v) === null, { error: says('heightMm', mmProblem) }),
   dpi: z.union([z.literal(300), z.literal(600), z.literal(1200)], { error: 'dpi must be 300, 600 or 1200' }),
 });
 
@@ -203,9 +199,9 @@ export type RecipeSource = z.infer<typeof recipeSourceSchema>;
 export const recipeSchema = z.strictObject({
   version: z.literal(RECIPE_VERSION, { error: `version must be ${RECIPE_VERSION}` }),
   /** Display label such as "3d_xy" or "sp3 #1"; informative only, the terms are authoritative. */
-  label: z.string().max(TEXT_LIMITS.labelMax, { message: `label must be at most ${TEXT_LIMITS.labelMax} characters` }).optional(),
+  label: z.string().max(TEXT_LIMITS.labelMax, { error: says('label', (v) => textProblem(v, TEXT_LIMITS.labelMax)) }).optional(),
   content: z.strictObject({
-    Z: z.number().int({ message: 'Z must be an integer' }).min(1, { message: 'Z must be at least 1' }).max(RECIPE_LIMITS.zMax, { message: `Z must be at most ${RECIPE_LIMITS.zMax}` }),
+    Z: z.number({ error: says('Z', zProblem) }).int({ error: says('Z', zProblem) }).min(1, { error: says('Z', zProblem) }).max(RECIPE_LIMITS.zMax, { error: says('Z', zProblem) }),
     terms: z
       .array(termSchema)
       .min(1, { message: 'at least one term is required' })
@@ -222,8 +218,8 @@ export const recipeSchema = z.strictObject({
     n: z
       .union([
         z.literal('auto'),
-        z.number({ error: "grid.n must be 'auto' or a number" }).int({ message: 'grid.n must be an integer' }).min(RECIPE_LIMITS.gridMin, { message: `grid.n must be at least ${RECIPE_LIMITS.gridMin}` }).max(RECIPE_LIMITS.gridMax, { message: `grid.n must be at most ${RECIPE_LIMITS.gridMax}` }),
-      ])
+        z.number({ error: says('grid.n', gridProblem) }).int({ error: says('grid.n', gridProblem) }).min(RECIPE_LIMITS.gridMin, { error: says('grid.n', gridProblem) }).max(RECIPE_LIMITS.gridMax, { error: says('grid.n', gridProblem) }),
+      ], { error: says('grid.n', gridProblem) })
       .default('auto'),
     /**
      * Half-width of the sampled cube in a0, or 'auto': for meshes, the box that holds the whole surface with a

@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { ENGINE_CONVENTIONS, PSIFORM_PALETTE, RECIPE_LIMITS, RECIPE_VERSION, canonicalJson, formatRecipeIssues, parseRecipe, recipeSchema, type RecipeIssue } from '../src/recipe';
+import { fractionProblem, gridProblem, RECIPE_LIMITS, zProblem } from '../src/limits';
+import { ENGINE_CONVENTIONS, PSIFORM_PALETTE, RECIPE_VERSION, canonicalJson, formatRecipeIssues, parseRecipe, recipeSchema, type RecipeIssue } from '../src/recipe';
 
 /** A minimal valid document: 2p_z (real basis), Z = 1, 48³ grid, 90% enclosed. */
 function minimal(): Record<string, any> {
@@ -111,10 +112,14 @@ describe('parseRecipe: rejected documents name the field', () => {
   it('grid 999 (over RECIPE_LIMITS.gridMax) and grid 8 (under gridMin)', () => {
     const big = minimal();
     big.grid.n = 999;
-    expect(issuesOf(big)).toEqual([{ path: 'grid.n', message: 'grid.n must be at most 384' }]);
+    // The words are limits.ts gridProblem's, which the Composer shows under its grid field.
+    expect(issuesOf(big)).toEqual([{ path: 'grid.n', message: "grid.n must be 'auto' or a whole number from 16 to 384 (got 999)" }]);
+    expect(issuesOf(big)[0].message).toBe(`grid.n ${gridProblem(999)}`);
     const small = minimal();
     small.grid.n = 8;
-    expect(issuesOf(small)).toEqual([{ path: 'grid.n', message: 'grid.n must be at least 16' }]);
+    expect(issuesOf(small)).toEqual([{ path: 'grid.n', message: `grid.n ${gridProblem(8)}` }]);
+    small.grid.n = 'fine';
+    expect(issuesOf(small)).toEqual([{ path: 'grid.n', message: `grid.n must be 'auto' or a whole number from 16 to 384 (got "fine")` }]);
   });
 
   it('NaN and Infinity fractions (possible from JavaScript callers, not from JSON)', () => {
@@ -124,7 +129,7 @@ describe('parseRecipe: rejected documents name the field', () => {
       const issues = issuesOf(d);
       expect(issues).toHaveLength(1);
       expect(issues[0].path).toBe('surface.fraction');
-      expect(issues[0].message).toMatch(/^fraction must be a (finite )?number$/);
+      expect(issues[0].message).toBe(`fraction ${fractionProblem(f)}`);
     }
   });
 
@@ -132,14 +137,14 @@ describe('parseRecipe: rejected documents name the field', () => {
     for (const f of [1, 0, 1.5, -0.2]) {
       const d = minimal();
       d.surface.fraction = f;
-      expect(issuesOf(d)).toEqual([{ path: 'surface.fraction', message: 'fraction must be between 0 and 1 (exclusive)' }]);
+      expect(issuesOf(d)).toEqual([{ path: 'surface.fraction', message: `fraction must be a number between 0 and 1, both excluded (got ${f})` }]);
     }
   });
 
   it('a fraction given as a string is not coerced', () => {
     const d = minimal();
     d.surface.fraction = '0.9';
-    expect(issuesOf(d)).toEqual([{ path: 'surface.fraction', message: 'fraction must be a number' }]);
+    expect(issuesOf(d)).toEqual([{ path: 'surface.fraction', message: 'fraction must be a number between 0 and 1, both excluded (got "0.9")' }]);
   });
 
   it('missing and wrong version', () => {
@@ -153,7 +158,7 @@ describe('parseRecipe: rejected documents name the field', () => {
   it('a non-positive psi value and an unknown surface rule', () => {
     const d = minimal();
     d.surface = { rule: 'psi', value: 0 };
-    expect(issuesOf(d)).toEqual([{ path: 'surface.value', message: 'value must be positive' }]);
+    expect(issuesOf(d)).toEqual([{ path: 'surface.value', message: 'value must be a positive number (got 0)' }]);
     d.surface = { rule: 'density', value: 0.1 };
     expect(issuesOf(d)[0].path).toBe('surface.rule');
   });
@@ -166,9 +171,9 @@ describe('parseRecipe: rejected documents name the field', () => {
     expect(issuesOf(none)).toContainEqual({ path: 'content.terms', message: 'at least one term is required' });
     const z = minimal();
     z.content.Z = 119;
-    expect(issuesOf(z)).toEqual([{ path: 'content.Z', message: 'Z must be at most 118' }]);
+    expect(issuesOf(z)).toEqual([{ path: 'content.Z', message: 'Z must be a whole number from 1 to 118 (got 119)' }]);
     z.content.Z = 0;
-    expect(issuesOf(z)).toEqual([{ path: 'content.Z', message: 'Z must be at least 1' }]);
+    expect(issuesOf(z)).toEqual([{ path: 'content.Z', message: `Z ${zProblem(0)}` }]);
   });
 
   it('documents that are not objects fail at the root', () => {

@@ -6,6 +6,7 @@ import { disposeGeometries, geometryFromArrays, loadGlbGeometries, splitNodal, t
 import { axisTips, type PlacedInfo } from '../scene/OrbitalScene';
 import { drawOverlay, inkFor } from '../scene/overlay';
 import { phaseKeyColours } from '../scene/phaseKeyColours';
+import { loadOverlayFonts } from '../scene/fonts';
 import { maxRadius } from '../scene/framing';
 import { bytesToBase64, encodeFigurePng } from './pixels';
 import { checkRequest, type CheckedRequest, type RenderResult } from './request';
@@ -36,10 +37,6 @@ export function pageRenderer(host: () => RenderHandle | null): (raw: unknown) =>
   };
 }
 
-async function fontsReady(): Promise<void> {
-  await document.fonts.load('700 32px Lato');
-  await document.fonts.load('400 32px Lato');
-}
 
 async function loadGlb(url: string, what: string): Promise<PhaseGeometry[]> {
   let g: PhaseGeometry[];
@@ -72,7 +69,7 @@ function axisLetters(info: PlacedInfo, w: number, h: number, dx = 0, dy = 0) {
 async function renderFigure(host: RenderHandle, req: CheckedRequest, loaded: PhaseGeometry[]): Promise<RenderResult> {
   const t0 = performance.now();
   loaded.push(...(req.source.kind === 'glb' ? await loadGlb(req.source.url, 'glbUrl') : req.source.surfaces.map((s) => ({ phase: s.phase, geometry: geometryFromArrays(s) }))));
-  await fontsReady();
+  await loadOverlayFonts();
   const tLoad = performance.now() - t0;
   const info = await host.mount({ req, surfaces: loaded });
 
@@ -125,7 +122,7 @@ async function renderSet(host: RenderHandle, req: CheckedRequest, loaded: PhaseG
     perPanel.push(g);
     loaded.push(...g);
   }
-  await fontsReady();
+  await loadOverlayFonts();
   const tLoad = performance.now() - t0;
 
   const t1 = performance.now();

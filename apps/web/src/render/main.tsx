@@ -2,8 +2,7 @@
 // tiles and returns a print PNG. Contract for the worker: apps/web/src/render/CONTRACT.md.
 // This file only starts the page: the React host (RenderHost.tsx, an imperative handle over its scene and render
 // target) and the render functions (figure-render.ts: one renderRegions() for a single figure and for sets).
-import '@fontsource/lato/400.css';
-import '@fontsource/lato/700.css';
+// The 2D layer's faces (Lato, DejaVu Sans) are imported by scene/fonts.ts, which figure-render.ts waits on.
 import { createRef } from 'react';
 import { createRoot } from 'react-dom/client';
 import { RenderHost, type RenderHandle } from './RenderHost';

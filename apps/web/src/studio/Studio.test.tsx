@@ -121,6 +121,7 @@ describe('Composer: quantum numbers as you type', () => {
     const body = api.callsTo('POST', '/api/figures')[0].body as { title: string; recipe: { content: { terms: unknown[] } } };
     expect(body.title).toBe('Plate 7: 3d');
     expect(body.recipe.content.terms).toEqual([{ n: 3, l: 2, m: -2, basis: 'real', re: 1, im: 0 }]);
+    expect((body.recipe as unknown as { grid: { n: unknown } }).grid.n).toBe('auto'); // the engine's state-aware grid
     await waitFor(() => expect(screen.getByTestId('location').textContent).toBe('/figures/f9/studio'), { timeout: 15_000 });
   });
 
@@ -217,7 +218,9 @@ describe('Composer: superposition coefficients', () => {
     const samples = () => w.sent.filter((m) => m.type === 'sample');
     const surfaces = () => w.sent.filter((m) => m.type === 'surface');
     expect(samples()).toHaveLength(1);
-    expect(samples()[0]).toMatchObject({ n: 96, state: { Z: 1, terms: [{ n: 2, l: 1, m: 0 }] } }); // recipe grid 96 (contracts RECIPE_DEFAULTS), under the 112 preview cap
+    // A new figure starts on the engine's own grid (contracts RECIPE_DEFAULTS 'auto'): the preview asks for it too.
+    expect(samples()[0]).toMatchObject({ n: 'auto', state: { Z: 1, terms: [{ n: 2, l: 1, m: 0 }] } });
+    expect((screen.getByTestId('cmp-grid') as HTMLInputElement).value).toBe('auto');
     await ue.clear(screen.getByTestId('cmp-fraction'));
     await ue.type(screen.getByTestId('cmp-fraction'), '75');
     await waitFor(() => expect(surfaces().at(-1)).toMatchObject({ rule: { rule: 'enclosed', fraction: 0.75 } }));

@@ -1,9 +1,10 @@
 import { configure } from '@testing-library/react';
 import { afterEach, vi } from 'vitest';
 
-// findBy*/waitFor give up after 1 s by default; on the shared, busy cores a route change after a mutation can take
-// longer. Waiting longer changes no assertion: a condition that never holds still fails, only later.
-configure({ asyncUtilTimeout: 5000 });
+// findBy*/waitFor poll until their condition holds; the library's 1 s default is shorter than the first lazy page
+// import takes on the shared 2-core machine under load (the first case of a file timed out). The tests' own 20 s
+// timeout still bounds a condition that never holds.
+configure({ asyncUtilTimeout: 8000 });
 
 afterEach(() => {
   window.sessionStorage.clear();

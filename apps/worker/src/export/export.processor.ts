@@ -2,7 +2,7 @@ import { Injectable } from '@nestjs/common';
 import { UnrecoverableError } from 'bullmq';
 import { DEFAULT_DELIVERY_PROFILE, type ColourMode, type DeliveryProfile, type PressConditionId, type Recipe } from '@psiform/contracts';
 import { AssetStore, CONTENT_TYPES, ENGINE_VERSION, ObjectStorage, exportKey, sha256Hex, type NewAsset, type TrackedJobHandler, type TrackedOutcome, type TrackedRun } from '@psiform/server';
-import { buildBundle, plotAlt, preflightReport, preflightText, type BundleFile, type PreflightSubject } from '@psiform/print';
+import { buildBundle, bundleCompanions, plotAlt, preflightReport, preflightText, type BundleFile, type PreflightSubject } from '@psiform/print';
 import { recipeState, screenGlbFromArchival, screenTolerance } from '@psiform/meshing';
 import { compileState } from '@psiform/orbitals';
 import type { FigureRenderer } from '../render/figure-renderer';
@@ -21,7 +21,7 @@ interface PrintColour {
 
 /**
  * Export jobs (QUEUES.export): svg (radial plot or section map, Lato embedded), glb/stl (the version's mesh,
- * computed first when missing) and bundle (zip: GLB, STL, PNG, radial SVG, recipe.json, metadata.json, README.txt).
+ * computed first when missing) and bundle (zip: GLB, STL, PNG, radial plot and section map SVG, recipe.json, metadata.json, README.txt).
  */
 @Injectable()
 export class ExportJobProcessor implements TrackedJobHandler<'export'> {
@@ -124,7 +124,7 @@ export class ExportJobProcessor implements TrackedJobHandler<'export'> {
     const meta = figureWords(recipe, mesh.stats, version.engineVersion || this.engineVersion, this.now().toISOString());
     const alt = altOf(meta);
     // Print files per the delivery profile: the figure as the profile's first raster format (TIFF in its colour),
-    // the radial plot as its first vector format; each is preflighted and the report travels in the bundle.
+    // the radial plot and the section map (bundleCompanions) as its first vector format; each is preflighted and the report travels in the bundle.
     const subjects: PreflightSubject[] = [rasterSubject('figure.png', 'png', pngFacts(png), pngSize, recipe, alt)];
     if (profile.rasterFormats[0] === 'tiff') {
       const bg = recipe.stage.background;
@@ -134,17 +134,18 @@ export class ExportJobProcessor implements TrackedJobHandler<'export'> {
     }
     if (recipe.source?.kind !== 'upload') {
       files.push({ name: 'figure-screen.glb', bytes: await screenGlb(recipe, mesh.glb, mesh.stats, version.engineVersion || this.engineVersion) });
-      const svgParams: SvgParams = { kind: 'radial', plane: 'xz', offset: 0, levels: 4, widthMm: recipe.canvas.widthMm, heightMm: recipe.canvas.heightMm };
-      const svgText = companionSvg(recipe, svgParams);
-      files.push({ name: 'radial.svg', bytes: new TextEncoder().encode(svgText) });
-      subjects.push(svgSubject('radial.svg', svgText, svgParams.widthMm, svgParams.heightMm, plotAlt(svgText)));
-      if (profile.vectorFormats.includes('pdf')) {
-        const plain = figureSvg(recipe, svgParams, undefined);
-        const palt = plotAlt(plain);
-        const opts = { svg: plain, widthMm: svgParams.widthMm, heightMm: svgParams.heightMm, title: palt.short, alt: palt.short, colour: profile.colourMode, pressCondition: profile.pressCondition };
-        const pdf = await encodePdf(opts);
-        files.push({ name: 'radial.pdf', bytes: pdf });
-        subjects.push(pdfSubject('radial.pdf', pdf, opts, palt));
+      for (const svgParams of bundleCompanions(recipe)) {
+        const svgText = companionSvg(recipe, svgParams);
+        files.push({ name: `${svgParams.kind}.svg`, bytes: new TextEncoder().encode(svgText) });
+        subjects.push(svgSubject(`${svgParams.kind}.svg`, svgText, svgParams.widthMm, svgParams.heightMm, plotAlt(svgText)));
+        if (profile.vectorFormats.includes('pdf')) {
+          const plain = figureSvg(recipe, svgParams, undefined);
+          const palt = plotAlt(plain);
+          const opts = { svg: plain, widthMm: svgParams.widthMm, heightMm: svgParams.heightMm, title: palt.short, alt: palt.short, colour: profile.colourMode, pressCondition: profile.pressCondition };
+          const pdf = await encodePdf(opts);
+          files.push({ name: `${svgParams.kind}.pdf`, bytes: pdf });
+          subjects.push(pdfSubject(`${svgParams.kind}.pdf`, pdf, opts, palt));
+        }
       }
     }
     const preflight = preflightReport(subjects, profile, meta.generatedAt);

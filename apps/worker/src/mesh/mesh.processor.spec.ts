@@ -126,7 +126,7 @@ describe('MeshJobProcessor', () => {
     jobs.state = 'queued';
     jobs.version = { ...jobs.version!, recipe: { ...recipe, grid: { n: 4, extent: 'auto' } } };
     await expect(p.process(job(0))).rejects.toBeInstanceOf(UnrecoverableError);
-    expect(jobs.log.at(-1)).toMatch(/^fail:the stored recipe is not valid: grid\.n: grid\.n must be at least 16/);
+    expect(jobs.log.at(-1)).toMatch(/^fail:the stored recipe is not valid: grid\.n: grid\.n must be 'auto' or a whole number from 16 to 384 \(got 4\)/);
   });
 
   it("the runner's after-mesh hook (thumbnails) runs after the completion; its failure is logged and the mesh job still succeeds", async () => {
