@@ -49,3 +49,14 @@ describe('loadWorkerConfig', () => {
     }
   });
 });
+
+describe('worker mail configuration', () => {
+  it('SMTP_URL and MAIL_FROM (default as in the api) when set; absent otherwise', () => {
+    expect(loadWorkerConfig({ ...good, SMTP_URL: 'smtp://127.0.0.1:2525' }).smtp).toEqual({ url: 'smtp://127.0.0.1:2525', from: 'Psiform <no-reply@psiform.test>' });
+    expect(loadWorkerConfig({ ...good, SMTP_URL: 'smtp://h:1', MAIL_FROM: 'Desk <desk@x.test>' }).smtp?.from).toBe('Desk <desk@x.test>');
+    expect(loadWorkerConfig(good).smtp).toBeUndefined();
+  });
+  it('names a bad SMTP_URL', () => {
+    expect(() => loadWorkerConfig({ ...good, SMTP_URL: 'http://h:1' })).toThrow('SMTP_URL must be an smtp://host:port URL');
+  });
+});
