@@ -3,24 +3,14 @@
 import { mkdtemp, rm } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
+import { after, before } from 'node:test';
 import { chromium } from 'playwright-core';
+import { CHROMIUM_FLAGS } from '@psiform/contracts';
 
 export const DEMO_ILLUSTRATOR = { email: 'illustrator@demo.psiform.test', password: 'psiform-demo' };
 
 export const CHROMIUM_PATH = '/usr/bin/chromium';
 
-// Measured on this machine (see stack notes): software WebGL through SwiftShader, no network chatter.
-export const CHROMIUM_FLAGS = [
-  '--headless',
-  '--no-sandbox',
-  '--disable-quic',
-  '--no-first-run',
-  '--disable-background-networking',
-  '--disable-component-update',
-  '--disable-sync',
-  '--use-angle=swiftshader',
-  '--enable-unsafe-swiftshader',
-];
 
 /** The stack under test, from PSIFORM_URL; throws (failing the test loudly) when it is not set. */
 export function baseUrl() {
@@ -56,6 +46,22 @@ export async function launchBrowser() {
       await rm(profile, { recursive: true, force: true });
     },
   };
+}
+
+/**
+ * The browser of one test file: launched before its tests (after checking PSIFORM_URL, so a missing stack fails
+ * before Chromium starts) and closed, its profile deleted, after them. Returns a function that gives the browser.
+ */
+export function browserPerFile() {
+  let launched;
+  before(async () => {
+    baseUrl();
+    launched = await launchBrowser();
+  });
+  after(async () => {
+    await launched?.close();
+  });
+  return () => launched.browser;
 }
 
 /** A fresh context and page; uncaught page errors land in `errors`, every requested URL in `requests`. */

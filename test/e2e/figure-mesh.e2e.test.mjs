@@ -5,24 +5,15 @@
 // Software WebGL draws only a few frames a second, so nothing here depends on frame rate: the page sets
 // data-testid="viewport-ready" once the GLB is in the scene and a frame of it has been drawn.
 import assert from 'node:assert/strict';
-import { after, before, test } from 'node:test';
+import { test } from 'node:test';
 import { PNG } from 'pngjs';
-import { apiGet, baseUrl, DEMO_ILLUSTRATOR, expectOutcome, launchBrowser, newPage, signIn } from './browser.mjs';
-import { countPhasePixels, pngChunks } from './pixels.mjs';
+import { apiGet, browserPerFile, DEMO_ILLUSTRATOR, expectOutcome, newPage, signIn } from './browser.mjs';
+import { countPhasePixels } from './pixels.mjs';
 
-let launched;
-
-before(async () => {
-  baseUrl(); // fail before starting a browser when PSIFORM_URL is missing
-  launched = await launchBrowser();
-});
-
-after(async () => {
-  await launched?.close();
-});
+const browser = browserPerFile();
 
 test('an illustrator creates a 2p_z figure, computes its mesh and sees both phase colours', { timeout: 240_000 }, async () => {
-  const { context, page, errors } = await newPage(launched.browser);
+  const { context, page, errors } = await newPage(browser());
   try {
     const session = await signIn(page, DEMO_ILLUSTRATOR);
     const title = `E2E 2p_z ${new Date().toISOString()} ${Math.random().toString(36).slice(2, 8)}`;

@@ -3,20 +3,12 @@
 // real TIFF export's report with pass or fail (the demo profile asks 600 dpi; the export is 300 dpi, so resolution
 // fails and approval would be blocked).   PSIFORM_URL=http://127.0.0.1:3000 node --test test/e2e/
 import assert from 'node:assert/strict';
-import { after, before, test } from 'node:test';
-import { apiCall, apiLogin, baseUrl, DEMO_ILLUSTRATOR, launchBrowser, newPage, signIn } from './browser.mjs';
+import { test } from 'node:test';
+import { apiCall, apiLogin, baseUrl, browserPerFile, DEMO_ILLUSTRATOR, newPage, signIn } from './browser.mjs';
 
 const DEMO_ART_DIRECTOR = { email: 'artdirector@demo.psiform.test', password: DEMO_ILLUSTRATOR.password };
 const RULES = ['format', 'size', 'resolution', 'column_width', 'font_size', 'line_weight', 'colour_mode', 'icc_profile', 'fonts_embedded', 'alt_text'];
-let launched;
-
-before(async () => {
-  baseUrl();
-  launched = await launchBrowser();
-});
-after(async () => {
-  await launched?.close();
-});
+const browser = browserPerFile();
 
 const api = async (step, method, path, opts) => (await apiCall(step, method, path, opts)).body;
 const login = apiLogin;
@@ -25,7 +17,7 @@ test('the art director edits the delivery profile with inline messages, and the 
   const token = await login(DEMO_ART_DIRECTOR);
   const [pub] = await api('publications', 'GET', '/api/publications', { token });
   const original = await api('reading the profile', 'GET', `/api/publications/${pub.id}/delivery-profile`, { token });
-  const { page } = await newPage(launched.browser);
+  const { page } = await newPage(browser());
   try {
     await signIn(page, DEMO_ART_DIRECTOR);
     await page.goto(`${baseUrl()}/publications/${pub.id}/delivery-profile`);
@@ -61,7 +53,7 @@ test('the preflight panel lists every rule of a TIFF export with pass or fail', 
     await new Promise((r) => setTimeout(r, 500));
   }
   assert.equal(job?.state, 'completed', `the TIFF job finished: ${job?.error ?? job?.state}`);
-  const { page } = await newPage(launched.browser);
+  const { page } = await newPage(browser());
   try {
     await signIn(page, DEMO_ILLUSTRATOR);
     await page.goto(`${baseUrl()}/figures/${fig.id}`);

@@ -5,22 +5,13 @@
 // Needs the server side of review (routes /api/figures/:id/submit, /api/review-desk, ...): it fails (never skips)
 // naming the missing step. Only correct demo passwords are used: the API throttles sign-in after 5 failures per IP.
 import assert from 'node:assert/strict';
-import { after, before, test } from 'node:test';
-import { apiCall, apiGet, apiLogin, baseUrl, DEMO_ILLUSTRATOR, launchBrowser, newPage, signIn } from './browser.mjs';
+import { test } from 'node:test';
+import { apiCall, apiGet, apiLogin, browserPerFile, DEMO_ILLUSTRATOR, newPage, signIn } from './browser.mjs';
 
 const DEMO_EDITOR = { email: 'editor@demo.psiform.test', password: DEMO_ILLUSTRATOR.password };
 const DEMO_ART_DIRECTOR = { email: 'artdirector@demo.psiform.test', password: DEMO_ILLUSTRATOR.password };
 
-let launched;
-
-before(async () => {
-  baseUrl(); // fail before starting a browser when PSIFORM_URL is missing
-  launched = await launchBrowser();
-});
-
-after(async () => {
-  await launched?.close();
-});
+const browser = browserPerFile();
 
 const api = (step, method, path, opts = {}) => apiCall(step, method, path, { hint: 'is the server side of editorial review deployed?', ...opts });
 const login = apiLogin;
@@ -52,7 +43,7 @@ test('an editor approves a submitted proof from the review desk', { timeout: 180
   }
 
   // --- in the browser: the editor signs in, opens the desk, the proof, and approves ------------------------
-  const { context, page, errors } = await newPage(launched.browser);
+  const { context, page, errors } = await newPage(browser());
   try {
     const session = await signIn(page, DEMO_EDITOR);
     await page.getByTestId('nav-review').click();

@@ -2,22 +2,13 @@
 // Run against a running stack: PSIFORM_URL=http://127.0.0.1:3000 node --test test/e2e/
 // (Node 20 picks only *.test.mjs-style names from a folder, hence the ".test" in this name.)
 import assert from 'node:assert/strict';
-import { after, before, test } from 'node:test';
-import { apiGet, baseUrl, DEMO_ILLUSTRATOR, launchBrowser, newPage, signIn } from './browser.mjs';
+import { test } from 'node:test';
+import { apiGet, baseUrl, browserPerFile, DEMO_ILLUSTRATOR, newPage, signIn } from './browser.mjs';
 
-let launched;
-
-before(async () => {
-  baseUrl(); // fail before starting a browser when PSIFORM_URL is missing
-  launched = await launchBrowser();
-});
-
-after(async () => {
-  await launched?.close();
-});
+const browser = browserPerFile();
 
 test('demo illustrator signs in and sees the publications the API returns', { timeout: 120_000 }, async () => {
-  const { context, page, errors, requests } = await newPage(launched.browser);
+  const { context, page, errors, requests } = await newPage(browser());
   try {
     const session = await signIn(page, DEMO_ILLUSTRATOR);
     assert.equal(session.user.email, DEMO_ILLUSTRATOR.email);
@@ -63,7 +54,7 @@ test('demo illustrator signs in and sees the publications the API returns', { ti
 });
 
 test('a wrong password shows a readable message and stays on sign-in', { timeout: 60_000 }, async () => {
-  const { context, page } = await newPage(launched.browser);
+  const { context, page } = await newPage(browser());
   try {
     await page.goto(`${baseUrl()}/sign-in`);
     await page.getByLabel('Email').fill(DEMO_ILLUSTRATOR.email);

@@ -3,17 +3,10 @@
 // the Library's "New figure" is the one Composer; the export dialog offers the delivery profile's choices first and
 // preflights the planned file before anything is sent.   PSIFORM_URL=http://127.0.0.1:3000 node --test test/e2e/
 import assert from 'node:assert/strict';
-import { after, before, test } from 'node:test';
-import { apiCall, apiLogin, baseUrl, DEMO_ILLUSTRATOR, expectOutcome, launchBrowser, newPage, signIn } from './browser.mjs';
+import { test } from 'node:test';
+import { apiCall, apiLogin, baseUrl, browserPerFile, DEMO_ILLUSTRATOR, expectOutcome, newPage, signIn } from './browser.mjs';
 
-let launched;
-before(async () => {
-  baseUrl();
-  launched = await launchBrowser();
-});
-after(async () => {
-  await launched?.close();
-});
+const browser = browserPerFile();
 
 const api = async (step, method, path, opts) => (await apiCall(step, method, path, opts)).body;
 const run = () => `${Date.now().toString(36)}${Math.random().toString(36).slice(2, 6)}`;
@@ -35,7 +28,7 @@ test('a complex 2p(m=+1) made through the API opens clean in the studio with its
   const terms = [{ n: 2, l: 1, m: 1, basis: 'complex', re: 1, im: 0 }];
   const recipe = { version: 1, label: '2p(m=+1)', content: { Z: 1, terms }, grid: { n: 48 }, surface: { rule: 'enclosed', fraction: 0.9 } };
   const fig = await api('creating the figure', 'POST', '/api/figures', { token, body: { publicationId: pub.id, title: `Complex 2p ${run()}`, recipe } });
-  const { page, context, errors } = await newPage(launched.browser);
+  const { page, context, errors } = await newPage(browser());
   try {
     await signIn(page, DEMO_ILLUSTRATOR);
     await page.goto(`${baseUrl()}/figures/${fig.id}/studio`);
@@ -69,7 +62,7 @@ test('a complex 2p(m=+1) made through the API opens clean in the studio with its
 });
 
 test('forms name their limits inline: blank and 250-character titles, a 5 mm canvas, |ψ| above the maximum, an export width', { timeout: 120_000 }, async () => {
-  const { page, context } = await newPage(launched.browser);
+  const { page, context } = await newPage(browser());
   try {
     await signIn(page, DEMO_ILLUSTRATOR);
     await page.getByTestId('nav-library').click();
@@ -124,7 +117,7 @@ test('downloads are attachments named from the figure; the tab stays; every butt
   const { jobId } = await api('computing the mesh', 'POST', `/api/figures/${fig.id}/meshes`, { token, expect: [200, 201, 202] });
   await followJob(token, jobId, 'the mesh job');
   const profile = await api('the delivery profile', 'GET', `/api/publications/${pub.id}/delivery-profile`, { token });
-  const { page, context } = await newPage(launched.browser);
+  const { page, context } = await newPage(browser());
   try {
     await signIn(page, DEMO_ILLUSTRATOR);
     await page.goto(`${baseUrl()}/figures/${fig.id}`);
@@ -152,7 +145,7 @@ test('the export dialog offers the delivery profile first and preflights the pla
   const profile = await api('the delivery profile', 'GET', `/api/publications/${pub.id}/delivery-profile`, { token });
   const recipe = { version: 1, label: '2p_z', content: { Z: 1, terms: [{ n: 2, l: 1, m: 0, basis: 'real', re: 1 }] }, grid: { n: 32 }, surface: { rule: 'enclosed', fraction: 0.9 }, canvas: { widthMm: 60, heightMm: 40, dpi: 300 } };
   const fig = await api('creating the figure', 'POST', '/api/figures', { token, body: { publicationId: pub.id, title: `Export dialog ${run()}`, recipe } });
-  const { page, context } = await newPage(launched.browser);
+  const { page, context } = await newPage(browser());
   try {
     await signIn(page, DEMO_ILLUSTRATOR);
     await page.goto(`${baseUrl()}/figures/${fig.id}/studio`);
@@ -196,7 +189,7 @@ test("the Composer uses the engine's grid: a new figure starts on 'auto', 7s the
   const s7 = await api('creating 7s', 'POST', '/api/figures', { token, body: { publicationId: pub.id, title: `Seven s ${run()}`, recipe: { version: 1, label: '7s', content: { Z: 1, terms: [{ n: 7, l: 0, m: 0, basis: 'real', re: 1 }] }, surface: { rule: 'enclosed', fraction: 0.9 } } } });
   assert.equal(s7.currentVersion.recipe.grid.n, 'auto');
   const narrow = await api('creating 2p_z in a narrow box', 'POST', '/api/figures', { token, body: { publicationId: pub.id, title: `Narrow box ${run()}`, recipe: { version: 1, label: '2p_z', content: { Z: 1, terms: [{ n: 2, l: 1, m: 0, basis: 'real', re: 1 }] }, grid: { n: 48, extent: 3 }, surface: { rule: 'enclosed', fraction: 0.9 } } } });
-  const { page, context, errors } = await newPage(launched.browser);
+  const { page, context, errors } = await newPage(browser());
   const previewDone = async (what) => {
     // The status line says "updating…" while the preview worker samples or extracts; ready once it stops.
     await expectOutcome(page, {

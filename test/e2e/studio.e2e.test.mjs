@@ -4,22 +4,15 @@
 // Needs the whole stack including the export job (POST /api/figures/:id/exports and the worker's render
 // processor). It fails (never skips) when a part is missing, naming the step and quoting the page.
 import assert from 'node:assert/strict';
-import { after, before, test } from 'node:test';
+import { test } from 'node:test';
 import { PNG } from 'pngjs';
-import { apiGet, baseUrl, DEMO_ILLUSTRATOR, expectOutcome, launchBrowser, newPage, signIn } from './browser.mjs';
+import { apiGet, browserPerFile, DEMO_ILLUSTRATOR, expectOutcome, newPage, signIn } from './browser.mjs';
 import { countPhasePixels, pngChunks } from './pixels.mjs';
 
-let launched;
-before(async () => {
-  baseUrl();
-  launched = await launchBrowser();
-});
-after(async () => {
-  await launched?.close();
-});
+const browser = browserPerFile();
 
 test('an illustrator composes 2p_z in the studio, sees both phases and exports a 1051 × 709 px PNG at 300 dpi', { timeout: 300_000 }, async () => {
-  const { context, page, errors } = await newPage(launched.browser);
+  const { context, page, errors } = await newPage(browser());
   try {
     const session = await signIn(page, DEMO_ILLUSTRATOR);
     const title = `E2E studio 2p_z ${new Date().toISOString()} ${Math.random().toString(36).slice(2, 8)}`;

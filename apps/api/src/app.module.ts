@@ -29,7 +29,8 @@ export class AppModule implements OnApplicationShutdown {
       module: AppModule,
       imports: [
         ConfigModule.forRoot(config),
-        TypeOrmModule.forRoot({ ...dataSourceOptions(config.database.url), retryAttempts: 3, retryDelay: 1000 }),
+        // Request paths: PostgreSQL calls time out (REQUEST_DB_TIMEOUTS) so a stalled database answers 503, not a hang.
+        TypeOrmModule.forRoot({ ...dataSourceOptions(config.database.url, { requestTimeouts: true }), retryAttempts: 3, retryDelay: 1000 }),
         RedisModule,
         StorageModule,
         MailModule,

@@ -9,7 +9,7 @@ import { DOMParser } from '@xmldom/xmldom';
 import { unzipSync, strFromU8 } from 'fflate';
 import { PNG } from 'pngjs';
 import { EXPORT_STAGES, PSIFORM_PALETTE, type JobDto } from '@psiform/contracts';
-import { auth, demoTokens, login, phasePixels, runEmail, smallRecipe, startTestApp, DEMO_PUBLICATION, RUN_ID, type TestApp } from './support';
+import { auth, demoTokens, login, phasePixels, runEmail, smallRecipe, startTestApp, DEMO_PUBLICATION, RUN_ID, type TestApp, deleteFigureSets } from './support';
 import { readSse, startWorkerProcess, waitFor, type WorkerProcess } from './worker-process';
 
 const WEB_DIST = join(__dirname, '..', '..', 'web', 'dist');
@@ -80,11 +80,7 @@ describe('exports (e2e)', () => {
   afterAll(async () => {
     if (process.env.PSIFORM_SHOW_WORKER) console.log(worker?.output());
     await worker?.stop();
-    if (t && setIds.length) {
-      await t.ds.query(`UPDATE figure_sets SET png_asset_id = NULL WHERE id = ANY($1)`, [setIds]);
-      await t.ds.query(`DELETE FROM assets WHERE stats->>'figureSetId' = ANY($1)`, [setIds]);
-      await t.ds.query(`DELETE FROM figure_sets WHERE id = ANY($1)`, [setIds]);
-    }
+    if (t) await deleteFigureSets(t.ds, setIds);
     await t?.close();
   });
 

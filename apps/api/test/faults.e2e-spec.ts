@@ -2,7 +2,8 @@ import { spawn, type ChildProcess } from 'node:child_process';
 import { readFileSync } from 'node:fs';
 import { request as httpRequest } from 'node:http';
 import { join } from 'node:path';
-import { ObjectStorage } from '@psiform/server';
+import { DataSource } from 'typeorm';
+import { ObjectStorage, dataSourceOptions } from '@psiform/server';
 import type { JobDto } from '@psiform/contracts';
 import { auth, demoTokens, smallRecipe, startTestApp, DEMO_PUBLICATION, RUN_ID, type TestApp } from './support';
 import { startWorkerProcess, waitFor, type WorkerProcess } from './worker-process';
@@ -39,8 +40,8 @@ async function paused<T>(pid: number, fn: () => Promise<T>): Promise<T> {
 const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
 
 /**
- * Faults during requests and jobs (issue "Stays up and stays scoped"): a stalled Redis gives a fast 503 with the
- * reason, not a hang, and a job running through it still completes; a worker paused past its lock hands the job to
+ * Faults during requests and jobs (issue "Stays up and stays scoped"): a stalled Redis or PostgreSQL gives a fast 503
+ * with the reason, not a hang, and a job running through it still completes; a worker paused past its lock hands the job to
  * another and cannot complete it twice when it wakes up; an API killed during an upload leaves no half-made figure,
  * and what it left in storage is swept.
  */
@@ -104,6 +105,26 @@ describe('faults (e2e)', () => {
     expect(job.state).toBe('completed');
     expect(await meshFiles(figureId)).toMatchObject({ kinds: ['glb', 'stl'] });
   }, 150_000);
+
+  it('PostgreSQL stalled (a table held by another session): a request answers 503 naming the database within 2 s, and 200 once it is free', async () => {
+    // Another session takes the figures table (as a long migration or a stuck transaction would); every read waits.
+    const other = await new DataSource(dataSourceOptions(process.env.DATABASE_URL!)).initialize();
+    const holder = other.createQueryRunner();
+    try {
+      await holder.startTransaction();
+      await holder.query('LOCK TABLE figures IN ACCESS EXCLUSIVE MODE');
+      const t0 = Date.now();
+      const res = await t.http().get(`/api/figures?publicationId=${DEMO_PUBLICATION.id}`).set(auth(tok.editor)).timeout(10_000);
+      expect(Date.now() - t0).toBeLessThan(2000); // REQUEST_DB_TIMEOUTS: the statement is cancelled after 1.5 s
+      expect(res.status).toBe(503);
+      expect(res.body.message).toMatch(/database/);
+    } finally {
+      await holder.rollbackTransaction().catch(() => undefined);
+      await holder.release();
+      await other.destroy();
+    }
+    await t.http().get(`/api/figures?publicationId=${DEMO_PUBLICATION.id}`).set(auth(tok.editor)).expect(200);
+  }, 30_000);
 
   it('a worker paused past its lock: another worker completes the job; the first wakes up and changes nothing (one glb, one stl)', async () => {
     const LOCK_MS = '2000';

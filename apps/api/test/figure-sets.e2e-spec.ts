@@ -2,7 +2,7 @@ import { existsSync } from 'node:fs';
 import { join } from 'node:path';
 import { PNG } from 'pngjs';
 import { PSIFORM_PALETTE, type FigureSetDto, type JobDto } from '@psiform/contracts';
-import { auth, demoTokens, phasePixels, smallRecipe, startTestApp, DEMO_PUBLICATION, RUN_ID, type TestApp } from './support';
+import { auth, demoTokens, phasePixels, smallRecipe, startTestApp, DEMO_PUBLICATION, RUN_ID, type TestApp, deleteFigureSets } from './support';
 import { startWorkerProcess, waitFor, type WorkerProcess } from './worker-process';
 
 const WEB_DIST = join(__dirname, '..', '..', 'web', 'dist');
@@ -33,11 +33,7 @@ describe('figure sets (e2e)', () => {
 
   afterAll(async () => {
     await worker?.stop();
-    if (t && setIds.length) {
-      await t.ds.query(`UPDATE figure_sets SET png_asset_id = NULL WHERE id = ANY($1)`, [setIds]);
-      await t.ds.query(`DELETE FROM assets WHERE stats->>'figureSetId' = ANY($1)`, [setIds]);
-      await t.ds.query(`DELETE FROM figure_sets WHERE id = ANY($1)`, [setIds]);
-    }
+    if (t) await deleteFigureSets(t.ds, setIds);
     await t?.close();
   });
 

@@ -148,3 +148,11 @@ export function phasePixels(img: { width: number; height: number; data: Uint8Arr
   }
   return counts;
 }
+
+/** Removes figure sets a spec made, with their PNGs (the set's asset rows have no figure version to cascade from). */
+export async function deleteFigureSets(ds: DataSource, setIds: string[]): Promise<void> {
+  if (!setIds.length) return;
+  await ds.query(`UPDATE figure_sets SET png_asset_id = NULL WHERE id = ANY($1)`, [setIds]);
+  await ds.query(`DELETE FROM assets WHERE stats->>'figureSetId' = ANY($1)`, [setIds]);
+  await ds.query(`DELETE FROM figure_sets WHERE id = ANY($1)`, [setIds]);
+}

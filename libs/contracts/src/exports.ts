@@ -117,3 +117,37 @@ export interface FigureSetDto {
 }
 
 export const FIGURE_SET_LIMITS = { figuresMin: 1, figuresMax: 12, columnsMin: 1, columnsMax: 6 } as const;
+
+/**
+ * How Chromium is launched for the render page (the worker's renders) and for the browser tests, so both draw with the
+ * same WebGL: flags measured on this machine (stack notes, "Browser, WebGL and figure rendering"): software WebGL2
+ * through SwiftShader, no network chatter. Callers switch Playwright's own defaults off (ignoreDefaultArgs) so exactly
+ * these are used, plus the pipe Playwright talks over and a fresh profile.
+ */
+export const CHROMIUM_FLAGS: readonly string[] = [
+  '--headless',
+  '--no-sandbox',
+  '--disable-quic',
+  '--no-first-run',
+  '--disable-background-networking',
+  '--disable-component-update',
+  '--disable-sync',
+  '--use-angle=swiftshader',
+  '--enable-unsafe-swiftshader',
+];
+
+/**
+ * What the render page's window.psiformRender(req) answers (apps/web/src/render/CONTRACT.md): the page draws, the
+ * worker (figure-renderer.ts) reads this back and checks the PNG.
+ */
+export interface RenderPageResult {
+  pngBase64: string;
+  width: number;
+  height: number;
+  dpi: number;
+  tiles: number;
+  triangles: number;
+  ms: { load: number; render: number; encode: number };
+  /** Figure sets only: the grid, how many tile × panel regions were drawn, the common scale and framing radius. */
+  panels?: { count: number; rows: number; columns: number; regions: number; a0PerPixel: number; radius: number };
+}

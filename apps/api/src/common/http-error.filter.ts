@@ -43,7 +43,9 @@ export class HttpErrorFilter extends BaseExceptionFilter {
       // Log the code and message only: `query`/`parameters` of a failed INSERT carry what the user sent.
       this.log.warn(`database refused a request: ${(exception.driverError as PgError)?.code ?? '?'} ${exception.message}`);
       if (mapped) return mapped;
-      return new ServiceUnavailableException('database: the request could not be completed; try again');
+      const driver = exception.driverError as { code?: string; message?: string } | undefined;
+      const stalled = dependencyError({ code: driver?.code, message: driver?.message, dependency: 'the database' });
+      return stalled ?? new ServiceUnavailableException('database: the request could not be completed; try again');
     }
     const unavailable = dependencyError(exception);
     if (unavailable) return unavailable;
@@ -96,7 +98,7 @@ export function dependencyError(e: unknown): HttpException | null {
   if (!err || typeof err !== 'object') return null;
   const codes = ['ECONNREFUSED', 'ECONNRESET', 'ETIMEDOUT', 'EPIPE', 'EHOSTUNREACH', 'ENOTFOUND', 'EAI_AGAIN'];
   const timeout = err.name === 'DependencyTimeout' || err.name === 'TimeoutError';
-  if (timeout || (err.code && codes.includes(err.code)) || /Connection is closed|connection terminated|Command timed out|timeout exceeded when trying to connect/i.test(err.message ?? '')) {
+  if (timeout || (err.code && codes.includes(err.code)) || /Connection is closed|connection terminated|Command timed out|timeout exceeded when trying to connect|Query read timeout/i.test(err.message ?? '')) {
     return new ServiceUnavailableException(`${err.dependency ?? 'a service this request needs'} is not answering (${err.message}); try again shortly`);
   }
   return null;

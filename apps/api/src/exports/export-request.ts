@@ -1,4 +1,4 @@
-import { COLOUR_MODES, EXPORT_DPI, EXPORT_FORMATS, EXPORT_LIMITS, PRESS_CONDITION_IDS, SECTION_PLANES, rasterProblem, type ColourMode, type DeliveryProfile, type ExportFormat, type PressConditionId, type Recipe, type RenderParams, type ExportParams as ExportJobParams, type SectionPlane } from '@psiform/contracts';
+import { COLOUR_MODES, EXPORT_DPI, EXPORT_FORMATS, EXPORT_LIMITS, PRESS_CONDITION_IDS, SECTION_PLANES, rasterProblem, type ColourMode, type ExportFormat, type PressConditionId, type Recipe, type RenderParams, type ExportParams as ExportJobParams, type SectionPlane } from '@psiform/contracts';
 import { exportPixelSize } from '@psiform/print';
 
 /** Colour of a print file: from the request, else the publication's delivery profile (filled in by the service). */

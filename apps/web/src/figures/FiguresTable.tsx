@@ -1,13 +1,14 @@
 import { useEffect, useState } from 'react';
-import { Button, Callout, HTMLSelect, HTMLTable, InputGroup, NonIdealState, Spinner, Tag } from '@blueprintjs/core';
+import { Button, HTMLSelect, HTMLTable, InputGroup, NonIdealState, Spinner, Tag } from '@blueprintjs/core';
 import { keepPreviousData, useQuery } from '@tanstack/react-query';
 import { Link } from 'react-router-dom';
 import { FIGURE_STATUSES, type FigureStatus, type FigureSummaryDto } from '@psiform/contracts';
-import { describeError, type FigureListParams, type FigureSortKey } from '../api/client';
+import { type FigureListParams, type FigureSortKey } from '../api/client';
 import { useApi } from '../auth/AuthProvider';
 import { formatDate, statusLabel } from './model';
 import { Typeset } from '../components/Typeset';
 import { plainLabel } from '@psiform/print';
+import { QueryStatus } from '../components/QueryStatus';
 
 export const PAGE_SIZE = 25;
 /** Typing pauses this long before the search is sent. */
@@ -139,18 +140,7 @@ export function FiguresTable({ publicationId, pageSize = PAGE_SIZE }: { publicat
         {figures.isFetching && !figures.isPending && <Spinner size={16} aria-label="Refreshing" />}
       </div>
 
-      {figures.isPending && (
-        <div data-testid="figures-loading">
-          <NonIdealState icon={<Spinner size={32} />} title="Loading figures…" />
-        </div>
-      )}
-
-      {figures.isError && (
-        <Callout intent="danger" title="Figures could not be loaded" data-testid="figures-error">
-          <p>{describeError(figures.error)}</p>
-          <Button text="Try again" icon="refresh" onClick={() => void figures.refetch()} loading={figures.isFetching} />
-        </Callout>
-      )}
+      <QueryStatus query={figures} what="figures" testId="figures" />
 
       {figures.isSuccess && items.length === 0 && (
         <div data-testid="figures-empty">

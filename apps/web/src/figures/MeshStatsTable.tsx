@@ -3,6 +3,7 @@ import type { AssetDto, MeshStatsDto } from '@psiform/contracts';
 import { formatNumber } from './model';
 import { Typeset } from '../components/Typeset';
 import { PSI_UNIT_TEXT } from '@psiform/print';
+import { TableHead } from '../components/TableHead';
 
 const PHASE_WORDS: Record<MeshStatsDto['phase'], string> = { '+': 'ψ > 0 (phase +)', '-': 'ψ < 0 (phase −)', complex: '|ψ| (complex phase)' };
 
@@ -14,18 +15,7 @@ export function MeshStatsTable({ asset }: { asset: AssetDto }) {
   return (
     <div>
       <HTMLTable className="pf-table pf-num-table" compact data-testid="mesh-stats">
-        <thead>
-          <tr>
-            <th scope="col">Phase</th>
-            <th scope="col">Vertices</th>
-            <th scope="col">Triangles</th>
-            <th scope="col">Area (a0²)</th>
-            <th scope="col">Volume (a0³)</th>
-            <th scope="col">Components</th>
-            <th scope="col">Euler characteristic</th>
-            <th scope="col">Watertight</th>
-          </tr>
-        </thead>
+        <TableHead columns={['Phase', 'Vertices', 'Triangles', 'Area (a0²)', 'Volume (a0³)', 'Components', 'Euler characteristic', 'Watertight']} />
         <tbody>
           {surfaces.map((s) => (
             <tr key={s.phase} data-testid="mesh-stats-row">

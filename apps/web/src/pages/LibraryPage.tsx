@@ -1,10 +1,10 @@
-import { AnchorButton, Button, Callout, NonIdealState, Spinner } from '@blueprintjs/core';
+import { AnchorButton, Callout } from '@blueprintjs/core';
 import { Link, useNavigate, useParams, useSearchParams } from 'react-router-dom';
-import { describeError } from '../api/client';
 import { useAuth } from '../auth/AuthProvider';
 import { FiguresTable } from '../figures/FiguresTable';
 import { PublicationChooser } from '../figures/PublicationChooser';
 import { usePublications } from '../figures/usePublications';
+import { EmptyState, QueryStatus } from '../components/QueryStatus';
 
 /**
  * The figures of a publication. Reached as /library (publication from ?publicationId= or the first one)
@@ -64,26 +64,8 @@ export function LibraryPage() {
         )}
       </header>
 
-      {publications.isPending && (
-        <div data-testid="publications-loading">
-          <NonIdealState icon={<Spinner size={32} />} title="Loading publications…" />
-        </div>
-      )}
-      {publications.isError && (
-        <Callout intent="danger" title="Publications could not be loaded" data-testid="publications-error">
-          <p>{describeError(publications.error)}</p>
-          <Button text="Try again" icon="refresh" onClick={() => void publications.refetch()} />
-        </Callout>
-      )}
-      {publications.isSuccess && list.length === 0 && (
-        <div data-testid="publications-empty">
-          <NonIdealState
-            icon="inbox"
-            title="No publications yet"
-            description="Figures belong to a publication, and you are not a member of any. An administrator can add you to one."
-          />
-        </div>
-      )}
+      <QueryStatus query={publications} what="publications" testId="publications" />
+      {publications.isSuccess && list.length === 0 && <EmptyState testId="publications" icon="inbox" title="No publications yet" description="Figures belong to a publication, and you are not a member of any. An administrator can add you to one." />}
       {publications.isSuccess && list.length > 0 && !current && (
         <Callout intent="warning" title="Publication not found" data-testid="library-unknown-publication">
           You are not a member of this publication, or it does not exist. <Link to="/library">Open the library</Link>.

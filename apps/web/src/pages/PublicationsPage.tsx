@@ -1,10 +1,10 @@
-import { Button, Callout, Card, NonIdealState, Spinner, Tag } from '@blueprintjs/core';
+import { Card, Tag } from '@blueprintjs/core';
 import { useQuery } from '@tanstack/react-query';
 import { Link } from 'react-router-dom';
 import type { PublicationDto } from '@psiform/contracts';
-import { describeError } from '../api/client';
 import { useApi, useAuth } from '../auth/AuthProvider';
 import { canOpen, NAV_ITEMS } from '../nav/navigation';
+import { EmptyState, QueryStatus } from '../components/QueryStatus';
 
 const KIND_LABELS: Record<PublicationDto['kind'], string> = {
   book: 'Book',
@@ -32,28 +32,9 @@ export function PublicationsPage() {
         <p className="pf-muted">The books and journal volumes you are a member of.</p>
       </header>
 
-      {publications.isPending && (
-        <div data-testid="publications-loading">
-          <NonIdealState icon={<Spinner size={32} />} title="Loading publications…" />
-        </div>
-      )}
+      <QueryStatus query={publications} what="publications" testId="publications" />
 
-      {publications.isError && (
-        <Callout intent="danger" title="Publications could not be loaded" data-testid="publications-error">
-          <p>{describeError(publications.error)}</p>
-          <Button text="Try again" icon="refresh" onClick={() => void publications.refetch()} loading={publications.isFetching} />
-        </Callout>
-      )}
-
-      {publications.isSuccess && publications.data.length === 0 && (
-        <div data-testid="publications-empty">
-          <NonIdealState
-            icon="inbox"
-            title="No publications yet"
-            description="You are not a member of any publication. An administrator can add you to one."
-          />
-        </div>
-      )}
+      {publications.isSuccess && publications.data.length === 0 && <EmptyState testId="publications" icon="inbox" title="No publications yet" description="You are not a member of any publication. An administrator can add you to one." />}
 
       {publications.isSuccess && publications.data.length > 0 && (
         <ul className="pf-pub-list" data-testid="publications-list" aria-label="Publications">

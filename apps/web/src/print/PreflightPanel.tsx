@@ -5,6 +5,7 @@ import { DELIVERY_LIMITS, PREFLIGHT_RULES, type FigureDto, type PreflightFileRep
 import { describeError } from '../api/client';
 import { useApi, useAuth } from '../auth/AuthProvider';
 import { approveWithOverride, getFigurePreflight } from './printApi';
+import { TableHead } from '../components/TableHead';
 
 const RULE_NAME = Object.fromEntries(PREFLIGHT_RULES.map((r) => [r.id, r.name]));
 
@@ -16,14 +17,7 @@ export function PreflightFileTable({ file: f, testid = 'preflight-table' }: { fi
         {f.file} <Tag intent={f.passed ? 'success' : 'danger'} data-testid="preflight-file-verdict">{f.passed ? 'passes' : 'fails'}</Tag>
       </h3>
       <HTMLTable compact className="pf-table" data-testid={testid}>
-        <thead>
-          <tr>
-            <th>Check</th>
-            <th>Result</th>
-            <th>Asked</th>
-            <th>The file has</th>
-          </tr>
-        </thead>
+        <TableHead columns={['Check', 'Result', 'Asked', 'The file has']} />
         <tbody>
           {f.results.map((x) => (
             <tr key={x.rule} data-testid="preflight-row" data-rule={x.rule} data-status={x.status}>

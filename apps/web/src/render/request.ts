@@ -1,5 +1,5 @@
 // The headless render page's request: checked field by field so a bad job fails with a message naming the field.
-import { formatRecipeIssues, parseRecipe, type Recipe } from '@psiform/contracts';
+import { formatRecipeIssues, parseRecipe, type Recipe, type RenderPageResult } from '@psiform/contracts';
 import type { Phase, SurfaceArrays } from '../scene/geometry';
 
 export interface RenderRequest {
@@ -16,17 +16,8 @@ export interface RenderRequest {
   columns?: number;
 }
 
-export interface RenderResult {
-  pngBase64: string;
-  width: number;
-  height: number;
-  dpi: number;
-  tiles: number;
-  triangles: number;
-  ms: { load: number; render: number; encode: number };
-  /** Figure sets only: the grid, how many tile × panel regions were drawn, the common scale and framing radius. */
-  panels?: { count: number; rows: number; columns: number; regions: number; a0PerPixel: number; radius: number };
-}
+/** The page's answer: the render page contract's (libs/contracts exports.ts), shared with the worker. */
+export type RenderResult = RenderPageResult;
 
 export interface CheckedRequest {
   recipe: Recipe;

@@ -1,12 +1,13 @@
-import { Button, Callout, HTMLTable, NonIdealState, Spinner, Tag } from '@blueprintjs/core';
+import { HTMLTable, Tag } from '@blueprintjs/core';
 import { useQuery } from '@tanstack/react-query';
 import { Link } from 'react-router-dom';
 import type { ReviewDeskItemDto } from '@psiform/contracts';
-import { describeError } from '../api/client';
 import { useApi } from '../auth/AuthProvider';
 import { formatDate } from '../figures/model';
 import { formatAge } from './format';
 import { reviewDesk } from './reviewApi';
+import { EmptyState, QueryStatus } from '../components/QueryStatus';
+import { TableHead } from '../components/TableHead';
 
 /** Oldest first: the proof that has waited longest is reviewed first. Ties by title. */
 export function sortOldestFirst(items: readonly ReviewDeskItemDto[]): ReviewDeskItemDto[] {
@@ -35,34 +36,11 @@ export function ReviewDeskPage() {
         <p className="pf-muted">Proofs waiting in the publications you belong to, the longest-waiting first.</p>
       </header>
 
-      {desk.isPending && (
-        <div data-testid="review-desk-loading">
-          <NonIdealState icon={<Spinner size={32} />} title="Loading the review desk…" />
-        </div>
-      )}
-      {desk.isError && (
-        <Callout intent="danger" title="The review desk could not be loaded" data-testid="review-desk-error">
-          <p>{describeError(desk.error)}</p>
-          <Button text="Try again" icon="refresh" onClick={() => void desk.refetch()} loading={desk.isFetching} />
-        </Callout>
-      )}
-      {desk.isSuccess && desk.data.length === 0 && (
-        <div data-testid="review-desk-empty">
-          <NonIdealState icon="tick-circle" title="No proofs waiting" description="When an illustrator submits a figure for review it appears here." />
-        </div>
-      )}
+      <QueryStatus query={desk} what="the review desk" testId="review-desk" />
+      {desk.isSuccess && desk.data.length === 0 && <EmptyState testId="review-desk" icon="tick-circle" title="No proofs waiting" description="When an illustrator submits a figure for review it appears here." />}
       {desk.isSuccess && desk.data.length > 0 && (
         <HTMLTable className="pf-table" striped interactive data-testid="review-desk-table">
-          <thead>
-            <tr>
-              <th>Title</th>
-              <th>Publication</th>
-              <th>Illustrator</th>
-              <th>Version</th>
-              <th>Waiting</th>
-              <th>Needs</th>
-            </tr>
-          </thead>
+          <TableHead columns={['Title', 'Publication', 'Illustrator', 'Version', 'Waiting', 'Needs']} />
           <tbody>
             {sortOldestFirst(desk.data).map((item) => (
               <tr key={item.figureId} data-testid="desk-row">

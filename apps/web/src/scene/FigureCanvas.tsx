@@ -44,6 +44,28 @@ export class CanvasBoundary extends Component<{ children: ReactNode }, { error: 
   }
 }
 
+/**
+ * The 3D view's canvas, the same for the figure page, the Studio and the viewport: drawn on demand (a frame when
+ * something changed), its drawing buffer kept for read-back, a readable message instead of a crash without WebGL.
+ */
+export function SceneCanvas({ className = 'pf-canvas', children }: { className?: string; children: ReactNode }) {
+  return (
+    <CanvasBoundary>
+      <Canvas
+        className={className}
+        data-testid="viewport-canvas"
+        flat
+        dpr={1}
+        frameloop="demand"
+        gl={{ antialias: true, preserveDrawingBuffer: true, alpha: true }}
+        onCreated={({ invalidate }) => invalidate()}
+      >
+        {children}
+      </Canvas>
+    </CanvasBoundary>
+  );
+}
+
 export function FigureCanvas(props: FigureCanvasProps) {
   const { surfaces, palette, stage, annotations, canvas, label } = props;
   const overlay = useRef<HTMLCanvasElement>(null);
@@ -118,28 +140,18 @@ export function FigureCanvas(props: FigureCanvasProps) {
       style={{ aspectRatio: `${canvas.widthMm} / ${canvas.heightMm}`, ['--pf-figure-share' as string]: `${(figureShare * 100).toFixed(3)}%` }}
       data-testid="figure-canvas"
     >
-      <CanvasBoundary>
-        <Canvas
-          className="pf-canvas"
-          data-testid="viewport-canvas"
-          flat
-          dpr={1}
-          frameloop="demand"
-          gl={{ antialias: true, preserveDrawingBuffer: true, alpha: true }}
-          onCreated={({ invalidate }) => invalidate()}
-        >
-          <OrbitalScene
-            surfaces={surfaces}
-            palette={palette}
-            stage={stage}
-            annotations={annotations}
-            controls={props.controls}
-            onOrbitEnd={props.onOrbitEnd}
-            onFrame={onFrame}
-          />
-          <Invalidator deps={[label, annotations, canvas]} />
-        </Canvas>
-      </CanvasBoundary>
+      <SceneCanvas>
+        <OrbitalScene
+          surfaces={surfaces}
+          palette={palette}
+          stage={stage}
+          annotations={annotations}
+          controls={props.controls}
+          onOrbitEnd={props.onOrbitEnd}
+          onFrame={onFrame}
+        />
+        <Invalidator deps={[label, annotations, canvas]} />
+      </SceneCanvas>
       <canvas ref={overlay} className="pf-overlay" aria-label={`Figure label ${label}`} data-testid="figure-overlay" data-caption-band-mm={caption.bandMm.toFixed(2)} />
     </div>
   );

@@ -17,6 +17,7 @@ import './sets.css';
 import { Typeset } from '../components/Typeset';
 import { statusLabel } from '../figures/model';
 import { labelKey } from './shell';
+import { TableHead } from '../components/TableHead';
 
 const SUBSHELLS = ['s', 'p', 'd', 'f', 'hybrid', 'other'] as const;
 
@@ -113,14 +114,7 @@ function SetsOfPublication({ publicationId }: { publicationId: string }) {
         )}
         {sets.data && sets.data.length > 0 && (
           <HTMLTable compact interactive className="pf-table" data-testid="set-list">
-            <thead>
-              <tr>
-                <th>Title</th>
-                <th>Panels</th>
-                <th>Columns</th>
-                <th>Created</th>
-              </tr>
-            </thead>
+            <TableHead columns={['Title', 'Panels', 'Columns', 'Created']} />
             <tbody>
               {sets.data.map((s) => (
                 <tr key={s.id} data-testid="set-row" data-set-id={s.id} onClick={() => setSelected(s.id)} className={s.id === selected ? 'pf-row-selected' : undefined}>
@@ -330,15 +324,7 @@ export function NewSetForm({ publicationId, figures, onCreated }: { publicationI
         </Callout>
       )}
       <HTMLTable compact className="pf-table" data-testid="set-figures">
-        <thead>
-          <tr>
-            <th />
-            <th>Title</th>
-            <th>Orbital</th>
-            <th>Status</th>
-            <th>Panel</th>
-          </tr>
-        </thead>
+        <TableHead columns={['', 'Title', 'Orbital', 'Status', 'Panel']} />
         <tbody>
           {shown.map((f) => {
             const at = picked.indexOf(f.id);

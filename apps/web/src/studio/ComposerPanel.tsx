@@ -8,6 +8,7 @@ import { Typeset } from '../components/Typeset';
 import { gridMemoryText } from '../figures/model';
 import { filterLabelGroups, HYBRID_MEMBERS, HYBRID_PRETTY, ionLabel, labelGroups, normalisation, trimNumber } from './content';
 import { fieldText, namedState, singleUnitTerm, viewShowsState, type ComposerDraft, type ContentMode, type DraftAction } from './draft';
+import { TableHead } from '../components/TableHead';
 
 export interface ComposerPanelProps {
   draft: ComposerDraft;
@@ -107,17 +108,7 @@ function RowsEditor({ draft, dispatch, errors }: { draft: ComposerDraft; dispatc
   return (
     <div className="pf-rows" data-testid="cmp-rows">
       <table className="pf-rows-table">
-        <thead>
-          <tr>
-            <th>n</th>
-            <th>l</th>
-            <th>m</th>
-            <th>form</th>
-            <th>|c|</th>
-            <th>phase (°)</th>
-            <th />
-          </tr>
-        </thead>
+        <TableHead columns={['n', 'l', 'm', 'form', '|c|', 'phase (°)', '']} />
         <tbody>
           {draft.rowIds.map((id, i) => (
             <tr key={id} data-testid="cmp-row">

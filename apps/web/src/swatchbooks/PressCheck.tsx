@@ -6,6 +6,7 @@ import type { PressSwatch } from '@psiform/colour';
 import { describeError } from '../api/client';
 import { useApi } from '../auth/AuthProvider';
 import { SampleFigure, mapColours, type Colours } from './CvdPreviews';
+import { TableHead } from '../components/TableHead';
 
 interface PressCheckDto {
   condition: (typeof PRESS_CONDITIONS)[number];
@@ -46,18 +47,7 @@ export function PressCheck({ colours }: { colours: Colours }) {
       {q.data && (
         <>
           <HTMLTable compact className="pf-table" data-testid="press-table">
-            <thead>
-              <tr>
-                <th>Swatch</th>
-                <th>C</th>
-                <th>M</th>
-                <th>Y</th>
-                <th>K</th>
-                <th>Total ink</th>
-                <th>ΔE00 on paper</th>
-                <th />
-              </tr>
-            </thead>
+            <TableHead columns={['Swatch', 'C', 'M', 'Y', 'K', 'Total ink', 'ΔE00 on paper', '']} />
             <tbody>
               {q.data.swatches.map((s) => (
                 <tr key={s.name} data-testid="press-row" data-name={s.name}>

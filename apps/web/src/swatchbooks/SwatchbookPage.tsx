@@ -9,6 +9,7 @@ import { exportFileName, files } from './fileIo';
 import { SwatchbookEditor } from './SwatchbookEditor';
 import { Chips } from './SwatchbooksPage';
 import { exportSwatchbook, getSwatchbook, setSwatchbookLocked, swatchbookVersions } from './swatchbookApi';
+import { TableHead } from '../components/TableHead';
 
 const ACTION_WORDS: Record<string, string> = { create: 'created', update: 'edited', lock: 'locked', unlock: 'unlocked', import: 'imported' };
 
@@ -24,14 +25,7 @@ function Versions({ book }: { book: SwatchbookDto }) {
     );
   return (
     <HTMLTable compact className="pf-table" data-testid="sw-versions">
-      <thead>
-        <tr>
-          <th>Version</th>
-          <th>What</th>
-          <th>Colours</th>
-          <th>When</th>
-        </tr>
-      </thead>
+      <TableHead columns={['Version', 'What', 'Colours', 'When']} />
       <tbody>
         {[...versions.data].reverse().map((v, i) => (
           <tr key={`${v.version}-${i}`} data-testid="sw-version-row">

@@ -1,5 +1,5 @@
 import { useRef, useState } from 'react';
-import { Button, Callout, HTMLSelect, HTMLTable, NonIdealState, Spinner, Tag } from '@blueprintjs/core';
+import { Button, Callout, HTMLSelect, HTMLTable, Tag } from '@blueprintjs/core';
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { Link, useNavigate } from 'react-router-dom';
 import type { SwatchbookColorsDto, SwatchbookDto } from '@psiform/contracts';
@@ -10,6 +10,8 @@ import { files } from './fileIo';
 import { SwatchbookEditor } from './SwatchbookEditor';
 import { importSwatchbook, listSwatchbooks } from './swatchbookApi';
 import { usePublications } from '../figures/usePublications';
+import { EmptyState, QueryStatus } from '../components/QueryStatus';
+import { TableHead } from '../components/TableHead';
 
 export function Chips({ colors }: { colors: SwatchbookColorsDto }) {
   const list = [colors.positive, colors.negative, colors.background, colors.label, colors.nucleus, colors.axes].filter(Boolean) as string[];
@@ -123,34 +125,11 @@ export function SwatchbooksPage() {
         </section>
       )}
 
-      {books.isPending && (
-        <div data-testid="swatchbooks-loading">
-          <NonIdealState icon={<Spinner size={32} />} title="Loading swatchbooks…" />
-        </div>
-      )}
-      {books.isError && (
-        <Callout intent="danger" title="Swatchbooks could not be loaded" data-testid="swatchbooks-error">
-          <p>{describeError(books.error)}</p>
-          <Button text="Try again" icon="refresh" onClick={() => void books.refetch()} />
-        </Callout>
-      )}
-      {books.isSuccess && books.data.length === 0 && !creating && (
-        <div data-testid="swatchbooks-empty">
-          <NonIdealState icon="tint" title="No swatchbooks yet" description={canEdit ? 'Create one, or import an exported swatchbook file.' : 'An art director creates them.'} />
-        </div>
-      )}
+      <QueryStatus query={books} what="swatchbooks" testId="swatchbooks" />
+      {books.isSuccess && books.data.length === 0 && !creating && <EmptyState testId="swatchbooks" icon="tint" title="No swatchbooks yet" description={canEdit ? 'Create one, or import an exported swatchbook file.' : 'An art director creates them.'} />}
       {books.isSuccess && books.data.length > 0 && (
         <HTMLTable className="pf-table" striped data-testid="swatchbooks-table">
-          <thead>
-            <tr>
-              <th>Name</th>
-              <th>Belongs to</th>
-              <th>Colours</th>
-              <th>Version</th>
-              <th>State</th>
-              <th>Updated</th>
-            </tr>
-          </thead>
+          <TableHead columns={['Name', 'Belongs to', 'Colours', 'Version', 'State', 'Updated']} />
           <tbody>
             {books.data.map((b) => (
               <tr key={b.id} data-testid="swatchbook-row">

@@ -1,8 +1,7 @@
 import { useCallback, useEffect, useRef, useState } from 'react';
 import { Callout, NonIdealState, Spinner } from '@blueprintjs/core';
-import { Canvas } from '@react-three/fiber';
 import { annotationsSchema, type Recipe } from '@psiform/contracts';
-import { CanvasBoundary } from '../scene/FigureCanvas';
+import { SceneCanvas } from '../scene/FigureCanvas';
 import { disposeGeometries, loadGlbGeometries, type PhaseGeometry } from '../scene/geometry';
 import { OrbitalScene } from '../scene/OrbitalScene';
 import { PhaseKeyLegend } from '../components/PhaseKeyLegend';
@@ -89,26 +88,16 @@ export default function FigureViewport({ url, palette, stage, annotations, onRea
       )}
       {!error && !surfaces && <NonIdealState icon={<Spinner size={28} />} title="Loading the mesh…" />}
       {surfaces && (
-        <CanvasBoundary>
-          <Canvas
-            className={`pf-canvas${bg ? '' : ' pf-checker'}`}
-            data-testid="viewport-canvas"
-            flat
-            dpr={1}
-            frameloop="demand"
-            gl={{ antialias: true, preserveDrawingBuffer: true, alpha: true }}
-            onCreated={({ invalidate }) => invalidate()}
-          >
-            <OrbitalScene
-              surfaces={surfaces}
-              palette={palette}
-              stage={stage}
-              annotations={annotations ?? NO_ANNOTATIONS}
-              controls
-              onFrame={onFrame}
-            />
-          </Canvas>
-        </CanvasBoundary>
+        <SceneCanvas className={`pf-canvas${bg ? '' : ' pf-checker'}`}>
+          <OrbitalScene
+            surfaces={surfaces}
+            palette={palette}
+            stage={stage}
+            annotations={annotations ?? NO_ANNOTATIONS}
+            controls
+            onFrame={onFrame}
+          />
+        </SceneCanvas>
       )}
       <div className="pf-legend" aria-label="Phase colours">
         {phaseKey ? (

@@ -1,10 +1,10 @@
 import { UnrecoverableError } from 'bullmq';
 import { parseRecipe } from '@psiform/contracts';
-import { AssetStore, JobsStore, ObjectStorage, meshKey, recipeHash, type JobContext, type NewAsset, type StoredObject } from '@psiform/server';
+import { ObjectStorage, meshKey, recipeHash, type JobContext, type StoredObject } from '@psiform/server';
 import { closeParallelSampler } from '@psiform/orbitals/node';
 import type { AfterMesh, MeshDone } from '@psiform/server';
 import { MeshJobProcessor } from './mesh.processor';
-import { NoOutbox, lifecycle } from '../testing/lifecycle';
+import { EmptyAssets, NoOutbox, RecordingJobs, lifecycle } from '../testing/lifecycle';
 
 // Each job runs the real engine (all-space level, surface analysis, sampling on worker threads): allow for a busy machine.
 jest.setTimeout(60_000);
@@ -16,43 +16,16 @@ const recipe = (() => {
   return r.recipe;
 })();
 
-class FakeJobs extends JobsStore {
-  log: string[] = [];
-  completed: NewAsset[] = [];
+class FakeJobs extends RecordingJobs {
   state = 'queued';
   version: JobContext['version'] = { id: 'v1', figureId: 'f1', number: 1, recipe, recipeHash: recipeHash(recipe), engineVersion: 'test-engine', authorId: 'u1', locked: false, createdAt: new Date() };
   async loadContext(id: string): Promise<JobContext | null> {
     if (id === GONE) return null;
-    return {
-      job: { id, state: this.state, assetIds: ['a1', 'a2'], publicationId: 'p1' } as JobContext['job'],
-      figure: { id: 'f1' } as JobContext['figure'],
-      version: this.version,
-    };
+    return { job: { id, state: this.state, assetIds: ['a1', 'a2'], publicationId: 'p1' } as JobContext['job'], figure: { id: 'f1' } as JobContext['figure'], version: this.version };
   }
-  async markActive(_id: string, attempt: number, stage: string) {
-    this.log.push(`active:${attempt}:${stage}`);
-  }
-  async setStage(_id: string, stage: string, progress: number) {
-    this.log.push(`${stage}:${progress}`);
-  }
-  async requeue(_id: string, error: string) {
-    this.log.push(`requeue:${error}`);
-  }
-  async fail(_id: string, error: string) {
-    this.log.push(`fail:${error}`);
-  }
-  async complete(_id: string, timings: Record<string, number>, assets: NewAsset[]) {
-    this.log.push(`complete:${Object.keys(timings).sort().join(',')}`);
-    this.completed = assets;
-    return assets.map((_, i) => `asset-${i}`);
-  }
-  request = () => Promise.reject(new Error('unused'));
-  staleQueued = () => Promise.reject(new Error('unused'));
-  redriveQueued = () => Promise.reject(new Error('unused'));
-  findById = () => Promise.reject(new Error('unused'));
 }
 
-class FakeAssets extends AssetStore {
+class FakeAssets extends EmptyAssets {
   objects = new Map<string, Uint8Array>();
   failPuts = 0;
   async storeObject(key: string, bytes: Uint8Array): Promise<StoredObject> {
@@ -64,12 +37,6 @@ class FakeAssets extends AssetStore {
     this.objects.set(key, bytes);
     return { key, bytes: bytes.length, sha256: 'x'.repeat(64), reused };
   }
-  findById = () => Promise.resolve(null);
-  findByIds = () => Promise.resolve([]);
-  findForVersion = () => Promise.resolve([]);
-  keyReferenced = () => Promise.resolve(false);
-  presignGet = () => Promise.resolve('');
-  nameFacts = () => Promise.resolve(null);
 }
 
 const J1 = '0b6f7c1e-2d3a-4b5c-9d8e-7f6a5b4c3d2e';

@@ -1,4 +1,4 @@
-import type { Recipe } from '@psiform/contracts';
+import type { Recipe, RenderPageResult } from '@psiform/contracts';
 import { finishPng, pixelsPerMetre, readPngInfo } from '@psiform/print';
 import type { HeadlessBrowser } from './headless-browser';
 import type { StaticSite } from './static-site';
@@ -22,15 +22,8 @@ export interface RenderRequest {
   columns?: number;
 }
 
-interface PageResult {
-  pngBase64: string;
-  width: number;
-  height: number;
-  dpi: number;
-  tiles: number;
-  triangles: number;
-  ms: { load: number; render: number; encode: number };
-}
+/** What the page answers (the render page contract, libs/contracts exports.ts). */
+type PageResult = RenderPageResult;
 
 export interface RenderOutput {
   /** Checked PNG: exactly widthPx × heightPx, pHYs = dpi in pixels per metre on both axes, sRGB chunk. */

@@ -3,23 +3,8 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { Logger } from '@nestjs/common';
 import { chromium, type Browser, type Page } from 'playwright-core';
+import { CHROMIUM_FLAGS } from '@psiform/contracts';
 
-/**
- * Flags measured on this machine (stack notes, "Browser, WebGL and figure rendering"): software WebGL2 through
- * SwiftShader, no network chatter. Playwright's own defaults are switched off so exactly these are used
- * (plus the pipe Playwright talks over).
- */
-export const CHROMIUM_FLAGS = [
-  '--headless',
-  '--no-sandbox',
-  '--disable-quic',
-  '--no-first-run',
-  '--disable-background-networking',
-  '--disable-component-update',
-  '--disable-sync',
-  '--use-angle=swiftshader',
-  '--enable-unsafe-swiftshader',
-];
 
 /**
  * One Chromium per worker process, launched on first use with a fresh profile, reused across jobs, relaunched

@@ -1,11 +1,11 @@
 import { UnrecoverableError } from 'bullmq';
 import { parseRecipe, type Recipe } from '@psiform/contracts';
-import { AssetStore, JobsStore, ObjectStorage, meshKey, recipeHash, sha256Hex, type AssetEntity, type FigureVersionEntity, type JobContext, type NewAsset, type StoredObject } from '@psiform/server';
+import { ObjectStorage, meshKey, recipeHash, sha256Hex, type AssetEntity, type FigureVersionEntity, type JobContext, type StoredObject } from '@psiform/server';
 import { closeParallelSampler } from '@psiform/orbitals/node';
 import { RenderJobProcessor } from './render.processor';
 import type { FigureRenderer, RenderRequest } from './figure-renderer';
 import type { FigureSetsStore, FiguresStore } from '@psiform/server';
-import { NoOutbox, lifecycle } from '../testing/lifecycle';
+import { EmptyAssets, NoOutbox, RecordingJobs, lifecycle } from '../testing/lifecycle';
 
 // Ids are UUIDs: the job contract checks the render payload's figure-set and panel ids.
 const VX = '1a2b3c4d-0001-4000-8000-00000000000a';
@@ -29,50 +29,24 @@ const vx = version(VX, recipeFor(1, '2p_x'));
 const vz = version(VZ, recipeFor(0, '2p_z'));
 const params = { format: 'png' as const, widthPx: 300, heightPx: 100, dpi: 300, figureSetId: SET1, columns: 2, title: 'p', panels: [{ figureId: FIG_VX, figureVersionId: VX }, { figureId: FIG_VZ, figureVersionId: VZ }] };
 
-class FakeJobs extends JobsStore {
-  log: string[] = [];
-  completed: NewAsset[] = [];
+class FakeJobs extends RecordingJobs {
   async loadContext(id: string): Promise<JobContext | null> {
     return { job: { id, state: 'queued', assetIds: [], publicationId: 'p1', params } as unknown as JobContext['job'], figure: null, version: null };
   }
-  async markActive(_id: string, _a: number, stage: string) {
-    this.log.push(stage);
-  }
-  async setStage(_id: string, stage: string) {
-    this.log.push(stage);
-  }
-  async requeue(_id: string, error: string) {
-    this.log.push(`requeue:${error}`);
-  }
-  async fail(_id: string, error: string) {
-    this.log.push(`fail:${error}`);
-  }
-  async complete(_id: string, _t: Record<string, number>, assets: NewAsset[]) {
-    this.completed = assets;
-    return assets.map((_, i) => `asset-${i}`);
-  }
-  request = () => Promise.reject(new Error('unused'));
-  staleQueued = () => Promise.reject(new Error('unused'));
-  redriveQueued = () => Promise.reject(new Error('unused'));
-  findById = () => Promise.reject(new Error('unused'));
 }
 
 /** vx already has its mesh (glb + stl rows); vz has none, so the job meshes it with the mesh job's code. */
-class FakeAssets extends AssetStore {
+class FakeAssets extends EmptyAssets {
   keys: string[] = [];
   async storeObject(key: string, bytes: Uint8Array): Promise<StoredObject> {
     this.keys.push(key);
     return { key, bytes: bytes.length, sha256: 'y'.repeat(64), reused: false };
   }
-  findForVersion = async (id: string) =>
-    id === VX
+  async findForVersion(id: string): Promise<AssetEntity[]> {
+    return id === VX
       ? (['glb', 'stl'] as const).map((kind) => ({ id: `old-${kind}`, figureVersionId: VX, publicationId: 'p1', kind, storageKey: meshKey(vx.recipeHash, 'test-engine', '20', kind), bytes: 4, sha256: 'z'.repeat(64), stats: {} }) as unknown as AssetEntity)
       : [];
-  findById = () => Promise.resolve(null);
-  findByIds = () => Promise.resolve([]);
-  keyReferenced = () => Promise.resolve(false);
-  presignGet = () => Promise.resolve('');
-  nameFacts = () => Promise.resolve(null);
+  }
 }
 
 const storage = { get: async (key: string) => new TextEncoder().encode(`stored:${key}`) } as unknown as ObjectStorage;
@@ -102,7 +76,7 @@ describe('RenderJobProcessor, figure sets', () => {
       } } as unknown as FigureSetsStore;
     const p = new RenderJobProcessor(assets, storage, fakeRenderer(seen), {} as FiguresStore, 'test-engine', sets);
     const res = await run(jobs, p);
-    expect(jobs.log).toEqual(['meshing', 'rendering', 'encoding', 'storing']);
+    expect(jobs.stages).toEqual(['meshing', 'rendering', 'encoding', 'storing']);
     expect(seen).toHaveLength(1);
     expect(seen[0]).toMatchObject({ widthPx: 300, heightPx: 100, dpi: 300, columns: 2 });
     expect(seen[0].panels!.map((x) => x.recipe.label)).toEqual(['2p_x', '2p_z']);

@@ -39,7 +39,24 @@ export const ENTITIES = [UserEntity, PublicationEntity, MembershipEntity, Figure
 export const MIGRATIONS = [Foundation1764633600000, FigureJobs1764720000000, EditorialReview1764806400000, StudioExports1764979200000, FigureSetExports1765238400000, PrintProduction1765411200000,
   FigureUnitsAndSetCaptions1765600000000, Outbox1796188459275, SwatchbookScope1796200000000];
 
-export function dataSourceOptions(url: string, extra: { poolSize?: number } = {}): DataSourceOptions {
+/**
+ * Time limits of database calls made while answering a request (the api's data source), so a stalled PostgreSQL
+ * gives a 503 with the reason within 2 s instead of a hang (issue "Stays up and stays scoped"):
+ * - statementMs: PostgreSQL cancels a statement (lock waits included) after this long (SQLSTATE 57014);
+ * - queryMs: node-postgres gives up on an answer that never comes (a server that stopped answering at all);
+ * - connectMs: opening a connection, or waiting for a free one of the pool. Longer: a fresh connection took over 1.5 s
+ *   on the shared 2-core machine under load (sign-ins answered 503 while PostgreSQL was fine); a stalled server is
+ *   caught on the pooled connections by the two limits above.
+ * The HTTP error filter answers all three with 503. Migrations, the seed and the worker's jobs have no such limit.
+ */
+export const REQUEST_DB_TIMEOUTS = { statementMs: 1500, queryMs: 1800, connectMs: 5000 } as const;
+
+export function dataSourceOptions(url: string, extra: { poolSize?: number; requestTimeouts?: boolean } = {}): DataSourceOptions {
+  const t = REQUEST_DB_TIMEOUTS;
+  const pool = {
+    ...(extra.poolSize ? { max: extra.poolSize } : {}),
+    ...(extra.requestTimeouts ? { statement_timeout: t.statementMs, query_timeout: t.queryMs, connectionTimeoutMillis: t.connectMs } : {}),
+  };
   return {
     type: 'postgres',
     url,
@@ -50,6 +67,6 @@ export function dataSourceOptions(url: string, extra: { poolSize?: number } = {}
     migrationsRun: false,
     logging: ['error'],
     logger: new ParameterFreeQueryLogger(), // never the query's values (hashes, addresses) in logs
-    ...(extra.poolSize ? { extra: { max: extra.poolSize } } : {}),
+    ...(Object.keys(pool).length ? { extra: pool } : {}),
   };
 }

@@ -123,22 +123,17 @@ export class TypeormJobsStore implements JobsStore {
       .execute();
   }
 
-  async requeue(id: string, error: string): Promise<void> {
-    await this.jobs
-      .createQueryBuilder()
-      .update()
-      .set({ state: 'queued', stage: 'queued', progress: 0, error })
-      .where('id = :id AND state <> :done', { id, done: 'completed' })
-      .execute();
+  requeue(id: string, error: string): Promise<void> {
+    return this.unlessCompleted(id, { state: 'queued', stage: 'queued', progress: 0, error });
   }
 
-  async fail(id: string, error: string): Promise<void> {
-    await this.jobs
-      .createQueryBuilder()
-      .update()
-      .set({ state: 'failed', error })
-      .where('id = :id AND state <> :done', { id, done: 'completed' })
-      .execute();
+  fail(id: string, error: string): Promise<void> {
+    return this.unlessCompleted(id, { state: 'failed', error });
+  }
+
+  /** A completed row is final: a late retry or failure report never changes it. */
+  private async unlessCompleted(id: string, set: Partial<Pick<JobEntity, 'state' | 'stage' | 'progress' | 'error'>>): Promise<void> {
+    await this.jobs.createQueryBuilder().update().set(set).where('id = :id AND state <> :done', { id, done: 'completed' }).execute();
   }
 
   async complete(id: string, timings: Record<string, number>, assets: NewAsset[]): Promise<string[]> {
