@@ -1,6 +1,7 @@
 import { Queue } from 'bullmq';
 import { fractionProblem, gridProblem, QUEUES, RECIPE_LIMITS } from '@psiform/contracts';
 import { auth, demoTokens, login, runEmail, smallRecipe, startTestApp, DEMO_PUBLICATION, RUN_ID, type TestApp } from './support';
+import { waitFor } from './worker-process';
 
 /** Figures API without a worker: create / read / edit / list, roles, membership, and refused recipes. */
 describe('figures (e2e)', () => {
@@ -11,13 +12,14 @@ describe('figures (e2e)', () => {
   const pub = DEMO_PUBLICATION.id;
 
   const counts = async () => {
-    const [[f], [v], [j]] = await Promise.all([
+    const [[f], [v], [j], [o]] = await Promise.all([
       t.ds.query(`SELECT count(*)::int AS n FROM figures`),
       t.ds.query(`SELECT count(*)::int AS n FROM figure_versions`),
       t.ds.query(`SELECT count(*)::int AS n FROM jobs`),
+      t.ds.query(`SELECT count(*)::int AS n FROM outbox`),
     ]);
     const q = await meshQueue.getJobCounts('waiting', 'delayed', 'active', 'completed', 'failed', 'prioritized', 'waiting-children');
-    return { figures: f.n, versions: v.n, jobs: j.n, queued: Object.values(q).reduce((a, b) => a + b, 0) };
+    return { figures: f.n, versions: v.n, jobs: j.n, outbox: o.n, queued: Object.values(q).reduce((a, b) => a + b, 0) };
   };
 
   beforeAll(async () => {
@@ -158,14 +160,19 @@ describe('figures (e2e)', () => {
     });
   });
 
-  it('queueing creates one Job row (queued) and one BullMQ job whose id is the row id, with retries', async () => {
+  it('queueing creates one Job row (queued) and its outbox row in one transaction; the relay makes it one BullMQ job, with retries', async () => {
     const f = (await t.http().post('/api/figures').set(auth(tok.illustrator)).send({ publicationId: pub, title: `Queue ${RUN_ID}`, recipe: smallRecipe() }).expect(201)).body;
     const { jobId } = (await t.http().post(`/api/figures/${f.id}/meshes`).set(auth(tok.illustrator)).expect(201)).body;
     const job = (await t.http().get(`/api/jobs/${jobId}`).set(auth(tok.editor)).expect(200)).body;
     expect(job).toMatchObject({ id: jobId, type: 'mesh', figureId: f.id, assets: [] });
     expect(['queued', 'active', 'completed']).toContain(job.state);
-    const bull = await meshQueue.getJob(jobId);
-    expect(bull?.data).toEqual({ jobId });
+    const [row] = await t.ds.query(`SELECT bull_job_id FROM jobs WHERE id = $1`, [jobId]);
+    const [outbox] = await t.ds.query(`SELECT name, payload FROM outbox WHERE id = $1`, [row.bull_job_id]);
+    expect(outbox).toEqual({ name: 'mesh', payload: { jobId, params: {} } });
+    // The relay (every 200 ms) puts it on the mesh queue under the outbox row's id, then marks the row relayed.
+    const bull = await waitFor('the relayed BullMQ job', () => meshQueue.getJob(row.bull_job_id), 10000);
+    expect(bull.data).toEqual({ jobId, params: {} });
+    await waitFor('the outbox row marked relayed', async () => (await t.ds.query(`SELECT state FROM outbox WHERE id = $1`, [row.bull_job_id]))[0].state !== 'pending', 10000);
     expect(bull?.opts.attempts).toBe(3);
     expect(bull?.opts.backoff).toEqual({ type: 'exponential', delay: 1000 });
     await t.http().get(`/api/jobs/${jobId}`).set(auth(outsider)).expect(404);

@@ -1,5 +1,5 @@
 import * as os from 'node:os';
-import { RECIPE_LIMITS } from '@psiform/contracts';
+import { RECIPE_LIMITS, quantumNumberError } from '@psiform/contracts';
 import { parseCommandArgs, type OptionSpec } from './args';
 import { UsageError, oneLine } from './errors';
 import { COMMAND_HELP, CONVENTIONS, MAIN_HELP, MODEL_NOTE, UNITS } from './help';
@@ -114,9 +114,8 @@ function cmdRadial(argv: string[]): void {
   if (v.l === undefined) throw new UsageError('radial needs --l L');
   const n = parseIntOption('--n', v.n as string);
   const l = parseIntOption('--l', v.l as string);
-  if (n < 1 || n > RECIPE_LIMITS.nMax) throw new UsageError(`n must be between 1 and ${RECIPE_LIMITS.nMax} (got n=${n})`);
-  if (l < 0) throw new UsageError(`l must be at least 0 (got l=${l})`);
-  if (l >= n) throw new UsageError(`l must be less than n (got n=${n}, l=${l})`);
+  const broken = quantumNumberError(n, l); // the one quantum-number rule (libs/contracts quantum.ts)
+  if (broken) throw new UsageError(broken);
   const Z = v.Z === undefined ? 1 : parseIntOption('--Z', v.Z as string, { min: 1, max: RECIPE_LIMITS.zMax });
   let outside: number | null = null;
   if (v.outside !== undefined) {

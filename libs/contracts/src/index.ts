@@ -7,3 +7,5 @@ export * from './reviews';
 export * from './exports';
 export * from './limits';
 export * from './print';
+export * from './jobs';
+export * from './quantum';

@@ -1,3 +1,5 @@
+import { N_MAX } from './quantum';
+
 /**
  * Limits of what people type, with ONE wording, shared by the API (400 messages "<field>: <problem>") and the
  * client (inline messages under the field), so both name the same limit in the same words.
@@ -11,7 +13,8 @@ export const TEXT_LIMITS = { titleMax: 200, labelMax: 80, captionMax: 2000, note
 
 /** Engine limits shared by the CLI, API, worker and web (memory: 384³ float32 ≈ 226 MB per field). */
 export const RECIPE_LIMITS = {
-  nMax: 12,
+  /** The quantum-number rule's own bound (quantum.ts). */
+  nMax: N_MAX,
   zMax: 118,
   gridMin: 16,
   gridMax: 384,

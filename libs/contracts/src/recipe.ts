@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { N_MAX, quantumNumberIssues } from './quantum';
 import { fractionProblem, gridProblem, HEX_COLOUR, HEX_COLOUR_MESSAGE, isovalueProblem, mmProblem, RECIPE_LIMITS, TEXT_LIMITS, textProblem, zProblem } from './limits';
 
 /** The API's message for a limit: the field, then the very words the client shows (limits.ts). */
@@ -58,9 +59,10 @@ export const PSIFORM_PALETTE = {
 
 export const termSchema = z
   .strictObject({
-    n: z.number().int({ message: 'n must be an integer' }).min(1, { message: 'n must be at least 1' }).max(RECIPE_LIMITS.nMax, { message: `n must be at most ${RECIPE_LIMITS.nMax}` }),
-    l: z.number().int({ message: 'l must be an integer' }).min(0, { message: 'l must be at least 0' }),
-    m: z.number().int({ message: 'm must be an integer' }),
+    // The rule on n, l, m (ranges and relations) is quantum.ts's, checked below with its one wording.
+    n: z.number({ error: 'n must be a number' }).describe(`principal quantum number: an integer, 1 ≤ n ≤ ${N_MAX}`),
+    l: z.number({ error: 'l must be a number' }).describe('angular momentum quantum number: an integer, 0 ≤ l < n'),
+    m: z.number({ error: 'm must be a number' }).describe('magnetic quantum number: an integer, |m| ≤ l'),
     /** 'complex': Y_lm with the Condon–Shortley phase; 'real': the chemists' real combination (m>0 cos-type, m<0 sin-type). */
     basis: z.enum(['complex', 'real']).describe("'complex': Y_lm with the Condon–Shortley phase; 'real': the real form (m > 0 cos type, m < 0 sin type, (-1)^m as in ENGINE_CONVENTIONS)."),
     /**
@@ -74,8 +76,7 @@ export const termSchema = z
     im: finite('im').default(0),
   })
   .superRefine((t, ctx) => {
-    if (t.l >= t.n) ctx.addIssue({ code: 'custom', path: ['l'], message: `l must be less than n (got n=${t.n}, l=${t.l})` });
-    if (Math.abs(t.m) > t.l) ctx.addIssue({ code: 'custom', path: ['m'], message: `|m| must not exceed l (got l=${t.l}, m=${t.m})` });
+    for (const issue of quantumNumberIssues(t)) ctx.addIssue({ code: 'custom', path: [issue.field], message: issue.message });
   });
 
 export const surfaceSchema = z.discriminatedUnion('rule', [

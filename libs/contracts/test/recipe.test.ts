@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { fractionProblem, gridProblem, RECIPE_LIMITS, zProblem } from '../src/limits';
-import { PSIFORM_PALETTE, RECIPE_VERSION, canonicalJson, formatRecipeIssues, parseRecipe, type RecipeIssue } from '../src/recipe';
+import { ENGINE_CONVENTIONS, PSIFORM_PALETTE, RECIPE_VERSION, canonicalJson, formatRecipeIssues, parseRecipe, recipeSchema, type RecipeIssue } from '../src/recipe';
 
 /** A minimal valid document: 2p_z (real basis), Z = 1, 48³ grid, 90% enclosed. */
 function minimal(): Record<string, any> {
@@ -95,12 +95,12 @@ describe('parseRecipe: rejected documents name the field', () => {
 
   it('n = 13 (over RECIPE_LIMITS.nMax)', () => {
     const issues = issuesOf(withTerm({ n: 13, l: 0, m: 0, basis: 'real', re: 1 }));
-    expect(issues).toEqual([{ path: 'content.terms.0.n', message: 'n must be at most 12' }]);
+    expect(issues).toEqual([{ path: 'content.terms.0.n', message: 'n must be between 1 and 12 (got n=13)' }]);
   });
 
   it('n = 0 and a fractional n', () => {
-    expect(issuesOf(withTerm({ n: 0, l: 0, m: 0, basis: 'real', re: 1 }))).toContainEqual({ path: 'content.terms.0.n', message: 'n must be at least 1' });
-    expect(issuesOf(withTerm({ n: 2.5, l: 0, m: 0, basis: 'real', re: 1 }))).toContainEqual({ path: 'content.terms.0.n', message: 'n must be an integer' });
+    expect(issuesOf(withTerm({ n: 0, l: 0, m: 0, basis: 'real', re: 1 }))).toContainEqual({ path: 'content.terms.0.n', message: 'n must be between 1 and 12 (got n=0)' });
+    expect(issuesOf(withTerm({ n: 2.5, l: 0, m: 0, basis: 'real', re: 1 }))).toContainEqual({ path: 'content.terms.0.n', message: 'n must be an integer (got n=2.5)' });
   });
 
   it('the second term is named by its index', () => {
@@ -254,8 +254,7 @@ describe('grid and palette wheel (issue: truthful figures)', () => {
 describe('the recipe as documented (the API docs convert this schema with zod toJSONSchema)', () => {
   it('states the sign conventions, the units and the normalisation rule', async () => {
     const { z } = await import('zod');
-    const { recipeSchema, ENGINE_CONVENTIONS } = await import('../src/recipe');
-    const doc = z.toJSONSchema(recipeSchema, { io: 'input', unrepresentable: 'any' }) as { description: string; properties: { content: { properties: { terms: { items: { properties: { re: { description: string }; basis: { description: string } } } } } } } };
+    const doc = z.toJSONSchema(recipeSchema, { io: 'input', unrepresentable: 'any' }) as unknown as { description: string; properties: { content: { properties: { terms: { items: { properties: { re: { description: string }; basis: { description: string } } } } } } } };
     expect(doc.description).toContain(ENGINE_CONVENTIONS);
     expect(doc.description).toContain('Bohr radii a0');
     const term = doc.properties.content.properties.terms.items.properties;

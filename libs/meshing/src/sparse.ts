@@ -15,7 +15,7 @@
 // generation", ACM Trans. Graph. 11(3), 1992; interval bounds instead of min/max trees: T. Duff, "Interval
 // arithmetic and recursive subdivision for implicit functions and constructive solid geometry", SIGGRAPH 1992.
 
-import { emitCellTriangles } from './marching-cubes';
+import { cubeCase, emitCellTriangles, setCorners } from './marching-cubes';
 import { CDX, CDY, CDZ, EDGE_AXIS, EDGE_HI, EDGE_LO, EDGE_TABLE } from './mc-tables';
 import { GrowableFloat32, GrowableUint32, type Mesh } from './mesh';
 import type { CubeGrid } from './orbital-surfaces';
@@ -230,24 +230,9 @@ export function extractSparse(field: BlockField, grid: CubeGrid, levels: readonl
                 const b = gj * nR + gi;
                 const v0 = vals[b + o0], v1 = vals[b + o1], v2 = vals[b + o2], v3 = vals[b + o3];
                 const v4 = vals[b + o4], v5 = vals[b + o5], v6 = vals[b + o6], v7 = vals[b + o7];
-                const ci =
-                  (s * v0 > sl ? 1 : 0) |
-                  (s * v1 > sl ? 2 : 0) |
-                  (s * v2 > sl ? 4 : 0) |
-                  (s * v3 > sl ? 8 : 0) |
-                  (s * v4 > sl ? 16 : 0) |
-                  (s * v5 > sl ? 32 : 0) |
-                  (s * v6 > sl ? 64 : 0) |
-                  (s * v7 > sl ? 128 : 0);
+                const ci = cubeCase(s, sl, v0, v1, v2, v3, v4, v5, v6, v7);
                 if (ci === 0 || ci === 255) continue;
-                cv[0] = v0;
-                cv[1] = v1;
-                cv[2] = v2;
-                cv[3] = v3;
-                cv[4] = v4;
-                cv[5] = v5;
-                cv[6] = v6;
-                cv[7] = v7;
+                setCorners(cv, v0, v1, v2, v3, v4, v5, v6, v7);
                 const em = EDGE_TABLE[ci];
                 for (let e = 0; e < 12; e++) {
                   if ((em & (1 << e)) === 0) continue;

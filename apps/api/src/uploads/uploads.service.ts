@@ -203,9 +203,11 @@ export class UploadsService {
     const assetId = randomUUID();
     try {
       const recipe = validateRecipe(uploadRecipe(meta.title, meta.fraction, { ...cube, quantity, assetId }));
-      const { figure } = await this.figuresStore.createWithAsset(
-        { publicationId: meta.publicationId, title: meta.title, ownerId: user.id },
-        this.figures.newVersion(recipe, user),
+      // Version 1 through the figures feature's one writer (house palette included), the asset row in its transaction.
+      const { figure } = await this.figures.saveFirst(
+        user,
+        { publicationId: meta.publicationId, title: meta.title },
+        recipe,
         {
           id: assetId,
           publicationId: meta.publicationId,

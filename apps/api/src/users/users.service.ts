@@ -1,4 +1,4 @@
-import { ConflictException, Injectable } from '@nestjs/common';
+import { Injectable } from '@nestjs/common';
 import type { CreateUserRequest, UserDto } from '@psiform/contracts';
 import { DuplicateEmailError, UsersStore, toUserDto } from '@psiform/server';
 import { hashPassword } from './password';
@@ -9,15 +9,10 @@ export class UsersService {
 
   async create(req: CreateUserRequest): Promise<UserDto> {
     const email = req.email.trim().toLowerCase();
-    if (await this.store.findByEmail(email)) throw new ConflictException(`email ${email} is already registered`);
-    try {
-      const user = await this.store.insert({ email, displayName: req.displayName, role: req.role, passwordHash: await hashPassword(req.password) });
-      return toUserDto(user);
-    } catch (err) {
-      // Lost a race with a concurrent insert of the same email.
-      if (err instanceof DuplicateEmailError) throw new ConflictException(`email ${email} is already registered`);
-      throw err;
-    }
+    if (await this.store.findByEmail(email)) throw new DuplicateEmailError(email);
+    // A concurrent insert of the same email makes the store throw DuplicateEmailError too (409 through the filter).
+    const user = await this.store.insert({ email, displayName: req.displayName, role: req.role, passwordHash: await hashPassword(req.password) });
+    return toUserDto(user);
   }
 
   async list(): Promise<UserDto[]> {

@@ -91,7 +91,7 @@ describe('Composer: quantum numbers as you type', () => {
     await ue.type(screen.getByTestId('cmp-n'), '3');
     await ue.clear(screen.getByTestId('cmp-l'));
     await ue.type(screen.getByTestId('cmp-l'), '3');
-    expect(screen.getByTestId('cmp-l-error').textContent).toBe('l must be less than n: with n = 3, l can be 0, 1 or 2 (got 3).');
+    expect(screen.getByTestId('cmp-l-error').textContent).toBe('l must be less than n (got n=3, l=3): with n = 3, l can be 0, 1 or 2.');
     expect(save().disabled).toBe(true);
 
     await ue.clear(screen.getByTestId('cmp-l'));
@@ -99,12 +99,12 @@ describe('Composer: quantum numbers as you type', () => {
     expect(screen.queryByTestId('cmp-l-error')).toBeNull();
     await ue.clear(screen.getByTestId('cmp-m'));
     await ue.type(screen.getByTestId('cmp-m'), '-3');
-    expect(screen.getByTestId('cmp-m-error').textContent).toBe('|m| must not exceed l: with l = 2, m can be −2, −1, 0, 1 or 2 (got -3).');
+    expect(screen.getByTestId('cmp-m-error').textContent).toBe('|m| must not exceed l (got l=2, m=-3): with l = 2, m can be −2, −1, 0, 1 or 2.');
     expect(save().disabled).toBe(true);
 
     await ue.clear(screen.getByTestId('cmp-n'));
     await ue.type(screen.getByTestId('cmp-n'), '13');
-    expect(screen.getByTestId('cmp-n-error').textContent).toBe('n must be between 1 and 12 (got 13).');
+    expect(screen.getByTestId('cmp-n-error').textContent).toBe('n must be between 1 and 12 (got n=13).');
 
     await ue.clear(screen.getByTestId('cmp-n'));
     await ue.type(screen.getByTestId('cmp-n'), '3');

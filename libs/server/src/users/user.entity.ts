@@ -1,26 +1,16 @@
-import { Column, CreateDateColumn, Entity, PrimaryGeneratedColumn } from 'typeorm';
+import { Column, Entity } from 'typeorm';
+import { IdColumn, CreatedAt } from '../db/columns';
 import type { Role, UserDto } from '@psiform/contracts';
 
 @Entity({ name: 'users' })
 export class UserEntity {
-  @PrimaryGeneratedColumn('uuid')
-  id: string;
-
+  @IdColumn() id: string;
   /** Stored lower-cased; unique (constraint uq_users_email). */
-  @Column({ type: 'varchar', length: 320 })
-  email: string;
-
-  @Column({ name: 'display_name', type: 'varchar', length: 120 })
-  displayName: string;
-
-  @Column({ name: 'password_hash', type: 'varchar', length: 100 })
-  passwordHash: string;
-
-  @Column({ type: 'varchar', length: 20 })
-  role: Role;
-
-  @CreateDateColumn({ name: 'created_at', type: 'timestamptz' })
-  createdAt: Date;
+  @Column({ type: 'varchar', length: 320 }) email: string;
+  @Column({ name: 'display_name', type: 'varchar', length: 120 }) displayName: string;
+  @Column({ name: 'password_hash', type: 'varchar', length: 100 }) passwordHash: string;
+  @Column({ type: 'varchar', length: 20 }) role: Role;
+  @CreatedAt() createdAt: Date;
 }
 
 /** The public shape: never the hash. */

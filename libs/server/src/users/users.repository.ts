@@ -1,12 +1,14 @@
 import { Injectable } from '@nestjs/common';
 import { InjectRepository } from '@nestjs/typeorm';
 import { QueryFailedError, Repository } from 'typeorm';
+import { ConflictError } from '../common/domain-errors';
 import type { Role } from '@psiform/contracts';
 import { UserEntity } from './user.entity';
 
-export class DuplicateEmailError extends Error {
+/** 409 through the domain-error filter. */
+export class DuplicateEmailError extends ConflictError {
   constructor(readonly email: string) {
-    super(`a user with email ${email} already exists`);
+    super(`email ${email} is already registered`);
   }
 }
 
