@@ -7,7 +7,7 @@ import { autoExtent, compileState } from '@psiform/orbitals';
 import { recipeState, sectionPlane } from '@psiform/meshing';
 import { figureTextFacts } from './figure-text';
 import { usesPhaseKey } from './phase-key';
-import { figureMetadata, type FigureMetadata, type MeshResultLike } from './metadata';
+import { displayLabel, figureMetadata, type FigureMetadata, type MeshResultLike } from './metadata';
 import { svgPrintFacts, type PreflightSubject } from './preflight';
 import { radialPlotSvg } from './radial-plot';
 import { sectionMapSvg } from './section-map';
@@ -136,7 +136,7 @@ export function plotAlt(svg: string): { short: string; long: string } {
 
 /** The label the figure prints (the overlay's): the annotation's own text, else the recipe's display label. */
 export function printedLabel(recipe: Recipe): string {
-  return recipe.annotations.label.text ?? recipe.label ?? '';
+  return recipe.annotations.label.text || displayLabel(recipe);
 }
 
 /** A file an export is asked to make (the export request, with the colour the export will use filled in). */

@@ -27,7 +27,11 @@ export function figureTextFacts(annotations: Recipe['annotations'], label: strin
     if (annotations.scaleBar.unit === 'bohr') texts.push({ what: 'scale bar unit subscript (a₀)', sizePt: mmToPt(OVERLAY_MM.small * SUBSCRIPT_SCALE) });
     lines.push({ what: 'scale bar', weightPt: mmToPt(OVERLAY_MM.bar) });
   }
-  if (annotations.caption?.trim()) texts.push({ what: 'caption', sizePt: mmToPt(OVERLAY_MM.caption) });
+  if (annotations.caption?.trim()) {
+    texts.push({ what: 'caption', sizePt: mmToPt(OVERLAY_MM.caption) });
+    // The caption is typeset too (overlay.ts): its sub- and superscripts print smaller.
+    if (typeset(annotations.caption).some((r) => r.script !== 'base')) texts.push({ what: 'caption sub- and superscripts', sizePt: mmToPt(OVERLAY_MM.caption * SUBSCRIPT_SCALE) });
+  }
   if (annotations.axes) texts.push({ what: 'axis letters', sizePt: mmToPt(OVERLAY_MM.axisLetter) });
   // A complex state's phase key (phase-key.ts): its title and marks at the small size.
   if (phaseKey) texts.push({ what: 'phase key marks', sizePt: mmToPt(OVERLAY_MM.small) });

@@ -1,6 +1,6 @@
 // The figure's metadata sheet: what was computed, how, and the words that go with it (caption, alt text).
 
-import { BOHR_RADIUS_ANGSTROM, L_LETTERS, isRealState, prettyLabel, type OrbitalState, type Term } from '@psiform/orbitals';
+import { BOHR_RADIUS_ANGSTROM, L_LETTERS, isRealState, parseOrbitalLabel, prettyLabel, type OrbitalState, type Term } from '@psiform/orbitals';
 import type { BundleFileEntry } from './bundle';
 import { PSI_UNIT_TEXT, plainLabel } from './typeset';
 
@@ -205,6 +205,33 @@ export function shortAltText(state: OrbitalState, label: string, Z: number): str
   return bare.length <= ALT_TEXT_MAX ? bare : `${bare.slice(0, ALT_TEXT_MAX - 1)}…`;
 }
 
+/**
+ * The name a figure prints and states (overlay label, metadata, alt text, the Studio): the recipe's label when it is
+ * free text ("Plate 4, left"); when it is an orbital name the engine reads ('4fz3', '3d_z2', 'sp3#1'), the engine's own
+ * name of the state the figure actually draws (prettyLabel: '4f_z³'), so a typed key never prints raw and a label that
+ * no longer matches the terms never prints at all; with no label, the state's name (or 'superposition').
+ */
+export function displayLabel(recipe: { label?: string | null; content: { Z: number; terms: readonly Term[] } }): string {
+  const state: OrbitalState = { Z: recipe.content.Z, terms: recipe.content.terms.map((t) => ({ ...t, im: t.im ?? 0 })) };
+  const own = (): string | null => {
+    try {
+      return prettyLabel(state);
+    } catch {
+      return null;
+    }
+  };
+  const label = recipe.label?.trim();
+  if (label) {
+    try {
+      parseOrbitalLabel(label);
+    } catch {
+      return label; // free text, printed as written
+    }
+    return own() ?? label;
+  }
+  return own() ?? 'superposition';
+}
+
 export function figureMetadata(input: FigureMetadataInput): FigureMetadata {
   const { recipe, result, engineVersion, palette, generatedAt } = input;
   if (!recipe || typeof recipe !== 'object' || !recipe.content) throw new RangeError('recipe must be a figure recipe with content, grid and surface');
@@ -213,7 +240,7 @@ export function figureMetadata(input: FigureMetadataInput): FigureMetadata {
   if (typeof generatedAt !== 'string' || Number.isNaN(Date.parse(generatedAt))) throw new RangeError(`generatedAt must be an ISO 8601 date-time (got ${JSON.stringify(generatedAt)})`);
   const { Z, terms } = recipe.content;
   const state: OrbitalState = { Z, terms };
-  const label = recipe.label ?? prettyLabel(state);
+  const label = displayLabel(recipe);
   const real = isRealState(state);
   const mode = recipe.phase?.mode ?? 'auto';
   const phaseColouring: 'sign' | 'argument' = mode === 'auto' ? (real ? 'sign' : 'argument') : mode;

@@ -1,6 +1,6 @@
 import { FIGURE_STATUS_LABELS, fractionProblem, gridProblem, zProblem, type FigureStatus, type Recipe } from '@psiform/contracts';
-import { formatBytes, gridBytes, isRealState, prettyLabel, type OrbitalState } from '@psiform/orbitals';
-import { PSI_UNIT_TEXT } from '@psiform/print';
+import { formatBytes, gridBytes, isRealState, type OrbitalState } from '@psiform/orbitals';
+import { displayLabel, PSI_UNIT_TEXT } from '@psiform/print';
 
 export function statusLabel(status: FigureStatus | string): string {
   return (FIGURE_STATUS_LABELS as Record<string, string>)[status] ?? status;
@@ -40,13 +40,9 @@ export function recipeIsComplex(recipe: Recipe): boolean {
   }
 }
 
+/** The figure's name as it prints (@psiform/print displayLabel: a typed orbital key reads as the engine's name). */
 export function recipeLabel(recipe: Recipe): string {
-  if (recipe.label) return recipe.label;
-  try {
-    return prettyLabel(stateOf(recipe));
-  } catch {
-    return 'superposition';
-  }
+  return displayLabel(recipe);
 }
 
 function percent(f: number): string {

@@ -169,8 +169,9 @@ export function drawOverlay(ctx: CanvasRenderingContext2D, o: OverlayInput): voi
     ctx.font = font(px, family, 400);
     const lh = px * 1.3;
     let y = figureBottom + OVERLAY_MM.margin * 0.5 * mm + px;
+    // Set by the one typesetter, as the label is: "a0^−3/2" prints a₀ with a raised −3/2, "3d_z2" with its subscript.
     for (const line of cap.lines) {
-      ctx.fillText(line, margin, y);
+      drawRuns(ctx, typeset(line), margin, y, px, family, 400);
       y += lh;
     }
   }
