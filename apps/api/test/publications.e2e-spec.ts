@@ -46,7 +46,7 @@ describe('publications (e2e)', () => {
     const editorId = (await t.http().get('/api/auth/me').set(auth(editor)).expect(200)).body.id;
     await t.http().get(`/api/publications/${otherPubId}`).set(auth(editor)).expect(404);
     const added = await t.http().post(`/api/publications/${otherPubId}/members`).set(auth(admin)).send({ userId: editorId }).expect(201);
-    expect(added.body).toEqual({ publicationId: otherPubId, userId: editorId });
+    expect(added.body).toEqual({ publicationId: otherPubId, userId: editorId, role: 'editor' });
     await t.http().get(`/api/publications/${otherPubId}`).set(auth(editor)).expect(200);
     const members = await t.http().get(`/api/publications/${otherPubId}/members`).set(auth(editor)).expect(200);
     expect(members.body.map((u: { id: string }) => u.id)).toEqual([editorId]);

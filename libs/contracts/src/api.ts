@@ -25,12 +25,16 @@ export interface PublicationDto {
   publisher: string;
   kind: PublicationKind;
   description: string;
+  /** Length unit of the publication's figures: 'angstrom' (Å) or 'bohr' (a₀). Always sent by the API. */
+  lengthUnit?: 'angstrom' | 'bohr';
   createdAt: string;
 }
 
 export interface MembershipDto {
   publicationId: string;
   userId: string;
+  /** The member's role in this publication. */
+  role: Role;
 }
 
 export type ServiceWord = string;
@@ -65,6 +69,7 @@ export interface CreatePublicationRequest {
   publisher: string;
   kind: PublicationKind;
   description?: string;
+  lengthUnit?: 'angstrom' | 'bohr';
 }
 
 export interface AddMemberRequest {

@@ -6,3 +6,4 @@ export * from './figures';
 export * from './reviews';
 export * from './exports';
 export * from './print';
+export * from './people';

@@ -57,3 +57,4 @@ export * from './swatchbooks/swatchbooks.repository';
 export * from './uploads/cube-check';
 export * from './users/user.entity';
 export * from './users/users.repository';
+export * from './users/user-link.entity';

@@ -4,10 +4,11 @@ import { PublicationsModule } from '../publications/publications.module';
 import { ReviewsStore, TypeormReviewsStore, AuditStore, TypeormAuditStore } from '@psiform/server';
 import { AuditService } from './audit.service';
 import { AuditController } from './audit.controller';
+import { SubjectAuditController } from './subject-audit.controller';
 
 @Module({
   imports: [PublicationsModule],
-  controllers: [AuditController],
+  controllers: [AuditController, SubjectAuditController],
   providers: [
     { provide: AuditStore, inject: [DataSource], useFactory: (ds: DataSource) => new TypeormAuditStore(ds) },
     { provide: ReviewsStore, inject: [DataSource], useFactory: (ds: DataSource) => new TypeormReviewsStore(ds) },

@@ -24,8 +24,10 @@ export class AuthService {
       await this.throttle.recordFailure(email, ip);
       throw new UnauthorizedException('email or password is incorrect');
     }
+    // Checked after the password, so the answer reveals the state only to someone who knows the password.
+    if (!user.active) throw new UnauthorizedException('this account is deactivated; ask an administrator');
     await this.throttle.recordSuccess(email);
-    const payload: JwtPayload = { sub: user.id, role: user.role };
+    const payload: JwtPayload = { sub: user.id, role: user.role, iatMs: Date.now() };
     return { accessToken: await this.jwt.signAsync(payload), user: toUserDto(user) };
   }
 }

@@ -1,5 +1,6 @@
-import { Injectable, Logger } from '@nestjs/common';
+import { Inject, Injectable, Logger } from '@nestjs/common';
 import type { MailNoticeJob } from '@psiform/contracts';
+import { APP_CONFIG, type AppConfig } from '@psiform/server';
 import { MailQueue } from './mail-queue';
 
 /**
@@ -9,7 +10,15 @@ import { MailQueue } from './mail-queue';
 @Injectable()
 export class NoticesService {
   private readonly log = new Logger('Notices');
-  constructor(private readonly queue: MailQueue) {}
+  constructor(
+    private readonly queue: MailQueue,
+    @Inject(APP_CONFIG) private readonly config: Pick<AppConfig, 'http'>,
+  ) {}
+
+  /** The proof page of a figure under the configured PUBLIC_BASE_URL: where every proof notice links to. */
+  proofUrl(figureId: string): string {
+    return `${this.config.http.publicBaseUrl}/figures/${encodeURIComponent(figureId)}/proof`;
+  }
 
   async send(notice: MailNoticeJob): Promise<boolean> {
     if (notice.to.length === 0) return false;

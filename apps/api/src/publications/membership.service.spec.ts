@@ -2,7 +2,7 @@ import { NotFoundException } from '@nestjs/common';
 import { MembershipService } from './membership.service';
 import { PublicationsStore, type NewPublication, type PublicationEntity, type UserEntity } from '@psiform/server';
 
-const pub = (id: string): PublicationEntity => ({ id, title: id, publisher: 'P', kind: 'book', description: '', createdAt: new Date(0) });
+const pub = (id: string): PublicationEntity => ({ id, title: id, publisher: 'P', kind: 'book', description: '', lengthUnit: 'angstrom', createdAt: new Date(0) });
 
 class FakeStore extends PublicationsStore {
   pubs = [pub('a'), pub('b')];
@@ -28,6 +28,24 @@ class FakeStore extends PublicationsStore {
   async listMembers(): Promise<UserEntity[]> {
     return [];
   }
+  async listMembersWithRoles(): Promise<never> {
+    throw new Error('not used');
+  }
+  async memberRole(publicationId: string, userId: string) {
+    return this.members.has(`${publicationId}|${userId}`) ? ('editor' as const) : null;
+  }
+  async membershipsOf(): Promise<never> {
+    throw new Error('not used');
+  }
+  async page(): Promise<never> {
+    throw new Error('not used');
+  }
+  async memberCount(): Promise<never> {
+    throw new Error('not used');
+  }
+  async transaction(): Promise<never> {
+    throw new Error('not used');
+  }
 }
 
 describe('MembershipService', () => {
@@ -47,6 +65,12 @@ describe('MembershipService', () => {
     await expect(svc.requireAccess(member, 'b')).rejects.toBeInstanceOf(NotFoundException);
     await expect(svc.requireAccess(admin, 'b')).resolves.toMatchObject({ id: 'b' });
     await expect(svc.requireAccess(admin, 'zzz')).rejects.toThrow('publication zzz not found');
+  });
+
+  it('roleIn: the membership role for members, admin for admins, null for others', async () => {
+    expect(await svc.roleIn(member, 'a')).toBe('editor');
+    expect(await svc.roleIn(member, 'b')).toBeNull();
+    expect(await svc.roleIn(admin, 'b')).toBe('admin');
   });
 
   it('canAccess mirrors requireAccess', async () => {

@@ -1,5 +1,5 @@
 import { Injectable, NotFoundException } from '@nestjs/common';
-import type { UserDto } from '@psiform/contracts';
+import type { Role, UserDto } from '@psiform/contracts';
 import { PublicationsStore, type PublicationEntity } from '@psiform/server';
 
 /**
@@ -20,6 +20,15 @@ export class MembershipService {
     const pub = await this.store.findById(publicationId);
     if (pub && (user.role === 'admin' || (await this.store.isMember(publicationId, user.id)))) return pub;
     throw new NotFoundException(`publication ${publicationId} not found`);
+  }
+
+  /**
+   * The user's role in the publication (set per membership by an admin; defaults to the user's own role), or null
+   * for non-members. Admins act as admins everywhere. Notices to "the publication's editors" go by this role.
+   */
+  async roleIn(user: Pick<UserDto, 'id' | 'role'>, publicationId: string): Promise<Role | null> {
+    if (user.role === 'admin') return 'admin';
+    return this.store.memberRole(publicationId, user.id);
   }
 
   /** Publications visible to the user. */

@@ -89,7 +89,7 @@ function setup(members = ['ill', 'ed', 'ad']) {
   const store = new FakeStore();
   const sent: MailNoticeJob[] = [];
   const membership = { canAccess: async (u: { id: string; role: string }) => u.role === 'admin' || members.includes(u.id) } as unknown as MembershipService;
-  const notices = { send: async (m: MailNoticeJob) => (sent.push(m), true) } as unknown as NoticesService;
+  const notices = { send: async (m: MailNoticeJob) => (sent.push(m), true), proofUrl: (id: string) => `https://figures.example.org/figures/${id}/proof` } as unknown as NoticesService;
   return { store, sent, svc: new ReviewsService(store, membership, notices) };
 }
 
@@ -121,6 +121,7 @@ describe('ReviewsService', () => {
     expect(store.rounds[0]).toMatchObject({ outcome: 'changes_requested' });
     expect(sent[1]).toMatchObject({ to: ['ill@x.test'], subject: 'Changes requested on "Figure 1.1 1s"' });
     expect(sent[1].text).toContain('Lighten the negative lobe');
+    expect(sent[1].text).toContain('Open the proof: https://figures.example.org/figures/f1/proof');
   });
 
   it('with colour sign-off required: editor approval waits; the second approval is 409; sign-off completes it', async () => {

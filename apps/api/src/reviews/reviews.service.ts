@@ -139,7 +139,7 @@ export class ReviewsService {
   private async notify(r: StepResult, actor: Caller, who: 'editors' | 'owner', note?: string): Promise<void> {
     const f = r.figure;
     const [publicationTitle, by] = await Promise.all([this.store.publicationTitle(f.publicationId), this.store.userInfo(actor.id)]);
-    const nf: NoticeFigure = { title: f.title, publicationTitle, versionNumber: r.dto.versionNumber };
+    const nf: NoticeFigure = { title: f.title, publicationTitle, versionNumber: r.dto.versionNumber, proofUrl: this.notices.proofUrl(f.id) };
     const byName = by?.displayName ?? 'Someone';
     if (who === 'editors') {
       await this.notices.send(submittedNotice(await this.store.editorEmails(f.publicationId), nf, byName));

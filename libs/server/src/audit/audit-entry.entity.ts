@@ -1,7 +1,10 @@
 import { Column, Entity, PrimaryGeneratedColumn } from 'typeorm';
-import type { AuditEntryDto, FigureStatus } from '@psiform/contracts';
+import type { AuditEntryDto, AuditSubject, FigureStatus, SubjectAuditEntryDto } from '@psiform/contracts';
 
-/** Append-only record of what happened to a figure; written in the transaction of the change it records. */
+/**
+ * Append-only record of what happened, written in the transaction of the change it records. Figures are the
+ * usual subject (figure_id); users, publications and house styles are recorded with subject_kind + subject_id.
+ */
 @Entity({ name: 'audit_entries' })
 export class AuditEntryEntity {
   @PrimaryGeneratedColumn('uuid')
@@ -11,8 +14,16 @@ export class AuditEntryEntity {
   @Column({ type: 'bigint', insert: false, update: false })
   seq: string;
 
-  @Column({ name: 'figure_id', type: 'uuid' })
-  figureId: string;
+  /** Set for entries about a figure (subject_kind 'figure'); null otherwise. */
+  @Column({ name: 'figure_id', type: 'uuid', nullable: true })
+  figureId: string | null;
+
+  @Column({ name: 'subject_kind', type: 'varchar', length: 20, default: 'figure' })
+  subjectKind: AuditSubject;
+
+  /** The user, publication or house style (= its publication id) the entry is about; null for figure entries. */
+  @Column({ name: 'subject_id', type: 'uuid', nullable: true })
+  subjectId: string | null;
 
   @Column({ name: 'actor_id', type: 'uuid', nullable: true })
   actorId: string | null;
@@ -34,5 +45,18 @@ export class AuditEntryEntity {
 }
 
 export function toAuditEntryDto(e: AuditEntryEntity, actorName?: string | null): AuditEntryDto {
-  return { id: e.id, figureId: e.figureId, actorId: e.actorId, actorName: actorName ?? undefined, action: e.action, fromStatus: e.fromStatus, toStatus: e.toStatus, note: e.note, at: e.at.toISOString() };
+  return { id: e.id, figureId: e.figureId ?? '', actorId: e.actorId, actorName: actorName ?? undefined, action: e.action, fromStatus: e.fromStatus, toStatus: e.toStatus, note: e.note, at: e.at.toISOString() };
+}
+
+export function toSubjectAuditEntryDto(e: AuditEntryEntity, actorName?: string | null): SubjectAuditEntryDto {
+  return {
+    id: e.id,
+    subjectKind: e.subjectKind,
+    subjectId: (e.subjectKind === 'figure' ? e.figureId : e.subjectId) ?? '',
+    actorId: e.actorId,
+    actorName: actorName ?? undefined,
+    action: e.action,
+    note: e.note,
+    at: e.at.toISOString(),
+  };
 }

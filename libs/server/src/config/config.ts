@@ -13,7 +13,11 @@ export interface AppConfig {
   /** outboxFile: MAIL_OUTBOX_FILE, set only while the local mail fake is in use (GET /api/dev/outbox). */
   smtp: { url: string; from: string; outboxFile?: string };
   jwt: { secret: string; ttl: string };
-  http: { port: number; host: string; webDist: string | undefined };
+  /**
+   * publicBaseUrl: PUBLIC_BASE_URL, where people open the client (links in mail: proofs, invitations, password
+   * resets); no trailing slash. Default http://HOST:PORT (127.0.0.1 for a wildcard HOST, 3000 for PORT 0).
+   */
+  http: { port: number; host: string; webDist: string | undefined; publicBaseUrl: string };
   /** Largest accepted cube file of POST /api/uploads, in bytes (UPLOAD_MAX_BYTES). */
   uploads: { maxBytes: number };
 }
@@ -90,6 +94,21 @@ class Reader {
     return v;
   }
 
+  /** An http(s) origin with an optional path: no query, fragment or credentials; the trailing slash is dropped. */
+  baseUrl(name: string, fallback: string): string {
+    const v = this.raw(name, fallback)!;
+    let parsed: URL;
+    try {
+      parsed = new URL(v);
+    } catch {
+      return this.fail(`${name} must be an http:// or https:// URL such as https://figures.example.org`);
+    }
+    if (!['http:', 'https:'].includes(parsed.protocol) || parsed.hostname === '') return this.fail(`${name} must be an http:// or https:// URL such as https://figures.example.org`);
+    if (parsed.search || parsed.hash || v.includes('#') || v.includes('?')) return this.fail(`${name} must not have a query or fragment`);
+    if (parsed.username || parsed.password) return this.fail(`${name} must not contain credentials`);
+    return `${parsed.origin}${parsed.pathname.replace(/\/+$/, '')}`;
+  }
+
   private fail(problem: string): string {
     this.problems.push(problem);
     return '';
@@ -137,11 +156,18 @@ export function loadConfig(env: Env): AppConfig {
       port: r.int('PORT', DEFAULTS.PORT, 0, 65535),
       host: r.string('HOST', DEFAULTS.HOST),
       webDist: r.optional('WEB_DIST'),
+      publicBaseUrl: '',
     },
     uploads: { maxBytes: r.int('UPLOAD_MAX_BYTES', DEFAULTS.UPLOAD_MAX_BYTES, 1, 17179869184) },
   };
+  config.http.publicBaseUrl = r.baseUrl('PUBLIC_BASE_URL', defaultPublicBaseUrl(config.http.host, config.http.port));
   r.done();
   return config;
+}
+
+function defaultPublicBaseUrl(host: string, port: number): string {
+  const h = host === '0.0.0.0' || host === '::' || host === '' ? '127.0.0.1' : host.includes(':') ? `[${host}]` : host;
+  return `http://${h}:${port || Number(DEFAULTS.PORT)}`;
 }
 
 /** Entry-point helper: on a ConfigError print the message (naming the variable) and exit 1. */

@@ -1,4 +1,5 @@
-import { CreateDateColumn, Entity, JoinColumn, ManyToOne, PrimaryColumn } from 'typeorm';
+import { Column, CreateDateColumn, Entity, JoinColumn, ManyToOne, PrimaryColumn } from 'typeorm';
+import type { Role } from '@psiform/contracts';
 import { PublicationEntity } from './publication.entity';
 import { UserEntity } from '../users/user.entity';
 
@@ -10,6 +11,10 @@ export class MembershipEntity {
 
   @PrimaryColumn({ name: 'user_id', type: 'uuid' })
   userId: string;
+
+  /** The member's role in this publication (a trigger fills in the user's own role when an insert leaves it out). */
+  @Column({ type: 'varchar', length: 20, nullable: true })
+  role: Role;
 
   @ManyToOne(() => PublicationEntity, { onDelete: 'CASCADE' })
   @JoinColumn({ name: 'publication_id' })

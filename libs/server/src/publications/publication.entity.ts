@@ -1,5 +1,5 @@
 import { Column, CreateDateColumn, Entity, PrimaryGeneratedColumn } from 'typeorm';
-import type { PublicationDto, PublicationKind } from '@psiform/contracts';
+import type { LengthUnit, PublicationDto, PublicationKind } from '@psiform/contracts';
 
 @Entity({ name: 'publications' })
 export class PublicationEntity {
@@ -18,10 +18,14 @@ export class PublicationEntity {
   @Column({ type: 'text', default: '' })
   description: string;
 
+  /** The length unit of this publication's figures (scale bars, captions): ångström or Bohr radius. */
+  @Column({ name: 'length_unit', type: 'varchar', length: 10, default: 'angstrom' })
+  lengthUnit: LengthUnit;
+
   @CreateDateColumn({ name: 'created_at', type: 'timestamptz' })
   createdAt: Date;
 }
 
 export function toPublicationDto(p: PublicationEntity): PublicationDto {
-  return { id: p.id, title: p.title, publisher: p.publisher, kind: p.kind, description: p.description, createdAt: p.createdAt.toISOString() };
+  return { id: p.id, title: p.title, publisher: p.publisher, kind: p.kind, description: p.description, lengthUnit: p.lengthUnit ?? 'angstrom', createdAt: p.createdAt.toISOString() };
 }

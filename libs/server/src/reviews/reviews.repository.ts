@@ -46,7 +46,7 @@ export abstract class ReviewsStore {
   abstract inFigureTransaction<T>(figureId: string, fn: (tx: ReviewTx) => Promise<T>): Promise<T>;
   abstract houseRules(publicationId: string): Promise<HouseRules | null>;
   abstract publicationTitle(publicationId: string): Promise<string>;
-  /** Emails of the editors who are members of the publication. */
+  /** Emails of the active members whose role in the publication is editor. */
   abstract editorEmails(publicationId: string): Promise<string[]>;
   abstract userInfo(id: string): Promise<{ email: string; displayName: string } | null>;
   abstract listComments(figureId: string): Promise<{ comment: CommentEntity; authorName: string | null }[]>;
@@ -115,7 +115,7 @@ export class TypeormReviewsStore extends ReviewsStore {
       .getRepository(UserEntity)
       .createQueryBuilder('u')
       .innerJoin(MembershipEntity, 'm', 'm.user_id = u.id AND m.publication_id = :publicationId', { publicationId })
-      .where('u.role = :role', { role: 'editor' })
+      .where('m.role = :role AND u.active = true', { role: 'editor' })
       .orderBy('u.email')
       .getMany();
     return rows.map((u) => u.email);
