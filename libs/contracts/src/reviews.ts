@@ -160,6 +160,8 @@ export interface MailNoticeJob {
 export interface OutboxMessageDto {
   subject: string;
   text: string;
+  /** The HTML part ('' when the message had none). */
+  html: string;
   to: string[];
   receivedAt: string;
 }
