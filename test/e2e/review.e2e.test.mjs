@@ -6,7 +6,7 @@
 // naming the missing step. Only correct demo passwords are used: the API throttles sign-in after 5 failures per IP.
 import assert from 'node:assert/strict';
 import { after, before, test } from 'node:test';
-import { apiGet, baseUrl, DEMO_ILLUSTRATOR, launchBrowser, newPage, signIn } from './browser.mjs';
+import { apiCall, apiGet, apiLogin, baseUrl, DEMO_ILLUSTRATOR, launchBrowser, newPage, signIn } from './browser.mjs';
 
 const DEMO_EDITOR = { email: 'editor@demo.psiform.test', password: DEMO_ILLUSTRATOR.password };
 const DEMO_ART_DIRECTOR = { email: 'artdirector@demo.psiform.test', password: DEMO_ILLUSTRATOR.password };
@@ -22,26 +22,8 @@ after(async () => {
   await launched?.close();
 });
 
-/** Calls the API from Node; throws naming the step and the server's answer unless the status is expected. */
-async function api(step, method, path, { token, body, expect = [200, 201] } = {}) {
-  const res = await fetch(`${baseUrl()}${path}`, {
-    method,
-    headers: { Accept: 'application/json', ...(body ? { 'Content-Type': 'application/json' } : {}), ...(token ? { Authorization: `Bearer ${token}` } : {}) },
-    body: body ? JSON.stringify(body) : undefined,
-  });
-  const text = await res.text();
-  if (!expect.includes(res.status)) {
-    const hint = res.status === 404 && /Cannot (GET|POST)/.test(text) ? ' (the route does not exist: is the server side of editorial review deployed?)' : '';
-    throw new Error(`${step}: ${method} ${path} answered ${res.status}${hint}: ${text.slice(0, 300)}`);
-  }
-  return { status: res.status, body: text ? JSON.parse(text) : null };
-}
-
-async function login(account) {
-  const { body } = await api(`Signing in ${account.email} through the API`, 'POST', '/api/auth/login', { body: account });
-  assert.ok(body?.accessToken, `the login answer for ${account.email} carries an access token`);
-  return body.accessToken;
-}
+const api = apiCall;
+const login = apiLogin;
 
 test('an editor approves a submitted proof from the review desk', { timeout: 180_000 }, async () => {
   // --- set-up through the API: the illustrator creates and submits a figure -------------------------------

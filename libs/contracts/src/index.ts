@@ -7,3 +7,4 @@ export * from './reviews';
 export * from './exports';
 export * from './print';
 export * from './people';
+export * from './proofs';

@@ -112,6 +112,8 @@ export interface AuditEntryDto {
 export interface ReviewDeskItemDto {
   figureId: string;
   title: string;
+  /** in_review unless the desk was asked for another state. */
+  status: FigureStatus;
   publicationId: string;
   publicationTitle: string;
   versionNumber: number;

@@ -11,3 +11,4 @@ export * from './section-map';
 export * from './metadata';
 export * from './bundle';
 export * from './preflight';
+export * from './recipe-changes';

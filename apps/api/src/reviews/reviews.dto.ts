@@ -1,5 +1,6 @@
 import { Transform, Type } from 'class-transformer';
-import { IsDefined, IsNotEmpty, IsNumber, IsOptional, IsString, IsUUID, Max, MaxLength, Min, ValidateNested } from 'class-validator';
+import { DESK_STATES, type DeskState } from '@psiform/contracts';
+import { IsDefined, IsIn, IsNotEmpty, IsNumber, IsOptional, IsString, IsUUID, Max, MaxLength, Min, ValidateNested } from 'class-validator';
 
 const trim = ({ value }: { value: unknown }) => (typeof value === 'string' ? value.trim() : value);
 
@@ -51,4 +52,22 @@ export class CommentBody {
   @ValidateNested()
   @Type(() => PinBody)
   pin?: PinBody;
+}
+
+/** Review desk filters: one publication, a proof state, and how long a proof has waited at least. */
+export class ReviewDeskQuery {
+  @IsOptional()
+  @IsUUID('all', { message: 'publicationId must be a UUID' })
+  publicationId?: string;
+
+  @IsOptional()
+  @IsIn(DESK_STATES as readonly string[], { message: `state must be one of: ${DESK_STATES.join(', ')}` })
+  state?: DeskState;
+
+  @IsOptional()
+  @Type(() => Number)
+  @IsNumber({ allowNaN: false, allowInfinity: false }, { message: 'minAgeHours must be a number of hours' })
+  @Min(0, { message: 'minAgeHours must be 0 or more' })
+  @Max(100_000, { message: 'minAgeHours must be at most 100000' })
+  minAgeHours?: number;
 }

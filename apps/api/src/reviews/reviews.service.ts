@@ -1,5 +1,5 @@
 import { BadRequestException, ConflictException, ForbiddenException, Injectable, NotFoundException } from '@nestjs/common';
-import type { CommentDto, FigureStatus, ReviewAction, ReviewDeskItemDto, ReviewTransitionDto, UserDto } from '@psiform/contracts';
+import type { CommentDto, DeskState, FigureStatus, ReviewAction, ReviewDeskItemDto, ReviewTransitionDto, UserDto } from '@psiform/contracts';
 import { MembershipService } from '../publications/membership.service';
 import { NoticesService } from '../mail-notices/notices.service';
 import { approvedNotice, changesRequestedNotice, submittedNotice, type NoticeFigure } from '../mail-notices/compose';
@@ -173,14 +173,23 @@ export class ReviewsService {
 
   // ---- review desk -----------------------------------------------------------------------------------
 
-  async reviewDesk(user: Caller, now = new Date()): Promise<ReviewDeskItemDto[]> {
-    const pubs = user.role === 'admin' ? 'all' : (await this.membership.visiblePublications(user)).map((p) => p.id);
-    const rows = await this.store.reviewDesk(pubs);
-    return rows.map(({ figure, publicationTitle, round, submitterName, requireColourSignOff }) => {
+  /**
+   * The desk: proofs in the caller's publications in one state (in review by default), narrowed to one publication
+   * (404 unless the caller may see it) and to those that have waited at least minAgeHours.
+   */
+  async reviewDesk(user: Caller, filter: { publicationId?: string; state?: DeskState; minAgeHours?: number } = {}, now = new Date()): Promise<ReviewDeskItemDto[]> {
+    let pubs: string[] | 'all' = user.role === 'admin' ? 'all' : (await this.membership.visiblePublications(user)).map((p) => p.id);
+    if (filter.publicationId) {
+      await this.membership.requireAccess(user, filter.publicationId);
+      pubs = [filter.publicationId];
+    }
+    const rows = await this.store.reviewDesk(pubs, [filter.state ?? 'in_review']);
+    const items = rows.map(({ figure, publicationTitle, round, submitterName, requireColourSignOff }) => {
       const submittedAt = round?.submittedAt ?? figure.updatedAt;
       return {
         figureId: figure.id,
         title: figure.title,
+        status: figure.status,
         publicationId: figure.publicationId,
         publicationTitle,
         versionNumber: figure.currentVersion,
@@ -192,6 +201,7 @@ export class ReviewsService {
         requireColourSignOff,
       };
     });
+    return filter.minAgeHours === undefined ? items : items.filter((i) => i.ageHours >= filter.minAgeHours!);
   }
 
   // ---- edits made through PATCH /api/figures/:id (figures feature) -------------------------------------
