@@ -30,13 +30,9 @@ try {
   cleanups.push(svc.stopAll);
   if (stopping) process.exit(0);
   migrateAndSeed(svc.env);
-  const apps = await startApps(svc.env, { port: lay.ports.app, logDir: svc.logDir, echo: true, workers: 1 });
+  // Supervised: a crashed API, worker or fake is logged and restarted with back-off while the rest serves.
+  const apps = await startApps(svc.env, { port: lay.ports.app, logDir: svc.logDir, echo: true, workers: 1, supervised: true });
   cleanups.push(apps.stopApps);
-  for (const p of apps.procs) {
-    p.exitPromise.then(({ code, signal }) => {
-      if (!stopping) { fail(`${p.name} exited (${signal ?? code}); see ${p.logFile}`); shutdown(1); }
-    });
-  }
   ok(`Psiform is up: ${apps.url}`);
   log(`health: ${JSON.stringify(apps.health)}`);
   log(`demo accounts (password "${DEMO_PASSWORD}", demo only):`);

@@ -6,6 +6,7 @@ import { fileURLToPath } from 'node:url';
 import { postgresBinDir } from './system.mjs';
 import { portOpen, run, waitForExit, waitForPort } from './proc.mjs';
 import { log } from './log.mjs';
+import { logSupervision, supervise } from './supervise.mjs';
 
 const here = path.dirname(fileURLToPath(import.meta.url));
 export const ROOT = path.resolve(here, '..', '..');
@@ -131,20 +132,28 @@ export function startChild(name, script, args, { env, logDir, echo = false, cwd 
   };
 }
 
-export async function startStorageFake({ dataDir, port, bucket, logDir }) {
+/** A Node child, restarted with back-off when `supervised` (npm start), else plain (npm test stops on any failure). */
+function nodeChild(name, script, args, opts, supervised) {
+  const start = () => startChild(name, script, args, opts);
+  if (!supervised) return start();
+  const s = supervise(name, start, { onEvent: logSupervision });
+  return { name, stop: s.stop, get logFile() { return s.logFile; }, exitPromise: s.firstExit, supervisor: s };
+}
+
+export async function startStorageFake({ dataDir, port, bucket, logDir, supervised = false }) {
   const dir = path.join(dataDir, 's3');
   mkdirSync(dir, { recursive: true });
   if (await portOpen(port)) throw new Error(`port ${port} is taken: is another storage fake still up?`);
-  const svc = startChild('storage', path.join(ROOT, 'scripts/fakes/storage.mjs'), ['--port', String(port), '--dir', dir, '--bucket', bucket], { logDir });
+  const svc = nodeChild('storage', path.join(ROOT, 'scripts/fakes/storage.mjs'), ['--port', String(port), '--dir', dir, '--bucket', bucket], { logDir }, supervised);
   await Promise.race([waitForPort(port, { what: 'storage fake' }), svc.exitPromise.then(() => { throw new Error(`storage fake exited; see ${svc.logFile}`); })]);
   return { ...svc, name: 'storage', endpoint: `http://127.0.0.1:${port}` };
 }
 
-export async function startMailFake({ dataDir, port, logDir }) {
+export async function startMailFake({ dataDir, port, logDir, supervised = false }) {
   const outbox = path.join(dataDir, 'mail', 'outbox.jsonl');
   mkdirSync(path.dirname(outbox), { recursive: true });
   if (await portOpen(port)) throw new Error(`port ${port} is taken: is another mail fake still up?`);
-  const svc = startChild('mail', path.join(ROOT, 'scripts/fakes/mail.mjs'), ['--port', String(port), '--outbox', outbox], { logDir });
+  const svc = nodeChild('mail', path.join(ROOT, 'scripts/fakes/mail.mjs'), ['--port', String(port), '--outbox', outbox], { logDir }, supervised);
   await Promise.race([waitForPort(port, { what: 'mail fake' }), svc.exitPromise.then(() => { throw new Error(`mail fake exited; see ${svc.logFile}`); })]);
   return { ...svc, name: 'mail', url: `smtp://127.0.0.1:${port}`, outbox };
 }
@@ -186,12 +195,12 @@ export async function startServices(lay, { external = true, echo = false } = {})
     }
     if (ext('S3_ENDPOINT')) { env.S3_ENDPOINT = ext('S3_ENDPOINT'); log('storage: external (S3_ENDPOINT)'); }
     else {
-      const s = await startStorageFake({ dataDir, port: ports.s3, bucket: env.S3_BUCKET, logDir });
+      const s = await startStorageFake({ dataDir, port: ports.s3, bucket: env.S3_BUCKET, logDir, supervised: lay.mode === 'start' });
       started.push(s); env.S3_ENDPOINT = s.endpoint; log(`storage fake (s3rver) on 127.0.0.1:${ports.s3}`);
     }
     if (ext('SMTP_URL')) { env.SMTP_URL = ext('SMTP_URL'); log('mail: external (SMTP_URL)'); }
     else {
-      const m = await startMailFake({ dataDir, port: ports.smtp, logDir });
+      const m = await startMailFake({ dataDir, port: ports.smtp, logDir, supervised: lay.mode === 'start' });
       started.push(m); env.SMTP_URL = m.url; env.MAIL_OUTBOX_FILE = m.outbox; log(`mail fake on 127.0.0.1:${ports.smtp}`);
     }
     return { env, started, stopAll, logDir, echo };

@@ -7,6 +7,9 @@ import type { NestExpressApplication } from '@nestjs/platform-express';
 import type { NextFunction, Request, Response } from 'express';
 import { type AppConfig } from '@psiform/server';
 import { AppModule } from './app.module';
+import { bodyParsers } from './common/input/json-body';
+import { InputSanitationPipe } from './common/input/input-sanitation.pipe';
+import { noStoreForApi, securityHeaders } from './common/security-headers';
 
 export const API_PREFIX = 'api';
 
@@ -19,9 +22,18 @@ export async function createApp(config: AppConfig, options: CreateAppOptions = {
   const app = await NestFactory.create<NestExpressApplication>(AppModule.forRoot(config), {
     logger: options.logger ?? ['log', 'warn', 'error'],
     abortOnError: false,
+    bodyParser: false, // ours (common/input/json-body.ts) checks the nesting depth before parsing
   });
+  if (config.http.trustProxy !== false) app.set('trust proxy', config.http.trustProxy);
+  app.use(securityHeaders([new URL(config.s3.endpoint).origin]));
+  app.use(noStoreForApi(API_PREFIX));
+  for (const parser of bodyParsers()) app.use(parser);
   app.setGlobalPrefix(API_PREFIX);
-  app.useGlobalPipes(new ValidationPipe({ whitelist: true, forbidNonWhitelisted: true, transform: true }));
+  // Input rules first (NUL, lone surrogates, depth, prototype keys in body, query and params), then the DTOs.
+  app.useGlobalPipes(
+    new InputSanitationPipe(),
+    new ValidationPipe({ whitelist: true, forbidNonWhitelisted: true, transform: true, stopAtFirstError: true, validationError: { target: false, value: false } }),
+  );
   app.disable('x-powered-by');
   app.enableShutdownHooks();
   if (config.http.webDist) serveWebDist(app, config.http.webDist);

@@ -25,7 +25,7 @@ const finite = (what: string) =>
 const hexColor = z.string().regex(/^#[0-9a-fA-F]{6}$/, { message: 'must be a colour like #1a2b3c' });
 
 export const termSchema = z
-  .object({
+  .strictObject({
     n: z.number().int({ message: 'n must be an integer' }).min(1, { message: 'n must be at least 1' }).max(RECIPE_LIMITS.nMax, { message: `n must be at most ${RECIPE_LIMITS.nMax}` }),
     l: z.number().int({ message: 'l must be an integer' }).min(0, { message: 'l must be at least 0' }),
     m: z.number().int({ message: 'm must be an integer' }),
@@ -41,19 +41,19 @@ export const termSchema = z
   });
 
 export const surfaceSchema = z.discriminatedUnion('rule', [
-  z.object({
+  z.strictObject({
     rule: z.literal('enclosed'),
     /** Fraction of the probability the surface encloses, in (0, 1). */
     fraction: finite('fraction').refine((f) => f > 0 && f < 1, { message: 'fraction must be between 0 and 1 (exclusive)' }),
   }),
-  z.object({
+  z.strictObject({
     rule: z.literal('psi'),
     /** Absolute value c of the isosurfaces ψ = ±c (|ψ| = c for complex states), in a0^(-3/2). */
     value: finite('value').refine((v) => v > 0, { message: 'value must be positive' }),
   }),
 ]);
 
-export const cameraSchema = z.object({
+export const cameraSchema = z.strictObject({
   view: z.enum(['axis_x', 'axis_y', 'axis_z', 'three_quarter', 'free']).default('three_quarter'),
   projection: z.enum(['perspective', 'orthographic']).default('perspective'),
   /** Free-orbit position and target in a0, kept when view is 'free'. */
@@ -63,7 +63,7 @@ export const cameraSchema = z.object({
   zoom: finite('zoom').refine((v) => v > 0, { message: 'zoom must be positive' }).default(1),
 });
 
-const lightSchema = z.object({
+const lightSchema = z.strictObject({
   intensity: finite('intensity').refine((v) => v >= 0 && v <= 20, { message: 'intensity must be 0..20' }),
   color: hexColor,
   /** Direction the light comes from, as azimuth/elevation in degrees. */
@@ -71,10 +71,10 @@ const lightSchema = z.object({
   elevationDeg: finite('elevationDeg').default(30),
 });
 
-export const stageSchema = z.object({
+export const stageSchema = z.strictObject({
   camera: cameraSchema.default({ view: 'three_quarter', projection: 'perspective', target: [0, 0, 0], fovDeg: 35, zoom: 1 }),
   lights: z
-    .object({
+    .strictObject({
       key: lightSchema.default({ intensity: 2.2, color: '#fff8ef', azimuthDeg: 35, elevationDeg: 40 }),
       fill: lightSchema.default({ intensity: 0.8, color: '#eef3ff', azimuthDeg: -60, elevationDeg: 10 }),
       rim: lightSchema.default({ intensity: 1.0, color: '#ffffff', azimuthDeg: 180, elevationDeg: 25 }),
@@ -87,34 +87,34 @@ export const stageSchema = z.object({
       ambient: 0.35,
     }),
   material: z
-    .object({
+    .strictObject({
       gloss: finite('gloss').refine((v) => v >= 0 && v <= 1, { message: 'gloss must be 0..1' }).default(0.45),
       opacity: finite('opacity').refine((v) => v > 0 && v <= 1, { message: 'opacity must be in (0, 1]' }).default(1),
       nodalOutline: z.boolean().default(false),
     })
     .default({ gloss: 0.45, opacity: 1, nodalOutline: false }),
   background: z
-    .object({ transparent: z.boolean().default(false), color: hexColor.default('#fbfaf7') })
+    .strictObject({ transparent: z.boolean().default(false), color: hexColor.default('#fbfaf7') })
     .default({ transparent: false, color: '#fbfaf7' }),
 });
 
-export const annotationsSchema = z.object({
+export const annotationsSchema = z.strictObject({
   axes: z.boolean().default(false),
   scaleBar: z
-    .object({ show: z.boolean().default(true), unit: z.enum(['angstrom', 'bohr']).default('angstrom'), length: finite('length').refine((v) => v > 0, { message: 'length must be positive' }).optional() })
+    .strictObject({ show: z.boolean().default(true), unit: z.enum(['angstrom', 'bohr']).default('angstrom'), length: finite('length').refine((v) => v > 0, { message: 'length must be positive' }).optional() })
     .default({ show: true, unit: 'angstrom' }),
   nucleus: z.boolean().default(true),
-  label: z.object({ show: z.boolean().default(true), text: z.string().max(80).optional() }).default({ show: true }),
+  label: z.strictObject({ show: z.boolean().default(true), text: z.string().max(80).optional() }).default({ show: true }),
   caption: z.string().max(2000).optional(),
 });
 
-export const canvasSchema = z.object({
+export const canvasSchema = z.strictObject({
   widthMm: finite('widthMm').refine((v) => v >= 10 && v <= 1000, { message: 'widthMm must be 10..1000' }),
   heightMm: finite('heightMm').refine((v) => v >= 10 && v <= 1000, { message: 'heightMm must be 10..1000' }),
   dpi: z.union([z.literal(300), z.literal(600), z.literal(1200)], { error: 'dpi must be 300, 600 or 1200' }),
 });
 
-export const paletteSchema = z.object({
+export const paletteSchema = z.strictObject({
   /** Swatchbook the colours come from; null means the neutral default. */
   swatchbookId: z.string().nullable().default(null),
   positive: hexColor.default('#c8553d'),
@@ -137,8 +137,8 @@ const positive = (what: string) => finite(what).refine((v) => v > 0, { message: 
  * for sampling. quantity 'psi' keeps the sign (two phases); 'density' is |psi|² (one surface, phase '+').
  */
 export const recipeSourceSchema = z.discriminatedUnion('kind', [
-  z.object({ kind: z.literal('computed') }),
-  z.object({
+  z.strictObject({ kind: z.literal('computed') }),
+  z.strictObject({
     kind: z.literal('upload'),
     assetId: z.string().uuid({ message: 'assetId must be a UUID' }),
     sha256: z.string().regex(/^[0-9a-f]{64}$/, { message: 'sha256 must be 64 lower-case hex digits' }),
@@ -150,11 +150,11 @@ export const recipeSourceSchema = z.discriminatedUnion('kind', [
 ]);
 export type RecipeSource = z.infer<typeof recipeSourceSchema>;
 
-export const recipeSchema = z.object({
+export const recipeSchema = z.strictObject({
   version: z.literal(RECIPE_VERSION, { error: `version must be ${RECIPE_VERSION}` }),
   /** Display label such as "3d_xy" or "sp3 #1"; informative only, the terms are authoritative. */
   label: z.string().max(80).optional(),
-  content: z.object({
+  content: z.strictObject({
     Z: z.number().int({ message: 'Z must be an integer' }).min(1, { message: 'Z must be at least 1' }).max(RECIPE_LIMITS.zMax, { message: `Z must be at most ${RECIPE_LIMITS.zMax}` }),
     terms: z
       .array(termSchema)
@@ -162,14 +162,14 @@ export const recipeSchema = z.object({
       .max(RECIPE_LIMITS.termsMax, { message: `at most ${RECIPE_LIMITS.termsMax} terms` })
       .refine((ts) => ts.some((t) => t.re !== 0 || t.im !== 0), { message: 'at least one coefficient must be non-zero' }),
   }),
-  grid: z.object({
+  grid: z.strictObject({
     n: z.number().int({ message: 'grid.n must be an integer' }).min(RECIPE_LIMITS.gridMin, { message: `grid.n must be at least ${RECIPE_LIMITS.gridMin}` }).max(RECIPE_LIMITS.gridMax, { message: `grid.n must be at most ${RECIPE_LIMITS.gridMax}` }),
     /** Half-width of the sampled cube in a0, or 'auto' (a box holding at least 99.9% of the probability). */
     extent: z.union([z.literal('auto'), finite('grid.extent').refine((v) => v > 0 && v <= RECIPE_LIMITS.extentMax, { message: `grid.extent must be in (0, ${RECIPE_LIMITS.extentMax}]` })]).default('auto'),
   }),
   surface: surfaceSchema,
   /** 'sign' colours real ψ by its sign; 'argument' colours complex ψ by arg ψ on a colour wheel. 'auto' picks by the state. */
-  phase: z.object({ mode: z.enum(['auto', 'sign', 'argument']).default('auto') }).default({ mode: 'auto' }),
+  phase: z.strictObject({ mode: z.enum(['auto', 'sign', 'argument']).default('auto') }).default({ mode: 'auto' }),
   palette: paletteSchema.default({ swatchbookId: null, positive: '#c8553d', negative: '#2f6690' }),
   stage: stageSchema.default(stageSchema.parse({})),
   annotations: annotationsSchema.default(annotationsSchema.parse({})),
@@ -203,10 +203,13 @@ export function upgradeRecipe(doc: unknown): unknown {
 export function parseRecipe(doc: unknown): RecipeParseResult {
   const result = recipeSchema.safeParse(upgradeRecipe(doc));
   if (result.success) return { ok: true, recipe: result.data };
-  return {
-    ok: false,
-    issues: result.error.issues.map((i) => ({ path: i.path.map(String).join('.') || '(root)', message: i.message })),
-  };
+  const issues: RecipeIssue[] = [];
+  for (const i of result.error.issues) {
+    // Every object of the recipe is strict: a misspelt field (nodalOutLine) is refused by name, not dropped silently.
+    if (i.code === 'unrecognized_keys') for (const k of i.keys) issues.push({ path: [...i.path, k].map(String).join('.'), message: 'unknown field' });
+    else issues.push({ path: i.path.map(String).join('.') || '(root)', message: i.message });
+  }
+  return { ok: false, issues };
 }
 
 /** One readable line per issue: "content.terms.0.l: l must be less than n (got n=2, l=2)". */

@@ -177,6 +177,21 @@ describe('parseRecipe: rejected documents name the field', () => {
     }
   });
 
+  it('unknown fields are refused by name at every level, not dropped (a misspelt nodalOutLine)', () => {
+    const d = minimal();
+    d.stage = { material: { nodalOutLine: true } };
+    d.colour = 'red';
+    d.content.terms[0].spin = 1;
+    expect(issuesOf(d)).toEqual(
+      expect.arrayContaining([
+        { path: 'stage.material.nodalOutLine', message: 'unknown field' },
+        { path: 'colour', message: 'unknown field' },
+        { path: 'content.terms.0.spin', message: 'unknown field' },
+      ]),
+    );
+    expect(issuesOf(d)).toHaveLength(3);
+  });
+
   it('formatRecipeIssues gives one "path: message" line per issue', () => {
     const issues = issuesOf(withTerm({ n: 2, l: 2, m: 3, basis: 'real', re: 1 }));
     expect(formatRecipeIssues(issues)).toEqual([

@@ -2,6 +2,8 @@ import { Module } from '@nestjs/common';
 import { APP_GUARD } from '@nestjs/core';
 import { JwtModule } from '@nestjs/jwt';
 import { PassportModule } from '@nestjs/passport';
+import { ThrottlerModule } from '@nestjs/throttler';
+import { RateLimitGuard, rateLimitOptions } from './rate-limit';
 import { APP_CONFIG, type AppConfig } from '@psiform/server';
 import { UsersModule } from '../users/users.module';
 import { AuthController } from './auth.controller';
@@ -15,6 +17,7 @@ import { PassportJwtAuthenticator, RequestAuthenticator } from './request-authen
   imports: [
     UsersModule,
     PassportModule,
+    ThrottlerModule.forRootAsync({ inject: [APP_CONFIG], useFactory: (config: AppConfig) => rateLimitOptions(config) }),
     JwtModule.registerAsync({
       inject: [APP_CONFIG],
       useFactory: (config: AppConfig) => ({
@@ -31,6 +34,7 @@ import { PassportJwtAuthenticator, RequestAuthenticator } from './request-authen
     LoginThrottle,
     { provide: RequestAuthenticator, useClass: PassportJwtAuthenticator },
     { provide: APP_GUARD, useClass: AccessGuard },
+    { provide: APP_GUARD, useClass: RateLimitGuard }, // after AccessGuard: it counts signed-in callers by account
   ],
 })
 export class AuthModule {}

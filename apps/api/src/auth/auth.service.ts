@@ -16,17 +16,14 @@ export class AuthService {
 
   async login(emailInput: string, password: string, ip: string): Promise<LoginResponse> {
     const email = emailInput.trim().toLowerCase();
-    await this.throttle.assertAllowed(email, ip);
+    const attempt = await this.throttle.admit(email, ip); // counted before the password is checked
     const user = await this.users.findByEmail(email);
     // Compare against a dummy hash for unknown emails so both paths take the same time.
     const ok = await verifyPassword(password, user?.passwordHash ?? (await dummyPasswordHash()));
-    if (!user || !ok) {
-      await this.throttle.recordFailure(email, ip);
-      throw new UnauthorizedException('email or password is incorrect');
-    }
+    if (!user || !ok) throw new UnauthorizedException('email or password is incorrect');
     // Checked after the password, so the answer reveals the state only to someone who knows the password.
     if (!user.active) throw new UnauthorizedException('this account is deactivated; ask an administrator');
-    await this.throttle.recordSuccess(email);
+    await attempt.succeeded();
     const payload: JwtPayload = { sub: user.id, role: user.role, iatMs: Date.now() };
     return { accessToken: await this.jwt.signAsync(payload), user: toUserDto(user) };
   }

@@ -1,63 +1,89 @@
 import { Inject, Injectable, Logger, Optional, ServiceUnavailableException } from '@nestjs/common';
-import { AttemptCounter } from '@psiform/server';
+import { APP_CONFIG, AttemptGate, type AppConfig, type BackoffPolicy, type GateVerdict } from '@psiform/server';
 import { TooManyRequestsException } from '../common/too-many-requests.exception';
+import { withDeadline } from '../common/deadline';
 
 export interface LoginThrottlePolicy {
-  maxFailures: number;
-  windowSeconds: number;
+  /** Per account (e-mail): 5 free tries, then 5 s, 10 s, 20 s … up to 15 min between tries. */
+  account: BackoffPolicy;
+  /** Per client address, only behind a configured `trust proxy` (TRUST_PROXY): more lenient, many people share one. */
+  address: BackoffPolicy;
+  /** Longest wait for the attempt store before sign-in answers 503 (a stalled Redis must not hang sign-in). */
+  storeTimeoutMs: number;
 }
 
-/** Issue "Foundation": 5 failures per email or per IP within 15 minutes. */
-export const DEFAULT_LOGIN_THROTTLE: LoginThrottlePolicy = { maxFailures: 5, windowSeconds: 15 * 60 };
+export const DEFAULT_LOGIN_THROTTLE: LoginThrottlePolicy = {
+  account: { freeAttempts: 5, baseDelayMs: 5000, maxDelayMs: 15 * 60_000, memoryMs: 6 * 3600_000 },
+  address: { freeAttempts: 30, baseDelayMs: 1000, maxDelayMs: 15 * 60_000, memoryMs: 3600_000 },
+  storeTimeoutMs: 1500,
+};
 export const LOGIN_THROTTLE_POLICY = Symbol('LOGIN_THROTTLE_POLICY');
 
-const emailKey = (email: string) => `login:email:${email.trim().toLowerCase()}`;
-const ipKey = (ip: string) => `login:ip:${ip}`;
+export const accountKey = (email: string) => `login:email:${email.trim().toLowerCase()}`;
+export const addressKey = (ip: string) => `login:ip:${ip}`;
+
+/** A sign-in attempt that went through the gate; the caller reports how it ended. */
+export interface Admitted {
+  succeeded(): Promise<void>;
+}
 
 @Injectable()
 export class LoginThrottle {
   private readonly policy: LoginThrottlePolicy;
+  private readonly log = new Logger('LoginThrottle');
+  private readonly perAddress: boolean;
 
   constructor(
-    private readonly counter: AttemptCounter,
+    private readonly gate: AttemptGate,
+    @Inject(APP_CONFIG) config: Pick<AppConfig, 'http'>,
     @Optional() @Inject(LOGIN_THROTTLE_POLICY) policy?: LoginThrottlePolicy,
   ) {
     this.policy = policy ?? DEFAULT_LOGIN_THROTTLE;
+    // Without a configured proxy the socket address may be a proxy's (everyone's): never throttle by it then.
+    this.perAddress = config.http.trustProxy !== false;
   }
 
-  private readonly log = new Logger('LoginThrottle');
-
-  /** Fails closed: without the counter we cannot throttle, so sign-in answers 503. */
+  /** Fails closed: without the attempt store we cannot throttle, so sign-in answers 503, within storeTimeoutMs. */
   private async guarded<T>(op: () => Promise<T>): Promise<T> {
     try {
-      return await op();
+      return await withDeadline(op(), this.policy.storeTimeoutMs, 'redis');
     } catch (err) {
-      this.log.error(`attempt counter failed: ${(err as Error).message}`);
-      throw new ServiceUnavailableException('sign-in is temporarily unavailable; try again shortly');
+      this.log.error(`attempt store failed: ${(err as Error).message}`);
+      throw new ServiceUnavailableException('sign-in is temporarily unavailable (the attempt store is not answering); try again shortly');
     }
   }
 
-  /** Throws 429 once either counter has reached the limit within its window. */
-  async assertAllowed(email: string, ip: string): Promise<void> {
-    const counts = await this.guarded(() => Promise.all([this.counter.peek(emailKey(email)), this.counter.peek(ipKey(ip))]));
-    const blocked = counts.filter((c) => c.count >= this.policy.maxFailures);
-    if (blocked.length === 0) return;
-    const retryAfter = Math.max(1, ...blocked.map((c) => c.retryAfterSeconds));
-    const minutes = Math.ceil(retryAfter / 60);
-    throw new TooManyRequestsException(
-      `too many failed sign-in attempts; try again in ${minutes} minute${minutes === 1 ? '' : 's'}`,
-      retryAfter,
-    );
+  /**
+   * Counts this attempt (before the password is checked) or throws 429 with Retry-After. Refused attempts are not
+   * counted against the other key either.
+   */
+  async admit(email: string, ip: string): Promise<Admitted> {
+    const account = accountKey(email);
+    const address = this.perAddress ? addressKey(ip) : undefined;
+    const verdicts = await this.guarded(async () => {
+      const a = await this.gate.acquire(account, this.policy.account);
+      if (!a.allowed || !address) return [a];
+      const b = await this.gate.acquire(address, this.policy.address);
+      if (!b.allowed) await this.gate.refund(account);
+      return [a, b];
+    });
+    const refused = verdicts.filter((v: GateVerdict) => !v.allowed);
+    if (refused.length) {
+      const seconds = Math.max(1, ...refused.map((v) => Math.ceil(v.waitMs / 1000)));
+      throw new TooManyRequestsException(`too many failed sign-in attempts; try again in ${describeWait(seconds)}`, seconds);
+    }
+    return {
+      // A success forgets the account's failures and takes this attempt back from the shared address.
+      succeeded: () => this.guarded(async () => {
+        await this.gate.clear(account);
+        if (address) await this.gate.refund(address);
+      }),
+    };
   }
+}
 
-  async recordFailure(email: string, ip: string): Promise<void> {
-    await this.guarded(() =>
-      Promise.all([this.counter.hit(emailKey(email), this.policy.windowSeconds), this.counter.hit(ipKey(ip), this.policy.windowSeconds)]),
-    );
-  }
-
-  /** A successful sign-in clears the email's counter (the IP's stays). */
-  async recordSuccess(email: string): Promise<void> {
-    await this.guarded(() => this.counter.clear(emailKey(email)));
-  }
+function describeWait(seconds: number): string {
+  if (seconds < 60) return `${seconds} second${seconds === 1 ? '' : 's'}`;
+  const minutes = Math.ceil(seconds / 60);
+  return `${minutes} minute${minutes === 1 ? '' : 's'}`;
 }

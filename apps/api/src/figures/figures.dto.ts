@@ -1,11 +1,14 @@
 import { Transform, Type } from 'class-transformer';
-import { IsDefined, IsIn, IsInt, IsNotEmpty, IsOptional, IsString, IsUUID, Max, MaxLength, Min } from 'class-validator';
+import { IsDefined, IsIn, IsInt, IsNotEmpty, IsString, IsUUID, Max, MaxLength, Min } from 'class-validator';
+import { OptionalNotNull } from '../common/validation';
 import { FIGURE_STATUSES, type CreateFigureRequest, type FigureStatus, type UpdateFigureRequest } from '@psiform/contracts';
 import { FIGURE_SORTS, type FigureSort } from '@psiform/server';
 
 const trim = ({ value }: { value: unknown }) => (typeof value === 'string' ? value.trim() : value);
 
 export const FIGURE_TITLE_MAX = 200;
+/** Highest page number a list accepts: keeps (page - 1) × pageSize far inside PostgreSQL's bigint OFFSET. */
+export const PAGE_MAX = 1_000_000;
 
 export class CreateFigureBody implements CreateFigureRequest {
   @IsUUID('all', { message: 'publicationId must be a UUID' })
@@ -23,50 +26,51 @@ export class CreateFigureBody implements CreateFigureRequest {
 }
 
 export class UpdateFigureBody implements UpdateFigureRequest {
-  @IsOptional()
+  @OptionalNotNull()
   @Transform(trim)
   @IsString({ message: 'title must be a string' })
   @IsNotEmpty({ message: 'title must not be empty' })
   @MaxLength(FIGURE_TITLE_MAX, { message: `title must be at most ${FIGURE_TITLE_MAX} characters` })
   title?: string;
 
-  @IsOptional()
+  @OptionalNotNull()
   recipe?: unknown;
 }
 
 
 export class ListFiguresQuery {
-  @IsOptional()
+  @OptionalNotNull()
   @IsUUID('all', { message: 'publicationId must be a UUID' })
   publicationId?: string;
 
-  @IsOptional()
+  @OptionalNotNull()
   @Type(() => Number)
   @IsInt({ message: 'page must be an integer' })
-  @Min(1, { message: 'page must be at least 1' })
+  @Min(1, { message: `page must be 1..${PAGE_MAX}` })
+  @Max(PAGE_MAX, { message: `page must be 1..${PAGE_MAX}` })
   page?: number;
 
-  @IsOptional()
+  @OptionalNotNull()
   @Type(() => Number)
   @IsInt({ message: 'pageSize must be an integer' })
   @Min(1, { message: 'pageSize must be 1..100' })
   @Max(100, { message: 'pageSize must be 1..100' })
   pageSize?: number;
 
-  @IsOptional()
-  @IsString()
+  @OptionalNotNull()
+  @IsString({ message: 'q must be a string' })
   @MaxLength(200, { message: 'q must be at most 200 characters' })
   q?: string;
 
-  @IsOptional()
+  @OptionalNotNull()
   @IsIn(FIGURE_STATUSES as readonly string[], { message: `status must be one of: ${FIGURE_STATUSES.join(', ')}` })
   status?: FigureStatus;
 
-  @IsOptional()
+  @OptionalNotNull()
   @IsIn(FIGURE_SORTS as readonly string[], { message: `sort must be one of: ${FIGURE_SORTS.join(', ')}` })
   sort?: FigureSort;
 
-  @IsOptional()
+  @OptionalNotNull()
   @IsIn(['asc', 'desc'], { message: 'order must be asc or desc' })
   order?: 'asc' | 'desc';
 }

@@ -14,6 +14,7 @@ import {
   type Role,
   type UpdatePublicationRequest,
 } from '@psiform/contracts';
+import { OptionalNotNull } from '../common/validation';
 
 const trim = ({ value }: { value: unknown }) => (typeof value === 'string' ? value.trim() : value);
 const KIND_MESSAGE = `kind must be one of: ${PUBLICATION_KINDS.join(', ')}`;
@@ -36,41 +37,41 @@ export class CreatePublicationBody implements CreatePublicationRequest {
   @IsIn(PUBLICATION_KINDS as readonly string[], { message: KIND_MESSAGE })
   kind: PublicationKind;
 
-  @IsOptional()
+  @OptionalNotNull()
   @IsString({ message: 'description must be a string' })
   @MaxLength(5000, { message: 'description must be at most 5000 characters' })
   description?: string;
 
-  @IsOptional()
+  @OptionalNotNull()
   @IsIn(LENGTH_UNITS as readonly string[], { message: UNIT_MESSAGE })
   lengthUnit?: LengthUnit;
 }
 
 export class UpdatePublicationBody implements UpdatePublicationRequest {
-  @IsOptional()
+  @OptionalNotNull()
   @Transform(trim)
   @IsString({ message: 'title must be a string' })
   @IsNotEmpty({ message: 'title must not be empty' })
   @MaxLength(300, { message: 'title must be at most 300 characters' })
   title?: string;
 
-  @IsOptional()
+  @OptionalNotNull()
   @Transform(trim)
   @IsString({ message: 'publisher must be a string' })
   @IsNotEmpty({ message: 'publisher must not be empty' })
   @MaxLength(200, { message: 'publisher must be at most 200 characters' })
   publisher?: string;
 
-  @IsOptional()
+  @OptionalNotNull()
   @IsIn(PUBLICATION_KINDS as readonly string[], { message: KIND_MESSAGE })
   kind?: PublicationKind;
 
-  @IsOptional()
+  @OptionalNotNull()
   @IsString({ message: 'description must be a string' })
   @MaxLength(5000, { message: 'description must be at most 5000 characters' })
   description?: string;
 
-  @IsOptional()
+  @OptionalNotNull()
   @IsIn(LENGTH_UNITS as readonly string[], { message: UNIT_MESSAGE })
   lengthUnit?: LengthUnit;
 }
@@ -79,7 +80,7 @@ export class AddMemberBody implements AddMemberWithRoleRequest {
   @IsUUID('all', { message: 'userId must be a UUID' })
   userId: string;
 
-  @IsOptional()
+  @OptionalNotNull()
   @IsIn(ROLES as readonly string[], { message: ROLE_MESSAGE })
   role?: Role;
 }

@@ -1,6 +1,7 @@
 import { Transform, Type } from 'class-transformer';
 import { DESK_STATES, type DeskState } from '@psiform/contracts';
 import { IsDefined, IsIn, IsNotEmpty, IsNumber, IsOptional, IsString, IsUUID, Max, MaxLength, Min, ValidateNested } from 'class-validator';
+import { OptionalNotNull } from '../common/validation';
 
 const trim = ({ value }: { value: unknown }) => (typeof value === 'string' ? value.trim() : value);
 
@@ -17,7 +18,7 @@ export class RequestChangesBody {
 }
 
 export class OptionalNoteBody {
-  @IsOptional()
+  @OptionalNotNull()
   @Transform(trim)
   @IsString({ message: 'note must be a string' })
   @MaxLength(NOTE_MAX, { message: `note must be at most ${NOTE_MAX} characters` })
@@ -44,11 +45,11 @@ export class CommentBody {
   @MaxLength(COMMENT_MAX, { message: `body must be at most ${COMMENT_MAX} characters` })
   body: string;
 
-  @IsOptional()
+  @OptionalNotNull()
   @IsUUID('all', { message: 'versionId must be a UUID' })
   versionId?: string;
 
-  @IsOptional()
+  @OptionalNotNull()
   @ValidateNested()
   @Type(() => PinBody)
   pin?: PinBody;

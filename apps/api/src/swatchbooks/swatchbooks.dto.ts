@@ -1,4 +1,5 @@
 import { IsBoolean, IsDefined, IsOptional, IsUUID } from 'class-validator';
+import { OptionalNotNull } from '../common/validation';
 
 /** Colours and names are checked by swatchbook-input.ts (messages name colors.<swatch>). */
 export class CreateSwatchbookBody {
@@ -10,10 +11,10 @@ export class CreateSwatchbookBody {
 }
 
 export class UpdateSwatchbookBody {
-  @IsOptional()
+  @OptionalNotNull()
   name?: unknown;
 
-  @IsOptional()
+  @OptionalNotNull()
   colors?: unknown;
 }
 
@@ -31,7 +32,7 @@ export class ImportSwatchbookBody {
   @IsDefined({ message: 'colors is required' })
   colors: unknown;
 
-  @IsOptional()
+  @IsOptional() // informative only; the service ignores it
   exportedAt?: unknown;
 }
 
@@ -39,11 +40,11 @@ export class HouseStyleBody {
   @IsUUID('all', { message: 'swatchbookId must be a UUID' })
   swatchbookId: string;
 
-  @IsOptional()
+  @OptionalNotNull()
   @IsBoolean({ message: 'requireColourSignOff must be true or false' })
   requireColourSignOff?: boolean;
 
-  @IsOptional()
+  @OptionalNotNull()
   @IsBoolean({ message: 'allowOverride must be true or false' })
   allowOverride?: boolean;
 }

@@ -9,9 +9,18 @@ import { MembershipService } from '../publications/membership.service';
 import { FiguresService } from '../figures/figures.service';
 import { FIGURE_TITLE_MAX } from '../figures/figures.dto';
 import { validateRecipe } from '../figures/recipe-input';
+import { inputProblems } from '../common/input/input-rules';
 
 type Caller = Pick<UserDto, 'id' | 'role'>;
 type Sidecar = ReturnType<typeof parseSidecar>;
+type UploadMeta = { publicationId: string; title: string; format: UploadFormat; quantity?: 'psi' | 'density'; fraction: number };
+/** A cube that streamed through CubeCheck into a temporary object; no rows yet. */
+interface ReceivedCube {
+  meta: UploadMeta;
+  cube: CubeCheckResult;
+  quantity: 'psi' | 'density';
+  tempKey: string;
+}
 
 const SIDECAR_MAX_BYTES = 65536;
 const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
@@ -38,8 +47,13 @@ export class UploadsService {
     private readonly figures: FiguresService,
   ) {}
 
+  /**
+   * Parses the whole multipart request before anything is stored: the cube streams (checked) into a temporary
+   * object, and only when busboy has seen the closing boundary with no bad or duplicate part are the rows written.
+   * Every stream here (request, busboy, each file part) gets its error listener synchronously when it appears:
+   * an 'error' with no listener would end the process (a request cut off inside the cube part did).
+   */
   receive(user: Caller, req: IncomingMessage): Promise<UploadResponse> {
-    type Stored = UploadResponse & { key: string };
     const type = req.headers['content-type'] ?? '';
     if (!/^multipart\/form-data/i.test(type)) {
       req.resume();
@@ -56,58 +70,71 @@ export class UploadsService {
         return;
       }
       const fields: Record<string, string> = {};
+      const seen = new Set<string>();
       let sidecar: Promise<Sidecar> | undefined;
-      let work: Promise<Stored> | undefined;
+      let work: Promise<ReceivedCube> | undefined;
       let failure: unknown;
       const fail = (err: unknown) => (failure ??= err);
+      const duplicate = (name: string) => seen.has(name) || (seen.add(name), false);
 
       bb.on('field', (name, value, info) => {
-        if (work) return fail(new BadRequestException(`field ${name}: must come before the cube part`));
+        if (duplicate(name)) return fail(new BadRequestException(`${name}: part given twice`));
+        if (work) return fail(new BadRequestException(`${name}: must come before the cube part`));
         if (info.valueTruncated) return fail(new BadRequestException(`${name}: value too long`));
         fields[name] = value;
       });
       bb.on('file', (name, stream) => {
+        stream.on('error', (err: Error) => fail(new BadRequestException(`${name}: ${err.message}`)));
+        if (duplicate(name)) {
+          stream.resume();
+          return fail(new BadRequestException(`${name}: part given twice`));
+        }
         if (name === 'sidecar' && !work) {
           sidecar = readSmall(stream, SIDECAR_MAX_BYTES).then(parseSidecar);
           sidecar.catch(fail);
-        } else if (name === 'cube' && !work && failure === undefined) {
-          work = this.storeCube(user, fields, sidecar, stream);
+        } else if (name === 'cube' && failure === undefined) {
+          work = this.receiveCube(user, fields, sidecar, stream);
           work.catch(fail);
         } else {
           stream.resume();
-          fail(new BadRequestException(name === 'cube' || name === 'sidecar' ? `${name}: part given twice or out of order` : `unexpected file part "${name}" (expected sidecar, cube)`));
+          fail(new BadRequestException(name === 'cube' || name === 'sidecar' ? `${name}: part out of order` : `unexpected file part "${name}" (expected sidecar, cube)`));
         }
       });
       bb.on('partsLimit', () => fail(new BadRequestException('too many parts in the upload')));
       bb.on('filesLimit', () => fail(new BadRequestException('too many files in the upload (expected sidecar, cube)')));
       bb.on('fieldsLimit', () => fail(new BadRequestException('too many fields in the upload')));
+      let settled = false;
+      const settle = async () => {
+        if (settled) return;
+        settled = true;
+        const received = work ? await work.catch((e) => (fail(e), undefined)) : undefined;
+        if (!work && failure === undefined) fail(new BadRequestException('cube: the file part is missing'));
+        try {
+          if (failure !== undefined) throw failure;
+          resolve(await this.persist(user, received!));
+        } catch (err) {
+          reject(toHttp(err));
+        } finally {
+          if (received) await this.storage.delete(received.tempKey).catch(() => undefined);
+        }
+      };
       bb.on('error', (err: Error) => {
         fail(new BadRequestException(`malformed multipart request: ${err.message}`));
         req.unpipe(bb);
-        req.resume();
+        req.resume(); // drain the rest so the client gets our answer
         void settle();
       });
-      const settle = async () => {
-        const result = work ? await work.catch((e) => (fail(e), undefined)) : undefined;
-        if (!work && failure === undefined) fail(new BadRequestException('cube: the file part is missing'));
-        if (failure !== undefined) {
-          // The temporary object (if any) is already gone; a stored result must be undone too.
-          if (result) await this.undo(result).catch(() => undefined);
-          reject(toHttp(failure));
-        } else resolve({ figureId: result!.figureId, assetId: result!.assetId });
-      };
-      let settled = false;
-      bb.on('close', () => {
-        if (!settled) {
-          settled = true;
-          void settle();
-        }
-      });
+      bb.on('close', () => void settle());
+      // A client that goes away mid-request: end busboy with an error (it destroys the open file part with it).
+      const abort = () => bb.destroy(new Error('the request was cut off'));
+      req.on('aborted', abort);
+      req.on('error', abort);
       req.pipe(bb);
     });
   }
 
-  private async storeCube(user: Caller, fields: Record<string, string>, sidecarP: Promise<Sidecar> | undefined, stream: Readable & { truncated?: boolean }): Promise<UploadResponse & { key: string }> {
+  /** Streams the cube through CubeCheck into a temporary object; stores no rows. */
+  private async receiveCube(user: Caller, fields: Record<string, string>, sidecarP: Promise<Sidecar> | undefined, stream: Readable & { truncated?: boolean }): Promise<ReceivedCube> {
     let check: CubeCheck | undefined;
     const tempKey = uploadTempKey(randomUUID());
     let tempWritten = false;
@@ -119,6 +146,8 @@ export class UploadsService {
         if (!sidecarP) throw new BadRequestException('sidecar: required for format raw (a JSON file part before the cube)');
         sidecar = await sidecarP;
       }
+      // The part may have failed while we awaited (a request cut off inside it): its error listener ran already.
+      if (stream.errored || stream.destroyed) throw new BadRequestException(`cube: ${stream.errored?.message ?? 'the part ended early'}`);
       check = new CubeCheck(meta.format, sidecar);
       const c = check;
       const tooLarge = () => new UploadRejected(413, `cube: larger than the upload limit of ${this.config.uploads.maxBytes} bytes (UPLOAD_MAX_BYTES)`);
@@ -138,19 +167,17 @@ export class UploadsService {
         throw stream.truncated ? tooLarge() : err;
       }
       if (stream.truncated) throw tooLarge();
-      const cube = c.result();
-      const quantity = sidecar?.quantity ?? meta.quantity ?? 'psi';
-      return await this.persist(user, meta, cube, quantity, tempKey);
+      return { meta, cube: c.result(), quantity: sidecar?.quantity ?? meta.quantity ?? 'psi', tempKey };
     } catch (err) {
       stream.resume();
-      throw err;
-    } finally {
       if (tempWritten) await this.storage.delete(tempKey).catch(() => undefined);
+      throw err;
     }
   }
 
-  private readFields(f: Record<string, string>): { publicationId: string; title: string; format: UploadFormat; quantity?: 'psi' | 'density'; fraction: number } {
-    const problems: string[] = [];
+  private readFields(f: Record<string, string>): UploadMeta {
+    const problems: string[] = inputProblems(f, 'fields'); // the rules every JSON body meets (NUL, lone surrogates…)
+    if (problems.length) throw new BadRequestException(problems);
     if (!UUID.test(f.publicationId ?? '')) problems.push('publicationId must be a UUID (a field part before the cube)');
     const title = (f.title ?? '').trim();
     if (!title) problems.push('title must not be empty');
@@ -163,13 +190,8 @@ export class UploadsService {
     return { publicationId: f.publicationId, title, format: f.format as UploadFormat, quantity: f.quantity as 'psi' | 'density' | undefined, fraction };
   }
 
-  private async persist(
-    user: Caller,
-    meta: { publicationId: string; title: string; format: UploadFormat; fraction: number },
-    cube: CubeCheckResult,
-    quantity: 'psi' | 'density',
-    tempKey: string,
-  ): Promise<UploadResponse & { key: string }> {
+  /** Copies the checked cube to its content-derived key, then writes figure, version and asset in one transaction. */
+  private async persist(user: Caller, { meta, cube, quantity, tempKey }: ReceivedCube): Promise<UploadResponse> {
     const key = uploadKey(cube.sha256);
     await this.storage.copy(tempKey, key, { sha256: cube.sha256 });
     const assetId = randomUUID();
@@ -188,17 +210,16 @@ export class UploadsService {
           stats: { sizes: cube.sizes, spacing: cube.spacing, origin: cube.origin, quantity, uploadedAs: meta.format },
         },
       );
-      return { figureId: figure.id, assetId, key };
+      return { figureId: figure.id, assetId };
     } catch (err) {
-      await this.undo({ figureId: '', assetId: '', key }).catch(() => undefined);
+      await this.undo(key).catch(() => undefined);
       throw err;
     }
   }
 
   /** Removes a stored cube unless some asset row refers to it (keys are shared by equal content). */
-  private async undo(r: { key?: string } & Partial<UploadResponse>): Promise<void> {
-    const key = (r as { key?: string }).key;
-    if (key && !(await this.assets.keyReferenced(key))) await this.storage.delete(key);
+  private async undo(key: string): Promise<void> {
+    if (!(await this.assets.keyReferenced(key))) await this.storage.delete(key);
   }
 }
 

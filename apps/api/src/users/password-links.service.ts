@@ -1,6 +1,6 @@
 import { BadRequestException, Inject, Injectable, Logger } from '@nestjs/common';
 import type { LinkInfoDto, SetPasswordResponse } from '@psiform/contracts';
-import { APP_CONFIG, type AppConfig, AttemptCounter, UsersStore, userState } from '@psiform/server';
+import { APP_CONFIG, type AppConfig, AttemptGate, type BackoffPolicy, UsersStore, userState } from '@psiform/server';
 import { NoticesService } from '../mail-notices/notices.service';
 import { linkMail } from '../mail-notices/compose';
 import { hashPassword } from './password';
@@ -9,8 +9,11 @@ import { hashLinkToken, linkExpiry, newLinkToken, setPasswordUrl } from './links
 /** One wording for every unusable link, so an answer does not tell which of the three it was. */
 export const LINK_UNUSABLE = 'token: this link is not valid, has expired or was already used; ask for a new one';
 
-/** Self-service reset requests: at most this many mails per address per hour (our choice), silently beyond. */
-export const RESET_REQUESTS_PER_HOUR = 3;
+/**
+ * Self-service reset requests per account, on the sign-in back-off mechanism (AttemptGate): three mails at once,
+ * then a doubling wait from 15 minutes (our choice); requests refused meanwhile are answered the same and send nothing.
+ */
+export const RESET_REQUEST_POLICY: BackoffPolicy = { freeAttempts: 3, baseDelayMs: 15 * 60_000, maxDelayMs: 24 * 3600_000, memoryMs: 24 * 3600_000 };
 
 /**
  * The public side of one-time links: read what a link is for, use it once to set a password, and ask for a reset
@@ -22,7 +25,7 @@ export class PasswordLinksService {
 
   constructor(
     private readonly store: UsersStore,
-    private readonly counter: AttemptCounter,
+    private readonly gate: AttemptGate,
     private readonly notices: NoticesService,
     @Inject(APP_CONFIG) private readonly config: AppConfig,
   ) {}
@@ -59,14 +62,12 @@ export class PasswordLinksService {
     const answer = { message: 'if an account uses this address, a link to choose a new password is on its way' };
     const user = await this.store.findByEmail(email);
     if (!user || userState(user) !== 'active') return answer;
-    let count: number;
     try {
-      count = (await this.counter.hit(`reset:email:${user.email}`, 3600)).count;
+      if (!(await this.gate.acquire(`reset:account:${user.email}`, RESET_REQUEST_POLICY)).allowed) return answer;
     } catch (err) {
       this.log.warn(`reset request not counted (${(err as Error).message}); not sent`);
       return answer;
     }
-    if (count > RESET_REQUESTS_PER_HOUR) return answer;
     const { token, hash } = newLinkToken();
     await this.store.transaction(async (tx) => {
       await tx.addLink({ userId: user.id, purpose: 'reset', tokenHash: hash, expiresAt: linkExpiry('reset'), createdBy: null });

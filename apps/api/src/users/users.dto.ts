@@ -13,12 +13,13 @@ import {
   type UserSortKey,
   type UserState,
 } from '@psiform/contracts';
+import { MaxUtf8Bytes, OptionalNotNull } from '../common/validation';
 
 const trimLower = ({ value }: { value: unknown }) => (typeof value === 'string' ? value.trim().toLowerCase() : value);
 const trim = ({ value }: { value: unknown }) => (typeof value === 'string' ? value.trim() : value);
 
-/** bcrypt reads only the first 72 bytes. */
-export const MAX_PASSWORD_LENGTH = 72;
+/** bcrypt reads only the first 72 bytes (not characters). */
+export const MAX_PASSWORD_BYTES = 72;
 const ROLE_MESSAGE = `role must be one of: ${ROLES.join(', ')}`;
 
 export class CreateUserBody implements CreateUserRequest {
@@ -35,7 +36,7 @@ export class CreateUserBody implements CreateUserRequest {
 
   @IsString({ message: 'password must be a string' })
   @MinLength(MIN_PASSWORD_LENGTH, { message: `password must be at least ${MIN_PASSWORD_LENGTH} characters` })
-  @MaxLength(MAX_PASSWORD_LENGTH, { message: `password must be at most ${MAX_PASSWORD_LENGTH} characters` })
+  @MaxUtf8Bytes(MAX_PASSWORD_BYTES)
   password: string;
 
   @IsIn(ROLES as readonly string[], { message: ROLE_MESSAGE })
@@ -59,18 +60,18 @@ export class InviteUserBody implements InviteUserRequest {
 }
 
 export class UpdateUserBody implements UpdateUserRequest {
-  @IsOptional()
+  @OptionalNotNull()
   @Transform(trim)
   @IsString({ message: 'displayName must be a string' })
   @IsNotEmpty({ message: 'displayName must not be empty' })
   @MaxLength(120, { message: 'displayName must be at most 120 characters' })
   displayName?: string;
 
-  @IsOptional()
+  @OptionalNotNull()
   @IsIn(ROLES as readonly string[], { message: ROLE_MESSAGE })
   role?: Role;
 
-  @IsOptional()
+  @OptionalNotNull()
   @IsBoolean({ message: 'active must be true or false' })
   active?: boolean;
 }
@@ -124,7 +125,7 @@ export class LinkTokenBody {
 export class SetPasswordBody extends LinkTokenBody {
   @IsString({ message: 'password must be a string' })
   @MinLength(MIN_PASSWORD_LENGTH, { message: `password must be at least ${MIN_PASSWORD_LENGTH} characters` })
-  @MaxLength(MAX_PASSWORD_LENGTH, { message: `password must be at most ${MAX_PASSWORD_LENGTH} characters` })
+  @MaxUtf8Bytes(MAX_PASSWORD_BYTES)
   password: string;
 }
 

@@ -28,7 +28,7 @@ describe('loadConfig', () => {
     expect(c.s3).toEqual({ endpoint: good.S3_ENDPOINT, bucket: 'bucket', accessKeyId: 'key', secretAccessKey: 'secret', region: 'us-east-1' });
     expect(c.smtp.from).toBe('Psiform <no-reply@psiform.test>');
     expect(c.jwt.ttl).toBe('8h');
-    expect(c.http).toEqual({ port: 3000, host: '127.0.0.1', webDist: undefined, publicBaseUrl: 'http://127.0.0.1:3000' });
+    expect(c.http).toEqual({ port: 3000, host: '127.0.0.1', webDist: undefined, trustProxy: false, publicBaseUrl: 'http://127.0.0.1:3000' });
     expect(c.uploads.maxBytes).toBe(536870912);
   });
 
@@ -51,10 +51,17 @@ describe('loadConfig', () => {
   });
 
   it('reads overrides', () => {
-    const c = loadConfig({ ...good, PORT: '8081', HOST: '0.0.0.0', JWT_TTL: '30m', WEB_DIST: '/srv/web', S3_REGION: 'eu-west-1' });
-    expect(c.http).toEqual({ port: 8081, host: '0.0.0.0', webDist: '/srv/web', publicBaseUrl: 'http://127.0.0.1:8081' });
+    const c = loadConfig({ ...good, PORT: '8081', HOST: '0.0.0.0', JWT_TTL: '30m', WEB_DIST: '/srv/web', S3_REGION: 'eu-west-1', TRUST_PROXY: 'loopback, 10.0.0.0/8' });
+    expect(c.http).toEqual({ port: 8081, host: '0.0.0.0', webDist: '/srv/web', trustProxy: ['loopback', '10.0.0.0/8'], publicBaseUrl: 'http://127.0.0.1:8081' });
     expect(c.jwt.ttl).toBe('30m');
     expect(c.s3.region).toBe('eu-west-1');
+  });
+
+  it('reads TRUST_PROXY as Express reads trust proxy, and names it when bad', () => {
+    expect(loadConfig({ ...good, TRUST_PROXY: '1' }).http.trustProxy).toBe(1);
+    expect(loadConfig({ ...good, TRUST_PROXY: 'true' }).http.trustProxy).toBe(true);
+    expect(loadConfig({ ...good, TRUST_PROXY: 'false' }).http.trustProxy).toBe(false);
+    expect(problemsOf({ ...good, TRUST_PROXY: 'everyone' })[0]).toMatch(/^TRUST_PROXY must be false, true, a hop count/);
   });
 
   it('names DATABASE_URL when it is not a postgres URL', () => {

@@ -14,15 +14,21 @@ export interface AppConfig {
   smtp: { url: string; from: string; outboxFile?: string };
   jwt: { secret: string; ttl: string };
   /**
+   * trustProxy: Express's `trust proxy` (TRUST_PROXY: unset/false = the socket address is the client; true, a hop
+   * count, or a comma list of addresses/CIDRs/loopback|linklocal|uniquelocal). Only with it set does sign-in
+   * throttling also count per client address, since only then is that address the client's and not a proxy's.
    * publicBaseUrl: PUBLIC_BASE_URL, where people open the client (links in mail: proofs, invitations, password
    * resets); no trailing slash. Default http://HOST:PORT (127.0.0.1 for a wildcard HOST, 3000 for PORT 0).
    */
-  http: { port: number; host: string; webDist: string | undefined; publicBaseUrl: string };
+  http: { port: number; host: string; webDist: string | undefined; trustProxy: TrustProxy; publicBaseUrl: string };
   /** Largest accepted cube file of POST /api/uploads, in bytes (UPLOAD_MAX_BYTES). */
   uploads: { maxBytes: number };
+  /** requestsPerMinute: general rate limit per signed-in account or client address (RATE_LIMIT_PER_MINUTE; 0 = off). */
+  limits: { requestsPerMinute: number };
 }
 
 export type Env = Record<string, string | undefined>;
+export type TrustProxy = false | true | number | string[];
 
 export class ConfigError extends Error {
   constructor(readonly problems: string[]) {
@@ -38,6 +44,7 @@ export const DEFAULTS = {
   PORT: '3000',
   HOST: '127.0.0.1',
   UPLOAD_MAX_BYTES: '536870912',
+  RATE_LIMIT_PER_MINUTE: '1200',
 } as const;
 
 export const MIN_JWT_SECRET_LENGTH = 32;
@@ -85,6 +92,20 @@ class Reader {
       return 0;
     }
     return n;
+  }
+
+  trustProxy(name: string): TrustProxy {
+    const v = this.raw(name);
+    if (v === undefined || v === 'false') return false;
+    if (v === 'true') return true;
+    if (/^\d+$/.test(v)) return Number(v);
+    const parts = v.split(',').map((p) => p.trim()).filter(Boolean);
+    const ok = parts.every((p) => ['loopback', 'linklocal', 'uniquelocal'].includes(p) || /^[0-9a-fA-F.:]+(\/\d{1,3})?$/.test(p));
+    if (!parts.length || !ok) {
+      this.fail(`${name} must be false, true, a hop count, or a comma list of addresses, CIDR ranges or loopback/linklocal/uniquelocal`);
+      return false;
+    }
+    return parts;
   }
 
   duration(name: string, fallback: string): string {
@@ -156,9 +177,11 @@ export function loadConfig(env: Env): AppConfig {
       port: r.int('PORT', DEFAULTS.PORT, 0, 65535),
       host: r.string('HOST', DEFAULTS.HOST),
       webDist: r.optional('WEB_DIST'),
+      trustProxy: r.trustProxy('TRUST_PROXY'),
       publicBaseUrl: '',
     },
     uploads: { maxBytes: r.int('UPLOAD_MAX_BYTES', DEFAULTS.UPLOAD_MAX_BYTES, 1, 17179869184) },
+    limits: { requestsPerMinute: r.int('RATE_LIMIT_PER_MINUTE', DEFAULTS.RATE_LIMIT_PER_MINUTE, 0, 1_000_000) },
   };
   config.http.publicBaseUrl = r.baseUrl('PUBLIC_BASE_URL', defaultPublicBaseUrl(config.http.host, config.http.port));
   r.done();

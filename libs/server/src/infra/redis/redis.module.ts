@@ -3,8 +3,8 @@ import Redis from 'ioredis';
 import { APP_CONFIG } from '../../config/config.tokens';
 import type { AppConfig } from '../../config/config';
 import { REDIS_CLIENT } from './redis.tokens';
-import { AttemptCounter } from './attempt-counter';
-import { RedisAttemptCounter } from './redis-attempt-counter';
+import { AttemptGate } from './attempt-gate';
+import { RedisAttemptGate } from './redis-attempt-gate';
 import { RedisHealthProbe } from './redis-health';
 
 @Global()
@@ -34,10 +34,10 @@ import { RedisHealthProbe } from './redis-health';
         return redis;
       },
     },
-    { provide: AttemptCounter, useClass: RedisAttemptCounter },
+    { provide: AttemptGate, useClass: RedisAttemptGate },
     RedisHealthProbe,
   ],
-  exports: [REDIS_CLIENT, AttemptCounter, RedisHealthProbe],
+  exports: [REDIS_CLIENT, AttemptGate, RedisHealthProbe],
 })
 export class RedisModule implements OnApplicationShutdown {
   constructor(@Inject(REDIS_CLIENT) private readonly redis: Redis) {}
