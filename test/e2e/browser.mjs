@@ -96,6 +96,29 @@ export async function apiGet(path, token, url = baseUrl()) {
   return JSON.parse(text);
 }
 
+/** Calls the API from Node; throws naming the step and the server's answer unless the status is one of `expect`
+ * (a missing route says so, with `hint` naming what should have been deployed). */
+export async function apiCall(step, method, path, { token, body, expect = [200, 201], hint = 'is this server side deployed?', url = baseUrl() } = {}) {
+  const res = await fetch(`${url}${path}`, {
+    method,
+    headers: { Accept: 'application/json', ...(body ? { 'Content-Type': 'application/json' } : {}), ...(token ? { Authorization: `Bearer ${token}` } : {}) },
+    body: body ? JSON.stringify(body) : undefined,
+  });
+  const text = await res.text();
+  if (!expect.includes(res.status)) {
+    const missing = res.status === 404 && /Cannot (GET|POST|PATCH|PUT|DELETE)/.test(text) ? ` (the route does not exist: ${hint})` : '';
+    throw new Error(`${step}: ${method} ${path} answered ${res.status}${missing}: ${text.slice(0, 300)}`);
+  }
+  return { status: res.status, body: text ? JSON.parse(text) : null };
+}
+
+/** Signs in through the API (not the page) and returns the access token. */
+export async function apiLogin(account) {
+  const { body } = await apiCall(`Signing in ${account.email} through the API`, 'POST', '/api/auth/login', { body: account });
+  if (!body?.accessToken) throw new Error(`the login answer for ${account.email} carries no access token`);
+  return body.accessToken;
+}
+
 /** Waits for the page to reach `ok`, or throws with the first error the page shows instead (by data-testid). */
 export async function expectOutcome(page, { ok, errors, what, timeout }) {
   const okPromise = ok().then(() => ({ ok: true }));
@@ -115,26 +138,3 @@ export async function expectOutcome(page, { ok, errors, what, timeout }) {
   }
   if (!result.ok) throw new Error(`${what} failed; the page says (${result.testId}): ${result.text}`);
 }
-
-/** Calls the API from Node; throws naming the step and the server's answer unless the status is one of `expect`. */
-export async function apiCall(step, method, path, { token, body, expect = [200, 201], url = baseUrl() } = {}) {
-  const res = await fetch(`${url}${path}`, {
-    method,
-    headers: { Accept: 'application/json', ...(body ? { 'Content-Type': 'application/json' } : {}), ...(token ? { Authorization: `Bearer ${token}` } : {}) },
-    body: body ? JSON.stringify(body) : undefined,
-  });
-  const text = await res.text();
-  if (!expect.includes(res.status)) {
-    const hint = res.status === 404 && /Cannot (GET|POST|PATCH|PUT|DELETE)/.test(text) ? ' (the route does not exist: is this server side deployed?)' : '';
-    throw new Error(`${step}: ${method} ${path} answered ${res.status}${hint}: ${text.slice(0, 300)}`);
-  }
-  return { status: res.status, body: text ? JSON.parse(text) : null };
-}
-
-/** Signs in through the API (not the form) and returns the access token. */
-export async function apiLogin(account) {
-  const { body } = await apiCall(`Signing in ${account.email} through the API`, 'POST', '/api/auth/login', { body: account });
-  if (!body?.accessToken) throw new Error(`the login answer for ${account.email} carries no access token`);
-  return body.accessToken;
-}
-

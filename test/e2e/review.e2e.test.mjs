@@ -22,7 +22,7 @@ after(async () => {
   await launched?.close();
 });
 
-const api = apiCall;
+const api = (step, method, path, opts = {}) => apiCall(step, method, path, { hint: 'is the server side of editorial review deployed?', ...opts });
 const login = apiLogin;
 
 test('an editor approves a submitted proof from the review desk', { timeout: 180_000 }, async () => {

@@ -17,6 +17,7 @@ import { SwatchbooksModule } from './swatchbooks/swatchbooks.module';
 import { DevModule } from './dev/dev.module';
 import { ExportsModule } from './exports/exports.module';
 import { ProofsModule } from './proofs/proofs.module';
+import { DeliveryProfilesModule } from './delivery-profiles/delivery-profiles.module';
 import { HttpErrorFilter } from './common/http-error.filter';
 
 @Module({})
@@ -50,6 +51,7 @@ export class AppModule implements OnApplicationShutdown {
         DevModule,
         ExportsModule,
         ProofsModule,
+        DeliveryProfilesModule,
       ],
       providers: [{ provide: APP_FILTER, useClass: HttpErrorFilter }],
     };

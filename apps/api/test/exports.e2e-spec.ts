@@ -194,7 +194,8 @@ describe('exports (e2e)', () => {
     expect(bundle.state).toBe('completed');
     expect(bundle.assets[0].kind).toBe('bundle');
     const files = unzipSync(await download(bundle.assets[0].id));
-    expect(Object.keys(files).sort()).toEqual(['README.txt', 'figure.glb', 'figure.png', 'figure.stl', 'metadata.json', 'radial.svg', 'recipe.json']);
+    // The demo book's delivery profile takes TIFF and PDF, so the bundle carries them and its preflight report too.
+    expect(Object.keys(files).sort()).toEqual(['PREFLIGHT.txt', 'README.txt', 'figure.glb', 'figure.png', 'figure.stl', 'figure.tif', 'metadata.json', 'preflight.json', 'radial.pdf', 'radial.svg', 'recipe.json']);
     const meta = JSON.parse(strFromU8(files['metadata.json']));
     expect(meta.model.note).toMatch(/one-electron hydrogen-like model/);
     expect(meta.surface).toMatchObject({ rule: 'enclosed', target: 0.9 });
@@ -218,7 +219,10 @@ describe('exports (e2e)', () => {
       [{ format: 'png', widthMm: 89, heightMm: 60, dpi: 300, transparent: 'yes' }, /^transparent: /],
       [{ format: 'png', widthMm: 1000, heightMm: 1000, dpi: 1200 }, /^dpi: .*47244 × 47244 px/],
       [{ format: 'png', widthMm: 89, heightMm: 60, dpi: 300, colour: 'red' }, /^colour: is not a field/],
-      [{ format: 'tiff' }, /^format: must be one of png, svg, glb, stl, bundle/],
+      [{ format: 'jpeg' }, /^format: must be one of png, tiff, svg, pdf, glb, stl, bundle/],
+      [{ format: 'tiff', widthMm: 89, heightMm: 60, dpi: 600, colour: 'hexachrome' }, /^colour: must be one of rgb, cmyk/],
+      [{ format: 'tiff', widthMm: 89, heightMm: 60, dpi: 600, colour: 'cmyk', alpha: true }, /^alpha: a CMYK TIFF is always flattened/],
+      [{ format: 'pdf', kind: 'section', pressCondition: 'newsprint' }, /^pressCondition: must be one of fogra39, gracol, swop/],
       [{ format: 'svg', kind: 'pie' }, /^kind: /],
       [{ format: 'svg', kind: 'section', plane: 'xw' }, /^plane: /],
       [{ format: 'svg', kind: 'section', levels: 0 }, /^levels: /],

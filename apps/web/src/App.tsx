@@ -19,6 +19,7 @@ import { PeoplePage } from './admin/PeoplePage';
 import { PublicationAdminPage, PublicationsAdminPage } from './admin/PublicationsAdminPage';
 import { UploadPage } from './pages/UploadPage';
 import { HouseStylePage } from './review/HouseStylePage';
+import { DeliveryProfilePage } from './print/DeliveryProfilePage';
 import { ProofPage } from './review/ProofPage';
 import { ReviewDeskPage } from './review/ReviewDeskPage';
 import { SwatchbookPage } from './swatchbooks/SwatchbookPage';
@@ -69,6 +70,7 @@ const SUB_PAGES: Record<string, () => ReactNode> = {
   '/swatchbooks/:swatchbookId': () => <SwatchbookPage />,
   '/publications/:publicationId/house-style': () => <HouseStylePage />,
   '/manage/publications/:publicationId': () => <PublicationAdminPage />,
+  '/publications/:publicationId/delivery-profile': () => <DeliveryProfilePage />,
 };
 
 function Frame() {

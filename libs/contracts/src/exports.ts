@@ -2,7 +2,7 @@
  * Exports of a figure (issue "The studio"): POST /api/figures/:id/exports with one of these bodies answers
  * 201 CreateJobResponse; the job (GET /api/jobs/:id) completes with the produced asset(s).
  */
-export const EXPORT_FORMATS = ['png', 'svg', 'glb', 'stl', 'bundle'] as const;
+export const EXPORT_FORMATS = ['png', 'tiff', 'svg', 'pdf', 'glb', 'stl', 'bundle'] as const;
 export type ExportFormat = (typeof EXPORT_FORMATS)[number];
 
 export const EXPORT_DPI = [300, 600, 1200] as const;
@@ -50,6 +50,30 @@ export interface SvgExportRequest {
   heightMm?: number;
 }
 
+/**
+ * TIFF (issue "Print production"): the PNG's pixels, LZW, resolution in inches, flattened unless `alpha`; RGB with
+ * sRGB embedded or CMYK separated through a press condition's profile. `colour` and `pressCondition` default to the
+ * publication's delivery profile.
+ */
+export interface TiffExportRequest {
+  format: 'tiff';
+  widthMm: number;
+  heightMm: number;
+  dpi: ExportDpi;
+  transparent?: boolean;
+  /** Keep an alpha channel (RGB only; most journals refuse it). */
+  alpha?: boolean;
+  colour?: 'rgb' | 'cmyk';
+  pressCondition?: 'fogra39' | 'gracol' | 'swop';
+}
+
+/** PDF companion: the radial plot or section map as vector paths, fonts embedded, output intent, tagged. */
+export interface PdfExportRequest extends Omit<SvgExportRequest, 'format'> {
+  format: 'pdf';
+  colour?: 'rgb' | 'cmyk';
+  pressCondition?: 'fogra39' | 'gracol' | 'swop';
+}
+
 export interface MeshExportRequest {
   format: 'glb' | 'stl';
 }
@@ -58,7 +82,7 @@ export interface BundleExportRequest {
   format: 'bundle';
 }
 
-export type ExportRequest = PngExportRequest | SvgExportRequest | MeshExportRequest | BundleExportRequest;
+export type ExportRequest = PngExportRequest | TiffExportRequest | SvgExportRequest | PdfExportRequest | MeshExportRequest | BundleExportRequest;
 
 /** Progress stages of render and export jobs, in order ("meshing" only when the version had no mesh yet). */
 export const EXPORT_STAGES = ['queued', 'meshing', 'rendering', 'encoding', 'storing', 'done'] as const;

@@ -176,6 +176,17 @@ export interface PreflightReport {
   files: PreflightFileReport[];
 }
 
+/** GET /api/figures/:id/preflight: the current version's reports and whether they block approval. */
+export interface FigurePreflightDto {
+  figureId: string;
+  versionNumber: number;
+  /** The newest report of each asset kind of the current version (a newer export replaces an older one). */
+  reports: { assetId: string; kind: string; createdAt: string; report: PreflightReport }[];
+  failures: string[];
+  /** True when approval would be blocked (failures and no override). */
+  blocksApproval: boolean;
+}
+
 /** A written reason to go past a failed gate (preflight now; swatchbook pinning and batch re-renders later). */
 export const gateOverrideSchema = z
   .object({

@@ -24,5 +24,5 @@ export const QUEUES = {
   mail: 'psiform-mail',
 } as const;
 
-export const ASSET_KINDS = ['glb', 'stl', 'ply', 'obj', 'nrrd', 'png', 'svg', 'bundle'] as const;
+export const ASSET_KINDS = ['glb', 'stl', 'ply', 'obj', 'nrrd', 'png', 'svg', 'bundle', 'tiff', 'pdf', 'softproof'] as const;
 export type AssetKind = (typeof ASSET_KINDS)[number];

@@ -12,3 +12,4 @@ export * from './metadata';
 export * from './bundle';
 export * from './preflight';
 export * from './recipe-changes';
+export * from './figure-text';

@@ -13,6 +13,8 @@ export * from './config/config.tokens';
 export * from './config/config';
 export * from './db/run-migrations';
 export * from './db/schema';
+export * from './delivery-profiles/delivery-profile.entity';
+export * from './delivery-profiles/delivery-profiles.repository';
 export * from './exports/figure-set.entity';
 export * from './exports/figure-sets.repository';
 export * from './figures/figure-version.entity';

@@ -1,18 +1,32 @@
-import { EXPORT_DPI, EXPORT_FORMATS, EXPORT_LIMITS, SECTION_PLANES, type ExportFormat, type Recipe, type SectionPlane } from '@psiform/contracts';
+import { COLOUR_MODES, EXPORT_DPI, EXPORT_FORMATS, EXPORT_LIMITS, PRESS_CONDITION_IDS, SECTION_PLANES, type ColourMode, type DeliveryProfile, type ExportFormat, type PressConditionId, type Recipe, type SectionPlane } from '@psiform/contracts';
 import { exportPixelSize } from '@psiform/print';
 
 /** What a render/export job is asked to do; stored in jobs.params and read by the worker. */
-export type ExportParams =
+/** Colour of a print file: from the request, else the publication's delivery profile (filled in by the service). */
+export interface PrintColour {
+  colour: ColourMode;
+  pressCondition: PressConditionId;
+}
+
+export type ExportParams = (
   | { format: 'png'; widthMm: number; heightMm: number; dpi: number; widthPx: number; heightPx: number; transparent: boolean | null }
+  | ({ format: 'tiff'; widthMm: number; heightMm: number; dpi: number; widthPx: number; heightPx: number; transparent: boolean | null; alpha: boolean } & Partial<PrintColour>)
   | { format: 'svg'; kind: 'radial' | 'section'; plane: SectionPlane; offset: number; levels: number; widthMm: number; heightMm: number }
+  | ({ format: 'pdf'; kind: 'radial' | 'section'; plane: SectionPlane; offset: number; levels: number; widthMm: number; heightMm: number } & Partial<PrintColour>)
   | { format: 'glb' | 'stl' }
-  | { format: 'bundle' };
+  | { format: 'bundle' }
+) & {
+  /** The publication's delivery profile when the export was asked for: the worker preflights against this copy. */
+  profile?: DeliveryProfile;
+};
 
 export type ExportParse = { ok: true; params: ExportParams } | { ok: false; messages: string[] };
 
 const ALLOWED: Record<ExportFormat, readonly string[]> = {
   png: ['format', 'widthMm', 'heightMm', 'dpi', 'transparent'],
+  tiff: ['format', 'widthMm', 'heightMm', 'dpi', 'transparent', 'alpha', 'colour', 'pressCondition'],
   svg: ['format', 'kind', 'plane', 'offset', 'levels', 'widthMm', 'heightMm'],
+  pdf: ['format', 'kind', 'plane', 'offset', 'levels', 'widthMm', 'heightMm', 'colour', 'pressCondition'],
   glb: ['format'],
   stl: ['format'],
   bundle: ['format'],
@@ -45,12 +59,28 @@ export function parseExportRequest(body: unknown, recipe: Pick<Recipe, 'canvas' 
   const problems: string[] = [];
   for (const k of Object.keys(b)) if (!ALLOWED[f].includes(k)) problems.push(`${k}: is not a field of a ${f} export`);
 
-  if (f === 'png') {
+  const colour = (): Partial<PrintColour> => {
+    const out: Partial<PrintColour> = {};
+    if (b.colour !== undefined) {
+      if (typeof b.colour !== 'string' || !(COLOUR_MODES as readonly string[]).includes(b.colour)) problems.push(`colour: must be one of ${COLOUR_MODES.join(', ')} (got ${show(b.colour)})`);
+      else out.colour = b.colour as ColourMode;
+    }
+    if (b.pressCondition !== undefined) {
+      if (typeof b.pressCondition !== 'string' || !(PRESS_CONDITION_IDS as readonly string[]).includes(b.pressCondition)) problems.push(`pressCondition: must be one of ${PRESS_CONDITION_IDS.join(', ')} (got ${show(b.pressCondition)})`);
+      else out.pressCondition = b.pressCondition as PressConditionId;
+    }
+    return out;
+  };
+
+  if (f === 'png' || f === 'tiff') {
     const widthMm = mm(b, 'widthMm', problems);
     const heightMm = mm(b, 'heightMm', problems);
     const dpi = b.dpi;
     if (typeof dpi !== 'number' || !(EXPORT_DPI as readonly number[]).includes(dpi)) problems.push(`dpi: must be one of ${EXPORT_DPI.join(', ')} (got ${show(dpi)})`);
     if (b.transparent !== undefined && typeof b.transparent !== 'boolean') problems.push(`transparent: must be true or false (got ${show(b.transparent)})`);
+    if (b.alpha !== undefined && typeof b.alpha !== 'boolean') problems.push(`alpha: must be true or false (got ${show(b.alpha)})`);
+    const col = f === 'tiff' ? colour() : {};
+    if (f === 'tiff' && b.alpha === true && col.colour === 'cmyk') problems.push('alpha: a CMYK TIFF is always flattened (alpha is for RGB only)');
     if (problems.length) return { ok: false, messages: problems };
     const { width, height } = exportPixelSize({ widthMm, heightMm, dpi: dpi as number });
     if (width > EXPORT_LIMITS.pxMax || height > EXPORT_LIMITS.pxMax || width * height > EXPORT_LIMITS.megapixelsMax * 1e6) {
@@ -61,10 +91,12 @@ export function parseExportRequest(body: unknown, recipe: Pick<Recipe, 'canvas' 
         ],
       };
     }
-    return { ok: true, params: { format: 'png', widthMm, heightMm, dpi: dpi as number, widthPx: width, heightPx: height, transparent: (b.transparent as boolean | undefined) ?? null } };
+    const base = { widthMm, heightMm, dpi: dpi as number, widthPx: width, heightPx: height, transparent: (b.transparent as boolean | undefined) ?? null };
+    if (f === 'tiff') return { ok: true, params: { format: 'tiff', ...base, alpha: b.alpha === true, ...col } };
+    return { ok: true, params: { format: 'png', ...base } };
   }
 
-  if (f === 'svg') {
+  if (f === 'svg' || f === 'pdf') {
     const kind = b.kind;
     if (kind !== 'radial' && kind !== 'section') problems.push(`kind: must be radial or section (got ${show(kind)})`);
     const plane = b.plane ?? 'xz';
@@ -80,8 +112,11 @@ export function parseExportRequest(body: unknown, recipe: Pick<Recipe, 'canvas' 
     if (!problems.length && recipe.source?.kind === 'upload') {
       problems.push('kind: radial plots and section maps need the analytic state; this figure is an uploaded cube (export png, glb, stl or a bundle)');
     }
+    const col = f === 'pdf' ? colour() : {};
     if (problems.length) return { ok: false, messages: problems };
-    return { ok: true, params: { format: 'svg', kind: kind as 'radial' | 'section', plane: plane as SectionPlane, offset: offset as number, levels: levels as number, widthMm, heightMm } };
+    const plot = { kind: kind as 'radial' | 'section', plane: plane as SectionPlane, offset: offset as number, levels: levels as number, widthMm, heightMm };
+    if (f === 'pdf') return { ok: true, params: { format: 'pdf', ...plot, ...col } };
+    return { ok: true, params: { format: 'svg', ...plot } };
   }
 
   if (problems.length) return { ok: false, messages: problems };

@@ -1,3 +1,4 @@
+import { DeliveryProfilesModule } from '../delivery-profiles/delivery-profiles.module';
 import { Module } from '@nestjs/common';
 import { DataSource } from 'typeorm';
 import { PublicationsModule } from '../publications/publications.module';
@@ -8,7 +9,7 @@ import { ExportsService } from './exports.service';
 import { FigureSetsStore, TypeormFigureSetsStore } from '@psiform/server';
 
 @Module({
-  imports: [PublicationsModule, FiguresModule, JobsModule],
+  imports: [PublicationsModule, FiguresModule, JobsModule, DeliveryProfilesModule],
   controllers: [ExportsController],
   providers: [{ provide: FigureSetsStore, inject: [DataSource], useFactory: (ds: DataSource) => new TypeormFigureSetsStore(ds) }, ExportsService],
 })

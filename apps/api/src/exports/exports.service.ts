@@ -5,6 +5,7 @@ import { FiguresStore, type FigureEntity, FigureSetsStore, toFigureSetDto } from
 import { JobsService } from '../jobs/jobs.service';
 import { MembershipService } from '../publications/membership.service';
 import { parseExportRequest } from './export-request';
+import { DeliveryProfilesService } from '../delivery-profiles/delivery-profiles.service';
 
 type Caller = Pick<UserDto, 'id' | 'role'>;
 
@@ -21,6 +22,7 @@ export class ExportsService {
     private readonly jobs: JobsService,
     private readonly sets: FigureSetsStore,
     private readonly membership: MembershipService,
+    private readonly deliveryProfiles: DeliveryProfilesService,
   ) {}
 
   async requestExport(user: Caller, figureId: string, body: unknown): Promise<CreateJobResponse> {
@@ -32,13 +34,15 @@ export class ExportsService {
     if (!recipe.ok) throw new BadRequestException(['recipe: the stored recipe of this figure is not valid; save the figure again']);
     const parsed = parseExportRequest(body, recipe.recipe);
     if (!parsed.ok) throw new BadRequestException(parsed.messages);
-    const type = parsed.params.format === 'png' ? 'render' : 'export';
+    const type = parsed.params.format === 'png' || parsed.params.format === 'tiff' ? 'render' : 'export';
+    // The worker preflights against the profile as it is now (a copy travels with the job and into the report).
+    const profile = await this.deliveryProfiles.profileFor(figure.publicationId);
     const job = await this.jobs.enqueue(type, {
       publicationId: figure.publicationId,
       figureId: figure.id,
       figureVersionId: version.id,
       requestedBy: user.id,
-      params: parsed.params,
+      params: { ...parsed.params, profile },
     });
     return { jobId: job.id };
   }

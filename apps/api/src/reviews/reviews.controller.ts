@@ -2,7 +2,7 @@ import { Body, Controller, Get, HttpCode, Param, Post, Query } from '@nestjs/com
 import type { CommentDto, ReviewDeskItemDto, ReviewTransitionDto, UserDto } from '@psiform/contracts';
 import { CurrentUser, Roles } from '../auth/auth.decorators';
 import { uuidParam } from '../common/uuid-param.pipe';
-import { CommentBody, OptionalNoteBody, RequestChangesBody, ReviewDeskQuery } from './reviews.dto';
+import { CommentBody, OptionalNoteBody, ApproveBody, RequestChangesBody, ReviewDeskQuery } from './reviews.dto';
 import { ReviewsService } from './reviews.service';
 import { REVIEW_TRANSITIONS as T } from '@psiform/server';
 
@@ -28,8 +28,8 @@ export class ReviewsController {
   @Post(':id/approve')
   @HttpCode(200)
   @Roles(...T.approve.roles)
-  approve(@CurrentUser() user: UserDto, @Param('id', uuidParam('id')) id: string, @Body() body: OptionalNoteBody): Promise<ReviewTransitionDto> {
-    return this.reviews.approve(user, id, body.note || undefined);
+  approve(@CurrentUser() user: UserDto, @Param('id', uuidParam('id')) id: string, @Body() body: ApproveBody): Promise<ReviewTransitionDto> {
+    return this.reviews.approve(user, id, body.note || undefined, body.override);
   }
 
   @Post(':id/colour-signoff')

@@ -1,6 +1,6 @@
 import { Transform, Type } from 'class-transformer';
 import { DESK_STATES, type DeskState } from '@psiform/contracts';
-import { IsDefined, IsIn, IsNotEmpty, IsNumber, IsOptional, IsString, IsUUID, Max, MaxLength, Min, ValidateNested } from 'class-validator';
+import { IsDefined, IsIn, IsNotEmpty, IsNumber, IsObject, IsOptional, IsString, IsUUID, Max, MaxLength, Min, ValidateNested } from 'class-validator';
 import { OptionalNotNull } from '../common/validation';
 
 const trim = ({ value }: { value: unknown }) => (typeof value === 'string' ? value.trim() : value);
@@ -23,6 +23,13 @@ export class OptionalNoteBody {
   @IsString({ message: 'note must be a string' })
   @MaxLength(NOTE_MAX, { message: `note must be at most ${NOTE_MAX} characters` })
   note?: string;
+}
+
+/** Approve: an optional note, and `override: { reason }` to go past failed preflight (checked by gates/gate.ts). */
+export class ApproveBody extends OptionalNoteBody {
+  @OptionalNotNull()
+  @IsObject({ message: 'override must be an object { reason }' })
+  override?: { reason?: unknown };
 }
 
 export class PinBody {

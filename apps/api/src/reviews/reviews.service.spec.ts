@@ -1,7 +1,8 @@
-import { ConflictException, ForbiddenException, NotFoundException } from '@nestjs/common';
+import { BadRequestException, ConflictException, ForbiddenException, NotFoundException } from '@nestjs/common';
 import type { FigureStatus, MailNoticeJob, UserDto } from '@psiform/contracts';
 import { type FigureEntity, type FigureVersionEntity, type NewAuditEntry, ReviewsStore, type HouseRules, type ReviewTx, type ReviewRoundEntity, type CommentEntity } from '@psiform/server';
 import type { MembershipService } from '../publications/membership.service';
+import type { DeliveryProfilesService } from '../delivery-profiles/delivery-profiles.service';
 import type { NoticesService } from '../mail-notices/notices.service';
 import { ReviewsService } from './reviews.service';
 
@@ -85,12 +86,13 @@ class FakeStore extends ReviewsStore {
   }
 }
 
-function setup(members = ['ill', 'ed', 'ad']) {
+function setup(members = ['ill', 'ed', 'ad'], failures: string[] = []) {
+  const preflight = { figureId: 'f', versionNumber: 1, reports: [], failures, blocksApproval: failures.length > 0 };
   const store = new FakeStore();
   const sent: MailNoticeJob[] = [];
   const membership = { canAccess: async (u: { id: string; role: string }) => u.role === 'admin' || members.includes(u.id) } as unknown as MembershipService;
   const notices = { send: async (m: MailNoticeJob) => (sent.push(m), true), proofUrl: (id: string) => `https://figures.example.org/figures/${id}/proof` } as unknown as NoticesService;
-  return { store, sent, svc: new ReviewsService(store, membership, notices) };
+  return { store, sent, svc: new ReviewsService(store, membership, notices, { preflightOf: async () => preflight } as unknown as DeliveryProfilesService) };
 }
 
 describe('ReviewsService', () => {
@@ -104,6 +106,21 @@ describe('ReviewsService', () => {
     expect(store.rounds).toHaveLength(1);
     expect(store.audit).toEqual([expect.objectContaining({ action: 'submit', actorId: 'ill', fromStatus: 'draft', toStatus: 'in_review' })]);
     expect(sent).toEqual([expect.objectContaining({ to: ['ed@x.test'], subject: 'Proof ready for review: "Figure 1.1 1s"' })]);
+  });
+
+  it('preflight failures block approval (409 naming them) until an override with a written reason, which is audited', async () => {
+    const { store, svc } = setup(['ill', 'ed'], ['tiff figure.tif: resolution: expected at least 600 dpi (combination art); has 300 dpi']);
+    await svc.submit(caller('ill', 'illustrator'), 'f1');
+    const blocked = await svc.approve(caller('ed', 'editor'), 'f1').catch((e: ConflictException) => e);
+    expect(blocked).toBeInstanceOf(ConflictException);
+    expect((blocked as ConflictException).getResponse()).toMatchObject({ gate: 'preflight', overridable: true, failures: [expect.stringContaining('300 dpi')] });
+    expect(store.figure.status).toBe('in_review');
+    await expect(svc.approve(caller('ed', 'editor'), 'f1', undefined, { reason: 'short' })).rejects.toThrow(BadRequestException);
+    const r = await svc.approve(caller('ed', 'editor'), 'f1', undefined, { reason: 'The printer accepts 300 dpi for this plate; agreed by phone.' });
+    expect(r.status).toBe('approved');
+    const entry = store.audit.find((a) => a.action === 'preflight_override');
+    expect(entry?.note).toMatch(/^preflight overridden: The printer accepts 300 dpi .* failures: tiff figure.tif: resolution/);
+    expect(entry?.actorId).toBe('ed');
   });
 
   it('a step not allowed from the current state is 409 and changes nothing', async () => {

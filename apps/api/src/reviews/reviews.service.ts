@@ -4,6 +4,8 @@ import { MembershipService } from '../publications/membership.service';
 import { NoticesService } from '../mail-notices/notices.service';
 import { approvedNotice, changesRequestedNotice, submittedNotice, type NoticeFigure } from '../mail-notices/compose';
 import { type FigureEntity, ReviewsStore, type ReviewTx, approvalOutcome, assertTransition, isEditable, TransitionConflict, type ApprovalPart, type CommentEntity } from '@psiform/server';
+import { DeliveryProfilesService } from '../delivery-profiles/delivery-profiles.service';
+import { decideGate, type GateDecision } from '../gates/gate';
 
 type Caller = Pick<UserDto, 'id' | 'role'>;
 
@@ -24,6 +26,7 @@ export class ReviewsService {
     private readonly store: ReviewsStore,
     private readonly membership: MembershipService,
     private readonly notices: NoticesService,
+    private readonly preflight: DeliveryProfilesService,
   ) {}
 
   /** The figure for members of its publication (admins: all); 404 otherwise. */
@@ -64,21 +67,29 @@ export class ReviewsService {
     return r.dto;
   }
 
-  approve(user: Caller, id: string, note?: string): Promise<ReviewTransitionDto> {
-    return this.approvalPart(user, id, 'approve', note);
+  /**
+   * Approval is gated by preflight: failures in the current version's reports block it (409 naming them) unless the
+   * editor gives `override.reason`, which is audited ('preflight_override') in the same transaction.
+   */
+  async approve(user: Caller, id: string, note?: string, override?: unknown): Promise<ReviewTransitionDto> {
+    await this.requireFigure(user, id);
+    const pf = await this.preflight.preflightOf(id);
+    const gate = decideGate('preflight', pf.failures, override);
+    return this.approvalPart(user, id, 'approve', note, gate);
   }
 
   colourSignoff(user: Caller, id: string, note?: string): Promise<ReviewTransitionDto> {
     return this.approvalPart(user, id, 'colour_signoff', note);
   }
 
-  private async approvalPart(user: Caller, id: string, action: 'approve' | 'colour_signoff', note?: string): Promise<ReviewTransitionDto> {
+  private async approvalPart(user: Caller, id: string, action: 'approve' | 'colour_signoff', note?: string, gate?: GateDecision): Promise<ReviewTransitionDto> {
     const figure = await this.requireFigure(user, id);
     const rules = await this.store.houseRules(figure.publicationId);
     const requireColourSignOff = rules?.requireColourSignOff ?? false;
     const r = await this.step(id, action, async (tx, from) => {
       const round = (await tx.openRound()) ?? (await tx.startRound(user.id));
       const now = new Date();
+      if (gate?.overridden) await tx.audit({ actorId: user.id, action: 'preflight_override', fromStatus: from, toStatus: from, note: gate.auditNote });
       if (action === 'approve') {
         if (round.editorApprovedBy) throw new TransitionConflict('an editor has already approved this proof; it is waiting for the colour sign-off');
         round.editorApprovedBy = user.id;

@@ -1,7 +1,7 @@
 import { hash } from 'bcryptjs';
 import type { DataSource } from 'typeorm';
-import { UserEntity, PublicationEntity, MembershipEntity } from '@psiform/server';
-import { DEMO_PASSWORD, DEMO_PUBLICATION, DEMO_USERS } from './demo-scenario';
+import { UserEntity, PublicationEntity, MembershipEntity, DeliveryProfileEntity } from '@psiform/server';
+import { DEMO_DELIVERY_PROFILE, DEMO_PASSWORD, DEMO_PUBLICATION, DEMO_USERS } from './demo-scenario';
 import { BCRYPT_ROUNDS } from '../users/password';
 
 export interface SeedSummary {
@@ -42,6 +42,8 @@ export async function runSeed(ds: DataSource): Promise<SeedSummary> {
         .execute();
       summary.membershipsAdded += (m.raw as unknown[]).length;
     }
+    // The demo book's delivery profile, only when it has none (an art director's later edits stay).
+    await em.getRepository(DeliveryProfileEntity).createQueryBuilder().insert().values({ publicationId: DEMO_PUBLICATION.id, profile: DEMO_DELIVERY_PROFILE, updatedBy: null }).orIgnore().execute();
     return summary;
   });
 }

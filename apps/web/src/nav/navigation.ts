@@ -101,6 +101,8 @@ export const SUB_ROUTES: readonly SubRoute[] = [
   { path: '/swatchbooks/:swatchbookId', label: 'Swatchbook', roles: ROLES },
   { path: '/publications/:publicationId/house-style', label: 'House style', roles: ROLES },
   { path: '/manage/publications/:publicationId', label: 'Manage publication', roles: ['admin'] },
+  // Every member reads the delivery profile; art directors (and admins) set it (the server enforces it).
+  { path: '/publications/:publicationId/delivery-profile', label: 'Delivery profile', roles: ROLES },
 ];
 
 export function navItemsFor(role: Role): NavItem[] {

@@ -11,6 +11,7 @@ import { JobProgress } from '../figures/JobProgress';
 import { MeshStatsTable } from '../figures/MeshStatsTable';
 import { describeRecipe, formatDate, statusLabel } from '../figures/model';
 import { FigureReview } from '../review/FigureReview';
+import { PreflightPanel } from '../print/PreflightPanel';
 import { FigureStudioBar } from '../studio/FigureStudioBar';
 
 // three.js and R3F load only when a mesh is shown (keeps them out of the first bundle).
@@ -214,6 +215,7 @@ export function FigurePage() {
       </section>
 
       <FigureReview figure={f} />
+      <PreflightPanel figure={f} />
 
       {user?.role === 'illustrator' && (
         <p className="pf-muted pf-small">

@@ -86,6 +86,10 @@ export function PublicationsPage() {
                 <p className="pf-pub-links">
                   <Link to={`/publications/${encodeURIComponent(p.id)}/house-style`} data-testid="publication-house-style">
                     House style
+                  </Link>{' '}
+                  ·{' '}
+                  <Link to={`/publications/${encodeURIComponent(p.id)}/delivery-profile`} data-testid="publication-delivery-profile">
+                    Delivery profile
                   </Link>
                 </p>
               </Card>

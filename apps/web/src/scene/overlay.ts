@@ -3,6 +3,7 @@
 // into each tile and composites it, so both show the same layer at any resolution.
 import { BOHR_RADIUS_ANGSTROM } from '@psiform/orbitals';
 import type { Recipe } from '@psiform/contracts';
+import { OVERLAY_MM, SUBSCRIPT_SCALE } from '@psiform/print';
 
 export type ScaleUnit = Recipe['annotations']['scaleBar']['unit'];
 
@@ -97,8 +98,8 @@ export interface OverlayInput {
   fontFamily?: string;
 }
 
-/** Sizes in mm of the printed figure (our choice; readable at a single-column width). */
-export const OVERLAY_MM = { margin: 3, label: 3.6, small: 2.4, caption: 2.2, bar: 0.35, axisLetter: 2.6 } as const;
+// Sizes in mm of the printed figure and the subscript scale live in @psiform/print (preflight reads them too).
+export { OVERLAY_MM, SUBSCRIPT_SCALE } from '@psiform/print';
 
 function font(px: number, family: string, weight = 400): string {
   return `${weight} ${px.toFixed(2)}px ${family}`;
@@ -107,17 +108,17 @@ function font(px: number, family: string, weight = 400): string {
 function runsWidth(ctx: CanvasRenderingContext2D, runs: Run[], px: number, family: string, weight: number): number {
   let w = 0;
   for (const r of runs) {
-    ctx.font = font(r.sub ? px * 0.68 : px, family, weight);
+    ctx.font = font(r.sub ? px * SUBSCRIPT_SCALE : px, family, weight);
     w += ctx.measureText(r.text).width;
   }
   return w;
 }
 
-/** Draws runs with their baseline at y; subscripts at 68% size, dropped by 0.22 em. */
+/** Draws runs with their baseline at y; subscripts at SUBSCRIPT_SCALE of the size, dropped by 0.22 em. */
 export function drawRuns(ctx: CanvasRenderingContext2D, runs: Run[], x: number, y: number, px: number, family: string, weight = 400): number {
   let cx = x;
   for (const r of runs) {
-    const size = r.sub ? px * 0.68 : px;
+    const size = r.sub ? px * SUBSCRIPT_SCALE : px;
     ctx.font = font(size, family, weight);
     ctx.fillText(r.text, cx, r.sub ? y + px * 0.22 : y);
     cx += ctx.measureText(r.text).width;

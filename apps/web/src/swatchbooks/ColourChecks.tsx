@@ -79,7 +79,7 @@ export function ColourChecks({ check }: { check: SwatchbookCheck }) {
       <h3>Print</h3>
       <p className="pf-muted pf-small" data-testid="check-gamut">
         {f.print === null
-          ? 'Not checked here: CMYK values and gamut come from the press condition\'s ICC profile.'
+          ? 'CMYK values and gamut come from the press condition\'s ICC profile (On press, below).'
           : f.outOfPrintGamut.length === 0
             ? `Every swatch prints in gamut on ${f.print.condition.name}.`
             : `Out of gamut on ${f.print.condition.name}: ${f.outOfPrintGamut.join(', ')}.`}

@@ -9,9 +9,9 @@ const KIND_LABELS: Record<'normal' | CvdKind, string> = {
   tritanopia: 'Tritanopia',
 };
 
-type Colours = Required<Pick<SwatchbookColorsDto, 'positive' | 'negative' | 'background' | 'label'>> & Pick<SwatchbookColorsDto, 'nucleus' | 'axes'>;
+export type Colours = Required<Pick<SwatchbookColorsDto, 'positive' | 'negative' | 'background' | 'label'>> & Pick<SwatchbookColorsDto, 'nucleus' | 'axes'>;
 
-function mapColours(c: Colours, f: (hex: string) => string): Colours {
+export function mapColours(c: Colours, f: (hex: string) => string): Colours {
   return {
     positive: f(c.positive),
     negative: f(c.negative),
@@ -23,10 +23,10 @@ function mapColours(c: Colours, f: (hex: string) => string): Colours {
 }
 
 /** A small sample figure: a p-type pair of lobes (positive above, negative below), nucleus, axis, label. */
-function SampleFigure({ colours, kind }: { colours: Colours; kind: 'normal' | CvdKind }) {
+export function SampleFigure({ colours, kind, caption, testId }: { colours: Colours; kind: 'normal' | CvdKind; caption?: string; testId?: string }) {
   return (
-    <figure className="pf-cvd" data-testid={`cvd-preview-${kind}`}>
-      <svg viewBox="0 0 120 140" width="120" height="140" role="img" aria-label={`Sample figure as seen with ${KIND_LABELS[kind].toLowerCase()}`}>
+    <figure className="pf-cvd" data-testid={testId ?? `cvd-preview-${kind}`}>
+      <svg viewBox="0 0 120 140" width="120" height="140" role="img" aria-label={caption ? `Sample figure: ${caption}` : `Sample figure as seen with ${KIND_LABELS[kind].toLowerCase()}`}>
         <rect x="0" y="0" width="120" height="140" fill={colours.background} data-part="background" />
         {colours.axes && <line x1="60" y1="8" x2="60" y2="122" stroke={colours.axes} strokeWidth="1" data-part="axes" />}
         <ellipse cx="60" cy="40" rx="24" ry="30" fill={colours.positive} data-part="positive" />
@@ -36,7 +36,7 @@ function SampleFigure({ colours, kind }: { colours: Colours; kind: 'normal' | Cv
           2p_z
         </text>
       </svg>
-      <figcaption>{KIND_LABELS[kind]}</figcaption>
+      <figcaption>{caption ?? KIND_LABELS[kind]}</figcaption>
     </figure>
   );
 }

@@ -9,6 +9,7 @@ import { useApi } from '../auth/AuthProvider';
 import { ColourChecks } from './ColourChecks';
 import { ColourField } from './ColourField';
 import { CvdPreviews, PhaseWheelStrip } from './CvdPreviews';
+import { PressCheck } from './PressCheck';
 import { createSwatchbook, updateSwatchbook } from './swatchbookApi';
 
 /** Starting colours of a new swatchbook (our own neutral choice, matching the recipe's default phases). */
@@ -134,6 +135,7 @@ export function SwatchbookEditor({ existing, canEdit }: { existing?: SwatchbookD
             <p className="pf-muted">Complete every colour to see the previews.</p>
           )}
           {check ? <ColourChecks check={check} /> : <p className="pf-muted" data-testid="checks-incomplete">The checks run once every colour is a #rrggbb value.</p>}
+          {check && <PressCheck colours={colours as Parameters<typeof PressCheck>[0]['colours']} />}
         </div>
       </div>
 

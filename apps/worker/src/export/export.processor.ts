@@ -2,17 +2,35 @@ import { Injectable } from '@nestjs/common';
 import { UnrecoverableError } from 'bullmq';
 import { QUEUES, type Recipe } from '@psiform/contracts';
 import { AssetStore, CONTENT_TYPES, ENGINE_VERSION, JobsStore, ObjectStorage, exportKey, sha256Hex, type JobPayload, type NewAsset } from '@psiform/server';
-import { buildBundle, figureMetadata, type BundleFile, type MeshResultLike } from '@psiform/print';
+import { DEFAULT_DELIVERY_PROFILE, type ColourMode, type DeliveryProfile, type PressConditionId } from '@psiform/contracts';
+import { buildBundle, preflightReport, preflightText, type BundleFile, type PreflightSubject } from '@psiform/print';
 import type { JobProcessor, ProcessorJob } from '../queues/job-processor';
 import type { FigureRenderer } from '../render/figure-renderer';
 import { ensureMesh, runTracked, versionOf, type TrackedJob, type TrackedResult } from '../render/tracked-job';
 import { latoFonts } from './fonts';
-import { figureSvg, plotPalette, type SvgParams } from './svg-export';
+import { figureSvg, type SvgParams } from './svg-export';
+import { altOf, figureWords } from './figure-words';
+import { encodePdf, encodeTiff, pdfSubject, pngFacts, rasterSubject, svgSubject, tiffFacts } from './print-files';
 
 /** The PNG a bundle gets when the version has no print render yet (a single column, common practice). */
 export const BUNDLE_DEFAULT_PNG = { widthMm: 89, heightMm: 60, dpi: 300, widthPx: 1051, heightPx: 709 } as const;
 
-type ExportParams = ({ format: 'svg' } & SvgParams) | { format: 'glb' | 'stl' } | { format: 'bundle' };
+interface PrintColour {
+  colour?: ColourMode;
+  pressCondition?: PressConditionId;
+}
+type ExportParams = (({ format: 'svg' } & SvgParams) | ({ format: 'pdf' } & SvgParams & PrintColour) | { format: 'glb' | 'stl' } | { format: 'bundle' }) & {
+  /** The publication's delivery profile when the export was asked for (apps/api fills it in). */
+  profile?: DeliveryProfile;
+};
+
+/** The words a plot companion carries as alt text: its SVG title, and title + description as the long text. */
+export function plotAlt(svg: string): { short: string; long: string } {
+  const un = (x: string) => x.replace(/&lt;/g, '<').replace(/&gt;/g, '>').replace(/&quot;/g, '"').replace(/&apos;/g, "'").replace(/&amp;/g, '&');
+  const title = un(/<title>([\s\S]*?)<\/title>/.exec(svg)?.[1] ?? '');
+  const desc = un(/<desc>([\s\S]*?)<\/desc>/.exec(svg)?.[1] ?? '');
+  return { short: title, long: `${title}. ${desc}`.trim() };
+}
 
 /**
  * Export jobs (QUEUES.export): svg (radial plot or section map, Lato embedded), glb/stl (the version's mesh,
@@ -37,9 +55,11 @@ export class ExportJobProcessor implements JobProcessor<JobPayload, TrackedResul
       const { version, recipe } = versionOf(t.ctx);
       const total = performance.now();
       let assets: NewAsset[];
-      if (p.format === 'svg') assets = await this.svg(t, recipe, version.id, version.recipeHash, p);
+      const profile = p.profile ?? DEFAULT_DELIVERY_PROFILE;
+      if (p.format === 'svg') assets = await this.svg(t, recipe, version.id, version.recipeHash, p, profile);
+      else if (p.format === 'pdf') assets = await this.pdf(t, recipe, version.id, version.recipeHash, p, profile);
       else if (p.format === 'glb' || p.format === 'stl') assets = await this.mesh(t, recipe, version, p.format);
-      else if (p.format === 'bundle') assets = await this.bundle(t, recipe, version);
+      else if (p.format === 'bundle') assets = await this.bundle(t, recipe, version, profile);
       else throw new UnrecoverableError(`export job ${t.id} has an unknown format ${JSON.stringify((p as { format?: unknown }).format)}`);
       return { timings: { total: Math.round(performance.now() - total) }, assets };
     });
@@ -50,14 +70,31 @@ export class ExportJobProcessor implements JobProcessor<JobPayload, TrackedResul
     if (final && typeof job.data?.jobId === 'string') await this.jobs.fail(job.data.jobId, error.message);
   }
 
-  private async svg(t: TrackedJob, recipe: Recipe, versionId: string, recipeHash: string, p: SvgParams): Promise<NewAsset[]> {
+  private async svg(t: TrackedJob, recipe: Recipe, versionId: string, recipeHash: string, p: SvgParams, profile: DeliveryProfile): Promise<NewAsset[]> {
     if (recipe.source?.kind === 'upload') throw new UnrecoverableError('radial plots and section maps need the analytic state; this figure is an uploaded cube');
     await t.stage('encoding');
-    const svg = new TextEncoder().encode(figureSvg(recipe, p, latoFonts()));
+    const text = figureSvg(recipe, p, latoFonts());
+    const svg = new TextEncoder().encode(text);
+    const preflight = preflightReport([svgSubject(`${p.kind}.svg`, text, p.widthMm, p.heightMm, plotAlt(text))], profile, this.now().toISOString());
     await t.stage('storing');
     const stored = await this.assets.storeObject(exportKey(recipeHash, sha256Hex(svg), 'svg'), svg, CONTENT_TYPES.svg);
-    const stats = { svg: p.kind, ...(p.kind === 'section' ? { plane: p.plane, offset: p.offset, levels: p.levels } : {}), widthMm: p.widthMm, heightMm: p.heightMm, fonts: 'Lato (embedded)' };
+    const stats = { svg: p.kind, ...(p.kind === 'section' ? { plane: p.plane, offset: p.offset, levels: p.levels } : {}), widthMm: p.widthMm, heightMm: p.heightMm, fonts: 'Lato (embedded)', preflight };
     return [{ figureVersionId: versionId, publicationId: t.ctx.job.publicationId, kind: 'svg', storageKey: stored.key, bytes: stored.bytes, sha256: stored.sha256, stats }];
+  }
+
+  /** PDF companion: the same drawing as the SVG, vector, Lato embedded and subset, output intent, tagged. */
+  private async pdf(t: TrackedJob, recipe: Recipe, versionId: string, recipeHash: string, p: SvgParams & PrintColour, profile: DeliveryProfile): Promise<NewAsset[]> {
+    if (recipe.source?.kind === 'upload') throw new UnrecoverableError('radial plots and section maps need the analytic state; this figure is an uploaded cube');
+    await t.stage('encoding');
+    const svg = figureSvg(recipe, p, undefined); // pdfkit embeds the fonts itself
+    const alt = plotAlt(svg);
+    const opts = { svg, widthMm: p.widthMm, heightMm: p.heightMm, title: alt.short, alt: alt.short, colour: p.colour ?? profile.colourMode, pressCondition: p.pressCondition ?? profile.pressCondition };
+    const pdf = await encodePdf(opts);
+    const preflight = preflightReport([pdfSubject(`${p.kind}.pdf`, pdf, opts, alt)], profile, this.now().toISOString());
+    await t.stage('storing');
+    const stored = await this.assets.storeObject(exportKey(recipeHash, sha256Hex(pdf), 'pdf'), pdf, CONTENT_TYPES.pdf);
+    const stats = { pdf: p.kind, ...(p.kind === 'section' ? { plane: p.plane, offset: p.offset, levels: p.levels } : {}), widthMm: p.widthMm, heightMm: p.heightMm, colour: opts.colour, pressCondition: opts.colour === 'cmyk' ? opts.pressCondition : null, fonts: 'Lato (embedded, subset)', preflight };
+    return [{ figureVersionId: versionId, publicationId: t.ctx.job.publicationId, kind: 'pdf', storageKey: stored.key, bytes: stored.bytes, sha256: stored.sha256, stats }];
   }
 
   private async mesh(t: TrackedJob, recipe: Recipe, version: NonNullable<TrackedJob['ctx']['version']>, kind: 'glb' | 'stl'): Promise<NewAsset[]> {
@@ -67,13 +104,15 @@ export class ExportJobProcessor implements JobProcessor<JobPayload, TrackedResul
     return [mesh.existing[kind]!];
   }
 
-  private async bundle(t: TrackedJob, recipe: Recipe, version: NonNullable<TrackedJob['ctx']['version']>): Promise<NewAsset[]> {
+  private async bundle(t: TrackedJob, recipe: Recipe, version: NonNullable<TrackedJob['ctx']['version']>, profile: DeliveryProfile): Promise<NewAsset[]> {
     const mesh = await ensureMesh(this.deps(), t, version, recipe);
     const out: NewAsset[] = [...mesh.newAssets];
     const pub = t.ctx.job.publicationId;
     // The latest print render of this version (thumbnails excluded), else a default one rendered now.
     const pngRow = [...(await this.assets.findForVersion(version.id))].reverse().find((a) => a.kind === 'png' && !(a.stats as { thumbnail?: boolean } | null)?.thumbnail);
     let png: Uint8Array;
+    const pngStats = pngRow?.stats as { widthMm?: number; heightMm?: number; dpi?: number } | null | undefined;
+    let pngSize = { widthMm: pngStats?.widthMm ?? BUNDLE_DEFAULT_PNG.widthMm, heightMm: pngStats?.heightMm ?? BUNDLE_DEFAULT_PNG.heightMm, dpi: pngStats?.dpi ?? BUNDLE_DEFAULT_PNG.dpi };
     if (pngRow) png = await this.storage.get(pngRow.storageKey);
     else {
       if (!this.renderer) throw new Error('this worker cannot render (no browser configured) and the figure has no PNG yet');
@@ -81,6 +120,7 @@ export class ExportJobProcessor implements JobProcessor<JobPayload, TrackedResul
       const d = BUNDLE_DEFAULT_PNG;
       const r = await this.renderer.render({ recipe, glb: mesh.glb, widthPx: d.widthPx, heightPx: d.heightPx, dpi: d.dpi });
       png = r.png;
+      pngSize = { widthMm: d.widthMm, heightMm: d.heightMm, dpi: d.dpi };
       const stored = await this.assets.storeObject(exportKey(version.recipeHash, sha256Hex(png), 'png'), png, CONTENT_TYPES.png);
       out.push({
         figureVersionId: version.id,
@@ -98,25 +138,34 @@ export class ExportJobProcessor implements JobProcessor<JobPayload, TrackedResul
       { name: 'figure.stl', bytes: await mesh.stl() },
       { name: 'figure.png', bytes: png },
     ];
+    const meta = figureWords(recipe, mesh.stats, version.engineVersion || this.engineVersion, this.now().toISOString());
+    const alt = altOf(meta);
+    // Print files per the delivery profile: the figure as the profile's first raster format (TIFF in its colour),
+    // the radial plot as its first vector format; each is preflighted and the report travels in the bundle.
+    const subjects: PreflightSubject[] = [rasterSubject('figure.png', 'png', pngFacts(png), pngSize, recipe, alt)];
+    if (profile.rasterFormats[0] === 'tiff') {
+      const bg = recipe.stage.background;
+      const tiff = await encodeTiff(png, { dpi: pngSize.dpi, colour: profile.colourMode, pressCondition: profile.pressCondition, alpha: false, background: bg.transparent ? '#ffffff' : bg.color });
+      files.push({ name: 'figure.tif', bytes: tiff });
+      subjects.push(rasterSubject('figure.tif', 'tiff', await tiffFacts(tiff), pngSize, recipe, alt));
+    }
     if (recipe.source?.kind !== 'upload') {
       const svgParams: SvgParams = { kind: 'radial', plane: 'xz', offset: 0, levels: 4, widthMm: recipe.canvas.widthMm, heightMm: recipe.canvas.heightMm };
-      files.push({ name: 'radial.svg', bytes: new TextEncoder().encode(figureSvg(recipe, svgParams, latoFonts())) });
+      const svgText = figureSvg(recipe, svgParams, latoFonts());
+      files.push({ name: 'radial.svg', bytes: new TextEncoder().encode(svgText) });
+      subjects.push(svgSubject('radial.svg', svgText, svgParams.widthMm, svgParams.heightMm, plotAlt(svgText)));
+      if (profile.vectorFormats.includes('pdf')) {
+        const plain = figureSvg(recipe, svgParams, undefined);
+        const palt = plotAlt(plain);
+        const opts = { svg: plain, widthMm: svgParams.widthMm, heightMm: svgParams.heightMm, title: palt.short, alt: palt.short, colour: profile.colourMode, pressCondition: profile.pressCondition };
+        const pdf = await encodePdf(opts);
+        files.push({ name: 'radial.pdf', bytes: pdf });
+        subjects.push(pdfSubject('radial.pdf', pdf, opts, palt));
+      }
     }
-    const s = mesh.stats as { isovalue: number; enclosed: number; grid: { n: number; extent: number }; surfaces?: Array<{ phase: '+' | '-' | 'complex' } & Record<string, unknown>> };
-    const result: MeshResultLike = {
-      isovalue: s.isovalue,
-      enclosed: s.enclosed,
-      grid: { n: s.grid.n, extent: s.grid.extent },
-      surfaces: (s.surfaces ?? []).map(({ phase, ...stats }) => ({ phase, stats: stats as never })),
-    };
-    const palette = plotPalette(recipe);
-    const meta = figureMetadata({
-      recipe: recipe as never,
-      result,
-      engineVersion: version.engineVersion || this.engineVersion,
-      palette: { positive: palette.positive, negative: palette.negative, background: palette.background, swatchbookId: recipe.palette.swatchbookId },
-      generatedAt: this.now().toISOString(),
-    });
+    const preflight = preflightReport(subjects, profile, meta.generatedAt);
+    files.push({ name: 'preflight.json', bytes: new TextEncoder().encode(JSON.stringify(preflight, null, 2) + '\n') });
+    files.push({ name: 'PREFLIGHT.txt', bytes: new TextEncoder().encode(preflightText(preflight)) });
     const zip = buildBundle(files, meta);
     await t.stage('storing');
     const stored = await this.assets.storeObject(exportKey(version.recipeHash, sha256Hex(zip), 'zip'), zip, CONTENT_TYPES.bundle);
@@ -127,7 +176,7 @@ export class ExportJobProcessor implements JobProcessor<JobPayload, TrackedResul
       storageKey: stored.key,
       bytes: stored.bytes,
       sha256: stored.sha256,
-      stats: { files: [...files.map((f) => f.name), 'recipe.json', 'metadata.json', 'README.txt'], generatedAt: meta.generatedAt },
+      stats: { files: [...files.map((f) => f.name), 'recipe.json', 'metadata.json', 'README.txt'], generatedAt: meta.generatedAt, preflight },
     });
     // The bundle first: it is what this job was asked for.
     return [out[out.length - 1], ...out.slice(0, -1)];

@@ -1,6 +1,9 @@
 import { Injectable, Logger } from '@nestjs/common';
 import { UnrecoverableError } from 'bullmq';
-import { parseRecipe, QUEUES, type Recipe } from '@psiform/contracts';
+import { DEFAULT_DELIVERY_PROFILE, parseRecipe, QUEUES, type ColourMode, type DeliveryProfile, type PressConditionId, type Recipe } from '@psiform/contracts';
+import { preflightReport } from '@psiform/print';
+import { encodeTiff, rasterSubject, softProofPng, tiffFacts } from '../export/print-files';
+import { altOf, figureWords } from '../export/figure-words';
 import { AssetStore, CONTENT_TYPES, ENGINE_VERSION, JobsStore, ObjectStorage, exportKey, sha256Hex, type JobPayload, type NewAsset } from '@psiform/server';
 import type { JobProcessor, ProcessorJob } from '../queues/job-processor';
 import type { FigureRenderer } from './figure-renderer';
@@ -10,7 +13,12 @@ import { ensureMesh, runTracked, versionOf, type TrackedJob, type TrackedResult 
 
 /** jobs.params of a render job (apps/api exports/export-request.ts, or the thumbnail scheduler). */
 export interface RenderParams {
-  format: 'png';
+  /** tiff: rendered as the PNG is, then written as TIFF (RGB + sRGB, or CMYK through the press profile). */
+  format: 'png' | 'tiff';
+  colour?: ColourMode;
+  pressCondition?: PressConditionId;
+  alpha?: boolean;
+  profile?: DeliveryProfile;
   widthPx: number;
   heightPx: number;
   dpi: number;
@@ -51,10 +59,11 @@ export class RenderJobProcessor implements JobProcessor<JobPayload, TrackedResul
   async process(job: ProcessorJob<JobPayload>): Promise<TrackedResult> {
     const res = await runTracked(this.jobs, job, async (t) => {
       const p = t.params as unknown as RenderParams;
-      if (p.format !== 'png' || !Number.isInteger(p.widthPx) || !Number.isInteger(p.heightPx) || !(p.dpi > 0)) {
+      if ((p.format !== 'png' && p.format !== 'tiff') || !Number.isInteger(p.widthPx) || !Number.isInteger(p.heightPx) || !(p.dpi > 0)) {
         throw new UnrecoverableError(`render job ${t.id} has no valid png parameters`);
       }
       if (p.figureSetId) return this.renderSet(t, p);
+      if (p.format === 'tiff') return this.renderTiff(t, p);
       const { version, recipe } = versionOf(t.ctx);
       const total = performance.now();
       const mesh = await ensureMesh({ assets: this.assets, storage: this.storage, engineVersion: this.engineVersion }, t, version, recipe);
@@ -99,6 +108,57 @@ export class RenderJobProcessor implements JobProcessor<JobPayload, TrackedResul
       if (!set) this.log.log(`thumbnail ${pngId} kept but not shown: figure ${ctx.figure.id} has a newer version`);
     }
     return { jobId: res.jobId, assetIds: res.assetIds };
+  }
+
+  /**
+   * A TIFF: the same render (same pixels as the PNG path), written by sharp, read back and preflighted against the
+   * delivery profile copied into the job; a CMYK TIFF also gets a soft-proof PNG (its colours back in sRGB).
+   */
+  private async renderTiff(t: TrackedJob, p: RenderParams): Promise<{ timings: Record<string, number>; assets: NewAsset[] }> {
+    const { version, recipe } = versionOf(t.ctx);
+    const total = performance.now();
+    const profile = p.profile ?? DEFAULT_DELIVERY_PROFILE;
+    const colour = p.colour ?? profile.colourMode;
+    const pressCondition = p.pressCondition ?? profile.pressCondition;
+    const mesh = await ensureMesh({ assets: this.assets, storage: this.storage, engineVersion: this.engineVersion }, t, version, recipe);
+    await t.stage('rendering');
+    const alpha = colour === 'rgb' && p.alpha === true;
+    const out = await this.renderer.render({ recipe, glb: mesh.glb, widthPx: p.widthPx, heightPx: p.heightPx, dpi: p.dpi, transparent: alpha ? (p.transparent ?? undefined) : false });
+    await t.stage('encoding');
+    const te = performance.now();
+    const bg = recipe.stage.background;
+    const tiff = await encodeTiff(out.png, { dpi: p.dpi, colour, pressCondition, alpha, background: bg.transparent ? '#ffffff' : bg.color });
+    const read = await tiffFacts(tiff);
+    const widthMm = p.widthMm ?? round3((out.widthPx / p.dpi) * 25.4);
+    const heightMm = p.heightMm ?? round3((out.heightPx / p.dpi) * 25.4);
+    const meta = figureWords(recipe, mesh.stats, version.engineVersion || this.engineVersion, new Date().toISOString());
+    const preflight = preflightReport([rasterSubject('figure.tif', 'tiff', read, { widthMm, heightMm, dpi: p.dpi }, recipe, altOf(meta))], profile, meta.generatedAt);
+    const proof = colour === 'cmyk' ? await softProofPng(tiff) : null;
+    const encodeMs = Math.round(performance.now() - te);
+    await t.stage('storing');
+    const pub = t.ctx.job.publicationId;
+    const stored = await this.assets.storeObject(exportKey(version.recipeHash, sha256Hex(tiff), 'tif'), tiff, CONTENT_TYPES.tiff);
+    const stats = {
+      widthPx: read.widthPx,
+      heightPx: read.heightPx,
+      dpi: p.dpi,
+      widthMm,
+      heightMm,
+      colour,
+      pressCondition: colour === 'cmyk' ? pressCondition : null,
+      icc: read.icc?.description ?? null,
+      compression: 'lzw',
+      alpha: read.alpha,
+      engineVersion: this.engineVersion,
+      recipeHash: version.recipeHash,
+      preflight,
+    };
+    const assets: NewAsset[] = [...mesh.newAssets, { figureVersionId: version.id, publicationId: pub, kind: 'tiff', storageKey: stored.key, bytes: stored.bytes, sha256: stored.sha256, stats }];
+    if (proof) {
+      const sp = await this.assets.storeObject(exportKey(version.recipeHash, sha256Hex(proof), 'png'), proof, CONTENT_TYPES.softproof);
+      assets.push({ figureVersionId: version.id, publicationId: pub, kind: 'softproof', storageKey: sp.key, bytes: sp.bytes, sha256: sp.sha256, stats: { widthPx: read.widthPx, heightPx: read.heightPx, pressCondition, of: 'tiff', note: `the CMYK TIFF's colours on ${pressCondition} shown in sRGB` } });
+    }
+    return { timings: { mesh: mesh.meshMs, ...prefixed('render_', out.ms), tiff: encodeMs, total: Math.round(performance.now() - total) }, assets };
   }
 
   /**

@@ -9,7 +9,7 @@ export function meshKey(recipeHash: string, engineVersion: string, grid: string,
  * Renders and exports (png, svg, bundle): keyed by the bytes themselves under the version's recipe hash, so an
  * identical re-render reuses object and row, and a different one (a newer render page) never overwrites.
  */
-export function exportKey(recipeHash: string, sha256: string, ext: 'png' | 'svg' | 'zip'): string {
+export function exportKey(recipeHash: string, sha256: string, ext: 'png' | 'svg' | 'zip' | 'tif' | 'pdf'): string {
   return `exports/${recipeHash}/${sha256}.${ext}`;
 }
 
@@ -32,4 +32,7 @@ export const CONTENT_TYPES: Record<AssetKind, string> = {
   png: 'image/png',
   svg: 'image/svg+xml',
   bundle: 'application/zip',
+  tiff: 'image/tiff',
+  pdf: 'application/pdf',
+  softproof: 'image/png',
 };

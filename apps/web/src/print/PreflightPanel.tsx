@@ -1,0 +1,107 @@
+import { useState } from 'react';
+import { Button, Callout, FormGroup, HTMLTable, Tag, TextArea } from '@blueprintjs/core';
+import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import { DELIVERY_LIMITS, PREFLIGHT_RULES, type FigureDto } from '@psiform/contracts';
+import { describeError } from '../api/client';
+import { useApi, useAuth } from '../auth/AuthProvider';
+import { approveWithOverride, getFigurePreflight } from './printApi';
+
+const RULE_NAME = Object.fromEntries(PREFLIGHT_RULES.map((r) => [r.id, r.name]));
+
+/**
+ * The current version's preflight reports (every rule, pass or fail, per delivered file) and, when they fail, the
+ * editor's "approve with a written reason" (the server audits it).
+ */
+export function PreflightPanel({ figure }: { figure: Pick<FigureDto, 'id' | 'status'> }) {
+  const api = useApi();
+  const { user } = useAuth();
+  const qc = useQueryClient();
+  const q = useQuery({ queryKey: ['figure-preflight', figure.id], queryFn: () => getFigurePreflight(api, figure.id) });
+  const [reason, setReason] = useState('');
+  const approve = useMutation({
+    mutationFn: () => approveWithOverride(api, figure.id, reason.trim()),
+    onSuccess: () => {
+      for (const key of [['figure', figure.id], ['figure-audit', figure.id], ['review-desk'], ['figures'], ['figure-preflight', figure.id]]) void qc.invalidateQueries({ queryKey: key });
+    },
+  });
+  if (q.isPending) return <p className="pf-muted" data-testid="preflight-loading">Checking preflight…</p>;
+  if (q.isError) return <Callout intent="danger" data-testid="preflight-error">{describeError(q.error)}</Callout>;
+  const pf = q.data;
+  const tooShort = reason.trim().length < DELIVERY_LIMITS.reasonMin;
+  return (
+    <section className="pf-section" data-testid="preflight-panel" data-blocks={pf.blocksApproval ? 'true' : 'false'}>
+      <h2>Preflight of version {pf.versionNumber}</h2>
+      {pf.reports.length === 0 ? (
+        <p className="pf-muted" data-testid="preflight-none">
+          No export of this version has been preflighted yet. Every TIFF, PDF, SVG and bundle export is checked against the publication&apos;s delivery profile.
+        </p>
+      ) : (
+        pf.reports.map((r) => (
+          <div key={r.assetId} data-testid="preflight-report" data-kind={r.kind}>
+            {r.report.files.map((f) => (
+              <div key={f.file}>
+                <h3>
+                  {f.file} <Tag intent={f.passed ? 'success' : 'danger'} data-testid="preflight-file-verdict">{f.passed ? 'passes' : 'fails'}</Tag>
+                </h3>
+                <HTMLTable compact className="pf-table" data-testid="preflight-table">
+                  <thead>
+                    <tr>
+                      <th>Check</th>
+                      <th>Result</th>
+                      <th>Asked</th>
+                      <th>The file has</th>
+                    </tr>
+                  </thead>
+                  <tbody>
+                    {f.results.map((x) => (
+                      <tr key={x.rule} data-testid="preflight-row" data-rule={x.rule} data-status={x.status}>
+                        <td>{RULE_NAME[x.rule] ?? x.rule}</td>
+                        <td>
+                          <Tag minimal intent={x.status === 'pass' ? 'success' : 'danger'}>{x.status}</Tag>
+                        </td>
+                        <td>{x.expected}</td>
+                        <td>{x.actual}</td>
+                      </tr>
+                    ))}
+                  </tbody>
+                </HTMLTable>
+              </div>
+            ))}
+          </div>
+        ))
+      )}
+      {pf.blocksApproval && (
+        <Callout intent="warning" title="Preflight failures block approval" data-testid="preflight-blocks">
+          <ul>
+            {pf.failures.map((f) => (
+              <li key={f}>{f}</li>
+            ))}
+          </ul>
+          {user?.role === 'editor' && figure.status === 'in_review' && (
+            <form
+              data-testid="preflight-override-form"
+              onSubmit={(e) => {
+                e.preventDefault();
+                if (!tooShort) approve.mutate();
+              }}
+            >
+              <FormGroup label="Approve anyway: say why these failures are acceptable (recorded in the audit trail)" labelFor="pf-override-reason">
+                <TextArea id="pf-override-reason" data-testid="preflight-override-reason" fill value={reason} onChange={(e) => setReason(e.target.value)} />
+              </FormGroup>
+              {reason.length > 0 && tooShort && (
+                <div className="pf-field-error" role="alert" data-testid="preflight-override-short">
+                  At least {DELIVERY_LIMITS.reasonMin} characters.
+                </div>
+              )}
+              <Button type="submit" intent="warning" disabled={tooShort} loading={approve.isPending} data-testid="preflight-override-submit">
+                Approve with this reason
+              </Button>
+              {approve.isError && <Callout intent="danger" data-testid="preflight-override-error">{describeError(approve.error)}</Callout>}
+              {approve.isSuccess && <span data-testid="preflight-override-done">Approved; the reason is in the audit trail.</span>}
+            </form>
+          )}
+        </Callout>
+      )}
+    </section>
+  );
+}

@@ -1,0 +1,18 @@
+import { Column, Entity, PrimaryColumn } from 'typeorm';
+import type { DeliveryProfile } from '@psiform/contracts';
+
+/** One delivery profile per publication (migration PrintProduction). */
+@Entity({ name: 'delivery_profiles' })
+export class DeliveryProfileEntity {
+  @PrimaryColumn({ name: 'publication_id', type: 'uuid' })
+  publicationId!: string;
+
+  @Column({ type: 'jsonb' })
+  profile!: DeliveryProfile;
+
+  @Column({ name: 'updated_by', type: 'uuid', nullable: true })
+  updatedBy!: string | null;
+
+  @Column({ name: 'updated_at', type: 'timestamptz', default: () => 'now()' })
+  updatedAt!: Date;
+}
