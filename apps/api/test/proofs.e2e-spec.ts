@@ -106,7 +106,7 @@ describe('proofs: compare versions, render a version, desk filters (e2e)', () =>
     const url = `${base}/figures/${figureId}/proof`;
     expect(mail.text).toContain(`Open the proof: ${url}`);
     expect(mail.html).toContain(`<a href="${url}"`);
-  });
+  }, 60000);
 
   it('the review desk filters by publication, state and age', async () => {
     const desk = (q: string, token = tok.editor) => get(`/api/review-desk${q}`, token);

@@ -26,7 +26,12 @@ export async function startWorkerProcess(env: Record<string, string> = {}): Prom
   child.stderr!.on('data', (d) => (out += d));
   const exited = new Promise<void>((resolve) => child.once('exit', () => resolve()));
   await new Promise<void>((resolve, reject) => {
-    const t = setTimeout(() => reject(new Error(`worker not ready after 20 s:\n${out}`)), 20000);
+    // 60 s: start-up takes seconds alone but much longer on a loaded shared machine. A worker that misses it is
+    // killed, or it would stay on the queues and take later specs' jobs (mail notices sent to the wrong fake).
+    const t = setTimeout(() => {
+      child.kill('SIGKILL');
+      reject(new Error(`worker not ready after 60 s (killed):\n${out}`));
+    }, 60000);
     const check = () => {
       if (out.includes(`worker ${child.pid} ready`)) {
         clearTimeout(t);

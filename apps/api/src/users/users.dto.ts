@@ -116,9 +116,10 @@ export class ListUsersQuery {
 
 /** Public: the link's token (43 base64url characters from 32 random bytes). */
 export class LinkTokenBody {
-  @IsString({ message: 'token must be a string' })
-  @IsNotEmpty({ message: 'token must not be empty' })
+  // With stopAtFirstError the bottom decorator runs first.
   @MaxLength(200, { message: 'token: this link is not valid' })
+  @IsNotEmpty({ message: 'token must not be empty' })
+  @IsString({ message: 'token must be a string' })
   token: string;
 }
 
