@@ -13,3 +13,4 @@ export * from './bundle';
 export * from './preflight';
 export * from './recipe-changes';
 export * from './figure-text';
+export * from './svg-fonts';

@@ -40,6 +40,11 @@ export interface PreflightSubject {
   lines: { what: string; weightPt: number }[];
   /** Fonts the file depends on; 'rasterised' when text is pixels (nothing to embed). */
   fonts: 'rasterised' | { name: string; embedded: boolean; subset: boolean }[];
+  /**
+   * Vector files: characters the text draws that no embedded font has a glyph for. A reader draws them as empty
+   * boxes (.notdef), so an embedded font that lacks them is not "the text embedded". Omitted = not checked.
+   */
+  unglyphed?: string[];
   altText: { short?: string; long?: string };
 }
 
@@ -114,7 +119,9 @@ export function preflightFile(s: PreflightSubject, profile: DeliveryProfile): Pr
   if (s.fonts === 'rasterised') put('fonts_embedded', true, 'every font embedded', 'text is rasterised into the pixels: no fonts needed');
   else {
     const missing = s.fonts.filter((f) => !f.embedded);
-    put('fonts_embedded', missing.length === 0, 'every font embedded', s.fonts.length === 0 ? 'no fonts used' : missing.length ? `not embedded: ${missing.map((f) => f.name).join(', ')}` : s.fonts.map((f) => `${f.name} (embedded${f.subset ? ', subset' : ''})`).join(', '));
+    const boxes = s.unglyphed ?? [];
+    const has = s.fonts.length === 0 ? 'no fonts used' : missing.length ? `not embedded: ${missing.map((f) => f.name).join(', ')}` : s.fonts.map((f) => `${f.name} (embedded${f.subset ? ', subset' : ''})`).join(', ');
+    put('fonts_embedded', missing.length === 0 && boxes.length === 0, 'every font embedded, with a glyph for every character', boxes.length ? `${has}; no glyph for ${boxes.map((c) => `"${c}" (U+${c.codePointAt(0)!.toString(16).toUpperCase().padStart(4, '0')})`).join(', ')}` : has);
   }
 
   const a = profile.altText;

@@ -83,6 +83,14 @@ describe('preflightFile', () => {
     expect(status(preflightFile({ ...pdf, pageMm: { width: 89.2, height: 60 } }, profile), 'size')).toBe('fail');
   });
 
+  it('fonts: an embedded font without a glyph for ψ fails and names the character and its code point', () => {
+    const pdf: PreflightSubject = { ...tiff, file: 'section.pdf', format: 'pdf', raster: undefined, pageMm: { width: 89, height: 60 }, fonts: [{ name: 'Lato', embedded: true, subset: true }] };
+    const r = preflightFile({ ...pdf, unglyphed: ['ψ'] }, profile).results.find((x) => x.rule === 'fonts_embedded')!;
+    expect(r.status).toBe('fail');
+    expect(r.actual).toBe('Lato (embedded, subset); no glyph for "ψ" (U+03C8)');
+    expect(status(preflightFile({ ...pdf, unglyphed: [] }, profile), 'fonts_embedded')).toBe('pass');
+  });
+
   it('alt text: 126 characters fail a 125 limit; 125 pass; a missing long description fails', () => {
     expect(status(preflightFile({ ...tiff, altText: { short: 'x'.repeat(126), long: 'y' } }, profile), 'alt_text')).toBe('fail');
     expect(status(preflightFile({ ...tiff, altText: { short: 'x'.repeat(125), long: 'y' } }, profile), 'alt_text')).toBe('pass');

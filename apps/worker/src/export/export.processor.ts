@@ -7,8 +7,7 @@ import { buildBundle, preflightReport, preflightText, type BundleFile, type Pref
 import type { JobProcessor, ProcessorJob } from '../queues/job-processor';
 import type { FigureRenderer } from '../render/figure-renderer';
 import { ensureMesh, runTracked, versionOf, type TrackedJob, type TrackedResult } from '../render/tracked-job';
-import { latoFonts } from './fonts';
-import { figureSvg, type SvgParams } from './svg-export';
+import { companionSvg, figureSvg, type SvgParams } from './svg-export';
 import { altOf, figureWords } from './figure-words';
 import { encodePdf, encodeTiff, pdfSubject, pngFacts, rasterSubject, svgSubject, tiffFacts } from './print-files';
 
@@ -73,12 +72,13 @@ export class ExportJobProcessor implements JobProcessor<JobPayload, TrackedResul
   private async svg(t: TrackedJob, recipe: Recipe, versionId: string, recipeHash: string, p: SvgParams, profile: DeliveryProfile): Promise<NewAsset[]> {
     if (recipe.source?.kind === 'upload') throw new UnrecoverableError('radial plots and section maps need the analytic state; this figure is an uploaded cube');
     await t.stage('encoding');
-    const text = figureSvg(recipe, p, latoFonts());
+    const text = companionSvg(recipe, p);
     const svg = new TextEncoder().encode(text);
-    const preflight = preflightReport([svgSubject(`${p.kind}.svg`, text, p.widthMm, p.heightMm, plotAlt(text))], profile, this.now().toISOString());
+    const subject = svgSubject(`${p.kind}.svg`, text, p.widthMm, p.heightMm, plotAlt(text));
+    const preflight = preflightReport([subject], profile, this.now().toISOString());
     await t.stage('storing');
     const stored = await this.assets.storeObject(exportKey(recipeHash, sha256Hex(svg), 'svg'), svg, CONTENT_TYPES.svg);
-    const stats = { svg: p.kind, ...(p.kind === 'section' ? { plane: p.plane, offset: p.offset, levels: p.levels } : {}), widthMm: p.widthMm, heightMm: p.heightMm, fonts: 'Lato (embedded)', preflight };
+    const stats = { svg: p.kind, ...(p.kind === 'section' ? { plane: p.plane, offset: p.offset, levels: p.levels } : {}), widthMm: p.widthMm, heightMm: p.heightMm, fonts: subject.fonts, preflight };
     return [{ figureVersionId: versionId, publicationId: t.ctx.job.publicationId, kind: 'svg', storageKey: stored.key, bytes: stored.bytes, sha256: stored.sha256, stats }];
   }
 
@@ -90,10 +90,11 @@ export class ExportJobProcessor implements JobProcessor<JobPayload, TrackedResul
     const alt = plotAlt(svg);
     const opts = { svg, widthMm: p.widthMm, heightMm: p.heightMm, title: alt.short, alt: alt.short, colour: p.colour ?? profile.colourMode, pressCondition: p.pressCondition ?? profile.pressCondition };
     const pdf = await encodePdf(opts);
-    const preflight = preflightReport([pdfSubject(`${p.kind}.pdf`, pdf, opts, alt)], profile, this.now().toISOString());
+    const subject = pdfSubject(`${p.kind}.pdf`, pdf, opts, alt);
+    const preflight = preflightReport([subject], profile, this.now().toISOString());
     await t.stage('storing');
     const stored = await this.assets.storeObject(exportKey(recipeHash, sha256Hex(pdf), 'pdf'), pdf, CONTENT_TYPES.pdf);
-    const stats = { pdf: p.kind, ...(p.kind === 'section' ? { plane: p.plane, offset: p.offset, levels: p.levels } : {}), widthMm: p.widthMm, heightMm: p.heightMm, colour: opts.colour, pressCondition: opts.colour === 'cmyk' ? opts.pressCondition : null, fonts: 'Lato (embedded, subset)', preflight };
+    const stats = { pdf: p.kind, ...(p.kind === 'section' ? { plane: p.plane, offset: p.offset, levels: p.levels } : {}), widthMm: p.widthMm, heightMm: p.heightMm, colour: opts.colour, pressCondition: opts.colour === 'cmyk' ? opts.pressCondition : null, fonts: subject.fonts, preflight };
     return [{ figureVersionId: versionId, publicationId: t.ctx.job.publicationId, kind: 'pdf', storageKey: stored.key, bytes: stored.bytes, sha256: stored.sha256, stats }];
   }
 
@@ -151,7 +152,7 @@ export class ExportJobProcessor implements JobProcessor<JobPayload, TrackedResul
     }
     if (recipe.source?.kind !== 'upload') {
       const svgParams: SvgParams = { kind: 'radial', plane: 'xz', offset: 0, levels: 4, widthMm: recipe.canvas.widthMm, heightMm: recipe.canvas.heightMm };
-      const svgText = figureSvg(recipe, svgParams, latoFonts());
+      const svgText = companionSvg(recipe, svgParams);
       files.push({ name: 'radial.svg', bytes: new TextEncoder().encode(svgText) });
       subjects.push(svgSubject('radial.svg', svgText, svgParams.widthMm, svgParams.heightMm, plotAlt(svgText)));
       if (profile.vectorFormats.includes('pdf')) {

@@ -72,7 +72,7 @@ describe('encodePdf', () => {
     const fonts = tool('pdffonts', [file]).out.trim().split('\n').slice(2);
     expect(fonts.length).toBeGreaterThan(0);
     for (const line of fonts) {
-      expect(line).toMatch(/^[A-Z]{6}\+Lato-/); // subset prefix
+      expect(line).toMatch(/^[A-Z]{6}\+(Lato-|DejaVuSans)/); // subset prefix
       expect(line).toMatch(/\syes\s+yes\s+yes\s/); // emb, sub, uni
     }
     const box = tool('pdfinfo', ['-box', file]).out;
@@ -88,6 +88,30 @@ describe('encodePdf', () => {
     expect(f.outputIntent).toBe('FOGRA39 (ISO 12647-2 coated)');
     const report = preflightFile(pdfSubject('section.pdf', pdf, opts, { short: opts.alt, long: opts.alt }), DEFAULT_DELIVERY_PROFILE);
     for (const id of ['size', 'fonts_embedded', 'colour_mode', 'icc_profile']) expect(report.results.find((r) => r.rule === id)?.status).toBe('pass');
+  });
+
+  it('ψ, which Lato lacks, is set in embedded DejaVu Sans: pdffonts lists it, pdftotext reads ψ back, preflight passes', async () => {
+    expect(svg).toContain('ψ &gt; 0'); // the section map's key
+    const pdf = await encodePdf(opts);
+    const file = tmp('psi.pdf', pdf);
+    const fonts = tool('pdffonts', [file]).out;
+    expect(fonts).toMatch(/^[A-Z]{6}\+Lato-Regular\s.*\syes\s+yes\s+yes\s/m);
+    expect(fonts).toMatch(/^[A-Z]{6}\+DejaVuSans\s.*\syes\s+yes\s+yes\s/m);
+    const text = tool('pdftotext', [file, '-']).out;
+    expect(text).toMatch(/ψ ?> ?0/); // pdftotext drops the space at the font change
+    expect(text).toMatch(/ψ ?< ?0/);
+    const subject = pdfSubject('section.pdf', pdf, opts, { short: opts.alt, long: opts.alt });
+    expect(subject.unglyphed).toEqual([]);
+    expect(subject.fonts).toEqual(expect.arrayContaining([{ name: 'DejaVuSans', embedded: true, subset: true }]));
+  });
+
+  it('a label with a character neither face has fails preflight, naming it', async () => {
+    const odd = svg.replace('ψ &gt; 0', '\u{1F700} &gt; 0'); // U+1F700 ALCHEMICAL SYMBOL FOR QUINTESSENCE: in neither font
+    const o = { ...opts, svg: odd };
+    const report = preflightFile(pdfSubject('odd.pdf', await encodePdf(o), o, { short: o.alt, long: o.alt }), DEFAULT_DELIVERY_PROFILE);
+    const r = report.results.find((x) => x.rule === 'fonts_embedded')!;
+    expect(r.status).toBe('fail');
+    expect(r.actual).toContain('U+1F700');
   });
 
   it('a 148 × 210 mm page is 419.53 × 595.28 pt in pdfinfo', async () => {

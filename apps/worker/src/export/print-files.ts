@@ -2,13 +2,13 @@
 // (+ svg-to-pdfkit drawing the same SVG the SVG export writes, so a plot has one drawing). Each writer reads its
 // file back and returns the facts preflight checks, so a report states what the file has, not what we asked for.
 import { readFileSync } from 'node:fs';
-import { dirname, join } from 'node:path';
 import sharp from 'sharp';
 import PDFDocument from 'pdfkit';
 import SVGtoPDF from 'svg-to-pdfkit';
 import { iccPressTransform, readIccProfile, hexToLabD50, type PressTransform } from '@psiform/colour';
 import { pressCondition, type ColourMode, type PressConditionId, type Recipe } from '@psiform/contracts';
-import { figureTextFacts, mmToPt, readPngInfo, svgPrintFacts, type PreflightSubject } from '@psiform/print';
+import { figureTextFacts, mmToPt, readPngInfo, svgDrawnText, svgPrintFacts, uncoveredCharacters, wrapUncoveredRuns, type PreflightSubject } from '@psiform/print';
+import { FALLBACK_FAMILY, facesCover, latoCovers, pdfFaces } from './fonts';
 import { assetPath } from '@psiform/server';
 
 const iccCache = new Map<string, Uint8Array>();
@@ -95,16 +95,6 @@ export async function softProofPng(tiff: Uint8Array): Promise<Uint8Array> {
   return new Uint8Array(await sharp(tiff).toColourspace('srgb').png().toBuffer());
 }
 
-let latoWoff: { regular: Buffer; bold: Buffer } | undefined;
-/** Lato as WOFF (zlib): fontkit subsets it cleanly; its WOFF2 reader broke on composite glyphs (Å) here. */
-function lato(): { regular: Buffer; bold: Buffer } {
-  if (!latoWoff) {
-    const dir = join(dirname(require.resolve('@fontsource/lato/package.json')), 'files');
-    latoWoff = { regular: readFileSync(join(dir, 'lato-latin-400-normal.woff')), bold: readFileSync(join(dir, 'lato-latin-700-normal.woff')) };
-  }
-  return latoWoff;
-}
-
 let srgbIcc: Buffer | undefined;
 /** The sRGB profile libvips ships (what sharp embeds in RGB files), for RGB PDFs' output intent. */
 async function srgbProfile(): Promise<Buffer> {
@@ -128,7 +118,7 @@ export interface PdfOptions {
 
 /**
  * A PDF companion: the SVG drawn as vector paths and text by svg-to-pdfkit into a page of exactly widthMm ×
- * heightMm, Lato embedded and subset, tagged (Document > Figure with /Alt), TrimBox = MediaBox, and an output intent
+ * heightMm, Lato (and DejaVu Sans for what Lato lacks) embedded and subset, tagged (Document > Figure with /Alt), TrimBox = MediaBox, and an output intent
  * carrying the press condition's profile (CMYK: colours separated through it by our ICC evaluator) or sRGB.
  * pdfkit has no output-intent API, so the dictionary is added by hand (ISO 15930 /GTS_PDFX, PDF 1.7 §14.11.5).
  */
@@ -142,9 +132,15 @@ export async function encodePdf(o: PdfOptions): Promise<Uint8Array> {
     doc.on('end', () => resolve(Buffer.concat(chunks)));
     doc.on('error', reject);
   });
-  const f = lato();
-  doc.registerFont('Lato', f.regular);
-  doc.registerFont('Lato-Bold', f.bold);
+  const f = pdfFaces();
+  doc.registerFont('Lato', f.lato.regular);
+  doc.registerFont('Lato-Bold', f.lato.bold);
+  // pdfkit embeds a registered face only when a run is set in it, so files without Greek carry Lato alone.
+  doc.registerFont('Fallback', f.fallback.regular);
+  doc.registerFont('Fallback-Bold', f.fallback.bold);
+  // svg-to-pdfkit sets each element in one font (no per-character fallback): runs Lato cannot draw get their own
+  // tspan in the fallback face first (libs/print svg-fonts).
+  const svg = wrapUncoveredRuns(o.svg, latoCovers, FALLBACK_FAMILY);
   const cmyk = o.colour === 'cmyk' ? pressTransformFor(o.pressCondition) : null;
   const toCmyk = new Map<string, number[]>();
   const colorCallback = (c: [number[], number] | null) => {
@@ -162,7 +158,8 @@ export async function encodePdf(o: PdfOptions): Promise<Uint8Array> {
   doc.addStructure(root);
   root.add(
     doc.struct('Figure', { alt: o.alt }, () => {
-      SVGtoPDF(doc, o.svg, 0, 0, { width: W, height: H, preserveAspectRatio: 'none', fontCallback: (_family: string, bold: boolean) => (bold ? 'Lato-Bold' : 'Lato'), colorCallback } as never);
+      const fontCallback = (family: string, bold: boolean) => (family.includes(FALLBACK_FAMILY) ? 'Fallback' : 'Lato') + (bold ? '-Bold' : '');
+      SVGtoPDF(doc, svg, 0, 0, { width: W, height: H, preserveAspectRatio: 'none', fontCallback, colorCallback } as never);
     }),
   );
   root.end();
@@ -227,6 +224,7 @@ export function pdfSubject(file: string, pdf: Uint8Array, o: PdfOptions, alt: { 
     texts: drawn.texts,
     lines: drawn.lines,
     fonts: f.fonts,
+    unglyphed: uncoveredCharacters(svgDrawnText(o.svg), facesCover),
     altText: alt,
   };
 }
@@ -273,7 +271,8 @@ export function svgSubject(file: string, svg: string, widthMm: number, heightMm:
   const w = /<svg\b[^>]*\bwidth="([\d.]+)mm"/.exec(svg);
   const h = /<svg\b[^>]*\bheight="([\d.]+)mm"/.exec(svg);
   const drawn = svgPrintFacts(svg);
-  const embedded = /@font-face\{font-family:"Lato"[^}]*src:url\(data:/.test(svg);
+  const embedded = (family: string) => new RegExp(`@font-face\\{font-family:"${family}"[^}]*src:url\\(data:`).test(svg);
+  const fallback = embedded(FALLBACK_FAMILY);
   return {
     file,
     format: 'svg',
@@ -284,7 +283,8 @@ export function svgSubject(file: string, svg: string, widthMm: number, heightMm:
     icc: { description: 'sRGB (SVG colours are sRGB by definition)', condition: 'srgb' },
     texts: drawn.texts,
     lines: drawn.lines,
-    fonts: drawn.texts.length ? [{ name: 'Lato', embedded, subset: false }] : [],
+    fonts: drawn.texts.length ? [{ name: 'Lato', embedded: embedded('Lato'), subset: false }, ...(fallback ? [{ name: FALLBACK_FAMILY, embedded: true, subset: false }] : [])] : [],
+    unglyphed: uncoveredCharacters(svgDrawnText(svg), fallback ? facesCover : latoCovers),
     altText: alt,
   };
 }

@@ -1,6 +1,7 @@
 import { DOMParser } from '@xmldom/xmldom';
 import { parseRecipe, type Recipe } from '@psiform/contracts';
-import { dominantTerm, figureSvg, plotPalette } from './svg-export';
+import { companionSvg, dominantTerm, figureSvg, plotPalette } from './svg-export';
+import { svgSubject } from './print-files';
 import { latoFonts } from './fonts';
 
 const recipe = (over: Record<string, unknown> = {}): Recipe => {
@@ -41,6 +42,22 @@ describe('svg exports', () => {
     expect(svg).toMatch(/font-family:\s*["']?Lato/);
     expect(svg).toContain('data:font/woff2;base64,');
     expect(latoFonts().regular!.subarray(0, 4)).toEqual(new Uint8Array([0x77, 0x4f, 0x46, 0x32])); // "wOF2" (WOFF2 spec §3)
+  });
+
+  it('companion SVGs embed DejaVu Sans after Lato only when their text has characters Lato lacks (ψ in a section key)', () => {
+    const section = companionSvg(recipe(), { kind: 'section', plane: 'xz', offset: 0, levels: 3, widthMm: 80, heightMm: 80 });
+    expect(section).toContain('ψ &gt; 0');
+    expect(section).toMatch(/@font-face\{font-family:"DejaVu Sans";font-weight:400;[^}]*src:url\(data:font\/woff2;base64,d09GMg/); // "wOF2"
+    expect(section).toMatch(/text\{font-family:"Lato","DejaVu Sans";\}/);
+    const subject = svgSubject('section.svg', section, 80, 80, { short: 'a', long: 'b' });
+    expect(subject.fonts).toEqual([{ name: 'Lato', embedded: true, subset: false }, { name: 'DejaVu Sans', embedded: true, subset: false }]);
+    expect(subject.unglyphed).toEqual([]);
+    // Without the fallback face the same text has ψ with no glyph: the preflight would fail it.
+    const latoOnly = figureSvg(recipe(), { kind: 'section', plane: 'xz', offset: 0, levels: 3, widthMm: 80, heightMm: 80 }, latoFonts());
+    expect(svgSubject('section.svg', latoOnly, 80, 80, { short: 'a', long: 'b' }).unglyphed).toContain('ψ');
+    const radial = companionSvg(recipe(), { kind: 'radial', plane: 'xz', offset: 0, levels: 3, widthMm: 89, heightMm: 60 });
+    expect(radial).not.toContain('DejaVu');
+    expect(svgSubject('radial.svg', radial, 89, 60, { short: 'a', long: 'b' }).unglyphed).toEqual([]);
   });
 
   it('plot palette: transparent stages print on white', () => {

@@ -1,6 +1,7 @@
 import type { Recipe, SectionPlane } from '@psiform/contracts';
 import { autoExtent, type OrbitalState } from '@psiform/orbitals';
 import { radialPlotSvg, sectionMapSvg, type FontBytes, type PlotPalette } from '@psiform/print';
+import { latoFonts, withFallbackWhereNeeded } from './fonts';
 import { stateOf } from '../mesh/mesh-pipeline';
 
 export interface SvgParams {
@@ -53,4 +54,9 @@ export function figureSvg(recipe: Recipe, p: SvgParams, fonts: FontBytes | undef
   const state: OrbitalState = stateOf(recipe);
   const extent = recipe.grid.extent === 'auto' ? Number(autoExtent(state)) : recipe.grid.extent;
   return sectionMapSvg({ state, plane: p.plane, offset: p.offset, extent, n: SECTION_SAMPLES, levels: p.levels, palette, widthMm: p.widthMm, heightMm: p.heightMm, fonts, unit });
+}
+
+/** The SVG companion as delivered: Lato embedded, and the fallback face too when the text needs it. */
+export function companionSvg(recipe: Recipe, p: SvgParams): string {
+  return withFallbackWhereNeeded(figureSvg(recipe, p, latoFonts())).svg;
 }
