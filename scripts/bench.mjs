@@ -4,7 +4,8 @@
 // always exits 0. Sections are one function each (see SECTIONS at the bottom) so more can be added.
 //
 // Options: --quick (N = 64, 128 only; for a smoke run)   --no-isosurface   --no-skimage   --only=render,apijob,...
-// Internal: --child-main256 (the N = 256 3d_z² measurement in its own process, for its peak RSS).
+// Internal: --child-main256 (the N = 256 3d_z² measurement in its own process, for its peak RSS);
+//   --child-workermem=pooled|fresh (five consecutive worker mesh jobs in one process, RSS after each).
 
 import { spawnSync } from 'node:child_process';
 import * as fs from 'node:fs';
@@ -330,6 +331,67 @@ async function sectionMemory() {
 }
 
 // ---------------------------------------------------------------------------------------------
+// Section: worker memory across consecutive jobs (issue "Stays up and stays scoped": RSS after five consecutive
+// 320³ jobs at most 1.5 × RSS after the first). Each run is a fresh process doing five mesh builds in a row:
+// "worker path" is the worker's own buildMesh (apps/worker/dist: pooled sampling buffers; stored objects are kept in
+// memory only, so storage is not measured); its peer in the same run is the same stages with a fresh buffer per job.
+const WORKER_MEM = { n: 320, jobs: 5, fractions: [0.9, 0.85, 0.8, 0.75, 0.7], targetRatio: 1.5 };
+
+async function childWorkerMemory(mode) {
+  const dist = path.join(HERE, '..', 'apps', 'worker', 'dist', 'mesh');
+  const pipeline = require(path.join(dist, 'mesh-pipeline.js'));
+  const { buildMesh } = require(path.join(dist, 'mesh-build.js'));
+  const { parseRecipe } = require('@psiform/contracts');
+  const { createHash } = require('node:crypto');
+  const assets = {
+    // Only what buildMesh calls: the bytes are hashed and dropped (a real worker hands them to S3 and drops them too).
+    storeObject: async (key, bytes) => ({ key, bytes: bytes.length, sha256: createHash('sha256').update(bytes).digest('hex') }),
+  };
+  const rss = [];
+  for (let i = 0; i < WORKER_MEM.jobs; i++) {
+    const { recipe } = parseRecipe({ version: 1, label: '3dz2', content: { Z: 1, terms: [{ n: 3, l: 2, m: 0, basis: 'real', re: 1 }] }, grid: { n: WORKER_MEM.n }, surface: { rule: 'enclosed', fraction: WORKER_MEM.fractions[i] } });
+    const t0 = now();
+    if (mode === 'pooled') {
+      await buildMesh({ assets, storage: {}, engineVersion: 'bench' }, { recipe, version: { id: `v${i}`, recipeHash: `bench${i}` }, publicationId: 'bench' }, async () => undefined);
+    } else {
+      const field = await pipeline.sampleComputed(recipe);
+      const level = pipeline.threshold(field, recipe.surface);
+      const surfaces = pipeline.extract(field, level);
+      const nodal = pipeline.nodalSurface(field, level, recipe);
+      const files = await pipeline.encode(surfaces, recipe, {}, 'bench', nodal);
+      for (const k of ['glb', 'stl']) await assets.storeObject(k, files[k]);
+    }
+    await new Promise((r) => setTimeout(r, 50)); // let the job's garbage go as an idle worker would between jobs
+    rss.push({ ms: now() - t0, rssMB: process.memoryUsage().rss / 1048576 });
+  }
+  orbitalsNode.closeParallelSampler?.();
+  console.log(JSON.stringify({ rss, peakMB: mb(peakRssKb()) }));
+}
+
+async function sectionWorkerMemory() {
+  heading(`Worker memory: ${WORKER_MEM.jobs} consecutive ${WORKER_MEM.n}³ mesh jobs (3d_z², fractions ${WORKER_MEM.fractions.join(', ')}) in a fresh process each`);
+  const runs = {};
+  for (const mode of ['pooled', 'fresh']) {
+    const r = spawnSync(process.execPath, [fileURLToPath(import.meta.url), `--child-workermem=${mode}`], { encoding: 'utf8' });
+    try {
+      runs[mode] = JSON.parse(r.stdout.trim().split('\n').pop());
+    } catch {
+      console.log(`  ${mode} run failed: ${(r.stderr || r.stdout || '').trim().split('\n').pop()}`);
+    }
+  }
+  const rows = [];
+  for (const [mode, label] of [['pooled', 'worker path (buildMesh, pooled buffers)'], ['fresh', 'peer: fresh buffers per job']]) {
+    const run = runs[mode];
+    if (!run) continue;
+    const ratio = run.rss[run.rss.length - 1].rssMB / run.rss[0].rssMB;
+    rows.push([label, ...run.rss.map((x) => fmt(x.rssMB, 0)), fmt(ratio, 2), fmt(run.peakMB, 0), mode === 'pooled' ? verdict(ratio <= WORKER_MEM.targetRatio) : '']);
+    if (mode === 'pooled') results.workerMemRatio = ratio;
+    else results.workerMemPeerRatio = ratio;
+  }
+  table(['run', ...Array.from({ length: WORKER_MEM.jobs }, (_, i) => `RSS MB after #${i + 1}`), 'last / first', 'peak MB', `≤ ${WORKER_MEM.targetRatio}`], rows);
+}
+
+// ---------------------------------------------------------------------------------------------
 // Section: live preview (re-extraction at 10 fractions on an already sampled 128³ grid)
 async function sectionLivePreview() {
   heading('Live preview: 128³ 3d_z² already sampled; per fraction change = threshold + both phases');
@@ -482,6 +544,7 @@ function summary() {
   const s = results.sampling?.['3d_z2/256'] ?? results.sampling?.[`3d_z2/${SIZES[SIZES.length - 1]}`];
   if (s) rows.push([`sampling 3d_z², 2 threads (${SIZES[SIZES.length - 1]}³)`, fmt(s.m2) + ' Mvox/s', `≥ ${TARGETS.sampleMvoxPerS}`, verdict(s.m2 >= TARGETS.sampleMvoxPerS)]);
   if (results.childRssMB !== undefined) rows.push(['peak RSS, 256³ 3d_z² child', fmt(results.childRssMB) + ' MB', `≤ ${TARGETS.peakRssMB} MB`, verdict(results.childRssMB <= TARGETS.peakRssMB)]);
+  if (results.workerMemRatio !== undefined) rows.push([`worker RSS after ${WORKER_MEM.jobs} × ${WORKER_MEM.n}³ jobs / after the first`, fmt(results.workerMemRatio, 2) + (results.workerMemPeerRatio !== undefined ? ` (peer with fresh buffers ${fmt(results.workerMemPeerRatio, 2)})` : ''), `≤ ${WORKER_MEM.targetRatio}`, verdict(results.workerMemRatio <= WORKER_MEM.targetRatio)]);
   if (results.liveMeanMs !== undefined) rows.push(['live preview 128³, mean per update', fmt(results.liveMeanMs) + ' ms', `< ${TARGETS.livePreviewMs} ms`, verdict(results.liveMeanMs < TARGETS.livePreviewMs)]);
   if (results.apiMeshMs !== undefined) rows.push(['API POST …/meshes -> completed, 192³', fmt(results.apiMeshMs, 0) + ' ms', '< 2000 ms', verdict(results.apiMeshMs < 2000)]);
   if (results.renderWarmMs !== undefined) rows.push(['render + encode 4252 × 2835 (warm browser)', fmt(results.renderWarmMs, 0) + ' ms', '< 5000 ms', verdict(results.renderWarmMs < 5000)]);
@@ -490,17 +553,22 @@ function summary() {
 }
 
 // Order matters only for readability; each section is independent.
-const SECTIONS = [sectionSampling, sectionExtraction, sectionMemory, sectionLivePreview, sectionApiJob, sectionRender];
+const SECTIONS = [sectionSampling, sectionExtraction, sectionMemory, sectionWorkerMemory, sectionLivePreview, sectionApiJob, sectionRender];
 
 async function main() {
   if (ARGS.has('--child-main256')) {
     await childMain256();
     return;
   }
+  const workerMem = process.argv.find((a) => a.startsWith('--child-workermem='));
+  if (workerMem) {
+    await childWorkerMemory(workerMem.slice('--child-workermem='.length));
+    return;
+  }
   const t0 = now();
   console.log(`Psiform bench (sizes ${SIZES.join(', ')}; enclosed fraction ${FRACTION}; libs from dist)`);
   console.log(`  load average at start: ${loadNote()}`);
-  // --only=render,api runs just those sections (names: sampling, extraction, memory, livepreview, apijob, render).
+  // --only=render,api runs just those sections (names: sampling, extraction, memory, workermemory, livepreview, apijob, render).
   const only = process.argv.find((a) => a.startsWith('--only='))?.slice(7).toLowerCase().split(',');
   for (const section of SECTIONS) {
     if (only && !only.some((o) => section.name.toLowerCase() === `section${o}`)) continue;

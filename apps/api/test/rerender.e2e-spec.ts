@@ -23,7 +23,7 @@ describe('batch re-render (e2e)', () => {
       const me = (await t.http().get('/api/auth/me').set(auth(token)).expect(200)).body;
       await post(`/api/publications/${pubId}/members`, tok.admin, { userId: me.id }).expect(201);
     }
-    sbId = (await post('/api/swatchbooks', tok.artDirector, { name: `Workbook palette ${RUN_ID}`, colors: { positive: '#c8553d', negative: '#2f6690', background: '#fbfaf7', label: '#1a1a1a' } }).expect(201)).body.id;
+    sbId = (await post('/api/swatchbooks', tok.artDirector, { name: `Workbook palette ${RUN_ID}`, publicationId: pubId, colors: { positive: '#c8553d', negative: '#2f6690', background: '#fbfaf7', label: '#1a1a1a' } }).expect(201)).body.id;
     await t.http().put(`/api/publications/${pubId}/house-style`).set(auth(tok.artDirector)).send({ swatchbookId: sbId }).expect(200);
     worker = await startInProcessWorker({});
   }, 60000);

@@ -185,7 +185,7 @@ describe('editorial review (e2e)', () => {
   }, 90000);
 
   it('where the house style requires colour sign-off, approval needs the editor AND an art director', async () => {
-    const sb = (await post('/api/swatchbooks', tok.artDirector, { name: `Review house ${RUN_ID}`, colors: { positive: '#b8432f', negative: '#2c5f8a', background: '#fbfaf7', label: '#1b1b1b' } }).expect(201)).body;
+    const sb = (await post('/api/swatchbooks', tok.artDirector, { name: `Review house ${RUN_ID}`, publicationId: pubId, colors: { positive: '#b8432f', negative: '#2c5f8a', background: '#fbfaf7', label: '#1b1b1b' } }).expect(201)).body;
     cleanupSwatchbooks.push(sb.id);
     await t.http().put(`/api/publications/${pubId}/house-style`).set(auth(tok.editor)).send({ swatchbookId: sb.id, requireColourSignOff: true }).expect(403);
     await t.http().put(`/api/publications/${pubId}/house-style`).set(auth(tok.artDirector)).send({ swatchbookId: sb.id, requireColourSignOff: true }).expect(200);

@@ -22,12 +22,12 @@ describe('swatchbooks (e2e)', () => {
   });
 
   it('an art director creates one (an illustrator may not); bad colours are 400 naming the field and store nothing', async () => {
-    await t.http().post('/api/swatchbooks').set(auth(tok.illustrator)).send({ name: name('Forbidden'), colors }).expect(403);
-    const bad = await t.http().post('/api/swatchbooks').set(auth(tok.artDirector)).send({ name: name('Bad'), colors: { ...colors, positive: 'crimson', label: undefined } }).expect(400);
+    await t.http().post('/api/swatchbooks').set(auth(tok.illustrator)).send({ name: name('Forbidden'), publicationId: DEMO_PUBLICATION.id, colors }).expect(403);
+    const bad = await t.http().post('/api/swatchbooks').set(auth(tok.artDirector)).send({ name: name('Bad'), publicationId: DEMO_PUBLICATION.id, colors: { ...colors, positive: 'crimson', label: undefined } }).expect(400);
     expect(bad.body.message).toEqual(['colors.positive must be a #rrggbb colour', 'colors.label is required']);
     const [{ n }] = await t.ds.query(`SELECT count(*)::int AS n FROM swatchbooks WHERE name LIKE $1`, [`%${RUN_ID}%`]);
     expect(n).toBe(0);
-    const created = await t.http().post('/api/swatchbooks').set(auth(tok.artDirector)).send({ name: name('Brackwater house'), colors }).expect(201);
+    const created = await t.http().post('/api/swatchbooks').set(auth(tok.artDirector)).send({ name: name('Brackwater house'), publicationId: DEMO_PUBLICATION.id, colors }).expect(201);
     expect(created.body).toMatchObject({ name: name('Brackwater house'), colors, locked: false, version: 1 });
     // any signed-in user reads it
     expect((await t.http().get(`/api/swatchbooks/${created.body.id}`).set(auth(tok.illustrator)).expect(200)).body.colors).toEqual(colors);
@@ -36,20 +36,20 @@ describe('swatchbooks (e2e)', () => {
   });
 
   it('checks report the phase ΔE00 (CIEDE2000 in CIELAB D65) and its values under colour-vision deficiency', async () => {
-    const s = (await t.http().post('/api/swatchbooks').set(auth(tok.artDirector)).send({ name: name('Checked'), colors }).expect(201)).body;
+    const s = (await t.http().post('/api/swatchbooks').set(auth(tok.artDirector)).send({ name: name('Checked'), publicationId: DEMO_PUBLICATION.id, colors }).expect(201)).body;
     const checks = (await t.http().get(`/api/swatchbooks/${s.id}/checks`).set(auth(tok.illustrator)).expect(200)).body;
     const lab = converter('lab65');
     const expected = differenceCiede2000()(lab(colors.positive)!, lab(colors.negative)!);
     expect(checks.figures.phaseDeltaE2000).toBeCloseTo(expected, 2);
     for (const k of ['phaseDeltaE2000Protan', 'phaseDeltaE2000Deutan', 'phaseDeltaE2000Tritan', 'labelContrast']) expect(typeof checks.figures[k]).toBe('number');
     expect(checks.warnings.filter((w: { code: string }) => w.code === 'phases_too_similar')).toEqual([]);
-    const close = (await t.http().post('/api/swatchbooks').set(auth(tok.artDirector)).send({ name: name('Too close'), colors: { ...colors, negative: '#c4583f' } }).expect(201)).body;
+    const close = (await t.http().post('/api/swatchbooks').set(auth(tok.artDirector)).send({ name: name('Too close'), publicationId: DEMO_PUBLICATION.id, colors: { ...colors, negative: '#c4583f' } }).expect(201)).body;
     const warned = (await t.http().get(`/api/swatchbooks/${close.id}/checks`).set(auth(tok.artDirector)).expect(200)).body;
     expect(warned.warnings).toEqual(expect.arrayContaining([expect.objectContaining({ code: 'phases_too_similar', level: 'error', colors: ['positive', 'negative'] })]));
   });
 
   it('edits make versions; a locked swatchbook refuses PATCH with 409 until unlocked', async () => {
-    const s = (await t.http().post('/api/swatchbooks').set(auth(tok.artDirector)).send({ name: name('Versioned'), colors }).expect(201)).body;
+    const s = (await t.http().post('/api/swatchbooks').set(auth(tok.artDirector)).send({ name: name('Versioned'), publicationId: DEMO_PUBLICATION.id, colors }).expect(201)).body;
     await t.http().patch(`/api/swatchbooks/${s.id}`).set(auth(tok.illustrator)).send({ colors: { negative: '#305f85' } }).expect(403);
     const v2 = (await t.http().patch(`/api/swatchbooks/${s.id}`).set(auth(tok.artDirector)).send({ colors: { negative: '#305F85' } }).expect(200)).body;
     expect(v2).toMatchObject({ version: 2, colors: { ...colors, negative: '#305f85' } });
@@ -73,25 +73,29 @@ describe('swatchbooks (e2e)', () => {
   });
 
   it('export gives a JSON file that import takes back; a bad file is 400', async () => {
-    const s = (await t.http().post('/api/swatchbooks').set(auth(tok.artDirector)).send({ name: name('Exported'), colors: { ...colors, nucleus: '#333333', wheel: { lightness: 0.7, chroma: 0.1 } } }).expect(201)).body;
+    const s = (await t.http().post('/api/swatchbooks').set(auth(tok.artDirector)).send({ name: name('Exported'), publicationId: DEMO_PUBLICATION.id, colors: { ...colors, nucleus: '#333333', wheel: { lightness: 0.7, chroma: 0.1 } } }).expect(201)).body;
     const res = await t.http().get(`/api/swatchbooks/${s.id}/export`).set(auth(tok.illustrator)).expect(200);
     expect(res.headers['content-disposition']).toMatch(/^attachment; filename=".+\.swatchbook\.json"$/);
     expect(res.body).toMatchObject({ format: 'psiform-swatchbook', formatVersion: 1, name: name('Exported'), colors: s.colors });
-    const imported = (await t.http().post('/api/swatchbooks/import').set(auth(tok.artDirector)).send({ ...res.body, name: name('Imported') }).expect(201)).body;
+    const imported = (await t.http().post('/api/swatchbooks/import').set(auth(tok.artDirector)).send({ ...res.body, name: name('Imported'), publicationId: DEMO_PUBLICATION.id }).expect(201)).body;
     expect(imported.id).not.toBe(s.id);
     expect(imported.colors).toEqual(s.colors);
     expect(((await t.http().get(`/api/swatchbooks/${imported.id}/versions`).set(auth(tok.artDirector)).expect(200)).body as { action: string }[])[0].action).toBe('import');
-    const bad = await t.http().post('/api/swatchbooks/import').set(auth(tok.artDirector)).send({ ...res.body, formatVersion: 7 }).expect(400);
+    const bad = await t.http().post('/api/swatchbooks/import').set(auth(tok.artDirector)).send({ ...res.body, formatVersion: 7, publicationId: DEMO_PUBLICATION.id }).expect(400);
     expect(bad.body.message).toEqual(['formatVersion must be 1']);
-    await t.http().post('/api/swatchbooks/import').set(auth(tok.illustrator)).send(res.body).expect(403);
+    await t.http().post('/api/swatchbooks/import').set(auth(tok.illustrator)).send({ ...res.body, publicationId: DEMO_PUBLICATION.id }).expect(403);
   });
 
   it('house style: art directors who are members pin a swatchbook; others get 403 or 404', async () => {
-    const s = (await t.http().post('/api/swatchbooks').set(auth(tok.artDirector)).send({ name: name('Pinned'), colors }).expect(201)).body;
+    const s = (await t.http().post('/api/swatchbooks').set(auth(tok.admin)).send({ name: name('Pinned'), colors, publicationId: lonePub }).expect(201)).body;
+    const demoBook = (await t.http().post('/api/swatchbooks').set(auth(tok.artDirector)).send({ name: name('Demo only'), colors, publicationId: DEMO_PUBLICATION.id }).expect(201)).body;
+    // Another publication's swatchbook cannot be pinned (its colours would flow into this publication's figures).
+    const foreign = await t.http().put(`/api/publications/${lonePub}/house-style`).set(auth(tok.admin)).send({ swatchbookId: demoBook.id }).expect(400);
+    expect(foreign.body.message).toEqual([`swatchbookId: no swatchbook ${demoBook.id} in this publication`]);
     await t.http().put(`/api/publications/${lonePub}/house-style`).set(auth(tok.artDirector)).send({ swatchbookId: s.id }).expect(404);
     await t.http().put(`/api/publications/${lonePub}/house-style`).set(auth(tok.illustrator)).send({ swatchbookId: s.id }).expect(403);
     const bad = await t.http().put(`/api/publications/${lonePub}/house-style`).set(auth(tok.admin)).send({ swatchbookId: '00000000-0000-4000-8000-000000000000' }).expect(400);
-    expect(bad.body.message).toEqual(['swatchbookId: no swatchbook 00000000-0000-4000-8000-000000000000']);
+    expect(bad.body.message).toEqual(['swatchbookId: no swatchbook 00000000-0000-4000-8000-000000000000 in this publication']);
     await t.http().get(`/api/publications/${lonePub}/house-style`).set(auth(tok.admin)).expect(404);
     const put = (await t.http().put(`/api/publications/${lonePub}/house-style`).set(auth(tok.admin)).send({ swatchbookId: s.id, requireColourSignOff: true }).expect(200)).body;
     expect(put).toMatchObject({ publicationId: lonePub, swatchbookId: s.id, swatchbookName: name('Pinned'), requireColourSignOff: true, allowOverride: false });

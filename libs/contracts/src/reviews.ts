@@ -17,6 +17,9 @@ export interface SwatchbookDto {
   id: string;
   name: string;
   ownerId: string;
+  /** Its scope: one publication (publisher null), or every publication of a publisher (publicationId null). */
+  publicationId: string | null;
+  publisher: string | null;
   colors: SwatchbookColorsDto;
   locked: boolean;
   version: number;

@@ -2,7 +2,7 @@ import { existsSync } from 'node:fs';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { bohr, compileState, parseOrbitalLabel } from '../src';
-import { closeParallelSampler, prewarmParallelSampler, sampleGridParallel } from '../src/node/parallel';
+import { SamplingBufferPool, SamplingBuffers, closeParallelSampler, prewarmParallelSampler, sampleGridParallel } from '../src/node/parallel';
 
 // worker_threads cannot load TypeScript: the workers run the built dist/node/sampler-worker.js.
 const built = existsSync(join(__dirname, '..', 'dist', 'node', 'sampler-worker.js'));
@@ -54,6 +54,51 @@ describe.runIf(built)('sampleGridParallel (needs `npx tsc -p tsconfig.build.json
   it('rejects bad input before starting workers', async () => {
     await expect(sampleGridParallel(parseOrbitalLabel('2pz').state, { n: 1, extent: bohr(1) })).rejects.toThrow(/grid.n/);
     await expect(sampleGridParallel({ Z: 1, terms: [] }, { n: 4, extent: bohr(1) })).rejects.toThrow(/terms/);
+  });
+
+  it('fills reused buffers: same values as fresh ones, the same memory for a smaller grid after a larger one', async () => {
+    const buffers = new SamplingBuffers();
+    const big = parseOrbitalLabel('3dz2').state;
+    const small = { Z: 1, terms: [{ n: 2, l: 1, m: 1, basis: 'complex' as const, re: 1, im: 0 }] };
+    const g1 = { n: 30, extent: bohr(15) };
+    const g2 = { n: 17, extent: bohr(12) };
+    const a = await sampleGridParallel(big, g1, { threads: 2, into: buffers });
+    const wantA = new Float32Array(30 ** 3);
+    compileState(big).sampleGrid(g1, wantA, null);
+    expect(a.re).toEqual(wantA);
+    const heldAfterFirst = buffers.bytes;
+    const b = await sampleGridParallel(small, g2, { threads: 2, into: buffers });
+    expect(b.re.buffer).toBe(a.re.buffer); // the same SharedArrayBuffer, not a new one
+    expect(b.re.length).toBe(17 ** 3);
+    const wantRe = new Float32Array(17 ** 3);
+    const wantIm = new Float32Array(17 ** 3);
+    compileState(small).sampleGrid(g2, wantRe, wantIm);
+    expect(b.re).toEqual(wantRe);
+    expect(b.im).toEqual(wantIm);
+    expect(buffers.bytes).toBe(heldAfterFirst + 17 ** 3 * 4); // im added once, re kept
+    const c = await sampleGridParallel(big, g1, { threads: 1, into: buffers });
+    expect(c.re).toEqual(wantA); // one thread, same buffers, same answer
+  });
+
+  it('a pool of 2 gives out at most 2 buffer sets; a third job waits for a release', async () => {
+    const pool = new SamplingBufferPool(2);
+    const a = await pool.acquire();
+    const b = await pool.acquire();
+    expect(a).not.toBe(b);
+    let third: SamplingBuffers | undefined;
+    const waiting = pool.acquire().then((x) => (third = x));
+    await new Promise((r) => setTimeout(r, 20));
+    expect(third).toBeUndefined();
+    pool.release(a);
+    await waiting;
+    expect(third).toBe(a);
+    pool.release(third!);
+    await expect(pool.with(async () => { throw new Error('job failed'); })).rejects.toThrow('job failed');
+    // b is still out, so only the set with() took can answer at once: it was given back despite the failure.
+    const again = await Promise.race([pool.acquire(), new Promise((r) => setTimeout(() => r('still waiting'), 200))]);
+    expect(again).toBe(a);
+    pool.release(b);
+    expect(() => new SamplingBufferPool(0)).toThrow(RangeError);
   });
 });
 

@@ -23,3 +23,8 @@ export function MaxUtf8Bytes(max: number): PropertyDecorator {
     },
   });
 }
+
+// Order of the rules on a DTO field: with ValidationPipe's stopAtFirstError, class-validator reports the first failing
+// rule in the order the decorators were applied, which is bottom-up. So the type check (@IsString, @IsInt, @IsUUID …)
+// goes last, right above the field: a number for a title then reads "title must be a string", not "at most 200
+// characters". (@IsDefined, also inside OptionalNotNull, is checked before all others wherever it stands.)

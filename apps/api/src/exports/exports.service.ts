@@ -3,7 +3,7 @@ import { FIGURE_SET_LIMITS, parseRecipe, type CreateFigureSetRequest, type Creat
 import { FiguresService } from '../figures/figures.service';
 import { FiguresStore, type FigureEntity, FigureSetsStore, toFigureSetDto } from '@psiform/server';
 import { JobsService } from '../jobs/jobs.service';
-import { MembershipService } from '../publications/membership.service';
+import { MembershipService, guarded, refusalOf } from '../publications/membership.service';
 import { parseExportRequest } from './export-request';
 import { DeliveryProfilesService } from '../delivery-profiles/delivery-profiles.service';
 
@@ -27,7 +27,7 @@ export class ExportsService {
 
   async requestExport(user: Caller, figureId: string, body: unknown): Promise<CreateJobResponse> {
     const figure = await this.figures.requireFigure(user, figureId);
-    this.requireExporter(user, figure);
+    await this.membership.authorize(user, 'figure.export', guarded.figure(figure));
     const version = await this.figureStore.findVersion(figure.id, figure.currentVersion);
     if (!version) throw new NotFoundException(`figure ${figureId} has no current version`);
     const recipe = parseRecipe(version.recipe);
@@ -47,24 +47,31 @@ export class ExportsService {
     return { jobId: job.id };
   }
 
-  private requireExporter(user: Caller, figure: FigureEntity): void {
-    if (user.role === 'illustrator' && figure.ownerId !== user.id) {
-      throw new ForbiddenException("only the figure's owner, the publication's editors and art directors, or an admin can export this figure");
-    }
-  }
-
   // ---- figure sets -------------------------------------------------------------------------------
 
   async createSet(user: Caller, body: CreateFigureSetRequest): Promise<FigureSetDto> {
     const problems = checkSetBody(body);
     if (problems.length) throw new BadRequestException(problems);
     await this.membership.requireAccess(user, body.publicationId);
-    for (const [i, id] of body.figureIds.entries()) {
-      const f = await this.figureStore.findById(id);
-      if (!f || f.publicationId !== body.publicationId) throw new BadRequestException([`figureIds.${i}: no figure ${id} in this publication`]);
-    }
+    await this.requirePanels(user, body.figureIds, body.publicationId);
     const set = await this.sets.insert({ publicationId: body.publicationId, title: body.title.trim(), figureIds: body.figureIds, columns: body.columns, createdBy: user.id });
     return toFigureSetDto(set);
+  }
+
+  /**
+   * The figures of a set, each in the set's publication and each one the caller may export on its own: a set is
+   * no way around the single-figure rule (an illustrator exports only their own figures).
+   */
+  private async requirePanels(user: Caller, figureIds: string[], publicationId: string): Promise<FigureEntity[]> {
+    const out: FigureEntity[] = [];
+    for (const [i, id] of figureIds.entries()) {
+      const f = await this.figureStore.findById(id);
+      if (!f || f.publicationId !== publicationId) throw new BadRequestException([`figureIds.${i}: no figure ${id} in this publication`]);
+      const refusal = refusalOf(user, 'figure.export', guarded.figure(f));
+      if (refusal) throw new ForbiddenException(`figureIds.${i}: ${refusal}`);
+      out.push(f);
+    }
+    return out;
   }
 
   async getSet(user: Caller, id: string): Promise<FigureSetDto> {
@@ -87,9 +94,7 @@ export class ExportsService {
     if (!parsed.ok) throw new BadRequestException(parsed.messages);
     if (parsed.params.format !== 'png') throw new BadRequestException(['format: a figure set exports as png only']);
     const panels: { figureId: string; figureVersionId: string }[] = [];
-    for (const figureId of set.figureIds) {
-      const f = await this.figureStore.findById(figureId);
-      if (!f) throw new BadRequestException([`figureIds: figure ${figureId} of this set no longer exists`]);
+    for (const f of await this.requirePanels(user, set.figureIds, set.publicationId)) {
       const v = await this.figureStore.findVersion(f.id, f.currentVersion);
       panels.push({ figureId: f.id, figureVersionId: v!.id });
     }

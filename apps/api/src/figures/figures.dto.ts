@@ -15,9 +15,9 @@ export class CreateFigureBody implements CreateFigureRequest {
   publicationId: string;
 
   @Transform(trim)
-  @IsString({ message: 'title must be a string' })
   @IsNotEmpty({ message: 'title must not be empty' })
   @MaxLength(FIGURE_TITLE_MAX, { message: `title must be at most ${FIGURE_TITLE_MAX} characters` })
+  @IsString({ message: 'title must be a string' })
   title: string;
 
   /** Checked by parseRecipe in the service (messages name recipe.<path>). */
@@ -28,9 +28,9 @@ export class CreateFigureBody implements CreateFigureRequest {
 export class UpdateFigureBody implements UpdateFigureRequest {
   @OptionalNotNull()
   @Transform(trim)
-  @IsString({ message: 'title must be a string' })
   @IsNotEmpty({ message: 'title must not be empty' })
   @MaxLength(FIGURE_TITLE_MAX, { message: `title must be at most ${FIGURE_TITLE_MAX} characters` })
+  @IsString({ message: 'title must be a string' })
   title?: string;
 
   @OptionalNotNull()
@@ -45,21 +45,21 @@ export class ListFiguresQuery {
 
   @OptionalNotNull()
   @Type(() => Number)
-  @IsInt({ message: 'page must be an integer' })
   @Min(1, { message: `page must be 1..${PAGE_MAX}` })
   @Max(PAGE_MAX, { message: `page must be 1..${PAGE_MAX}` })
+  @IsInt({ message: 'page must be an integer' })
   page?: number;
 
   @OptionalNotNull()
   @Type(() => Number)
-  @IsInt({ message: 'pageSize must be an integer' })
   @Min(1, { message: 'pageSize must be 1..100' })
   @Max(100, { message: 'pageSize must be 1..100' })
+  @IsInt({ message: 'pageSize must be an integer' })
   pageSize?: number;
 
   @OptionalNotNull()
-  @IsString({ message: 'q must be a string' })
   @MaxLength(200, { message: 'q must be at most 200 characters' })
+  @IsString({ message: 'q must be a string' })
   q?: string;
 
   @OptionalNotNull()

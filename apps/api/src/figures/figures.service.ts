@@ -1,6 +1,6 @@
 import { BadRequestException, Injectable, NotFoundException } from '@nestjs/common';
 import type { CreateJobResponse, FigureDto, FigureSummaryDto, Page, Recipe, UserDto } from '@psiform/contracts';
-import { MembershipService } from '../publications/membership.service';
+import { MembershipService, guarded } from '../publications/membership.service';
 import { AssetStore, toAssetDto, ENGINE_VERSION, FiguresStore, type NewVersion, type FigureEntity, toFigureVersionDto, type FigureVersionEntity, recipeHash } from '@psiform/server';
 import { LINK_TTL_SECONDS } from '../assets/assets.service';
 import { JobsService } from '../jobs/jobs.service';
@@ -37,6 +37,7 @@ export class FiguresService {
    */
   async update(user: Caller, id: string, body: UpdateFigureBody): Promise<FigureDto> {
     const figure = await this.requireFigure(user, id);
+    await this.membership.authorize(user, 'figure.edit', guarded.figure(figure));
     let version = await this.currentVersion(figure);
     const recipe = body.recipe === undefined ? undefined : validateRecipe(body.recipe);
     if (recipe) {

@@ -1,5 +1,5 @@
-import { NotFoundException } from '@nestjs/common';
-import { MembershipService } from './membership.service';
+import { ForbiddenException, NotFoundException } from '@nestjs/common';
+import { MembershipService, guarded, refusalOf } from './membership.service';
 import { PublicationsStore, type NewPublication, type PublicationEntity, type UserEntity } from '@psiform/server';
 
 const pub = (id: string): PublicationEntity => ({ id, title: id, publisher: 'P', kind: 'book', description: '', lengthUnit: 'angstrom', createdAt: new Date(0) });
@@ -78,5 +78,42 @@ describe('MembershipService', () => {
     expect(await svc.canAccess(member, 'b')).toBe(false);
     expect(await svc.canAccess(admin, 'b')).toBe(true);
     expect(await svc.canAccess(admin, 'zzz')).toBe(false);
+  });
+
+  describe('authorize: the one table of who may do what', () => {
+    const fig = guarded.figure({ id: 'f1', publicationId: 'a', ownerId: 'u1' });
+    const store = new FakeStore();
+    store.members = new Set(['a|u1', 'a|u3', 'a|u4', 'a|u5']);
+    const policy = new MembershipService(store);
+    const owner = { id: 'u1', role: 'illustrator' as const };
+    const colleague = { id: 'u3', role: 'illustrator' as const };
+    const editor = { id: 'u4', role: 'editor' as const };
+    const artDirector = { id: 'u5', role: 'art_director' as const };
+
+    it('figures: only the owning illustrator (or an admin) edits; editors export; non-members get 404 first', async () => {
+      await expect(policy.authorize(owner, 'figure.edit', fig)).resolves.toBeUndefined();
+      await expect(policy.authorize(admin, 'figure.edit', fig)).resolves.toBeUndefined();
+      await expect(policy.authorize(colleague, 'figure.edit', fig)).rejects.toThrow(new ForbiddenException("only the figure's owner, or an admin, may change this figure (title or recipe)"));
+      await expect(policy.authorize(editor, 'figure.edit', fig)).rejects.toThrow('your role (editor) may not change this figure (title or recipe)');
+      await expect(policy.authorize(editor, 'figure.export', fig)).resolves.toBeUndefined();
+      await expect(policy.authorize(colleague, 'figure.export', fig)).rejects.toBeInstanceOf(ForbiddenException);
+      await expect(policy.authorize(outsider, 'figure.read', fig)).rejects.toThrow(new NotFoundException('figure f1 not found'));
+    });
+
+    it("swatchbooks: a publisher's reach every publication of that publisher; only art directors and admins edit", async () => {
+      const book = { kind: 'swatchbook' as const, id: 's1', scope: { publisher: 'P' } };
+      const elsewhere = { kind: 'swatchbook' as const, id: 's2', scope: { publisher: 'Other' } };
+      await expect(policy.authorize(editor, 'swatchbook.read', book)).resolves.toBeUndefined();
+      await expect(policy.authorize(artDirector, 'swatchbook.edit', book)).resolves.toBeUndefined();
+      await expect(policy.authorize(editor, 'swatchbook.edit', book)).rejects.toBeInstanceOf(ForbiddenException);
+      await expect(policy.authorize(artDirector, 'swatchbook.read', elsewhere)).rejects.toBeInstanceOf(NotFoundException);
+      expect(MembershipService.reaches({ publisher: 'P' }, { id: 'a', publisher: 'P' })).toBe(true);
+      expect(MembershipService.reaches({ publicationId: 'b' }, { id: 'a', publisher: 'P' })).toBe(false);
+    });
+
+    it('refusalOf names the rule; admins are never refused', () => {
+      expect(refusalOf(admin, 'swatchbook.edit', { kind: 'swatchbook', id: 'x', scope: { publicationId: 'a' } })).toBeNull();
+      expect(refusalOf(colleague, 'figure.submit', fig)).toBe("only the figure's owner, or an admin, may submit this figure for review");
+    });
   });
 });

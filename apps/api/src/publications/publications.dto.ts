@@ -23,23 +23,23 @@ const ROLE_MESSAGE = `role must be one of: ${ROLES.join(', ')}`;
 
 export class CreatePublicationBody implements CreatePublicationRequest {
   @Transform(trim)
-  @IsString({ message: 'title must be a string' })
   @IsNotEmpty({ message: 'title must not be empty' })
   @MaxLength(300, { message: 'title must be at most 300 characters' })
+  @IsString({ message: 'title must be a string' })
   title: string;
 
   @Transform(trim)
-  @IsString({ message: 'publisher must be a string' })
   @IsNotEmpty({ message: 'publisher must not be empty' })
   @MaxLength(200, { message: 'publisher must be at most 200 characters' })
+  @IsString({ message: 'publisher must be a string' })
   publisher: string;
 
   @IsIn(PUBLICATION_KINDS as readonly string[], { message: KIND_MESSAGE })
   kind: PublicationKind;
 
   @OptionalNotNull()
-  @IsString({ message: 'description must be a string' })
   @MaxLength(5000, { message: 'description must be at most 5000 characters' })
+  @IsString({ message: 'description must be a string' })
   description?: string;
 
   @OptionalNotNull()

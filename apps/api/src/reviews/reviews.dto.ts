@@ -11,17 +11,17 @@ export const COMMENT_MAX = 4000;
 export class RequestChangesBody {
   @Transform(trim)
   @IsDefined({ message: 'note is required' })
-  @IsString({ message: 'note must be a string' })
   @IsNotEmpty({ message: 'note must not be empty' })
   @MaxLength(NOTE_MAX, { message: `note must be at most ${NOTE_MAX} characters` })
+  @IsString({ message: 'note must be a string' })
   note: string;
 }
 
 export class OptionalNoteBody {
   @OptionalNotNull()
   @Transform(trim)
-  @IsString({ message: 'note must be a string' })
   @MaxLength(NOTE_MAX, { message: `note must be at most ${NOTE_MAX} characters` })
+  @IsString({ message: 'note must be a string' })
   note?: string;
 }
 
@@ -33,23 +33,23 @@ export class ApproveBody extends OptionalNoteBody {
 }
 
 export class PinBody {
-  @IsNumber({}, { message: 'x must be a number from 0 to 1' })
   @Min(0, { message: 'x must be a number from 0 to 1' })
   @Max(1, { message: 'x must be a number from 0 to 1' })
+  @IsNumber({}, { message: 'x must be a number from 0 to 1' })
   x: number;
 
-  @IsNumber({}, { message: 'y must be a number from 0 to 1' })
   @Min(0, { message: 'y must be a number from 0 to 1' })
   @Max(1, { message: 'y must be a number from 0 to 1' })
+  @IsNumber({}, { message: 'y must be a number from 0 to 1' })
   y: number;
 }
 
 export class CommentBody {
   @Transform(trim)
   @IsDefined({ message: 'body is required' })
-  @IsString({ message: 'body must be a string' })
   @IsNotEmpty({ message: 'body must not be empty' })
   @MaxLength(COMMENT_MAX, { message: `body must be at most ${COMMENT_MAX} characters` })
+  @IsString({ message: 'body must be a string' })
   body: string;
 
   @OptionalNotNull()

@@ -1,7 +1,7 @@
 import { BadRequestException, ConflictException, ForbiddenException, NotFoundException } from '@nestjs/common';
 import type { FigureStatus, MailNoticeJob, UserDto } from '@psiform/contracts';
-import { type FigureEntity, type FigureVersionEntity, type NewAuditEntry, ReviewsStore, type HouseRules, type ReviewTx, type ReviewRoundEntity, type CommentEntity } from '@psiform/server';
-import type { MembershipService } from '../publications/membership.service';
+import { type FigureEntity, type FigureVersionEntity, type NewAuditEntry, ReviewsStore, type HouseRules, type ReviewTx, type ReviewRoundEntity, type CommentEntity, type PublicationsStore } from '@psiform/server';
+import { MembershipService } from '../publications/membership.service';
 import type { DeliveryProfilesService } from '../delivery-profiles/delivery-profiles.service';
 import type { NoticesService } from '../mail-notices/notices.service';
 import { ReviewsService } from './reviews.service';
@@ -90,7 +90,11 @@ function setup(members = ['ill', 'ed', 'ad'], failures: string[] = []) {
   const preflight = { figureId: 'f', versionNumber: 1, reports: [], failures, blocksApproval: failures.length > 0 };
   const store = new FakeStore();
   const sent: MailNoticeJob[] = [];
-  const membership = { canAccess: async (u: { id: string; role: string }) => u.role === 'admin' || members.includes(u.id) } as unknown as MembershipService;
+  // The real access rules over a fake membership list: every publication exists, these users belong to it.
+  const membership = new MembershipService({
+    findById: async (id: string) => ({ id, publisher: 'P' }),
+    isMember: async (_p: string, userId: string) => members.includes(userId),
+  } as unknown as PublicationsStore);
   const notices = { send: async (m: MailNoticeJob) => (sent.push(m), true), proofUrl: (id: string) => `https://figures.example.org/figures/${id}/proof` } as unknown as NoticesService;
   return { store, sent, svc: new ReviewsService(store, membership, notices, { preflightOf: async () => preflight } as unknown as DeliveryProfilesService) };
 }

@@ -1,6 +1,6 @@
 import { BadRequestException, ConflictException, ForbiddenException, Injectable, NotFoundException } from '@nestjs/common';
 import type { CommentDto, DeskState, FigureStatus, ReviewAction, ReviewDeskItemDto, ReviewTransitionDto, UserDto } from '@psiform/contracts';
-import { MembershipService } from '../publications/membership.service';
+import { MembershipService, guarded } from '../publications/membership.service';
 import { NoticesService } from '../mail-notices/notices.service';
 import { approvedNotice, changesRequestedNotice, submittedNotice, type NoticeFigure } from '../mail-notices/compose';
 import { type FigureEntity, ReviewsStore, type ReviewTx, approvalOutcome, assertTransition, isEditable, TransitionConflict, type ApprovalPart, type CommentEntity } from '@psiform/server';
@@ -38,7 +38,7 @@ export class ReviewsService {
 
   async submit(user: Caller, id: string): Promise<ReviewTransitionDto> {
     const figure = await this.requireFigure(user, id);
-    if (user.role !== 'admin' && figure.ownerId !== user.id) throw new ForbiddenException("only the figure's owner (or an admin) may submit it for review");
+    await this.membership.authorize(user, 'figure.submit', guarded.figure(figure));
     const r = await this.step(id, 'submit', async (tx, from) => {
       await tx.lockVersion();
       await tx.startRound(user.id);

@@ -6,7 +6,8 @@ import { SwatchbooksService } from './swatchbooks.service';
 /**
  * House style on figure writes (POST /api/figures, PATCH /api/figures/:id of the figures feature): where the
  * publication pins a swatchbook without allowOverride, the recipe's palette (and background colour, unless
- * transparent) is replaced by the pinned swatchbook's before validation. Matches FiguresController by name;
+ * transparent) is replaced by the pinned swatchbook's before validation. Otherwise a swatchbook the recipe names
+ * must belong to the figure's publication (or its publisher), or the write answers 400 naming the field. Matches FiguresController by name;
  * callers who cannot see the publication pass through untouched so the figures feature answers 404.
  */
 @Injectable()
@@ -28,7 +29,12 @@ export class HousePaletteInterceptor implements NestInterceptor {
     if (typeof publicationId !== 'string' || !/^[0-9a-f-]{36}$/i.test(publicationId)) return;
     if (!(await this.swatchbooks.canAccess(user, publicationId))) return;
     const pinned = await this.swatchbooks.enforcedPalette(publicationId);
-    if (!pinned) return;
+    if (!pinned) {
+      // No pinned palette: a recipe may still name a swatchbook, but only one of this publication (or its publisher).
+      const named = (recipe.palette as { swatchbookId?: unknown } | undefined)?.swatchbookId;
+      if (typeof named === 'string') await this.swatchbooks.requireUsableIn(publicationId, named);
+      return;
+    }
     const palette = recipe.palette && typeof recipe.palette === 'object' ? (recipe.palette as Record<string, unknown>) : {};
     recipe.palette = { ...palette, swatchbookId: pinned.swatchbookId, positive: pinned.positive, negative: pinned.negative };
     const stage = recipe.stage && typeof recipe.stage === 'object' ? (recipe.stage as Record<string, unknown>) : {};

@@ -1,13 +1,13 @@
-import { Body, Controller, Get, HttpCode, Param, Patch, Post, Put, Res } from '@nestjs/common';
+import { Body, Controller, Get, HttpCode, Param, Patch, Post, Put, Query, Res } from '@nestjs/common';
 import type { Response } from 'express';
 import type { BatchDto, HouseStyleDto, SwatchbookCheckDto, SwatchbookDto, SwatchbookVersionDto, UserDto } from '@psiform/contracts';
 import { CurrentUser, Roles } from '../auth/auth.decorators';
 import { uuidParam } from '../common/uuid-param.pipe';
-import { CreateSwatchbookBody, HouseStyleBody, ImportSwatchbookBody, UpdateSwatchbookBody } from './swatchbooks.dto';
+import { CreateSwatchbookBody, HouseStyleBody, ImportSwatchbookBody, ListSwatchbooksQuery, UpdateSwatchbookBody } from './swatchbooks.dto';
 import { SwatchbooksService } from './swatchbooks.service';
 import { RerenderService } from './rerender.service';
 
-/** Art directors (and admins) own swatchbooks; every signed-in user reads them. */
+/** Swatchbooks belong to a publication (or a publisher): members read them, its art directors (and admins) write. */
 @Controller('swatchbooks')
 export class SwatchbooksController {
   constructor(private readonly swatchbooks: SwatchbooksService) {}
@@ -21,17 +21,18 @@ export class SwatchbooksController {
   @Post('import')
   @Roles('art_director', 'admin')
   import(@CurrentUser() user: UserDto, @Body() body: ImportSwatchbookBody): Promise<SwatchbookDto> {
-    return this.swatchbooks.import(user, body);
+    return this.swatchbooks.import(user, { ...body });
   }
 
+  /** The swatchbooks of the caller's publications (and their publishers); ?publicationId= those usable there. */
   @Get()
-  list(): Promise<SwatchbookDto[]> {
-    return this.swatchbooks.list();
+  list(@CurrentUser() user: UserDto, @Query() query: ListSwatchbooksQuery): Promise<SwatchbookDto[]> {
+    return this.swatchbooks.list(user, query.publicationId);
   }
 
   @Get(':id')
-  get(@Param('id', uuidParam('id')) id: string): Promise<SwatchbookDto> {
-    return this.swatchbooks.get(id);
+  get(@CurrentUser() user: UserDto, @Param('id', uuidParam('id')) id: string): Promise<SwatchbookDto> {
+    return this.swatchbooks.get(user, id);
   }
 
   @Patch(':id')
@@ -55,19 +56,19 @@ export class SwatchbooksController {
   }
 
   @Get(':id/versions')
-  versions(@Param('id', uuidParam('id')) id: string): Promise<SwatchbookVersionDto[]> {
-    return this.swatchbooks.versions(id);
+  versions(@CurrentUser() user: UserDto, @Param('id', uuidParam('id')) id: string): Promise<SwatchbookVersionDto[]> {
+    return this.swatchbooks.versions(user, id);
   }
 
   @Get(':id/checks')
-  checks(@Param('id', uuidParam('id')) id: string): Promise<SwatchbookCheckDto> {
-    return this.swatchbooks.checks(id);
+  checks(@CurrentUser() user: UserDto, @Param('id', uuidParam('id')) id: string): Promise<SwatchbookCheckDto> {
+    return this.swatchbooks.checks(user, id);
   }
 
   /** The swatchbook as a JSON file (POST /api/swatchbooks/import takes it back). */
   @Get(':id/export')
-  async export(@Param('id', uuidParam('id')) id: string, @Res({ passthrough: true }) res: Response): Promise<unknown> {
-    const file = await this.swatchbooks.exportFile(id);
+  async export(@CurrentUser() user: UserDto, @Param('id', uuidParam('id')) id: string, @Res({ passthrough: true }) res: Response): Promise<unknown> {
+    const file = await this.swatchbooks.exportFile(user, id);
     const safe = file.name.replace(/[^A-Za-z0-9._-]+/g, '-').replace(/^-+|-+$/g, '') || 'swatchbook';
     res.setHeader('Content-Disposition', `attachment; filename="${safe}.swatchbook.json"`);
     return file;

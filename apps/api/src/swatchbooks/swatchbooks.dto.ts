@@ -1,4 +1,4 @@
-import { IsBoolean, IsDefined, IsOptional, IsUUID } from 'class-validator';
+import { IsBoolean, IsDefined, IsOptional, IsString, IsUUID, MaxLength } from 'class-validator';
 import { OptionalNotNull } from '../common/validation';
 
 /** Colours and names are checked by swatchbook-input.ts (messages name colors.<swatch>). */
@@ -8,6 +8,16 @@ export class CreateSwatchbookBody {
 
   @IsDefined({ message: 'colors is required' })
   colors: unknown;
+
+  /** The publication it belongs to; or `publisher` instead, for every publication of that publisher. */
+  @OptionalNotNull()
+  @IsUUID('all', { message: 'publicationId must be a UUID' })
+  publicationId?: string;
+
+  @OptionalNotNull()
+  @MaxLength(200, { message: 'publisher must be at most 200 characters' })
+  @IsString({ message: 'publisher must be a string' })
+  publisher?: string;
 }
 
 export class UpdateSwatchbookBody {
@@ -34,6 +44,22 @@ export class ImportSwatchbookBody {
 
   @IsOptional() // informative only; the service ignores it
   exportedAt?: unknown;
+
+  /** The publication it belongs to; or `publisher` instead, for every publication of that publisher. */
+  @OptionalNotNull()
+  @IsUUID('all', { message: 'publicationId must be a UUID' })
+  publicationId?: string;
+
+  @OptionalNotNull()
+  @MaxLength(200, { message: 'publisher must be at most 200 characters' })
+  @IsString({ message: 'publisher must be a string' })
+  publisher?: string;
+}
+
+export class ListSwatchbooksQuery {
+  @OptionalNotNull()
+  @IsUUID('all', { message: 'publicationId must be a UUID' })
+  publicationId?: string;
 }
 
 export class HouseStyleBody {

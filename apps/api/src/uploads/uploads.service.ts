@@ -10,6 +10,7 @@ import { FiguresService } from '../figures/figures.service';
 import { FIGURE_TITLE_MAX } from '../figures/figures.dto';
 import { validateRecipe } from '../figures/recipe-input';
 import { inputProblems } from '../common/input/input-rules';
+import { dependencyError } from '../common/http-error.filter';
 
 type Caller = Pick<UserDto, 'id' | 'role'>;
 type Sidecar = ReturnType<typeof parseSidecar>;
@@ -27,6 +28,8 @@ const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
 
 function toHttp(err: unknown): HttpException {
   if (err instanceof HttpException) return err;
+  const unavailable = dependencyError(err); // storage or database not answering: 503, not the client's fault
+  if (unavailable) return unavailable;
   if (err instanceof UploadRejected) return err.status === 413 ? new PayloadTooLargeException(err.message) : new BadRequestException(err.message);
   return new BadRequestException(`upload failed: ${(err as Error).message}`);
 }
@@ -109,14 +112,17 @@ export class UploadsService {
         settled = true;
         const received = work ? await work.catch((e) => (fail(e), undefined)) : undefined;
         if (!work && failure === undefined) fail(new BadRequestException('cube: the file part is missing'));
+        let outcome: { ok: UploadResponse } | { err: unknown };
         try {
           if (failure !== undefined) throw failure;
-          resolve(await this.persist(user, received!));
+          outcome = { ok: await this.persist(user, received!) };
         } catch (err) {
-          reject(toHttp(err));
-        } finally {
-          if (received) await this.storage.delete(received.tempKey).catch(() => undefined);
+          outcome = { err };
         }
+        // The temporary object goes before the answer, so a client that sees the answer sees no leftovers.
+        if (received) await this.storage.delete(received.tempKey).catch(() => undefined);
+        if ('ok' in outcome) resolve(outcome.ok);
+        else reject(toHttp(outcome.err));
       };
       bb.on('error', (err: Error) => {
         fail(new BadRequestException(`malformed multipart request: ${err.message}`));

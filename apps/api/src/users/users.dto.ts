@@ -24,19 +24,19 @@ const ROLE_MESSAGE = `role must be one of: ${ROLES.join(', ')}`;
 
 export class CreateUserBody implements CreateUserRequest {
   @Transform(trimLower)
-  @IsEmail({}, { message: 'email must be a valid email address' })
   @MaxLength(320, { message: 'email must be at most 320 characters' })
+  @IsEmail({}, { message: 'email must be a valid email address' })
   email: string;
 
   @Transform(trim)
-  @IsString({ message: 'displayName must be a string' })
   @IsNotEmpty({ message: 'displayName must not be empty' })
   @MaxLength(120, { message: 'displayName must be at most 120 characters' })
+  @IsString({ message: 'displayName must be a string' })
   displayName: string;
 
-  @IsString({ message: 'password must be a string' })
   @MinLength(MIN_PASSWORD_LENGTH, { message: `password must be at least ${MIN_PASSWORD_LENGTH} characters` })
   @MaxUtf8Bytes(MAX_PASSWORD_BYTES)
+  @IsString({ message: 'password must be a string' })
   password: string;
 
   @IsIn(ROLES as readonly string[], { message: ROLE_MESSAGE })

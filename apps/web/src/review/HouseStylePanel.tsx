@@ -47,7 +47,7 @@ export function HouseStylePanel({ publicationId }: { publicationId: string }) {
   const queryClient = useQueryClient();
   const house = useHouseStyle(publicationId);
   const canEdit = user?.role === 'art_director';
-  const books = useSwatchbooks();
+  const books = useSwatchbooks(publicationId); // only this publication's (and its publisher's) may be pinned
   const [swatchbookId, setSwatchbookId] = useState('');
   const [requireColourSignOff, setRequire] = useState(false);
   const [allowOverride, setOverride] = useState(false);

@@ -7,8 +7,8 @@ import { batchFraction } from './BatchProgress';
 
 const HOUSE: HouseStyleDto = { publicationId: 'p1', swatchbookId: 's1', swatchbookName: 'Quillmere plates', requireColourSignOff: false, allowOverride: false, updatedAt: '2025-01-01T00:00:00Z' };
 const BOOKS = [
-  { id: 's1', name: 'Quillmere plates', ownerId: 'u', colors: { positive: '#c8553d', negative: '#2f6690', background: '#ffffff', label: '#222222' }, locked: true, version: 4, createdAt: '', updatedAt: '' },
-  { id: 's2', name: 'Fenwright journal', ownerId: 'u', colors: { positive: '#b5452f', negative: '#2f6690', background: '#ffffff', label: '#222222' }, locked: false, version: 1, createdAt: '', updatedAt: '' },
+  { id: 's1', name: 'Quillmere plates', ownerId: 'u', publicationId: 'p1', publisher: null, colors: { positive: '#c8553d', negative: '#2f6690', background: '#ffffff', label: '#222222' }, locked: true, version: 4, createdAt: '', updatedAt: '' },
+  { id: 's2', name: 'Fenwright journal', ownerId: 'u', publicationId: 'p1', publisher: null, colors: { positive: '#b5452f', negative: '#2f6690', background: '#ffffff', label: '#222222' }, locked: false, version: 1, createdAt: '', updatedAt: '' },
 ];
 
 function batch(completed: number, o: Partial<BatchDto> = {}): BatchDto {

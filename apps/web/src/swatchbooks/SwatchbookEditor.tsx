@@ -52,7 +52,7 @@ function serverProblems(err: unknown): string[] {
  * Create or edit a swatchbook. Every check is recomputed in the browser (@psiform/colour) on each change,
  * so the art director sees the consequence of a colour before saving. Read-only when locked or not allowed.
  */
-export function SwatchbookEditor({ existing, canEdit }: { existing?: SwatchbookDto; canEdit: boolean }) {
+export function SwatchbookEditor({ existing, canEdit, publicationId }: { existing?: SwatchbookDto; canEdit: boolean; publicationId?: string }) {
   const api = useApi();
   const queryClient = useQueryClient();
   const navigate = useNavigate();
@@ -66,7 +66,7 @@ export function SwatchbookEditor({ existing, canEdit }: { existing?: SwatchbookD
   const dirty = !existing || name.trim() !== existing.name || !sameColours(colours, existing.colors);
 
   const save = useMutation({
-    mutationFn: () => (existing ? updateSwatchbook(api, existing.id, { name: name.trim(), colors: colours }) : createSwatchbook(api, { name: name.trim(), colors: colours })),
+    mutationFn: () => (existing ? updateSwatchbook(api, existing.id, { name: name.trim(), colors: colours }) : createSwatchbook(api, { name: name.trim(), colors: colours, publicationId: publicationId! })),
     onSuccess: (sb) => {
       queryClient.setQueryData(['swatchbook', sb.id], sb);
       void queryClient.invalidateQueries({ queryKey: ['swatchbooks'] });
@@ -92,7 +92,7 @@ export function SwatchbookEditor({ existing, canEdit }: { existing?: SwatchbookD
     setColours((c) => ({ ...c, wheel: { ...(c.wheel ?? DEFAULT_WHEEL), [part]: v } }));
   }
 
-  const canSave = !readOnly && dirty && name.trim() !== '' && check !== null;
+  const canSave = !readOnly && dirty && name.trim() !== '' && check !== null && (Boolean(existing) || Boolean(publicationId));
 
   return (
     <form

@@ -1,5 +1,5 @@
 import { useRef, useState } from 'react';
-import { Button, Callout, HTMLTable, NonIdealState, Spinner, Tag } from '@blueprintjs/core';
+import { Button, Callout, HTMLSelect, HTMLTable, NonIdealState, Spinner, Tag } from '@blueprintjs/core';
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { Link, useNavigate } from 'react-router-dom';
 import type { SwatchbookColorsDto, SwatchbookDto } from '@psiform/contracts';
@@ -9,6 +9,7 @@ import { formatDate } from '../figures/model';
 import { files } from './fileIo';
 import { SwatchbookEditor } from './SwatchbookEditor';
 import { importSwatchbook, listSwatchbooks } from './swatchbookApi';
+import { usePublications } from '../figures/usePublications';
 
 export function Chips({ colors }: { colors: SwatchbookColorsDto }) {
   const list = [colors.positive, colors.negative, colors.background, colors.label, colors.nucleus, colors.axes].filter(Boolean) as string[];
@@ -21,20 +22,21 @@ export function Chips({ colors }: { colors: SwatchbookColorsDto }) {
   );
 }
 
-export function useSwatchbooks() {
+/** The caller's swatchbooks; with publicationId only those usable in that publication (its own and its publisher's). */
+export function useSwatchbooks(publicationId?: string) {
   const api = useApi();
-  return useQuery({ queryKey: ['swatchbooks'], queryFn: ({ signal }) => listSwatchbooks(api, signal) });
+  return useQuery({ queryKey: ['swatchbooks', publicationId ?? 'all'], queryFn: ({ signal }) => listSwatchbooks(api, signal, publicationId) });
 }
 
 /** Reads a chosen JSON file and hands it to POST /api/swatchbooks/import; the server validates it. */
-function ImportButton() {
+function ImportButton({ publicationId }: { publicationId: string | undefined }) {
   const api = useApi();
   const queryClient = useQueryClient();
   const navigate = useNavigate();
   const input = useRef<HTMLInputElement>(null);
   const [readError, setReadError] = useState<string | null>(null);
   const imp = useMutation({
-    mutationFn: (doc: unknown) => importSwatchbook(api, doc),
+    mutationFn: (doc: unknown) => importSwatchbook(api, doc, publicationId!),
     onSuccess: (sb: SwatchbookDto) => {
       void queryClient.invalidateQueries({ queryKey: ['swatchbooks'] });
       navigate(`/swatchbooks/${encodeURIComponent(sb.id)}`);
@@ -66,7 +68,7 @@ function ImportButton() {
         }}
         data-testid="sw-import-file"
       />
-      <Button icon="import" text="Import JSON" onClick={() => input.current?.click()} loading={imp.isPending} data-testid="sw-import" />
+      <Button icon="import" text="Import JSON" onClick={() => input.current?.click()} loading={imp.isPending} disabled={!publicationId} data-testid="sw-import" />
       {(readError || imp.isError) && (
         <Callout intent="danger" className="pf-gap" data-testid="sw-import-error">
           Not imported: {readError ?? describeError(imp.error)}
@@ -81,6 +83,11 @@ export function SwatchbooksPage() {
   const books = useSwatchbooks();
   const [creating, setCreating] = useState(false);
   const canEdit = user?.role === 'art_director';
+  // A swatchbook belongs to one publication: new and imported ones go to the one chosen here.
+  const publications = usePublications();
+  const [chosen, setChosen] = useState<string | undefined>();
+  const owner = chosen ?? publications.data?.[0]?.id;
+  const titleOf = (id: string | null) => publications.data?.find((p) => p.id === id)?.title;
 
   return (
     <div className="pf-page pf-page-wide" data-testid="swatchbooks-page">
@@ -91,7 +98,16 @@ export function SwatchbooksPage() {
         </div>
         {canEdit && (
           <div className="pf-head-actions">
-            <ImportButton />
+            {(publications.data?.length ?? 0) > 1 && (
+              <HTMLSelect aria-label="Publication for new swatchbooks" value={owner} onChange={(e) => setChosen(e.currentTarget.value)} data-testid="sw-publication">
+                {publications.data!.map((p) => (
+                  <option key={p.id} value={p.id}>
+                    {p.title}
+                  </option>
+                ))}
+              </HTMLSelect>
+            )}
+            <ImportButton publicationId={owner} />
             <Button intent="primary" icon="plus" text="New swatchbook" onClick={() => setCreating(true)} disabled={creating} data-testid="sw-new" />
           </div>
         )}
@@ -103,7 +119,7 @@ export function SwatchbooksPage() {
             <h2>New swatchbook</h2>
             <Button variant="minimal" text="Cancel" onClick={() => setCreating(false)} />
           </div>
-          <SwatchbookEditor canEdit={canEdit} />
+          <SwatchbookEditor canEdit={canEdit} publicationId={owner} />
         </section>
       )}
 
@@ -128,6 +144,7 @@ export function SwatchbooksPage() {
           <thead>
             <tr>
               <th>Name</th>
+              <th>Belongs to</th>
               <th>Colours</th>
               <th>Version</th>
               <th>State</th>
@@ -142,6 +159,7 @@ export function SwatchbooksPage() {
                     {b.name}
                   </Link>
                 </td>
+                <td data-testid="swatchbook-scope">{b.publisher ? `all of ${b.publisher}` : (titleOf(b.publicationId) ?? 'a publication')}</td>
                 <td>
                   <Chips colors={b.colors} />
                 </td>

@@ -4,9 +4,12 @@ import type { ApiClient } from '../api/client';
 const enc = encodeURIComponent;
 const base = '/api/swatchbooks';
 
-export const listSwatchbooks = (api: ApiClient, signal?: AbortSignal) => api.request<SwatchbookDto[]>(base, { signal });
+/** The caller's swatchbooks; with publicationId, those a figure or house style of that publication may use. */
+export const listSwatchbooks = (api: ApiClient, signal?: AbortSignal, publicationId?: string) =>
+  api.request<SwatchbookDto[]>(publicationId ? `${base}?publicationId=${enc(publicationId)}` : base, { signal });
 export const getSwatchbook = (api: ApiClient, id: string, signal?: AbortSignal) => api.request<SwatchbookDto>(`${base}/${enc(id)}`, { signal });
-export const createSwatchbook = (api: ApiClient, body: { name: string; colors: SwatchbookColorsDto }) =>
+/** A new swatchbook belongs to one publication (the server refuses one without it). */
+export const createSwatchbook = (api: ApiClient, body: { name: string; colors: SwatchbookColorsDto; publicationId: string }) =>
   api.request<SwatchbookDto>(base, { method: 'POST', body });
 export const updateSwatchbook = (api: ApiClient, id: string, body: { name?: string; colors?: SwatchbookColorsDto }) =>
   api.request<SwatchbookDto>(`${base}/${enc(id)}`, { method: 'PATCH', body });
@@ -15,6 +18,7 @@ export const setSwatchbookLocked = (api: ApiClient, id: string, locked: boolean)
 export const swatchbookVersions = (api: ApiClient, id: string, signal?: AbortSignal) =>
   api.request<SwatchbookVersionDto[]>(`${base}/${enc(id)}/versions`, { signal });
 export const exportSwatchbook = (api: ApiClient, id: string) => api.request<SwatchbookFile>(`${base}/${enc(id)}/export`);
-export const importSwatchbook = (api: ApiClient, file: unknown) => api.request<SwatchbookDto>(`${base}/import`, { method: 'POST', body: file });
+export const importSwatchbook = (api: ApiClient, file: unknown, publicationId: string) =>
+  api.request<SwatchbookDto>(`${base}/import`, { method: 'POST', body: { ...(file as object), publicationId } });
 export const swatchbookChecks = (api: ApiClient, id: string, signal?: AbortSignal) =>
   api.request<SwatchbookCheckDto>(`${base}/${enc(id)}/checks`, { signal });

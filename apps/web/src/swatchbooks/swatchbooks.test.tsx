@@ -10,6 +10,8 @@ function book(o: Partial<SwatchbookDto> = {}): SwatchbookDto {
     id: 's1',
     name: 'Quillmere plates',
     ownerId: 'u-art_director',
+    publicationId: 'p1',
+    publisher: null,
     colors: { positive: '#c8553d', negative: '#2f6690', background: '#ffffff', label: '#222222', wheel: { lightness: 0.7, chroma: 0.11 } },
     locked: false,
     version: 3,
@@ -209,6 +211,7 @@ describe('swatchbook files', () => {
     const doc = { format: 'psiform-swatchbook', formatVersion: 1, name: 'Imported', colors: book().colors };
     await ue.upload(input, new File([JSON.stringify(doc)], 'ok.json', { type: 'application/json' }));
     await waitFor(() => expect(screen.getByTestId('location').textContent).toBe('/swatchbooks/s5'));
-    expect(api.callsTo('POST', '/api/swatchbooks/import')[0].body).toEqual(doc);
+    // The file goes to the server as read, plus the publication the new swatchbook belongs to (the user's first).
+    expect(api.callsTo('POST', '/api/swatchbooks/import')[0].body).toEqual({ ...doc, publicationId: 'p1' });
   });
 });

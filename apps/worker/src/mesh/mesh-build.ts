@@ -2,6 +2,7 @@ import { UnrecoverableError } from 'bullmq';
 import type { Recipe } from '@psiform/contracts';
 import { AssetStore, CONTENT_TYPES, ObjectStorage, meshKey, type MeshStage, type NewAsset } from '@psiform/server';
 import { MODEL_NOTE } from '@psiform/meshing';
+import { SamplingBufferPool, type SamplingBuffers } from '@psiform/orbitals/node';
 import { cubeFromNrrd, encode, extract, gridLabel, nodalSurface, sampleComputed, surfaceStats, threshold, type Field, type Surface } from './mesh-pipeline';
 
 export interface MeshBuildInput {
@@ -20,6 +21,14 @@ export interface MeshBuild {
   timings: Record<string, number>;
 }
 
+/**
+ * Sampling buffers reused by every mesh build of this process (issue "Stays up and stays scoped": a worker's RSS grew
+ * by about 200 MB per 384³ job because each job's fresh SharedArrayBuffer stayed reachable from the idle sampling
+ * threads). A set is made only when every existing one is in use, so the pool holds one set per job that ever ran at
+ * the same time (the worker's concurrency), each the size of the largest grid seen; 64 is only a ceiling.
+ */
+const samplingBuffers = new SamplingBufferPool(64);
+
 const ms = (t0: number) => Math.round((performance.now() - t0) * 10) / 10;
 
 /**
@@ -32,13 +41,24 @@ export async function buildMesh(
   input: MeshBuildInput,
   stage: (s: Exclude<MeshStage, 'queued' | 'done'>) => Promise<void>,
 ): Promise<MeshBuild> {
+  if (input.recipe.source?.kind === 'upload') return buildMeshWith(deps, input, stage, undefined);
+  // The field is a view into the buffers until the meshes are encoded: hold them for the whole build.
+  return samplingBuffers.with((into) => buildMeshWith(deps, input, stage, into));
+}
+
+async function buildMeshWith(
+  deps: { assets: AssetStore; storage: ObjectStorage; engineVersion: string },
+  input: MeshBuildInput,
+  stage: (s: Exclude<MeshStage, 'queued' | 'done'>) => Promise<void>,
+  into: SamplingBuffers | undefined,
+): Promise<MeshBuild> {
   const { recipe, version, publicationId } = input;
   const timings: Record<string, number> = {};
   const total = performance.now();
 
   await stage('sampling');
   let t0 = performance.now();
-  const field = await sampleField(deps, recipe);
+  const field = await sampleField(deps, recipe, into);
   timings.sample = ms(t0);
 
   await stage('threshold');
@@ -86,7 +106,7 @@ export async function buildMesh(
   return { assets: out, files, surfaces, stats: statsJson, timings };
 }
 
-async function sampleField(deps: { assets: AssetStore; storage: ObjectStorage }, recipe: Recipe): Promise<Field> {
+async function sampleField(deps: { assets: AssetStore; storage: ObjectStorage }, recipe: Recipe, into: SamplingBuffers | undefined): Promise<Field> {
   const src = recipe.source;
   if (src?.kind === 'upload') {
     const asset = await deps.assets.findById(src.assetId);
@@ -94,5 +114,5 @@ async function sampleField(deps: { assets: AssetStore; storage: ObjectStorage },
     if (asset.sha256 !== src.sha256) throw new UnrecoverableError('uploaded cube does not match the recipe (sha256)');
     return cubeFromNrrd(await deps.storage.get(asset.storageKey), src);
   }
-  return sampleComputed(recipe);
+  return sampleComputed(recipe, { into });
 }

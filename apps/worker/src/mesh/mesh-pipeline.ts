@@ -8,7 +8,7 @@ import {
   type CompiledState,
   type OrbitalState,
 } from '@psiform/orbitals';
-import { sampleGridParallel } from '@psiform/orbitals/node';
+import { sampleGridParallel, type SamplingBuffers } from '@psiform/orbitals/node';
 import {
   encodeGlb,
   encodeStl,
@@ -57,8 +57,11 @@ export function gridLabel(recipe: Recipe): string {
   return recipe.source?.kind === 'upload' ? recipe.source.sizes.join('x') : String(recipe.grid.n);
 }
 
-/** Samples psi for a computed recipe on worker threads (@psiform/orbitals/node). */
-export async function sampleComputed(recipe: Recipe, opts: { threads?: number } = {}): Promise<Field> {
+/**
+ * Samples psi for a computed recipe on worker threads (@psiform/orbitals/node); `into` reuses output buffers across
+ * jobs (the field's arrays are views into them, so they must stay with this job until it is done).
+ */
+export async function sampleComputed(recipe: Recipe, opts: { threads?: number; into?: SamplingBuffers } = {}): Promise<Field> {
   const state = stateOf(recipe);
   const compiled = compileState(state);
   const n = recipe.grid.n;

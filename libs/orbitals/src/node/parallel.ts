@@ -86,7 +86,7 @@ function release(pw: PoolWorker): void {
  * Samples psi on the grid with `threads` worker threads (default: available cores, at most 16).
  * Same values as compileState(state).sampleGrid(grid, ...), bit for bit.
  */
-export async function sampleGridParallel(state: OrbitalState, grid: GridSpec, opts: { threads?: number } = {}): Promise<ParallelResult> {
+export async function sampleGridParallel(state: OrbitalState, grid: GridSpec, opts: { threads?: number; into?: SamplingBuffers } = {}): Promise<ParallelResult> {
   assertState(state);
   assertGridSpec(grid);
   const n = grid.n;
@@ -94,11 +94,12 @@ export async function sampleGridParallel(state: OrbitalState, grid: GridSpec, op
   if (!Number.isInteger(threads)) throw new RangeError(`threads must be a positive integer, got ${String(opts.threads)}`);
   const real = isRealState(state);
   const count = n * n * n;
-  const reBuf = new SharedArrayBuffer(count * 4);
-  const imBuf = real ? null : new SharedArrayBuffer(count * 4);
+  const reBuf = opts.into ? opts.into.reserve(count, real).re : new SharedArrayBuffer(count * 4);
+  const imBuf = opts.into ? opts.into.reserve(count, real).im : real ? null : new SharedArrayBuffer(count * 4);
+  const view = (b: SharedArrayBuffer) => new Float32Array(b, 0, count);
   if (threads === 1) {
-    compileState(state).sampleGrid(grid, new Float32Array(reBuf), imBuf ? new Float32Array(imBuf) : null);
-    return { re: new Float32Array(reBuf), im: imBuf ? new Float32Array(imBuf) : null };
+    compileState(state).sampleGrid(grid, view(reBuf), imBuf ? view(imBuf) : null);
+    return { re: view(reBuf), im: imBuf ? view(imBuf) : null };
   }
   while (pool.length < threads) spawn();
   const plain: OrbitalState = { Z: state.Z, terms: state.terms.map((t) => ({ ...t })) };
@@ -113,12 +114,76 @@ export async function sampleGridParallel(state: OrbitalState, grid: GridSpec, op
     jobs.push(
       new Promise<void>((resolve, reject) => {
         pending.set(id, { resolve, reject, pw });
-        pw.worker.postMessage({ id, state: plain, grid: { n: grid.n, extent: grid.extent }, zStart, zEnd, re: reBuf, im: imBuf });
+        pw.worker.postMessage({ id, state: plain, grid: { n: grid.n, extent: grid.extent }, zStart, zEnd, count, re: reBuf, im: imBuf });
       }),
     );
   }
   await Promise.all(jobs);
-  return { re: new Float32Array(reBuf), im: imBuf ? new Float32Array(imBuf) : null };
+  return { re: view(reBuf), im: imBuf ? view(imBuf) : null };
+}
+
+/**
+ * Output buffers that sampleGridParallel fills again and again instead of allocating new ones per call. Why: a
+ * SharedArrayBuffer handed to the sampling threads stays alive until each thread's own garbage collector runs, and
+ * idle threads hardly ever collect, so a fresh n³ buffer per job was kept for good (a worker grew by about 200 MB
+ * per 384³ job). Reusing one pair keeps the threads pointing at the same memory. Grow-only: a larger grid replaces
+ * the pair once; smaller grids use its beginning. One SamplingBuffers serves one job at a time (see SamplingBufferPool).
+ */
+export class SamplingBuffers {
+  private re: SharedArrayBuffer | null = null;
+  private im: SharedArrayBuffer | null = null;
+
+  /** Buffers of at least `count` float32 values (im only for complex states); contents are overwritten by sampling. */
+  reserve(count: number, real: boolean): { re: SharedArrayBuffer; im: SharedArrayBuffer | null } {
+    if (!this.re || this.re.byteLength < count * 4) this.re = new SharedArrayBuffer(count * 4);
+    if (!real && (!this.im || this.im.byteLength < count * 4)) this.im = new SharedArrayBuffer(count * 4);
+    return { re: this.re, im: real ? null : this.im };
+  }
+
+  /** Bytes held (for reports). */
+  get bytes(): number {
+    return (this.re?.byteLength ?? 0) + (this.im?.byteLength ?? 0);
+  }
+}
+
+/**
+ * At most `size` SamplingBuffers, one per job running at the same time (a worker's concurrency). A job beyond that
+ * waits for one to be released, so memory is bounded by size × (the largest grid's buffers).
+ */
+export class SamplingBufferPool {
+  private readonly free: SamplingBuffers[] = [];
+  private created = 0;
+  private readonly waiting: Array<(b: SamplingBuffers) => void> = [];
+
+  constructor(readonly size: number) {
+    if (!Number.isInteger(size) || size < 1) throw new RangeError(`pool size must be a positive integer, got ${String(size)}`);
+  }
+
+  async acquire(): Promise<SamplingBuffers> {
+    const b = this.free.pop();
+    if (b) return b;
+    if (this.created < this.size) {
+      this.created++;
+      return new SamplingBuffers();
+    }
+    return new Promise((resolve) => this.waiting.push(resolve));
+  }
+
+  release(b: SamplingBuffers): void {
+    const next = this.waiting.shift();
+    if (next) next(b);
+    else this.free.push(b);
+  }
+
+  /** Runs `fn` with buffers from the pool and gives them back afterwards, whatever happens. */
+  async with<T>(fn: (b: SamplingBuffers) => Promise<T>): Promise<T> {
+    const b = await this.acquire();
+    try {
+      return await fn(b);
+    } finally {
+      this.release(b);
+    }
+  }
 }
 
 /**

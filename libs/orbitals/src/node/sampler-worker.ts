@@ -13,6 +13,8 @@ interface Job {
   grid: GridSpec;
   zStart: number;
   zEnd: number;
+  /** Values in use (n³): the buffers may be larger when they are reused for a smaller grid. */
+  count: number;
   re: SharedArrayBuffer;
   im: SharedArrayBuffer | null;
 }
@@ -40,8 +42,8 @@ if (parentPort) {
   port.on('message', (job: Job) => {
     try {
       const c = compileState(job.state);
-      const re = new Float32Array(job.re);
-      const im = job.im ? new Float32Array(job.im) : null;
+      const re = new Float32Array(job.re, 0, job.count);
+      const im = job.im ? new Float32Array(job.im, 0, job.count) : null;
       c.sampleGrid(job.grid, re, im, job.zStart, job.zEnd);
       port.postMessage({ id: job.id, ok: true });
     } catch (e) {

@@ -30,6 +30,8 @@ describe('loadConfig', () => {
     expect(c.jwt.ttl).toBe('8h');
     expect(c.http).toEqual({ port: 3000, host: '127.0.0.1', webDist: undefined, trustProxy: false, publicBaseUrl: 'http://127.0.0.1:3000' });
     expect(c.uploads.maxBytes).toBe(536870912);
+    expect(c.uploads.orphanAgeSeconds).toBe(21600);
+    expect(c.limits.requestsPerMinute).toBe(1200);
   });
 
   it('PUBLIC_BASE_URL: an http(s) URL without query or fragment, trailing slash dropped; default from HOST and PORT', () => {
@@ -48,6 +50,9 @@ describe('loadConfig', () => {
     expect(loadConfig({ ...good, UPLOAD_MAX_BYTES: '1000' }).uploads.maxBytes).toBe(1000);
     expect(problemsOf({ ...good, UPLOAD_MAX_BYTES: '0' })[0]).toMatch(/^UPLOAD_MAX_BYTES must be an integer/);
     expect(problemsOf({ ...good, UPLOAD_MAX_BYTES: '1.5e6' })[0]).toMatch(/^UPLOAD_MAX_BYTES must be an integer/);
+    expect(loadConfig({ ...good, UPLOAD_ORPHAN_AGE_SECONDS: '60' }).uploads.orphanAgeSeconds).toBe(60);
+    expect(problemsOf({ ...good, UPLOAD_ORPHAN_AGE_SECONDS: '0' })[0]).toMatch(/^UPLOAD_ORPHAN_AGE_SECONDS must be an integer/);
+    expect(problemsOf({ ...good, RATE_LIMIT_PER_MINUTE: '-1' })[0]).toMatch(/^RATE_LIMIT_PER_MINUTE must be an integer/);
   });
 
   it('reads overrides', () => {

@@ -21,8 +21,12 @@ export interface AppConfig {
    * resets); no trailing slash. Default http://HOST:PORT (127.0.0.1 for a wildcard HOST, 3000 for PORT 0).
    */
   http: { port: number; host: string; webDist: string | undefined; trustProxy: TrustProxy; publicBaseUrl: string };
-  /** Largest accepted cube file of POST /api/uploads, in bytes (UPLOAD_MAX_BYTES). */
-  uploads: { maxBytes: number };
+  /**
+   * Largest accepted cube file of POST /api/uploads, in bytes (UPLOAD_MAX_BYTES); orphanAgeSeconds: after how long
+   * the leftovers of an upload whose API process died (temporary objects, unfinished multipart uploads, cubes no
+   * asset refers to) are swept (UPLOAD_ORPHAN_AGE_SECONDS).
+   */
+  uploads: { maxBytes: number; orphanAgeSeconds: number };
   /** requestsPerMinute: general rate limit per signed-in account or client address (RATE_LIMIT_PER_MINUTE; 0 = off). */
   limits: { requestsPerMinute: number };
 }
@@ -44,6 +48,7 @@ export const DEFAULTS = {
   PORT: '3000',
   HOST: '127.0.0.1',
   UPLOAD_MAX_BYTES: '536870912',
+  UPLOAD_ORPHAN_AGE_SECONDS: '21600',
   RATE_LIMIT_PER_MINUTE: '1200',
 } as const;
 
@@ -180,7 +185,10 @@ export function loadConfig(env: Env): AppConfig {
       trustProxy: r.trustProxy('TRUST_PROXY'),
       publicBaseUrl: '',
     },
-    uploads: { maxBytes: r.int('UPLOAD_MAX_BYTES', DEFAULTS.UPLOAD_MAX_BYTES, 1, 17179869184) },
+    uploads: {
+      maxBytes: r.int('UPLOAD_MAX_BYTES', DEFAULTS.UPLOAD_MAX_BYTES, 1, 17179869184),
+      orphanAgeSeconds: r.int('UPLOAD_ORPHAN_AGE_SECONDS', DEFAULTS.UPLOAD_ORPHAN_AGE_SECONDS, 1, 31_536_000),
+    },
     limits: { requestsPerMinute: r.int('RATE_LIMIT_PER_MINUTE', DEFAULTS.RATE_LIMIT_PER_MINUTE, 0, 1_000_000) },
   };
   config.http.publicBaseUrl = r.baseUrl('PUBLIC_BASE_URL', defaultPublicBaseUrl(config.http.host, config.http.port));

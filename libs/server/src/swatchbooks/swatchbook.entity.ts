@@ -13,6 +13,13 @@ export class SwatchbookEntity {
   @Column({ name: 'owner_id', type: 'uuid' })
   ownerId: string;
 
+  /** Where it belongs: one publication, or (publisher set instead) every publication of that publisher. */
+  @Column({ name: 'publication_id', type: 'uuid', nullable: true })
+  publicationId: string | null;
+
+  @Column({ type: 'varchar', length: 200, nullable: true })
+  publisher: string | null;
+
   @Column({ type: 'jsonb' })
   colors: SwatchbookColorsDto;
 
@@ -60,7 +67,7 @@ export class SwatchbookVersionEntity {
 }
 
 export function toSwatchbookDto(s: SwatchbookEntity): SwatchbookDto {
-  return { id: s.id, name: s.name, ownerId: s.ownerId, colors: s.colors, locked: s.locked, version: s.version, createdAt: s.createdAt.toISOString(), updatedAt: s.updatedAt.toISOString() };
+  return { id: s.id, name: s.name, ownerId: s.ownerId, publicationId: s.publicationId, publisher: s.publisher, colors: s.colors, locked: s.locked, version: s.version, createdAt: s.createdAt.toISOString(), updatedAt: s.updatedAt.toISOString() };
 }
 
 export function toSwatchbookVersionDto(v: SwatchbookVersionEntity): SwatchbookVersionDto {

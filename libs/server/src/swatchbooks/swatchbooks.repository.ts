@@ -1,5 +1,5 @@
 import { ConflictException, Injectable } from '@nestjs/common';
-import { DataSource, type EntityManager } from 'typeorm';
+import { DataSource, In, type EntityManager } from 'typeorm';
 import type { FigureStatus, Recipe, SwatchbookColorsDto, SwatchbookVersionDto } from '@psiform/contracts';
 import { FigureEntity } from '../figures/figure.entity';
 import { FigureVersionEntity } from '../figures/figure-version.entity';
@@ -28,11 +28,21 @@ export interface NewRerenderVersion {
   auditNote: string;
 }
 
+/** A new swatchbook and its scope: exactly one of publicationId and publisher is set. */
+export interface NewSwatchbook {
+  name: string;
+  ownerId: string;
+  colors: SwatchbookColorsDto;
+  publicationId: string | null;
+  publisher: string | null;
+}
+
 /** Port for swatchbooks, house styles and batches; TypeormSwatchbooksStore is the only class touching them. */
 export abstract class SwatchbooksStore {
-  abstract create(s: { name: string; ownerId: string; colors: SwatchbookColorsDto }, action: 'create' | 'import'): Promise<SwatchbookEntity>;
+  abstract create(s: NewSwatchbook, action: 'create' | 'import'): Promise<SwatchbookEntity>;
   abstract findById(id: string): Promise<SwatchbookEntity | null>;
-  abstract list(): Promise<SwatchbookEntity[]>;
+  /** Swatchbooks of these publications and publishers ('all': every one, for admins). */
+  abstract list(scope: 'all' | { publicationIds: string[]; publishers: string[] }): Promise<SwatchbookEntity[]>;
   /**
    * Applies the change and writes the next version snapshot in one transaction, under a row lock.
    * `requireUnlocked`: 409 when the swatchbook is locked (edits; not lock/unlock themselves).
@@ -63,7 +73,7 @@ export class TypeormSwatchbooksStore extends SwatchbooksStore {
     await repo.insert({ swatchbookId: s.id, version: s.version, name: s.name, colors: s.colors, locked: s.locked, action, authorId });
   }
 
-  create(s: { name: string; ownerId: string; colors: SwatchbookColorsDto }, action: 'create' | 'import') {
+  create(s: NewSwatchbook, action: 'create' | 'import') {
     return this.ds.transaction(async (em) => {
       const repo = em.getRepository(SwatchbookEntity);
       const saved = await repo.save(repo.create({ ...s, locked: false, version: 1 }));
@@ -76,8 +86,12 @@ export class TypeormSwatchbooksStore extends SwatchbooksStore {
     return this.ds.getRepository(SwatchbookEntity).findOne({ where: { id } });
   }
 
-  list() {
-    return this.ds.getRepository(SwatchbookEntity).find({ order: { name: 'ASC', createdAt: 'ASC' } });
+  list(scope: 'all' | { publicationIds: string[]; publishers: string[] }) {
+    const order = { name: 'ASC', createdAt: 'ASC' } as const;
+    const repo = this.ds.getRepository(SwatchbookEntity);
+    if (scope === 'all') return repo.find({ order });
+    if (!scope.publicationIds.length && !scope.publishers.length) return Promise.resolve([]);
+    return repo.find({ where: [{ publicationId: In(scope.publicationIds) }, { publisher: In(scope.publishers) }], order });
   }
 
   change(id: string, change: SwatchbookChange, authorId: string, action: SwatchbookVersionDto['action'], requireUnlocked: boolean) {

@@ -6,6 +6,17 @@ export interface ObjectHead {
   metadata: Record<string, string>;
 }
 
+export interface ListedObject {
+  key: string;
+  lastModified: Date;
+}
+
+export interface UnfinishedUpload {
+  key: string;
+  uploadId: string;
+  initiated: Date;
+}
+
 /** Port for object storage (S3-compatible). Only S3ObjectStorage talks to S3. */
 export abstract class ObjectStorage {
   /** Creates the bucket when it is missing. */
@@ -27,5 +38,11 @@ export abstract class ObjectStorage {
   abstract delete(key: string): Promise<void>;
   /** Keys under a prefix (all pages). */
   abstract list(prefix: string): Promise<string[]>;
+  /** Objects under a prefix with their last-modified time (all pages), for sweeping orphans. */
+  abstract listDetailed(prefix: string): Promise<ListedObject[]>;
+  /** Multipart uploads begun under a prefix and neither completed nor aborted (a process died during one). */
+  abstract listUnfinishedUploads(prefix: string): Promise<UnfinishedUpload[]>;
+  /** Aborts a multipart upload: its parts are deleted. Aborting one that is gone is not an error. */
+  abstract abortUpload(key: string, uploadId: string): Promise<void>;
   abstract presignGet(key: string, expiresInSeconds: number): Promise<string>;
 }

@@ -1,12 +1,14 @@
 import { Inject, Injectable, Logger, type OnApplicationBootstrap, type OnApplicationShutdown } from '@nestjs/common';
 import type { Readable } from 'node:stream';
 import {
+  AbortMultipartUploadCommand,
   CopyObjectCommand,
   CreateBucketCommand,
   DeleteObjectCommand,
   GetObjectCommand,
   HeadBucketCommand,
   HeadObjectCommand,
+  ListMultipartUploadsCommand,
   ListObjectsV2Command,
   PutObjectCommand,
   S3Client,
@@ -15,7 +17,7 @@ import { Upload } from '@aws-sdk/lib-storage';
 import { getSignedUrl } from '@aws-sdk/s3-request-presigner';
 import { APP_CONFIG } from '../../config/config.tokens';
 import type { AppConfig } from '../../config/config';
-import { ObjectStorage, type ObjectHead } from './object-storage';
+import { ObjectStorage, type ObjectHead, type ListedObject, type UnfinishedUpload } from './object-storage';
 
 const statusOf = (err: unknown) => (err as { $metadata?: { httpStatusCode?: number } }).$metadata?.httpStatusCode;
 
@@ -125,14 +127,39 @@ export class S3ObjectStorage extends ObjectStorage implements OnApplicationBoots
   }
 
   async list(prefix: string): Promise<string[]> {
-    const keys: string[] = [];
+    return (await this.listDetailed(prefix)).map((o) => o.key);
+  }
+
+  async listDetailed(prefix: string): Promise<ListedObject[]> {
+    const out: ListedObject[] = [];
     let token: string | undefined;
     do {
       const res = await this.client.send(new ListObjectsV2Command({ Bucket: this.bucket, Prefix: prefix, ContinuationToken: token }));
-      for (const o of res.Contents ?? []) if (o.Key) keys.push(o.Key);
+      for (const o of res.Contents ?? []) if (o.Key) out.push({ key: o.Key, lastModified: o.LastModified ?? new Date(0) });
       token = res.IsTruncated ? res.NextContinuationToken : undefined;
     } while (token);
-    return keys;
+    return out;
+  }
+
+  async listUnfinishedUploads(prefix: string): Promise<UnfinishedUpload[]> {
+    const out: UnfinishedUpload[] = [];
+    let keyMarker: string | undefined;
+    let uploadIdMarker: string | undefined;
+    do {
+      const res = await this.client.send(new ListMultipartUploadsCommand({ Bucket: this.bucket, Prefix: prefix, KeyMarker: keyMarker, UploadIdMarker: uploadIdMarker }));
+      for (const u of res.Uploads ?? []) if (u.Key && u.UploadId) out.push({ key: u.Key, uploadId: u.UploadId, initiated: u.Initiated ?? new Date(0) });
+      keyMarker = res.IsTruncated ? res.NextKeyMarker : undefined;
+      uploadIdMarker = res.IsTruncated ? res.NextUploadIdMarker : undefined;
+    } while (keyMarker);
+    return out;
+  }
+
+  async abortUpload(key: string, uploadId: string): Promise<void> {
+    try {
+      await this.client.send(new AbortMultipartUploadCommand({ Bucket: this.bucket, Key: key, UploadId: uploadId }));
+    } catch (err) {
+      if (statusOf(err) !== 404) throw err;
+    }
   }
 
   presignGet(key: string, expiresInSeconds: number): Promise<string> {
