@@ -132,7 +132,8 @@ async function bestAsync(times, fn) {
 
 /** Our extraction as the product runs it: both phases (or one for complex), analytic normals. */
 function extractOurs(compiled, field, grid, c) {
-  const surfaces = meshing.extractOrbitalSurfaces(compiled, field, grid, c);
+  // Real states: the extraction field is psi itself (the pipeline's extractionField returns it unchanged).
+  const surfaces = meshing.extractOrbitalSurfaces(compiled, field.re, grid, c);
   let triangles = 0;
   let vertices = 0;
   for (const s of surfaces) {
@@ -146,8 +147,8 @@ function extractOurs(compiled, field, grid, c) {
 function extractKernel(field, grid, c) {
   const { dims, origin, spacing } = meshing.cubeGeometry(grid);
   const geom = { origin, spacing };
-  const a = meshing.extractIsosurface(field, dims, geom, c, { inside: 'above' });
-  const b = meshing.extractIsosurface(field, dims, geom, -c, { inside: 'below' });
+  const a = meshing.extractIsosurface(field, dims, geom, c, { inside: 'above', closeAtBoundary: false });
+  const b = meshing.extractIsosurface(field, dims, geom, -c, { inside: 'below', closeAtBoundary: false });
   return a.indices.length / 3 + b.indices.length / 3;
 }
 
@@ -283,7 +284,7 @@ async function sectionExtraction() {
   }
   table(['state', 'N', 'thresh ms', 'ours ms', 'kernel ms', 'triangles', 'skimage ms', 'sk tris', 'ours/sk', 'isosurf ms', 'iso/ours'], rows);
   console.log('  (kernel = bare extractIsosurface per phase with central-difference normals, the like-for-like with skimage;');
-  console.log('   skimage leaves surfaces open at the box, ours closes them, so triangle counts may differ slightly)');
+  console.log('   both leave surfaces open where they reach the box, so triangle counts agree closely)');
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -296,14 +297,15 @@ async function childMain256() {
   const t0 = now();
   const field = await orbitalsNode.sampleGridParallel(state, grid, { threads: 2 });
   const t1 = now();
-  const r = meshing.buildOrbitalMesh({ state, grid, surface: { rule: 'enclosed', fraction: FRACTION } }, { sample: () => field });
+  // recipeToSurfaces with the grid fixed at 256 (its 'threshold' is the all-space level solve, timed as 'plan').
+  const r = await meshing.recipeToSurfaces({ content: state, grid: { n: 256, extent: Number(grid.extent) }, surface: { rule: 'enclosed', fraction: FRACTION } }, { sample: () => field });
   const triangles = r.surfaces.reduce((s, x) => s + x.mesh.indices.length / 3, 0);
   console.log(
     JSON.stringify({
       sample_ms: t1 - t0,
-      threshold_ms: r.timings_ms.threshold,
-      extract_ms: r.timings_ms.extract,
-      stats_ms: r.timings_ms.stats,
+      threshold_ms: r.timings_ms.plan + r.timings_ms.threshold,
+      extract_ms: r.timings_ms.extracting,
+      stats_ms: r.timings_ms.statistics,
       triangles,
       maxRSS_kb: peakRssKb(),
     }),
@@ -311,7 +313,7 @@ async function childMain256() {
 }
 
 async function sectionMemory() {
-  heading('Peak memory (RSS): the product path (sampleGridParallel + buildOrbitalMesh + meshStats) in a fresh process');
+  heading('Peak memory (RSS): the product path (sampleGridParallel + recipeToSurfaces) in a fresh process');
   const r = spawnSync(process.execPath, [fileURLToPath(import.meta.url), '--child-main256'], { encoding: 'utf8' });
   let child = null;
   try {
@@ -339,8 +341,7 @@ const WORKER_MEM = { n: 320, jobs: 5, fractions: [0.9, 0.85, 0.8, 0.75, 0.7], ta
 
 async function childWorkerMemory(mode) {
   const dist = path.join(HERE, '..', 'apps', 'worker', 'dist', 'mesh');
-  const pipeline = require(path.join(dist, 'mesh-pipeline.js'));
-  const { buildMesh } = require(path.join(dist, 'mesh-build.js'));
+  const { buildMesh, encode } = require(path.join(dist, 'mesh-assets.js'));
   const { parseRecipe } = require('@psiform/contracts');
   const { createHash } = require('node:crypto');
   const assets = {
@@ -354,11 +355,10 @@ async function childWorkerMemory(mode) {
     if (mode === 'pooled') {
       await buildMesh({ assets, storage: {}, engineVersion: 'bench' }, { recipe, version: { id: `v${i}`, recipeHash: `bench${i}` }, publicationId: 'bench' }, async () => undefined);
     } else {
-      const field = await pipeline.sampleComputed(recipe);
-      const level = pipeline.threshold(field, recipe.surface);
-      const surfaces = pipeline.extract(field, level);
-      const nodal = pipeline.nodalSurface(field, level, recipe);
-      const files = await pipeline.encode(surfaces, recipe, {}, 'bench', nodal);
+      // The same one pipeline (recipeToSurfaces) and encoders, sampling into fresh buffers every time.
+      const r = await meshing.recipeToSurfaces(recipe, { sample: (state, grid) => orbitalsNode.sampleGridParallel(state, { n: grid.n, extent: grid.extent }) });
+      const surfaces = r.surfaces.filter((x) => x.mesh.indices.length > 0).map((x) => ({ phase: x.phase, mesh: x.mesh }));
+      const files = await encode(surfaces, recipe, {}, 'bench', r.nodal ?? null);
       for (const k of ['glb', 'stl']) await assets.storeObject(k, files[k]);
     }
     await new Promise((r) => setTimeout(r, 50)); // let the job's garbage go as an idle worker would between jobs
@@ -394,26 +394,27 @@ async function sectionWorkerMemory() {
 // ---------------------------------------------------------------------------------------------
 // Section: live preview (re-extraction at 10 fractions on an already sampled 128³ grid)
 async function sectionLivePreview() {
-  heading('Live preview: 128³ 3d_z² already sampled; per fraction change = threshold + both phases');
+  heading('Live preview: 128³ 3d_z² already sampled; per fraction change = recipeToSurfaces on the kept grid (all-space level, box check, both phases)');
   const state = STATES['3d_z2']();
-  const compiled = orbitals.compileState(state);
   const grid = gridFor(state, 128);
   const field = await orbitalsNode.sampleGridParallel(state, grid, { threads: 2 });
-  const dens = density(field.re); // kept between updates, as the preview worker would
+  // The preview worker's sampler hands the kept grid back (a copy: the pipeline may write into it).
+  const sample = () => ({ re: field.re.slice(), im: null });
+  const recipeAt = (f) => ({ content: state, grid: { n: 128, extent: Number(grid.extent) }, surface: { rule: 'enclosed', fraction: f } });
   const fractions = [0.5, 0.55, 0.6, 0.65, 0.7, 0.75, 0.8, 0.85, 0.9, 0.95];
-  extractOurs(compiled, field, grid, Math.sqrt(orbitals.enclosedThreshold(dens, 0.9))); // warm-up
+  await meshing.recipeToSurfaces(recipeAt(0.9), { sample, stats: false }); // warm-up
   const rows = [];
   let total = 0;
   for (const f of fractions) {
     const t0 = now();
-    const c = Math.sqrt(orbitals.enclosedThreshold(dens, f));
-    const t1 = now();
-    const { triangles } = extractOurs(compiled, field, grid, c);
-    const t2 = now();
-    total += t2 - t0;
-    rows.push([fmt(f, 2), c.toExponential(3), fmt(t1 - t0), fmt(t2 - t1), fmt(t2 - t0), String(triangles)]);
+    const r = await meshing.recipeToSurfaces(recipeAt(f), { sample, stats: false });
+    const t = r.timings_ms;
+    const dt = now() - t0;
+    total += dt;
+    const triangles = r.surfaces.reduce((n, s) => n + s.mesh.indices.length / 3, 0);
+    rows.push([fmt(f, 2), r.isovalue.toExponential(3), fmt(t.plan + t.threshold), fmt(t.extracting), fmt(dt), String(triangles)]);
   }
-  table(['fraction', 'isovalue', 'thresh ms', 'extract ms', 'update ms', 'triangles'], rows);
+  table(['fraction', 'isovalue', 'level ms', 'extract ms', 'update ms', 'triangles'], rows);
   results.liveMeanMs = total / fractions.length;
   console.log(`  mean ${fmt(results.liveMeanMs)} ms per update (target < ${TARGETS.livePreviewMs} ms): ${verdict(results.liveMeanMs < TARGETS.livePreviewMs)}`);
 }
@@ -483,7 +484,7 @@ async function sectionRender() {
       site: require(path.join(dist, 'render', 'static-site.js')),
       browser: require(path.join(dist, 'render', 'headless-browser.js')),
       renderer: require(path.join(dist, 'render', 'figure-renderer.js')),
-      mesh: require(path.join(dist, 'mesh', 'mesh-pipeline.js')),
+      mesh: require(path.join(dist, 'mesh', 'mesh-assets.js')),
       config: require(path.join(dist, 'config', 'config.js')),
       contracts: require('@psiform/contracts'),
       print: require('@psiform/print'),
@@ -502,8 +503,8 @@ async function sectionRender() {
   }
   const parsed = mods.contracts.parseRecipe({ version: 1, label: '3dz2', content: { Z: 1, terms: [{ n: 3, l: 2, m: 0, basis: 'real', re: 1 }] }, grid: { n: 128 }, surface: { rule: 'enclosed', fraction: 0.9 } });
   const recipe = parsed.recipe;
-  const field = await mods.mesh.sampleComputed(recipe);
-  const surfaces = mods.mesh.extract(field, mods.mesh.threshold(field, recipe.surface));
+  const r = await meshing.recipeToSurfaces(recipe, { sample: (state, grid) => orbitalsNode.sampleGridParallel(state, { n: grid.n, extent: grid.extent }) });
+  const surfaces = r.surfaces.filter((x) => x.mesh.indices.length > 0);
   const { glb } = await mods.mesh.encode(surfaces, recipe, {}, 'bench');
   const browser = new mods.browser.HeadlessBrowser(process.env.CHROMIUM_PATH || '/usr/bin/chromium');
   const renderer = new mods.renderer.FigureRenderer(browser, site, 600000);

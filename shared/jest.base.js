@@ -22,6 +22,9 @@ const common = {
 /** Two projects per app: unit specs beside the code (fakes only) and e2e specs on the real services. */
 function nestJestConfig(rootDir, { e2eTimeout }) {
   return {
+    // testTimeout is a global option: inside `projects` Jest ignores it (measured: e2e hooks and tests stopped at the
+    // 5 s default), so it is set here for both projects.
+    testTimeout: e2eTimeout,
     projects: [
       { ...common, displayName: 'unit', rootDir, testMatch: ['<rootDir>/src/**/*.spec.ts'] },
       // testTimeout is a global Jest option and is ignored inside `projects`, so the e2e project sets it in a set-up file.

@@ -1,3 +1,4 @@
+import { spawnSync } from 'node:child_process';
 import { existsSync, readdirSync } from 'node:fs';
 import { commandExists, run } from './proc.mjs';
 import { log } from './log.mjs';
@@ -7,6 +8,8 @@ const PACKAGES = [
   { name: 'postgresql', present: () => postgresBinDir() !== null },
   { name: 'redis-server', present: () => commandExists('redis-server') },
   { name: 'chromium', present: () => existsSync('/usr/bin/chromium') },
+  // SciPy on Debian's own python: the independent reference the engine's tests compare with.
+  { name: 'python3-scipy', present: () => pythonHas('scipy'), purpose: 'test' },
   // Readers no one here wrote, which the tests use to read our print files back (`npm test` installs them).
   { name: 'libtiff-tools', present: () => commandExists('tiffinfo'), purpose: 'test' },
   { name: 'poppler-utils', present: () => commandExists('pdffonts') && commandExists('pdfinfo'), purpose: 'test' },
@@ -20,6 +23,12 @@ const PACKAGES = [
 /** Names of the packages `npm start` needs (`run`) and those `npm test` needs on top (`test`). */
 export const RUN_PACKAGES = PACKAGES.filter((p) => !p.purpose).map((p) => p.name);
 export const TEST_PACKAGES = [...RUN_PACKAGES, ...PACKAGES.filter((p) => p.purpose === 'test').map((p) => p.name)];
+
+/** Whether Debian's /usr/bin/python3 can import a module (the pyenv python first on PATH may lack it). */
+function pythonHas(module) {
+  if (!existsSync('/usr/bin/python3')) return false;
+  return spawnSync('/usr/bin/python3', ['-c', `import ${module}`], { stdio: 'ignore' }).status === 0;
+}
 
 /** Newest installed PostgreSQL bin folder (no hard-coded major version). */
 export function postgresBinDir() {

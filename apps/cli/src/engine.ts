@@ -60,6 +60,13 @@ export function memoryBudgetBytes(): number {
   return mb * 1e6;
 }
 
+/** Largest points per side whose sampled arrays fit the memory budget (caps automatic grids). */
+export function largestGridWithinBudget(complex: boolean): number {
+  const budget = memoryBudgetBytes();
+  // The extraction field reuses the sampled array; complex states keep Re and Im.
+  return Math.max(16, Math.floor(Math.cbrt(budget / (4 * (complex ? 2 : 1)))));
+}
+
 export function ensureGridFits(n: number, complex: boolean): void {
   try {
     checkGridFits(n, complex, memoryBudgetBytes());

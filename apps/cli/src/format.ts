@@ -12,39 +12,46 @@ function table(rows: string[][]): string {
   return rows.map((r) => '  ' + r.map((cell, c) => (c === 0 ? cell.padEnd(widths[c]) : cell.padStart(widths[c]))).join('  ')).join('\n');
 }
 
-export interface MeshJsonSurface {
-  phase: '+' | '-' | 'complex';
-  vertices: number;
-  triangles: number;
-  area: number;
-  volume: number;
-  components: number;
-  euler: number;
-  watertight: boolean;
-}
-
 export interface MeshJson {
   label: string | null;
   Z: number;
   model: string;
   isovalue: number;
   enclosed: number;
-  grid: { n: number; extent: number };
-  surfaces: MeshJsonSurface[];
+  enclosedError: number;
+  enclosedInBox: number;
+  enclosedOver: string;
+  grid: { mode: 'auto' | 'fixed'; n: number; extent: number; spacing: number; regions: { n: number; extent: number; rMin: number; rMax: number | null }[] };
+  topology: { expected: Record<string, { components: number; euler: number }> | null; found: Record<string, { components: number; euler: number }> | null; matches: boolean | null };
+  warnings: { message: string }[];
+  surfaces: { phase: string; vertices: number; triangles: number; area: number; volume: number; components: number; euler: number; watertight: boolean }[];
   timings_ms: Record<string, number>;
   out: { file: string; bytes: number } | null;
 }
 
+function topo(t: Record<string, { components: number; euler: number }> | null): string {
+  if (!t) return 'not known in advance (superposition of several n, l)';
+  return Object.entries(t)
+    .filter(([, v]) => v.components > 0)
+    .map(([p, v]) => `${p} ${v.components} part${v.components === 1 ? '' : 's'} (Euler ${v.euler})`)
+    .join(', ');
+}
+
 export function formatMeshSummary(j: MeshJson): string {
+  const inner = j.grid.regions.slice(1);
   const lines = [
-    `${j.label ?? 'state'}, Z=${j.Z}: grid ${j.grid.n}^3 over +/-${num(j.grid.extent)} a0`,
-    `isovalue |psi| = ${num(j.isovalue)} a0^-3/2, enclosing ${(j.enclosed * 100).toFixed(2)}% of the probability`,
+    `${j.label ?? 'state'}, Z=${j.Z}: grid ${j.grid.n}^3 over +/-${num(j.grid.extent)} a0 (${j.grid.mode === 'auto' ? 'chosen to resolve the surface' : 'as asked'})`,
+    ...(inner.length ? [`inner radial lobes on finer grids: ${inner.map((r) => `${r.n}^3 over +/-${num(r.extent)} a0`).join(', ')}`] : []),
+    `isovalue |psi| = ${num(j.isovalue)} a0^-3/2, enclosing ${(j.enclosed * 100).toFixed(2)}% (+/- ${(j.enclosedError * 100).toPrecision(2)}%) of the probability ${j.enclosedOver === 'all space' ? 'over all space' : j.enclosedOver}`,
+    ...(j.enclosedInBox < j.enclosed ? [`the box cuts the surface: the part drawn encloses ${(j.enclosedInBox * 100).toFixed(2)}%`] : []),
+    `topology: expected ${topo(j.topology.expected)}; found ${topo(j.topology.found)}`,
     table([
       ['phase', 'vertices', 'triangles', 'area a0^2', 'volume a0^3', 'components', 'euler', 'watertight'],
       ...j.surfaces.map((s) => [s.phase, String(s.vertices), String(s.triangles), num(s.area), num(s.volume), String(s.components), String(s.euler), s.watertight ? 'yes' : 'no']),
     ]),
     `timings (ms): ${Object.entries(j.timings_ms).map(([k, v]) => `${k} ${v}`).join(', ')}`,
   ];
+  for (const w of j.warnings) lines.push(`WARNING: ${w.message}`);
   if (j.out) lines.push(`wrote ${j.out.file} (${j.out.bytes} bytes)`);
   lines.push(`model: ${j.model}`);
   return lines.join('\n');
@@ -65,7 +72,7 @@ export interface RadialJson {
 
 export function formatRadialSummary(j: RadialJson): string {
   return [
-    `R_${j.n}${j.l} for Z=${j.Z} (lengths in a0)`,
+    `R_{${j.n},${j.l}} for Z=${j.Z} (lengths in a0)`,
     `  radial nodes        ${j.nodes.length ? j.nodes.map((r) => num(r, 10)).join(', ') : 'none'}`,
     `  most probable r     ${num(j.most_probable_r, 10)}`,
     `  mean r              ${num(j.mean_r, 10)}`,

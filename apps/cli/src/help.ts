@@ -1,5 +1,24 @@
+import { CONVENTIONS_NOTE, RESULT_UNITS } from '@psiform/meshing';
+
 export const MODEL_NOTE =
   'one-electron hydrogen-like model (psi_nlm = R_nl(r) Y_lm); many-electron orbitals differ';
+
+/** Sign conventions and the normalisation rule (the engine's own text, also in every JSON output and file). */
+export const CONVENTIONS = CONVENTIONS_NOTE;
+
+/** Units of every number in the JSON outputs. */
+export const UNITS = RESULT_UNITS;
+
+const CONVENTIONS_HELP = `Conventions:
+  Y_lm carry the Condon-Shortley phase (-1)^m (as SciPy's sph_harm); R_nl > 0 near the nucleus.
+  Real forms: m > 0 is the cos type [(-1)^m Y_lm + Y_l,-m]/sqrt2, m < 0 the sin type
+  -i[(-1)^m Y_l|m| - Y_l,-|m|]/sqrt2, so p_x, d_xz, ... point along +x.
+  Hybrids (sp, sp2, sp3, sp3d, sp3d2): textbook coefficients, each term multiplied by (-1)^(n-l-1),
+  so the large lobe is positive and points along the named direction.
+  Coefficients in a recipe are relative: the engine scales them once so that sum |c|^2 = 1 over the
+  orthonormal (complex Y_lm) expansion; every level, density and fraction refers to that state.
+  Units: lengths a0 (Bohr radius, 0.529177210903 A), |psi| a0^-3/2, |psi|^2 a0^-3, area a0^2,
+  volume a0^3, fractions are probabilities 0..1; every JSON output carries a "units" field.`;
 
 export const MAIN_HELP = `psiform - hydrogen-like orbital figures from a terminal
 (${MODEL_NOTE}; all lengths in Bohr radii a0)
@@ -15,6 +34,10 @@ Commands:
 
 Run 'psiform <command> --help' for the options of a command.
 Bad arguments print one line on stderr and exit with code 2; nothing is written.
+What a figure cannot show truthfully (a box that cuts the surface, a grid too coarse for a
+detail) is printed as 'psiform: warning: ...' on stderr and listed under "warnings" in --json.
+
+${CONVENTIONS_HELP}
 `;
 
 const STATE_HELP = `State (exactly one):
@@ -25,20 +48,27 @@ const STATE_HELP = `State (exactly one):
   --Z z             nuclear charge, integer 1..118 (default 1)`;
 
 const GRID_HELP = `Grid:
-  --grid N          voxels per side, 16..384 (default 96)
-  --extent L        half-width of the cube in a0 (default: automatic, holds >= 99.9%)
+  --grid N|auto     points per side, 16..384, or auto (default): the engine picks the grid that
+                    resolves the surface's smallest detail (shell thickness, lobe width, the hole
+                    of a ring, the gap at the nucleus), with finer cubes for inner radial lobes
+  --extent L        half-width of the cube in a0 (default: automatic; mesh: holds the whole
+                    surface with a margin; sample: holds >= 99.9% of the probability)
   --threads T       worker threads for sampling (default: number of cores)`;
 
 const SURFACE_HELP = `Surface (one of):
-  --enclose F       surface enclosing the fraction F of the probability, 0 < F < 1 (default 0.9)
+  --enclose F       surface enclosing the fraction F of the probability over ALL space (not just
+                    inside the box), 0 < F < 1 (default 0.9)
   --iso V           surfaces psi = +V and psi = -V (|psi| = V for complex states), V in a0^-3/2`;
 
 export const COMMAND_HELP: Record<string, string> = {
   mesh: `Usage: psiform mesh (--orbital LABEL | --nlm n,l,m [--complex] | --recipe FILE) [options]
 
-Samples psi on a cube, extracts one isosurface per phase by marching cubes and prints
-isovalue, enclosed probability, and per surface: vertices, triangles, area (a0^2),
-volume (a0^3), connected components, Euler characteristic, watertightness.
+Solves the surface level over all space, samples psi on the grid(s), extracts one
+isosurface per phase by marching cubes and prints the isovalue, the probability the
+surface encloses over all space (with its estimated error) and the part inside the box,
+the grid(s), the expected and found topology, warnings, and per surface: vertices,
+triangles, area (a0^2), volume (a0^3), connected components, Euler characteristic,
+watertightness (false where the box cuts the surface open).
 
 ${STATE_HELP}
 
@@ -49,6 +79,8 @@ ${SURFACE_HELP}
 Output:
   --out FILE        write the mesh: .glb (glTF 2.0 binary), .stl (binary), .ply, .obj
   --json            print JSON instead of a readable summary
+
+${CONVENTIONS_HELP}
 `,
   radial: `Usage: psiform radial --n N --l L [--Z z] [--outside R] [--json]
 
@@ -61,11 +93,13 @@ classical turning point, and the probability of finding the electron beyond R.
   --Z z             nuclear charge, integer 1..118 (default 1)
   --outside R       radius R in a0 for prob_outside (null when not given)
   --json            print JSON instead of a readable summary
+
+R_nl > 0 near the nucleus (the sign convention of every Psiform figure).
 `,
   sample: `Usage: psiform sample (--orbital LABEL | --nlm n,l,m [--complex] | --recipe FILE) --out FILE.nrrd [options]
 
-Writes the probability density |psi|^2 (a0^-3) on the grid as a float32 NRRD volume
-with its spacing and origin in a0.
+Writes the probability density |psi|^2 (a0^-3) of the normalised state on the grid as
+a float32 NRRD volume with its spacing and origin in a0 (--grid auto: 96 points per side).
 
 ${STATE_HELP}
 
@@ -83,9 +117,11 @@ API accepts exactly this document. With --recipe FILE it checks and normalises a
 ${STATE_HELP}
 
 Grid:
-  --grid N          voxels per side, 16..384 (default 96)
+  --grid N|auto     points per side, 16..384, or auto (default)
   --extent L        half-width of the cube in a0 (default: automatic)
 
 ${SURFACE_HELP}
+
+${CONVENTIONS_HELP}
 `,
 };

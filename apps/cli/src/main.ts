@@ -2,15 +2,17 @@ import * as os from 'node:os';
 import { RECIPE_LIMITS } from '@psiform/contracts';
 import { parseCommandArgs, type OptionSpec } from './args';
 import { UsageError, oneLine } from './errors';
-import { COMMAND_HELP, MAIN_HELP, MODEL_NOTE } from './help';
+import { COMMAND_HELP, CONVENTIONS, MAIN_HELP, MODEL_NOTE, UNITS } from './help';
 import { parseIntOption, parseNumberOption } from './numbers';
 import { checkOutPath, writeFileAtomic } from './output';
 import { STATE_OPTION_SPEC, SURFACE_OPTION_SPEC, resolveRecipe, type StateOptions } from './source';
-import { ensureGridFits, radialFacts, stateOfRecipe } from './engine';
-import { densityForRecipe, encodeDensityNrrd, encodeMeshFile, meshForRecipe } from './pipeline';
+import { ensureGridFits, largestGridWithinBudget, radialFacts, stateOfRecipe } from './engine';
+import { densityForRecipe, encodeDensityNrrd, encodeMeshFile, meshForRecipe } from './files';
 import { formatMeshSummary, formatRadialSummary } from './format';
 
 const MESH_EXTS = ['.glb', '.stl', '.ply', '.obj'] as const;
+/** Points per side of a density cube when the recipe says 'auto' (no surface to resolve). */
+const DEFAULT_SAMPLE_GRID = 96;
 
 function threadsOption(raw: string | undefined): number {
   const cores = typeof os.availableParallelism === 'function' ? os.availableParallelism() : os.cpus().length;
@@ -33,9 +35,9 @@ async function cmdMesh(argv: string[]): Promise<void> {
   const recipe = resolveRecipe(v as StateOptions, { withSurface: true });
   const ext = v.out !== undefined ? checkOutPath(v.out as string, MESH_EXTS) : undefined;
   const state = stateOfRecipe(recipe);
-  ensureGridFits(recipe.grid.n, !state.isReal);
+  if (recipe.grid.n !== 'auto') ensureGridFits(recipe.grid.n, !state.isReal);
 
-  const report = await meshForRecipe(recipe, state, { threads });
+  const report = await meshForRecipe(recipe, { threads, maxN: largestGridWithinBudget(!state.isReal) });
   let written: { file: string; bytes: number } | undefined;
   if (ext !== undefined) {
     const t0 = performance.now();
@@ -43,7 +45,9 @@ async function cmdMesh(argv: string[]): Promise<void> {
     report.timings_ms.encode = round(performance.now() - t0, 1);
     written = { file: v.out as string, bytes: writeFileAtomic(v.out as string, bytes) };
   }
-  const json = { label: recipe.label ?? null, Z: recipe.content.Z, model: MODEL_NOTE, ...report.summary(), out: written ?? null };
+  // What the figure cannot show truthfully goes to stderr as well as into the output (exit code stays 0).
+  for (const w of report.summary.warnings) process.stderr.write(`psiform: warning: ${oneLine(w.message)}\n`);
+  const json = { label: recipe.label ?? null, Z: recipe.content.Z, ...report.summary, timings_ms: report.timings_ms, out: written ?? null };
   print(v.json ? JSON.stringify(json, null, 2) : formatMeshSummary(json));
 }
 
@@ -55,10 +59,12 @@ async function cmdSample(argv: string[]): Promise<void> {
   if (v.out === undefined) throw new UsageError('sample needs --out FILE.nrrd');
   checkOutPath(v.out as string, ['.nrrd']);
   const state = stateOfRecipe(recipe);
-  ensureGridFits(recipe.grid.n, !state.isReal);
+  // A density cube has no surface to resolve: 'auto' means the default grid.
+  const n = recipe.grid.n === 'auto' ? DEFAULT_SAMPLE_GRID : recipe.grid.n;
+  ensureGridFits(n, !state.isReal);
 
   const t0 = performance.now();
-  const cube = await densityForRecipe(recipe, state, { threads });
+  const cube = await densityForRecipe(recipe, state, { threads, n });
   const t1 = performance.now();
   const bytes = encodeDensityNrrd(cube, recipe);
   const written = writeFileAtomic(v.out as string, bytes);
@@ -67,6 +73,8 @@ async function cmdSample(argv: string[]): Promise<void> {
     label: recipe.label ?? null,
     Z: recipe.content.Z,
     model: MODEL_NOTE,
+    conventions: CONVENTIONS,
+    units: { ...UNITS, data: 'a0^-3 (|psi|^2 of the normalised state)' },
     quantity: '|psi|^2 in a0^-3',
     grid: { n: cube.n, extent: cube.extent, spacing: cube.spacing },
     max_density: cube.max,
@@ -97,7 +105,7 @@ function cmdRadial(argv: string[]): void {
     if (outside < 0) throw new UsageError(`--outside must be a radius >= 0 in a0 (got ${v.outside})`);
   }
   const facts = radialFacts(n, l, Z, outside);
-  const json = { n, l, Z, units: 'a0', model: MODEL_NOTE, ...facts, outside_r: outside };
+  const json = { n, l, Z, units: { ...UNITS, prob_outside: 'probability, 0..1' }, model: MODEL_NOTE, conventions: CONVENTIONS, ...facts, outside_r: outside };
   print(v.json ? JSON.stringify(json, null, 2) : formatRadialSummary(json));
 }
 
@@ -106,7 +114,7 @@ async function cmdRecipe(argv: string[]): Promise<void> {
   if (v.help) return print(COMMAND_HELP.recipe);
   const recipe = resolveRecipe(v as StateOptions, { withSurface: true });
   const state = stateOfRecipe(recipe);
-  ensureGridFits(recipe.grid.n, !state.isReal);
+  if (recipe.grid.n !== 'auto') ensureGridFits(recipe.grid.n, !state.isReal);
   print(JSON.stringify(recipe, null, 2));
 }
 

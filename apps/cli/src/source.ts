@@ -4,7 +4,8 @@ import { UsageError, oneLine } from './errors';
 import { parseIntOption, parseNlm, parseNumberOption } from './numbers';
 import { stateForLabel, stateForNlm } from './engine';
 
-export const DEFAULT_GRID = 96;
+/** --grid default: the engine picks the grid that resolves the surface (see the recipe schema). */
+export const DEFAULT_GRID = 'auto' as const;
 export const DEFAULT_ENCLOSE = 0.9;
 
 /** The options every state-taking command shares (all still raw strings from the command line). */
@@ -45,7 +46,7 @@ export function nlmLabel(n: number, l: number, m: number, complex: boolean): str
 
 interface ParsedNumbers {
   Z?: number;
-  grid?: number;
+  grid?: number | 'auto';
   extent?: number;
   surface?: { rule: 'enclosed'; fraction: number } | { rule: 'psi'; value: number };
 }
@@ -53,7 +54,7 @@ interface ParsedNumbers {
 function parseShared(o: StateOptions, withSurface: boolean): ParsedNumbers {
   const out: ParsedNumbers = {};
   if (o.Z !== undefined) out.Z = parseIntOption('--Z', o.Z, { min: 1, max: RECIPE_LIMITS.zMax });
-  if (o.grid !== undefined) out.grid = parseIntOption('--grid', o.grid, { min: RECIPE_LIMITS.gridMin, max: RECIPE_LIMITS.gridMax });
+  if (o.grid !== undefined) out.grid = o.grid === 'auto' ? 'auto' : parseIntOption('--grid', o.grid, { min: RECIPE_LIMITS.gridMin, max: RECIPE_LIMITS.gridMax });
   if (o.extent !== undefined) {
     const e = parseNumberOption('--extent', o.extent);
     if (!(e > 0 && e <= RECIPE_LIMITS.extentMax)) throw new UsageError(`--extent must be in (0, ${RECIPE_LIMITS.extentMax}] a0 (got ${e})`);

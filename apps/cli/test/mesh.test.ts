@@ -30,7 +30,7 @@ describe('psiform mesh', () => {
     expect(a.triangles).toBe(b.triangles);
     // The default surface encloses 90% of the probability (both lobes together).
     expect(Math.abs(j.enclosed - 0.9)).toBeLessThan(0.01);
-    expect(j.model).toMatch(/one-electron hydrogen-like/);
+    expect(j.model).toMatch(/one-electron hydrogen-like/i);
     expect(j.timings_ms.sample).toBeGreaterThanOrEqual(0);
   });
 

@@ -158,7 +158,7 @@ describe('recipe', () => {
     const doc = JSON.parse(psiform(['recipe', '--nlm', '4,3,-2', '--complex', '--iso', '0.002', '--extent', '40']).stdout);
     expect(doc.content.terms).toEqual([{ n: 4, l: 3, m: -2, basis: 'complex', re: 1, im: 0 }]);
     expect(doc.surface).toEqual({ rule: 'psi', value: 0.002 });
-    expect(doc.grid).toEqual({ n: 96, extent: 40 });
+    expect(doc.grid).toEqual({ n: 'auto', extent: 40 });
     expect(parseRecipe(doc).ok).toBe(true);
   });
 

@@ -2,7 +2,8 @@ import { existsSync } from 'node:fs';
 import { parseRecipe } from '@psiform/contracts';
 import { readPngInfo } from '@psiform/print';
 import { closeParallelSampler } from '@psiform/orbitals/node';
-import { encode, extract, sampleComputed, threshold } from '../src/mesh/mesh-pipeline';
+import { recipeToSurfaces } from '@psiform/meshing';
+import { encode } from '../src/mesh/mesh-assets';
 import { FigureRenderer } from '../src/render/figure-renderer';
 import { HeadlessBrowser } from '../src/render/headless-browser';
 import { StaticSite } from '../src/render/static-site';
@@ -23,8 +24,8 @@ describe('headless render (e2e)', () => {
   beforeAll(async () => {
     if (!existsSync('/usr/bin/chromium')) throw new Error('the render tests need /usr/bin/chromium (apt-get install chromium)');
     site.checkBuilt(); // fails with the missing path: build apps/web first
-    const field = await sampleComputed(recipe);
-    glb = (await encode(extract(field, threshold(field, recipe.surface)), recipe, {}, 'test')).glb;
+    const r = await recipeToSurfaces(recipe);
+    glb = (await encode(r.surfaces.filter((s) => s.mesh.indices.length > 0), recipe, {}, 'test')).glb;
   }, 30000);
 
   afterAll(async () => {

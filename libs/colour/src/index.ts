@@ -6,3 +6,4 @@ export * from './icc';
 export * from './press';
 export * from './phase-wheel';
 export * from './swatchbook-check';
+export * from './phase-colour';

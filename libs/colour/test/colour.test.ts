@@ -10,6 +10,11 @@ import {
   phaseColor,
   phaseWheel,
   simulateCvd,
+  DEFAULT_WHEEL,
+  phaseColoursInto,
+  phaseHex,
+  phaseRgb,
+  resolvePhaseMode,
 } from '../src';
 
 /**
@@ -219,5 +224,42 @@ describe('checkSwatchbook', () => {
     expect(w.message).toContain(`${contrastRatio('#bbbbbb', '#ffffff').toFixed(2)}:1`);
     expect(r.figures.wheel?.clamped).toBe(true);
     expect(r.warnings.some((x) => x.code === 'wheel_clamped')).toBe(true);
+  });
+});
+
+describe('phaseColoursInto: the one phase-colouring rule', () => {
+  const palette = { positive: '#c8553d', negative: '#2f6690', wheel: { lightness: 0.7, chroma: 0.11 } };
+  it("sign colouring: '+' and '-' take the swatchbook's colours exactly; a complex surface takes them by the sign of Re psi", () => {
+    expect(phaseHex(palette, 'sign', '+')).toBe('#c8553d');
+    expect(phaseHex(palette, 'sign', '-')).toBe('#2f6690');
+    const out = phaseColoursInto(palette, 'sign', 'complex', new Float32Array([0.3, 2.5]), new Float32Array(6));
+    expect(phaseHex(palette, 'sign', 'complex', 0.3)).toBe('#c8553d'); // cos 0.3 > 0
+    expect(phaseHex(palette, 'sign', 'complex', 2.5)).toBe('#2f6690'); // cos 2.5 < 0
+    expect(out[3]).toBeCloseTo(0x2f / 255, 6);
+  });
+  it('argument colouring follows the wheel: hue = arg psi (within one 8-bit step of culori at every 5 degrees), cyclic', () => {
+    for (let d = 0; d < 360; d += 5) {
+      const a = (d * Math.PI) / 180;
+      const ref = converter('rgb')(phaseColor(a, palette.wheel));
+      const got = phaseRgb(palette, 'argument', 'complex', a);
+      expect(Math.abs(got[0] - ref.r) * 255).toBeLessThan(1);
+      expect(Math.abs(got[1] - ref.g) * 255).toBeLessThan(1);
+      expect(Math.abs(got[2] - ref.b) * 255).toBeLessThan(1);
+    }
+    expect(phaseHex(palette, 'argument', 'complex', -Math.PI / 2)).toBe(phaseHex(palette, 'argument', 'complex', (3 * Math.PI) / 2));
+    // A real state coloured by argument shows arg 0 ('+') and arg pi ('-').
+    expect(phaseHex(palette, 'argument', '+')).toBe(phaseHex(palette, 'argument', 'complex', 0));
+    expect(phaseHex(palette, 'argument', '-')).toBe(phaseHex(palette, 'argument', 'complex', Math.PI));
+  });
+  it('linear output is the IEC 61966-2-1 decoding of the sRGB output; absent wheel = DEFAULT_WHEEL; auto mode by state', () => {
+    const angles = new Float32Array([0, 1, 2, 3]);
+    const s = phaseColoursInto(palette, 'argument', 'complex', angles, new Float32Array(12));
+    const l = phaseColoursInto(palette, 'argument', 'complex', angles, new Float32Array(12), { linear: true });
+    for (let i = 0; i < 12; i++) expect(l[i]).toBeCloseTo(s[i] <= 0.04045 ? s[i] / 12.92 : ((s[i] + 0.055) / 1.055) ** 2.4, 6);
+    expect(phaseHex({ ...palette, wheel: null }, 'argument', 'complex', 1)).toBe(phaseHex({ ...palette, wheel: DEFAULT_WHEEL }, 'argument', 'complex', 1));
+    expect(resolvePhaseMode('auto', true)).toBe('sign');
+    expect(resolvePhaseMode('auto', false)).toBe('argument');
+    expect(resolvePhaseMode('sign', false)).toBe('sign');
+    expect(() => phaseColoursInto(palette, 'argument', 'complex', null, new Float32Array(3))).toThrow(/phaseAngle/);
   });
 });

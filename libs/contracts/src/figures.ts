@@ -70,7 +70,39 @@ export interface MeshStatsDto {
   volume: number;
   components: number;
   euler: number;
+  /** Closed and consistently oriented; false where the box cuts the surface open. */
   watertight: boolean;
+  /** Edges used by one triangle only (where the box cuts the surface); 0 for a closed surface. */
+  boundaryEdges?: number;
+}
+
+/**
+ * What a figure cannot show truthfully, said wherever it goes (job result, Studio, metadata sheet, caption, CLI).
+ * Codes: 'box-cuts-surface' (suggestedExtent: the half-width that holds the whole surface), 'feature-unresolved'
+ * (feature + suggestedN), 'topology-mismatch', 'topology-unverified', 'measured-in-cube'.
+ */
+export interface SurfaceWarningDto {
+  code: string;
+  message: string;
+  suggestedExtent?: number;
+  suggestedN?: number;
+  feature?: { kind: string; size: number; description: string };
+}
+
+/** The mesh summary on mesh assets (@psiform/meshing summariseSurfaces); every length in a0. */
+export interface MeshSummaryDto {
+  isovalue?: number;
+  /** Probability inside the surface over all space (computed states) or inside the cube (uploads). */
+  enclosed?: number;
+  enclosedError?: number;
+  /** The part drawn inside the box (equal to `enclosed` unless the box cuts the surface). */
+  enclosedInBox?: number;
+  grid?: { n: number; extent: number; mode?: 'auto' | 'fixed'; spacing?: number };
+  surfaces?: MeshStatsDto[];
+  warnings?: SurfaceWarningDto[];
+  units?: Record<string, string>;
+  conventions?: string;
+  [k: string]: unknown;
 }
 
 export interface AssetDto {
@@ -78,7 +110,7 @@ export interface AssetDto {
   kind: AssetKind;
   bytes: number;
   sha256: string;
-  stats?: { isovalue?: number; enclosed?: number; grid?: { n: number; extent: number }; surfaces?: MeshStatsDto[]; [k: string]: unknown } | null;
+  stats?: MeshSummaryDto | null;
   createdAt: string;
 }
 

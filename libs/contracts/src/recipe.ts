@@ -9,6 +9,17 @@ import { z } from 'zod';
  */
 export const RECIPE_VERSION = 1;
 
+/**
+ * The sign conventions and the normalisation rule every figure follows, in one text: the CLI help, the API docs,
+ * every mesh summary and the metadata sheet quote it (@psiform/meshing CONVENTIONS_NOTE is this constant).
+ */
+export const ENGINE_CONVENTIONS =
+  'Y_lm carry the Condon–Shortley phase (-1)^m (as SciPy sph_harm); R_nl > 0 near the nucleus. Real forms: ' +
+  'm > 0 is the cos type, Y^c = [(-1)^m Y_lm + Y_l,-m]/sqrt2; m < 0 the sin type, Y^s = -i[(-1)^m Y_l|m| - Y_l,-|m|]/sqrt2, ' +
+  'so p_x, d_xz ... point along +x. Hybrids: textbook coefficients with each term multiplied by (-1)^(n-l-1), ' +
+  'so the large lobe is positive and points along the named direction. Coefficients are relative: the engine ' +
+  'scales them once so that sum |c|^2 = 1 over the orthonormal (complex Y_lm) expansion.';
+
 /** Engine limits shared by the CLI, API, worker and web (memory: 384³ float32 ≈ 226 MB per field). */
 export const RECIPE_LIMITS = {
   nMax: 12,
@@ -31,7 +42,13 @@ export const termSchema = z
     m: z.number().int({ message: 'm must be an integer' }),
     /** 'complex': Y_lm with the Condon–Shortley phase; 'real': the chemists' real combination (m>0 cos-type, m<0 sin-type). */
     basis: z.enum(['complex', 'real']),
-    /** Complex coefficient c_k of this term in Σ c_k ψ_k (normalised by the engine). */
+    /**
+     * Complex coefficient c_k of this term in Σ c_k ψ_k. Coefficients are relative weights: the engine applies ONE
+     * normalisation rule, once (@psiform/orbitals compileState): it scales them so that Σ|c|² = 1 over the
+     * orthonormal expansion in complex Y_lm (a real form is (Y_lm ± Y_l,-m)/√2, so real forms and complex
+     * eigenstates are each already normalised). Two real 2p terms with coefficient 1 therefore mean 1/√2 each.
+     * Every level, density, NRRD value and enclosed fraction refers to the normalised state.
+     */
     re: finite('re'),
     im: finite('im').default(0),
   })
@@ -119,6 +136,13 @@ export const paletteSchema = z.strictObject({
   swatchbookId: z.string().nullable().default(null),
   positive: hexColor.default('#c8553d'),
   negative: hexColor.default('#2f6690'),
+  /** The swatchbook's phase wheel for arg ψ (OKLCH lightness and chroma); absent = the default wheel (@psiform/colour). */
+  wheel: z
+    .strictObject({
+      lightness: finite('wheel.lightness').refine((v) => v > 0 && v < 1, { message: 'wheel.lightness must be between 0 and 1 (OKLCH L)' }),
+      chroma: finite('wheel.chroma').refine((v) => v >= 0 && v <= 0.4, { message: 'wheel.chroma must be from 0 to 0.4 (OKLCH C)' }),
+    })
+    .optional(),
 });
 
 /** Upload limits (issue: figures become jobs): each axis of an uploaded cube has 2..512 points. */
@@ -163,12 +187,32 @@ export const recipeSchema = z.strictObject({
       .refine((ts) => ts.some((t) => t.re !== 0 || t.im !== 0), { message: 'at least one coefficient must be non-zero' }),
   }),
   grid: z.strictObject({
-    n: z.number().int({ message: 'grid.n must be an integer' }).min(RECIPE_LIMITS.gridMin, { message: `grid.n must be at least ${RECIPE_LIMITS.gridMin}` }).max(RECIPE_LIMITS.gridMax, { message: `grid.n must be at most ${RECIPE_LIMITS.gridMax}` }),
-    /** Half-width of the sampled cube in a0, or 'auto' (a box holding at least 99.9% of the probability). */
+    /**
+     * Points per side of the sampled cube, or 'auto' (the default): the engine picks the grid that resolves the
+     * surface's smallest feature (shell thickness, lobe width, the hole of a ring, the gap at the nucleus), with
+     * finer cubes for inner radial lobes when needed. A number forces one uniform grid; when it is too coarse the
+     * figure carries a warning naming the feature.
+     */
+    n: z
+      .union([
+        z.literal('auto'),
+        z.number({ error: "grid.n must be 'auto' or a number" }).int({ message: 'grid.n must be an integer' }).min(RECIPE_LIMITS.gridMin, { message: `grid.n must be at least ${RECIPE_LIMITS.gridMin}` }).max(RECIPE_LIMITS.gridMax, { message: `grid.n must be at most ${RECIPE_LIMITS.gridMax}` }),
+      ])
+      .default('auto'),
+    /**
+     * Half-width of the sampled cube in a0, or 'auto': for meshes, the box that holds the whole surface with a
+     * margin (it scales with Z and the state); for density cubes without a surface, a box holding at least 99.9 %
+     * of the probability. A box that cuts the surface is reported (warnings, caption), never hidden.
+     */
     extent: z.union([z.literal('auto'), finite('grid.extent').refine((v) => v > 0 && v <= RECIPE_LIMITS.extentMax, { message: `grid.extent must be in (0, ${RECIPE_LIMITS.extentMax}]` })]).default('auto'),
-  }),
+    })
+    .default({ n: 'auto', extent: 'auto' }),
   surface: surfaceSchema,
-  /** 'sign' colours real ψ by its sign; 'argument' colours complex ψ by arg ψ on a colour wheel. 'auto' picks by the state. */
+  /**
+   * 'sign' colours by the sign of ψ (of Re ψ on a complex state) with palette.positive / palette.negative;
+   * 'argument' colours by arg ψ on the palette's phase wheel (hue = arg ψ); 'auto' = sign for real states,
+   * argument for complex ones. One rule for every output: @psiform/colour phaseColoursInto.
+   */
   phase: z.strictObject({ mode: z.enum(['auto', 'sign', 'argument']).default('auto') }).default({ mode: 'auto' }),
   palette: paletteSchema.default({ swatchbookId: null, positive: '#c8553d', negative: '#2f6690' }),
   stage: stageSchema.default(stageSchema.parse({})),

@@ -225,3 +225,22 @@ describe('canonicalJson', () => {
     expect(canonicalJson(r1.recipe)).toBe(canonicalJson(r2.recipe));
   });
 });
+
+describe('grid and palette wheel (issue: truthful figures)', () => {
+  const base = { version: 1, content: { Z: 1, terms: [{ n: 2, l: 1, m: 0, basis: 'real', re: 1 }] }, surface: { rule: 'enclosed', fraction: 0.9 } };
+  it("grid defaults to 'auto' (the engine picks the grid); a number forces one; other strings are refused naming grid.n", () => {
+    const a = parseRecipe(base);
+    expect(a.ok && a.recipe.grid).toEqual({ n: 'auto', extent: 'auto' });
+    const b = parseRecipe({ ...base, grid: { n: 'auto', extent: 4 } });
+    expect(b.ok && b.recipe.grid).toEqual({ n: 'auto', extent: 4 });
+    const c = parseRecipe({ ...base, grid: { n: 'fine' } });
+    expect(c.ok).toBe(false);
+    expect(!c.ok && c.issues[0].path).toBe('grid.n');
+  });
+  it('palette.wheel is optional and checked (OKLCH L in (0, 1), C in [0, 0.4])', () => {
+    const ok = parseRecipe({ ...base, palette: { wheel: { lightness: 0.7, chroma: 0.11 } } });
+    expect(ok.ok && ok.recipe.palette.wheel).toEqual({ lightness: 0.7, chroma: 0.11 });
+    const bad = parseRecipe({ ...base, palette: { wheel: { lightness: 1.2, chroma: 0.11 } } });
+    expect(!bad.ok && formatRecipeIssues(bad.issues)).toEqual(['palette.wheel.lightness: wheel.lightness must be between 0 and 1 (OKLCH L)']);
+  });
+});

@@ -4,31 +4,23 @@ import { Document, WebIO } from '@gltf-transform/core';
 import type { Mesh } from './mesh';
 import { mergeMeshes } from './mesh';
 import type { Phase } from './orbital-surfaces';
+import { MODEL_NOTE } from './pipeline';
 
-/** sRGB colour, components in 0..1. */
-export type Rgb = readonly [number, number, number];
+import { phaseColoursInto, resolvePhaseMode, srgbToLinear, type PhaseMode, type PhasePalette } from '@psiform/colour';
 
 export interface EncodeSurface {
   phase: Phase;
   mesh: Mesh;
 }
 
-/** Default phase colours (our own picks; a swatchbook normally supplies them), sRGB. */
-export const DEFAULT_PHASE_COLORS: Readonly<Record<'+' | '-', Rgb>> = {
-  '+': [0.85, 0.33, 0.24],
-  '-': [0.16, 0.45, 0.66],
-};
-
-/** sRGB -> linear (IEC 61966-2-1 transfer function); glTF colours are linear (glTF 2.0, 3.9.2). */
-export function srgbToLinear(c: number): number {
-  return c <= 0.04045 ? c / 12.92 : ((c + 0.055) / 1.055) ** 2.4;
+/** How surfaces are coloured: the swatchbook's colours and wheel, and the phase mode (see @psiform/colour). */
+export interface Colouring {
+  palette: PhasePalette;
+  mode?: PhaseMode;
 }
 
-function checkRgb(c: Rgb, name: string): void {
-  if (!Array.isArray(c) || c.length !== 3 || !c.every((v) => Number.isFinite(v) && v >= 0 && v <= 1)) {
-    throw new RangeError(`${name} must be three numbers in 0..1`);
-  }
-}
+/** Our neutral default (the recipe schema's palette defaults). */
+export const DEFAULT_COLOURING: Colouring = { palette: { positive: '#c8553d', negative: '#2f6690', wheel: null }, mode: 'auto' };
 
 export function materialName(phase: Phase): string {
   return phase === '+' ? 'phase +' : phase === '-' ? 'phase \u2212' : 'phase (complex)';
@@ -39,52 +31,22 @@ export interface GlbOptions {
   version: string;
   /** Model note written to the root extras (surface rule, level, grid, ...). */
   extras?: Record<string, unknown>;
-  colors?: Partial<Record<'+' | '-', Rgb>>;
-  /** Complex surfaces: sRGB colour for arg psi (radians). Required when a complex surface is given. */
-  colorWheel?: (angle: number) => Rgb;
+  /** Colours (default DEFAULT_COLOURING); the one phase-colouring rule of @psiform/colour. */
+  colouring?: Colouring;
   /** Nodal surfaces (psi = 0): written as an extra mesh and node named "nodal" (material "nodal", translucent ink,
    * extras {nodal: true}) only when given and not empty. Readers that do not know it see one more mesh. */
   nodal?: Mesh | null;
 }
 
 /** Ink of the nodal outline (our house ink #1f1d1a), sRGB. */
-export const NODAL_INK: Rgb = [0x1f / 255, 0x1d / 255, 0x1a / 255];
+export const NODAL_INK = [0x1f / 255, 0x1d / 255, 0x1a / 255] as const;
 export const NODAL_NAME = 'nodal';
 
-/** The model convention every export states (one-electron hydrogen-like model). */
-export const MODEL_NOTE =
-  'One-electron hydrogen-like model (psi_nlm = R_nl Y_lm); many-electron orbitals differ. Lengths in Bohr radii (a0).';
-
-/** Per-vertex linear RGB colours for a surface. */
-function vertexColors(s: EncodeSurface, opts: { colors?: Partial<Record<'+' | '-', Rgb>>; colorWheel?: (a: number) => Rgb }, linear: boolean): Float32Array {
-  const nv = s.mesh.positions.length / 3;
-  const out = new Float32Array(nv * 3);
-  const conv = linear ? srgbToLinear : (c: number) => c;
-  if (s.phase === 'complex') {
-    const wheel = opts.colorWheel;
-    const ang = s.mesh.phaseAngle;
-    if (!wheel) throw new RangeError('colorWheel is required to colour a complex surface');
-    if (!ang || ang.length !== nv) throw new RangeError('complex surface needs mesh.phaseAngle (one per vertex)');
-    for (let v = 0; v < nv; v++) {
-      const c = wheel(ang[v]);
-      checkRgb(c, 'colorWheel result');
-      out[3 * v] = conv(c[0]);
-      out[3 * v + 1] = conv(c[1]);
-      out[3 * v + 2] = conv(c[2]);
-    }
-  } else {
-    const c = opts.colors?.[s.phase] ?? DEFAULT_PHASE_COLORS[s.phase];
-    checkRgb(c, `colors['${s.phase}']`);
-    const r = conv(c[0]);
-    const g = conv(c[1]);
-    const b = conv(c[2]);
-    for (let v = 0; v < nv; v++) {
-      out[3 * v] = r;
-      out[3 * v + 1] = g;
-      out[3 * v + 2] = b;
-    }
-  }
-  return out;
+/** Per-vertex colours of every surface of a figure (sRGB 0..1, or linear light), by @psiform/colour's rule. */
+export function surfaceColours(surfaces: readonly EncodeSurface[], colouring: Colouring = DEFAULT_COLOURING, linear = false): Float32Array[] {
+  const isReal = surfaces.every((s) => s.phase !== 'complex');
+  const mode = resolvePhaseMode(colouring.mode, isReal);
+  return surfaces.map((s) => phaseColoursInto(colouring.palette, mode, s.phase, s.mesh.phaseAngle, new Float32Array(s.mesh.positions.length), { linear }));
 }
 
 /** Binary glTF 2.0 (GLB): one mesh primitive per phase with POSITION, NORMAL, COLOR_0, indices. */
@@ -96,20 +58,20 @@ export async function encodeGlb(surfaces: readonly EncodeSurface[], opts: GlbOpt
   root.setExtras({ psiform: { model: MODEL_NOTE, ...(opts.extras ?? {}) } });
   const buffer = doc.createBuffer();
   const scene = doc.createScene('orbital');
-  for (const s of surfaces) {
+  const colours = surfaceColours(surfaces, opts.colouring, true);
+  for (let si = 0; si < surfaces.length; si++) {
+    const s = surfaces[si];
     const m = s.mesh;
     if (m.indices.length === 0) continue; // glTF accessors must not be empty
     const mat = doc.createMaterial(materialName(s.phase)).setDoubleSided(false).setRoughnessFactor(0.5).setMetallicFactor(0);
-    if (s.phase !== 'complex') {
-      const c = opts.colors?.[s.phase] ?? DEFAULT_PHASE_COLORS[s.phase];
-      checkRgb(c, `colors['${s.phase}']`);
-      mat.setBaseColorFactor([srgbToLinear(c[0]), srgbToLinear(c[1]), srgbToLinear(c[2]), 1]);
-    }
+    const col = colours[si];
+    // One colour per real phase: the material carries it too (readers that ignore COLOR_0 still show it).
+    if (s.phase !== 'complex' && col.length >= 3) mat.setBaseColorFactor([col[0], col[1], col[2], 1]);
     const prim = doc
       .createPrimitive()
       .setAttribute('POSITION', doc.createAccessor().setType('VEC3').setArray(m.positions).setBuffer(buffer))
       .setAttribute('NORMAL', doc.createAccessor().setType('VEC3').setArray(m.normals).setBuffer(buffer))
-      .setAttribute('COLOR_0', doc.createAccessor().setType('VEC3').setArray(vertexColors(s, opts, true)).setBuffer(buffer))
+      .setAttribute('COLOR_0', doc.createAccessor().setType('VEC3').setArray(col).setBuffer(buffer))
       .setIndices(doc.createAccessor().setType('SCALAR').setArray(m.indices).setBuffer(buffer))
       .setMaterial(mat);
     const mesh = doc.createMesh(materialName(s.phase)).addPrimitive(prim);
@@ -248,12 +210,9 @@ function to8(c: number): number {
  * PLY (binary_little_endian 1.0): x y z nx ny nz (float), red green blue (uchar, sRGB),
  * faces as uchar-count lists of uint indices (PLY format by G. Turk, 1994).
  */
-export function encodePly(
-  surfaces: readonly EncodeSurface[],
-  opts: { colors?: Partial<Record<'+' | '-', Rgb>>; colorWheel?: (angle: number) => Rgb; comment?: string } = {},
-): Uint8Array {
+export function encodePly(surfaces: readonly EncodeSurface[], opts: { colouring?: Colouring; comment?: string } = {}): Uint8Array {
   const merged = mergeMeshes(surfaces.map((s) => s.mesh));
-  const cols = surfaces.map((s) => vertexColors(s, opts, false));
+  const cols = surfaceColours(surfaces, opts.colouring, false);
   const nv = merged.positions.length / 3;
   const F = merged.indices.length / 3;
   const comment = (opts.comment ?? MODEL_NOTE).replace(/[\r\n]+/g, ' ');

@@ -1,8 +1,8 @@
-// Per-phase isosurfaces of a sampled wavefunction. The kernels here only need the structural
-// shape of a compiled state (evaluate / gradient), so they do not depend on @psiform/orbitals.
+// Per-phase isosurfaces of a sampled wavefunction. The kernels here only need the structural shape of a compiled
+// state (evaluate / gradient), so they do not depend on @psiform/orbitals.
 
 import { blockMinMax, extractIsosurface, type NormalFn } from './marching-cubes';
-import type { Mesh } from './mesh';
+import { mergeMeshes, type Mesh } from './mesh';
 
 /** What the surface code needs from @psiform/orbitals' CompiledState. */
 export interface CompiledLike {
@@ -26,8 +26,6 @@ export interface PhaseSurface {
 }
 
 export interface OrbitalSurfaceOptions {
-  /** Complex states: buffer (n³) that receives |psi|; allocated when absent. */
-  absBuffer?: Float32Array;
   /** 'analytic' (default): normals from compiled.gradient; 'field': central differences only. */
   normals?: 'analytic' | 'field';
   skipEmpty?: boolean;
@@ -41,67 +39,41 @@ export function cubeGeometry(grid: CubeGrid): { dims: { nx: number; ny: number; 
   return { dims: { nx: n, ny: n, nz: n }, origin: [-extent, -extent, -extent], spacing: (2 * extent) / (n - 1) };
 }
 
-/** |psi| = sqrt(re² + im²) into out (or a new array). */
-export function modulusInto(re: Float32Array, im: Float32Array, out?: Float32Array): Float32Array {
-  if (re.length !== im.length) throw new RangeError('re and im must have the same length');
-  const o = out ?? new Float32Array(re.length);
-  if (o.length !== re.length) throw new RangeError(`absBuffer length ${o.length} must be ${re.length}`);
-  for (let i = 0; i < re.length; i++) o[i] = Math.sqrt(re[i] * re[i] + im[i] * im[i]);
-  return o;
-}
-
 /**
- * Isosurfaces of psi at the value c > 0.
- * Real states: phase '+' is psi = +c around the region psi > c, phase '-' is psi = -c around
- * psi < -c. Complex states: one surface |psi| = c with arg psi per vertex (mesh.phaseAngle).
- * Normals point out of the enclosed region: -grad psi/|grad psi| for '+', +grad psi/|..| for '-',
- * -grad|psi| for complex; where the analytic gradient vanishes, central differences of the field.
+ * Isosurfaces at the value c > 0 of a real extraction field f (x fastest, on `grid`):
+ * the surface f = +c around f > c and the surface f = -c around f < -c (Lorensen & Cline 1987, no box caps: a
+ * surface that reaches the box stays open there, so it is never reported closed).
+ * Real states (f = psi): phase '+' and '-', outward normals -grad psi and +grad psi.
+ * Complex states (f = ±|psi| with a sign that flips across nodes, see @psiform/orbitals' analyseSurface): the two
+ * parts together are the |psi| = c surface, returned as one 'complex' surface with arg psi per vertex
+ * (mesh.phaseAngle) and outward normals -grad|psi|. Where the analytic gradient vanishes, central differences.
  */
-export function extractOrbitalSurfaces(
-  compiled: CompiledLike,
-  field: { re: Float32Array; im: Float32Array | null },
-  grid: CubeGrid,
-  isovalue: number,
-  opts: OrbitalSurfaceOptions = {},
-): PhaseSurface[] {
+export function extractOrbitalSurfaces(compiled: CompiledLike, f: Float32Array, grid: CubeGrid, isovalue: number, opts: OrbitalSurfaceOptions = {}): PhaseSurface[] {
   if (!(isovalue > 0) || !Number.isFinite(isovalue)) throw new RangeError(`isovalue must be a positive number (|psi| level), got ${isovalue}`);
   const { dims, origin, spacing } = cubeGeometry(grid);
   const N = grid.n ** 3;
-  if (field.re.length !== N) throw new RangeError(`field.re length ${field.re.length} must be n³ = ${N}`);
+  if (f.length !== N) throw new RangeError(`field length ${f.length} must be n³ = ${N}`);
   const geom = { origin, spacing };
   const analytic = opts.normals !== 'field';
   const g = new Float64Array(6);
-  const common = { skipEmpty: opts.skipEmpty, blockSize: opts.blockSize };
+  const common = { skipEmpty: opts.skipEmpty, blockSize: opts.blockSize, closeAtBoundary: false };
+  const range = opts.skipEmpty === false ? undefined : blockMinMax(f, dims, opts.blockSize ?? 8, false);
 
   if (compiled.isReal) {
-    // Outward for '+' is -grad psi; for '-' it is +grad psi.
     const normalFor = (sign: number): NormalFn => (x, y, z, out) => {
       compiled.gradient(x, y, z, g);
       out[0] = sign * g[0];
       out[1] = sign * g[1];
       out[2] = sign * g[2];
     };
-    const range = opts.skipEmpty === false ? undefined : blockMinMax(field.re, dims, opts.blockSize ?? 8, true);
-    const plus = extractIsosurface(field.re, dims, geom, isovalue, {
-      ...common,
-      inside: 'above',
-      normal: analytic ? normalFor(-1) : undefined,
-      blockRange: range,
-    });
-    const minus = extractIsosurface(field.re, dims, geom, -isovalue, {
-      ...common,
-      inside: 'below',
-      normal: analytic ? normalFor(1) : undefined,
-      blockRange: range,
-    });
+    const plus = extractIsosurface(f, dims, geom, isovalue, { ...common, inside: 'above', normal: analytic ? normalFor(-1) : undefined, blockRange: range });
+    const minus = extractIsosurface(f, dims, geom, -isovalue, { ...common, inside: 'below', normal: analytic ? normalFor(1) : undefined, blockRange: range });
     return [
       { phase: '+', mesh: plus },
       { phase: '-', mesh: minus },
     ];
   }
 
-  if (!field.im || field.im.length !== N) throw new RangeError('field.im (length n³) is required for a complex state');
-  const abs = modulusInto(field.re, field.im, opts.absBuffer);
   const normal: NormalFn | undefined = analytic
     ? (x, y, z, out) => {
         const v = compiled.evaluate(x, y, z);
@@ -112,7 +84,9 @@ export function extractOrbitalSurfaces(
         out[2] = -(v.re * g[2] + v.im * g[5]);
       }
     : undefined;
-  const mesh = extractIsosurface(abs, dims, geom, isovalue, { ...common, inside: 'above', normal });
+  const plus = extractIsosurface(f, dims, geom, isovalue, { ...common, inside: 'above', normal, blockRange: range });
+  const minus = extractIsosurface(f, dims, geom, -isovalue, { ...common, inside: 'below', normal, blockRange: range });
+  const mesh = mergeMeshes([plus, minus]);
   const P = mesh.positions;
   const phaseAngle = new Float32Array(P.length / 3);
   for (let v = 0; v < phaseAngle.length; v++) {

@@ -1,63 +1,713 @@
-// High-level: state -> sampled grid -> surface rule -> per-phase meshes with statistics.
+// THE recipe → surfaces function. The worker's mesh jobs, the CLI and the Studio's preview Web Worker all call
+// recipeToSurfaces; everything a figure claims (level, enclosed fraction over all space with its error, the
+// grid, topology, warnings about the box or the resolution) comes out of this one call.
+//
+// Stages (explicit, each with a hook, so later work can replace one without touching the others):
+//   plan       level over ALL space (@psiform/orbitals levelSolver), the surface's features (analyseSurface),
+//              the box (automatic: holds the surface with a margin) and the grids (automatic: resolves the
+//              smallest feature; inner radial lobes that need finer grids get their own box, cut at the node
+//              spheres where |psi| = 0, so no surface crosses a cut)
+//   sampling   psi on each grid (hooks.sample: worker threads in Node, the plain sampler in a browser)
+//   threshold  how much of the surface the box leaves out (analytic quadrature, not the grid)
+//   extracting marching cubes per phase on each grid, no box caps; automatic grids are refined where the mesh's
+//              topology differs from the surface's (known from analyseSurface for one-(n, l) states, or checked
+//              by refinement for superpositions)
+//   refining   hooks.refine (identity today; the seam for projecting vertices onto the analytic surface)
+//   statistics mesh statistics, topology found against expected, warnings
 
-import { autoExtent, compileState, enclosedFractionAt, enclosedThreshold, type Bohr, type CompiledState, type OrbitalState } from '@psiform/orbitals';
-import { extractOrbitalSurfaces, type CubeGrid, type Phase, type OrbitalSurfaceOptions } from './orbital-surfaces';
-import type { Mesh } from './mesh';
+import {
+  analyseSurface,
+  autoExtent,
+  compileState,
+  levelSolver,
+  type CompiledState,
+  type LevelSolver,
+  type OrbitalState,
+  type SurfaceAnalysis,
+  type SurfaceFeature,
+  type Term,
+} from '@psiform/orbitals';
+import { enclosedFractionAt, enclosedThreshold } from '@psiform/orbitals';
+import { ENGINE_CONVENTIONS, type MeshStatsDto } from '@psiform/contracts';
+import { extractIsosurface } from './marching-cubes';
+import { mergeMeshes, type Mesh } from './mesh';
 import { extractNodalSurface } from './nodal';
+import { cubeGeometry, extractOrbitalSurfaces, type CubeGrid, type Phase, type PhaseSurface } from './orbital-surfaces';
 import { meshStats, type MeshStats } from './stats';
+
+/** The model every figure states. */
+export const MODEL_NOTE =
+  'One-electron hydrogen-like model (psi_nlm = R_nl Y_lm); many-electron orbitals differ. Lengths in Bohr radii (a0).';
+
+/** The sign conventions every figure states (CLI help, API docs and exported metadata quote this text). */
+export const CONVENTIONS_NOTE = ENGINE_CONVENTIONS;
+
+/** Units of every number a result carries. */
+export const RESULT_UNITS = {
+  length: 'a0 (Bohr radius = 0.529177210903 Å)',
+  isovalue: 'a0^-3/2 (|psi|)',
+  density: 'a0^-3 (|psi|^2)',
+  area: 'a0^2',
+  volume: 'a0^3',
+  fraction: 'probability, 0..1',
+  time: 'ms',
+} as const;
+
+/** Points per side the automatic grid starts from, and its ceilings. */
+export const AUTO_GRID = { base: 96, max: 256, maxComplex: 224, min: 24 } as const;
 
 export type SurfaceRule = { rule: 'enclosed'; fraction: number } | { rule: 'psi'; value: number };
 
-export interface BuildRequest {
-  state: OrbitalState;
-  grid: { n: number; extent?: 'auto' | number };
+export interface UploadSource {
+  kind: 'upload';
+  sizes: readonly [number, number, number];
+  spacing: readonly [number, number, number];
+  origin: readonly [number, number, number];
+  quantity: 'psi' | 'density';
+}
+
+/** The part of a recipe (structurally @psiform/contracts' Recipe) this function reads. */
+export interface SurfaceRecipe {
+  content: { Z: number; terms: readonly Term[] };
+  grid: { n: number | 'auto'; extent?: 'auto' | number };
   surface: SurfaceRule;
+  source?: { kind: 'computed' } | (UploadSource & Record<string, unknown>);
+  stage?: { material?: { nodalOutline?: boolean } };
 }
 
-export interface BuildOptions extends Pick<OrbitalSurfaceOptions, 'normals' | 'skipEmpty' | 'blockSize'> {
-  /** Replace the default sampler (e.g. the parallel Node sampler). */
-  sample?: (compiled: CompiledState, grid: CubeGrid) => { re: Float32Array; im: Float32Array | null };
-  /** Skip meshStats (timings_ms.stats is then 0). */
-  stats?: boolean;
-  /** Also extract the nodal surfaces (psi = 0) where they cut the figure (real states; see extractNodalSurface). */
-  nodal?: boolean;
+export type SurfaceStage = 'sampling' | 'threshold' | 'extracting' | 'refining' | 'statistics';
+
+export interface SampledField {
+  re: Float32Array;
+  im: Float32Array | null;
 }
 
-export interface OrbitalMeshResult {
-  /** The |psi| level of the surfaces. Enclosed rule: sqrt of the grid density threshold t, moved
-   * halfway down to the next lower sample value (same enclosed voxels; see levelBetweenSamples). */
+export interface RefineContext {
+  compiled: CompiledState;
   isovalue: number;
-  /** Probability actually enclosed by |psi| > isovalue on the sampled grid. */
-  enclosed: number;
-  grid: { n: number; extent: number };
-  surfaces: { phase: Phase; mesh: Mesh; stats: MeshStats | null }[];
-  /** Only with opts.nodal: psi = 0 between the lobes, or null (complex state, or no node, as 1s). Not a surface of
-   * the figure: no stats, not in `surfaces`. */
-  nodal?: Mesh | null;
-  timings_ms: { sample: number; threshold: number; extract: number; stats: number };
+  surfaces: PhaseSurface[];
 }
 
-function defaultSample(compiled: CompiledState, grid: CubeGrid): { re: Float32Array; im: Float32Array | null } {
+export interface SurfaceHooks {
+  /** Samples psi on a cube grid (the state as given in the recipe; compile it the same way). Default: compiled.sampleGrid. */
+  sample?: (state: OrbitalState, grid: CubeGrid, compiled: CompiledState) => SampledField | Promise<SampledField>;
+  /** Called on entering each stage (the worker writes it to the job row). */
+  onStage?: (stage: SurfaceStage) => void | Promise<void>;
+  /** Replaces the identity refinement (issue "surfaces": projection onto the analytic level set). */
+  refine?: (ctx: RefineContext) => PhaseSurface[] | Promise<PhaseSurface[]>;
+  /** Upload recipes: the decoded cube (float32, x fastest). */
+  cube?: Float32Array;
+  /** Largest points per side an automatic grid may use (the preview passes a smaller one). */
+  maxN?: number;
+  /** Also extract the nodal surfaces (psi = 0) between the lobes (real states); default: recipe.stage.material.nodalOutline. */
+  nodal?: boolean;
+  /** Skip mesh statistics (timings_ms.statistics is then 0; topology is not compared). */
+  stats?: boolean;
+  normals?: 'analytic' | 'field';
+}
+
+export type WarningCode = 'box-cuts-surface' | 'feature-unresolved' | 'topology-mismatch' | 'topology-unverified' | 'measured-in-cube';
+
+export interface SurfaceWarning {
+  code: WarningCode;
+  message: string;
+  /** box-cuts-surface: the half-width (a0) that would hold the whole surface. */
+  suggestedExtent?: number;
+  /** feature-unresolved: the feature and the points per side that would resolve it. */
+  feature?: { kind: string; size: number; description: string };
+  suggestedN?: number;
+}
+
+export interface GridRegion {
+  /** Points per side and half-width (a0) of this cube; spacing = 2 extent / (n - 1). */
+  n: number;
+  extent: number;
+  spacing: number;
+  /** Radial range this cube draws (node spheres); 0 and null (= infinity) for a single cube. */
+  rMin: number;
+  rMax: number | null;
+}
+
+export interface SurfacesResult {
+  model: string;
+  conventions: string;
+  units: typeof RESULT_UNITS;
+  rule: SurfaceRule;
+  /** |psi| level of the surfaces, a0^-3/2. */
+  isovalue: number;
+  /** |psi|² level, a0^-3. */
+  density: number;
+  enclosed: {
+    /** Probability inside the surface over all space (computed state), or inside the cube (upload). */
+    fraction: number;
+    /** Estimated absolute error of `fraction`. */
+    error: number;
+    /** The part of `fraction` inside the box: what the figure draws. Equal to fraction when the box holds the surface. */
+    inBox: number;
+    /** 'all space' (computed states) or 'inside the uploaded cube'. */
+    over: 'all space' | 'inside the uploaded cube';
+    method: string;
+  };
+  grid: {
+    /** 'auto': chosen by the engine; 'fixed': as the recipe asked. */
+    mode: 'auto' | 'fixed';
+    n: number;
+    extent: number;
+    spacing: number;
+    regions: GridRegion[];
+  };
+  box: { meetsSurface: boolean };
+  surfaces: { phase: Phase; mesh: Mesh; stats: MeshStats | null }[];
+  nodal?: Mesh | null;
+  topology: {
+    expected: Partial<Record<Phase, { components: number; euler: number }>> | null;
+    found: Partial<Record<Phase, { components: number; euler: number }>> | null;
+    matches: boolean | null;
+  };
+  features: { smallest: { kind: string; size: number; description: string } | null; radialNodes: number[][]; ring: boolean };
+  warnings: SurfaceWarning[];
+  timings_ms: Record<SurfaceStage | 'plan', number>;
+}
+
+function fmt(x: number): string {
+  return Number(x.toPrecision(4)).toString();
+}
+
+function pct(x: number): string {
+  return `${(100 * x).toFixed(x > 0.9999 || x < 0.0001 ? 4 : 2)}%`;
+}
+
+function validate(recipe: SurfaceRecipe): void {
+  if (!recipe || typeof recipe !== 'object') throw new RangeError('recipe must be an object');
+  const n = recipe.grid?.n;
+  if (n !== 'auto' && (!Number.isInteger(n) || (n as number) < 2)) throw new RangeError(`grid.n must be 'auto' or an integer >= 2 (got ${String(n)})`);
+  const ext = recipe.grid.extent ?? 'auto';
+  if (ext !== 'auto' && (!(ext > 0) || !Number.isFinite(ext))) throw new RangeError(`grid.extent must be 'auto' or a positive number (got ${String(ext)})`);
+  const rule = recipe.surface;
+  if (rule?.rule === 'enclosed') {
+    if (!(rule.fraction > 0 && rule.fraction < 1)) throw new RangeError(`surface.fraction must be between 0 and 1 (got ${rule.fraction})`);
+  } else if (rule?.rule === 'psi') {
+    if (!(rule.value > 0) || !Number.isFinite(rule.value)) throw new RangeError(`surface.value must be a positive |psi| level (got ${rule.value})`);
+  } else throw new RangeError(`surface.rule must be 'enclosed' or 'psi'`);
+}
+
+function stateOf(recipe: SurfaceRecipe): OrbitalState {
+  return { Z: recipe.content.Z, terms: recipe.content.terms.map((t) => ({ n: t.n, l: t.l, m: t.m, basis: t.basis, re: t.re, im: t.im ?? 0 })) };
+}
+
+const defaultSample = (_state: OrbitalState, grid: CubeGrid, compiled: CompiledState): SampledField => {
   const N = grid.n ** 3;
   const re = new Float32Array(N);
   const im = compiled.isReal ? null : new Float32Array(N);
-  compiled.sampleGrid({ n: grid.n, extent: grid.extent as Bohr }, re, im);
+  compiled.sampleGrid({ n: grid.n, extent: grid.extent as never }, re, im);
   return { re, im };
+};
+
+/** Everything decided before sampling. */
+export interface SurfacePlan {
+  state: OrbitalState;
+  compiled: CompiledState;
+  solver: LevelSolver;
+  level: { density: number; isovalue: number; fraction: number; error: number; method: string };
+  analysis: SurfaceAnalysis | null;
+  mode: 'auto' | 'fixed';
+  extent: number;
+  /** Half-width the whole surface needs (a0). */
+  surfaceHalfWidth: number;
+  regions: GridRegion[];
+  cap: number;
+  warnings: SurfaceWarning[];
+}
+
+/** The grid step a feature needs: two steps across it (a grid point inside every part and every gap). */
+function stepFor(f: SurfaceFeature | null): number {
+  return f ? f.size / 2 : Infinity;
+}
+
+function nFor(extent: number, step: number, lo: number, hi: number): number {
+  const n = Math.ceil((2 * extent) / step) + 1;
+  return Math.max(lo, Math.min(hi, Number.isFinite(n) ? n : lo));
+}
+
+/** Stage 1: level over all space, features, box and grids. Synchronous and cheap next to sampling. */
+export function planSurfaces(recipe: SurfaceRecipe, opts: { maxN?: number } = {}): SurfacePlan {
+  validate(recipe);
+  const state = stateOf(recipe);
+  const compiled = compileState(state);
+  const solver = levelSolver(compiled);
+  const rule = recipe.surface;
+  let level: SurfacePlan['level'];
+  if (rule.rule === 'enclosed') {
+    const L = solver.solve(rule.fraction);
+    level = { ...L, method: solver.method };
+  } else {
+    const t = rule.value * rule.value;
+    if (!(t < solver.maxDensity)) {
+      throw new RangeError(`no surface: |psi| = ${rule.value} is above the largest |psi| of this state (${fmt(Math.sqrt(solver.maxDensity))} a0^-3/2)`);
+    }
+    const e = solver.fractionAt(t);
+    level = { density: t, isovalue: rule.value, fraction: e.fraction, error: e.error, method: solver.method };
+  }
+  const analysis = analyseSurface(compiled, level.density);
+  const halfWidth = Number(solver.halfWidth(level.density));
+  const cap = Math.max(AUTO_GRID.min, Math.min(opts.maxN ?? Infinity, compiled.isReal ? AUTO_GRID.max : AUTO_GRID.maxComplex));
+  const warnings: SurfaceWarning[] = [];
+  const fixedN = recipe.grid.n === 'auto' ? null : (recipe.grid.n as number);
+  const extentIn = recipe.grid.extent ?? 'auto';
+
+  // The box: automatic = the surface's half-width + 5 % (directions are sampled) + 1.5 grid steps, so marching
+  // cubes has a layer of outside points all round; the step comes from the grid chosen for it.
+  const baseN = fixedN ?? Math.min(cap, AUTO_GRID.base);
+  let extent: number;
+  if (extentIn === 'auto') {
+    const e0 = 1.05 * halfWidth;
+    extent = e0 + (1.5 * 2 * e0) / (baseN - 1);
+  } else extent = extentIn;
+
+  let regions: GridRegion[];
+  if (fixedN !== null) {
+    regions = [{ n: fixedN, extent, spacing: (2 * extent) / (fixedN - 1), rMin: 0, rMax: null }];
+  } else if (analysis) {
+    regions = layeredRegions(analysis, extent, cap);
+  } else {
+    const n = Math.min(cap, AUTO_GRID.base);
+    regions = [{ n, extent, spacing: (2 * extent) / (n - 1), rMin: 0, rMax: null }];
+  }
+  return {
+    state,
+    compiled,
+    solver,
+    level,
+    analysis,
+    mode: fixedN === null ? 'auto' : 'fixed',
+    extent,
+    surfaceHalfWidth: halfWidth,
+    regions,
+    cap,
+    warnings,
+  };
 }
 
 /**
- * Density-threshold for the enclosed rule without a second n³ buffer for real states: psi is
- * squared in place (signs kept in a bit mask), thresholded, and restored by sqrt. For float32,
- * fl(sqrt(fl(x²))) = |x| exactly under round-to-nearest (no over/underflow), so the restored field
- * equals the sampled one except values below ~1e-19, which lie far beneath any isovalue.
+ * Grids for a one-(n, l) state: from the outermost lobe inwards, a lobe joins the current cube while the cube can
+ * resolve it within `cap` points per side; the first lobe that cannot starts a new, smaller cube whose half-width
+ * is that lobe's outer node radius (every inner lobe lies inside it). Cubes meet at node spheres, where psi = 0
+ * and no surface passes, so the meshes of different cubes never need stitching.
  */
+function layeredRegions(a: SurfaceAnalysis, extent: number, cap: number): GridRegion[] {
+  const present = a.layers.filter((l) => l.present);
+  const groups: { E: number; step: number; lobes: typeof present }[] = [];
+  const globalStep = (2 * extent) / (Math.min(cap, AUTO_GRID.base) - 1);
+  // A cube grows past the base grid by at most a quarter before the finer lobes get a cube of their own: inner
+  // cubes are small, so this costs fewer points than one fine cube for everything.
+  const growCap = Math.min(cap, Math.round(1.25 * AUTO_GRID.base));
+  let cur = { E: extent, step: globalStep, lobes: [] as typeof present };
+  for (let i = present.length - 1; i >= 0; i--) {
+    const layer = present[i];
+    const need = Math.min(cur.step, stepFor(layer.smallest));
+    if (cur.lobes.length === 0 || Math.ceil((2 * cur.E) / need) + 1 <= (groups.length < 6 ? growCap : cap)) {
+      cur.lobes.push(layer);
+      cur.step = need;
+      continue;
+    }
+    groups.push(cur);
+    // A new cube holds every lobe from this one inwards (they lie inside this lobe's outer node sphere).
+    cur = { E: Math.min(cur.E, layer.rHi), step: Math.min(globalStep, stepFor(layer.smallest)), lobes: [layer] };
+  }
+  groups.push(cur);
+  const regions: GridRegion[] = groups.map((g, k) => {
+    const n = nFor(g.E, g.step, AUTO_GRID.min, cap);
+    return { n, extent: g.E, spacing: (2 * g.E) / (n - 1), rMin: k === groups.length - 1 ? 0 : g.lobes[g.lobes.length - 1].rLo, rMax: null };
+  });
+  // Each cube draws from its innermost lobe's inner node out to where the next cube outwards begins.
+  for (let k = 1; k < regions.length; k++) regions[k].rMax = regions[k - 1].rMin;
+  return regions;
+}
+
 /**
- * The density level actually meshed for threshold t: halfway between t (a sample value) and the
- * next lower sample value. The voxels with density > level are exactly those >= t, and no sample
- * lies on the surface (a sample equal to the level would put several edge vertices on one point
- * and leave zero-area triangles).
+ * The real field the surfaces are extracted from (see analyseSurface): psi for real states; for complex states
+ * |psi| with the sign of R(r) (and of P_l^|m|(cos θ) for one-m states), so parts of opposite sign cannot merge.
+ * Points outside the region's radial range are set to 0 (below every level): cubes meet at node spheres.
+ * Written into `re` (its values are not needed afterwards).
  */
-export function levelBetweenSamples(density: Float32Array, t: number): number {
+function extractionField(plan: SurfacePlan, region: GridRegion, field: SampledField): Float32Array {
+  const { n, extent } = region;
+  const h = (2 * extent) / (n - 1);
+  const f = field.re;
+  const im = field.im;
+  const a = plan.analysis;
+  const nodes = a ? a.radialNodes : [];
+  const cones = a && a.field === 'signed' && !plan.compiled.isReal && a.nodalCones ? a.nodalCones.map(Math.cos) : null;
+  const signedRadial = !plan.compiled.isReal && a !== null;
+  const rMin = region.rMin;
+  const rMax = region.rMax ?? Infinity;
+  const masked = rMin > 0 || Number.isFinite(rMax);
+  if (plan.compiled.isReal && !masked) return f;
+  for (let iz = 0, i = 0; iz < n; iz++) {
+    const z = -extent + iz * h;
+    for (let iy = 0; iy < n; iy++) {
+      const y = -extent + iy * h;
+      const s2 = y * y + z * z;
+      for (let ix = 0; ix < n; ix++, i++) {
+        const x = -extent + ix * h;
+        const r = Math.sqrt(x * x + s2);
+        if (masked && (r < rMin || r > rMax)) {
+          f[i] = 0;
+          continue;
+        }
+        if (plan.compiled.isReal) continue;
+        const re = f[i];
+        const mod = Math.sqrt(re * re + im![i] * im![i]);
+        if (!signedRadial) {
+          f[i] = mod;
+          continue;
+        }
+        let sign = 1;
+        for (let k = 0; k < nodes.length && nodes[k] < r; k++) sign = -sign;
+        if (cones) {
+          const mu = r > 0 ? z / r : 1;
+          for (let k = 0; k < cones.length; k++) if (cones[k] > mu) sign = -sign;
+        }
+        f[i] = sign * mod;
+      }
+    }
+  }
+  return f;
+}
+
+function countTopology(surfaces: { phase: Phase; stats: MeshStats | null }[]): Partial<Record<Phase, { components: number; euler: number }>> {
+  const out: Partial<Record<Phase, { components: number; euler: number }>> = {};
+  for (const s of surfaces) if (s.stats) out[s.phase] = { components: s.stats.components, euler: s.stats.euler };
+  return out;
+}
+
+function sameTopology(a: Partial<Record<Phase, { components: number; euler: number }>>, b: Partial<Record<Phase, { components: number; euler: number }>>): boolean {
+  for (const p of ['+', '-', 'complex'] as const) {
+    const x = a[p] ?? { components: 0, euler: 0 };
+    const y = b[p] ?? { components: 0, euler: 0 };
+    if (x.components !== y.components || x.euler !== y.euler) return false;
+  }
+  return true;
+}
+
+/** Expected topology of the lobes a region draws (sum over its lobes). */
+function expectedFor(plan: SurfacePlan, region: GridRegion): Partial<Record<Phase, { components: number; euler: number }>> | null {
+  const a = plan.analysis;
+  if (!a) return null;
+  const rMax = region.rMax ?? Infinity;
+  const plus = { components: 0, euler: 0 };
+  const minus = { components: 0, euler: 0 };
+  for (const l of a.layers) {
+    if (l.rLo < region.rMin - 1e-12 || l.rLo >= rMax) continue;
+    plus.components += l.plus.components;
+    plus.euler += l.plus.euler;
+    minus.components += l.minus.components;
+    minus.euler += l.minus.euler;
+  }
+  return plan.compiled.isReal ? { '+': plus, '-': minus } : { complex: { components: plus.components + minus.components, euler: plus.euler + minus.euler } };
+}
+
+function describeTopology(t: Partial<Record<Phase, { components: number; euler: number }>>): string {
+  return (['+', '-', 'complex'] as const)
+    .filter((p) => t[p] && t[p]!.components > 0)
+    .map((p) => `${p === 'complex' ? '' : `${p}: `}${t[p]!.components} part${t[p]!.components === 1 ? '' : 's'}, Euler ${t[p]!.euler}`)
+    .join('; ');
+}
+
+interface RegionMesh {
+  region: GridRegion;
+  surfaces: PhaseSurface[];
+  stats: Map<Phase, MeshStats>;
+  field: Float32Array;
+  ms: { sample: number; extract: number };
+}
+
+async function meshRegion(plan: SurfacePlan, region: GridRegion, hooks: SurfaceHooks, withStats: boolean): Promise<RegionMesh> {
+  const grid: CubeGrid = { n: region.n, extent: region.extent };
+  const sample = hooks.sample ?? defaultSample;
+  let t0 = performance.now();
+  const field = await sample(plan.state, grid, plan.compiled);
+  const N = region.n ** 3;
+  if (field.re.length !== N || (!plan.compiled.isReal && field.im?.length !== N)) throw new RangeError('sampler returned arrays of the wrong length');
+  const tSample = performance.now() - t0;
+  t0 = performance.now();
+  const f = extractionField(plan, region, field);
+  const surfaces = extractOrbitalSurfaces(plan.compiled, f, grid, plan.level.isovalue, { normals: hooks.normals });
+  const stats = new Map<Phase, MeshStats>();
+  if (withStats) for (const s of surfaces) stats.set(s.phase, meshStats(s.mesh));
+  return { region, surfaces, stats, field: f, ms: { sample: tSample, extract: performance.now() - t0 } };
+}
+
+/** The one recipe → surfaces function (see the file comment). */
+export async function recipeToSurfaces(recipe: SurfaceRecipe, hooks: SurfaceHooks = {}): Promise<SurfacesResult> {
+  if (recipe?.source?.kind === 'upload') return cubeToSurfaces(recipe, hooks);
+  const timings: SurfacesResult['timings_ms'] = { plan: 0, sampling: 0, threshold: 0, extracting: 0, refining: 0, statistics: 0 };
+  let t0 = performance.now();
+  await hooks.onStage?.('sampling');
+  const plan = planSurfaces(recipe, { maxN: hooks.maxN });
+  timings.plan = performance.now() - t0;
+  const withStats = hooks.stats !== false;
+  // A box that cuts the surface leaves it open: its topology cannot be the closed surface's, so it is not compared.
+  const boxHoldsSurface = plan.surfaceHalfWidth * 1.0005 < plan.extent;
+  const verify = withStats && plan.mode === 'auto' && boxHoldsSurface;
+
+  // sampling + extracting, region by region (sampling dominates; timings are split accordingly)
+  const meshes: RegionMesh[] = [];
+  const run = async (region: GridRegion) => {
+    const m = await meshRegion(plan, region, hooks, verify);
+    timings.sampling += m.ms.sample;
+    timings.extracting += m.ms.extract;
+    return m;
+  };
+  for (const region of plan.regions) meshes.push(await run(region));
+
+  await hooks.onStage?.('threshold');
+  t0 = performance.now();
+  // The cube holds the whole surface when its half-width exceeds the surface's: then nothing lies outside.
+  const outside = boxHoldsSurface ? { fraction: 0, error: 0 } : plan.solver.outsideBox(plan.level.density, plan.extent);
+  timings.threshold = performance.now() - t0;
+
+  await hooks.onStage?.('extracting');
+  const warnings = plan.warnings;
+  if (verify) {
+    // Refine automatic grids until the mesh's topology is the surface's (or the ceiling is reached).
+    for (let k = 0; k < meshes.length; k++) {
+      const expected = expectedFor(plan, meshes[k].region);
+      let found = countTopology(meshes[k].surfaces.map((s) => ({ phase: s.phase, stats: meshes[k].stats.get(s.phase) ?? null })));
+      if (expected) {
+        while (!sameTopology(found, expected) && meshes[k].region.n < plan.cap) {
+          const r = meshes[k].region;
+          const n = Math.min(plan.cap, Math.ceil(r.n * 1.5));
+          meshes[k] = await run({ ...r, n, spacing: (2 * r.extent) / (n - 1) });
+          plan.regions[k] = meshes[k].region;
+          found = countTopology(meshes[k].surfaces.map((s) => ({ phase: s.phase, stats: meshes[k].stats.get(s.phase) ?? null })));
+        }
+      } else if (meshes.length === 1 && meshes[0].region.n < plan.cap) {
+        // A superposition of several (n, l): no topology is known in advance; refine until two grids agree.
+        let agreed = false;
+        for (let it = 0; it < 4 && !agreed && meshes[0].region.n < plan.cap; it++) {
+          const r = meshes[0].region;
+          const n = Math.min(plan.cap, Math.ceil(r.n * 1.5));
+          const next = await run({ ...r, n, spacing: (2 * r.extent) / (n - 1) });
+          const nextFound = countTopology(next.surfaces.map((s) => ({ phase: s.phase, stats: next.stats.get(s.phase) ?? null })));
+          agreed = sameTopology(found, nextFound);
+          meshes[0] = next;
+          plan.regions[0] = next.region;
+          found = nextFound;
+        }
+        if (!agreed) {
+          warnings.push({
+            code: 'topology-unverified',
+            message: `the surface's parts could not be confirmed: successive grids up to ${meshes[0].region.n} points per side gave different part counts; details thinner than ${fmt(meshes[0].region.spacing)} a0 may be missing or merged`,
+          });
+        }
+      }
+    }
+  }
+  let surfaces = mergeRegions(meshes, plan.compiled.isReal);
+  t0 = performance.now();
+  const wantNodal = hooks.nodal ?? recipe.stage?.material?.nodalOutline === true;
+  const nodal = wantNodal && plan.compiled.isReal ? extractNodalSurface(meshes[0].field, { n: meshes[0].region.n, extent: meshes[0].region.extent }, plan.level.isovalue) : wantNodal ? null : undefined;
+  timings.extracting += performance.now() - t0;
+
+  await hooks.onStage?.('refining');
+  t0 = performance.now();
+  if (hooks.refine) surfaces = await hooks.refine({ compiled: plan.compiled, isovalue: plan.level.isovalue, surfaces });
+  timings.refining = performance.now() - t0;
+
+  await hooks.onStage?.('statistics');
+  t0 = performance.now();
+  const withStatsList = surfaces.map((s) => ({ phase: s.phase, mesh: s.mesh, stats: withStats ? meshStats(s.mesh) : null }));
+  const found = withStats ? countTopology(withStatsList) : null;
+  const expected = plan.analysis ? plan.analysis.topology : null;
+  const openEdges = withStatsList.some((s) => (s.stats?.boundaryEdges ?? 0) > 0);
+  const meets = outside.fraction > 1e-9 || openEdges || !boxHoldsSurface;
+  const matches = found && expected && !meets ? sameTopology(found, expected) : null;
+  const inBox = Math.max(0, plan.level.fraction - outside.fraction);
+  const g0 = plan.regions[0];
+  if (meets) {
+    const need = 1.05 * plan.surfaceHalfWidth + 2 * g0.spacing;
+    warnings.unshift({
+      code: 'box-cuts-surface',
+      message:
+        `the box (±${fmt(plan.extent)} a0) cuts the surface: it is open where it meets the box, and the part drawn encloses ${pct(inBox)} ` +
+        `of the probability, not the ${pct(plan.level.fraction)} the whole surface encloses over all space; widen the box to ±${fmt(need)} a0 or more`,
+      suggestedExtent: Number(need.toPrecision(4)),
+    });
+  }
+  const smallest = plan.analysis?.smallest ?? null;
+  if (plan.analysis && smallest) {
+    // Each region must resolve the smallest feature of the lobes it draws.
+    for (const r of plan.regions) {
+      const f = smallestIn(plan.analysis, r);
+      if (f && r.spacing > stepFor(f) * 1.0001) {
+        const suggestedN = Math.ceil((2 * r.extent) / stepFor(f)) + 1;
+        warnings.push({
+          code: 'feature-unresolved',
+          message: `the grid step ${fmt(r.spacing)} a0 (${r.n} points over ±${fmt(r.extent)} a0) is coarser than half of ${f.description}: it may be missing or merged in the mesh; ${plan.mode === 'fixed' ? `use grid 'auto' or at least ${suggestedN} points per side` : `the finest grid allowed (${plan.cap} points per side) is not enough`}`,
+          feature: { kind: f.kind, size: f.size, description: f.description },
+          suggestedN,
+        });
+        break;
+      }
+    }
+  }
+  if (matches === false && found && expected) {
+    warnings.push({
+      code: 'topology-mismatch',
+      message: `the mesh has ${describeTopology(found) || 'no parts'} where the surface has ${describeTopology(expected)}: the grid is too coarse for its smallest details${smallest ? ` (${smallest.description})` : ''}`,
+    });
+  }
+  timings.statistics = performance.now() - t0;
+  const a = plan.analysis;
+  return {
+    model: MODEL_NOTE,
+    conventions: CONVENTIONS_NOTE,
+    units: RESULT_UNITS,
+    rule: recipe.surface,
+    isovalue: plan.level.isovalue,
+    density: plan.level.density,
+    enclosed: {
+      fraction: plan.level.fraction,
+      error: plan.level.error,
+      inBox: meets ? inBox : plan.level.fraction,
+      over: 'all space',
+      method: plan.level.method === 'rays' ? 'spherical quadrature over all space (Gauss–Legendre × trapezoid)' : 'radial lobes × angular quadrature over all space',
+    },
+    grid: { mode: plan.mode, n: g0.n, extent: g0.extent, spacing: g0.spacing, regions: plan.regions },
+    box: { meetsSurface: meets },
+    surfaces: withStatsList,
+    ...(nodal !== undefined ? { nodal } : {}),
+    topology: { expected: expected ?? null, found, matches },
+    features: {
+      smallest: smallest ? { kind: smallest.kind, size: smallest.size, description: smallest.description } : null,
+      radialNodes: a ? [a.radialNodes] : plan.compiled.blocks.map(() => []),
+      ring: a?.ring ?? false,
+    },
+    warnings,
+    timings_ms: timings,
+  };
+}
+
+function smallestIn(a: SurfaceAnalysis, r: GridRegion): SurfaceFeature | null {
+  const rMax = r.rMax ?? Infinity;
+  let best: SurfaceFeature | null = null;
+  for (const l of a.layers) {
+    if (!l.present || !l.smallest || l.rLo < r.rMin - 1e-12 || l.rLo >= rMax) continue;
+    if (!best || l.smallest.size < best.size) best = l.smallest;
+  }
+  return best;
+}
+
+function mergeRegions(meshes: RegionMesh[], isReal: boolean): PhaseSurface[] {
+  const phases: Phase[] = isReal ? ['+', '-'] : ['complex'];
+  return phases.map((phase) => {
+    const parts = meshes.map((m) => m.surfaces.find((s) => s.phase === phase)?.mesh).filter((m): m is Mesh => !!m);
+    return { phase, mesh: parts.length === 1 ? parts[0] : mergeMeshes(parts) };
+  });
+}
+
+/**
+ * Uploaded cubes: no analytic state, so the enclosed fraction can only be measured inside the cube (said in a
+ * warning), on the samples (radix selection, @psiform/orbitals enclosedThreshold).
+ */
+async function cubeToSurfaces(recipe: SurfaceRecipe, hooks: SurfaceHooks): Promise<SurfacesResult> {
+  validate(recipe);
+  const src = recipe.source as UploadSource;
+  const data = hooks.cube;
+  const [nx, ny, nz] = src.sizes;
+  if (!data || data.length !== nx * ny * nz) throw new RangeError(`the uploaded cube must hold ${nx}×${ny}×${nz} float32 values`);
+  const timings: SurfacesResult['timings_ms'] = { plan: 0, sampling: 0, threshold: 0, extracting: 0, refining: 0, statistics: 0 };
+  await hooks.onStage?.('sampling');
+  await hooks.onStage?.('threshold');
+  let t0 = performance.now();
+  const density = src.quantity === 'density';
+  let isovalue: number;
+  let fraction: number;
+  const rule = recipe.surface;
+  if (density) {
+    if (rule.rule === 'enclosed') {
+      const t = enclosedThreshold(data, rule.fraction);
+      fraction = enclosedFractionAt(data, t);
+      isovalue = Math.sqrt(levelBelow(data, t));
+    } else {
+      isovalue = rule.value;
+      fraction = enclosedFractionAt(data, isovalue * isovalue);
+    }
+  } else {
+    const sq = new Float32Array(data.length);
+    for (let i = 0; i < data.length; i++) sq[i] = data[i] * data[i];
+    if (rule.rule === 'enclosed') {
+      const t = enclosedThreshold(sq, rule.fraction);
+      fraction = enclosedFractionAt(sq, t);
+      isovalue = Math.sqrt(levelBelow(sq, t));
+    } else {
+      isovalue = rule.value;
+      fraction = enclosedFractionAt(sq, isovalue * isovalue);
+    }
+  }
+  timings.threshold = performance.now() - t0;
+  await hooks.onStage?.('extracting');
+  t0 = performance.now();
+  const dims = { nx, ny, nz };
+  const unit = { origin: [0, 0, 0] as [number, number, number], spacing: 1 };
+  const toWorld = (mesh: Mesh): Mesh => {
+    const P = mesh.positions;
+    const Nn = mesh.normals;
+    for (let v = 0; v < P.length / 3; v++) {
+      let l = 0;
+      for (let k = 0; k < 3; k++) {
+        P[3 * v + k] = src.origin[k] + src.spacing[k] * P[3 * v + k];
+        Nn[3 * v + k] /= src.spacing[k];
+        l += Nn[3 * v + k] * Nn[3 * v + k];
+      }
+      l = Math.sqrt(l) || 1;
+      for (let k = 0; k < 3; k++) Nn[3 * v + k] /= l;
+    }
+    return mesh;
+  };
+  const opts = { closeAtBoundary: false } as const;
+  const surfaces: PhaseSurface[] = density
+    ? [{ phase: '+', mesh: toWorld(extractIsosurface(data, dims, unit, isovalue * isovalue, { ...opts, inside: 'above' })) }]
+    : [
+        { phase: '+', mesh: toWorld(extractIsosurface(data, dims, unit, isovalue, { ...opts, inside: 'above' })) },
+        { phase: '-', mesh: toWorld(extractIsosurface(data, dims, unit, -isovalue, { ...opts, inside: 'below' })) },
+      ];
+  timings.extracting = performance.now() - t0;
+  await hooks.onStage?.('refining');
+  await hooks.onStage?.('statistics');
+  t0 = performance.now();
+  const list = surfaces.map((s) => ({ phase: s.phase, mesh: s.mesh, stats: hooks.stats === false ? null : meshStats(s.mesh) }));
+  const meets = list.some((s) => (s.stats?.boundaryEdges ?? 0) > 0);
+  const warnings: SurfaceWarning[] = [
+    {
+      code: 'measured-in-cube',
+      message: `an uploaded cube has no analytic state: the enclosed fraction (${pct(fraction)}) is measured on its samples, inside the cube only, not over all space`,
+    },
+  ];
+  if (meets) warnings.unshift({ code: 'box-cuts-surface', message: 'the surface reaches the faces of the uploaded cube and is open there: the cube does not hold the whole surface' });
+  timings.statistics = performance.now() - t0;
+  const ext = Math.max(...[0, 1, 2].map((k) => (src.sizes[k] - 1) * src.spacing[k])) / 2;
+  return {
+    model: MODEL_NOTE,
+    conventions: CONVENTIONS_NOTE,
+    units: RESULT_UNITS,
+    rule,
+    isovalue,
+    density: isovalue * isovalue,
+    enclosed: { fraction, error: NaN, inBox: fraction, over: 'inside the uploaded cube', method: 'sum over the cube samples' },
+    grid: { mode: 'fixed', n: Math.max(nx, ny, nz), extent: ext, spacing: Math.min(...src.spacing), regions: [] },
+    box: { meetsSurface: meets },
+    surfaces: list,
+    topology: { expected: null, found: countTopology(list), matches: null },
+    features: { smallest: null, radialNodes: [], ring: false },
+    warnings,
+    timings_ms: timings,
+  };
+}
+
+/** Halfway between the sample value t and the next lower sample value (no sample lies on the surface). */
+function levelBelow(density: Float32Array, t: number): number {
   let below = 0;
   for (let i = 0; i < density.length; i++) {
     const d = density[i];
@@ -66,105 +716,60 @@ export function levelBetweenSamples(density: Float32Array, t: number): number {
   return 0.5 * (t + below);
 }
 
-function enclosedOnReal(re: Float32Array, fraction: number): { t: number; enclosed: number } {
-  const N = re.length;
-  const sign = new Uint8Array((N + 7) >> 3);
-  for (let i = 0; i < N; i++) {
-    const v = re[i];
-    if (v < 0) sign[i >> 3] |= 1 << (i & 7);
-    re[i] = v * v;
-  }
-  const t0 = enclosedThreshold(re, fraction);
-  const enclosed = enclosedFractionAt(re, t0);
-  const t = levelBetweenSamples(re, t0);
-  for (let i = 0; i < N; i++) {
-    const a = Math.sqrt(re[i]);
-    re[i] = sign[i >> 3] & (1 << (i & 7)) ? -a : a;
-  }
-  return { t, enclosed };
+/** The automatic box for a sampled cube that has no surface rule (NRRD exports): holds >= 99.9 % (see autoExtent). */
+export function cubeExtentFor(recipe: SurfaceRecipe): number {
+  const ext = recipe.grid.extent ?? 'auto';
+  return ext === 'auto' ? Number(autoExtent(stateOf(recipe))) : ext;
 }
 
-export function buildOrbitalMesh(req: BuildRequest, opts: BuildOptions = {}): OrbitalMeshResult {
-  const n = req?.grid?.n;
-  if (!Number.isInteger(n) || n < 2) throw new RangeError(`grid.n must be an integer >= 2 (got ${n})`);
-  const rule = req.surface;
-  if (rule?.rule === 'enclosed') {
-    if (!(rule.fraction > 0 && rule.fraction < 1)) throw new RangeError(`surface.fraction must be between 0 and 1 (got ${rule.fraction})`);
-  } else if (rule?.rule === 'psi') {
-    if (!(rule.value > 0) || !Number.isFinite(rule.value)) throw new RangeError(`surface.value must be a positive |psi| level (got ${rule.value})`);
-  } else {
-    throw new RangeError(`surface.rule must be 'enclosed' or 'psi'`);
-  }
-  const compiled = compileState(req.state);
-  const ext = req.grid.extent ?? 'auto';
-  const extent = ext === 'auto' ? Number(autoExtent(req.state)) : ext;
-  if (!(extent > 0) || !Number.isFinite(extent)) throw new RangeError(`grid.extent must be 'auto' or a positive number (got ${String(ext)})`);
-  const grid: CubeGrid = { n, extent };
+export { cubeGeometry };
 
-  let t0 = performance.now();
-  const field = (opts.sample ?? defaultSample)(compiled, grid);
-  const N = n ** 3;
-  if (field.re.length !== N || (!compiled.isReal && field.im?.length !== N)) throw new RangeError('sampler returned arrays of the wrong length');
-  const tSample = performance.now() - t0;
+/** The state a recipe describes (terms as given; compileState normalises). */
+export function recipeState(recipe: Pick<SurfaceRecipe, 'content'>): OrbitalState {
+  return stateOf(recipe as SurfaceRecipe);
+}
 
-  t0 = performance.now();
-  let isovalue: number;
-  let enclosed: number;
-  let absBuffer: Float32Array | undefined;
-  if (compiled.isReal) {
-    if (rule.rule === 'enclosed') {
-      const r = enclosedOnReal(field.re, rule.fraction);
-      isovalue = Math.sqrt(r.t);
-      enclosed = r.enclosed;
-    } else {
-      isovalue = rule.value;
-      const re = field.re;
-      let tot = 0;
-      let inside = 0;
-      const c2 = isovalue * isovalue;
-      for (let i = 0; i < N; i++) {
-        const d = re[i] * re[i];
-        tot += d;
-        if (d > c2) inside += d;
-      }
-      enclosed = tot > 0 ? inside / tot : 0;
-    }
-  } else {
-    const re = field.re;
-    const im = field.im as Float32Array;
-    absBuffer = new Float32Array(N);
-    for (let i = 0; i < N; i++) absBuffer[i] = re[i] * re[i] + im[i] * im[i];
-    if (rule.rule === 'enclosed') {
-      const t = enclosedThreshold(absBuffer, rule.fraction);
-      enclosed = enclosedFractionAt(absBuffer, t);
-      isovalue = Math.sqrt(levelBetweenSamples(absBuffer, t));
-    } else {
-      isovalue = rule.value;
-      enclosed = enclosedFractionAt(absBuffer, isovalue * isovalue);
-    }
-  }
-  const tThreshold = performance.now() - t0;
+/** Mesh statistics as reported per surface: the contracts' MeshStatsDto with the open edges counted. */
+export type SurfaceStatsSummary = MeshStatsDto & { boundaryEdges: number };
 
-  t0 = performance.now();
-  const surfaces = extractOrbitalSurfaces(compiled, field, grid, isovalue, {
-    absBuffer,
-    normals: opts.normals,
-    skipEmpty: opts.skipEmpty,
-    blockSize: opts.blockSize,
-  });
-  const nodal = opts.nodal ? (compiled.isReal ? extractNodalSurface(field.re, grid, isovalue) : null) : undefined;
-  const tExtract = performance.now() - t0;
-
-  t0 = performance.now();
-  const withStats = surfaces.map((s) => ({ phase: s.phase, mesh: s.mesh, stats: opts.stats === false ? null : meshStats(s.mesh) }));
-  const tStats = opts.stats === false ? 0 : performance.now() - t0;
-
+/**
+ * The JSON summary of a result (no meshes): what the CLI prints with --json, what mesh assets and jobs store,
+ * and what the Studio and the metadata sheet read. Flat numbers keep older readers working.
+ */
+export function summariseSurfaces(r: SurfacesResult) {
   return {
-    isovalue,
-    enclosed,
-    grid: { n, extent },
-    surfaces: withStats,
-    ...(nodal !== undefined ? { nodal } : {}),
-    timings_ms: { sample: tSample, threshold: tThreshold, extract: tExtract, stats: tStats },
+    model: r.model,
+    conventions: r.conventions,
+    units: r.units,
+    surfaceRule: r.rule,
+    isovalue: r.isovalue,
+    density: r.density,
+    enclosed: r.enclosed.fraction,
+    enclosedError: r.enclosed.error,
+    enclosedInBox: r.enclosed.inBox,
+    enclosedOver: r.enclosed.over,
+    enclosedMethod: r.enclosed.method,
+    grid: { mode: r.grid.mode, n: r.grid.n, extent: r.grid.extent, spacing: r.grid.spacing, regions: r.grid.regions },
+    box: r.box,
+    topology: r.topology,
+    features: r.features,
+    warnings: r.warnings,
+    surfaces: r.surfaces
+      .filter((s) => s.mesh.indices.length > 0)
+      .map(
+        (s): SurfaceStatsSummary => ({
+          phase: s.phase,
+          vertices: s.stats?.vertices ?? s.mesh.positions.length / 3,
+          triangles: s.stats?.triangles ?? s.mesh.indices.length / 3,
+          area: s.stats?.area ?? NaN,
+          volume: s.stats?.volume ?? NaN,
+          components: s.stats?.components ?? NaN,
+          euler: s.stats?.euler ?? NaN,
+          watertight: s.stats?.watertight ?? false,
+          boundaryEdges: s.stats?.boundaryEdges ?? NaN,
+        }),
+      ),
   };
 }
+
+export type SurfacesSummary = ReturnType<typeof summariseSurfaces>;

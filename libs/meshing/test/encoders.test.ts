@@ -1,16 +1,20 @@
-import { describe, expect, it } from 'vitest';
+import { beforeAll, describe, expect, it } from 'vitest';
 
 import { parseOrbitalLabel, stateFromNlm } from '@psiform/orbitals';
-import { buildOrbitalMesh } from '../src/pipeline';
-import { encodeGlb, encodeObj, encodePly, encodeStl, parseBinaryStl, srgbToLinear, type Rgb } from '../src/encoders';
+import { recipeToSurfaces } from '../src/pipeline';
+import { phaseColoursInto, srgbToLinear } from '@psiform/colour';
+import { encodeGlb, encodeObj, encodePly, encodeStl, parseBinaryStl } from '../src/encoders';
 import { meshStats } from '../src/stats';
 
 
 const validator = require('gltf-validator') as { validateBytes: (b: Uint8Array) => Promise<{ issues: { numErrors: number; numWarnings: number; messages: { code: string; severity: number; message: string }[] } }> };
 
-const real = buildOrbitalMesh({ state: parseOrbitalLabel('2pz').state, grid: { n: 40, extent: 'auto' }, surface: { rule: 'enclosed', fraction: 0.9 } });
-const complex = buildOrbitalMesh({ state: stateFromNlm(2, 1, 1, { complex: true }), grid: { n: 40, extent: 'auto' }, surface: { rule: 'enclosed', fraction: 0.5 } });
-const wheel = (a: number): Rgb => [0.5 + 0.5 * Math.cos(a), 0.5 + 0.5 * Math.cos(a - 2.094), 0.5 + 0.5 * Math.cos(a + 2.094)];
+let real: Awaited<ReturnType<typeof recipeToSurfaces>>;
+let complex: Awaited<ReturnType<typeof recipeToSurfaces>>;
+beforeAll(async () => {
+  real = await recipeToSurfaces({ content: parseOrbitalLabel('2pz').state, grid: { n: 40, extent: 'auto' }, surface: { rule: 'enclosed', fraction: 0.9 } });
+  complex = await recipeToSurfaces({ content: stateFromNlm(2, 1, 1, { complex: true }), grid: { n: 40, extent: 'auto' }, surface: { rule: 'enclosed', fraction: 0.5 } });
+});
 
 function glbJson(glb: Uint8Array): any {
   // GLB container (glTF 2.0 spec, section 4.4): 12-byte header, then the JSON chunk.
@@ -34,21 +38,36 @@ describe('GLB', () => {
     const prim = json.meshes[0].primitives[0];
     expect(Object.keys(prim.attributes).sort()).toEqual(['COLOR_0', 'NORMAL', 'POSITION']);
     expect(json.accessors[prim.indices].count).toBe(real.surfaces[0].mesh.indices.length);
-    // Base colour is linear (glTF 2.0, 3.9.2): default '+' sRGB 0.85 -> linear.
-    expect(json.materials[0].pbrMetallicRoughness.baseColorFactor[0]).toBeCloseTo(srgbToLinear(0.85), 6);
+    // Base colour is linear (glTF 2.0, 3.9.2): the default '+' colour #c8553d, red 0xc8/255 in sRGB.
+    expect(json.materials[0].pbrMetallicRoughness.baseColorFactor[0]).toBeCloseTo(srgbToLinear(0xc8 / 255), 6);
   });
 
-  it('complex 2p(+1): COLOR_0 from the colour wheel; validator 0 errors; wheel is required', async () => {
-    const glb = await encodeGlb(complex.surfaces, { version: '0.1.0', colorWheel: wheel });
+  it('complex 2p(+1): COLOR_0 is @psiform/colour phaseColoursInto of arg psi on the palette wheel (linear); validator 0 errors', async () => {
+    const palette = { positive: '#c8553d', negative: '#2f6690', wheel: { lightness: 0.65, chroma: 0.12 } };
+    const glb = await encodeGlb(complex.surfaces, { version: '0.1.0', colouring: { palette, mode: 'auto' } });
     const report = await validator.validateBytes(glb);
     expect(report.issues.numErrors).toBe(0);
-    expect(glbJson(glb).materials[0].name).toBe('phase (complex)');
-    await expect(encodeGlb(complex.surfaces, { version: '0.1.0' })).rejects.toThrow(/colorWheel/);
+    const json = glbJson(glb);
+    expect(json.materials[0].name).toBe('phase (complex)');
+    const m = complex.surfaces[0].mesh;
+    const want = phaseColoursInto(palette, 'argument', 'complex', m.phaseAngle, new Float32Array(m.positions.length), { linear: true });
+    const acc = json.accessors[json.meshes[0].primitives[0].attributes.COLOR_0];
+    const view = json.bufferViews[acc.bufferView];
+    const dv = new DataView(glb.buffer, glb.byteOffset, glb.byteLength);
+    const binStart = 20 + dv.getUint32(12, true) + 8;
+    // Vertex attributes may be interleaved (bufferView.byteStride, glTF 2.0 section 3.6.2.1).
+    const stride = view.byteStride ?? 12;
+    const base = binStart + (view.byteOffset ?? 0) + (acc.byteOffset ?? 0);
+    const got = new Float32Array(want.length);
+    for (let v = 0; v < want.length / 3; v++) for (let k = 0; k < 3; k++) got[3 * v + k] = dv.getFloat32(base + v * stride + 4 * k, true);
+    let worst = 0;
+    for (let i = 0; i < want.length; i++) worst = Math.max(worst, Math.abs(got[i] - want[i]));
+    expect(worst).toBe(0);
   });
 });
 
 describe('STL', () => {
-  it('binary STL re-parses to a watertight outward mesh with the same facets', () => {
+  it('binary STL re-parses to a watertight outward mesh with the same facets', async () => {
     const stl = encodeStl(real.surfaces);
     const F = real.surfaces[0].mesh.indices.length / 3 + real.surfaces[1].mesh.indices.length / 3;
     expect(stl.length).toBe(84 + 50 * F);
@@ -64,14 +83,14 @@ describe('STL', () => {
     for (let f = 0; f < Math.min(F, 200); f++) expect(Math.hypot(back.facetNormals[3 * f], back.facetNormals[3 * f + 1], back.facetNormals[3 * f + 2])).toBeCloseTo(1, 5);
   });
 
-  it('rejects a truncated file', () => {
+  it('rejects a truncated file', async () => {
     const stl = encodeStl(real.surfaces);
     expect(() => parseBinaryStl(stl.subarray(0, stl.length - 1))).toThrow(/does not match/);
   });
 });
 
 describe('PLY and OBJ', () => {
-  it('PLY binary little endian: header counts, sizes and first vertex', () => {
+  it('PLY binary little endian: header counts, sizes and first vertex', async () => {
     const ply = encodePly(real.surfaces);
     const text = new TextDecoder().decode(ply.subarray(0, 600));
     const headerEnd = text.indexOf('end_header\n') + 'end_header\n'.length;
@@ -83,11 +102,11 @@ describe('PLY and OBJ', () => {
     expect(ply.length).toBe(headerEnd + nv * 27 + nf * 13);
     const dv = new DataView(ply.buffer, ply.byteOffset + headerEnd);
     expect(dv.getFloat32(0, true)).toBe(real.surfaces[0].mesh.positions[0]);
-    expect(ply[headerEnd + 24]).toBe(Math.round(0.85 * 255)); // sRGB red of the '+' default
+    expect(ply[headerEnd + 24]).toBe(0xc8); // sRGB red of the '+' default #c8553d
     expect(ply[headerEnd + nv * 27]).toBe(3);
   });
 
-  it('OBJ: v / vn / f counts and 1-based offsets per phase', () => {
+  it('OBJ: v / vn / f counts and 1-based offsets per phase', async () => {
     const obj = encodeObj(real.surfaces);
     const lines = obj.split('\n');
     const nv = lines.filter((l) => l.startsWith('v ')).length;

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 
 import { compileState, parseOrbitalLabel } from '@psiform/orbitals';
-import { buildOrbitalMesh } from '../src/pipeline';
+import { recipeToSurfaces } from '../src/pipeline';
 import { encodeGlb } from '../src/encoders';
 import { extractNodalSurface } from '../src/nodal';
 
@@ -17,8 +17,8 @@ const maxRadius = (P: Float32Array): number => {
 // Mechanics, 2nd ed., sec. 4.2, Table 4.3 for Y_10 ∝ cos θ; table numbers from memory); 1s ∝ e^{-Zr} has none.
 describe('nodal surfaces', () => {
   for (const n of [24, 25]) {
-    it(`2p_z (n = ${n}): the nodal output lies in z = 0 and inside the lobes' radial extent`, () => {
-      const r = buildOrbitalMesh({ state: parseOrbitalLabel('2pz').state, grid: { n, extent: 'auto' }, surface: { rule: 'enclosed', fraction: 0.9 } }, { nodal: true });
+    it(`2p_z (n = ${n}): the nodal output lies in z = 0 and inside the lobes' radial extent`, async () => {
+      const r = await recipeToSurfaces({ content: parseOrbitalLabel('2pz').state, grid: { n, extent: 'auto' }, surface: { rule: 'enclosed', fraction: 0.9 } }, { nodal: true });
       expect(r.surfaces.map((s) => s.phase)).toEqual(['+', '-']);
       const nodal = r.nodal!;
       expect(nodal).not.toBeNull();
@@ -42,26 +42,26 @@ describe('nodal surfaces', () => {
   }
 
   // R_20 ∝ (2 - Zr) e^{-Zr/2} (Griffiths, sec. 4.2.2, Table 4.7; table number from memory): one radial node, the sphere r = 2/Z a0.
-  it('2s: the nodal output is the sphere r = 2 a0 (within half a grid spacing)', () => {
+  it('2s: the nodal output is the sphere r = 2 a0 (within half a grid spacing)', async () => {
     const n = 40;
-    const r = buildOrbitalMesh({ state: parseOrbitalLabel('2s').state, grid: { n, extent: 'auto' }, surface: { rule: 'enclosed', fraction: 0.9 } }, { nodal: true });
+    const r = await recipeToSurfaces({ content: parseOrbitalLabel('2s').state, grid: { n, extent: 'auto' }, surface: { rule: 'enclosed', fraction: 0.9 } }, { nodal: true });
     const h = (2 * r.grid.extent) / (n - 1);
     const P = r.nodal!.positions;
     expect(P.length).toBeGreaterThan(0);
     for (let v = 0; v < P.length / 3; v++) expect(Math.abs(Math.hypot(P[3 * v], P[3 * v + 1], P[3 * v + 2]) - 2)).toBeLessThan(h / 2);
   });
 
-  it('1s has no nodal output; without the option there is no nodal key; surfaces and stats are unchanged', () => {
-    const req = { state: parseOrbitalLabel('1s').state, grid: { n: 24, extent: 'auto' as const }, surface: { rule: 'enclosed' as const, fraction: 0.9 } };
-    const withNodal = buildOrbitalMesh(req, { nodal: true });
+  it('1s has no nodal output; without the option there is no nodal key; surfaces and stats are unchanged', async () => {
+    const req = { content: parseOrbitalLabel('1s').state, grid: { n: 24, extent: 'auto' as const }, surface: { rule: 'enclosed' as const, fraction: 0.9 } };
+    const withNodal = await recipeToSurfaces(req, { nodal: true });
     expect(withNodal.nodal).toBeNull();
-    const plain = buildOrbitalMesh(req);
+    const plain = await recipeToSurfaces(req);
     expect('nodal' in plain).toBe(false);
     expect(withNodal.surfaces.map((s) => s.stats)).toEqual(plain.surfaces.map((s) => s.stats));
   });
 
-  it('unclipped by a tiny fraction the 2p_z plane reaches further out than with the default', () => {
-    const r = buildOrbitalMesh({ state: parseOrbitalLabel('2pz').state, grid: { n: 24, extent: 'auto' }, surface: { rule: 'enclosed', fraction: 0.9 } });
+  it('unclipped by a tiny fraction the 2p_z plane reaches further out than with the default', async () => {
+    const r = await recipeToSurfaces({ content: parseOrbitalLabel('2pz').state, grid: { n: 24, extent: 'auto' }, surface: { rule: 'enclosed', fraction: 0.9 } });
     const wide = extractNodalSurface(sample2pz(24, r.grid.extent), { n: 24, extent: r.grid.extent }, r.isovalue, { fraction: 1e-6 })!;
     const tight = extractNodalSurface(sample2pz(24, r.grid.extent), { n: 24, extent: r.grid.extent }, r.isovalue)!;
     expect(maxRadius(wide.positions)).toBeGreaterThan(maxRadius(tight.positions));
@@ -69,7 +69,7 @@ describe('nodal surfaces', () => {
   });
 
   it('a GLB with the nodal primitive passes Khronos gltf-validator with 0 errors; it is written only when given', async () => {
-    const r = buildOrbitalMesh({ state: parseOrbitalLabel('2pz').state, grid: { n: 24, extent: 'auto' }, surface: { rule: 'enclosed', fraction: 0.9 } }, { nodal: true });
+    const r = await recipeToSurfaces({ content: parseOrbitalLabel('2pz').state, grid: { n: 24, extent: 'auto' }, surface: { rule: 'enclosed', fraction: 0.9 } }, { nodal: true });
     const glb = await encodeGlb(r.surfaces, { version: '0.1.0', nodal: r.nodal });
     const report = await validator.validateBytes(glb);
     expect(report.issues.numErrors, JSON.stringify(report.issues.messages.slice(0, 3))).toBe(0);

@@ -1,21 +1,25 @@
 import { describe, expect, it } from 'vitest';
 import { compileState, oneSEnclosingIsovalue, parseOrbitalLabel, stateFromNlm, type CompiledState } from '@psiform/orbitals';
-import { buildOrbitalMesh } from '../src/pipeline';
+import { recipeToSurfaces } from '../src/pipeline';
 import { extractOrbitalSurfaces } from '../src/orbital-surfaces';
 import { meshStats } from '../src/stats';
 
 const RHO_90 = 2.66116; // 1s, 90 %: 1 - e^{-2 rho}(1 + 2 rho + 2 rho²) = 0.9 (from R_10, Z = 1)
 
 describe('1s at 90 % enclosed probability, N = 128', () => {
-  it('the closed form radius solves the enclosed-probability equation', () => {
+  it('the closed form radius solves the enclosed-probability equation', async () => {
     // P(r < rho) for 1s: integral of 4 r² e^{-2r} dr (Griffiths, Introduction to QM, 4.2: R_10 = 2 e^{-r}).
     const p = 1 - Math.exp(-2 * RHO_90) * (1 + 2 * RHO_90 + 2 * RHO_90 ** 2);
     expect(p).toBeCloseTo(0.9, 5);
   });
 
-  it('grid threshold: enclosed on the grid ~ 0.9, one closed outward sphere, volume within 0.2 %', () => {
-    const r = buildOrbitalMesh({ state: parseOrbitalLabel('1s').state, grid: { n: 128, extent: 'auto' }, surface: { rule: 'enclosed', fraction: 0.9 } });
-    expect(Math.abs(r.enclosed - 0.9)).toBeLessThan(1e-3);
+  it('all-space level: encloses 0.9 to 1e-9 (the closed form above), one closed outward sphere, volume within 0.2 %', async () => {
+    const r = await recipeToSurfaces({ content: parseOrbitalLabel('1s').state, grid: { n: 128, extent: 'auto' }, surface: { rule: 'enclosed', fraction: 0.9 } });
+    expect(Math.abs(r.enclosed.fraction - 0.9)).toBeLessThan(1e-9);
+    expect(r.enclosed.error).toBeLessThan(1e-6);
+    expect(r.enclosed.over).toBe('all space');
+    expect(r.isovalue).toBeCloseTo(oneSEnclosingIsovalue(0.9), 9);
+    expect(r.warnings).toEqual([]);
     expect(r.surfaces.map((s) => s.phase)).toEqual(['+', '-']);
     const plus = r.surfaces[0].stats!;
     expect(r.surfaces[1].mesh.indices.length).toBe(0); // 1s has no negative lobe
@@ -28,10 +32,10 @@ describe('1s at 90 % enclosed probability, N = 128', () => {
     expect(Math.abs(plus.area / (4 * Math.PI * RHO_90 ** 2) - 1)).toBeLessThan(0.001);
   });
 
-  it('closed-form isovalue psi(rho) = e^{-rho}/sqrt(pi): area within 0.05 %, volume within 0.2 %', () => {
+  it('closed-form isovalue psi(rho) = e^{-rho}/sqrt(pi): area within 0.05 %, volume within 0.2 %', async () => {
     const c = oneSEnclosingIsovalue(0.9);
     expect(c).toBeCloseTo(Math.exp(-RHO_90) / Math.sqrt(Math.PI), 5);
-    const r = buildOrbitalMesh({ state: parseOrbitalLabel('1s').state, grid: { n: 128, extent: 'auto' }, surface: { rule: 'psi', value: c } });
+    const r = await recipeToSurfaces({ content: parseOrbitalLabel('1s').state, grid: { n: 128, extent: 'auto' }, surface: { rule: 'psi', value: c } });
     const s = r.surfaces[0].stats!;
     expect(Math.abs(s.area / (4 * Math.PI * RHO_90 ** 2) - 1)).toBeLessThan(0.0005);
     expect(Math.abs(s.volume / ((4 / 3) * Math.PI * RHO_90 ** 3) - 1)).toBeLessThan(0.002);
@@ -45,32 +49,27 @@ describe('1s at 90 % enclosed probability, N = 128', () => {
     expect(worst).toBeGreaterThan(0.9999);
   });
 
-  it('the enclosed rule leaves the sampled field bit-identical (in-place density trick)', () => {
+  it('the sampler receives the recipe state as given and the pipeline returns its own meshes', async () => {
     const state = parseOrbitalLabel('3dz2').state;
-    let copy: Float32Array | null = null;
-    let used: Float32Array | null = null;
-    buildOrbitalMesh(
-      { state, grid: { n: 40, extent: 20 }, surface: { rule: 'enclosed', fraction: 0.9 } },
+    const seen: unknown[] = [];
+    await recipeToSurfaces(
+      { content: state, grid: { n: 40, extent: 20 }, surface: { rule: 'enclosed', fraction: 0.9 } },
       {
-        sample: (c, g) => {
+        sample: (s, g, c) => {
+          seen.push([s, g]);
           const re = new Float32Array(g.n ** 3);
           c.sampleGrid({ n: g.n, extent: g.extent as never }, re, null);
-          copy = re.slice();
-          used = re;
           return { re, im: null };
         },
       },
     );
-    // Values below ~1e-19 may lose bits to float32 underflow of psi²; none here are that small except zeros.
-    let diff = 0;
-    for (let i = 0; i < copy!.length; i++) if (Math.abs(copy![i]) > 1e-19 && copy![i] !== used![i]) diff++;
-    expect(diff).toBe(0);
+    expect(seen).toEqual([[{ Z: 1, terms: state.terms }, { n: 40, extent: 20 }]]);
   });
 });
 
 describe('lobes and phases', () => {
-  it('2p_z: one lobe per phase, each Euler 2; + above the nodal plane z = 0, - below', () => {
-    const r = buildOrbitalMesh({ state: parseOrbitalLabel('2pz').state, grid: { n: 64, extent: 'auto' }, surface: { rule: 'enclosed', fraction: 0.9 } });
+  it('2p_z: one lobe per phase, each Euler 2; + above the nodal plane z = 0, - below', async () => {
+    const r = await recipeToSurfaces({ content: parseOrbitalLabel('2pz').state, grid: { n: 64, extent: 'auto' }, surface: { rule: 'enclosed', fraction: 0.9 } });
     const [plus, minus] = r.surfaces;
     for (const s of [plus, minus]) {
       expect(s.stats!.components).toBe(1);
@@ -86,10 +85,10 @@ describe('lobes and phases', () => {
     expect(Math.abs(plus.stats!.area / minus.stats!.area - 1)).toBeLessThan(1e-6);
   });
 
-  it('3d_z²: + phase is two polar lobes (2 components, Euler 4), - phase one equatorial ring (Euler 0)', () => {
+  it('3d_z²: + phase is two polar lobes (2 components, Euler 4), - phase one equatorial ring (Euler 0)', async () => {
     // 3d_z² ∝ r² e^{-r/3} (3 cos²θ - 1): positive near the z axis (two cones), negative in a torus
     // around the equator; nodal cones at cos²θ = 1/3 (Atkins' Physical Chemistry, hydrogenic orbitals).
-    const r = buildOrbitalMesh({ state: parseOrbitalLabel('3dz2').state, grid: { n: 80, extent: 'auto' }, surface: { rule: 'enclosed', fraction: 0.9 } });
+    const r = await recipeToSurfaces({ content: parseOrbitalLabel('3dz2').state, grid: { n: 80, extent: 'auto' }, surface: { rule: 'enclosed', fraction: 0.9 } });
     const [plus, minus] = r.surfaces;
     expect(plus.stats!.components).toBe(2);
     expect(plus.stats!.euler).toBe(4);
@@ -101,13 +100,13 @@ describe('lobes and phases', () => {
     expect(b.max[2] - b.min[2]).toBeLessThan(b.max[0] - b.min[0]);
   });
 
-  it('complex 2p(m=+1): one |psi| surface, a torus (Euler 0), with arg psi = phi per vertex', () => {
+  it('complex 2p(m=+1): one |psi| surface, a torus (Euler 0), with arg psi = phi per vertex', async () => {
     // psi_21(+1) ∝ r e^{-r/2} sinθ e^{i phi} (Condon-Shortley sign -1): |psi| = c is a ring torus
     // and arg psi = phi + pi (Griffiths 4.1, Table 4.3).
     const state = stateFromNlm(2, 1, 1, { complex: true });
     // At 50 % the hole around the z axis is several cells wide. (Measured: at 80 % and n = 64 the
     // hole is narrower than one cell and the grid closes it, Euler 2; n = 65 or 128 shows the torus.)
-    const r = buildOrbitalMesh({ state, grid: { n: 64, extent: 'auto' }, surface: { rule: 'enclosed', fraction: 0.5 } });
+    const r = await recipeToSurfaces({ content: state, grid: { n: 64, extent: 'auto' }, surface: { rule: 'enclosed', fraction: 0.5 } });
     expect(r.surfaces).toHaveLength(1);
     const s = r.surfaces[0];
     expect(s.phase).toBe('complex');
@@ -126,13 +125,13 @@ describe('lobes and phases', () => {
     expect(worst).toBeLessThan(1e-5);
   });
 
-  it('analytic and field normals agree on 2p_z (within 0.1 rad except near the nodal plane)', () => {
+  it('analytic and field normals agree on 2p_z (within 0.1 rad except near the nodal plane)', async () => {
     const compiled = compileState(parseOrbitalLabel('2pz').state) as CompiledState;
     const grid = { n: 48, extent: 12 };
     const re = new Float32Array(grid.n ** 3);
     compiled.sampleGrid({ n: grid.n, extent: grid.extent as never }, re, null);
-    const a = extractOrbitalSurfaces(compiled, { re, im: null }, grid, 0.02);
-    const f = extractOrbitalSurfaces(compiled, { re, im: null }, grid, 0.02, { normals: 'field' });
+    const a = extractOrbitalSurfaces(compiled, re, grid, 0.02);
+    const f = extractOrbitalSurfaces(compiled, re, grid, 0.02, { normals: 'field' });
     for (let k = 0; k < 2; k++) {
       const A = a[k].mesh.normals, F = f[k].mesh.normals;
       expect(A.length).toBe(F.length);
@@ -146,11 +145,13 @@ describe('lobes and phases', () => {
     }
   });
 
-  it('bad requests fail with the field named', () => {
-    const state = parseOrbitalLabel('1s').state;
-    expect(() => buildOrbitalMesh({ state, grid: { n: 1 }, surface: { rule: 'psi', value: 0.1 } })).toThrow(/grid.n/);
-    expect(() => buildOrbitalMesh({ state, grid: { n: 16 }, surface: { rule: 'enclosed', fraction: 1.5 } })).toThrow(/surface.fraction/);
-    expect(() => buildOrbitalMesh({ state, grid: { n: 16 }, surface: { rule: 'psi', value: -1 } })).toThrow(/surface.value/);
-    expect(() => buildOrbitalMesh({ state, grid: { n: 16, extent: -2 }, surface: { rule: 'psi', value: 0.1 } })).toThrow(/grid.extent/);
+  it('bad requests fail with the field named', async () => {
+    const content = parseOrbitalLabel('1s').state;
+    await expect(recipeToSurfaces({ content, grid: { n: 1 }, surface: { rule: 'psi', value: 0.1 } })).rejects.toThrow(/grid.n/);
+    await expect(recipeToSurfaces({ content, grid: { n: 16 }, surface: { rule: 'enclosed', fraction: 1.5 } })).rejects.toThrow(/surface.fraction/);
+    await expect(recipeToSurfaces({ content, grid: { n: 16 }, surface: { rule: 'psi', value: -1 } })).rejects.toThrow(/surface.value/);
+    await expect(recipeToSurfaces({ content, grid: { n: 16, extent: -2 }, surface: { rule: 'psi', value: 0.1 } })).rejects.toThrow(/grid.extent/);
+    // A level above the largest |psi| has no surface (1s: |psi| <= 1/sqrt(pi) at the nucleus).
+    await expect(recipeToSurfaces({ content, grid: { n: 16 }, surface: { rule: 'psi', value: 0.6 } })).rejects.toThrow(/no surface/);
   });
 });

@@ -1,7 +1,7 @@
 import { GridSpec, assertGridSpec } from './grid';
 import { Complex, Monomial, solidHarmonic } from './harmonics';
 import { radialConstants } from './radial';
-import { OrbitalState, isRealState, toComplexBasis } from './state';
+import { OrbitalState, isRealState, normaliseState, toComplexBasis } from './state';
 
 /**
  * A state prepared for fast evaluation. Coordinates in Bohr, nucleus at the origin.
@@ -17,6 +17,20 @@ export interface CompiledState {
   /** out[0..2] = d Re psi/dx,dy,dz; out[3..5] = d Im psi/dx,dy,dz. At r = 0 the radial cusp term is taken as 0. */
   gradient(x: number, y: number, z: number, out: Float64Array): void;
   sampleGrid(grid: GridSpec, outRe: Float32Array, outIm: Float32Array | null, zStart?: number, zEnd?: number): void;
+  /** The (n, l) blocks of the complex-basis expansion, sorted by n then l: psi = sum_b R_{n_b l_b}(r) H_b(unit vector). */
+  readonly blocks: ReadonlyArray<{ readonly n: number; readonly l: number }>;
+  /** R_{n_b l_b}(r) of block b (Condon–Shortley state, R > 0 near the nucleus). */
+  radial(b: number, r: number): number;
+  /** Angular part of block b at a unit vector: H_b = sum_m c_{n_b l_b m} Y_{l_b m}. */
+  angular(b: number, ux: number, uy: number, uz: number): Complex;
+  /** The same for many unit vectors (x, y, z per direction) into caller-owned arrays (no allocation per point). */
+  angularInto(b: number, dirs: Float64Array, outRe: Float64Array, outIm: Float64Array | null): void;
+  /**
+   * psi along rays (the spherical quadrature's kernel): out[i * M + j] = psi(radii[j] * dirs[i]), M = radii.length,
+   * dirs = unit vectors (x, y, z per direction). psi(r u) = sum_b R_b(r) H_b(u), so the cost is one radial table and
+   * one angular table per block plus a B-term sum per sample. outIm may be null for real states.
+   */
+  sampleRays(dirs: Float64Array, radii: Float64Array, outRe: Float64Array, outIm: Float64Array | null): void;
 }
 
 /**
@@ -28,7 +42,10 @@ export interface CompiledState {
  * Written by hand (rather than a general expression library) because this loop is the sampling hot path.
  */
 export function compileState(state: OrbitalState): CompiledState {
-  const cx = toComplexBasis(state);
+  // The one normalisation rule: coefficients are relative weights; the engine scales them once, here, so that
+  // sum |c|² = 1 over the orthonormal complex-basis expansion (every sampler, level and density downstream sees a
+  // normalised psi). A state whose coefficients cancel to zero is refused.
+  const cx = normaliseState(toComplexBasis(state));
   const real = isRealState(cx);
 
   // ---- blocks (n, l), sorted by n so blocks sharing an exponential are adjacent
@@ -153,6 +170,22 @@ export function compileState(state: OrbitalState): CompiledState {
     }
   };
 
+  // H_b at the point whose powers were last set by powers(): one Horner-free monomial sum, shared by evaluate and
+  // the angular kernels (results in polyRe / polyIm, no allocation).
+  let polyRe = 0;
+  let polyIm = 0;
+  const blockPoly = (b: number): void => {
+    let re = 0;
+    let im = 0;
+    for (let o = monoStart[b]; o < monoStart[b + 1]; o++) {
+      const v = xp[mA[o]] * yp[mB[o]] * zp[mC[o]];
+      re += mRe[o] * v;
+      im += mIm[o] * v;
+    }
+    polyRe = re;
+    polyIm = im;
+  };
+
   const evaluate = (x: number, y: number, z: number): Complex => {
     powers(x, y, z);
     const r = Math.sqrt(x * x + y * y + z * z);
@@ -162,15 +195,9 @@ export function compileState(state: OrbitalState): CompiledState {
     for (let i = 0; i < B; i++) {
       if (bNewExp[i]) e = Math.exp(-bKappa[i] * r);
       const rad = bScale[i] * e * laguerre(i, bRhoF[i] * r);
-      let hr = 0;
-      let hi = 0;
-      for (let o = monoStart[i]; o < monoStart[i + 1]; o++) {
-        const v = xp[mA[o]] * yp[mB[o]] * zp[mC[o]];
-        hr += mRe[o] * v;
-        hi += mIm[o] * v;
-      }
-      re += rad * hr;
-      im += rad * hi;
+      blockPoly(i);
+      re += rad * polyRe;
+      im += rad * polyIm;
     }
     return { re, im: real ? 0 : im };
   };
@@ -416,5 +443,52 @@ export function compileState(state: OrbitalState): CompiledState {
     }
   };
 
-  return { isReal: real, state: cx, evaluate, gradient, sampleGrid };
+  const checkBlock = (b: number) => {
+    if (!Number.isInteger(b) || b < 0 || b >= B) throw new RangeError(`block index must be 0..${B - 1}, got ${String(b)}`);
+  };
+  const radial = (b: number, r: number): number => {
+    checkBlock(b);
+    let rl = 1;
+    for (let p = 0; p < bL[b]; p++) rl *= r;
+    return bScale[b] * Math.exp(-bKappa[b] * r) * laguerre(b, bRhoF[b] * r) * rl;
+  };
+  const angular = (b: number, ux: number, uy: number, uz: number): Complex => {
+    checkBlock(b);
+    powers(ux, uy, uz);
+    blockPoly(b);
+    return { re: polyRe, im: real ? 0 : polyIm };
+  };
+  const angularInto = (b: number, dirs: Float64Array, outRe: Float64Array, outIm: Float64Array | null): void => {
+    checkBlock(b);
+    const D = dirs.length / 3;
+    if (outRe.length < D || (outIm && outIm.length < D)) throw new RangeError(`angularInto: output arrays must hold ${D} values`);
+    for (let i = 0; i < D; i++) {
+      powers(dirs[3 * i], dirs[3 * i + 1], dirs[3 * i + 2]);
+      blockPoly(b);
+      outRe[i] = polyRe;
+      if (outIm) outIm[i] = real ? 0 : polyIm;
+    }
+  };
+  const sampleRays = (dirs: Float64Array, radii: Float64Array, outRe: Float64Array, outIm: Float64Array | null): void => {
+    const D = dirs.length / 3;
+    const M = radii.length;
+    if (!Number.isInteger(D)) throw new RangeError('sampleRays: dirs must hold x, y, z per direction');
+    if (outRe.length !== D * M) throw new RangeError(`sampleRays: outRe has length ${outRe.length}, expected ${D * M}`);
+    if (!real && !outIm) throw new RangeError('sampleRays: this state is complex-valued; pass outIm');
+    if (outIm && outIm.length !== D * M) throw new RangeError(`sampleRays: outIm has length ${outIm.length}, expected ${D * M}`);
+    outRe.fill(0);
+    if (outIm) outIm.fill(0);
+    const rad = new Float64Array(M);
+    for (let b = 0; b < B; b++) {
+      for (let j = 0; j < M; j++) rad[j] = radial(b, radii[j]);
+      for (let i = 0; i < D; i++) {
+        const h = angular(b, dirs[3 * i], dirs[3 * i + 1], dirs[3 * i + 2]);
+        const o = i * M;
+        if (h.re !== 0) for (let j = 0; j < M; j++) outRe[o + j] += rad[j] * h.re;
+        if (outIm && h.im !== 0) for (let j = 0; j < M; j++) outIm[o + j] += rad[j] * h.im;
+      }
+    }
+  };
+
+  return { isReal: real, state: cx, evaluate, gradient, sampleGrid, blocks: blockKeys.map((b) => ({ n: b.n, l: b.l })), radial, angular, angularInto, sampleRays };
 }

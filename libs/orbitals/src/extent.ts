@@ -6,8 +6,9 @@ import { Bohr } from './units';
  * Half-width (Bohr) of a cube holding at least `fraction` (default 0.999) of the probability.
  * The sphere of radius R with P(r < R) >= fraction is found for the slowest-decaying (n, l) term; the
  * superposition's own P(r < R) (cross terms included) is then checked and R grown by 2 % steps if needed.
- * A cube of half-width R contains that sphere. Rounded up to 0.5 a0 below 20 a0, to 1 a0 above
- * (common practice for tidy axis labels).
+ * A cube of half-width R contains that sphere. Rounded up to 4 significant digits only, so it scales exactly
+ * as 1/Z (a whole-a0 rounding would make heavy ions' boxes several times too large). Used where there is no
+ * surface to fit (density cubes, section maps); meshes fit their box to the surface (@psiform/meshing).
  */
 export function autoExtent(state: OrbitalState, opts: { fraction?: number } = {}): Bohr {
   const fraction = opts.fraction ?? 0.999;
@@ -22,6 +23,6 @@ export function autoExtent(state: OrbitalState, opts: { fraction?: number } = {}
     R = Math.max(R, radiusForProbability(t.n, t.l, cx.Z, fraction));
   }
   for (let i = 0; i < 200 && stateProbabilityInside(cx, R) < fraction; i++) R *= 1.02;
-  const step = R < 20 ? 0.5 : 1;
-  return (Math.ceil(R / step - 1e-9) * step) as Bohr;
+  const p = 10 ** (Math.floor(Math.log10(R)) - 3);
+  return (Math.ceil(R / p - 1e-9) * p) as Bohr;
 }

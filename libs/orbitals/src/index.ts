@@ -74,3 +74,16 @@ export {
   enclosedFractionAt,
 } from './probability';
 export { radialSeries, type RadialSeries } from './series';
+export {
+  type RayQuadrature,
+  type RayQuadratureOptions,
+  type EnclosedLevel,
+  rayQuadrature,
+  enclosedProbability,
+  fractionAtDensity,
+  solveEnclosedLevel,
+  superlevelHalfWidth,
+} from './rays';
+export { type LevelSolver, type FractionEstimate, levelSolver } from './level';
+export { type RadialLobe, type RadialLobes, type LobeSide, radialLobes, lobeInterval, lobePin, radialProbabilityAbove } from './radial-lobes';
+export { type SurfaceAnalysis, type SurfaceFeature, type SurfaceLayer, type TopologyCount, type FeatureKind, analyseSurface } from './features';

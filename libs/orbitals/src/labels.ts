@@ -273,7 +273,9 @@ export function prettyLabel(input: string | OrbitalState | Term): string {
     const parsed = parseOrbitalLabel(input);
     const mm = /^(\d+)([a-z])(.*)$/.exec(parsed.label);
     if (mm) {
-      const combo = REAL_LABELS[ALIASES[mm[2] + mm[3].replace(/-/g, '')] ?? mm[2] + mm[3].replace(/-/g, '')];
+      // The canonical name may hold parentheses and '-' (4fx(y2-z2)): look it up by its normalised key.
+      const key = normaliseKey(mm[2] + mm[3]).replace(/-/g, '');
+      const combo = REAL_LABELS[ALIASES[key] ?? key];
       if (combo) return combo.pretty ? `${mm[1]}${mm[2]}_${combo.pretty}` : `${mm[1]}${mm[2]}`;
     }
     return prettyLabel(parsed.state);
@@ -281,14 +283,98 @@ export function prettyLabel(input: string | OrbitalState | Term): string {
   if ('terms' in input) {
     const ts = input.terms;
     if (ts.length === 1 && ts[0].re === 1 && ts[0].im === 0) return termPretty(ts[0]);
+    const named = namedRealForm(ts);
+    if (named) return named;
+    const hybrid = namedHybrid(ts);
+    if (hybrid) return hybrid;
+    // A sum with its coefficients: "0.5·2s − 0.5·2p_x + 0.707·3d_z²" (real); complex ones in parentheses.
     return ts
-      .map((t) => {
-        const c = t.im === 0 ? fmt(t.re) : `(${fmt(t.re)}${t.im < 0 ? '−' : '+'}${fmt(Math.abs(t.im))}i)`;
-        return `${c}·${termPretty(t)}`;
+      .map((t, i) => {
+        if (t.im === 0) {
+          const sign = t.re < 0 ? '−' : '+';
+          const c = `${fmt(Math.abs(t.re))}·${termPretty(t)}`;
+          return i === 0 ? (t.re < 0 ? `−${c}` : c) : ` ${sign} ${c}`;
+        }
+        const c = `(${fmt(t.re)}${t.im < 0 ? '−' : '+'}${fmt(Math.abs(t.im))}i)·${termPretty(t)}`;
+        return i === 0 ? c : ` + ${c}`;
       })
-      .join(' + ');
+      .join('');
   }
   return termPretty(input);
+}
+
+/**
+ * The name of a real form written as several terms of one (n, l) (the cubic f set is stored as two terms each):
+ * '4f_x(y²−z²)' for (-√10/4, -√6/4) on m = +1, +3. Coefficients may carry any positive common factor (they are
+ * normalised by the engine); a negative factor is written as a leading '−'.
+ */
+function namedRealForm(ts: readonly Term[]): string | null {
+  if (ts.length === 0 || ts.some((t) => t.basis !== 'real' || t.im !== 0 || t.n !== ts[0].n || t.l !== ts[0].l)) return null;
+  const byM = new Map<number, number>();
+  for (const t of ts) byM.set(t.m, (byM.get(t.m) ?? 0) + t.re);
+  let norm = 0;
+  for (const v of byM.values()) norm += v * v;
+  if (!(norm > 0)) return null;
+  norm = Math.sqrt(norm);
+  for (const combo of Object.values(REAL_LABELS)) {
+    if (combo.l !== ts[0].l) continue;
+    let cn = 0;
+    for (const [, c] of combo.parts) cn += c * c;
+    cn = Math.sqrt(cn);
+    for (const sign of [1, -1]) {
+      const ms = new Set([...byM.keys(), ...combo.parts.map(([m]) => m)]);
+      let ok = true;
+      for (const m of ms) {
+        const want = (combo.parts.find(([pm]) => pm === m)?.[1] ?? 0) / cn;
+        const have = (sign * (byM.get(m) ?? 0)) / norm;
+        if (Math.abs(want - have) > 1e-9) ok = false;
+      }
+      if (ok) {
+        const letter = L_LETTERS[combo.l];
+        const base = combo.pretty ? `${ts[0].n}${letter}_${combo.pretty}` : `${ts[0].n}${letter}`;
+        return sign === 1 ? base : `−${base}`;
+      }
+    }
+  }
+  return null;
+}
+
+/**
+ * The hybrid a state is, when its terms are one member of a textbook set up to a positive common factor:
+ * '2sp³ #2' style names, the n written when it is not the set's default.
+ */
+function namedHybrid(ts: readonly Term[]): string | null {
+  if (ts.length < 2 || ts.some((t) => t.basis !== 'real' || t.im !== 0 || t.n !== ts[0].n)) return null;
+  const n = ts[0].n;
+  for (const [key, set] of Object.entries(HYBRIDS)) {
+    for (let k = 0; k < set.members.length; k++) {
+      let state: OrbitalState;
+      try {
+        state = parseOrbitalLabel(`${n}${key}#${k + 1}`).state;
+      } catch {
+        continue;
+      }
+      if (sameUpToScale(state.terms, ts)) return `${n === set.n ? '' : n}${set.pretty} #${k + 1}`;
+    }
+  }
+  return null;
+}
+
+function sameUpToScale(a: readonly Term[], b: readonly Term[]): boolean {
+  const key = (t: Term) => `${t.l}/${t.m}`;
+  const ma = new Map<string, number>();
+  const mb = new Map<string, number>();
+  for (const t of a) ma.set(key(t), (ma.get(key(t)) ?? 0) + t.re);
+  for (const t of b) mb.set(key(t), (mb.get(key(t)) ?? 0) + t.re);
+  let na = 0;
+  let nb = 0;
+  for (const v of ma.values()) na += v * v;
+  for (const v of mb.values()) nb += v * v;
+  if (!(na > 0 && nb > 0)) return false;
+  na = Math.sqrt(na);
+  nb = Math.sqrt(nb);
+  for (const k of new Set([...ma.keys(), ...mb.keys()])) if (Math.abs((ma.get(k) ?? 0) / na - (mb.get(k) ?? 0) / nb) > 1e-9) return false;
+  return true;
 }
 
 /** Complex-basis view of a parsed label (convenience for UIs showing coefficients). */

@@ -53,3 +53,21 @@ export function radialConstants(n: number, l: number, Z: number): RadialConstant
     rhoFactor,
   };
 }
+
+/**
+ * R_nl(r) and dR/dr without argument checks, for inner loops (callers validate n, l, Z once):
+ * with rho = 2Zr/n, R = N rho^l e^{-rho/2} L(rho) and dR/dr = (2Z/n) N e^{-rho/2} rho^{l-1} [(l - rho/2) L + rho L'],
+ * L' = -L_{k-1}^{alpha+1} (DLMF 18.9.23).
+ */
+export function radialValueAndSlope(c: RadialConstants, norm: number, r: number): { R: number; dR: number } {
+  const rho = c.rhoFactor * r;
+  const e = Math.exp(-rho / 2);
+  const L = genLaguerre(c.k, c.alpha, rho);
+  const dL = c.k === 0 ? 0 : -genLaguerre(c.k - 1, c.alpha + 1, rho);
+  const rl = c.l === 0 ? 1 : Math.pow(rho, c.l);
+  const R = norm * rl * e * L;
+  // rho^{l-1} [(l - rho/2) L + rho L'] written as rho^l [(l/rho - 1/2) L + L'] avoids rho^{-1} at l = 0.
+  const inner = (c.l === 0 ? -0.5 * L : (c.l / rho - 0.5) * L) + dL;
+  const dR = rho === 0 && c.l > 0 ? (c.l === 1 ? c.rhoFactor * norm * L : 0) : c.rhoFactor * norm * rl * e * inner;
+  return { R, dR };
+}

@@ -11,6 +11,7 @@ import {
   radialR,
   realY,
   sphericalY,
+  stateNormSquared,
 } from '../src';
 
 /** mulberry32: small seeded PRNG so the "random" points are reproducible. */
@@ -93,13 +94,16 @@ describe('compileState: Cartesian route vs spherical route', () => {
     };
     const c = compileState(state);
     expect(c.isReal).toBe(false);
+    // compileState applies the one normalisation rule: psi / sqrt(sum |c|² over the complex-basis expansion).
+    const k = 1 / Math.sqrt(stateNormSquared(state));
+    expect(Math.abs(k - 1)).toBeGreaterThan(0.01); // the coefficients above are not normalised
     const rand = rng(7);
     for (let i = 0; i < 200; i++) {
       const [x, y, z] = [0, 1, 2].map(() => (rand() * 2 - 1) * 15);
       const got = c.evaluate(x, y, z);
       const want = spherical(state, x, y, z);
-      expect(Math.abs(got.re - want.re)).toBeLessThan(1e-13);
-      expect(Math.abs(got.im - want.im)).toBeLessThan(1e-13);
+      expect(Math.abs(got.re - k * want.re)).toBeLessThan(1e-13);
+      expect(Math.abs(got.im - k * want.im)).toBeLessThan(1e-13);
     }
   });
 

@@ -60,14 +60,17 @@ describe('grid memory', () => {
 });
 
 describe('autoExtent', () => {
-  it('1s: the cube half-width covers the 99.9 % sphere from the closed form, rounded up to 0.5 a0', () => {
+  it('1s: the cube half-width covers the 99.9 % sphere from the closed form, rounded up to 4 digits only (scales as 1/Z)', () => {
     const R999 = oneSEnclosingRadius(0.999, 1); // 5.58 a0
-    expect(R999).toBeGreaterThan(5.5);
-    expect(R999).toBeLessThan(6);
     const e = autoExtent(parseOrbitalLabel('1s').state);
-    expect(e).toBe(6);
-    expect(autoExtent(parseOrbitalLabel('1s', { Z: 2 }).state)).toBe(3);
-    expect(autoExtent(parseOrbitalLabel('1s').state, { fraction: 0.9 })).toBe(3); // 2.66 a0 -> 3
+    expect(e).toBeGreaterThanOrEqual(R999);
+    expect(e - R999).toBeLessThan(1e-3);
+    for (const Z of [2, 26]) {
+      const eZ = autoExtent(parseOrbitalLabel('1s', { Z }).state);
+      expect(eZ).toBeGreaterThanOrEqual(R999 / Z);
+      expect(Math.abs(eZ * Z - e) / e).toBeLessThan(2e-3);
+    }
+    expect(autoExtent(parseOrbitalLabel('1s').state, { fraction: 0.9 })).toBe(2.662); // 2.66116 a0, rounded up
   });
 
   it('uses the slowest-decaying term and checks the superposition, cross terms included', () => {
@@ -81,7 +84,7 @@ describe('autoExtent', () => {
     const e = autoExtent(state);
     expect(e).toBeGreaterThanOrEqual(radiusForProbability(4, 1, 1, 0.999));
     expect(stateProbabilityInside(state, e)).toBeGreaterThanOrEqual(0.999);
-    expect(e % 1).toBe(0); // above 20 a0 rounded to whole a0
+    expect(Number(e.toPrecision(4))).toBe(e); // 4 significant digits
   });
 
   it('stateProbabilityInside of a single term equals probabilityInside; mixed n with same l,m includes the overlap', () => {

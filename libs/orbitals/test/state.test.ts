@@ -100,6 +100,24 @@ describe('parseOrbitalLabel', () => {
     expect(prettyLabel('2p+1')).toBe('2p(m=+1)');
     expect(prettyLabel(stateFromNlm(5, 4, -3))).toBe('5g(s3)');
   });
+
+  it('every named form prints its own name, from the label or from its terms (cubic f are stored as two terms)', () => {
+    for (const name of [...F_GENERAL_SET, ...F_CUBIC_SET]) {
+      const p = parseOrbitalLabel(`4${name}`);
+      const byLabel = prettyLabel(`4${name}`);
+      expect(byLabel).not.toMatch(/[+·]/);
+      expect(prettyLabel(p.state)).toBe(byLabel);
+    }
+    expect(prettyLabel('4fx(y2-z2)')).toBe('4f_x(y²−z²)');
+    expect(prettyLabel('4fy(z2-x2)')).toBe('4f_y(z²−x²)');
+    // Any positive common factor names the same form (the engine normalises); a negative one is written as −.
+    const t = parseOrbitalLabel('5fx(y2-z2)').state.terms.map((x) => ({ ...x, re: -3 * x.re }));
+    expect(prettyLabel({ Z: 1, terms: t })).toBe('−5f_x(y²−z²)');
+    // Hybrids from their terms; other sums with their signed coefficients.
+    expect(prettyLabel(parseOrbitalLabel('sp3#2').state)).toBe('sp³ #2');
+    expect(prettyLabel(parseOrbitalLabel('4sp2#3').state)).toBe('4sp² #3');
+    expect(prettyLabel({ Z: 1, terms: [{ n: 2, l: 0, m: 0, basis: 'real', re: 0.6, im: 0 }, { n: 3, l: 2, m: 0, basis: 'real', re: -0.8, im: 0 }] })).toBe('0.6·2s − 0.8·3d_z²');
+  });
 });
 
 describe('basis changes and normalisation', () => {

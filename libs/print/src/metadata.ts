@@ -1,27 +1,50 @@
 // The figure's metadata sheet: what was computed, how, and the words that go with it (caption, alt text).
 
 import { BOHR_RADIUS_ANGSTROM, L_LETTERS, isRealState, prettyLabel, type OrbitalState, type Term } from '@psiform/orbitals';
+import { CONVENTIONS_NOTE } from '@psiform/meshing';
 
 export const MODEL_NOTE = 'Shapes are those of the one-electron hydrogen-like model; orbitals of many-electron atoms differ.';
+
+/** Used when a summary does not carry the conventions (older mesh assets); the text of @psiform/meshing CONVENTIONS_NOTE. */
+const CONVENTIONS = CONVENTIONS_NOTE;
 
 /** The recipe fields the sheet reads (structurally the @psiform/contracts Recipe; extra fields are kept). */
 export interface RecipeLike {
   version: number;
   label?: string;
   content: { Z: number; terms: Term[] };
-  grid: { n: number; extent?: 'auto' | number };
+  grid: { n: number | 'auto'; extent?: 'auto' | number };
   surface: { rule: 'enclosed'; fraction: number } | { rule: 'psi'; value: number };
   phase?: { mode: 'auto' | 'sign' | 'argument' };
   canvas?: { widthMm: number; heightMm: number; dpi: number };
   [key: string]: unknown;
 }
 
-/** buildOrbitalMesh's result without the meshes (the job's JSON). */
+type SurfaceStatsLike = { vertices: number; triangles: number; area: number; volume?: number; components?: number; euler?: number; watertight?: boolean };
+
+/** A figure warning (@psiform/meshing SurfaceWarning): what the figure cannot show truthfully. */
+export interface WarningLike {
+  code: string;
+  message: string;
+  suggestedExtent?: number;
+}
+
+/**
+ * The mesh summary (@psiform/meshing summariseSurfaces, the mesh job's JSON). Surfaces may carry their statistics
+ * flat (the summary) or under `stats`.
+ */
 export interface MeshResultLike {
   isovalue: number;
+  /** Probability inside the surface over all space (or inside an uploaded cube; see enclosedOver). */
   enclosed: number;
-  grid: { n: number; extent: number };
-  surfaces: { phase: '+' | '-' | 'complex'; stats?: { vertices: number; triangles: number; area: number; volume?: number; components?: number; watertight?: boolean } | null }[];
+  enclosedError?: number;
+  /** The part of `enclosed` inside the box, i.e. what the figure draws. */
+  enclosedInBox?: number;
+  enclosedOver?: string;
+  grid: { n: number; extent: number; mode?: 'auto' | 'fixed'; spacing?: number; regions?: { n: number; extent: number }[] };
+  surfaces: ({ phase: '+' | '-' | 'complex'; stats?: SurfaceStatsLike | null } & Partial<SurfaceStatsLike>)[];
+  warnings?: WarningLike[];
+  conventions?: string;
 }
 
 export interface FigureMetadataInput {
@@ -45,21 +68,32 @@ export interface FigureMetadata {
     rule: 'enclosed' | 'psi';
     /** Target fraction (enclosed rule) or requested |psi| (psi rule). */
     target: number;
-    /** Probability actually enclosed on the sampled grid. */
+    /** Probability inside the surface over all space (`enclosedOver`), with its estimated error. */
     enclosedAchieved: number;
+    enclosedError: number | null;
+    enclosedOver: string;
+    /** The part drawn inside the box: less than enclosedAchieved when the box cuts the surface. */
+    enclosedInBox: number;
     /** |psi| level of the surfaces, a0^-3/2. */
     isovalue: number;
     phaseColouring: 'sign' | 'argument';
   };
   grid: {
     n: number;
+    mode: 'auto' | 'fixed';
+    /** Finer cubes for inner radial lobes (automatic grids only). */
+    innerGrids: { n: number; extentBohr: number }[];
     requestedExtent: 'auto' | number;
     extentBohr: number;
     extentAngstrom: number;
     spacingBohr: number;
     spacingAngstrom: number;
   };
-  surfaces: MeshResultLike['surfaces'];
+  surfaces: { phase: '+' | '-' | 'complex'; stats: SurfaceStatsLike | null }[];
+  /** Everything the figure cannot show truthfully (also in the caption). Empty when none. */
+  warnings: WarningLike[];
+  /** Sign conventions (Condon–Shortley, real forms, hybrids, normalisation). */
+  conventions: string;
   canvas?: { widthMm: number; heightMm: number; dpi: number };
   engineVersion: string;
   palette: FigureMetadataInput['palette'];
@@ -147,12 +181,22 @@ export function figureMetadata(input: FigureMetadataInput): FigureMetadata {
   const spacing = (2 * extent) / (n - 1);
   const single = terms.length === 1;
   const what = single ? `${label} orbital` : `state ${label}`;
+  const over = result.enclosedOver ?? 'all space';
+  const inBox = result.enclosedInBox ?? result.enclosed;
+  const warnings = result.warnings ?? [];
+  const cut = warnings.find((w) => w.code === 'box-cuts-surface');
   const ruleText =
     recipe.surface.rule === 'enclosed'
-      ? `enclosing ${percent(recipe.surface.fraction)} of the probability density`
-      : `at |ψ| = ${recipe.surface.value.toPrecision(3)} a0^−3/2 (enclosing ${percent(Math.round(result.enclosed * 1000) / 1000)} of the probability on the grid)`;
-  const colourText = phaseColouring === 'sign' ? 'lobes coloured by the sign of ψ' : 'coloured by the phase of ψ';
-  const caption = `Isosurface of the hydrogen-like ${what} (Z = ${Z}) ${ruleText}; ${colourText}. Computed on a ${n}³ grid.`;
+      ? `enclosing ${percent(Math.round(result.enclosed * 1000) / 1000)} of the probability ${over === 'all space' ? 'over all space' : over}`
+      : `at |ψ| = ${recipe.surface.value.toPrecision(3)} a0^−3/2 (enclosing ${percent(Math.round(result.enclosed * 1000) / 1000)} of the probability ${over === 'all space' ? 'over all space' : over})`;
+  const colourText = phaseColouring === 'sign' ? (real ? 'lobes coloured by the sign of ψ' : 'coloured by the sign of Re ψ') : 'coloured by the phase of ψ';
+  const inner = (result.grid.regions ?? []).slice(1);
+  const gridText = `Computed on a ${n}³ grid${inner.length ? ` (inner lobes on finer grids: ${inner.map((r) => `${r.n}³ over ±${g(r.extent, 3)} a0`).join(', ')})` : ''}.`;
+  const cutText = cut ? ` The box cuts the surface open: the part shown encloses ${percent(Math.round(inBox * 1000) / 1000)}.` : '';
+  const gridWarn = warnings.some((w) => w.code === 'feature-unresolved' || w.code === 'topology-mismatch' || w.code === 'topology-unverified')
+    ? ' The grid is too coarse for some details of this surface (see the warnings).'
+    : '';
+  const caption = `Isosurface of the hydrogen-like ${what} (Z = ${Z}) ${ruleText}; ${colourText}. ${gridText}${cutText}${gridWarn}`;
   const altText = `${shapeDescription(state, label)} Hydrogen-like ${label}, Z = ${Z}.`;
   return {
     format: 'psiform-figure-metadata',
@@ -166,18 +210,25 @@ export function figureMetadata(input: FigureMetadataInput): FigureMetadata {
       rule: recipe.surface.rule,
       target: recipe.surface.rule === 'enclosed' ? recipe.surface.fraction : recipe.surface.value,
       enclosedAchieved: result.enclosed,
+      enclosedError: Number.isFinite(result.enclosedError) ? (result.enclosedError as number) : null,
+      enclosedOver: over,
+      enclosedInBox: inBox,
       isovalue: result.isovalue,
       phaseColouring,
     },
     grid: {
       n,
+      mode: result.grid.mode ?? (recipe.grid.n === 'auto' ? 'auto' : 'fixed'),
+      innerGrids: inner.map((r) => ({ n: r.n, extentBohr: r.extent })),
       requestedExtent: recipe.grid.extent ?? 'auto',
       extentBohr: extent,
       extentAngstrom: extent * BOHR_RADIUS_ANGSTROM,
       spacingBohr: spacing,
       spacingAngstrom: spacing * BOHR_RADIUS_ANGSTROM,
     },
-    surfaces: result.surfaces.map((s) => ({ phase: s.phase, stats: s.stats ?? null })),
+    surfaces: result.surfaces.map((s) => ({ phase: s.phase, stats: s.stats ?? (typeof s.triangles === 'number' ? (({ phase: _p, stats: _s, ...flat }) => flat as SurfaceStatsLike)(s) : null) })),
+    warnings,
+    conventions: result.conventions ?? CONVENTIONS,
     ...(recipe.canvas ? { canvas: { widthMm: recipe.canvas.widthMm, heightMm: recipe.canvas.heightMm, dpi: recipe.canvas.dpi } } : {}),
     engineVersion,
     palette,
@@ -204,12 +255,20 @@ export function metadataSheetText(meta: FigureMetadata): string {
   L.push('', '## Surface', '');
   const s = meta.surface;
   L.push(s.rule === 'enclosed' ? `- Rule: enclose ${g(s.target * 100)}% of the probability` : `- Rule: |ψ| = ${g(s.target)} a0^-3/2`);
-  L.push(`- Enclosed on the grid: ${(s.enclosedAchieved * 100).toFixed(2)}%`, `- Isovalue |ψ|: ${g(s.isovalue)} a0^-3/2`, `- Colouring: ${s.phaseColouring === 'sign' ? 'sign of ψ' : 'phase (argument) of ψ'}`);
+  L.push(
+    `- Enclosed ${s.enclosedOver === 'all space' ? 'over all space' : s.enclosedOver}: ${(s.enclosedAchieved * 100).toFixed(2)}%${s.enclosedError !== null ? ` (± ${(s.enclosedError * 100).toPrecision(2)}%)` : ''}`,
+    ...(s.enclosedInBox < s.enclosedAchieved ? [`- Drawn inside the box: ${(s.enclosedInBox * 100).toFixed(2)}% (the box cuts the surface)`] : []),
+    `- Isovalue |ψ|: ${g(s.isovalue)} a0^-3/2`, `- Colouring: ${s.phaseColouring === 'sign' ? 'sign of ψ' : 'phase (argument) of ψ'}`);
   for (const x of meta.surfaces) if (x.stats) L.push(`- Surface ${x.phase}: ${x.stats.triangles} triangles, area ${g(x.stats.area)} a0²`);
   L.push('', '## Grid', '');
   const gr = meta.grid;
   L.push(`- ${gr.n}³ points; extent ±${g(gr.extentBohr)} a0 (±${g(gr.extentAngstrom)} Å)${gr.requestedExtent === 'auto' ? ', chosen automatically' : ''}`);
-  L.push(`- Spacing ${g(gr.spacingBohr)} a0 (${g(gr.spacingAngstrom)} Å)`);
+  L.push(`- Spacing ${g(gr.spacingBohr)} a0 (${g(gr.spacingAngstrom)} Å)${gr.mode === 'auto' ? '; chosen by the engine to resolve the surface' : ''}`);
+  for (const r of gr.innerGrids) L.push(`- Inner radial lobes: ${r.n}³ points over ±${g(r.extentBohr)} a0`);
+  L.push('', '## Warnings', '');
+  if (meta.warnings.length === 0) L.push('- None: the box holds the whole surface and the grid resolves its details.');
+  for (const w of meta.warnings) L.push(`- ${w.message}`);
+  L.push('', '## Conventions', '', `- ${meta.conventions}`);
   if (meta.canvas) L.push('', '## Canvas', '', `- ${meta.canvas.widthMm} × ${meta.canvas.heightMm} mm at ${meta.canvas.dpi} dpi`);
   L.push('', '## Palette', '');
   for (const [k, v] of Object.entries(meta.palette)) if (v !== undefined && v !== null) L.push(`- ${k}: ${String(v)}`);

@@ -1,14 +1,14 @@
 import { describe, expect, it } from 'vitest';
 import * as THREE from 'three';
 import { parseOrbitalLabel } from '@psiform/orbitals';
-import { buildOrbitalMesh, encodeGlb } from '@psiform/meshing';
+import { encodeGlb, recipeToSurfaces } from '@psiform/meshing';
 import { boundaryEdges, parseGlbGeometries, splitNodal, triangleCount } from './geometry';
 
 const toBuffer = (u: Uint8Array): ArrayBuffer => u.buffer.slice(u.byteOffset, u.byteOffset + u.byteLength) as ArrayBuffer;
 
 describe('nodal outline geometry', () => {
   it('a GLB with the encoder\'s "nodal" mesh loads as one nodal entry beside the two phases; triangles count lobes only', async () => {
-    const r = buildOrbitalMesh({ state: parseOrbitalLabel('2pz').state, grid: { n: 24, extent: 'auto' }, surface: { rule: 'enclosed', fraction: 0.9 } }, { nodal: true });
+    const r = await recipeToSurfaces({ content: parseOrbitalLabel('2pz').state, grid: { n: 24, extent: 'auto' }, surface: { rule: 'enclosed', fraction: 0.9 } }, { nodal: true });
     const list = await parseGlbGeometries(toBuffer(await encodeGlb(r.surfaces, { version: 'test', nodal: r.nodal })));
     expect(list.map((g) => g.phase)).toEqual(['+', '-', 'nodal']);
     const { lobes, nodal } = splitNodal(list);

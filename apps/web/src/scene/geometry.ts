@@ -125,19 +125,3 @@ export function boundaryEdges(geometry: THREE.BufferGeometry): Float32Array {
   }
   return new Float32Array(out);
 }
-
-/**
- * Colour for arg ψ on complex surfaces: the same HSV wheel the worker bakes into GLB files
- * (hue from the angle, s = 0.65, v = 0.85), returned in linear RGB as three.js expects for vertex colours.
- */
-export function phaseWheelLinear(angle: number): [number, number, number] {
-  const h = ((angle + Math.PI) / (2 * Math.PI)) * 6;
-  const s = 0.65;
-  const v = 0.85;
-  const c = v * s;
-  const x = c * (1 - Math.abs((h % 2) - 1));
-  const m = v - c;
-  const [r, g, b] = h < 1 ? [c, x, 0] : h < 2 ? [x, c, 0] : h < 3 ? [0, c, x] : h < 4 ? [0, x, c] : h < 5 ? [x, 0, c] : [c, 0, x];
-  const lin = (u: number) => (u <= 0.04045 ? u / 12.92 : ((u + 0.055) / 1.055) ** 2.4);
-  return [lin(r + m), lin(g + m), lin(b + m)];
-}

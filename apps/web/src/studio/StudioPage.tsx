@@ -90,8 +90,10 @@ function Studio({ initial, figure }: StudioProps) {
 
   const check = checkContent(draft);
   const surf = checkSurface(surface);
-  const gridN = Number(grid.trim());
-  const gridError = grid.trim() === '' ? 'Enter the grid size N.' : validateGridN(gridN);
+  // 'auto' lets the engine pick the grid that resolves the surface (the recipe schema's default).
+  const gridAuto = grid.trim().toLowerCase() === 'auto';
+  const gridN: number | 'auto' = gridAuto ? 'auto' : Number(grid.trim());
+  const gridError = gridAuto ? null : grid.trim() === '' ? 'Enter the grid size N.' : validateGridN(gridN as number);
 
   const built = useMemo(() => {
     if (!check.built || !surf.rule || gridError) return null;

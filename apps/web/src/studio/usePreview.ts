@@ -5,6 +5,7 @@ import { useEffect, useRef, useState } from 'react';
 import type { OrbitalState } from '@psiform/orbitals';
 import { disposeGeometries, geometryFromArrays, type PhaseGeometry } from '../scene/geometry';
 import type { PreviewRequest, PreviewResponse } from '../workers/preview-protocol';
+import type { SurfaceWarning } from '@psiform/meshing';
 
 /** Swappable in tests (jsdom has no module workers). */
 export const previewWorker = {
@@ -21,8 +22,14 @@ export interface PreviewStatus {
   /** Round trip of the last surface update as seen by the page. */
   updateMs: number | null;
   triangles: number;
+  /** Probability inside the surface over all space, its estimated error and the part inside the box. */
   enclosed: number | null;
+  enclosedError: number | null;
+  enclosedInBox: number | null;
+  /** What the preview cannot show truthfully (e.g. 'box-cuts-surface' with suggestedExtent: offer to widen the box). */
+  warnings: SurfaceWarning[];
   isovalue: number | null;
+  /** Points per side of the preview's outer grid. */
   n: number;
   error: string | null;
 }
@@ -30,7 +37,7 @@ export interface PreviewStatus {
 /** Preview grid: the recipe's N, capped at 112 so the slider stays responsive (about 1.4 M voxels). */
 export const PREVIEW_MAX_N = 112;
 
-export function usePreview(state: OrbitalState | null, gridN: number, extent: 'auto' | number, rule: PreviewRule | null) {
+export function usePreview(state: OrbitalState | null, gridN: number | 'auto', extent: 'auto' | number, rule: PreviewRule | null) {
   const workerRef = useRef<Worker | null>(null);
   const seq = useRef(0);
   const sampleSeq = useRef(-1);
@@ -46,11 +53,15 @@ export function usePreview(state: OrbitalState | null, gridN: number, extent: 'a
     updateMs: null,
     triangles: 0,
     enclosed: null,
+    enclosedError: null,
+    enclosedInBox: null,
+    warnings: [],
     isovalue: null,
     n: 0,
     error: null,
   });
-  const n = Math.min(gridN, PREVIEW_MAX_N);
+  // 'auto': the engine picks the grid (capped at the preview's ceiling in the worker).
+  const n: number | 'auto' = gridN === 'auto' ? 'auto' : Math.min(gridN, PREVIEW_MAX_N);
 
   function send(req: PreviewRequest) {
     workerRef.current?.postMessage(req);
@@ -80,7 +91,7 @@ export function usePreview(state: OrbitalState | null, gridN: number, extent: 'a
       const msg = ev.data;
       if (msg.type === 'sampled') {
         if (msg.seq !== sampleSeq.current) return;
-        setStatus((s) => ({ ...s, sampleMs: msg.ms, n: msg.n }));
+        setStatus((s) => ({ ...s, sampleMs: msg.ms, n: typeof msg.n === 'number' ? msg.n : s.n }));
         return;
       }
       if (inFlight.current && msg.seq === inFlight.current.seq) {
@@ -96,7 +107,11 @@ export function usePreview(state: OrbitalState | null, gridN: number, extent: 'a
             updateMs: performance.now() - sent,
             triangles: msg.triangles,
             enclosed: msg.enclosed,
+            enclosedError: msg.enclosedError ?? null,
+            enclosedInBox: msg.enclosedInBox ?? null,
+            warnings: msg.warnings ?? [],
             isovalue: msg.isovalue,
+            n: msg.grid?.n ?? s.n,
             error: null,
           }));
         } else if (msg.type === 'error') {
@@ -146,5 +161,5 @@ export function usePreview(state: OrbitalState | null, gridN: number, extent: 'a
     // eslint-disable-next-line react-hooks/exhaustive-deps
   }, [ruleKey]);
 
-  return { surfaces, status, previewN: n };
+  return { surfaces, status, previewN: n === 'auto' ? status.n || PREVIEW_MAX_N : n };
 }

@@ -4,13 +4,9 @@ import { plotPalette } from './svg-export';
 
 /** The metadata sheet (caption, alt text, model note) of a version from its mesh statistics: one place for every job. */
 export function figureWords(recipe: Recipe, meshStats: Record<string, unknown>, engineVersion: string, generatedAt: string): FigureMetadata {
-  const s = meshStats as { isovalue: number; enclosed: number; grid: { n: number; extent: number }; surfaces?: Array<{ phase: '+' | '-' | 'complex' } & Record<string, unknown>> };
-  const result: MeshResultLike = {
-    isovalue: s.isovalue,
-    enclosed: s.enclosed,
-    grid: { n: s.grid.n, extent: s.grid.extent },
-    surfaces: (s.surfaces ?? []).map(({ phase, ...stats }) => ({ phase, stats: stats as never })),
-  };
+  // The mesh statistics ARE the summary (@psiform/meshing summariseSurfaces): the all-space fraction with its
+  // error, the part inside the box, the grids and every warning travel with the figure into caption and sheet.
+  const result = meshStats as unknown as MeshResultLike;
   const palette = plotPalette(recipe);
   return figureMetadata({
     recipe: recipe as never,

@@ -1,8 +1,8 @@
 import type { Recipe, SectionPlane } from '@psiform/contracts';
 import { autoExtent, type OrbitalState } from '@psiform/orbitals';
 import { radialPlotSvg, sectionMapSvg, type FontBytes, type PlotPalette } from '@psiform/print';
+import { recipeState as stateOf } from '@psiform/meshing';
 import { latoFonts, withFallbackWhereNeeded } from './fonts';
-import { stateOf } from '../mesh/mesh-pipeline';
 
 export interface SvgParams {
   kind: 'radial' | 'section';

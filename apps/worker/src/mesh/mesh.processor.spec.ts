@@ -4,6 +4,8 @@ import { AssetStore, JobsStore, ObjectStorage, meshKey, recipeHash, type JobCont
 import { closeParallelSampler } from '@psiform/orbitals/node';
 import { MeshJobProcessor } from './mesh.processor';
 
+// Each job runs the real engine (all-space level, surface analysis, sampling on worker threads): allow for a busy machine.
+jest.setTimeout(60_000);
 afterAll(() => closeParallelSampler());
 
 const recipe = (() => {
@@ -128,6 +130,23 @@ describe('MeshJobProcessor', () => {
     const failing = new MeshJobProcessor(jobs2, new FakeAssets(), {} as ObjectStorage, 'test-engine', () => Promise.reject(new Error('no browser')));
     await expect(failing.process(job())).resolves.toEqual({ jobId: 'j1', assetIds: ['asset-0', 'asset-1'] });
     expect(jobs2.log.some((l) => l.startsWith('fail:') || l.startsWith('requeue:'))).toBe(false);
+  });
+
+  it('a box that cuts the surface travels with the job result: warnings, all-space and in-box fractions on both assets', async () => {
+    const jobs = new FakeJobs();
+    const cut = parseRecipe({ version: 1, content: { Z: 1, terms: [{ n: 2, l: 1, m: 0, basis: 'real', re: 1 }] }, grid: { n: 20, extent: 3 }, surface: { rule: 'enclosed', fraction: 0.9 } });
+    if (!cut.ok) throw new Error('bad test recipe');
+    jobs.version = { ...jobs.version!, recipe: cut.recipe, recipeHash: recipeHash(cut.recipe) };
+    await new MeshJobProcessor(jobs, new FakeAssets(), {} as ObjectStorage, 'test-engine').process(job());
+    for (const a of jobs.completed) {
+      const s = a.stats as unknown as { warnings: { code: string }[]; enclosed: number; enclosedError: number; enclosedInBox: number; surfaces: { watertight: boolean }[]; units: { length: string }; conventions: string };
+      expect(s.warnings.map((w: { code: string }) => w.code)).toContain('box-cuts-surface');
+      expect(Math.abs(s.enclosed - 0.9)).toBeLessThanOrEqual(s.enclosedError);
+      expect(s.enclosedInBox).toBeLessThan(0.9);
+      expect(s.surfaces.every((x: { watertight: boolean }) => x.watertight === false)).toBe(true);
+      expect(s.units.length).toMatch(/a0/);
+      expect(s.conventions).toMatch(/Condon–Shortley/);
+    }
   });
 
   it('onFailed marks the row failed only when BullMQ gives up', async () => {

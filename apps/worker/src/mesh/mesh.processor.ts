@@ -3,7 +3,7 @@ import { UnrecoverableError } from 'bullmq';
 import { parseRecipe, QUEUES } from '@psiform/contracts';
 import { AssetStore, ENGINE_VERSION, JobsStore, MESH_PROGRESS, ObjectStorage, type JobPayload, type MeshStage } from '@psiform/server';
 import type { JobProcessor, ProcessorJob } from '../queues/job-processor';
-import { buildMesh } from './mesh-build';
+import { buildMesh } from './mesh-assets';
 
 export interface MeshDone {
   jobId: string;

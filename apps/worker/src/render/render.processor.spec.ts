@@ -7,6 +7,8 @@ import type { FigureRenderer, RenderRequest } from './figure-renderer';
 import type { FigureSetStore } from './figure-sets';
 import type { ThumbnailStore } from './thumbnails';
 
+// Fresh meshes run the real engine (all-space level, surface analysis, sampling): allow for a busy machine.
+jest.setTimeout(60_000);
 afterAll(() => closeParallelSampler());
 
 const recipeFor = (m: number, label: string): Recipe => {

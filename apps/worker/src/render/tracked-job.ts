@@ -2,8 +2,7 @@ import { UnrecoverableError } from 'bullmq';
 import { parseRecipe, type ExportStage, type Recipe } from '@psiform/contracts';
 import { AssetStore, JobsStore, ObjectStorage, meshKey, type JobContext, type JobPayload, type NewAsset } from '@psiform/server';
 import type { ProcessorJob } from '../queues/job-processor';
-import { buildMesh } from '../mesh/mesh-build';
-import { gridLabel } from '../mesh/mesh-pipeline';
+import { buildMesh, gridLabel } from '../mesh/mesh-assets';
 
 /** Progress (0..100) on entering each stage of a render or export job. */
 export const EXPORT_PROGRESS: Record<ExportStage, number> = { queued: 0, meshing: 5, rendering: 30, encoding: 70, storing: 90, done: 100 };
