@@ -36,23 +36,28 @@ test('an illustrator creates a 2p_z figure, computes its mesh and sees both phas
       what: 'The library offering "New figure"',
       timeout: 20_000,
     });
+    // "New figure" opens the one Composer for this publication.
     await page.getByTestId('library-new-figure').click();
-    await page.getByTestId('new-figure-form').waitFor();
+    await page.getByTestId('studio-page').waitFor();
+    assert.match(new URL(page.url()).pathname, /^\/composer$/);
 
-    await page.getByTestId('nf-title').fill(title);
-    await page.getByTestId('nf-label').fill('2pz');
-    await page.getByTestId('nf-grid').fill('48');
-    await page.getByTestId('nf-fraction').fill('0.9');
-    assert.match(await page.getByTestId('nf-memory').textContent(), /^48³ × 4 bytes × 1 = 442\.4 kB/);
-    assert.equal(await page.getByTestId('nf-submit').isEnabled(), true, 'the form accepts a 2p_z on a 48³ grid');
-    await page.getByTestId('nf-submit').click();
+    await page.getByTestId('studio-title').fill(title);
+    await page.getByTestId('cmp-mode-label').click();
+    await page.getByTestId('cmp-label').fill('2pz');
+    await page.getByTestId('cmp-grid').fill('48');
+    await page.getByTestId('cmp-fraction').fill('90');
+    assert.match(await page.getByTestId('cmp-memory').textContent(), /^48³ × 4 bytes × 1 = 442\.4 kB/);
+    assert.equal(await page.getByTestId('studio-save').isEnabled(), true, 'the Composer accepts a 2p_z on a 48³ grid');
+    await page.getByTestId('studio-save').click();
 
     await expectOutcome(page, {
-      ok: () => page.waitForURL(/\/figures\/(?!new)[^/?]+/, { timeout: 30_000 }),
-      errors: ['nf-server-error', 'nf-recipe-issues'],
+      ok: () => page.waitForURL(/\/figures\/[^/?]+\/studio$/, { timeout: 30_000 }),
+      errors: ['studio-server-error', 'studio-recipe-issues'],
       what: 'Creating the figure (POST /api/figures)',
       timeout: 30_000,
     });
+    await page.getByTestId('studio-figure-link').click();
+    await page.waitForURL(/\/figures\/[^/?]+$/, { timeout: 30_000 });
     const figureId = decodeURIComponent(new URL(page.url()).pathname.split('/').pop());
     await expectOutcome(page, {
       ok: () => page.getByTestId('figure-page').waitFor({ timeout: 20_000 }),
@@ -62,7 +67,8 @@ test('an illustrator creates a 2p_z figure, computes its mesh and sees both phas
     });
     assert.equal((await page.getByTestId('figure-title').textContent())?.trim(), title);
     const model = await page.getByTestId('figure-model').textContent();
-    assert.match(model, /^2p_z, Z = 1, one-electron hydrogen-like model; surface encloses 90% of the probability; grid 48³/);
+    // 2p with a typeset subscript z (textContent joins the runs).
+    assert.match(model, /^2pz, Z = 1, one-electron hydrogen-like model; surface encloses 90% of the probability; grid 48³/);
     assert.match(model, /many-electron orbitals differ/);
 
     // What the server stored: the recipe it validated, with the palette the viewport must use.

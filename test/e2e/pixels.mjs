@@ -36,7 +36,7 @@ function hueDistance(a, b) {
  * specular highlights, pulls saturation down; the hue survives. So a pixel counts for a colour when its hue is
  * within HUE_TOL degrees of the colour's hue and it is clearly coloured (s >= MIN_S) and not near black.
  * Tolerances are our own choice (common practice for such checks), wide enough for shading, narrow enough
- * that the two palette hues (about 10° and 205°) and the near-white background can never be confused.
+ * that the two default palette hues (verdigris about 178°, ochre about 34°) and the near-white background can never be confused.
  * Fully transparent pixels never count.
  */
 const HUE_TOL = 20;

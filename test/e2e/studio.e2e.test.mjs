@@ -31,7 +31,7 @@ test('an illustrator composes 2p_z in the studio, sees both phases and exports a
     await page.getByTestId('cmp-label').fill('2pz');
     await page.getByTestId('cmp-grid').fill('48');
     await page.getByTestId('cmp-fraction').fill('90');
-    assert.match(await page.getByTestId('studio-model').textContent(), /^2p_z, Z = 1, one-electron hydrogen-like model; surface encloses 90% of the probability; grid 48³/);
+    assert.match(await page.getByTestId('studio-model').textContent(), /^2pz, Z = 1, one-electron hydrogen-like model; surface encloses 90% of the probability; grid 48³/);
     await page.getByTestId('studio-save').click();
     await expectOutcome(page, {
       ok: () => page.waitForURL(/\/figures\/[^/]+\/studio$/, { timeout: 30_000 }),

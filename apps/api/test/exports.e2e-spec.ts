@@ -4,8 +4,8 @@ import { join } from 'node:path';
 import { DOMParser } from '@xmldom/xmldom';
 import { unzipSync, strFromU8 } from 'fflate';
 import { PNG } from 'pngjs';
-import { EXPORT_STAGES, type JobDto } from '@psiform/contracts';
-import { auth, demoTokens, login, runEmail, smallRecipe, startTestApp, DEMO_PUBLICATION, RUN_ID, type TestApp } from './support';
+import { EXPORT_STAGES, PSIFORM_PALETTE, type JobDto } from '@psiform/contracts';
+import { auth, demoTokens, login, phasePixels, runEmail, smallRecipe, startTestApp, DEMO_PUBLICATION, RUN_ID, type TestApp } from './support';
 import { readSse, startWorkerProcess, waitFor, type WorkerProcess } from './worker-process';
 
 const WEB_DIST = join(__dirname, '..', '..', 'web', 'dist');
@@ -73,6 +73,7 @@ describe('exports (e2e)', () => {
   }, 60000);
 
   afterAll(async () => {
+    if (process.env.PSIFORM_SHOW_WORKER) console.log(worker?.output());
     await worker?.stop();
     await t?.close();
   });
@@ -104,19 +105,13 @@ describe('exports (e2e)', () => {
     expect([phys.readUInt32BE(0), phys.readUInt32BE(4), phys[8]]).toEqual([11811, 11811, 1]);
     expect(chunks.get('sRGB')).toHaveLength(1);
 
-    // Both lobes of 2p_z are in the picture, in the recipe's default phase colours (#c8553d warm, #2f6690 cool):
-    // shading changes their brightness, not which channel dominates.
+    // Both lobes of 2p_z are in the picture, in the recipe's default phase colours (Psiform's verdigris and
+    // ochre, contracts PSIFORM_PALETTE): shading changes their brightness, not their hue.
     const img = PNG.sync.read(Buffer.from(bytes));
-    let warm = 0;
-    let cool = 0;
-    for (let i = 0; i < img.data.length; i += 4) {
-      const [r, g, b] = [img.data[i], img.data[i + 1], img.data[i + 2]];
-      if (r > 1.6 * b && r > 1.4 * g && r > 60) warm++;
-      if (b > 1.5 * r && b > 1.1 * g && b > 60) cool++;
-    }
+    const [pos, neg] = phasePixels(img, [PSIFORM_PALETTE.positive, PSIFORM_PALETTE.negative]);
     const total = img.width * img.height;
-    expect(warm / total).toBeGreaterThan(0.03);
-    expect(cool / total).toBeGreaterThan(0.03);
+    expect(pos / total).toBeGreaterThan(0.03);
+    expect(neg / total).toBeGreaterThan(0.03);
   }, 120000);
 
   it('a mesh job leaves a 320 × 240 thumbnail on the figure (stats.thumbnail) without waiting for it', async () => {
@@ -136,6 +131,23 @@ describe('exports (e2e)', () => {
     expect(list.items[0].thumbnailAssetId).toBe(fig.thumbnailAssetId);
     thumbFigure = { id, title: `Thumb ${RUN_ID}` };
   }, 120000);
+
+  it('a mesh made by an export (no mesh job) also leaves a thumbnail on the figure', async () => {
+    const id = (await t.http().post('/api/figures').set(auth(tok.illustrator)).send({ publicationId: pub, title: `Thumb export ${RUN_ID}`, recipe: smallRecipe({ label: 'thumb-export', grid: { n: 36 } }) }).expect(201)).body.id;
+    const job = await finished((await t.http().post(`/api/figures/${id}/exports`).set(auth(tok.illustrator)).send({ format: 'glb' }).expect(201)).body.jobId);
+    expect(job.state).toBe('completed');
+    expect(job.assets.map((a) => a.kind).sort()).toEqual(['glb', 'stl']); // the export computed the mesh itself
+    const fig = await waitFor('the thumbnail of the export-made mesh', async () => {
+      const f = (await t.http().get(`/api/figures/${id}`).set(auth(tok.editor)).expect(200)).body;
+      return f.thumbnailAssetId ? f : undefined;
+    }, 90000, 300);
+    expect(fig.assets.find((a: { id: string }) => a.id === fig.thumbnailAssetId)).toMatchObject({ kind: 'png', stats: { thumbnail: true, widthPx: 320, heightPx: 240 } });
+    // A second export of the same version reuses the mesh: no second thumbnail job.
+    const again = await finished((await t.http().post(`/api/figures/${id}/exports`).set(auth(tok.illustrator)).send({ format: 'stl' }).expect(201)).body.jobId);
+    expect(again.state).toBe('completed');
+    const after = (await t.http().get(`/api/figures/${id}`).set(auth(tok.editor)).expect(200)).body;
+    expect(after.assets.filter((a: { kind: string; stats: { thumbnail?: boolean } | null }) => a.kind === 'png' && a.stats?.thumbnail)).toHaveLength(1);
+  }, 150000);
 
   it('the figures list carries a presigned thumbnailUrl that downloads the 320 × 240 PNG; null for a figure without one', async () => {
     expect(thumbFigure).toBeDefined();
@@ -174,7 +186,7 @@ describe('exports (e2e)', () => {
     expect(cls('contour-neg')).toHaveLength(3);
     expect(cls('nodal')).toHaveLength(1);
     expect(doc.documentElement?.getAttribute('width')).toBe('80mm');
-    expect(svg).toContain('#c8553d');
+    expect(svg).toContain(PSIFORM_PALETTE.positive);
 
     const radial = await finished(await exportJob({ format: 'svg', kind: 'radial' }));
     const rsvg = strFromU8(await download(radial.assets[0].id));
@@ -208,7 +220,51 @@ describe('exports (e2e)', () => {
     const png = pngJob.assets.find((a) => a.kind === 'png')!;
     expect(Buffer.from(files['figure.png']).equals(Buffer.from(await download(png.id)))).toBe(true);
     expect(Buffer.from(files['figure.glb']).subarray(0, 4).toString('latin1')).toBe('glTF');
+
+    // metadata.json describes every file inside, and every PNG matches its entry: IHDR size and pHYs read by hand
+    // (PNG specification §11.2.2, §11.3.5.3), sha256 by node:crypto. No file claims a size it does not have.
+    const { createHash } = await import('node:crypto');
+    expect(meta.canvas).toBeUndefined();
+    expect(meta.files.map((f: { name: string }) => f.name).sort()).toEqual(Object.keys(files).filter((n) => n !== 'metadata.json').sort());
+    for (const f of meta.files as { name: string; format: string; bytes: number; sha256: string; widthPx?: number; heightPx?: number; dpi?: number; widthMm?: number; heightMm?: number }[]) {
+      expect({ name: f.name, bytes: f.bytes, sha256: f.sha256 }).toEqual({ name: f.name, bytes: files[f.name].length, sha256: createHash('sha256').update(files[f.name]).digest('hex') });
+      if (f.format !== 'png') continue;
+      const c = pngChunks(files[f.name]);
+      const ihdr = c.get('IHDR')![0];
+      const phys = c.get('pHYs')![0];
+      const dpi = Math.round(phys.readUInt32BE(0) * 0.0254);
+      expect({ name: f.name, w: f.widthPx, h: f.heightPx, dpi: f.dpi }).toEqual({ name: f.name, w: ihdr.readUInt32BE(0), h: ihdr.readUInt32BE(4), dpi });
+      expect(f.widthMm).toBeCloseTo((ihdr.readUInt32BE(0) / dpi) * 25.4, 1);
+      expect(strFromU8(files['README.txt'])).toContain(`${f.name}: PNG, ${f.widthPx} × ${f.heightPx} px, ${Number(f.widthMm!.toPrecision(4))} × ${Number(f.heightMm!.toPrecision(4))} mm at ${dpi} dpi`);
+    }
+    expect(meta.altText.length).toBeLessThanOrEqual(125);
+    expect(meta.longDescription.length).toBeGreaterThan(meta.altText.length);
   }, 120000);
+
+  it('downloads are attachments named from the figure through the file-name template; every file of the figure gets its own name', async () => {
+    const png = pngJob.assets.find((a) => a.kind === 'png')!;
+    const figure = (await t.http().get(`/api/figures/${figureId}`).set(auth(tok.editor)).expect(200)).body;
+    const names = new Map<string, string>();
+    for (const a of figure.assets as { id: string; kind: string; stats: { thumbnail?: boolean } | null }[]) {
+      const link = (await t.http().get(`/api/assets/${a.id}/link`).set(auth(tok.editor)).expect(200)).body;
+      expect(link.fileName).toMatch(/^[a-z0-9._-]+$/);
+      names.set(a.id, link.fileName);
+      // The storage answers the presigned link as an attachment with that name (RFC 6266), so the browser
+      // saves the file and the app's page stays.
+      const res = await fetch(link.url);
+      expect(res.status).toBe(200);
+      expect(res.headers.get('content-disposition')).toBe(`attachment; filename="${link.fileName}"; filename*=UTF-8''${link.fileName}`);
+      await res.arrayBuffer();
+    }
+    // The publication's delivery profile template (the demo book's: shells-lobes_{figure}_{label}_{widthMm}x{heightMm}mm_{dpi}dpi),
+    // filled in by hand here: the figure title up to a colon and the label as slugs, the PNG's size and dpi.
+    const template: string = (await t.http().get(`/api/publications/${pub}/delivery-profile`).set(auth(tok.editor)).expect(200)).body.fileNameTemplate;
+    const slugTitle = `export-2pz-${RUN_ID}`; // "Export 2p_z <run>": the title is typeset first (2p with subscript z), then slugged
+    const fill = (w: Record<string, string>) => template.replace(/\{(\w+)\}/g, (_, k: string) => w[k] ?? '');
+    expect(names.get(png.id)).toBe(`${fill({ publication: 'shells-and-lobes', figure: slugTitle, label: '2pz', widthMm: '89', heightMm: '60', dpi: '300' })}.png`);
+    expect([...names.values()].some((n) => n.endsWith('.glb') && n.includes(`${slugTitle}_2pz`))).toBe(true);
+    expect(new Set(names.values()).size).toBe(names.size); // never two files under one name
+  });
 
   it('invalid export requests answer 400 naming the field and queue nothing', async () => {
     const before = await jobCount();

@@ -1,8 +1,8 @@
 import { existsSync } from 'node:fs';
 import { join } from 'node:path';
 import { PNG } from 'pngjs';
-import type { FigureSetDto, JobDto } from '@psiform/contracts';
-import { auth, demoTokens, smallRecipe, startTestApp, DEMO_PUBLICATION, RUN_ID, type TestApp } from './support';
+import { PSIFORM_PALETTE, type FigureSetDto, type JobDto } from '@psiform/contracts';
+import { auth, demoTokens, phasePixels, smallRecipe, startTestApp, DEMO_PUBLICATION, RUN_ID, type TestApp } from './support';
 import { startWorkerProcess, waitFor, type WorkerProcess } from './worker-process';
 
 const WEB_DIST = join(__dirname, '..', '..', 'web', 'dist');
@@ -79,22 +79,13 @@ describe('figure sets (e2e)', () => {
     expect([bytes.readUInt32BE(at + 4), bytes.readUInt32BE(at + 8), bytes[at + 12]]).toEqual([11811, 11811, 1]);
     expect(bytes.indexOf('sRGB', 8, 'latin1')).toBeGreaterThan(0);
 
-    // Each third (one panel each, cell edges 0 | 701 | 1401 | 2102) shows both lobes: the recipe's default phase
-    // colours #c8553d (warm, +) and #2f6690 (cool, −); shading changes brightness, not which channel dominates.
+    // Each third (one panel each, cell edges 0 | 701 | 1401 | 2102) shows both lobes in the recipe's default
+    // phase colours (contracts PSIFORM_PALETTE); shading changes brightness, not hue.
     const edges = [0, 701, 1401, 2102];
     for (let k = 0; k < 3; k++) {
-      let warm = 0;
-      let cool = 0;
-      for (let y = 0; y < img.height; y++) {
-        for (let x = edges[k]; x < edges[k + 1]; x++) {
-          const i = (y * img.width + x) * 4;
-          const [r, g, b] = [img.data[i], img.data[i + 1], img.data[i + 2]];
-          if (r > 1.6 * b && r > 1.4 * g && r > 60) warm++;
-          if (b > 1.5 * r && b > 1.1 * g && b > 60) cool++;
-        }
-      }
+      const [pos, neg] = phasePixels(img, [PSIFORM_PALETTE.positive, PSIFORM_PALETTE.negative], edges[k], edges[k + 1]);
       const area = (edges[k + 1] - edges[k]) * img.height;
-      expect({ panel: P[k].label, warm: warm / area > 0.01, cool: cool / area > 0.01 }).toEqual({ panel: P[k].label, warm: true, cool: true });
+      expect({ panel: P[k].label, pos: pos / area > 0.01, neg: neg / area > 0.01 }).toEqual({ panel: P[k].label, pos: true, neg: true });
     }
   }, 200000);
 

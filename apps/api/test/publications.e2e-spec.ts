@@ -71,6 +71,38 @@ describe('publications (e2e)', () => {
     expect(n).toBe(0);
   });
 
+  it('each publication has one length unit for its figures: art directors choose it, every saved version takes it', async () => {
+    const artDirector = (await login(t, 'artdirector@demo.psiform.test', DEMO_PASSWORD)).accessToken;
+    const pub = (await t.http().post('/api/publications').set(auth(admin)).send({ title: `Units ${RUN_ID}`, publisher: 'Sedgefield Press', kind: 'book' }).expect(201)).body;
+    expect(pub.lengthUnit).toBe('angstrom'); // the default
+    for (const email of ['illustrator@demo.psiform.test', 'artdirector@demo.psiform.test']) {
+      const u = (await t.http().get('/api/users').set(auth(admin)).expect(200)).body.find((x: { email: string }) => x.email === email);
+      await t.http().post(`/api/publications/${pub.id}/members`).set(auth(admin)).send({ userId: u.id }).expect(201);
+    }
+    // Bad input names the field; the wrong role is 403; nothing changes.
+    const bad = await t.http().put(`/api/publications/${pub.id}/length-unit`).set(auth(artDirector)).send({ lengthUnit: 'parsec' }).expect(400);
+    expect(bad.body.message).toEqual(['lengthUnit must be one of: angstrom, bohr']);
+    await t.http().put(`/api/publications/${pub.id}/length-unit`).set(auth(illustrator)).send({ lengthUnit: 'bohr' }).expect(403);
+    expect((await t.http().get(`/api/publications/${pub.id}`).set(auth(illustrator)).expect(200)).body.lengthUnit).toBe('angstrom');
+    const set = await t.http().put(`/api/publications/${pub.id}/length-unit`).set(auth(artDirector)).send({ lengthUnit: 'bohr' }).expect(200);
+    expect(set.body.lengthUnit).toBe('bohr');
+    // A figure saved in Å (with a fixed Å bar length) is stored in a0: one unit per figure, the publication's.
+    const recipe = { version: 1, content: { Z: 1, terms: [{ n: 2, l: 1, m: 0, basis: 'real', re: 1 }] }, grid: { n: 32 }, surface: { rule: 'enclosed', fraction: 0.9 }, annotations: { scaleBar: { show: true, unit: 'angstrom', length: 2 } } };
+    const fig = (await t.http().post('/api/figures').set(auth(illustrator)).send({ publicationId: pub.id, title: `Unit ${RUN_ID}`, recipe }).expect(201)).body;
+    expect(fig.currentVersion.recipe.annotations.scaleBar).toEqual({ show: true, unit: 'bohr' });
+    await t.http().put(`/api/publications/${pub.id}/length-unit`).set(auth(artDirector)).send({ lengthUnit: 'angstrom' }).expect(200);
+    const next = (await t.http().patch(`/api/figures/${fig.id}`).set(auth(illustrator)).send({ recipe: { ...recipe, grid: { n: 40 } } }).expect(200)).body;
+    expect(next.currentVersion.number).toBe(2);
+    expect(next.currentVersion.recipe.annotations.scaleBar.unit).toBe('angstrom');
+
+    // A figure set carries its caption (printed under the lettered panels); an over-long one is refused naming the field.
+    const setBody = { publicationId: pub.id, title: `Set ${RUN_ID}`, figureIds: [fig.id], columns: 1 };
+    const long = await t.http().post('/api/figure-sets').set(auth(illustrator)).send({ ...setBody, caption: 'x'.repeat(2001) }).expect(400);
+    expect(long.body.message).toEqual(['caption: must be a text of at most 2000 characters']);
+    const created = (await t.http().post('/api/figure-sets').set(auth(illustrator)).send({ ...setBody, caption: 'a, the 2p_z orbital.' }).expect(201)).body;
+    expect(created.caption).toBe('a, the 2p_z orbital.');
+  });
+
   it('a fresh user with no memberships sees an empty list', async () => {
     const email = runEmail('loner');
     await t.http().post('/api/users').set(auth(admin)).send({ email, displayName: 'Lone Reader', password: 'long-enough-pw', role: 'editor' }).expect(201);

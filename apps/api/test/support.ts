@@ -110,3 +110,39 @@ export function smallRecipe(over: Record<string, unknown> = {}): Record<string, 
     ...over,
   };
 }
+
+/** Hue in degrees (hexcone HSV, common practice), saturation and value in 0..1. */
+function hsv(r: number, g: number, b: number): { h: number; s: number; v: number } {
+  const max = Math.max(r, g, b) / 255;
+  const min = Math.min(r, g, b) / 255;
+  const d = max - min;
+  let h = 0;
+  if (d > 0) {
+    const [R, G, B] = [r / 255, g / 255, b / 255];
+    h = max === R ? 60 * (((G - B) / d) % 6) : max === G ? 60 * ((B - R) / d + 2) : 60 * ((R - G) / d + 4);
+  }
+  return { h: (h + 360) % 360, s: max === 0 ? 0 : d / max, v: max };
+}
+
+/**
+ * Pixels of an RGBA image (x from x0 to x1) that read as each of `colours` under shading: lighting changes
+ * brightness and saturation, not hue, so a pixel counts when its hue is within 20° of the colour's and it is
+ * clearly coloured (s ≥ 0.25, v ≥ 0.12). Our own tolerances (common practice), as in test/e2e/pixels.mjs.
+ */
+export function phasePixels(img: { width: number; height: number; data: Uint8Array | Buffer }, colours: string[], x0 = 0, x1 = img.width): number[] {
+  const targets = colours.map((c) => hsv(parseInt(c.slice(1, 3), 16), parseInt(c.slice(3, 5), 16), parseInt(c.slice(5, 7), 16)).h);
+  const counts = colours.map(() => 0);
+  for (let y = 0; y < img.height; y++) {
+    for (let x = x0; x < x1; x++) {
+      const i = (y * img.width + x) * 4;
+      if (img.data[i + 3] === 0) continue;
+      const p = hsv(img.data[i], img.data[i + 1], img.data[i + 2]);
+      if (p.s < 0.25 || p.v < 0.12) continue;
+      targets.forEach((h, k) => {
+        const d = Math.abs(p.h - h) % 360;
+        if ((d > 180 ? 360 - d : d) <= 20) counts[k] += 1;
+      });
+    }
+  }
+  return counts;
+}

@@ -24,7 +24,7 @@ describe('swatchbooks (e2e)', () => {
   it('an art director creates one (an illustrator may not); bad colours are 400 naming the field and store nothing', async () => {
     await t.http().post('/api/swatchbooks').set(auth(tok.illustrator)).send({ name: name('Forbidden'), publicationId: DEMO_PUBLICATION.id, colors }).expect(403);
     const bad = await t.http().post('/api/swatchbooks').set(auth(tok.artDirector)).send({ name: name('Bad'), publicationId: DEMO_PUBLICATION.id, colors: { ...colors, positive: 'crimson', label: undefined } }).expect(400);
-    expect(bad.body.message).toEqual(['colors.positive must be a #rrggbb colour', 'colors.label is required']);
+    expect(bad.body.message).toEqual(['colors.positive must be a colour like #1a2b3c (# and six hex digits)', 'colors.label is required']);
     const [{ n }] = await t.ds.query(`SELECT count(*)::int AS n FROM swatchbooks WHERE name LIKE $1`, [`%${RUN_ID}%`]);
     expect(n).toBe(0);
     const created = await t.http().post('/api/swatchbooks').set(auth(tok.artDirector)).send({ name: name('Brackwater house'), publicationId: DEMO_PUBLICATION.id, colors }).expect(201);
@@ -54,7 +54,7 @@ describe('swatchbooks (e2e)', () => {
     const v2 = (await t.http().patch(`/api/swatchbooks/${s.id}`).set(auth(tok.artDirector)).send({ colors: { negative: '#305F85' } }).expect(200)).body;
     expect(v2).toMatchObject({ version: 2, colors: { ...colors, negative: '#305f85' } });
     const badPatch = await t.http().patch(`/api/swatchbooks/${s.id}`).set(auth(tok.artDirector)).send({ colors: { label: '#12' } }).expect(400);
-    expect(badPatch.body.message).toEqual(['colors.label must be a #rrggbb colour']);
+    expect(badPatch.body.message).toEqual(['colors.label must be a colour like #1a2b3c (# and six hex digits)']);
     expect((await t.http().post(`/api/swatchbooks/${s.id}/lock`).set(auth(tok.artDirector)).expect(200)).body).toMatchObject({ locked: true, version: 3 });
     const refused = await t.http().patch(`/api/swatchbooks/${s.id}`).set(auth(tok.artDirector)).send({ name: name('Renamed') }).expect(409);
     expect(refused.body.message).toContain('is locked');

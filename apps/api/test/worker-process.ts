@@ -26,13 +26,16 @@ export async function startWorkerProcess(env: Record<string, string> = {}): Prom
   child.stderr!.on('data', (d) => (out += d));
   const exited = new Promise<void>((resolve) => child.once('exit', () => resolve()));
   await new Promise<void>((resolve, reject) => {
-    // 60 s: start-up takes seconds alone but much longer on a loaded shared machine. A worker that misses it is
-    // killed, or it would stay on the queues and take later specs' jobs (mail notices sent to the wrong fake).
+    // 60 s: the worker loads sharp, pdfkit and Nest; on the shared 2-core machine under load it has taken over 20 s.
+    // A worker that never got ready is killed: left running it would take jobs meant for the next spec's worker.
+    let waiting = true;
     const t = setTimeout(() => {
+      waiting = false;
       child.kill('SIGKILL');
-      reject(new Error(`worker not ready after 60 s (killed):\n${out}`));
+      reject(new Error(`worker not ready after 60 s:\n${out}`));
     }, 60000);
     const check = () => {
+      if (!waiting) return;
       if (out.includes(`worker ${child.pid} ready`)) {
         clearTimeout(t);
         resolve();

@@ -1,6 +1,6 @@
 import type { ReactNode } from 'react';
 import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
-import { BrowserRouter, Navigate, Outlet, Route, Routes } from 'react-router-dom';
+import { BrowserRouter, Navigate, Outlet, Route, Routes, useLocation } from 'react-router-dom';
 import { ApiError } from './api/client';
 import { AuthProvider } from './auth/AuthProvider';
 import { RequireAuth, RequireRole } from './auth/guards';
@@ -10,7 +10,6 @@ import { NAV_ITEMS, SUB_ROUTES } from './nav/navigation';
 import { ComingLater } from './pages/ComingLater';
 import { FigurePage } from './pages/FigurePage';
 import { LibraryPage } from './pages/LibraryPage';
-import { NewFigurePage } from './pages/NewFigurePage';
 import { NotFound } from './pages/NotFound';
 import { PublicationsPage } from './pages/PublicationsPage';
 import { SignInPage } from './pages/SignInPage';
@@ -62,7 +61,7 @@ const BUILT: Record<string, () => ReactNode> = {
 /** Pages reached from the places (not in the navigation); SUB_ROUTES says who may open them. */
 const SUB_PAGES: Record<string, () => ReactNode> = {
   '/publications/:publicationId/figures': () => <LibraryPage />,
-  '/figures/new': () => <NewFigurePage />,
+  '/figures/new': () => <ToComposer />,
   '/figures/:figureId': () => <FigurePage />,
   '/figures/:figureId/studio': () => <StudioPage />,
   '/uploads/new': () => <UploadPage />,
@@ -72,6 +71,12 @@ const SUB_PAGES: Record<string, () => ReactNode> = {
   '/manage/publications/:publicationId': () => <PublicationAdminPage />,
   '/publications/:publicationId/delivery-profile': () => <DeliveryProfilePage />,
 };
+
+/** The one way to make a figure is the Composer; the old address keeps working (with its ?publicationId=). */
+function ToComposer() {
+  const { search } = useLocation();
+  return <Navigate to={`/composer${search}`} replace />;
+}
 
 function Frame() {
   return (

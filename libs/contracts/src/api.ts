@@ -25,9 +25,18 @@ export interface PublicationDto {
   publisher: string;
   kind: PublicationKind;
   description: string;
-  /** Length unit of the publication's figures: 'angstrom' (Å) or 'bohr' (a₀). Always sent by the API. */
-  lengthUnit?: 'angstrom' | 'bohr';
+  /** The one length unit of the publication's figures: scale bars, section-map axes, radial plots. */
+  lengthUnit: LengthUnit;
   createdAt: string;
+}
+
+/** Length units a figure may state its lengths in (Å, or the Bohr radius a0). */
+export const LENGTH_UNITS = ['angstrom', 'bohr'] as const;
+export type LengthUnit = (typeof LENGTH_UNITS)[number];
+
+/** PUT /api/publications/:id/length-unit (admins and the publication's art directors). */
+export interface LengthUnitRequest {
+  lengthUnit: LengthUnit;
 }
 
 export interface MembershipDto {

@@ -1,3 +1,5 @@
+import { CANVAS_LIMITS, RASTER_LIMITS } from './limits';
+
 /**
  * Exports of a figure (issue "The studio"): POST /api/figures/:id/exports with one of these bodies answers
  * 201 CreateJobResponse; the job (GET /api/jobs/:id) completes with the produced asset(s).
@@ -17,10 +19,10 @@ export type SectionPlane = (typeof SECTION_PLANES)[number];
  * well inside one worker's memory.
  */
 export const EXPORT_LIMITS = {
-  mmMin: 10,
-  mmMax: 1000,
-  pxMax: 20000,
-  megapixelsMax: 64,
+  mmMin: CANVAS_LIMITS.mmMin,
+  mmMax: CANVAS_LIMITS.mmMax,
+  pxMax: RASTER_LIMITS.pxMax,
+  megapixelsMax: RASTER_LIMITS.megapixelsMax,
   sectionLevelsMin: 1,
   sectionLevelsMax: 12,
   sectionLevelsDefault: 4,
@@ -97,6 +99,8 @@ export interface CreateFigureSetRequest {
   title: string;
   figureIds: string[];
   columns: number;
+  /** Printed under the panels (at most TEXT_LIMITS.captionMax characters); the panels are lettered a, b, c … */
+  caption?: string;
 }
 
 export interface FigureSetDto {
@@ -105,6 +109,7 @@ export interface FigureSetDto {
   title: string;
   figureIds: string[];
   columns: number;
+  caption: string | null;
   /** The set's latest exported PNG (asset id), null before the first export. */
   pngAssetId: string | null;
   createdBy: string | null;

@@ -140,6 +140,8 @@ export interface CreateJobResponse {
 export interface AssetLinkDto {
   url: string;
   expiresAt: string;
+  /** The name the file downloads under (the storage answers the link as an attachment with this name). */
+  fileName: string;
 }
 
 /**

@@ -5,6 +5,7 @@ export * from './recipe';
 export * from './figures';
 export * from './reviews';
 export * from './exports';
+export * from './limits';
 export * from './print';
 export * from './people';
 export * from './proofs';

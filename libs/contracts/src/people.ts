@@ -1,5 +1,5 @@
 import type { Role } from './roles';
-import type { PublicationDto, PublicationKind, UserDto } from './api';
+import type { LengthUnit, PublicationDto, PublicationKind, UserDto } from './api';
 
 /**
  * People and publications (admin): accounts, one-time links, memberships with a role per publication, and the
@@ -91,9 +91,7 @@ export interface PasswordResetRequest {
   email: string;
 }
 
-/** Lengths in a publication's figures: ångström or Bohr radius (the recipe's scale-bar units). */
-export const LENGTH_UNITS = ['angstrom', 'bohr'] as const;
-export type LengthUnit = (typeof LENGTH_UNITS)[number];
+/** How each length unit (LENGTH_UNITS, api.ts) is written. */
 export const LENGTH_UNIT_SYMBOLS: Record<LengthUnit, string> = { angstrom: 'Å', bohr: 'a₀' };
 
 /** A publication as the Publications admin page lists it. */

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { CANVAS_LIMITS, HEX_COLOUR, HEX_COLOUR_MESSAGE, TEXT_LIMITS } from './limits';
 
 /**
  * The figure recipe: one versioned JSON document that fully describes a figure's content and look
@@ -30,10 +31,28 @@ export const RECIPE_LIMITS = {
   extentMax: 2000,
 } as const;
 
+/** Starting values of a new figure, the same in the Composer, its presets and the CLI's help. */
+export const RECIPE_DEFAULTS = { gridN: 96, fraction: 0.9 } as const;
+
 const finite = (what: string) =>
   z.number({ error: `${what} must be a number` }).refine(Number.isFinite, { message: `${what} must be a finite number` });
 
-const hexColor = z.string().regex(/^#[0-9a-fA-F]{6}$/, { message: 'must be a colour like #1a2b3c' });
+const hexColor = z.string().regex(HEX_COLOUR, { message: HEX_COLOUR_MESSAGE });
+
+/**
+ * Psiform's own default colours, from the brand: the phases of the "Verdigris and Ochre" swatchbook
+ * (assets/palettes/verdigris-and-ochre.json; the verdigris is the brand accent #1f5e5b) for ψ > 0 and ψ < 0 —
+ * not the red/blue pair most tools and textbooks use. They pass our swatchbook checks (libs/colour
+ * checkSwatchbook: ΔE00 between the phases ≥ 20 for normal vision and every simulated dichromacy, contrast ≥ 3:1
+ * on the default, white and paper backgrounds; libs/colour/test/default-palette.test.ts, which also keeps this
+ * constant equal to the preset file). New swatchbooks start from them too.
+ */
+export const PSIFORM_PALETTE = {
+  positive: '#1f5e5b',
+  negative: '#a86a1c',
+  background: '#fbfaf7',
+  label: '#1f1d1a',
+} as const;
 
 export const termSchema = z
   .strictObject({
@@ -111,8 +130,8 @@ export const stageSchema = z.strictObject({
     })
     .default({ gloss: 0.45, opacity: 1, nodalOutline: false }),
   background: z
-    .strictObject({ transparent: z.boolean().default(false), color: hexColor.default('#fbfaf7') })
-    .default({ transparent: false, color: '#fbfaf7' }),
+    .strictObject({ transparent: z.boolean().default(false), color: hexColor.default(PSIFORM_PALETTE.background) })
+    .default({ transparent: false, color: PSIFORM_PALETTE.background }),
 });
 
 export const annotationsSchema = z.strictObject({
@@ -121,21 +140,21 @@ export const annotationsSchema = z.strictObject({
     .strictObject({ show: z.boolean().default(true), unit: z.enum(['angstrom', 'bohr']).default('angstrom'), length: finite('length').refine((v) => v > 0, { message: 'length must be positive' }).optional() })
     .default({ show: true, unit: 'angstrom' }),
   nucleus: z.boolean().default(true),
-  label: z.strictObject({ show: z.boolean().default(true), text: z.string().max(80).optional() }).default({ show: true }),
-  caption: z.string().max(2000).optional(),
+  label: z.strictObject({ show: z.boolean().default(true), text: z.string().max(TEXT_LIMITS.labelMax, { message: `label must be at most ${TEXT_LIMITS.labelMax} characters` }).optional() }).default({ show: true }),
+  caption: z.string().max(TEXT_LIMITS.captionMax, { message: `caption must be at most ${TEXT_LIMITS.captionMax} characters` }).optional(),
 });
 
 export const canvasSchema = z.strictObject({
-  widthMm: finite('widthMm').refine((v) => v >= 10 && v <= 1000, { message: 'widthMm must be 10..1000' }),
-  heightMm: finite('heightMm').refine((v) => v >= 10 && v <= 1000, { message: 'heightMm must be 10..1000' }),
+  widthMm: finite('widthMm').refine((v) => v >= CANVAS_LIMITS.mmMin && v <= CANVAS_LIMITS.mmMax, { message: `widthMm must be from ${CANVAS_LIMITS.mmMin} to ${CANVAS_LIMITS.mmMax} mm` }),
+  heightMm: finite('heightMm').refine((v) => v >= CANVAS_LIMITS.mmMin && v <= CANVAS_LIMITS.mmMax, { message: `heightMm must be from ${CANVAS_LIMITS.mmMin} to ${CANVAS_LIMITS.mmMax} mm` }),
   dpi: z.union([z.literal(300), z.literal(600), z.literal(1200)], { error: 'dpi must be 300, 600 or 1200' }),
 });
 
 export const paletteSchema = z.strictObject({
-  /** Swatchbook the colours come from; null means the neutral default. */
+  /** Swatchbook the colours come from; null means Psiform's own default (PSIFORM_PALETTE). */
   swatchbookId: z.string().nullable().default(null),
-  positive: hexColor.default('#c8553d'),
-  negative: hexColor.default('#2f6690'),
+  positive: hexColor.default(PSIFORM_PALETTE.positive),
+  negative: hexColor.default(PSIFORM_PALETTE.negative),
   /** The swatchbook's phase wheel for arg ψ (OKLCH lightness and chroma); absent = the default wheel (@psiform/colour). */
   wheel: z
     .strictObject({
@@ -177,7 +196,7 @@ export type RecipeSource = z.infer<typeof recipeSourceSchema>;
 export const recipeSchema = z.strictObject({
   version: z.literal(RECIPE_VERSION, { error: `version must be ${RECIPE_VERSION}` }),
   /** Display label such as "3d_xy" or "sp3 #1"; informative only, the terms are authoritative. */
-  label: z.string().max(80).optional(),
+  label: z.string().max(TEXT_LIMITS.labelMax, { message: `label must be at most ${TEXT_LIMITS.labelMax} characters` }).optional(),
   content: z.strictObject({
     Z: z.number().int({ message: 'Z must be an integer' }).min(1, { message: 'Z must be at least 1' }).max(RECIPE_LIMITS.zMax, { message: `Z must be at most ${RECIPE_LIMITS.zMax}` }),
     terms: z
@@ -214,7 +233,7 @@ export const recipeSchema = z.strictObject({
    * argument for complex ones. One rule for every output: @psiform/colour phaseColoursInto.
    */
   phase: z.strictObject({ mode: z.enum(['auto', 'sign', 'argument']).default('auto') }).default({ mode: 'auto' }),
-  palette: paletteSchema.default({ swatchbookId: null, positive: '#c8553d', negative: '#2f6690' }),
+  palette: paletteSchema.default({ swatchbookId: null, positive: PSIFORM_PALETTE.positive, negative: PSIFORM_PALETTE.negative }),
   stage: stageSchema.default(stageSchema.parse({})),
   annotations: annotationsSchema.default(annotationsSchema.parse({})),
   canvas: canvasSchema.default({ widthMm: 89, heightMm: 60, dpi: 300 }),

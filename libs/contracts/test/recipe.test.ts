@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { RECIPE_LIMITS, RECIPE_VERSION, canonicalJson, formatRecipeIssues, parseRecipe, type RecipeIssue } from '../src/recipe';
+import { PSIFORM_PALETTE, RECIPE_LIMITS, RECIPE_VERSION, canonicalJson, formatRecipeIssues, parseRecipe, type RecipeIssue } from '../src/recipe';
 
 /** A minimal valid document: 2p_z (real basis), Z = 1, 48³ grid, 90% enclosed. */
 function minimal(): Record<string, any> {
@@ -34,7 +34,8 @@ describe('parseRecipe: valid documents', () => {
     expect(rec.grid).toEqual({ n: 48, extent: 'auto' });
     expect(rec.surface).toEqual({ rule: 'enclosed', fraction: 0.9 });
     expect(rec.phase).toEqual({ mode: 'auto' });
-    expect(rec.palette).toEqual({ swatchbookId: null, positive: '#c8553d', negative: '#2f6690' });
+    expect(rec.palette).toEqual({ swatchbookId: null, positive: PSIFORM_PALETTE.positive, negative: PSIFORM_PALETTE.negative });
+    expect(PSIFORM_PALETTE).toMatchObject({ positive: '#1f5e5b', negative: '#a86a1c' });
     expect(rec.canvas).toEqual({ widthMm: 89, heightMm: 60, dpi: 300 });
     expect(rec.stage.camera).toEqual({ view: 'three_quarter', projection: 'perspective', target: [0, 0, 0], fovDeg: 35, zoom: 1 });
     expect(rec.stage.lights.ambient).toBe(0.35);

@@ -1,6 +1,11 @@
 // The figure's metadata sheet: what was computed, how, and the words that go with it (caption, alt text).
 
 import { BOHR_RADIUS_ANGSTROM, L_LETTERS, isRealState, prettyLabel, type OrbitalState, type Term } from '@psiform/orbitals';
+import type { BundleFileEntry } from './bundle';
+import { PSI_UNIT_TEXT, plainLabel } from './typeset';
+
+/** ψ's unit written for plain text (the typeset form is PSI_UNIT_TEXT). */
+const PSI_UNIT_PLAIN = plainLabel(PSI_UNIT_TEXT);
 import { CONVENTIONS_NOTE } from '@psiform/meshing';
 
 export const MODEL_NOTE = 'Shapes are those of the one-electron hydrogen-like model; orbitals of many-electron atoms differ.';
@@ -94,12 +99,14 @@ export interface FigureMetadata {
   warnings: WarningLike[];
   /** Sign conventions (Condon–Shortley, real forms, hybrids, normalisation). */
   conventions: string;
-  canvas?: { widthMm: number; heightMm: number; dpi: number };
   engineVersion: string;
   palette: FigureMetadataInput['palette'];
   generatedAt: string;
   caption: string;
+  /** Short alt text, at most ALT_TEXT_MAX characters (publishers' rule of thumb for screen readers). */
   altText: string;
+  /** Long description: the shape in words, the model, the surface rule and the colouring. */
+  longDescription: string;
   /** The recipe itself (written to recipe.json in a bundle, not repeated in metadata.json). */
   recipe: RecipeLike;
 }
@@ -165,6 +172,35 @@ export function shapeDescription(state: OrbitalState, label?: string): string {
   return `A superposition of ${terms.length} terms (${ls}); its lobes follow from the coefficients and do not match a single textbook shape.`;
 }
 
+/** Publishers ask for alt text of at most 125 characters plus a long description (common practice in their author guides). */
+export const ALT_TEXT_MAX = 125;
+
+/** A few words for the shape, for the short alt text. */
+export function shortShape(state: OrbitalState, label?: string): string {
+  const ts = state.terms;
+  if (ts.length === 1) {
+    const t = ts[0];
+    const suffix = plainLabel(termLabel(t)).slice(String(t.n).length + 1);
+    if (t.l === 0) return 'a round cloud around the nucleus';
+    if (t.basis === 'complex' && t.m !== 0) return 'a ring around the z axis, coloured by phase';
+    if (t.l === 1) return `two lobes of opposite sign along ${suffix || 'z'}`;
+    if (t.l === 2 && t.m === 0) return 'two lobes along z with a ring around the middle';
+    if (t.l === 2) return `a four-lobed cloverleaf (${suffix})`;
+    return 'lobes of alternating sign';
+  }
+  if (label && /^\d*sp[0-9³²d]*/i.test(label.trim())) return 'one large lobe and a small opposite lobe';
+  return `a superposition of ${ts.length} terms`;
+}
+
+/** The short alt text (≤ ALT_TEXT_MAX characters): what the picture shows, then the state. */
+export function shortAltText(state: OrbitalState, label: string, Z: number): string {
+  const what = plainLabel(label);
+  const full = `3D isosurface of the ${what} ${state.terms.length === 1 ? 'orbital' : 'state'}${Z > 1 ? ` of ${ionName(Z)}` : ''}: ${shortShape(state, label)}.`;
+  if (full.length <= ALT_TEXT_MAX) return full;
+  const bare = `3D isosurface: ${shortShape(state, label)}.`;
+  return bare.length <= ALT_TEXT_MAX ? bare : `${bare.slice(0, ALT_TEXT_MAX - 1)}…`;
+}
+
 export function figureMetadata(input: FigureMetadataInput): FigureMetadata {
   const { recipe, result, engineVersion, palette, generatedAt } = input;
   if (!recipe || typeof recipe !== 'object' || !recipe.content) throw new RangeError('recipe must be a figure recipe with content, grid and surface');
@@ -180,24 +216,27 @@ export function figureMetadata(input: FigureMetadataInput): FigureMetadata {
   const { n, extent } = result.grid;
   const spacing = (2 * extent) / (n - 1);
   const single = terms.length === 1;
-  const what = single ? `${label} orbital` : `state ${label}`;
+  const plain = plainLabel(label);
+  const what = single ? `${plain} orbital` : `state ${plain}`;
   const over = result.enclosedOver ?? 'all space';
+  const overText = over === 'all space' ? 'over all space' : over;
   const inBox = result.enclosedInBox ?? result.enclosed;
   const warnings = result.warnings ?? [];
   const cut = warnings.find((w) => w.code === 'box-cuts-surface');
   const ruleText =
     recipe.surface.rule === 'enclosed'
-      ? `enclosing ${percent(Math.round(result.enclosed * 1000) / 1000)} of the probability ${over === 'all space' ? 'over all space' : over}`
-      : `at |ψ| = ${recipe.surface.value.toPrecision(3)} a0^−3/2 (enclosing ${percent(Math.round(result.enclosed * 1000) / 1000)} of the probability ${over === 'all space' ? 'over all space' : over})`;
+      ? `enclosing ${percent(Math.round(result.enclosed * 1000) / 1000)} of the probability ${overText}`
+      : `at |ψ| = ${recipe.surface.value.toPrecision(3)} ${PSI_UNIT_PLAIN} (enclosing ${percent(Math.round(result.enclosed * 1000) / 1000)} of the probability ${overText})`;
   const colourText = phaseColouring === 'sign' ? (real ? 'lobes coloured by the sign of ψ' : 'coloured by the sign of Re ψ') : 'coloured by the phase of ψ';
   const inner = (result.grid.regions ?? []).slice(1);
-  const gridText = `Computed on a ${n}³ grid${inner.length ? ` (inner lobes on finer grids: ${inner.map((r) => `${r.n}³ over ±${g(r.extent, 3)} a0`).join(', ')})` : ''}.`;
+  const gridText = `Computed on a ${n}³ grid${inner.length ? ` (inner lobes on finer grids: ${inner.map((r) => `${r.n}³ over ±${g(r.extent, 3)} a₀`).join(', ')})` : ''}.`;
   const cutText = cut ? ` The box cuts the surface open: the part shown encloses ${percent(Math.round(inBox * 1000) / 1000)}.` : '';
   const gridWarn = warnings.some((w) => w.code === 'feature-unresolved' || w.code === 'topology-mismatch' || w.code === 'topology-unverified')
     ? ' The grid is too coarse for some details of this surface (see the warnings).'
     : '';
   const caption = `Isosurface of the hydrogen-like ${what} (Z = ${Z}) ${ruleText}; ${colourText}. ${gridText}${cutText}${gridWarn}`;
-  const altText = `${shapeDescription(state, label)} Hydrogen-like ${label}, Z = ${Z}.`;
+  const altText = shortAltText(state, label, Z);
+  const longDescription = `${shapeDescription(state, label)} ${caption} ${MODEL_NOTE}`;
   return {
     format: 'psiform-figure-metadata',
     formatVersion: 1,
@@ -229,12 +268,12 @@ export function figureMetadata(input: FigureMetadataInput): FigureMetadata {
     surfaces: result.surfaces.map((s) => ({ phase: s.phase, stats: s.stats ?? (typeof s.triangles === 'number' ? (({ phase: _p, stats: _s, ...flat }) => flat as SurfaceStatsLike)(s) : null) })),
     warnings,
     conventions: result.conventions ?? CONVENTIONS,
-    ...(recipe.canvas ? { canvas: { widthMm: recipe.canvas.widthMm, heightMm: recipe.canvas.heightMm, dpi: recipe.canvas.dpi } } : {}),
     engineVersion,
     palette,
     generatedAt,
     caption,
     altText,
+    longDescription,
     recipe,
   };
 }
@@ -243,33 +282,53 @@ function g(x: number, digits = 4): string {
   return Number(x.toPrecision(digits)).toString();
 }
 
-/** Readable sheet (Markdown that reads fine as plain text) for README.txt in a bundle. */
-export function metadataSheetText(meta: FigureMetadata): string {
+function bytesText(n: number): string {
+  return n < 1024 ? `${n} B` : n < 1024 * 1024 ? `${(n / 1024).toFixed(1)} KiB` : `${(n / 1024 / 1024).toFixed(2)} MiB`;
+}
+
+/** One line per file: what it is, as read from its bytes (see buildBundle). */
+export function fileLine(f: BundleFileEntry): string {
+  const parts = [f.format.toUpperCase()];
+  if (f.widthPx !== undefined && f.heightPx !== undefined) parts.push(`${f.widthPx} × ${f.heightPx} px`);
+  if (f.widthMm !== undefined && f.heightMm !== undefined) parts.push(`${g(f.widthMm)} × ${g(f.heightMm)} mm${f.dpi ? ` at ${f.dpi} dpi` : ''}`);
+  if (f.colourSpace) parts.push(f.colourSpace);
+  if (f.pages) parts.push(`${f.pages} page${f.pages === 1 ? '' : 's'}`);
+  parts.push(bytesText(f.bytes), `sha256 ${f.sha256}`);
+  return `- ${f.name}${f.role ? ` (${f.role})` : ''}: ${parts.join(', ')}`;
+}
+
+/** Readable sheet (Markdown that reads fine as plain text) for README.txt in a bundle; `files` as buildBundle describes them. */
+export function metadataSheetText(meta: FigureMetadata, files: BundleFileEntry[] = []): string {
   const L: string[] = [];
-  L.push(`# Figure: ${meta.label}`, '');
+  L.push(`# Figure: ${plainLabel(meta.label)}`, '');
   L.push(`Caption: ${meta.caption}`, '');
-  L.push(`Alt text: ${meta.altText}`, '');
+  L.push(`Alt text (short): ${meta.altText}`, '');
+  L.push(`Long description: ${meta.longDescription}`, '');
+  if (files.length) {
+    L.push('## Files', '', 'Sizes, resolution and colour space are read from each file itself.', '');
+    for (const f of files) L.push(fileLine(f));
+    L.push('');
+  }
   L.push('## Model', '', `- ${meta.model.kind} (nuclear charge Z = ${meta.nucleus.Z}, ${meta.nucleus.name})`, `- ${meta.model.note}`, '');
   L.push('## Terms', '');
-  for (const t of meta.terms) L.push(`- ${t.label}: n = ${t.n}, l = ${t.l}, m = ${t.m} (${t.basis} basis), coefficient ${g(t.coefficient.re)}${t.coefficient.im ? ` ${t.coefficient.im < 0 ? '−' : '+'} ${g(Math.abs(t.coefficient.im))}i` : ''}`);
+  for (const t of meta.terms) L.push(`- ${plainLabel(t.label)}: n = ${t.n}, l = ${t.l}, m = ${t.m} (${t.basis} basis), coefficient ${g(t.coefficient.re)}${t.coefficient.im ? ` ${t.coefficient.im < 0 ? '−' : '+'} ${g(Math.abs(t.coefficient.im))}i` : ''}`);
   L.push('', '## Surface', '');
   const s = meta.surface;
-  L.push(s.rule === 'enclosed' ? `- Rule: enclose ${g(s.target * 100)}% of the probability` : `- Rule: |ψ| = ${g(s.target)} a0^-3/2`);
+  L.push(s.rule === 'enclosed' ? `- Rule: enclose ${g(s.target * 100)}% of the probability` : `- Rule: |ψ| = ${g(s.target)} ${PSI_UNIT_PLAIN}`);
   L.push(
     `- Enclosed ${s.enclosedOver === 'all space' ? 'over all space' : s.enclosedOver}: ${(s.enclosedAchieved * 100).toFixed(2)}%${s.enclosedError !== null ? ` (± ${(s.enclosedError * 100).toPrecision(2)}%)` : ''}`,
     ...(s.enclosedInBox < s.enclosedAchieved ? [`- Drawn inside the box: ${(s.enclosedInBox * 100).toFixed(2)}% (the box cuts the surface)`] : []),
-    `- Isovalue |ψ|: ${g(s.isovalue)} a0^-3/2`, `- Colouring: ${s.phaseColouring === 'sign' ? 'sign of ψ' : 'phase (argument) of ψ'}`);
-  for (const x of meta.surfaces) if (x.stats) L.push(`- Surface ${x.phase}: ${x.stats.triangles} triangles, area ${g(x.stats.area)} a0²`);
+    `- Isovalue |ψ|: ${g(s.isovalue)} ${PSI_UNIT_PLAIN}`, `- Colouring: ${s.phaseColouring === 'sign' ? 'sign of ψ' : 'phase (argument) of ψ'}`);
+  for (const x of meta.surfaces) if (x.stats) L.push(`- Surface ${x.phase}: ${x.stats.triangles} triangles, area ${g(x.stats.area)} a₀²`);
   L.push('', '## Grid', '');
   const gr = meta.grid;
-  L.push(`- ${gr.n}³ points; extent ±${g(gr.extentBohr)} a0 (±${g(gr.extentAngstrom)} Å)${gr.requestedExtent === 'auto' ? ', chosen automatically' : ''}`);
-  L.push(`- Spacing ${g(gr.spacingBohr)} a0 (${g(gr.spacingAngstrom)} Å)${gr.mode === 'auto' ? '; chosen by the engine to resolve the surface' : ''}`);
-  for (const r of gr.innerGrids) L.push(`- Inner radial lobes: ${r.n}³ points over ±${g(r.extentBohr)} a0`);
+  L.push(`- ${gr.n}³ points; extent ±${g(gr.extentBohr)} a₀ (±${g(gr.extentAngstrom)} Å)${gr.requestedExtent === 'auto' ? ', chosen automatically' : ''}`);
+  L.push(`- Spacing ${g(gr.spacingBohr)} a₀ (${g(gr.spacingAngstrom)} Å)${gr.mode === 'auto' ? '; chosen by the engine to resolve the surface' : ''}`);
+  for (const r of gr.innerGrids) L.push(`- Inner radial lobes: ${r.n}³ points over ±${g(r.extentBohr)} a₀`);
   L.push('', '## Warnings', '');
   if (meta.warnings.length === 0) L.push('- None: the box holds the whole surface and the grid resolves its details.');
   for (const w of meta.warnings) L.push(`- ${w.message}`);
   L.push('', '## Conventions', '', `- ${meta.conventions}`);
-  if (meta.canvas) L.push('', '## Canvas', '', `- ${meta.canvas.widthMm} × ${meta.canvas.heightMm} mm at ${meta.canvas.dpi} dpi`);
   L.push('', '## Palette', '');
   for (const [k, v] of Object.entries(meta.palette)) if (v !== undefined && v !== null) L.push(`- ${k}: ${String(v)}`);
   L.push('', '## Provenance', '', `- Engine version ${meta.engineVersion}`, `- Generated ${meta.generatedAt}`, '- recipe.json in this bundle reproduces the figure with the same engine version.', '');

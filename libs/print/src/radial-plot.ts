@@ -1,7 +1,8 @@
 // Radial distribution plot P(r) = r² R_nl(r)² as a standalone SVG 1.1 (user unit = 1 mm).
 
 import { BOHR_RADIUS_ANGSTROM, L_LETTERS, innerTurningPoint, radialSeries, validateQuantumNumbers, validateZ } from '@psiform/orbitals';
-import { A0, ANGSTROM, INV, checkPalette, checkSizeMm, esc, f, fontStyle, niceStep, svgOpen, tickLabel, ticks, type FontBytes, type PlotPalette } from './svg-common';
+import { axisTicks, checkPalette, checkSizeMm, f, fontStyle, niceStep, svgOpen, tickLabel, ticks, type FontBytes, type PlotPalette } from './svg-common';
+import { plainLabel, svgText, UNIT_TEXT } from './typeset';
 
 export const MODEL_NOTE_SHORT = 'one-electron hydrogen-like model';
 
@@ -50,13 +51,16 @@ export function radialPlotSvg(opts: RadialPlotOptions): string {
   const x1 = W - 1.6 * fs;
   const y0 = H - 4.4 * fs; // axis baseline (P = 0)
   const y1 = 2.8 * fs; // top of the plot area
-  const xStep = niceStep(rMax * k, Math.max(3, Math.floor((x1 - x0) / (6 * fs))));
+  const xAxis = axisTicks(0, rMax * k, x1 - x0, 4 * fs, 4);
+  const xStep = xAxis.step;
   const yStep = niceStep(pMaxDisp * 1.05, Math.max(2, Math.floor((y0 - y1) / (3.5 * fs))));
   const yTop = Math.ceil((pMaxDisp * 1.05) / yStep) * yStep;
   const X = (rBohr: number) => x0 + ((rBohr * k) / (rMax * k)) * (x1 - x0);
   const Y = (pBohr: number) => y0 - (pBohr / k / yTop) * (y0 - y1);
 
-  const unitLabel = unit === 'angstrom' ? ANGSTROM : A0;
+  const unitText = UNIT_TEXT[unit];
+  const unitLabel = svgText(unitText, fs * 0.75);
+  const unitAxis = svgText(unitText, fs);
   const letter = L_LETTERS[l];
   const name = `${n}${letter}`;
   const title = opts.title ?? `Radial distribution of ${name}, Z = ${Z}`;
@@ -65,7 +69,7 @@ export function radialPlotSvg(opts: RadialPlotOptions): string {
   const axes = pal.axes;
 
   const parts: string[] = [];
-  parts.push(svgOpen(W, H, title, `P(r) = r²R(r)² of the ${name} radial function for nuclear charge Z = ${Z}; ${MODEL_NOTE_SHORT}. Classically forbidden region shaded, radial nodes marked.`));
+  parts.push(svgOpen(W, H, plainLabel(title), `P(r) = r²R(r)² of the ${name} radial function for nuclear charge Z = ${Z}, r in ${plainLabel(unitText)}; ${MODEL_NOTE_SHORT}. Classically forbidden region shaded, radial nodes marked.`));
   parts.push(
     fontStyle(
       opts.fonts,
@@ -116,7 +120,7 @@ export function radialPlotSvg(opts: RadialPlotOptions): string {
 
   // Axes and ticks.
   parts.push(`<path class="axes" d="M${f(x0)} ${f(y1)}L${f(x0)} ${f(y0)}L${f(x1)} ${f(y0)}" fill="none" stroke="${axes}" stroke-width="0.25"/>`);
-  for (const t of ticks(0, rMax * k, xStep)) {
+  for (const t of xAxis.values) {
     const x = x0 + (t / (rMax * k)) * (x1 - x0);
     parts.push(`<line class="xtick" x1="${f(x)}" y1="${f(y0)}" x2="${f(x)}" y2="${f(y0 + fs * 0.35)}" stroke="${axes}" stroke-width="0.2"/>`);
     parts.push(`<text class="tick" x="${f(x)}" y="${f(y0 + fs * 1.3)}" text-anchor="middle">${tickLabel(t, xStep)}</text>`);
@@ -126,12 +130,12 @@ export function radialPlotSvg(opts: RadialPlotOptions): string {
     parts.push(`<line class="ytick" x1="${f(x0 - fs * 0.35)}" y1="${f(y)}" x2="${f(x0)}" y2="${f(y)}" stroke="${axes}" stroke-width="0.2"/>`);
     parts.push(`<text class="tick" x="${f(x0 - fs * 0.55)}" y="${f(y + fs * 0.3)}" text-anchor="end">${tickLabel(t, yStep)}</text>`);
   }
-  parts.push(`<text class="axis-title" x="${f((x0 + x1) / 2)}" y="${f(y0 + fs * 2.6)}" text-anchor="middle">r / ${unitLabel}</text>`);
+  parts.push(`<text class="axis-title" x="${f((x0 + x1) / 2)}" y="${f(y0 + fs * 2.6)}" text-anchor="middle">r / ${unitAxis}</text>`);
   parts.push(
-    `<text class="axis-title" transform="translate(${f(fs * 1.1)} ${f((y0 + y1) / 2)}) rotate(-90)" text-anchor="middle">P(r) = r²R² / ${unitLabel}${INV}</text>`,
+    `<text class="axis-title" transform="translate(${f(fs * 1.1)} ${f((y0 + y1) / 2)}) rotate(-90)" text-anchor="middle">${svgText(`P(r) = r²R² / ${unitText}^−1`, fs)}</text>`,
   );
   parts.push('</g>');
-  parts.push(`<text class="title" x="${f(x0)}" y="${f(fs * 1.5)}">${esc(title)}</text>`);
+  parts.push(`<text class="title" x="${f(x0)}" y="${f(fs * 1.5)}">${svgText(title, fs * 1.15)}</text>`);
   parts.push(`<text class="note model-note" x="${f(W - fs * 0.5)}" y="${f(H - fs * 0.5)}" text-anchor="end">${MODEL_NOTE_SHORT}; many-electron orbitals differ</text>`);
   parts.push('</svg>\n');
   return parts.join('\n');

@@ -2,7 +2,8 @@
 
 import { BOHR_RADIUS_ANGSTROM, compileState, prettyLabel, toRealBasis, validateState, type CompiledState, type OrbitalState } from '@psiform/orbitals';
 import { sectionContours, sectionPlane, type ContourPolygons, type SectionPlaneName } from '@psiform/meshing';
-import { A0, ANGSTROM, checkPalette, checkSizeMm, esc, f, fontStyle, niceStep, svgOpen, tickLabel, ticks, type FontBytes, type PlotPalette } from './svg-common';
+import { axisTicks, checkPalette, checkSizeMm, f, fontStyle, niceStep, svgOpen, tickLabel, type FontBytes, type PlotPalette } from './svg-common';
+import { plainLabel, PSI_UNIT_TEXT, svgText, UNIT_TEXT } from './typeset';
 import { MODEL_NOTE_SHORT } from './radial-plot';
 
 export interface SectionMapOptions {
@@ -23,7 +24,7 @@ export interface SectionMapOptions {
   widthMm: number;
   heightMm: number;
   fonts?: FontBytes;
-  /** Unit of the axis ticks and scale bar (default 'bohr'). */
+  /** The figure's one length unit: axis ticks, the plane's position, the scale bar (default 'bohr'). */
   unit?: 'bohr' | 'angstrom';
   /** Overrides the title text. */
   title?: string;
@@ -96,14 +97,21 @@ export function sectionMapSvg(opts: SectionMapOptions): string {
   const V = (v: number) => py0 + (extent - v) * mmPerBohr; // v up
 
   const [ua, va, na] = AXES[plane];
-  const title = opts.title ?? `${label}: ${plane} plane, ${na} = ${f(offset)} a0`;
-  const titleSvg = opts.title !== undefined ? esc(opts.title) : `${esc(label)}: ${plane} plane, ${na} = ${f(offset)} ${A0}`;
   const k = unit === 'angstrom' ? BOHR_RADIUS_ANGSTROM : 1;
-  const unitLabel = unit === 'angstrom' ? ANGSTROM : A0;
+  const unitText = UNIT_TEXT[unit];
+  const offsetText = `${na} = ${tickLabel(offset * k, 0.001).replace(/\.?0+$/, '') || '0'} ${unitText}`;
+  const titleText = opts.title ?? `${label}: ${plane} plane, ${offsetText}`;
+  const title = plainLabel(titleText);
+  const titleSvg = svgText(titleText, fs * 1.15);
+  const unitLabel = svgText(unitText, fs * 0.75);
+  const unitAxis = svgText(unitText, fs);
+  // ψ has the dimension length^(−3/2): in an Å figure its values are stated per Å^(3/2) too (one length unit).
+  const psiUnit = unit === 'angstrom' ? 'Å^−3/2' : PSI_UNIT_TEXT;
+  const psiScale = unit === 'angstrom' ? k ** -1.5 : 1;
   const lvl = thresholds.map((t) => (maxAbs > 0 ? t / maxAbs : 0));
 
   const parts: string[] = [];
-  parts.push(svgOpen(W, H, title, `Cross-section of psi for ${label} (Z = ${compiled.state.Z}) in the ${plane} plane at ${na} = ${offset} a0, ${MODEL_NOTE_SHORT}. Positive regions in the positive colour, negative in the negative colour, nodal lines dashed.`));
+  parts.push(svgOpen(W, H, title, `Cross-section of ψ for ${plainLabel(label)} (Z = ${compiled.state.Z}) in the ${plane} plane at ${plainLabel(offsetText)}, lengths in ${plainLabel(unitText)}, ${MODEL_NOTE_SHORT}. Positive regions in the positive colour, negative in the negative colour, nodal lines dashed.`));
   parts.push(
     fontStyle(
       opts.fonts,
@@ -146,16 +154,18 @@ export function sectionMapSvg(opts: SectionMapOptions): string {
 
   // Ticks in the display unit.
   const spanDisp = extent * k;
-  const step = niceStep(2 * spanDisp, Math.max(2, Math.floor(side / (7 * fs))));
-  for (const t of ticks(-spanDisp, spanDisp, step)) {
+  // At least five ticks (0 and two each side), about 4 font sizes apart at the least.
+  const axis = axisTicks(-spanDisp, spanDisp, side, 4 * fs, 5);
+  const step = axis.step;
+  for (const t of axis.values) {
     const u = t / k;
     parts.push(`<line class="xtick" x1="${f(U(u))}" y1="${f(py0 + side)}" x2="${f(U(u))}" y2="${f(py0 + side + fs * 0.35)}" stroke="${pal.axes}" stroke-width="0.2"/>`);
     parts.push(`<text class="tick" x="${f(U(u))}" y="${f(py0 + side + fs * 1.3)}" text-anchor="middle">${tickLabel(t, step)}</text>`);
     parts.push(`<line class="ytick" x1="${f(px0 - fs * 0.35)}" y1="${f(V(u))}" x2="${f(px0)}" y2="${f(V(u))}" stroke="${pal.axes}" stroke-width="0.2"/>`);
     parts.push(`<text class="tick" x="${f(px0 - fs * 0.55)}" y="${f(V(u) + fs * 0.3)}" text-anchor="end">${tickLabel(t, step)}</text>`);
   }
-  parts.push(`<text class="axis-title" x="${f(px0 + side / 2)}" y="${f(py0 + side + fs * 2.5)}" text-anchor="middle">${ua} / ${unitLabel}</text>`);
-  parts.push(`<text class="axis-title" transform="translate(${f(px0 - fs * 3.2)} ${f(py0 + side / 2)}) rotate(-90)" text-anchor="middle">${va} / ${unitLabel}</text>`);
+  parts.push(`<text class="axis-title" x="${f(px0 + side / 2)}" y="${f(py0 + side + fs * 2.5)}" text-anchor="middle">${ua} / ${unitAxis}</text>`);
+  parts.push(`<text class="axis-title" transform="translate(${f(px0 - fs * 3.2)} ${f(py0 + side / 2)}) rotate(-90)" text-anchor="middle">${va} / ${unitAxis}</text>`);
 
   // Scale bar: a round length of at most half the width, below the axis title on the left.
   const barY = py0 + side + fs * 3.6;
@@ -177,19 +187,20 @@ export function sectionMapSvg(opts: SectionMapOptions): string {
     parts.push(`<text class="note" x="${f(lx + sw * 2)}" y="${f(ly - sw * 0.15)}">${text}</text>`);
     lx += sw * 2 + fs * 0.5 * text.length + fs;
   };
-  legend('pos', pal.positive, 'ψ &gt; 0');
-  legend('neg', pal.negative, 'ψ &lt; 0');
+  const signed = section.mode === 'signed-modulus';
+  legend('pos', pal.positive, signed ? '|ψ|, Re ψ &gt; 0' : 'ψ &gt; 0');
+  legend('neg', pal.negative, signed ? '|ψ|, Re ψ &lt; 0' : 'ψ &lt; 0');
   legend('nodal', 'none', 'ψ = 0 (node)', true);
   const notes: string[] = [
     cs
       ? opts.thresholds
-        ? `levels ±${thresholds.map((t) => t.toPrecision(3)).join(', ')} a0^−3/2 (max |ψ| here ${maxAbs.toPrecision(3)})`
-        : `levels ±${lvl.map((x) => x.toFixed(2)).join(', ')} × max |ψ| here (${maxAbs.toPrecision(3)} a0^−3/2)`
+        ? `levels ±${thresholds.map((t) => (t * psiScale).toPrecision(3)).join(', ')} ${psiUnit} (max |ψ| here ${(maxAbs * psiScale).toPrecision(3)})`
+        : `levels ±${lvl.map((x) => x.toFixed(2)).join(', ')} × max |ψ| here (${(maxAbs * psiScale).toPrecision(3)} ${psiUnit})`
       : 'no contours: the plane lies in a nodal surface',
   ];
   if (section.mode === 'signed-modulus') notes.push('complex ψ drawn as |ψ| with the sign of Re ψ');
   notes.push(`${MODEL_NOTE_SHORT}; many-electron orbitals differ`);
-  notes.forEach((t, i) => parts.push(`<text class="note${i === notes.length - 1 ? ' model-note' : i === 0 ? ' levels' : ''}" x="${f(px0)}" y="${f(ly + fs * (1.1 + 0.95 * i))}">${esc(t)}</text>`));
+  notes.forEach((t, i) => parts.push(`<text class="note${i === notes.length - 1 ? ' model-note' : i === 0 ? ' levels' : ''}" x="${f(px0)}" y="${f(ly + fs * (1.1 + 0.95 * i))}">${svgText(t, fs * 0.75)}</text>`));
   parts.push(`<text class="title" x="${f(px0)}" y="${f(fs * 1.5)}">${titleSvg}</text>`);
   parts.push('</svg>\n');
   return parts.join('\n');

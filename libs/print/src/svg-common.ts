@@ -108,7 +108,18 @@ export function tickLabel(v: number, step: number): string {
   return (s.startsWith('-') && Number(s) === 0 ? s.slice(1) : s).replace('-', '−');
 }
 
-/** "a₀" drawn with a tspan subscript (font-independent). */
-export const A0 = 'a<tspan baseline-shift="sub" font-size="70%">0</tspan>';
-export const ANGSTROM = 'Å';
-export const INV = '<tspan baseline-shift="super" font-size="70%">−1</tspan>';
+/**
+ * Ticks for an axis from lo to hi: a round step (1, 2, 5 × 10^k) giving at least `minCount` ticks (so an axis
+ * never shows 0 alone), at most about one per `minGap` of length when the axis is `length` long.
+ */
+export function axisTicks(lo: number, hi: number, length: number, minGap: number, minCount = 5): { step: number; values: number[] } {
+  let step = niceStep(hi - lo, Math.max(2, Math.floor(length / minGap)));
+  let values = ticks(lo, hi, step);
+  // Smaller round steps (÷2, ÷2.5, ÷2: 10 → 5 → 2 → 1) until there are enough ticks.
+  for (let i = 0; values.length < minCount && i < 12; i++) {
+    const m = Math.round(step / 10 ** Math.floor(Math.log10(step) + 1e-9));
+    step = m === 5 ? (step * 2) / 5 : step / 2;
+    values = ticks(lo, hi, step);
+  }
+  return { step, values };
+}

@@ -1,7 +1,7 @@
 // Preflight rules on tiny cases checkable by hand (numbers worked out in the comments).
-import { DEFAULT_DELIVERY_PROFILE, PREFLIGHT_RULES, parseDeliveryProfile, type DeliveryProfile } from '@psiform/contracts';
+import { DEFAULT_DELIVERY_PROFILE, PREFLIGHT_RULES, parseDeliveryProfile, recipeSchema, type DeliveryProfile } from '@psiform/contracts';
 import { describe, expect, it } from 'vitest';
-import { mmToPt, placement, preflightFailures, preflightFile, preflightReport, preflightText, svgPrintFacts, type PreflightSubject } from '../src';
+import { figureSvg, mmToPt, placement, plannedSubject, preflightFailures, preflightFile, preflightReport, preflightText, svgPrintFacts, type PreflightSubject } from '../src';
 
 const profile: DeliveryProfile = {
   ...DEFAULT_DELIVERY_PROFILE,
@@ -133,5 +133,42 @@ describe('parseDeliveryProfile', () => {
     expect(errors).toMatch(/^pressCondition: /m);
     expect(errors).toMatch(/^fileNameTemplate: no slashes/m);
     expect(errors).toMatch(/extra/);
+  });
+});
+
+describe('plannedSubject: the file an export will write, preflighted before it is sent', () => {
+  const parsed = recipeSchema.safeParse({ version: 1, label: '3d_z²', content: { Z: 1, terms: [{ n: 3, l: 2, m: 0, basis: 'real', re: 1 }] }, grid: { n: 32 }, surface: { rule: 'enclosed', fraction: 0.9 } });
+  if (!parsed.success) throw new Error(parsed.error.message);
+  const recipe = parsed.data;
+  const alt = { short: 'A 3d_z² orbital', long: 'A 3d_z² orbital: two lobes along z and a ring around them.' };
+
+  it('a CMYK TIFF of 89 mm at 600 dpi: 2102 px wide (89 / 25.4 × 600 = 2102.36), tagged 600 dpi, the press profile named', () => {
+    const s = plannedSubject({ format: 'tiff', widthMm: 89, heightMm: 60, dpi: 600, colour: 'cmyk', pressCondition: 'fogra39' }, recipe, alt);
+    expect(s.raster).toEqual({ widthPx: 2102, heightPx: 1417, dpi: 600, dpiTagged: 600 }); // 60 / 25.4 × 600 = 1417.32
+    expect(s).toMatchObject({ file: 'figure.tif', colourSpace: 'cmyk', icc: { condition: 'fogra39' }, fonts: 'rasterised' });
+    const r = preflightFile(s, DEFAULT_DELIVERY_PROFILE);
+    expect(r.results.filter((x) => x.status === 'fail').map((x) => x.rule)).toEqual([]);
+  });
+
+  it('300 dpi against a 600 dpi profile, 200 mm against a 178 mm widest column, RGB against CMYK: each fails by name', () => {
+    const s = plannedSubject({ format: 'png', widthMm: 200, heightMm: 60, dpi: 300 }, recipe, alt);
+    const r = preflightFile(s, DEFAULT_DELIVERY_PROFILE);
+    const failed = r.results.filter((x) => x.status === 'fail').map((x) => x.rule);
+    expect(failed).toEqual(expect.arrayContaining(['resolution', 'column_width', 'colour_mode', 'icc_profile']));
+    // 178 / 200 = 0.89: the figure would print at 89 %.
+    expect(r.results.find((x) => x.rule === 'column_width')?.actual).toBe('200 mm is wider than every column: it would be reduced to 178 mm (89%)');
+  });
+
+  it('without alt text (no mesh yet) the alt-text rule fails rather than pass on nothing', () => {
+    const r = preflightFile(plannedSubject({ format: 'png', widthMm: 88, heightMm: 60, dpi: 600 }, recipe, null), DEFAULT_DELIVERY_PROFILE);
+    expect(r.results.find((x) => x.rule === 'alt_text')).toMatchObject({ status: 'fail', actual: 'no alt text; no long description' });
+  });
+
+  it('a vector companion is the very plot the export draws: page = asked size, text sizes read from its SVG', () => {
+    const s = plannedSubject({ format: 'pdf', kind: 'radial', widthMm: 89, heightMm: 60, colour: 'cmyk', pressCondition: 'gracol' }, recipe, null);
+    expect(s.pageMm).toEqual({ width: 89, height: 60 });
+    expect(s.texts).toEqual(svgPrintFacts(figureSvg(recipe, { kind: 'radial', plane: 'xz', offset: 0, levels: 4, widthMm: 89, heightMm: 60 }, undefined)).texts);
+    expect(s.texts.length).toBeGreaterThan(0);
+    expect(s.altText.short).toMatch(/3d/);
   });
 });

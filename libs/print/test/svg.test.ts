@@ -136,7 +136,9 @@ describe('sectionMapSvg', () => {
     // + lobes above (z > 0, smaller SVG y), − below
     for (const [, y] of pathPoints(pos[0].getAttribute('d')!)) expect(y).toBeLessThan(V(0));
     for (const [, y] of pathPoints(neg[0].getAttribute('d')!)) expect(y).toBeGreaterThan(V(0));
-    expect(svg).toContain('2p_z');
+    // The name is typeset: 2p with a subscript z (a tspan), never an underscore.
+    expect(svg).toContain('2p<tspan');
+    expect(svg).not.toContain('2p_z');
     expect(svg).toContain('one-electron hydrogen-like model');
   });
   it('levels are nested: level k+1 lies inside level k (smaller extent in u and v)', () => {
@@ -178,10 +180,32 @@ describe('sectionMapSvg', () => {
     const svg = sectionMapSvg({ state: compiled, plane: 'yz', offset: 0, extent: 8, n: 31, thresholds: [0.01, 0.05], palette: PALETTE, widthMm: 60, heightMm: 70 });
     const doc = parseSvg(svg);
     expect(byClass(doc, 'path', 'contour-pos').map((p) => p.getAttribute('data-value'))).toEqual(['0.01', '0.05']);
-    expect(svg).toContain('2p_z');
+    expect(doc.getElementsByTagName('title')[0].textContent).toMatch(/^2pz: yz plane, x = 0 a₀$/);
     const cx = sectionMapSvg({ state: parseOrbitalLabel('2p+1').state, plane: 'xz', offset: 0, extent: 10, n: 31, palette: PALETTE, widthMm: 60, heightMm: 70 });
     parseSvg(cx);
     expect(cx).toContain('|ψ| with the sign of Re ψ');
+  });
+  it('one length unit per figure: an Å map says Å for the axes, the plane position, the scale bar and ψ; a0 appears nowhere', () => {
+    // 3d_z² in the xz plane at y = 1 a0 = 0.529 Å (CODATA 2018 a0 = 0.529177210903 Å).
+    const svg = sectionMapSvg({ state: parseOrbitalLabel('3dz2').state, plane: 'xz', offset: 1, extent: 12, n: 31, palette: PALETTE, widthMm: 89, heightMm: 60, unit: 'angstrom' });
+    const doc = parseSvg(svg);
+    const texts = Array.from(doc.getElementsByTagName('text')).map((t) => t.textContent ?? '');
+    const title = texts.find((t) => /plane/.test(t))!;
+    expect(title).toBe('3dz²: xz plane, y = 0.529 Å');
+    expect(texts.filter((t) => /\/ Å$/.test(t))).toHaveLength(2); // "x / Å", "z / Å"
+    expect(texts.find((t) => /levels/.test(t))).toMatch(/Å−3\/2\)$/); // ψ per Å^(3/2)
+    for (const t of texts) expect({ t, a0: /a0|a₀/.test(t) }).toEqual({ t, a0: false });
+    expect(svg).not.toMatch(/>a<tspan[^>]*class="sub">0</);
+  });
+  it('axes carry at least five ticks (0 and two each side), even on a small figure', () => {
+    for (const [w, h, extent] of [[89, 60, 12], [40, 40, 8], [180, 120, 30], [89, 60, 0.4]] as const) {
+      for (const unit of ['bohr', 'angstrom'] as const) {
+        const svg = sectionMapSvg({ state: parseOrbitalLabel('2pz').state, plane: 'xz', offset: 0, extent, n: 21, palette: PALETTE, widthMm: w, heightMm: h, unit });
+        const doc = parseSvg(svg);
+        const xt = byClass(doc, 'text', 'tick').length / 2; // x and y ticks share the values
+        expect({ w, h, extent, unit, enough: xt >= 5 }).toEqual({ w, h, extent, unit, enough: true });
+      }
+    }
   });
   it('rejects bad input naming the field', () => {
     const st = parseOrbitalLabel('2pz').state;

@@ -1,4 +1,4 @@
-import { COLOUR_MODES, EXPORT_DPI, EXPORT_FORMATS, EXPORT_LIMITS, PRESS_CONDITION_IDS, SECTION_PLANES, type ColourMode, type DeliveryProfile, type ExportFormat, type PressConditionId, type Recipe, type SectionPlane } from '@psiform/contracts';
+import { COLOUR_MODES, EXPORT_DPI, EXPORT_FORMATS, EXPORT_LIMITS, PRESS_CONDITION_IDS, SECTION_PLANES, rasterProblem, type ColourMode, type DeliveryProfile, type ExportFormat, type PressConditionId, type Recipe, type SectionPlane } from '@psiform/contracts';
 import { exportPixelSize } from '@psiform/print';
 
 /** What a render/export job is asked to do; stored in jobs.params and read by the worker. */
@@ -83,14 +83,8 @@ export function parseExportRequest(body: unknown, recipe: Pick<Recipe, 'canvas' 
     if (f === 'tiff' && b.alpha === true && col.colour === 'cmyk') problems.push('alpha: a CMYK TIFF is always flattened (alpha is for RGB only)');
     if (problems.length) return { ok: false, messages: problems };
     const { width, height } = exportPixelSize({ widthMm, heightMm, dpi: dpi as number });
-    if (width > EXPORT_LIMITS.pxMax || height > EXPORT_LIMITS.pxMax || width * height > EXPORT_LIMITS.megapixelsMax * 1e6) {
-      return {
-        ok: false,
-        messages: [
-          `dpi: ${widthMm} × ${heightMm} mm at ${dpi} dpi is ${width} × ${height} px; the largest raster export is ${EXPORT_LIMITS.pxMax} px a side and ${EXPORT_LIMITS.megapixelsMax} megapixels (choose a lower dpi or a smaller size)`,
-        ],
-      };
-    }
+    const raster = rasterProblem(widthMm, heightMm, dpi as number);
+    if (raster) return { ok: false, messages: [`dpi: ${raster}`] };
     const base = { widthMm, heightMm, dpi: dpi as number, widthPx: width, heightPx: height, transparent: (b.transparent as boolean | undefined) ?? null };
     if (f === 'tiff') return { ok: true, params: { format: 'tiff', ...base, alpha: b.alpha === true, ...col } };
     return { ok: true, params: { format: 'png', ...base } };

@@ -1,5 +1,5 @@
 import { BadRequestException, ForbiddenException, Injectable, NotFoundException } from '@nestjs/common';
-import { FIGURE_SET_LIMITS, parseRecipe, type CreateFigureSetRequest, type CreateJobResponse, type FigureSetDto, type UserDto } from '@psiform/contracts';
+import { FIGURE_SET_LIMITS, parseRecipe, TEXT_LIMITS, titleProblem, type CreateFigureSetRequest, type CreateJobResponse, type FigureSetDto, type UserDto } from '@psiform/contracts';
 import { FiguresService } from '../figures/figures.service';
 import { FiguresStore, type FigureEntity, FigureSetsStore, toFigureSetDto } from '@psiform/server';
 import { JobsService } from '../jobs/jobs.service';
@@ -54,7 +54,7 @@ export class ExportsService {
     if (problems.length) throw new BadRequestException(problems);
     await this.membership.requireAccess(user, body.publicationId);
     await this.requirePanels(user, body.figureIds, body.publicationId);
-    const set = await this.sets.insert({ publicationId: body.publicationId, title: body.title.trim(), figureIds: body.figureIds, columns: body.columns, createdBy: user.id });
+    const set = await this.sets.insert({ publicationId: body.publicationId, title: body.title.trim(), figureIds: body.figureIds, columns: body.columns, caption: body.caption?.trim() || null, createdBy: user.id });
     return toFigureSetDto(set);
   }
 
@@ -103,7 +103,7 @@ export class ExportsService {
       figureId: null,
       figureVersionId: null,
       requestedBy: user.id,
-      params: { ...parsed.params, figureSetId: set.id, columns: set.columns, title: set.title, panels },
+      params: { ...parsed.params, figureSetId: set.id, columns: set.columns, title: set.title, caption: set.caption ?? null, panels },
     });
     return { jobId: job.id };
   }
@@ -114,9 +114,10 @@ const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
 export function checkSetBody(body: Partial<CreateFigureSetRequest> | null | undefined): string[] {
   const p: string[] = [];
   const b = (body ?? {}) as Record<string, unknown>;
-  for (const k of Object.keys(b)) if (!['publicationId', 'title', 'figureIds', 'columns'].includes(k)) p.push(`${k}: is not a field of a figure set`);
+  for (const k of Object.keys(b)) if (!['publicationId', 'title', 'figureIds', 'columns', 'caption'].includes(k)) p.push(`${k}: is not a field of a figure set`);
   if (typeof b.publicationId !== 'string' || !UUID.test(b.publicationId)) p.push('publicationId: must be a UUID');
-  if (typeof b.title !== 'string' || b.title.trim().length < 1 || b.title.trim().length > 200) p.push('title: must be 1 to 200 characters');
+  const tp = titleProblem(b.title);
+  if (tp) p.push(`title: ${tp}`);
   const L = FIGURE_SET_LIMITS;
   if (!Array.isArray(b.figureIds) || b.figureIds.length < L.figuresMin || b.figureIds.length > L.figuresMax) p.push(`figureIds: must list ${L.figuresMin} to ${L.figuresMax} figure ids`);
   else {
@@ -125,6 +126,7 @@ export function checkSetBody(body: Partial<CreateFigureSetRequest> | null | unde
     });
     if (new Set(b.figureIds).size !== b.figureIds.length) p.push('figureIds: must not repeat a figure');
   }
+  if (b.caption !== undefined && (typeof b.caption !== 'string' || b.caption.length > TEXT_LIMITS.captionMax)) p.push(`caption: must be a text of at most ${TEXT_LIMITS.captionMax} characters`);
   if (typeof b.columns !== 'number' || !Number.isInteger(b.columns) || b.columns < L.columnsMin || b.columns > L.columnsMax) p.push(`columns: must be an integer from ${L.columnsMin} to ${L.columnsMax}`);
   return p;
 }

@@ -1,12 +1,14 @@
 import { Transform, Type } from 'class-transformer';
-import { IsDefined, IsIn, IsInt, IsNotEmpty, IsString, IsUUID, Max, MaxLength, Min } from 'class-validator';
+import { IsDefined, IsIn, IsInt, IsNotEmpty, IsString, IsUUID, Max, MaxLength, Min, type ValidationArguments } from 'class-validator';
 import { OptionalNotNull } from '../common/validation';
-import { FIGURE_STATUSES, type CreateFigureRequest, type FigureStatus, type UpdateFigureRequest } from '@psiform/contracts';
+import { FIGURE_STATUSES, TEXT_LIMITS, titleProblem, type CreateFigureRequest, type FigureStatus, type UpdateFigureRequest } from '@psiform/contracts';
 import { FIGURE_SORTS, type FigureSort } from '@psiform/server';
 
 const trim = ({ value }: { value: unknown }) => (typeof value === 'string' ? value.trim() : value);
 
-export const FIGURE_TITLE_MAX = 200;
+/** From libs/contracts, so the client names the same limit in the same words. */
+export const FIGURE_TITLE_MAX = TEXT_LIMITS.titleMax;
+const titleTooLong = (a: ValidationArguments) => `title ${titleProblem(a.value) ?? `must be at most ${FIGURE_TITLE_MAX} characters`}`;
 /** Highest page number a list accepts: keeps (page - 1) × pageSize far inside PostgreSQL's bigint OFFSET. */
 export const PAGE_MAX = 1_000_000;
 
@@ -16,7 +18,7 @@ export class CreateFigureBody implements CreateFigureRequest {
 
   @Transform(trim)
   @IsNotEmpty({ message: 'title must not be empty' })
-  @MaxLength(FIGURE_TITLE_MAX, { message: `title must be at most ${FIGURE_TITLE_MAX} characters` })
+  @MaxLength(FIGURE_TITLE_MAX, { message: titleTooLong })
   @IsString({ message: 'title must be a string' })
   title: string;
 
@@ -29,7 +31,7 @@ export class UpdateFigureBody implements UpdateFigureRequest {
   @OptionalNotNull()
   @Transform(trim)
   @IsNotEmpty({ message: 'title must not be empty' })
-  @MaxLength(FIGURE_TITLE_MAX, { message: `title must be at most ${FIGURE_TITLE_MAX} characters` })
+  @MaxLength(FIGURE_TITLE_MAX, { message: titleTooLong })
   @IsString({ message: 'title must be a string' })
   title?: string;
 

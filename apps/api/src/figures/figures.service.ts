@@ -1,5 +1,5 @@
 import { BadRequestException, Injectable, NotFoundException } from '@nestjs/common';
-import type { CreateJobResponse, FigureDto, FigureSummaryDto, Page, Recipe, UserDto } from '@psiform/contracts';
+import type { CreateJobResponse, FigureDto, FigureSummaryDto, LengthUnit, Page, Recipe, UserDto } from '@psiform/contracts';
 import { MembershipService, guarded } from '../publications/membership.service';
 import { AssetStore, toAssetDto, ENGINE_VERSION, FiguresStore, type NewVersion, type FigureEntity, toFigureVersionDto, type FigureVersionEntity, recipeHash } from '@psiform/server';
 import { LINK_TTL_SECONDS } from '../assets/assets.service';
@@ -8,6 +8,17 @@ import type { CreateFigureBody, ListFiguresQuery, UpdateFigureBody } from './fig
 import { validateRecipe } from './recipe-input';
 
 type Caller = Pick<UserDto, 'id' | 'role'>;
+
+/**
+ * One length unit per figure, the publication's choice: every version saved states its lengths (scale bar,
+ * section-map axes, radial plot) in the publication's unit.
+ */
+export function inLengthUnit(recipe: Recipe, unit: LengthUnit | undefined): Recipe {
+  if (!unit || recipe.annotations.scaleBar.unit === unit) return recipe;
+  // A fixed bar length was chosen in the old unit; the bar picks a round length in the new one instead.
+  const { length: _old, ...bar } = recipe.annotations.scaleBar;
+  return { ...recipe, annotations: { ...recipe.annotations, scaleBar: { ...bar, unit } } };
+}
 
 @Injectable()
 export class FiguresService {
@@ -19,8 +30,8 @@ export class FiguresService {
   ) {}
 
   async create(user: Caller, body: CreateFigureBody): Promise<FigureDto> {
-    await this.membership.requireAccess(user, body.publicationId);
-    const recipe = validateRecipe(body.recipe);
+    const publication = await this.membership.requireAccess(user, body.publicationId);
+    const recipe = inLengthUnit(validateRecipe(body.recipe), publication.lengthUnit);
     await this.checkSource(recipe, body.publicationId);
     const { figure, version } = await this.store.create({ publicationId: body.publicationId, title: body.title, ownerId: user.id }, this.newVersion(recipe, user));
     return this.toDto(figure, version);
@@ -39,7 +50,7 @@ export class FiguresService {
     const figure = await this.requireFigure(user, id);
     await this.membership.authorize(user, 'figure.edit', guarded.figure(figure));
     let version = await this.currentVersion(figure);
-    const recipe = body.recipe === undefined ? undefined : validateRecipe(body.recipe);
+    const recipe = body.recipe === undefined ? undefined : inLengthUnit(validateRecipe(body.recipe), (await this.membership.requireAccess(user, figure.publicationId)).lengthUnit);
     if (recipe) {
       await this.checkSource(recipe, figure.publicationId);
       const next = this.newVersion(recipe, user);

@@ -2,7 +2,7 @@ import { Body, Controller, Delete, Get, HttpCode, Param, Patch, Post, Put, Query
 import type { MemberDto, MembershipDto, Page, PublicationAdminDto, PublicationDto, UserDto } from '@psiform/contracts';
 import { CurrentUser, Roles } from '../auth/auth.decorators';
 import { uuidParam } from '../common/uuid-param.pipe';
-import { AddMemberBody, CreatePublicationBody, ListPublicationsQuery, SetMemberRoleBody, UpdatePublicationBody } from './publications.dto';
+import { AddMemberBody, CreatePublicationBody, LengthUnitBody, ListPublicationsQuery, SetMemberRoleBody, UpdatePublicationBody } from './publications.dto';
 import { PublicationsService } from './publications.service';
 
 @Controller('publications')
@@ -36,6 +36,13 @@ export class PublicationsController {
   @Roles('admin')
   update(@CurrentUser() user: UserDto, @Param('id', uuidParam('id')) id: string, @Body() body: UpdatePublicationBody): Promise<PublicationAdminDto> {
     return this.publications.update(user, id, body);
+  }
+
+  /** The length unit alone, for art directors too (the House style page); the same audited edit as PATCH. */
+  @Put(':id/length-unit')
+  @Roles('admin', 'art_director')
+  setLengthUnit(@CurrentUser() user: UserDto, @Param('id', uuidParam('id')) id: string, @Body() body: LengthUnitBody): Promise<PublicationDto> {
+    return this.publications.setLengthUnit(user, id, body.lengthUnit);
   }
 
   @Get(':id/members')

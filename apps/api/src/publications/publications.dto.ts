@@ -9,6 +9,7 @@ import {
   type AddMemberWithRoleRequest,
   type CreatePublicationRequest,
   type LengthUnit,
+  type LengthUnitRequest,
   type PublicationKind,
   type PublicationSortKey,
   type Role,
@@ -122,4 +123,9 @@ export class ListPublicationsQuery {
   @IsOptional()
   @IsIn(['asc', 'desc'], { message: 'order must be asc or desc' })
   order?: 'asc' | 'desc';
+}
+
+export class LengthUnitBody implements LengthUnitRequest {
+  @IsIn(LENGTH_UNITS as readonly string[], { message: `lengthUnit must be one of: ${LENGTH_UNITS.join(', ')}` })
+  lengthUnit: LengthUnit;
 }

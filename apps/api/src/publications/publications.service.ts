@@ -1,10 +1,11 @@
-import { BadRequestException, ConflictException, Injectable, NotFoundException } from '@nestjs/common';
+import { BadRequestException, ConflictException, ForbiddenException, Injectable, NotFoundException } from '@nestjs/common';
 import {
   ADMIN_PAGE_SIZE,
   LENGTH_UNIT_SYMBOLS,
   PUBLICATION_KINDS,
   ROLE_LABELS,
   type CreatePublicationRequest,
+  type LengthUnit,
   type MemberDto,
   type MembershipDto,
   type Page,
@@ -93,6 +94,16 @@ export class PublicationsService {
     });
     const p = await this.store.findById(id);
     return toAdminDto(p!, await this.store.memberCount(id));
+  }
+
+  /**
+   * The one length unit of the publication's figures (applied to every figure version saved from now on): admins and
+   * the publication's art directors; the same audited edit as update().
+   */
+  async setLengthUnit(user: Caller, publicationId: string, unit: LengthUnit): Promise<PublicationDto> {
+    await this.membership.requireAccess(user, publicationId);
+    if (user.role !== 'admin' && user.role !== 'art_director') throw new ForbiddenException('only admins and art directors choose the length unit of a publication');
+    return this.update(user, publicationId, { lengthUnit: unit });
   }
 
   async members(user: Caller, publicationId: string): Promise<MemberDto[]> {

@@ -19,7 +19,7 @@ describe('swatchbook input', () => {
   });
 
   it('names each bad or missing field', () => {
-    expect(messages(() => parseColors({ ...good, positive: 'red', label: undefined }))).toEqual(['colors.positive must be a #rrggbb colour', 'colors.label is required']);
+    expect(messages(() => parseColors({ ...good, positive: 'red', label: undefined }))).toEqual(['colors.positive must be a colour like #1a2b3c (# and six hex digits)', 'colors.label is required']);
     expect(messages(() => parseColors({ ...good, glow: '#ffffff' }))).toEqual([expect.stringContaining('colors.glow is not a swatch')]);
     expect(messages(() => parseColors({ ...good, wheel: { lightness: 2, chroma: 0.1 } }))).toEqual(['colors.wheel.lightness must be a number between 0 and 1 (OKLCH L)']);
   });

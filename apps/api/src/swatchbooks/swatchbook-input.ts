@@ -1,6 +1,6 @@
 import { BadRequestException } from '@nestjs/common';
 import { normaliseHex, isHex } from '@psiform/colour';
-import { SWATCHBOOK_FILE_FORMAT, type SwatchbookColorsDto } from '@psiform/contracts';
+import { HEX_COLOUR_MESSAGE, SWATCHBOOK_FILE_FORMAT, type SwatchbookColorsDto } from '@psiform/contracts';
 
 export const SWATCH_REQUIRED = ['positive', 'negative', 'background', 'label'] as const;
 export const SWATCH_OPTIONAL = ['nucleus', 'axes'] as const;
@@ -28,7 +28,7 @@ export function parseColors(input: unknown, base?: SwatchbookColorsDto, prefix =
       delete out[k];
       continue;
     }
-    if (!isHex(v)) problems.push(`${prefix}.${k} must be a #rrggbb colour`);
+    if (!isHex(v)) problems.push(`${prefix}.${k} ${HEX_COLOUR_MESSAGE}`);
     else out[k] = normaliseHex(v);
   }
   if (o.wheel !== undefined) {

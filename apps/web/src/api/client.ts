@@ -138,6 +138,8 @@ export function figuresListPath(p: FigureListParams): string {
 export interface AssetLink {
   url: string;
   expiresAt: string;
+  /** The name the file downloads under (named from the figure by the server). */
+  fileName: string;
 }
 
 export interface ApiClient {

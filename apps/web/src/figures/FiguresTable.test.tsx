@@ -32,7 +32,8 @@ describe('library: the figures table', () => {
     const r1 = within(rows[0]);
     expect(r1.getByTestId('figure-title').textContent).toBe('Plate 1: 2p_z');
     expect(r1.getByTestId('figure-title').getAttribute('href')).toBe('/figures/f1');
-    expect(r1.getByTestId('figure-label').textContent).toBe('2p_z');
+    expect(r1.getByTestId('figure-label').textContent).toBe('2pz'); // typeset: 2p with a subscript z
+    expect(r1.getByTestId('figure-label').querySelector('sub')?.textContent).toBe('z');
     expect(r1.getByTestId('figure-status').textContent).toBe('In review');
     expect(r1.getByTestId('figure-owner').textContent).toBe('Ada Quill');
     expect(r1.getByTestId('figure-version').textContent).toBe('v3');
@@ -177,7 +178,7 @@ describe('library: the figures table', () => {
     const img = within(rows[0]).getByRole('img') as HTMLImageElement;
     expect(img.tagName).toBe('IMG');
     expect(img.getAttribute('src')).toBe('http://store.test/psiform/thumbs/a-7.png?X-Amz-Signature=ab');
-    expect(img.getAttribute('alt')).toBe('Plate 1: 2p_z (2p_z)');
+    expect(img.getAttribute('alt')).toBe('Plate 1: 2p_z (2pz)'); // the label in plain text, no underscore
     expect(img.getAttribute('loading')).toBe('lazy');
     expect([img.getAttribute('width'), img.getAttribute('height')]).toEqual(['64', '48']);
     expect(within(rows[0]).queryByTestId('figure-thumb-none')).toBeNull();

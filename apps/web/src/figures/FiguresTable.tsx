@@ -7,6 +7,8 @@ import { describeError, type FigureListParams, type FigureSortKey } from '../api
 import { useApi } from '../auth/AuthProvider';
 import { Pager, SortHeader, nextSort, useDebounced, SEARCH_DEBOUNCE_MS } from '../components/TableParts';
 import { formatDate, statusLabel } from './model';
+import { Typeset } from '../components/Typeset';
+import { plainLabel } from '@psiform/print';
 
 export const PAGE_SIZE = 25;
 export { SEARCH_DEBOUNCE_MS };
@@ -62,7 +64,7 @@ export function FigureThumbnail({ figure }: { figure: Pick<FigureSummaryDto, 'ti
       height={THUMB_HEIGHT}
       loading="lazy"
       decoding="async"
-      alt={figure.label ? `${figure.title} (${figure.label})` : figure.title}
+      alt={figure.label ? `${figure.title} (${plainLabel(figure.label)})` : figure.title}
       onError={() => setFailed(true)}
       data-testid="figure-thumb"
     />
@@ -176,7 +178,7 @@ export function FiguresTable({ publicationId, pageSize = PAGE_SIZE }: { publicat
                       {f.title}
                     </Link>
                   </td>
-                  <td data-testid="figure-label">{f.label ?? '—'}</td>
+                  <td data-testid="figure-label">{f.label ? <Typeset text={f.label} /> : '—'}</td>
                   <td>
                     <Tag minimal intent={statusIntent(f.status)} data-testid="figure-status">
                       {statusLabel(f.status)}

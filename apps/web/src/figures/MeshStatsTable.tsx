@@ -1,6 +1,8 @@
 import { HTMLTable } from '@blueprintjs/core';
 import type { AssetDto, MeshStatsDto } from '@psiform/contracts';
 import { formatNumber } from './model';
+import { Typeset } from '../components/Typeset';
+import { PSI_UNIT_TEXT } from '@psiform/print';
 
 const PHASE_WORDS: Record<MeshStatsDto['phase'], string> = { '+': 'ψ > 0 (phase +)', '-': 'ψ < 0 (phase −)', complex: '|ψ| (complex phase)' };
 
@@ -41,7 +43,7 @@ export function MeshStatsTable({ asset }: { asset: AssetDto }) {
       </HTMLTable>
       {(stats?.isovalue !== undefined || stats?.enclosed !== undefined) && (
         <p className="pf-muted pf-small" data-testid="mesh-level">
-          {stats?.isovalue !== undefined && <>Isovalue |ψ| = {formatNumber(stats.isovalue, 6)} a0^−3/2. </>}
+          {stats?.isovalue !== undefined && <>Isovalue |ψ| = {formatNumber(stats.isovalue, 6)} <Typeset text={PSI_UNIT_TEXT} />. </>}
           {stats?.enclosed !== undefined && <>Probability inside the surface on this grid: {formatNumber(stats.enclosed * 100, 2)}%.</>}
         </p>
       )}

@@ -1,5 +1,6 @@
 import { FIGURE_STATUS_LABELS, RECIPE_LIMITS, type FigureStatus, type Recipe } from '@psiform/contracts';
 import { formatBytes, gridBytes, isRealState, prettyLabel, type OrbitalState } from '@psiform/orbitals';
+import { PSI_UNIT_TEXT } from '@psiform/print';
 
 export function statusLabel(status: FigureStatus | string): string {
   return (FIGURE_STATUS_LABELS as Record<string, string>)[status] ?? status;
@@ -65,7 +66,7 @@ export function describeRecipe(recipe: Recipe): string {
   const surface =
     recipe.surface.rule === 'enclosed'
       ? `surface encloses ${percent(recipe.surface.fraction)} of the probability`
-      : `surface drawn at |ψ| = ${recipe.surface.value} a0^−3/2`;
+      : `surface drawn at |ψ| = ${recipe.surface.value} ${PSI_UNIT_TEXT}`;
   const src = recipe.source;
   if (src?.kind === 'upload') {
     const spacing = src.spacing.every((d) => d === src.spacing[0]) ? `${src.spacing[0]} a0` : `${src.spacing.join(' × ')} a0`;

@@ -92,7 +92,7 @@ const FIGURE_READERS: readonly Role[] = ['illustrator', 'editor', 'art_director'
 
 export const SUB_ROUTES: readonly SubRoute[] = [
   { path: '/publications/:publicationId/figures', label: 'Library', roles: FIGURE_READERS },
-  { path: '/figures/new', label: 'New figure', roles: ['illustrator'] },
+  { path: '/figures/new', label: 'New figure (the Composer)', roles: ['illustrator'] },
   { path: '/figures/:figureId', label: 'Figure', roles: FIGURE_READERS },
   { path: '/figures/:figureId/studio', label: 'Studio', roles: ['illustrator'] },
   { path: '/uploads/new', label: 'Upload a density cube', roles: ['illustrator'] },

@@ -24,7 +24,7 @@ describe('figure page', () => {
       'POST /api/figures/f1/meshes': () => json(201, { jobId: 'j1' }),
       'GET /api/jobs/j1/events': () => stream.response,
       'GET /api/assets/a-glb/link': () => json(200, { url: 'http://storage.test/bucket/a.glb?sig=1', expiresAt: '2030-01-01T00:00:00Z' }),
-      'GET /api/assets/a-stl/link': () => json(200, { url: 'http://storage.test/bucket/a.stl?sig=2', expiresAt: '2030-01-01T00:00:00Z' }),
+      'GET /api/assets/a-stl/link': () => json(200, { url: 'http://storage.test/bucket/a.stl?sig=2', expiresAt: '2030-01-01T00:00:00Z', fileName: 'plate-1_2pz.stl' }),
     });
     storeSession(me);
     const ue = userEvent.setup();
@@ -32,7 +32,7 @@ describe('figure page', () => {
 
     const model = await screen.findByTestId('figure-model');
     expect(model.textContent).toBe(
-      '2p_z, Z = 1, one-electron hydrogen-like model; surface encloses 90% of the probability; grid 48³ — many-electron orbitals differ.',
+      '2pz, Z = 1, one-electron hydrogen-like model; surface encloses 90% of the probability; grid 48³ — many-electron orbitals differ.', // 2p with a typeset subscript z
     );
     expect(screen.getByTestId('figure-status').textContent).toBe('Draft');
     expect(screen.getByTestId('figure-version').textContent).toBe('Version 1');
@@ -67,15 +67,18 @@ describe('figure page', () => {
 
     const probe = await screen.findByTestId('viewport-probe');
     expect(probe.getAttribute('data-url')).toBe('http://storage.test/bucket/a.glb?sig=1');
-    expect(probe.getAttribute('data-positive')).toBe('#c8553d');
-    expect(probe.getAttribute('data-negative')).toBe('#2f6690');
+    expect(probe.getAttribute('data-positive')).toBe('#1f5e5b');
+    expect(probe.getAttribute('data-negative')).toBe('#a86a1c');
     expect((screen.getByTestId('compute-mesh') as HTMLButtonElement).disabled).toBe(false);
 
-    // Downloads ask for a presigned link (a plain link cannot carry the token) and then go there.
-    const go = vi.spyOn(browser, 'go').mockImplementation(() => {});
-    expect(screen.getByTestId('download-stl').textContent).toBe('STL · 2.0 MB');
+    // Downloads ask for a presigned link (a plain link cannot carry the token) and save it under the name the
+    // server gives, without navigating the page.
+    const save = vi.spyOn(browser, 'download').mockImplementation(() => {});
+    expect(screen.getByTestId('download-stl').textContent).toBe('Download STL mesh · 2.0 MB');
     await ue.click(screen.getByTestId('download-stl'));
-    await waitFor(() => expect(go).toHaveBeenCalledWith('http://storage.test/bucket/a.stl?sig=2'));
+    await waitFor(() => expect(save).toHaveBeenCalledWith('http://storage.test/bucket/a.stl?sig=2', 'plate-1_2pz.stl'));
+    expect(screen.getByTestId('figure-page')).toBeTruthy(); // still on the figure page
+    expect(screen.getByTestId('download-saved').textContent).toBe('Saving as plate-1_2pz.stl');
     const [link] = api.callsTo('GET', '/api/assets/a-stl/link');
     expect(link.headers.get('Authorization')).toBe('Bearer tok-1');
   });

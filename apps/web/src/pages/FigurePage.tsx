@@ -13,6 +13,8 @@ import { describeRecipe, formatDate, statusLabel } from '../figures/model';
 import { FigureReview } from '../review/FigureReview';
 import { PreflightPanel } from '../print/PreflightPanel';
 import { FigureStudioBar } from '../studio/FigureStudioBar';
+import { Typeset } from '../components/Typeset';
+import { phaseKeyColours } from '../scene/phaseKeyColours';
 
 // three.js and R3F load only when a mesh is shown (keeps them out of the first bundle).
 const FigureViewport = lazy(() => import('../viewport/FigureViewport'));
@@ -45,7 +47,7 @@ export function Viewport({ figure, asset }: { figure: FigureDto; asset: AssetDto
     );
   return (
     <Suspense fallback={<NonIdealState icon={<Spinner size={28} />} title="Starting the 3D view…" />}>
-      <FigureViewport url={link.data.url} palette={recipe.palette} stage={recipe.stage} />
+      <FigureViewport url={link.data.url} palette={recipe.palette} stage={recipe.stage} phaseKey={phaseKeyColours(recipe)} />
     </Suspense>
   );
 }
@@ -168,7 +170,7 @@ export function FigurePage() {
         <h2>Model</h2>
         {parsed.ok ? (
           <p className="pf-model-note" data-testid="figure-model">
-            {describeRecipe(parsed.recipe)}.
+            <Typeset text={`${describeRecipe(parsed.recipe)}.`} />
           </p>
         ) : (
           <Callout intent="warning" data-testid="figure-model">

@@ -53,10 +53,10 @@ export function LibraryPage() {
               intent="primary"
               icon="plus"
               text="New figure"
-              href={`/figures/new${q}`}
+              href={`/composer${q}`}
               onClick={(e) => {
                 e.preventDefault();
-                navigate(`/figures/new${q}`);
+                navigate(`/composer${q}`);
               }}
               data-testid="library-new-figure"
             />

@@ -1,12 +1,45 @@
 import { useState } from 'react';
 import { Button, Callout, FormGroup, HTMLTable, Tag, TextArea } from '@blueprintjs/core';
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import { DELIVERY_LIMITS, PREFLIGHT_RULES, type FigureDto } from '@psiform/contracts';
+import { DELIVERY_LIMITS, PREFLIGHT_RULES, type FigureDto, type PreflightFileReport } from '@psiform/contracts';
 import { describeError } from '../api/client';
 import { useApi, useAuth } from '../auth/AuthProvider';
 import { approveWithOverride, getFigurePreflight } from './printApi';
 
 const RULE_NAME = Object.fromEntries(PREFLIGHT_RULES.map((r) => [r.id, r.name]));
+
+/** One file's preflight: every rule with pass or fail, what the profile asks and what the file has. */
+export function PreflightFileTable({ file: f, testid = 'preflight-table' }: { file: PreflightFileReport; testid?: string }) {
+  return (
+    <div>
+      <h3>
+        {f.file} <Tag intent={f.passed ? 'success' : 'danger'} data-testid="preflight-file-verdict">{f.passed ? 'passes' : 'fails'}</Tag>
+      </h3>
+      <HTMLTable compact className="pf-table" data-testid={testid}>
+        <thead>
+          <tr>
+            <th>Check</th>
+            <th>Result</th>
+            <th>Asked</th>
+            <th>The file has</th>
+          </tr>
+        </thead>
+        <tbody>
+          {f.results.map((x) => (
+            <tr key={x.rule} data-testid="preflight-row" data-rule={x.rule} data-status={x.status}>
+              <td>{RULE_NAME[x.rule] ?? x.rule}</td>
+              <td>
+                <Tag minimal intent={x.status === 'pass' ? 'success' : 'danger'}>{x.status}</Tag>
+              </td>
+              <td>{x.expected}</td>
+              <td>{x.actual}</td>
+            </tr>
+          ))}
+        </tbody>
+      </HTMLTable>
+    </div>
+  );
+}
 
 /**
  * The current version's preflight reports (every rule, pass or fail, per delivered file) and, when they fail, the
@@ -39,33 +72,7 @@ export function PreflightPanel({ figure }: { figure: Pick<FigureDto, 'id' | 'sta
         pf.reports.map((r) => (
           <div key={r.assetId} data-testid="preflight-report" data-kind={r.kind}>
             {r.report.files.map((f) => (
-              <div key={f.file}>
-                <h3>
-                  {f.file} <Tag intent={f.passed ? 'success' : 'danger'} data-testid="preflight-file-verdict">{f.passed ? 'passes' : 'fails'}</Tag>
-                </h3>
-                <HTMLTable compact className="pf-table" data-testid="preflight-table">
-                  <thead>
-                    <tr>
-                      <th>Check</th>
-                      <th>Result</th>
-                      <th>Asked</th>
-                      <th>The file has</th>
-                    </tr>
-                  </thead>
-                  <tbody>
-                    {f.results.map((x) => (
-                      <tr key={x.rule} data-testid="preflight-row" data-rule={x.rule} data-status={x.status}>
-                        <td>{RULE_NAME[x.rule] ?? x.rule}</td>
-                        <td>
-                          <Tag minimal intent={x.status === 'pass' ? 'success' : 'danger'}>{x.status}</Tag>
-                        </td>
-                        <td>{x.expected}</td>
-                        <td>{x.actual}</td>
-                      </tr>
-                    ))}
-                  </tbody>
-                </HTMLTable>
-              </div>
+              <PreflightFileTable key={f.file} file={f} />
             ))}
           </div>
         ))

@@ -11,6 +11,7 @@ import { recipeLabel } from '../figures/model';
 import { disposeGeometries, geometryFromArrays, loadGlbGeometries, splitNodal, triangleCount, type PhaseGeometry } from '../scene/geometry';
 import { axisTips, OrbitalScene, type PlacedInfo } from '../scene/OrbitalScene';
 import { drawOverlay, inkFor } from '../scene/overlay';
+import { phaseKeyColours } from '../scene/phaseKeyColours';
 import { bytesToBase64, compositeOver, encodeFigurePng, readBandSrgb } from './pixels';
 import { checkRequest, type CheckedRequest, type RenderResult } from './request';
 import { commonRadius, intersect, panelGrid, panelViewOffset, type Rect } from './panels';
@@ -189,6 +190,8 @@ function drawTiles(req: CheckedRequest, info: PlacedInfo): Uint8Array {
         return { text: t.text, x: ((v.x + 1) / 2) * W, y: ((1 - v.y) / 2) * H };
       })
     : undefined;
+  // A figure coloured by arg ψ carries its phase key in the 2D layer (the same colours as the GLB's surfaces).
+  const keyColours = phaseKeyColours(recipe);
   const overlayCanvas = document.createElement('canvas');
   const prevClear = gl.getClearColor(new THREE.Color());
   const prevAlpha = gl.getClearAlpha();
@@ -218,6 +221,7 @@ function drawTiles(req: CheckedRequest, info: PlacedInfo): Uint8Array {
         visibleWidthBohr: visibleWidth,
         ink: inkFor(bg),
         axisLetters: letters,
+        phaseKey: keyColours,
       });
       ctx.setTransform(1, 0, 0, 1, 0, 0);
 
@@ -409,6 +413,7 @@ async function renderPanels(req: CheckedRequest, keep: (all: PhaseGeometry[]) =>
         visibleWidthBohr: 0,
         ink,
         axisLetters: letters[cell.index],
+        phaseKey: phaseKeyColours(p.recipe),
       });
       ctx.restore();
     }

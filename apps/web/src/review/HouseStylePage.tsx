@@ -3,6 +3,7 @@ import { Link, useParams } from 'react-router-dom';
 import { describeError } from '../api/client';
 import { usePublications } from '../figures/usePublications';
 import { HouseStylePanel } from './HouseStylePanel';
+import { LengthUnitPanel } from './LengthUnitPanel';
 
 /** /publications/:publicationId/house-style: the publication's house style panel. */
 export function HouseStylePage() {
@@ -16,7 +17,7 @@ export function HouseStylePage() {
           <Link to="/publications">Publications</Link>
         </p>
         <h1>House style{pub ? `: ${pub.title}` : ''}</h1>
-        <p className="pf-muted">One swatchbook per publication, the colour sign-off rule, and whether figures may override the colours.</p>
+        <p className="pf-muted">One swatchbook per publication, the colour sign-off rule, whether figures may override the colours, and the one length unit of its figures.</p>
       </header>
       {publications.isPending && <NonIdealState icon={<Spinner size={32} />} title="Loading…" />}
       {publications.isError && <Callout intent="danger">{describeError(publications.error)}</Callout>}
@@ -28,6 +29,7 @@ export function HouseStylePage() {
       {pub && (
         <section className="pf-section">
           <HouseStylePanel publicationId={pub.id} />
+          <LengthUnitPanel publication={pub} />
         </section>
       )}
     </div>

@@ -1,14 +1,15 @@
 // The on-screen figure: the WebGL canvas with OrbitalScene and the 2D annotation layer on top, framed at
 // the recipe's canvas aspect ratio so the screen shows what an export will contain.
-import { Component, useCallback, useEffect, useRef, type ReactNode } from 'react';
+import { Component, useCallback, useEffect, useMemo, useRef, type ReactNode } from 'react';
 import { Callout } from '@blueprintjs/core';
 import { Canvas, useThree } from '@react-three/fiber';
 import * as THREE from 'three';
 import type { Recipe } from '@psiform/contracts';
+import type { PhaseColourAt } from '@psiform/print';
 import { visibleHeightNow } from './framing';
 import type { PhaseGeometry } from './geometry';
 import { axisTips, OrbitalScene, type OrbitalSceneProps } from './OrbitalScene';
-import { drawOverlay, inkFor } from './overlay';
+import { captionLayout, drawOverlay, inkFor, type CaptionLayout } from './overlay';
 
 export interface FigureCanvasProps {
   surfaces: readonly PhaseGeometry[];
@@ -22,6 +23,8 @@ export interface FigureCanvasProps {
   onOrbitEnd?: OrbitalSceneProps['onOrbitEnd'];
   /** Once per set of surfaces, after a frame of them has been drawn. */
   onReady?(): void;
+  /** A figure coloured by arg ψ: its phase key's colours (scene/phaseKeyColours), drawn in the 2D layer. */
+  phaseKey?: PhaseColourAt;
 }
 
 export class CanvasBoundary extends Component<{ children: ReactNode }, { error: string | null }> {
@@ -46,8 +49,15 @@ export function FigureCanvas(props: FigureCanvasProps) {
   const overlay = useRef<HTMLCanvasElement>(null);
   const frames = useRef(0);
   const reported = useRef(false);
-  const latest = useRef(props);
-  latest.current = props;
+  // The caption's own band at the bottom (same layout as the print render): the 3D view sits above it.
+  const caption = useMemo<CaptionLayout>(() => {
+    const scratch = document.createElement('canvas').getContext('2d');
+    const PX_PER_MM = 10;
+    return scratch ? captionLayout(scratch, annotations.caption, canvas.widthMm, PX_PER_MM) : { lines: [], bandMm: 0 };
+  }, [annotations.caption, canvas.widthMm]);
+  const figureShare = Math.max(0.2, 1 - caption.bandMm / canvas.heightMm);
+  const latest = useRef({ ...props, caption, figureShare });
+  latest.current = { ...props, caption, figureShare };
 
   useEffect(() => {
     frames.current = 0;
@@ -70,11 +80,11 @@ export function FigureCanvas(props: FigureCanvasProps) {
       if (ctx) {
         ctx.clearRect(0, 0, w, h);
         const target = new THREE.Vector3(...p.stage.camera.target);
-        const visibleWidth = visibleHeightNow(camera, target) * (w / h);
+        const visibleWidth = visibleHeightNow(camera, target) * (w / (h * p.figureShare));
         const letters = p.annotations.axes
           ? axisTips(radius).map((t) => {
               const v = t.at.clone().project(camera);
-              return { text: t.text, x: ((v.x + 1) / 2) * w, y: ((1 - v.y) / 2) * h };
+              return { text: t.text, x: ((v.x + 1) / 2) * w, y: ((1 - v.y) / 2) * h * p.figureShare };
             })
           : undefined;
         const bg = p.stage.background.transparent ? null : p.stage.background.color;
@@ -87,6 +97,8 @@ export function FigureCanvas(props: FigureCanvasProps) {
           visibleWidthBohr: visibleWidth,
           ink: inkFor(bg),
           axisLetters: letters,
+          caption: p.caption,
+          phaseKey: p.phaseKey,
         });
       }
     }
@@ -103,7 +115,7 @@ export function FigureCanvas(props: FigureCanvasProps) {
   return (
     <div
       className={`pf-figure-canvas${bg ? '' : ' pf-checker'}`}
-      style={{ aspectRatio: `${canvas.widthMm} / ${canvas.heightMm}` }}
+      style={{ aspectRatio: `${canvas.widthMm} / ${canvas.heightMm}`, ['--pf-figure-share' as string]: `${(figureShare * 100).toFixed(3)}%` }}
       data-testid="figure-canvas"
     >
       <CanvasBoundary>
@@ -128,7 +140,7 @@ export function FigureCanvas(props: FigureCanvasProps) {
           <Invalidator deps={[label, annotations, canvas]} />
         </Canvas>
       </CanvasBoundary>
-      <canvas ref={overlay} className="pf-overlay" aria-label={`Figure label ${label}`} data-testid="figure-overlay" />
+      <canvas ref={overlay} className="pf-overlay" aria-label={`Figure label ${label}`} data-testid="figure-overlay" data-caption-band-mm={caption.bandMm.toFixed(2)} />
     </div>
   );
 }

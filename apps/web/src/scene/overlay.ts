@@ -3,7 +3,7 @@
 // into each tile and composites it, so both show the same layer at any resolution.
 import { BOHR_RADIUS_ANGSTROM } from '@psiform/orbitals';
 import type { Recipe } from '@psiform/contracts';
-import { OVERLAY_MM, SUBSCRIPT_SCALE } from '@psiform/print';
+import { drawPhaseKey, drawRuns, measureRuns, OVERLAY_MM, typeset, UNIT_TEXT, type PhaseColourAt, type TextCanvas, type TextRun } from '@psiform/print';
 
 export type ScaleUnit = Recipe['annotations']['scaleBar']['unit'];
 
@@ -37,48 +37,9 @@ export function formatLength(x: number): string {
   return Number(x.toPrecision(4)).toLocaleString('en-GB', { maximumFractionDigits: 4 });
 }
 
-/** A run of text, set normally or as a subscript. */
-export interface Run {
-  text: string;
-  sub: boolean;
-}
-
-const SUB_CHARS = /[A-Za-z0-9²³¹⁰⁴⁵⁶⁷⁸⁹−()]/;
-
-/**
- * Splits a display label into runs: '3d_xy' -> 3d + sub(xy); '3d_x²−y²' -> 3d + sub(x²−y²);
- * '0.707·2p_x + 0.707·2p_y' keeps each subscript; 'sp³ #1' has none.
- */
-export function labelRuns(label: string): Run[] {
-  const runs: Run[] = [];
-  let buf = '';
-  let i = 0;
-  while (i < label.length) {
-    const ch = label[i];
-    if (ch === '_' && i + 1 < label.length) {
-      if (buf) runs.push({ text: buf, sub: false });
-      buf = '';
-      let j = i + 1;
-      let depth = 0;
-      while (j < label.length && (SUB_CHARS.test(label[j]) || (depth > 0 && label[j] !== ' '))) {
-        if (label[j] === '(') depth += 1;
-        if (label[j] === ')') depth -= 1;
-        j += 1;
-      }
-      runs.push({ text: label.slice(i + 1, j), sub: true });
-      i = j;
-      continue;
-    }
-    buf += ch;
-    i += 1;
-  }
-  if (buf) runs.push({ text: buf, sub: false });
-  return runs;
-}
-
-/** Unit text as runs: Å, or a with a subscript 0. */
-export function unitRuns(unit: ScaleUnit): Run[] {
-  return unit === 'angstrom' ? [{ text: 'Å', sub: false }] : [{ text: 'a', sub: false }, { text: '0', sub: true }];
+/** The figure's length unit as typeset text (Å, or a with a subscript 0): the one typesetter of @psiform/print. */
+export function unitRuns(unit: ScaleUnit): TextRun[] {
+  return typeset(UNIT_TEXT[unit]);
 }
 
 export interface OverlayInput {
@@ -96,6 +57,38 @@ export interface OverlayInput {
   /** Axis letters at image positions (pixels, origin top-left), when axes are shown. */
   axisLetters?: { text: string; x: number; y: number }[];
   fontFamily?: string;
+  /** The caption's lines and band (captionLayout); computed here when absent. */
+  caption?: CaptionLayout;
+  /** A figure coloured by arg ψ: the phase key (the figure's own colour rule), top right of the figure area. */
+  phaseKey?: PhaseColourAt;
+}
+
+/** The caption set in its own band under the figure: lines, and the band's height in mm. */
+export interface CaptionLayout {
+  lines: string[];
+  /** Height of the band at the bottom of the canvas that holds the caption and nothing of the 3D view. */
+  bandMm: number;
+}
+
+export const CAPTION_MAX_LINES = 6;
+
+const FAMILY = 'Lato, "Helvetica Neue", Arial, sans-serif';
+
+/**
+ * Lays the caption out for a canvas `widthMm` wide, measuring with `ctx` at `pxPerMm`: the lines (at most
+ * CAPTION_MAX_LINES, the last ending in … when cut) and the band they need. The 3D view is drawn only above the
+ * band, so a caption never covers the lobes. Same numbers on screen and in print (lengths in mm of the figure).
+ */
+export function captionLayout(ctx: TextCanvas, caption: string | undefined, widthMm: number, pxPerMm: number, family = FAMILY): CaptionLayout {
+  const text = caption?.trim();
+  if (!text) return { lines: [], bandMm: 0 };
+  const px = OVERLAY_MM.caption * pxPerMm;
+  ctx.font = font(px, family, 400);
+  const all = wrap(ctx as CanvasRenderingContext2D, text, (widthMm - 2 * OVERLAY_MM.margin) * pxPerMm);
+  const lines = all.slice(0, CAPTION_MAX_LINES);
+  if (all.length > CAPTION_MAX_LINES) lines[CAPTION_MAX_LINES - 1] = `${lines[CAPTION_MAX_LINES - 1].replace(/\s+\S*$/, '')} …`;
+  const bandMm = OVERLAY_MM.margin + lines.length * OVERLAY_MM.caption * 1.3 + OVERLAY_MM.margin * 0.5;
+  return { lines, bandMm };
 }
 
 // Sizes in mm of the printed figure and the subscript scale live in @psiform/print (preflight reads them too).
@@ -103,27 +96,6 @@ export { OVERLAY_MM, SUBSCRIPT_SCALE } from '@psiform/print';
 
 function font(px: number, family: string, weight = 400): string {
   return `${weight} ${px.toFixed(2)}px ${family}`;
-}
-
-function runsWidth(ctx: CanvasRenderingContext2D, runs: Run[], px: number, family: string, weight: number): number {
-  let w = 0;
-  for (const r of runs) {
-    ctx.font = font(r.sub ? px * SUBSCRIPT_SCALE : px, family, weight);
-    w += ctx.measureText(r.text).width;
-  }
-  return w;
-}
-
-/** Draws runs with their baseline at y; subscripts at SUBSCRIPT_SCALE of the size, dropped by 0.22 em. */
-export function drawRuns(ctx: CanvasRenderingContext2D, runs: Run[], x: number, y: number, px: number, family: string, weight = 400): number {
-  let cx = x;
-  for (const r of runs) {
-    const size = r.sub ? px * SUBSCRIPT_SCALE : px;
-    ctx.font = font(size, family, weight);
-    ctx.fillText(r.text, cx, r.sub ? y + px * 0.22 : y);
-    cx += ctx.measureText(r.text).width;
-  }
-  return cx - x;
 }
 
 function wrap(ctx: CanvasRenderingContext2D, text: string, maxWidth: number): string[] {
@@ -142,11 +114,16 @@ function wrap(ctx: CanvasRenderingContext2D, text: string, maxWidth: number): st
   return lines;
 }
 
-/** Draws the label (top left), scale bar (bottom right), caption (bottom left) and axis letters. */
+/**
+ * Draws the label (top left), scale bar (bottom right of the figure area), caption (in its own band at the
+ * bottom, under the figure area) and axis letters. Names and units are typeset (real subscripts).
+ */
 export function drawOverlay(ctx: CanvasRenderingContext2D, o: OverlayInput): void {
-  const family = o.fontFamily ?? 'Lato, "Helvetica Neue", Arial, sans-serif';
+  const family = o.fontFamily ?? FAMILY;
   const mm = o.pxPerMm;
   const margin = OVERLAY_MM.margin * mm;
+  const cap = o.caption ?? captionLayout(ctx, o.annotations.caption, o.width / mm, mm, family);
+  const figureBottom = o.height - cap.bandMm * mm;
   ctx.save();
   ctx.fillStyle = o.ink;
   ctx.strokeStyle = o.ink;
@@ -154,10 +131,9 @@ export function drawOverlay(ctx: CanvasRenderingContext2D, o: OverlayInput): voi
 
   if (o.annotations.label.show && o.label) {
     const px = OVERLAY_MM.label * mm;
-    drawRuns(ctx, labelRuns(o.label), margin, margin + px * 0.8, px, family, 700);
+    drawRuns(ctx, typeset(o.label), margin, margin + px * 0.8, px, family, 700);
   }
 
-  let bottomUsed = 0;
   const bar = o.annotations.scaleBar;
   if (bar.show && o.visibleWidthBohr > 0) {
     const { length, fraction } = chooseScaleBar(o.visibleWidthBohr, bar.unit, bar.length);
@@ -165,7 +141,7 @@ export function drawOverlay(ctx: CanvasRenderingContext2D, o: OverlayInput): voi
     const textPx = OVERLAY_MM.small * mm;
     const x1 = o.width - margin;
     const x0 = x1 - barPx;
-    const yBar = o.height - margin;
+    const yBar = figureBottom - margin;
     ctx.lineWidth = OVERLAY_MM.bar * mm;
     ctx.lineCap = 'butt';
     ctx.beginPath();
@@ -177,21 +153,24 @@ export function drawOverlay(ctx: CanvasRenderingContext2D, o: OverlayInput): voi
     ctx.moveTo(x1, yBar - 0.8 * mm);
     ctx.lineTo(x1, yBar + 0.001);
     ctx.stroke();
-    const runs: Run[] = [{ text: `${formatLength(length)} `, sub: false }, ...unitRuns(bar.unit)];
-    const w = runsWidth(ctx, runs, textPx, family, 400);
+    const runs: TextRun[] = [{ text: `${formatLength(length)} `, script: 'base' }, ...unitRuns(bar.unit)];
+    const w = measureRuns(ctx, runs, textPx, family, 400);
     drawRuns(ctx, runs, (x0 + x1) / 2 - w / 2, yBar - 1.4 * mm, textPx, family, 400);
-    bottomUsed = barPx + margin;
   }
 
-  const caption = o.annotations.caption?.trim();
-  if (caption) {
+  if (o.phaseKey) {
+    const fontPx = OVERLAY_MM.small * mm;
+    const r = OVERLAY_MM.keyRadius * mm;
+    // Room right of the ring for the "0" mark, above it for the title and the π/2 mark.
+    drawPhaseKey(ctx, { cx: o.width - margin - r - fontPx * 1.2, cy: margin + fontPx * 2.2 + r, r, colourAt: o.phaseKey, ink: o.ink, fontPx, fontFamily: family, title: 'arg ψ' });
+  }
+
+  if (cap.lines.length) {
     const px = OVERLAY_MM.caption * mm;
     ctx.font = font(px, family, 400);
-    const maxW = Math.max(o.width - 2 * margin - bottomUsed - 2 * mm, o.width * 0.3);
-    const lines = wrap(ctx, caption, maxW).slice(0, 6);
     const lh = px * 1.3;
-    let y = o.height - margin - (lines.length - 1) * lh;
-    for (const line of lines) {
+    let y = figureBottom + OVERLAY_MM.margin * 0.5 * mm + px;
+    for (const line of cap.lines) {
       ctx.fillText(line, margin, y);
       y += lh;
     }

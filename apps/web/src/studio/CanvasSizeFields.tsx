@@ -1,6 +1,7 @@
 import { useState, type ReactNode } from 'react';
 import { Button, ButtonGroup, Checkbox, FormGroup, HTMLSelect, InputGroup } from '@blueprintjs/core';
-import { COLUMN_PRESETS, DPI_CHOICES, type ColumnPreset } from '@psiform/print';
+import { DEFAULT_DELIVERY_PROFILE, type DeliveryProfile } from '@psiform/contracts';
+import { DPI_CHOICES } from '@psiform/print';
 import { fromMm, lengthError, pixelText, toMm, type LengthUnit } from './exportSize';
 
 /** The print canvas being chosen: width and height as typed (mm or inches), dpi, transparency, and what follows from them. */
@@ -27,8 +28,40 @@ export function useCanvasSize(init: { widthMm: number; heightMm: number; dpi: nu
 
 export type CanvasSize = ReturnType<typeof useCanvasSize>;
 
-/** Unit switch, column presets, width, height, dpi and transparency; ids and test ids start with `idPrefix`. */
-export function CanvasSizeFields({ size, idPrefix: p, onPreset, note }: { size: CanvasSize; idPrefix: string; onPreset(preset: ColumnPreset): void; note?: ReactNode }) {
+/** A column width offered as a preset: the publication's delivery profile's, or the common-practice ones. */
+export interface ColumnChoice {
+  /** Test-id part: the name as a slug ("one and a half" -> one-and-a-half). */
+  key: string;
+  label: string;
+  widthMm: number;
+}
+
+const slug = (s: string) => s.toLowerCase().replace(/[^a-z0-9]+/g, '-').replace(/^-|-$/g, '');
+
+/** The delivery profile's column widths as presets (its own names and widths); the default profile's without one. */
+export function columnChoices(profile: Pick<DeliveryProfile, 'columnWidthsMm'> = DEFAULT_DELIVERY_PROFILE): ColumnChoice[] {
+  return profile.columnWidthsMm.map((c) => ({ key: slug(c.name), label: `${c.name} ${c.widthMm} mm`, widthMm: c.widthMm }));
+}
+
+/**
+ * Unit switch, column presets, width, height, dpi and transparency; ids and test ids start with `idPrefix`.
+ * `minDpi` (the delivery profile's) marks the resolutions below it.
+ */
+export function CanvasSizeFields({
+  size,
+  idPrefix: p,
+  presets,
+  onPreset,
+  note,
+  minDpi,
+}: {
+  size: CanvasSize;
+  idPrefix: string;
+  presets: ColumnChoice[];
+  onPreset(preset: ColumnChoice): void;
+  note?: ReactNode;
+  minDpi?: number;
+}) {
   const { unit, w, h, setW, setH, dpi, setDpi, transparent, setTransparent, wErr, hErr, switchUnit } = size;
   return (
     <>
@@ -38,8 +71,8 @@ export function CanvasSizeFields({ size, idPrefix: p, onPreset, note }: { size: 
           <Button text="inches" active={unit === 'in'} onClick={() => switchUnit('in')} data-testid={`${p}-unit-in`} />
         </ButtonGroup>
         <ButtonGroup aria-label="Column width presets">
-          {(Object.keys(COLUMN_PRESETS) as ColumnPreset[]).map((k) => (
-            <Button key={k} small text={COLUMN_PRESETS[k].label} onClick={() => onPreset(k)} data-testid={`${p}-preset-${k}`} />
+          {presets.map((c) => (
+            <Button key={c.key} small text={c.label} onClick={() => onPreset(c)} data-testid={`${p}-preset-${c.key}`} />
           ))}
         </ButtonGroup>
       </div>
@@ -52,7 +85,7 @@ export function CanvasSizeFields({ size, idPrefix: p, onPreset, note }: { size: 
           <InputGroup id={`${p}-height`} value={h} onValueChange={setH} data-testid={`${p}-height`} />
         </FormGroup>
         <FormGroup label="Resolution" labelFor={`${p}-dpi`}>
-          <HTMLSelect id={`${p}-dpi`} value={String(dpi)} onChange={(e) => setDpi(Number(e.currentTarget.value))} options={DPI_CHOICES.map((d) => ({ value: String(d), label: `${d} dpi` }))} data-testid={`${p}-dpi`} />
+          <HTMLSelect id={`${p}-dpi`} value={String(dpi)} onChange={(e) => setDpi(Number(e.currentTarget.value))} options={DPI_CHOICES.map((d) => ({ value: String(d), label: minDpi && d < minDpi ? `${d} dpi (below the profile's ${minDpi})` : `${d} dpi` }))} data-testid={`${p}-dpi`} />
         </FormGroup>
       </div>
       <Checkbox label="Transparent background" checked={transparent} onChange={(e) => setTransparent(e.currentTarget.checked)} data-testid={`${p}-transparent`} />

@@ -1,45 +1,25 @@
-// Composer fields: states by label / by n l m / superposition / hybrid preset, Z, surface rule, grid.
-import { useMemo, useState } from 'react';
+// Composer fields: the state by label / by n l m / superposition / hybrid preset, Z, surface rule, grid.
+// Every field reads and writes the one draft (./draft.ts); the views never rewrite the state on their own.
+import { useMemo, useState, type Dispatch } from 'react';
 import { Button, ButtonGroup, Callout, FormGroup, HTMLSelect, InputGroup, Slider } from '@blueprintjs/core';
+import { PSI_UNIT_TEXT } from '@psiform/print';
 import { RECIPE_LIMITS } from '@psiform/contracts';
+import { Typeset } from '../components/Typeset';
 import { gridMemoryText } from '../figures/model';
-import {
-  checkRow,
-  filterLabelGroups,
-  HYBRID_MEMBERS,
-  HYBRID_PRETTY,
-  ionLabel,
-  labelGroups,
-  newRow,
-  normalisation,
-  normaliseRows,
-  trimNumber,
-  type ContentCheck,
-  type ContentDraft,
-  type ContentMode,
-  type TermRow,
-} from './content';
-
-export interface SurfaceDraft {
-  rule: 'enclosed' | 'psi';
-  /** Enclosed probability in percent, as typed. */
-  percent: string;
-  /** |ψ| level in a0^−3/2, as typed. */
-  psi: string;
-}
+import { filterLabelGroups, HYBRID_MEMBERS, HYBRID_PRETTY, ionLabel, labelGroups, normalisation, trimNumber } from './content';
+import { fieldText, namedState, singleUnitTerm, viewShowsState, type ComposerDraft, type ContentMode, type DraftAction } from './draft';
 
 export interface ComposerPanelProps {
-  draft: ContentDraft;
-  onDraft(d: ContentDraft): void;
-  check: ContentCheck;
-  surface: SurfaceDraft;
-  onSurface(s: SurfaceDraft): void;
-  surfaceError: string | null;
-  grid: string;
-  onGrid(g: string): void;
-  gridError: string | null;
+  draft: ComposerDraft;
+  dispatch: Dispatch<DraftAction>;
+  errors: Record<string, string>;
   complex: boolean;
   previewN: number;
+  /** Largest |ψ| on the preview grid (a0^-3/2), once sampled: the |ψ| rule's upper limit. */
+  maxAbsPsi: number | null;
+  /** The preview's current isovalue and enclosed fraction, so switching the rule keeps the same surface. */
+  isovalue: number | null;
+  enclosed: number | null;
 }
 
 const MODES: { mode: ContentMode; text: string }[] = [
@@ -49,9 +29,15 @@ const MODES: { mode: ContentMode; text: string }[] = [
   { mode: 'hybrid', text: 'Hybrid' },
 ];
 
+const REPLACE_WORDS: Record<Exclude<ContentMode, 'superposition'>, string> = {
+  label: 'Replace with a named orbital…',
+  nlm: 'Replace with one n, l, m state…',
+  hybrid: 'Replace with a hybrid…',
+};
+
 const ION_PICKS = [1, 2, 3, 4, 5, 6, 7, 8];
 
-function Msg({ id, text, help }: { id: string; text?: string; help?: string }) {
+function Msg({ id, text, help }: { id: string; text?: string | null; help?: React.ReactNode }) {
   if (text)
     return (
       <span data-testid={id} role="alert">
@@ -68,14 +54,7 @@ function LabelPicker({ value, onPick }: { value: string; onPick(key: string): vo
   const groups = useMemo(() => filterLabelGroups(labelGroups(), query), [query]);
   return (
     <div className="pf-label-picker">
-      <InputGroup
-        leftIcon="search"
-        placeholder="Find a label: 3d, xy, f, sp3…"
-        value={query}
-        onValueChange={setQuery}
-        data-testid="cmp-label-search"
-        aria-label="Find an orbital label"
-      />
+      <InputGroup leftIcon="search" placeholder="Find a label: 3d, xy, f, sp3…" value={query} onValueChange={setQuery} data-testid="cmp-label-search" aria-label="Find an orbital label" />
       <div className="pf-label-list" data-testid="cmp-label-list" role="listbox" aria-label="Orbital labels by shell">
         {groups.length === 0 && <p className="pf-muted">No label matches “{query}”.</p>}
         {groups.map((g) => (
@@ -93,7 +72,7 @@ function LabelPicker({ value, onPick }: { value: string; onPick(key: string): vo
                   data-testid="cmp-label-item"
                   data-key={it.key}
                 >
-                  {it.pretty}
+                  <Typeset text={it.pretty} />
                 </button>
               ))}
             </div>
@@ -104,12 +83,27 @@ function LabelPicker({ value, onPick }: { value: string; onPick(key: string): vo
   );
 }
 
-function RowsEditor({ draft, onDraft, errors }: { draft: ContentDraft; onDraft(d: ContentDraft): void; errors: Record<string, string> }) {
-  const rows = draft.rows;
-  const setRow = (i: number, patch: Partial<TermRow>) => onDraft({ ...draft, rows: rows.map((r, k) => (k === i ? { ...r, ...patch } : r)) });
-  const checks = rows.map(checkRow);
-  const terms = checks.every((c) => c.term) ? checks.map((c) => c.term!) : null;
-  const norm = terms && terms.length ? normalisation(terms) : null;
+/** The current terms, read-only, for a view that cannot show them exactly. */
+function CurrentTerms({ draft, mode, dispatch }: { draft: ComposerDraft; mode: Exclude<ContentMode, 'superposition'>; dispatch: Dispatch<DraftAction> }) {
+  const terms = draft.recipe.content.terms;
+  return (
+    <Callout intent="primary" className="pf-gap-sm" data-testid="cmp-current-state">
+      <p>
+        This view cannot show the current state exactly, so it is left as it is:{' '}
+        <strong data-testid="cmp-current-label">
+          <Typeset text={draft.recipe.label ?? ''} />
+        </strong>{' '}
+        ({terms.length} term{terms.length === 1 ? '' : 's'}). Switching views never changes ψ; the Superposition view shows every coefficient.
+      </p>
+      <Button icon="exchange" text={REPLACE_WORDS[mode]} onClick={() => dispatch({ type: 'replacing', open: true })} data-testid="cmp-replace" />
+    </Callout>
+  );
+}
+
+function RowsEditor({ draft, dispatch, errors }: { draft: ComposerDraft; dispatch: Dispatch<DraftAction>; errors: Record<string, string> }) {
+  const terms = draft.recipe.content.terms;
+  const norm = terms.length ? normalisation(terms.map((t) => ({ ...t, im: t.im ?? 0 }))) : null;
+  const set = (key: string, value: string) => dispatch({ type: 'text', key, value });
   return (
     <div className="pf-rows" data-testid="cmp-rows">
       <table className="pf-rows-table">
@@ -125,17 +119,17 @@ function RowsEditor({ draft, onDraft, errors }: { draft: ContentDraft; onDraft(d
           </tr>
         </thead>
         <tbody>
-          {rows.map((r, i) => (
-            <tr key={r.id} data-testid="cmp-row">
+          {draft.rowIds.map((id, i) => (
+            <tr key={id} data-testid="cmp-row">
               {(['n', 'l', 'm'] as const).map((k) => (
                 <td key={k}>
-                  <InputGroup small value={r[k]} onValueChange={(v) => setRow(i, { [k]: v })} intent={intent(errors[`rows.${i}.${k}`])} data-testid={`cmp-row-${k}`} aria-label={`term ${i + 1} ${k}`} />
+                  <InputGroup small value={fieldText(draft, `row.${id}.${k}`)} onValueChange={(v) => set(`row.${id}.${k}`, v)} intent={intent(errors[`row.${id}.${k}`])} data-testid={`cmp-row-${k}`} aria-label={`term ${i + 1} ${k}`} />
                 </td>
               ))}
               <td>
                 <HTMLSelect
-                  value={r.basis}
-                  onChange={(e) => setRow(i, { basis: e.currentTarget.value as TermRow['basis'] })}
+                  value={terms[i]?.basis ?? 'real'}
+                  onChange={(e) => dispatch({ type: 'row-basis', id, basis: e.currentTarget.value as 'real' | 'complex' })}
                   options={[
                     { value: 'real', label: 'real' },
                     { value: 'complex', label: 'complex' },
@@ -145,23 +139,23 @@ function RowsEditor({ draft, onDraft, errors }: { draft: ContentDraft; onDraft(d
                 />
               </td>
               <td>
-                <InputGroup small value={r.mag} onValueChange={(v) => setRow(i, { mag: v })} intent={intent(errors[`rows.${i}.mag`])} data-testid="cmp-row-mag" aria-label={`term ${i + 1} magnitude`} />
+                <InputGroup small value={fieldText(draft, `row.${id}.mag`)} onValueChange={(v) => set(`row.${id}.mag`, v)} intent={intent(errors[`row.${id}.mag`])} data-testid="cmp-row-mag" aria-label={`term ${i + 1} magnitude`} />
               </td>
               <td>
-                <InputGroup small value={r.phase} onValueChange={(v) => setRow(i, { phase: v })} intent={intent(errors[`rows.${i}.phase`])} data-testid="cmp-row-phase" aria-label={`term ${i + 1} phase in degrees`} />
+                <InputGroup small value={fieldText(draft, `row.${id}.phase`)} onValueChange={(v) => set(`row.${id}.phase`, v)} intent={intent(errors[`row.${id}.phase`])} data-testid="cmp-row-phase" aria-label={`term ${i + 1} phase in degrees`} />
               </td>
               <td>
-                <Button small minimal icon="cross" aria-label={`remove term ${i + 1}`} onClick={() => onDraft({ ...draft, rows: rows.filter((_, k) => k !== i) })} data-testid="cmp-row-remove" />
+                <Button small minimal icon="cross" aria-label={`remove term ${i + 1}`} onClick={() => dispatch({ type: 'remove-row', id })} data-testid="cmp-row-remove" />
               </td>
             </tr>
           ))}
         </tbody>
       </table>
-      {rows.map((_, i) =>
+      {draft.rowIds.map((id, i) =>
         (['n', 'l', 'm', 'mag', 'phase'] as const).map((k) =>
-          errors[`rows.${i}.${k}`] ? (
-            <p key={`${i}-${k}`} className="pf-error-line" data-testid={`cmp-row-error`} role="alert">
-              Term {i + 1}: {errors[`rows.${i}.${k}`]}
+          errors[`row.${id}.${k}`] ? (
+            <p key={`${id}-${k}`} className="pf-error-line" data-testid="cmp-row-error" role="alert">
+              Term {i + 1}: {errors[`row.${id}.${k}`]}
             </p>
           ) : null,
         ),
@@ -172,9 +166,10 @@ function RowsEditor({ draft, onDraft, errors }: { draft: ContentDraft; onDraft(d
         </p>
       )}
       <div className="pf-row-actions">
-        <Button small icon="plus" text="Add a term" disabled={rows.length >= RECIPE_LIMITS.termsMax} onClick={() => onDraft({ ...draft, rows: [...rows, newRow()] })} data-testid="cmp-add-row" />
-        <Button small icon="percentage" text="Normalise" disabled={!norm || norm.sumSquares === 0} onClick={() => onDraft({ ...draft, rows: normaliseRows(rows) })} data-testid="cmp-normalise" />
+        <Button small icon="plus" text="Add a term (|c| = 0)" disabled={terms.length >= RECIPE_LIMITS.termsMax} onClick={() => dispatch({ type: 'add-row' })} data-testid="cmp-add-row" />
+        <Button small icon="percentage" text="Normalise" disabled={!norm || norm.sumSquares === 0} onClick={() => dispatch({ type: 'normalise' })} data-testid="cmp-normalise" />
       </div>
+      {terms.length >= RECIPE_LIMITS.termsMax && <p className="pf-muted pf-small">At most {RECIPE_LIMITS.termsMax} terms.</p>}
       {norm && (
         <div className="pf-norm" data-testid="cmp-normalisation">
           <p>
@@ -196,90 +191,132 @@ function RowsEditor({ draft, onDraft, errors }: { draft: ContentDraft; onDraft(d
 }
 
 export function ComposerPanel(p: ComposerPanelProps) {
-  const { draft, onDraft, check } = p;
-  const e = check.errors;
-  const Z = Number(draft.Z);
+  const { draft, dispatch, errors: e } = p;
+  const recipe = draft.recipe;
+  const terms = recipe.content.terms;
+  const mode = draft.mode;
+  const shows = viewShowsState(mode, terms);
+  const editable = shows || draft.replacing;
+  const named = namedState(terms);
+  const unit = singleUnitTerm(terms);
+  const Z = recipe.content.Z;
   const ion = e.Z ? '' : ionLabel(Z);
-  const percent = Number(p.surface.percent);
+  const surface = recipe.surface;
+  const percentText = fieldText(draft, 'percent');
+  const percent = Number(percentText);
+  const set = (key: string, value: string) => dispatch({ type: 'text', key, value });
+  const hybrid = named?.kind === 'hybrid' ? /^(sp3d2|sp3d|sp3|sp2|sp)#(\d+)$/.exec(named.key) : null;
+
   return (
     <div className="pf-composer" data-testid="composer-panel">
       <h3>State</h3>
       <ButtonGroup className="pf-gap-sm" aria-label="How to choose the state">
         {MODES.map((m) => (
-          <Button key={m.mode} text={m.text} active={draft.mode === m.mode} onClick={() => onDraft({ ...draft, mode: m.mode })} data-testid={`cmp-mode-${m.mode}`} aria-pressed={draft.mode === m.mode} />
+          <Button key={m.mode} text={m.text} active={mode === m.mode} onClick={() => dispatch({ type: 'mode', mode: m.mode })} data-testid={`cmp-mode-${m.mode}`} aria-pressed={mode === m.mode} />
         ))}
       </ButtonGroup>
 
-      {draft.mode === 'label' && (
+      {mode !== 'superposition' && !shows && !draft.replacing && <CurrentTerms draft={draft} mode={mode} dispatch={dispatch} />}
+
+      {mode === 'label' && editable && (
         <>
-          <FormGroup label="Orbital label" labelFor="cmp-label" intent={intent(e.label)} helperText={<Msg id="cmp-label-error" text={e.label} help="Real forms 1s … 7f, e.g. 2pz, 3dxy, 3dz2, 4fxyz; complex 2p+1; hybrids sp3#2." />}>
-            <InputGroup id="cmp-label" value={draft.label} onValueChange={(v) => onDraft({ ...draft, label: v })} spellCheck={false} data-testid="cmp-label" />
+          <FormGroup
+            label="Orbital label"
+            labelFor="cmp-label"
+            intent={intent(e.label)}
+            helperText={<Msg id="cmp-label-error" text={e.label} help="Real forms 1s … 7f, e.g. 2pz, 3dxy, 3dz2, 4fxyz; complex 2p+1; hybrids sp3#2." />}
+          >
+            <InputGroup id="cmp-label" value={fieldText(draft, 'label')} onValueChange={(v) => set('label', v)} spellCheck={false} data-testid="cmp-label" />
           </FormGroup>
-          <LabelPicker value={draft.label} onPick={(key) => onDraft({ ...draft, label: key })} />
+          <LabelPicker value={named?.key ?? ''} onPick={(key) => set('label', key)} />
         </>
       )}
 
-      {draft.mode === 'nlm' && (
+      {mode === 'nlm' && editable && (
         <div className="pf-qn">
-          {(['n', 'l', 'm'] as const).map((k) => (
-            <FormGroup key={k} label={k} labelFor={`cmp-${k}`} intent={intent(e[k])} helperText={<Msg id={`cmp-${k}-error`} text={e[k]} />}>
-              <InputGroup id={`cmp-${k}`} value={draft[k]} onValueChange={(v) => onDraft({ ...draft, [k]: v })} data-testid={`cmp-${k}`} />
-            </FormGroup>
-          ))}
-          <FormGroup label="Angular form" labelFor="cmp-basis">
-            <HTMLSelect
-              id="cmp-basis"
-              value={draft.basis}
-              onChange={(ev) => onDraft({ ...draft, basis: ev.currentTarget.value as ContentDraft['basis'] })}
-              options={[
-                { value: 'real', label: 'Real (m > 0 cos-type, m < 0 sin-type)' },
-                { value: 'complex', label: 'Complex Y_lm' },
-              ]}
-              data-testid="cmp-basis"
+          {draft.replacing && !unit ? (
+            <Button
+              icon="tick"
+              text="Start from 2p (n = 2, l = 1, m = 0)"
+              onClick={() => dispatch({ type: 'replace', terms: [{ n: 2, l: 1, m: 0, basis: 'real', re: 1, im: 0 }], label: '' })}
+              data-testid="cmp-replace-nlm"
             />
-          </FormGroup>
+          ) : (
+            <>
+              {(['n', 'l', 'm'] as const).map((k) => (
+                <FormGroup key={k} label={k} labelFor={`cmp-${k}`} intent={intent(e[k])} helperText={<Msg id={`cmp-${k}-error`} text={e[k]} />}>
+                  <InputGroup id={`cmp-${k}`} value={fieldText(draft, k)} onValueChange={(v) => set(k, v)} data-testid={`cmp-${k}`} />
+                </FormGroup>
+              ))}
+              <FormGroup label="Angular form" labelFor="cmp-basis">
+                <HTMLSelect
+                  id="cmp-basis"
+                  value={unit?.basis ?? 'real'}
+                  onChange={(ev) => dispatch({ type: 'basis', basis: ev.currentTarget.value as 'real' | 'complex' })}
+                  options={[
+                    { value: 'real', label: 'Real (m > 0 cos-type, m < 0 sin-type)' },
+                    { value: 'complex', label: 'Complex Y_lm' },
+                  ]}
+                  data-testid="cmp-basis"
+                />
+              </FormGroup>
+            </>
+          )}
         </div>
       )}
 
-      {draft.mode === 'superposition' && <RowsEditor draft={draft} onDraft={onDraft} errors={e} />}
+      {mode === 'superposition' && <RowsEditor draft={draft} dispatch={dispatch} errors={e} />}
 
-      {draft.mode === 'hybrid' && (
+      {mode === 'hybrid' && editable && (
         <div className="pf-form-row">
           <FormGroup label="Hybrid set" labelFor="cmp-hybrid-set">
             <HTMLSelect
               id="cmp-hybrid-set"
-              value={draft.hybrid.set}
-              onChange={(ev) => onDraft({ ...draft, hybrid: { set: ev.currentTarget.value, member: 1 } })}
-              options={Object.keys(HYBRID_MEMBERS).map((s) => ({ value: s, label: HYBRID_PRETTY[s] }))}
+              value={hybrid?.[1] ?? ''}
+              onChange={(ev) => ev.currentTarget.value && dispatch({ type: 'hybrid', set: ev.currentTarget.value, member: 1 })}
+              options={[...(hybrid ? [] : [{ value: '', label: 'Choose…' }]), ...Object.keys(HYBRID_MEMBERS).map((s) => ({ value: s, label: HYBRID_PRETTY[s] }))]}
               data-testid="cmp-hybrid-set"
             />
           </FormGroup>
-          <FormGroup label="Member" labelFor="cmp-hybrid-member" intent={intent(e.hybrid)} helperText={<Msg id="cmp-hybrid-error" text={e.hybrid} help="Each member points its large lobe a different way." />}>
-            <HTMLSelect
-              id="cmp-hybrid-member"
-              value={String(draft.hybrid.member)}
-              onChange={(ev) => onDraft({ ...draft, hybrid: { ...draft.hybrid, member: Number(ev.currentTarget.value) } })}
-              options={Array.from({ length: HYBRID_MEMBERS[draft.hybrid.set] ?? 1 }, (_, i) => ({ value: String(i + 1), label: `#${i + 1}` }))}
-              data-testid="cmp-hybrid-member"
-            />
-          </FormGroup>
+          {hybrid && (
+            <FormGroup label="Member" labelFor="cmp-hybrid-member" helperText="Each member points its large lobe a different way.">
+              <HTMLSelect
+                id="cmp-hybrid-member"
+                value={hybrid[2]}
+                onChange={(ev) => dispatch({ type: 'hybrid', set: hybrid[1], member: Number(ev.currentTarget.value) })}
+                options={Array.from({ length: HYBRID_MEMBERS[hybrid[1]] ?? 1 }, (_, i) => ({ value: String(i + 1), label: `#${i + 1}` }))}
+                data-testid="cmp-hybrid-member"
+              />
+            </FormGroup>
+          )}
         </div>
       )}
 
+      {draft.replacing && !shows && (
+        <Button minimal small text="Keep the current state" onClick={() => dispatch({ type: 'replacing', open: false })} data-testid="cmp-replace-cancel" />
+      )}
+
       <div className="pf-form-row">
-        <FormGroup
-          label="Nuclear charge Z"
-          labelFor="cmp-z"
-          intent={intent(e.Z)}
-          helperText={<Msg id="cmp-z-error" text={e.Z} help={ion ? `One-electron ion: ${ion}` : undefined} />}
-        >
-          <InputGroup id="cmp-z" value={draft.Z} onValueChange={(v) => onDraft({ ...draft, Z: v })} data-testid="cmp-z" rightElement={ion ? <span className="pf-ion" data-testid="cmp-ion">{ion}</span> : undefined} />
+        <FormGroup label="Nuclear charge Z" labelFor="cmp-z" intent={intent(e.Z)} helperText={<Msg id="cmp-z-error" text={e.Z} help={ion ? `One-electron ion: ${ion}` : undefined} />}>
+          <InputGroup
+            id="cmp-z"
+            value={fieldText(draft, 'Z')}
+            onValueChange={(v) => set('Z', v)}
+            data-testid="cmp-z"
+            rightElement={
+              ion ? (
+                <span className="pf-ion" data-testid="cmp-ion">
+                  <Typeset text={ion} />
+                </span>
+              ) : undefined
+            }
+          />
         </FormGroup>
         <FormGroup label="Common ions" labelFor="cmp-z-pick">
           <HTMLSelect
             id="cmp-z-pick"
             value={ION_PICKS.includes(Z) ? String(Z) : ''}
-            onChange={(ev) => ev.currentTarget.value && onDraft({ ...draft, Z: ev.currentTarget.value })}
+            onChange={(ev) => ev.currentTarget.value && set('Z', ev.currentTarget.value)}
             options={[{ value: '', label: 'Choose…' }, ...ION_PICKS.map((z) => ({ value: String(z), label: `${ionLabel(z)} (Z = ${z})` }))]}
             data-testid="cmp-z-pick"
           />
@@ -288,10 +325,20 @@ export function ComposerPanel(p: ComposerPanelProps) {
 
       <h3>Surface</h3>
       <ButtonGroup className="pf-gap-sm" aria-label="Surface rule">
-        <Button text="Enclosed probability" active={p.surface.rule === 'enclosed'} onClick={() => p.onSurface({ ...p.surface, rule: 'enclosed' })} data-testid="cmp-rule-enclosed" />
-        <Button text="|ψ| value" active={p.surface.rule === 'psi'} onClick={() => p.onSurface({ ...p.surface, rule: 'psi' })} data-testid="cmp-rule-psi" />
+        <Button
+          text="Enclosed probability"
+          active={surface.rule === 'enclosed'}
+          onClick={() => surface.rule !== 'enclosed' && dispatch({ type: 'surface', surface: { rule: 'enclosed', fraction: p.enclosed !== null && p.enclosed > 0 && p.enclosed < 1 ? Number(p.enclosed.toFixed(3)) : 0.9 } })}
+          data-testid="cmp-rule-enclosed"
+        />
+        <Button
+          text="|ψ| value"
+          active={surface.rule === 'psi'}
+          onClick={() => surface.rule !== 'psi' && dispatch({ type: 'surface', surface: { rule: 'psi', value: p.isovalue !== null && p.isovalue > 0 ? Number(p.isovalue.toPrecision(3)) : 0.01 } })}
+          data-testid="cmp-rule-psi"
+        />
       </ButtonGroup>
-      {p.surface.rule === 'enclosed' ? (
+      {surface.rule === 'enclosed' ? (
         <div className="pf-fraction">
           <Slider
             min={50}
@@ -300,16 +347,46 @@ export function ComposerPanel(p: ComposerPanelProps) {
             labelStepSize={10}
             labelRenderer={(v) => `${v}%`}
             value={Number.isFinite(percent) ? Math.min(99, Math.max(50, percent)) : 90}
-            onChange={(v) => p.onSurface({ ...p.surface, percent: String(v) })}
+            onChange={(v) => set('percent', String(v))}
             data-testid="cmp-fraction-slider"
           />
-          <FormGroup label="Enclosed probability (%)" labelFor="cmp-fraction" intent={intent(p.surfaceError)} helperText={<Msg id="cmp-surface-error" text={p.surfaceError ?? undefined} help="Share of the probability inside the surfaces (0 to 100, both excluded)." />}>
-            <InputGroup id="cmp-fraction" value={p.surface.percent} onValueChange={(v) => p.onSurface({ ...p.surface, percent: v })} data-testid="cmp-fraction" rightElement={<span className="pf-ion">%</span>} />
+          <FormGroup
+            label="Enclosed probability (%)"
+            labelFor="cmp-fraction"
+            intent={intent(e.percent)}
+            helperText={<Msg id="cmp-surface-error" text={e.percent} help="Share of the probability inside the surfaces (0 to 100, both excluded)." />}
+          >
+            <InputGroup id="cmp-fraction" value={percentText} onValueChange={(v) => set('percent', v)} data-testid="cmp-fraction" rightElement={<span className="pf-ion">%</span>} />
           </FormGroup>
         </div>
       ) : (
-        <FormGroup label="|ψ| at the surface (a0^−3/2)" labelFor="cmp-psi" intent={intent(p.surfaceError)} helperText={<Msg id="cmp-surface-error" text={p.surfaceError ?? undefined} help="The surfaces are ψ = ±value (|ψ| = value for complex states)." />}>
-          <InputGroup id="cmp-psi" value={p.surface.psi} onValueChange={(v) => p.onSurface({ ...p.surface, psi: v })} data-testid="cmp-psi" />
+        <FormGroup
+          label={
+            <>
+              |ψ| at the surface (<Typeset text={PSI_UNIT_TEXT} />)
+            </>
+          }
+          labelFor="cmp-psi"
+          intent={intent(e.psi ?? e.psiMax)}
+          helperText={
+            <Msg
+              id="cmp-surface-error"
+              text={e.psi ?? e.psiMax}
+              help={
+                <>
+                  The surfaces are ψ = ±value (|ψ| = value for complex states)
+                  {p.maxAbsPsi !== null && (
+                    <>
+                      ; this state's largest |ψ| on the preview grid is <span data-testid="cmp-psi-max">{p.maxAbsPsi.toPrecision(3)}</span>
+                    </>
+                  )}
+                  .
+                </>
+              }
+            />
+          }
+        >
+          <InputGroup id="cmp-psi" value={fieldText(draft, 'psi')} onValueChange={(v) => set('psi', v)} data-testid="cmp-psi" />
         </FormGroup>
       )}
 
@@ -317,24 +394,30 @@ export function ComposerPanel(p: ComposerPanelProps) {
       <FormGroup
         label="Grid N (points per side)"
         labelFor="cmp-grid"
-        intent={intent(p.gridError)}
+        intent={intent(e.grid)}
         helperText={
-          p.gridError ? (
-            <Msg id="cmp-grid-error" text={p.gridError} />
+          e.grid ? (
+            <Msg id="cmp-grid-error" text={e.grid} />
           ) : (
             <span data-testid="cmp-memory">
-              {gridMemoryText(Number(p.grid), p.complex)}. The live preview samples {p.previewN}³.
+              {gridMemoryText(recipe.grid.n, p.complex)}. The live preview samples {p.previewN}³.
             </span>
           )
         }
       >
-        <InputGroup id="cmp-grid" value={p.grid} onValueChange={p.onGrid} data-testid="cmp-grid" />
+        <InputGroup id="cmp-grid" value={fieldText(draft, 'grid')} onValueChange={(v) => set('grid', v)} data-testid="cmp-grid" />
       </FormGroup>
-      {Object.keys(e).length > 0 && (
+      {Object.keys(e).some((k) => k !== 'title') && (
         <Callout intent="warning" className="pf-gap-sm" data-testid="cmp-invalid">
           Fix the fields marked in red to preview and save.
         </Callout>
       )}
     </div>
   );
+}
+
+/** The message when the |ψ| rule asks for a level the state never reaches on the preview grid (no surface), else null. */
+export function psiMaxMessage(recipe: ComposerDraft['recipe'], maxAbsPsi: number | null, previewN: number): string | null {
+  if (recipe.surface.rule !== 'psi' || maxAbsPsi === null || recipe.surface.value < maxAbsPsi) return null;
+  return `No surface: |ψ| never reaches ${recipe.surface.value} for this state. Its largest |ψ| on the ${previewN}³ preview grid is ${maxAbsPsi.toPrecision(3)} (same unit); choose a value below it.`;
 }

@@ -1,16 +1,21 @@
 // Stage: camera, lights, material, background, annotations and the figure's canvas (physical size).
 import { Button, ButtonGroup, FormGroup, HTMLSelect, InputGroup, Menu, MenuItem, PopoverNext, Slider, Switch, TextArea } from '@blueprintjs/core';
-import type { Recipe } from '@psiform/contracts';
-import { SHORTCUTS, type Look } from './shortcuts';
+import type { Dispatch } from 'react';
+import { CANVAS_LIMITS, TEXT_LIMITS, type Recipe } from '@psiform/contracts';
+import { UNIT_TEXT } from '@psiform/print';
+import { Typeset } from '../components/Typeset';
+import { fieldText, type ComposerDraft, type DraftAction } from './draft';
+import { SHORTCUTS } from './shortcuts';
 
 type Stage = Recipe['stage'];
 type Light = Stage['lights']['key'];
 
 export interface StagePanelProps {
-  look: Look;
-  onLook(l: Look): void;
-  canvas: Recipe['canvas'];
-  onCanvas(c: Recipe['canvas']): void;
+  draft: ComposerDraft;
+  dispatch: Dispatch<DraftAction>;
+  errors: Record<string, string>;
+  /** The publication's one length unit: figures state their lengths in it (the server applies it on save). */
+  publicationUnit?: Recipe['annotations']['scaleBar']['unit'];
 }
 
 const VIEW_BUTTONS: { view: Stage['camera']['view']; text: string; key: string }[] = [
@@ -55,18 +60,31 @@ function LightRow({ name, light, onChange }: { name: string; light: Light; onCha
   );
 }
 
-function mmField(v: number, set: (x: number) => void, id: string, label: string) {
+/** A canvas length: typed text kept as typed, with the limit named under it while it is out of range. */
+function MmField({ draft, dispatch, errors, k, label }: { draft: ComposerDraft; dispatch: Dispatch<DraftAction>; errors: Record<string, string>; k: 'widthMm' | 'heightMm'; label: string }) {
+  const key = `canvas.${k}`;
+  const id = k === 'widthMm' ? 'canvas-width' : 'canvas-height';
+  const err = errors[key];
   return (
-    <FormGroup label={label} labelFor={id}>
+    <FormGroup
+      label={label}
+      labelFor={id}
+      intent={err ? 'danger' : 'none'}
+      helperText={
+        err ? (
+          <span data-testid={`${id}-error`} role="alert">
+            {err}
+          </span>
+        ) : (
+          `${CANVAS_LIMITS.mmMin}–${CANVAS_LIMITS.mmMax} mm`
+        )
+      }
+    >
       <InputGroup
         id={id}
-        defaultValue={String(v)}
-        key={v}
-        onBlur={(e) => {
-          const x = Number(e.currentTarget.value);
-          if (Number.isFinite(x) && x >= 10 && x <= 1000) set(x);
-          else e.currentTarget.value = String(v);
-        }}
+        value={fieldText(draft, key)}
+        onValueChange={(v) => dispatch({ type: 'text', key, value: v })}
+        intent={err ? 'danger' : 'none'}
         data-testid={id}
         rightElement={<span className="pf-ion">mm</span>}
       />
@@ -74,8 +92,10 @@ function mmField(v: number, set: (x: number) => void, id: string, label: string)
   );
 }
 
-export function StagePanel({ look, onLook, canvas, onCanvas }: StagePanelProps) {
-  const { stage, annotations: ann } = look;
+export function StagePanel({ draft, dispatch, errors, publicationUnit }: StagePanelProps) {
+  const { stage, annotations: ann, canvas } = draft.recipe;
+  const look = { stage, annotations: ann };
+  const onLook = (l: typeof look) => dispatch({ type: 'look', stage: l.stage, annotations: l.annotations });
   const cam = stage.camera;
   const setStage = (s: Partial<Stage>) => onLook({ ...look, stage: { ...stage, ...s } });
   const setCam = (c: Partial<Stage['camera']>) => setStage({ camera: { ...cam, ...c } });
@@ -141,21 +161,27 @@ export function StagePanel({ look, onLook, canvas, onCanvas }: StagePanelProps) 
       <Switch label="Nucleus marker" checked={ann.nucleus} onChange={(e) => setAnn({ nucleus: e.currentTarget.checked })} data-testid="ann-nucleus" />
       <Switch label="Orbital label" checked={ann.label.show} onChange={(e) => setAnn({ label: { ...ann.label, show: e.currentTarget.checked } })} data-testid="ann-label" />
       {ann.label.show && (
-        <InputGroup placeholder="Label text (default: from the state)" value={ann.label.text ?? ''} onValueChange={(v) => setAnn({ label: { ...ann.label, text: v || undefined } })} maxLength={80} data-testid="ann-label-text" />
+        <FormGroup
+          intent={errors['label.text'] ? 'danger' : 'none'}
+          helperText={errors['label.text'] ? <span data-testid="ann-label-text-error" role="alert">{errors['label.text']}</span> : `Up to ${TEXT_LIMITS.labelMax} characters; write 3d_z² for a subscript.`}
+        >
+          <InputGroup placeholder="Label text (default: from the state)" value={fieldText(draft, 'label.text')} onValueChange={(v) => dispatch({ type: 'text', key: 'label.text', value: v })} data-testid="ann-label-text" />
+        </FormGroup>
       )}
       <Switch label="Scale bar" checked={ann.scaleBar.show} onChange={(e) => setAnn({ scaleBar: { ...ann.scaleBar, show: e.currentTarget.checked } })} data-testid="ann-scalebar" />
       {ann.scaleBar.show && (
         <div className="pf-form-row">
-          <HTMLSelect
-            value={ann.scaleBar.unit}
-            onChange={(e) => setAnn({ scaleBar: { ...ann.scaleBar, unit: e.currentTarget.value as 'angstrom' | 'bohr' } })}
-            options={[
-              { value: 'angstrom', label: 'Å (ångström)' },
-              { value: 'bohr', label: 'a0 (Bohr radius)' },
-            ]}
-            data-testid="ann-scalebar-unit"
-            aria-label="Scale bar unit"
-          />
+          <span className="pf-muted pf-small" data-testid="ann-scalebar-unit" data-unit={ann.scaleBar.unit} title="Set per publication on its House style page">
+            in <Typeset text={UNIT_TEXT[ann.scaleBar.unit]} />
+            {publicationUnit && publicationUnit !== ann.scaleBar.unit ? (
+              <>
+                {' '}
+                (the publication now uses <Typeset text={UNIT_TEXT[publicationUnit]} />: the next saved version will)
+              </>
+            ) : (
+              ' (the publication’s unit)'
+            )}
+          </span>
           <InputGroup
             placeholder="length: auto"
             defaultValue={ann.scaleBar.length ? String(ann.scaleBar.length) : ''}
@@ -169,19 +195,24 @@ export function StagePanel({ look, onLook, canvas, onCanvas }: StagePanelProps) 
           />
         </div>
       )}
-      <FormGroup label="Caption (drawn in the figure)" labelFor="ann-caption">
-        <TextArea id="ann-caption" fill value={ann.caption ?? ''} onChange={(e) => setAnn({ caption: e.currentTarget.value || undefined })} maxLength={2000} data-testid="ann-caption" />
+      <FormGroup
+        label="Caption (drawn in the figure)"
+        labelFor="ann-caption"
+        intent={errors.caption ? 'danger' : 'none'}
+        helperText={errors.caption ? <span data-testid="ann-caption-error" role="alert">{errors.caption}</span> : `Up to ${TEXT_LIMITS.captionMax} characters.`}
+      >
+        <TextArea id="ann-caption" fill value={fieldText(draft, 'caption')} onChange={(e) => dispatch({ type: 'text', key: 'caption', value: e.currentTarget.value })} data-testid="ann-caption" />
       </FormGroup>
 
       <h3>Canvas</h3>
       <div className="pf-form-row">
-        {mmField(canvas.widthMm, (x) => onCanvas({ ...canvas, widthMm: x }), 'canvas-width', 'Width')}
-        {mmField(canvas.heightMm, (x) => onCanvas({ ...canvas, heightMm: x }), 'canvas-height', 'Height')}
+        <MmField draft={draft} dispatch={dispatch} errors={errors} k="widthMm" label="Width" />
+        <MmField draft={draft} dispatch={dispatch} errors={errors} k="heightMm" label="Height" />
         <FormGroup label="dpi" labelFor="canvas-dpi">
           <HTMLSelect
             id="canvas-dpi"
             value={String(canvas.dpi)}
-            onChange={(e) => onCanvas({ ...canvas, dpi: Number(e.currentTarget.value) as 300 | 600 | 1200 })}
+            onChange={(e) => dispatch({ type: 'canvas', canvas: { dpi: Number(e.currentTarget.value) as 300 | 600 | 1200 } })}
             options={['300', '600', '1200']}
             data-testid="canvas-dpi"
           />

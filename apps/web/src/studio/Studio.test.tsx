@@ -1,7 +1,7 @@
 import { act, render, screen, waitFor, within } from '@testing-library/react';
 import userEvent from '@testing-library/user-event';
 import { vi } from 'vitest';
-import type { FigureDto } from '@psiform/contracts';
+import { DEFAULT_DELIVERY_PROFILE, parseRecipe, type FigureDto } from '@psiform/contracts';
 import { AppProviders, createQueryClient } from '../App';
 import { json, mockFetch, renderApp, signedInRoutes, storeSession, user } from '../test/utils';
 import { figure } from '../test/figures';
@@ -28,7 +28,7 @@ class FakeWorker {
   postMessage(req: PreviewRequest) {
     this.sent.push(req);
     const reply = (msg: PreviewResponse) => queueMicrotask(() => act(() => this.onmessage?.({ data: msg } as MessageEvent<PreviewResponse>)));
-    if (req.type === 'sample') reply({ type: 'sampled', seq: req.seq, n: req.n, extent: 10, ms: 12 });
+    if (req.type === 'sample') reply({ type: 'sampled', seq: req.seq, n: req.n, extent: 10, ms: 12, maxAbs: 0.05 });
     else {
       const tri = () => ({ positions: new Float32Array([0, 0, 1, 1, 0, 1, 0, 1, 1]), normals: new Float32Array([0, 0, 1, 0, 0, 1, 0, 0, 1]), indices: new Uint32Array([0, 1, 2]) });
       reply({
@@ -48,6 +48,10 @@ class FakeWorker {
   }
   terminate() {}
 }
+
+// These tests type field by field through userEvent; on a shared 2-core machine under load that alone can pass
+// the default 20 s. The limit only stops a hung test: nothing here measures speed.
+vi.setConfig({ testTimeout: 90_000 });
 
 beforeEach(() => {
   FakeWorker.last = null;
@@ -95,7 +99,8 @@ describe('Composer: quantum numbers as you type', () => {
     await ue.clear(screen.getByTestId('cmp-m'));
     await ue.type(screen.getByTestId('cmp-m'), '-2');
     expect(screen.queryByTestId('cmp-m-error')).toBeNull();
-    expect(screen.getByTestId('studio-model').textContent).toContain('3d_xy, Z = 1, one-electron hydrogen-like model');
+    expect(screen.getByTestId('studio-model').textContent).toContain('3dxy, Z = 1, one-electron hydrogen-like model'); // typeset: 3d with a subscript xy
+    expect(screen.getByTestId('studio-model').querySelector('sub')?.textContent).toBe('xy');
     expect(screen.getByTestId('studio-model').textContent).toContain('many-electron orbitals differ');
     await waitFor(() => expect(save().disabled).toBe(false));
 
@@ -104,7 +109,7 @@ describe('Composer: quantum numbers as you type', () => {
     const body = api.callsTo('POST', '/api/figures')[0].body as { title: string; recipe: { content: { terms: unknown[] } } };
     expect(body.title).toBe('Plate 7: 3d');
     expect(body.recipe.content.terms).toEqual([{ n: 3, l: 2, m: -2, basis: 'real', re: 1, im: 0 }]);
-    await waitFor(() => expect(screen.getByTestId('location').textContent).toBe('/figures/f9/studio'));
+    await waitFor(() => expect(screen.getByTestId('location').textContent).toBe('/figures/f9/studio'), { timeout: 15_000 });
   });
 
   it('shows a 400 from the server as its list of messages', async () => {
@@ -131,10 +136,24 @@ describe('Composer: superposition coefficients', () => {
     renderApp('/composer');
     await ue.type(await screen.findByTestId('studio-title'), 'Plate 3: 2p(m=+1) by hand');
     await ue.click(screen.getByTestId('cmp-mode-superposition'));
-    // Default rows: 2p_x with |c| = 1, phase 0°, and 2p_y with |c| = 1, phase 90°: c = 1 and c = i.
+    // The view shows the current state exactly: the default 2p_z as one row, |c| = 1, phase 0°.
+    expect(screen.getAllByTestId('cmp-row')).toHaveLength(1);
+    expect(screen.getByTestId('cmp-sumsq').textContent).toBe('Σ|c|² = 1');
+    const coefs = () => screen.getAllByTestId('cmp-norm-coef').map((li) => li.textContent);
+    // Make it 2p_x (m = +1) and add 2p_y (m = −1) at phase 90°: c = 1 and c = i.
+    await ue.clear(screen.getByTestId('cmp-row-m'));
+    await ue.type(screen.getByTestId('cmp-row-m'), '1');
+    await ue.click(screen.getByTestId('cmp-add-row'));
+    expect(screen.getByTestId('cmp-sumsq').textContent).toBe('Σ|c|² = 1'); // a new row starts at |c| = 0: ψ unchanged
+    const second = within(screen.getAllByTestId('cmp-row')[1]);
+    await ue.clear(second.getByTestId('cmp-row-m'));
+    await ue.type(second.getByTestId('cmp-row-m'), '-1');
+    await ue.clear(second.getByTestId('cmp-row-mag'));
+    await ue.type(second.getByTestId('cmp-row-mag'), '1');
+    await ue.clear(second.getByTestId('cmp-row-phase'));
+    await ue.type(second.getByTestId('cmp-row-phase'), '90');
     // 2p_x and 2p_y are orthonormal, so Σ|c|² = 1 + 1 = 2 and each normalised |c| = 1/√2 ≈ 0.7071 (by hand).
     expect(screen.getByTestId('cmp-sumsq').textContent).toBe('Σ|c|² = 2');
-    const coefs = () => screen.getAllByTestId('cmp-norm-coef').map((li) => li.textContent);
     expect(coefs()).toEqual(['0.7071 · e^(i·0°) = 0.7071 + 0i', '0.7071 · e^(i·90°) = 0 + 0.7071i']);
 
     // A third term at |c| = 2, phase 180°: c = −2, Σ|c|² = 1 + 1 + 4 = 6.
@@ -179,11 +198,14 @@ describe('Composer: superposition coefficients', () => {
     const ue = userEvent.setup();
     renderApp('/composer');
     await screen.findByTestId('canvas-probe');
+    // A real state (2p_z): the sign legend, no phase key.
+    expect(screen.getByTestId('phase-legend').textContent).toContain('ψ > 0');
+    expect(screen.queryByTestId('phase-key')).toBeNull();
     const w = FakeWorker.last!;
     const samples = () => w.sent.filter((m) => m.type === 'sample');
     const surfaces = () => w.sent.filter((m) => m.type === 'surface');
     expect(samples()).toHaveLength(1);
-    expect(samples()[0]).toMatchObject({ n: 112, state: { Z: 1, terms: [{ n: 2, l: 1, m: 0 }] } }); // recipe grid 128, preview capped at 112
+    expect(samples()[0]).toMatchObject({ n: 96, state: { Z: 1, terms: [{ n: 2, l: 1, m: 0 }] } }); // recipe grid 96 (contracts RECIPE_DEFAULTS), under the 112 preview cap
     await ue.clear(screen.getByTestId('cmp-fraction'));
     await ue.type(screen.getByTestId('cmp-fraction'), '75');
     await waitFor(() => expect(surfaces().at(-1)).toMatchObject({ rule: { rule: 'enclosed', fraction: 0.75 } }));
@@ -192,9 +214,47 @@ describe('Composer: superposition coefficients', () => {
     expect(screen.getByTestId('preview-ms')).toBeTruthy();
     await ue.clear(screen.getByTestId('cmp-z'));
     await ue.type(screen.getByTestId('cmp-z'), '3');
-    expect(screen.getByTestId('cmp-ion').textContent).toBe('Li²⁺');
+    expect(screen.getByTestId('cmp-ion').textContent).toBe('Li2+'); // Li with a typeset superscript 2+
+    expect(screen.getByTestId('cmp-ion').querySelector('sup')?.textContent).toBe('2+');
     await waitFor(() => expect(samples()).toHaveLength(2));
     expect(samples()[1]).toMatchObject({ state: { Z: 3 } });
+  });
+});
+
+describe('Opening a saved figure', () => {
+  it('a complex 2p(m=+1) made through the API opens clean, and no view switch changes its terms or enables Save', async () => {
+    const stored = parseRecipe({ version: 1, label: '2p(m=+1)', content: { Z: 1, terms: [{ n: 2, l: 1, m: 1, basis: 'complex', re: 1, im: 0 }] }, grid: { n: 64 }, surface: { rule: 'enclosed', fraction: 0.9 } });
+    if (!stored.ok) throw new Error('bad test recipe');
+    const f = figure({ currentVersion: { ...figure().currentVersion, recipe: stored.recipe } });
+    mockFetch({ ...signedInRoutes(me), 'GET /api/figures/f1': () => json(200, f) });
+    storeSession(me);
+    const ue = userEvent.setup();
+    renderApp('/figures/f1/studio');
+    await screen.findByTestId('canvas-probe', {}, { timeout: 15000 });
+    const save = () => screen.getByTestId('studio-save') as HTMLButtonElement;
+    expect(save().disabled).toBe(true);
+    expect(screen.queryByTestId('studio-dirty')).toBeNull();
+    // Coloured by arg ψ: the phase key (a ring marked 0, π/2, π, 3π/2), not the ψ > 0 / ψ < 0 legend of real states.
+    const key = screen.getByTestId('phase-key');
+    expect(Array.from(key.querySelectorAll('.phase-key-mark')).map((t) => t.textContent)).toEqual(['0', 'π/2', 'π', '3π/2']);
+    expect(key.querySelectorAll('path')).toHaveLength(72);
+    expect(screen.getByTestId('phase-legend').textContent).not.toContain('ψ > 0');
+    for (const mode of ['superposition', 'label', 'hybrid', 'nlm', 'superposition']) {
+      await ue.click(screen.getByTestId(`cmp-mode-${mode}`));
+      expect({ mode, dirty: screen.queryByTestId('studio-dirty'), disabled: save().disabled }).toEqual({ mode, dirty: null, disabled: true });
+    }
+    // The superposition view shows the one stored term, not a default pair.
+    const rows = screen.getAllByTestId('cmp-row');
+    expect(rows).toHaveLength(1);
+    expect(['n', 'l', 'm', 'mag', 'phase'].map((k) => (within(rows[0]).getByTestId(`cmp-row-${k}`) as HTMLInputElement).value)).toEqual(['2', '1', '1', '1', '0']);
+    expect(screen.getByTestId('cmp-sumsq').textContent).toBe('Σ|c|² = 1');
+    // The hybrid view cannot show it: it says so and offers an explicit replacement.
+    await ue.click(screen.getByTestId('cmp-mode-hybrid'));
+    expect(screen.getByTestId('cmp-current-state').textContent).toContain('cannot show the current state exactly');
+    expect(screen.getByTestId('cmp-replace').textContent).toBe('Replace with a hybrid…');
+    // The sampled state sent to the preview is the stored one every time.
+    const samples = FakeWorker.last!.sent.filter((m) => m.type === 'sample');
+    expect(samples.every((m) => m.type === 'sample' && JSON.stringify(m.state.terms) === JSON.stringify([{ n: 2, l: 1, m: 1, basis: 'complex', re: 1, im: 0 }]))).toBe(true);
   });
 });
 
@@ -250,9 +310,13 @@ describe('Stage shortcuts', () => {
   });
 });
 
+/** A publication's delivery profile for the export dialog: PNG first at 300 dpi (what these tests measure), RGB. */
+const pngProfile = { ...DEFAULT_DELIVERY_PROFILE, rasterFormats: ['png', 'tiff'], minDpi: 300, colourMode: 'rgb', publicationId: 'p1', isDefault: false, updatedAt: null, updatedBy: null };
+const profileRoute = (profile: object = pngProfile) => ({ 'GET /api/publications/p1/delivery-profile': () => json(200, profile) });
+
 describe('Export dialog: size arithmetic', () => {
   function renderForm() {
-    mockFetch({ ...signedInRoutes(me) });
+    mockFetch({ ...signedInRoutes(me), ...profileRoute() });
     storeSession(me);
     const client = createQueryClient();
     const f = figure();
@@ -268,6 +332,7 @@ describe('Export dialog: size arithmetic', () => {
     renderForm();
     const px = () => screen.getByTestId('exp-pixels').textContent;
     // 120 mm / 25.4 × 300 = 1417.3 -> 1417; 80 mm -> 944.9 -> 945.
+    expect(await screen.findByTestId('exp-pixels')).toBeTruthy();
     expect(px()).toBe('1417 × 945 px (1.34 megapixels) at 300 dpi');
     await ue.clear(screen.getByTestId('exp-width'));
     await ue.type(screen.getByTestId('exp-width'), '89');
@@ -296,8 +361,29 @@ describe('Export dialog: size arithmetic', () => {
     await ue.clear(screen.getByTestId('exp-width'));
     await ue.type(screen.getByTestId('exp-width'), '5');
     expect(screen.getByTestId('exp-width-error').textContent).toBe('The width must be between 10 mm and 1000 mm.');
-    expect(screen.queryByTestId('exp-submit')).toBeNull();
-  });
+    // The Export button stays where it was, disabled, and says why.
+    expect((screen.getByTestId('exp-submit') as HTMLButtonElement).disabled).toBe(true);
+    expect(screen.getByTestId('exp-blocked').textContent).toBe('Export waits for a valid width and height (see the fields above).');
+
+    // Too many pixels: the limit of libs/contracts, in the server's words, before anything is sent.
+    await ue.clear(screen.getByTestId('exp-width'));
+    await ue.type(screen.getByTestId('exp-width'), '1000');
+    await ue.clear(screen.getByTestId('exp-height'));
+    await ue.type(screen.getByTestId('exp-height'), '1000');
+    await ue.selectOptions(screen.getByTestId('exp-dpi'), '1200');
+    expect(screen.getByTestId('exp-blocked').textContent).toBe(
+      'Cannot export: 1000 × 1000 mm at 1200 dpi is 47244 × 47244 px; the largest raster export is 20000 px a side and 64 megapixels (choose a lower dpi or a smaller size).',
+    );
+    expect((screen.getByTestId('exp-submit') as HTMLButtonElement).disabled).toBe(true);
+    await ue.clear(screen.getByTestId('exp-width'));
+    await ue.type(screen.getByTestId('exp-width'), '120');
+    await ue.clear(screen.getByTestId('exp-height'));
+    await ue.type(screen.getByTestId('exp-height'), '80');
+    expect(screen.queryByTestId('exp-blocked')).toBeNull();
+    // The button names what it makes: kind, size and dpi, and the preflight's failures (this figure has no mesh yet,
+    // so no alt text: one rule fails).
+    expect(screen.getByTestId('exp-submit').textContent).toBe('Export PNG · 120 × 80 mm · 1200 dpi (preflight: 1 failing)');
+  }, 60_000);
 
   it('posts the PNG export, follows the job and offers the new file; a missing route reads plainly', async () => {
     const { sseStream, job } = await import('../test/figures');
@@ -306,6 +392,7 @@ describe('Export dialog: size arithmetic', () => {
       ...signedInRoutes(me),
       'POST /api/figures/f1/exports': () => json(202, { jobId: 'j7' }),
       'GET /api/jobs/j7/events': () => stream.response,
+      ...profileRoute(),
     });
     storeSession(me);
     const ue = userEvent.setup();
@@ -314,7 +401,7 @@ describe('Export dialog: size arithmetic', () => {
         <ExportForm figure={figure()} canvas={{ widthMm: 89, heightMm: 60, dpi: 300 }} transparentDefault={false} />
       </AppProviders>,
     );
-    await ue.click(screen.getByTestId('exp-transparent'));
+    await ue.click(await screen.findByTestId('exp-transparent'));
     await ue.click(screen.getByTestId('exp-submit'));
     await waitFor(() => expect(api.callsTo('POST', '/api/figures/f1/exports')).toHaveLength(1));
     expect(api.callsTo('POST', '/api/figures/f1/exports')[0].body).toEqual({ format: 'png', widthMm: 89, heightMm: 60, dpi: 300, transparent: true });
@@ -338,8 +425,66 @@ describe('Export dialog: size arithmetic', () => {
         <ExportForm figure={figure()} canvas={{ widthMm: 89, heightMm: 60, dpi: 300 }} transparentDefault={false} />
       </AppProviders>,
     );
+    // No delivery-profile route either: the dialog says so and offers the default profile's choices.
+    expect((await screen.findByTestId('exp-profile-error')).textContent).toContain('default profile');
     await ue.selectOptions(screen.getByTestId('exp-format'), 'bundle');
     await ue.click(screen.getByTestId('exp-submit'));
     expect((await screen.findByTestId('exp-server-error')).textContent).toContain('No mock for POST /api/figures/f1/exports');
   });
+});
+
+describe('Export dialog: the delivery profile first, the preflight before export', () => {
+  it('offers the profile\'s formats, columns, dpi, colour and press condition first; the planned file is preflighted before anything is sent', async () => {
+    const api = mockFetch({
+      ...signedInRoutes(me),
+      ...profileRoute({ ...DEFAULT_DELIVERY_PROFILE, publicationId: 'p1', isDefault: false, updatedAt: null, updatedBy: null, pressCondition: 'gracol', columnWidthsMm: [{ name: 'text', widthMm: 84 }, { name: 'full page', widthMm: 174 }] }),
+      'POST /api/figures/f1/exports': () => json(202, { jobId: 'j9' }),
+    });
+    storeSession(me);
+    const ue = userEvent.setup();
+    render(
+      <AppProviders client={createQueryClient()}>
+        <ExportForm figure={figure()} canvas={{ widthMm: 84, heightMm: 60, dpi: 300 }} transparentDefault={false} />
+      </AppProviders>,
+    );
+    const format = (await screen.findByTestId('exp-format')) as HTMLSelectElement;
+    // The profile lists TIFF, PNG, then PDF and SVG: in that order, TIFF chosen.
+    expect(Array.from(format.options).map((o) => o.value).slice(0, 6)).toEqual(['tiff', 'png', 'pdf-radial', 'pdf-section', 'svg-radial', 'svg-section']);
+    expect(format.value).toBe('tiff');
+    expect((screen.getByTestId('exp-colour') as HTMLSelectElement).value).toBe('cmyk');
+    expect((screen.getByTestId('exp-press') as HTMLSelectElement).value).toBe('gracol');
+    expect(screen.getByTestId('exp-preset-text').textContent).toBe('text 84 mm');
+    expect(screen.getByTestId('exp-preset-full-page').textContent).toBe('full page 174 mm');
+    // The canvas asks 300 dpi, the profile at least 600: the dialog starts at 600. 84 mm / 25.4 × 600 = 1984.25 -> 1984.
+    expect((screen.getByTestId('exp-dpi') as HTMLSelectElement).value).toBe('600');
+    expect(screen.getByTestId('exp-pixels').textContent).toMatch(/^1984 × 1417 px/);
+
+    // Preflight of the planned file: every rule, each with its verdict; the figure has no mesh yet, so no alt text.
+    const pf = screen.getByTestId('exp-preflight');
+    const rows = () => Object.fromEntries(within(screen.getByTestId('exp-preflight')).getAllByTestId('preflight-row').map((r) => [r.getAttribute('data-rule'), r.getAttribute('data-status')]));
+    expect(Object.keys(rows())).toHaveLength(10);
+    expect(rows()).toMatchObject({ format: 'pass', size: 'pass', resolution: 'pass', column_width: 'pass', colour_mode: 'pass', icc_profile: 'pass', fonts_embedded: 'pass', alt_text: 'fail' });
+    expect(pf.textContent).toContain('compute the mesh first');
+
+    // 300 dpi and 200 mm: below the profile's minimum and wider than its widest column; the button says so.
+    await ue.selectOptions(screen.getByTestId('exp-dpi'), '300');
+    await ue.clear(screen.getByTestId('exp-width'));
+    await ue.type(screen.getByTestId('exp-width'), '200');
+    expect(rows()).toMatchObject({ resolution: 'fail', column_width: 'fail' });
+    expect(within(screen.getByTestId('exp-preflight')).getByText(/wider than every column: it would be reduced to 174 mm \(87%\)/)).toBeTruthy();
+    expect(screen.getByTestId('exp-submit').textContent).toMatch(/^Export TIFF · 200 × 60 mm · 300 dpi · CMYK GRACOL \(preflight: \d+ failing\)$/);
+
+    // RGB instead: the colour-mode rule now fails against this CMYK profile.
+    await ue.selectOptions(screen.getByTestId('exp-colour'), 'rgb');
+    expect(rows()).toMatchObject({ colour_mode: 'fail', icc_profile: 'fail' });
+    await ue.selectOptions(screen.getByTestId('exp-colour'), 'cmyk');
+    await ue.click(screen.getByTestId('exp-submit'));
+    await waitFor(() => expect(api.callsTo('POST', '/api/figures/f1/exports')).toHaveLength(1));
+    expect(api.callsTo('POST', '/api/figures/f1/exports')[0].body).toEqual({ format: 'tiff', widthMm: 200, heightMm: 60, dpi: 300, colour: 'cmyk', pressCondition: 'gracol' });
+
+    // A PDF companion: its page and text sizes come from the very plot it will draw.
+    await ue.selectOptions(screen.getByTestId('exp-format'), 'pdf-section');
+    expect(screen.getByTestId('exp-preflight').getAttribute('data-passed')).not.toBeNull();
+    expect(rows()).toMatchObject({ size: 'pass', fonts_embedded: 'pass', colour_mode: 'pass', alt_text: 'pass' });
+  }, 60_000);
 });

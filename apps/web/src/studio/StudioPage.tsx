@@ -1,36 +1,32 @@
 // The studio: Composer (content, surface, grid) with a live preview, Stage panels, save, export.
-import { lazy, Suspense, useEffect, useMemo, useState } from 'react';
+// One draft (./draft.ts, a reducer over the recipe) feeds every panel, the preview and Save.
+import { lazy, Suspense, useEffect, useMemo, useReducer, useState } from 'react';
 import { Button, Callout, FormGroup, InputGroup, NonIdealState, Spinner, Tag } from '@blueprintjs/core';
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import { Link, useNavigate, useParams } from 'react-router-dom';
-import { canonicalJson, formatRecipeIssues, parseRecipe, RECIPE_VERSION, type FigureDto, type Recipe } from '@psiform/contracts';
+import { Link, useNavigate, useParams, useSearchParams } from 'react-router-dom';
+import { formatRecipeIssues, parseRecipe, TEXT_LIMITS, type FigureDto, type Recipe } from '@psiform/contracts';
+import { isRealState } from '@psiform/orbitals';
+import { PSI_UNIT_TEXT } from '@psiform/print';
 import { ApiError, describeError } from '../api/client';
 import { useApi } from '../auth/AuthProvider';
-import { describeRecipe, validateGridN } from '../figures/model';
+import { Typeset } from '../components/Typeset';
+import { describeRecipe } from '../figures/model';
 import { PublicationChooser } from '../figures/PublicationChooser';
 import { usePublications } from '../figures/usePublications';
-import { ComposerPanel, type SurfaceDraft } from './ComposerPanel';
-import { checkContent, defaultDraft, draftFromTerms, type ContentDraft } from './content';
+import { houseStyle } from '../review/reviewApi';
+import { getSwatchbook } from '../swatchbooks/swatchbookApi';
+import { ComposerPanel, psiMaxMessage } from './ComposerPanel';
+import { createDraft, draftErrors, draftReducer, fieldText, isDirty } from './draft';
 import { ExportDialog } from './ExportDialog';
-import { applyShortcut, isTypingTarget, type Look } from './shortcuts';
+import { COMPOSER_PRESETS, presetRecipe } from './presets';
+import { applyShortcut, isTypingTarget } from './shortcuts';
 import { StagePanel } from './StagePanel';
-import { usePreview, type PreviewRule } from './usePreview';
-
+import { usePreview } from './usePreview';
+import { phaseKeyColours } from '../scene/phaseKeyColours';
+import { PhaseKeyLegend } from '../components/PhaseKeyLegend';
 const StudioCanvas = lazy(() => import('./StudioCanvas'));
 
 export const MODEL_NOTE = 'One-electron hydrogen-like model: the shapes are ψ_nlm = R_nl Y_lm of a single electron; many-electron orbitals differ.';
-
-export function defaultRecipe(): Recipe {
-  const r = parseRecipe({
-    version: RECIPE_VERSION,
-    label: '2p_z',
-    content: { Z: 1, terms: [{ n: 2, l: 1, m: 0, basis: 'real', re: 1, im: 0 }] },
-    grid: { n: 128, extent: 'auto' },
-    surface: { rule: 'enclosed', fraction: 0.9 },
-  });
-  if (!r.ok) throw new Error('default recipe invalid');
-  return r.recipe;
-}
 
 function serverMessages(err: unknown): string[] {
   if (err instanceof ApiError && err.status === 400 && err.body) {
@@ -40,117 +36,116 @@ function serverMessages(err: unknown): string[] {
   return [describeError(err)];
 }
 
-function percentText(f: number): string {
-  return String(Number((f * 100).toFixed(3)));
-}
-
-function surfaceFrom(recipe: Recipe): SurfaceDraft {
-  return recipe.surface.rule === 'enclosed'
-    ? { rule: 'enclosed', percent: percentText(recipe.surface.fraction), psi: '0.01' }
-    : { rule: 'psi', percent: '90', psi: String(recipe.surface.value) };
-}
-
-function checkSurface(s: SurfaceDraft): { rule: PreviewRule | null; error: string | null } {
-  if (s.rule === 'enclosed') {
-    const t = s.percent.trim().replace(',', '.');
-    const p = Number(t);
-    if (t === '') return { rule: null, error: 'Enter the enclosed probability in percent.' };
-    if (!Number.isFinite(p)) return { rule: null, error: 'The enclosed probability must be a number.' };
-    if (!(p > 0 && p < 100)) return { rule: null, error: `The enclosed probability must be between 0% and 100%, both excluded (got ${p}%).` };
-    return { rule: { rule: 'enclosed', fraction: Number((p / 100).toPrecision(10)) }, error: null };
-  }
-  const t = s.psi.trim().replace(',', '.');
-  const v = Number(t);
-  if (t === '') return { rule: null, error: 'Enter the |ψ| value.' };
-  if (!Number.isFinite(v) || v <= 0) return { rule: null, error: 'The |ψ| value must be a positive number.' };
-  return { rule: { rule: 'psi', value: v }, error: null };
+/** The house colours of a publication (its pinned swatchbook), or null when none is pinned. */
+function useHousePalette(publicationId: string | undefined) {
+  const api = useApi();
+  return useQuery({
+    queryKey: ['house-palette', publicationId],
+    enabled: Boolean(publicationId),
+    queryFn: async ({ signal }) => {
+      const hs = await houseStyle(api, publicationId!, signal);
+      if (!hs) return null;
+      const sb = await getSwatchbook(api, hs.swatchbookId, signal);
+      return { swatchbookId: sb.id, positive: sb.colors.positive, negative: sb.colors.negative, background: sb.colors.background, name: sb.name };
+    },
+  });
 }
 
 interface StudioProps {
   initial: Recipe;
   figure: FigureDto | null;
+  publicationId?: string | null;
 }
 
-function Studio({ initial, figure }: StudioProps) {
+function Studio({ initial, figure, publicationId }: StudioProps) {
   const api = useApi();
   const navigate = useNavigate();
   const queryClient = useQueryClient();
   const publications = usePublications();
-  const [draft, setDraft] = useState<ContentDraft>(() =>
-    figure ? draftFromTerms(initial.content.terms, initial.content.Z, initial.label) : defaultDraft(),
-  );
-  const [surface, setSurface] = useState<SurfaceDraft>(() => surfaceFrom(initial));
-  const [grid, setGrid] = useState(String(initial.grid.n));
-  const [look, setLook] = useState<Look>({ stage: initial.stage, annotations: initial.annotations });
-  const [canvas, setCanvas] = useState(initial.canvas);
-  const [title, setTitle] = useState('');
-  const [pubChoice, setPubChoice] = useState<string | null>(null);
-  const [saved, setSaved] = useState<string>(() => (figure ? canonicalJson(initial) : ''));
+  const [draft, dispatch] = useReducer(draftReducer, undefined, () => createDraft(initial, { isNew: !figure }));
+  // What the server holds: opening a saved figure compares equal, so it is never "unsaved" on arrival.
+  const [saved, setSaved] = useState<Recipe | null>(figure ? initial : null);
+  const [pubChoice, setPubChoice] = useState<string | null>(publicationId ?? null);
   const [exportOpen, setExportOpen] = useState(false);
+  const recipe = draft.recipe;
 
-  const check = checkContent(draft);
-  const surf = checkSurface(surface);
-  // 'auto' lets the engine pick the grid that resolves the surface (the recipe schema's default).
-  const gridAuto = grid.trim().toLowerCase() === 'auto';
-  const gridN: number | 'auto' = gridAuto ? 'auto' : Number(grid.trim());
-  const gridError = gridAuto ? null : grid.trim() === '' ? 'Enter the grid size N.' : validateGridN(gridN as number);
+  const pubs = publications.data ?? [];
+  const publication = figure ? pubs.find((p) => p.id === figure.publicationId) : (pubs.find((p) => p.id === pubChoice) ?? pubs[0]);
 
-  const built = useMemo(() => {
-    if (!check.built || !surf.rule || gridError) return null;
-    const doc = {
-      ...initial,
-      version: RECIPE_VERSION,
-      label: look.annotations.label.text || check.built.label,
-      content: { Z: check.built.Z, terms: check.built.terms },
-      grid: { n: gridN, extent: initial.grid.extent },
-      surface: surf.rule,
-      stage: look.stage,
-      annotations: look.annotations,
-      canvas,
-    };
-    const parsed = parseRecipe(doc);
-    return parsed.ok ? { ok: true as const, recipe: parsed.recipe } : { ok: false as const, issues: formatRecipeIssues(parsed.issues) };
+  // A new figure previews the publication's house colours from the start (the server applies them on save too).
+  const house = useHousePalette(figure ? undefined : publication?.id);
+  useEffect(() => {
+    if (figure || house.data === undefined) return;
+    const h = house.data;
+    if (h) dispatch({ type: 'palette', palette: { swatchbookId: h.swatchbookId, positive: h.positive, negative: h.negative }, background: h.background });
+    else dispatch({ type: 'palette', palette: presetRecipe(null).palette, background: presetRecipe(null).stage.background.color });
+  }, [figure, house.data]);
+  // A new figure states its lengths in the publication's unit from the start (the server applies it on save).
+  const unit = publication?.lengthUnit;
+  useEffect(() => {
+    if (!figure && unit) dispatch({ type: 'unit', unit });
+  }, [figure, unit]);
+
+  const errors = draftErrors(draft);
+  const stateOk = !errors.rows;
+  const state = stateOk ? { Z: recipe.content.Z, terms: recipe.content.terms.map((t) => ({ ...t, im: t.im ?? 0 })) } : null;
+  const { surfaces, status, previewN } = usePreview(state, recipe.grid.n, recipe.grid.extent, { ...recipe.surface, nodal: recipe.stage.material.nodalOutline }, { palette: recipe.palette, mode: recipe.phase?.mode });
+  const psiMax = psiMaxMessage(recipe, status.maxAbs, previewN);
+  if (psiMax && !errors.psi) errors.psiMax = psiMax;
+
+  const parsed = useMemo(() => parseRecipe(recipe), [recipe]);
+  const issues = parsed.ok ? null : formatRecipeIssues(parsed.issues);
+  const dirty = isDirty(draft, saved);
+  const complex = useMemo(() => {
+    try {
+      return state ? !isRealState(state) : false;
+    } catch {
+      return false;
+    }
     // eslint-disable-next-line react-hooks/exhaustive-deps
-  }, [JSON.stringify([check.built, surf.rule, gridN, gridError, look, canvas]), initial]);
+  }, [JSON.stringify(recipe.content)]);
 
-  const state = check.built ? { Z: check.built.Z, terms: check.built.terms } : null;
-  const { surfaces, status, previewN } = usePreview(gridError ? null : state, gridError ? 128 : gridN, initial.grid.extent, surf.rule && { ...surf.rule, nodal: look.stage.material.nodalOutline });
+  // Coloured by arg ψ: the phase key (same colours as the surfaces) in the legend and the figure's 2D layer.
+  const keyColours = useMemo(
+    () => phaseKeyColours(recipe),
+    // eslint-disable-next-line react-hooks/exhaustive-deps -- the key depends on the state and phase mode only
+    [JSON.stringify(recipe.content), recipe.phase?.mode],
+  );
 
   // Stage shortcuts (not while typing in a field).
+  const look = { stage: recipe.stage, annotations: recipe.annotations };
+  const lookKey = JSON.stringify(look);
   useEffect(() => {
     function onKey(e: KeyboardEvent) {
       if (e.ctrlKey || e.metaKey || e.altKey || isTypingTarget(e.target)) return;
-      setLook((l) => {
-        const next = applyShortcut(l, e.key);
-        return next ?? l;
-      });
+      const next = applyShortcut(JSON.parse(lookKey), e.key);
+      if (next) dispatch({ type: 'look', stage: next.stage, annotations: next.annotations });
     }
     window.addEventListener('keydown', onKey);
     return () => window.removeEventListener('keydown', onKey);
-  }, []);
-
-  const pubs = publications.data ?? [];
-  const publication = pubs.find((p) => p.id === pubChoice) ?? pubs[0];
-  const titleError = figure ? null : title.trim() === '' ? 'Give the figure a title.' : null;
-  const current = built?.ok ? canonicalJson(built.recipe) : null;
-  const dirty = current !== null && current !== saved;
+  }, [lookKey]);
 
   const save = useMutation({
-    mutationFn: async (recipe: Recipe) => {
-      if (figure) return api.updateFigure(figure.id, { recipe });
+    mutationFn: async (r: Recipe) => {
+      if (figure) return api.updateFigure(figure.id, { recipe: r });
       if (!publication) throw new Error('Choose a publication for the figure.');
-      return api.createFigure({ publicationId: publication.id, title: title.trim(), recipe });
+      return api.createFigure({ publicationId: publication.id, title: draft.title.trim(), recipe: r });
     },
-    onSuccess: (fig, recipe) => {
-      setSaved(canonicalJson(recipe));
+    onSuccess: (fig) => {
+      const stored = parseRecipe(fig.currentVersion.recipe);
+      if (stored.ok) {
+        setSaved(stored.recipe);
+        dispatch({ type: 'load', recipe: stored.recipe, keepTitle: true, keepMode: true });
+      }
       queryClient.setQueryData(['figure', fig.id], fig);
       void queryClient.invalidateQueries({ queryKey: ['figures'] });
       if (!figure) navigate(`/figures/${encodeURIComponent(fig.id)}/studio`);
     },
   });
 
-  const canSave = built?.ok === true && !titleError && (!figure || dirty) && (figure !== null || Boolean(publication));
-  const label = look.annotations.label.text || check.built?.label || initial.label || '';
+  const hasErrors = Object.keys(errors).length > 0;
+  const canSave = parsed.ok && !hasErrors && (figure ? dirty : Boolean(publication));
+  const label = recipe.annotations.label.text || recipe.label || '';
 
   return (
     <div className="pf-page pf-page-studio" data-testid="studio-page">
@@ -164,7 +159,7 @@ function Studio({ initial, figure }: StudioProps) {
               </Link>
             </>
           ) : (
-            <Link to="/library">Library</Link>
+            <Link to={publication ? `/library?publicationId=${encodeURIComponent(publication.id)}` : '/library'}>Library</Link>
           )}
         </p>
         <div className="pf-head-row">
@@ -183,24 +178,70 @@ function Studio({ initial, figure }: StudioProps) {
               text={figure ? 'Save as a new version' : 'Create figure'}
               disabled={!canSave}
               loading={save.isPending}
-              onClick={() => built?.ok && save.mutate(built.recipe)}
+              onClick={() => parsed.ok && save.mutate(parsed.recipe)}
               data-testid="studio-save"
             />
           </div>
         </div>
         <p className="pf-model-note" data-testid="studio-model">
-          {built?.ok ? `${describeRecipe(built.recipe)}.` : MODEL_NOTE}
+          {parsed.ok ? <Typeset text={`${describeRecipe(parsed.recipe)}.`} /> : MODEL_NOTE}
         </p>
+        {!canSave && hasErrors && (
+          <p className="pf-error-line" data-testid="studio-save-blocked" role="status">
+            {figure ? 'Saving' : 'Creating the figure'} waits for {Object.keys(errors).length === 1 ? 'one field' : `${Object.keys(errors).length} fields`} marked in red.
+          </p>
+        )}
       </header>
 
       {!figure && (
-        <div className="pf-form-row">
-          <FormGroup label="Title" labelFor="studio-title" intent={title && titleError ? 'danger' : 'none'}>
-            <InputGroup id="studio-title" value={title} onValueChange={setTitle} placeholder="e.g. Plate 4.2: the 2p_z orbital" data-testid="studio-title" />
-          </FormGroup>
-          {publication && <PublicationChooser publications={pubs} value={publication.id} onChange={setPubChoice} id="studio-publication" />}
-          {publications.isSuccess && pubs.length === 0 && <Callout intent="warning">You are not a member of any publication, so a figure cannot be created.</Callout>}
-        </div>
+        <>
+          <div className="pf-presets" data-testid="studio-presets" aria-label="Start from">
+            <span className="pf-muted">Start from:</span>
+            {COMPOSER_PRESETS.map((p) => (
+              <Button
+                key={p.id}
+                small
+                minimal
+                title={p.note}
+                onClick={() => {
+                  const r = p.recipe();
+                  dispatch({ type: 'load', recipe: { ...r, palette: recipe.palette, stage: { ...r.stage, background: recipe.stage.background } }, keepTitle: true });
+                }}
+                data-testid="studio-preset"
+                data-preset={p.id}
+              >
+                <Typeset text={p.name} />
+              </Button>
+            ))}
+          </div>
+          <div className="pf-form-row">
+            <FormGroup
+              label="Title"
+              labelFor="studio-title"
+              intent={errors.title && draft.title !== '' ? 'danger' : 'none'}
+              helperText={
+                <span data-testid={errors.title ? 'studio-title-error' : 'studio-title-help'} role={errors.title ? 'alert' : undefined}>
+                  {errors.title ?? `Up to ${TEXT_LIMITS.titleMax} characters; files are named from it.`}
+                </span>
+              }
+            >
+              <InputGroup
+                id="studio-title"
+                value={fieldText(draft, 'title')}
+                onValueChange={(v) => dispatch({ type: 'text', key: 'title', value: v })}
+                placeholder="e.g. Plate 4.2: the 2p_z orbital"
+                data-testid="studio-title"
+              />
+            </FormGroup>
+            {publication && <PublicationChooser publications={pubs} value={publication.id} onChange={setPubChoice} id="studio-publication" />}
+            {publications.isSuccess && pubs.length === 0 && <Callout intent="warning">You are not a member of any publication, so a figure cannot be created.</Callout>}
+          </div>
+          {house.data && (
+            <p className="pf-muted pf-small" data-testid="studio-house-palette">
+              Previewed in the house colours of this publication ({house.data.name}).
+            </p>
+          )}
+        </>
       )}
 
       {save.isError && (
@@ -217,10 +258,10 @@ function Studio({ initial, figure }: StudioProps) {
           Saved as version {save.data.currentVersion.number}.
         </p>
       )}
-      {built && !built.ok && (
+      {issues && (
         <Callout intent="danger" title="The recipe is not valid" data-testid="studio-recipe-issues">
           <ul>
-            {built.issues.map((i) => (
+            {issues.map((i) => (
               <li key={i}>{i}</li>
             ))}
           </ul>
@@ -231,16 +272,13 @@ function Studio({ initial, figure }: StudioProps) {
         <aside className="pf-studio-left">
           <ComposerPanel
             draft={draft}
-            onDraft={setDraft}
-            check={check}
-            surface={surface}
-            onSurface={setSurface}
-            surfaceError={surf.error}
-            grid={grid}
-            onGrid={setGrid}
-            gridError={gridError}
-            complex={check.built ? !check.built.isReal : false}
+            dispatch={dispatch}
+            errors={errors}
+            complex={complex}
             previewN={previewN}
+            maxAbsPsi={status.maxAbs}
+            isovalue={status.isovalue}
+            enclosed={status.enclosed}
           />
         </aside>
         <main className="pf-studio-centre">
@@ -250,14 +288,15 @@ function Studio({ initial, figure }: StudioProps) {
               <Suspense fallback={<NonIdealState icon={<Spinner size={28} />} title="Starting the 3D view…" />}>
                 <StudioCanvas
                   surfaces={surfaces}
-                  palette={initial.palette}
-                  stage={look.stage}
-                  annotations={look.annotations}
-                  canvas={canvas}
+                  palette={recipe.palette}
+                  stage={recipe.stage}
+                  annotations={recipe.annotations}
+                  canvas={recipe.canvas}
                   label={label}
+                  phaseKey={keyColours}
                   controls
                   onOrbitEnd={(pose) =>
-                    setLook((l) => ({ ...l, stage: { ...l.stage, camera: { ...l.stage.camera, view: 'free', position: pose.position, target: pose.target, zoom: pose.zoom } } }))
+                    dispatch({ type: 'look', annotations: recipe.annotations, stage: { ...recipe.stage, camera: { ...recipe.stage.camera, view: 'free', position: pose.position, target: pose.target, zoom: pose.zoom } } })
                   }
                 />
               </Suspense>
@@ -281,23 +320,33 @@ function Studio({ initial, figure }: StudioProps) {
                 )}
                 {status.triangles > 0 && <> · {status.triangles.toLocaleString('en-GB')} triangles</>}
                 {status.enclosed !== null && <> · encloses {(status.enclosed * 100).toFixed(1)}%</>}
-                {status.isovalue !== null && <> · |ψ| = {status.isovalue.toPrecision(3)} a0^−3/2</>}
+                {status.isovalue !== null && (
+                  <>
+                    {' '}
+                    · |ψ| = {status.isovalue.toPrecision(3)} <Typeset text={PSI_UNIT_TEXT} />
+                  </>
+                )}
                 {(status.phase === 'sampling' || status.phase === 'extracting') && <> · updating…</>}
               </>
             )}
           </p>
-          <div className="pf-legend" aria-label="Phase colours">
-            <span>
-              <i style={{ background: initial.palette.positive }} /> ψ &gt; 0
-            </span>
-            <span>
-              <i style={{ background: initial.palette.negative }} /> ψ &lt; 0
-            </span>
+          <div className="pf-legend" aria-label="Phase colours" data-testid="phase-legend">
+            {keyColours && <PhaseKeyLegend colourAt={keyColours} />}
+            {!keyColours && (
+              <>
+                <span>
+                  <i style={{ background: recipe.palette.positive }} /> ψ &gt; 0
+                </span>
+                <span>
+                  <i style={{ background: recipe.palette.negative }} /> ψ &lt; 0
+                </span>
+              </>
+            )}
             <span className="pf-muted">Drag to turn (free view), scroll to zoom. z (the quantisation axis) points up.</span>
           </div>
         </main>
         <aside className="pf-studio-right">
-          <StagePanel look={look} onLook={setLook} canvas={canvas} onCanvas={setCanvas} />
+          <StagePanel draft={draft} dispatch={dispatch} errors={errors} publicationUnit={publication?.lengthUnit} />
         </aside>
       </div>
 
@@ -306,8 +355,8 @@ function Studio({ initial, figure }: StudioProps) {
           isOpen={exportOpen}
           onClose={() => setExportOpen(false)}
           figure={figure}
-          canvas={canvas}
-          transparentDefault={look.stage.background.transparent}
+          canvas={recipe.canvas}
+          transparentDefault={recipe.stage.background.transparent}
           unsaved={dirty}
         />
       )}
@@ -315,17 +364,19 @@ function Studio({ initial, figure }: StudioProps) {
   );
 }
 
-/** /figures/:figureId/studio (an existing figure) and /composer (a new one). */
+/** /figures/:figureId/studio (an existing figure) and /composer (a new one, ?preset= and ?publicationId= optional). */
 export function StudioPage() {
   const { figureId } = useParams<{ figureId: string }>();
+  const [search] = useSearchParams();
   const api = useApi();
   const figure = useQuery({
     queryKey: ['figure', figureId],
     queryFn: ({ signal }) => api.figure(figureId!, signal),
     enabled: Boolean(figureId),
   });
-  const fresh = useMemo(() => defaultRecipe(), []);
-  if (!figureId) return <Studio initial={fresh} figure={null} />;
+  const preset = search.get('preset');
+  const fresh = useMemo(() => presetRecipe(preset), [preset]);
+  if (!figureId) return <Studio key={preset ?? ''} initial={fresh} figure={null} publicationId={search.get('publicationId')} />;
   if (figure.isPending) return <NonIdealState icon={<Spinner size={32} />} title="Loading the figure…" />;
   if (figure.isError)
     return (

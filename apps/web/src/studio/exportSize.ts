@@ -1,9 +1,11 @@
 // Export size fields: mm or inches in, pixels out (round(mm / 25.4 × dpi), from @psiform/print).
+import { CANVAS_LIMITS } from '@psiform/contracts';
 import { exportPixelSize, inchesToMm, mmToInches } from '@psiform/print';
 
 export type LengthUnit = 'mm' | 'in';
 
-export const CANVAS_MM = { min: 10, max: 1000 } as const;
+/** The canvas limits of libs/contracts, as the server checks them. */
+export const CANVAS_MM = { min: CANVAS_LIMITS.mmMin, max: CANVAS_LIMITS.mmMax } as const;
 
 export function toMm(value: number, unit: LengthUnit): number {
   return unit === 'in' ? inchesToMm(value) : value;

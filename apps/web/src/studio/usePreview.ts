@@ -29,6 +29,8 @@ export interface PreviewStatus {
   /** What the preview cannot show truthfully (e.g. 'box-cuts-surface' with suggestedExtent: offer to widen the box). */
   warnings: SurfaceWarning[];
   isovalue: number | null;
+  /** Largest |ψ| on the preview grid (a0^-3/2): no |ψ| surface exists above it. */
+  maxAbs: number | null;
   /** Points per side of the preview's outer grid. */
   n: number;
   error: string | null;
@@ -37,7 +39,16 @@ export interface PreviewStatus {
 /** Preview grid: the recipe's N, capped at 112 so the slider stays responsive (about 1.4 M voxels). */
 export const PREVIEW_MAX_N = 112;
 
-export function usePreview(state: OrbitalState | null, gridN: number | 'auto', extent: 'auto' | number, rule: PreviewRule | null) {
+export function usePreview(
+  state: OrbitalState | null,
+  gridN: number | 'auto',
+  extent: 'auto' | number,
+  rule: PreviewRule | null,
+  /** The recipe's palette (with its swatchbook's wheel) and phase mode: the colours the surfaces and key share. */
+  colours?: { palette: { positive: string; negative: string; wheel?: { lightness: number; chroma: number } | null }; mode?: 'auto' | 'sign' | 'argument' },
+) {
+  const coloursRef = useRef(colours);
+  coloursRef.current = colours;
   const workerRef = useRef<Worker | null>(null);
   const seq = useRef(0);
   const sampleSeq = useRef(-1);
@@ -57,6 +68,7 @@ export function usePreview(state: OrbitalState | null, gridN: number | 'auto', e
     enclosedInBox: null,
     warnings: [],
     isovalue: null,
+    maxAbs: null,
     n: 0,
     error: null,
   });
@@ -75,7 +87,7 @@ export function usePreview(state: OrbitalState | null, gridN: number | 'auto', e
     const s = ++seq.current;
     inFlight.current = { seq: s, sent: performance.now() };
     setStatus((st) => ({ ...st, phase: st.phase === 'sampling' ? 'sampling' : 'extracting' }));
-    send({ type: 'surface', seq: s, sampleSeq: sampleSeq.current, rule: r });
+    send({ type: 'surface', seq: s, sampleSeq: sampleSeq.current, rule: r, palette: coloursRef.current?.palette, mode: coloursRef.current?.mode });
   }
 
   useEffect(() => {
@@ -112,10 +124,11 @@ export function usePreview(state: OrbitalState | null, gridN: number | 'auto', e
             warnings: msg.warnings ?? [],
             isovalue: msg.isovalue,
             n: msg.grid?.n ?? s.n,
+            maxAbs: msg.maxAbs ?? s.maxAbs,
             error: null,
           }));
         } else if (msg.type === 'error') {
-          setStatus((s) => ({ ...s, phase: 'error', error: msg.message }));
+          setStatus((s) => ({ ...s, phase: 'error', error: msg.message, maxAbs: msg.maxAbs ?? s.maxAbs }));
         }
         const next = pending.current;
         pending.current = null;
@@ -143,7 +156,7 @@ export function usePreview(state: OrbitalState | null, gridN: number | 'auto', e
     sampleSeq.current = s;
     inFlight.current = null;
     pending.current = null;
-    setStatus((st) => ({ ...st, phase: 'sampling', error: null }));
+    setStatus((st) => ({ ...st, phase: 'sampling', error: null, maxAbs: null }));
     send({ type: 'sample', seq: s, state, n, extent });
     if (ruleRef.current) requestSurface(ruleRef.current);
     // stateKey stands for the state's content

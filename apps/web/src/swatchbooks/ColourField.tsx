@@ -1,10 +1,13 @@
 import { useEffect, useState } from 'react';
 import { FormGroup, InputGroup, Switch } from '@blueprintjs/core';
+import { hexProblem } from '@psiform/contracts';
 import { isHex } from '@psiform/colour';
 
 /**
  * One swatch: the browser's colour picker and the hex text side by side. The text may be half-typed;
- * only a complete #rrggbb reaches onChange (lower-cased, the form swatchbooks store).
+ * only a complete #rrggbb reaches onChange (lower-cased, the form swatchbooks store). Text that is not a
+ * colour stays as typed with the message (the wording of libs/contracts, as the server answers) until it is
+ * fixed: it never silently turns back into the old colour; onProblem tells the editor, which holds Save.
  */
 export function ColourField({
   name,
@@ -13,6 +16,7 @@ export function ColourField({
   onChange,
   disabled,
   optional,
+  onProblem,
 }: {
   name: string;
   label: string;
@@ -21,14 +25,23 @@ export function ColourField({
   disabled?: boolean;
   /** Optional swatches (nucleus, axes) can be left out. */
   optional?: boolean;
+  /** Called with the field's message (or null) whenever it changes. */
+  onProblem?(name: string, problem: string | null): void;
 }) {
   const [text, setText] = useState(value ?? '');
   useEffect(() => setText(value ?? ''), [value]);
   const present = value !== undefined;
-  const bad = present && text !== '' && !isHex(text) ? 'Use the form #rrggbb, e.g. #2f6690.' : text === '' && present ? 'A colour is required.' : null;
+  const bad = present && text !== '' && !isHex(text) ? `“${text}”: ${hexProblem(text)}.` : text === '' && present ? 'A colour is required (# and six hex digits).' : null;
+  useEffect(() => onProblem?.(name, bad), [name, bad, onProblem]);
 
   return (
-    <FormGroup label={label} labelFor={`sw-${name}-hex`} intent={bad ? 'danger' : 'none'} helperText={bad ?? undefined} className="pf-colour-field">
+    <FormGroup
+      label={label}
+      labelFor={`sw-${name}-hex`}
+      intent={bad ? 'danger' : 'none'}
+      helperText={bad ? <span data-testid={`sw-${name}-error`} role="alert">{bad}</span> : undefined}
+      className="pf-colour-field"
+    >
       <div className="pf-colour-row">
         {optional && (
           <Switch
@@ -52,14 +65,12 @@ export function ColourField({
           id={`sw-${name}-hex`}
           value={text}
           disabled={disabled || !present}
-          maxLength={7}
           spellCheck={false}
           onChange={(e) => {
             const t = e.target.value.trim();
             setText(t);
             if (isHex(t)) onChange(t.toLowerCase());
           }}
-          onBlur={() => setText(value ?? '')}
           intent={bad ? 'danger' : 'none'}
           data-testid={`sw-${name}-hex`}
         />

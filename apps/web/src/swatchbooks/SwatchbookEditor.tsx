@@ -1,9 +1,9 @@
-import { useMemo, useState } from 'react';
+import { useCallback, useMemo, useState } from 'react';
 import { Button, Callout, FormGroup, InputGroup, NumericInput, Tag } from '@blueprintjs/core';
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { useNavigate } from 'react-router-dom';
 import { checkSwatchbook, DEFAULT_WHEEL, isHex } from '@psiform/colour';
-import type { SwatchbookColorsDto, SwatchbookDto } from '@psiform/contracts';
+import { PSIFORM_PALETTE, type SwatchbookColorsDto, type SwatchbookDto } from '@psiform/contracts';
 import { ApiError, describeError } from '../api/client';
 import { useApi } from '../auth/AuthProvider';
 import { ColourChecks } from './ColourChecks';
@@ -12,10 +12,10 @@ import { CvdPreviews, PhaseWheelStrip } from './CvdPreviews';
 import { PressCheck } from './PressCheck';
 import { createSwatchbook, updateSwatchbook } from './swatchbookApi';
 
-/** Starting colours of a new swatchbook (our own neutral choice, matching the recipe's default phases). */
+/** Starting colours of a new swatchbook: Psiform's own default palette (contracts PSIFORM_PALETTE). */
 export const NEW_SWATCHBOOK_COLOURS: SwatchbookColorsDto = {
-  positive: '#c8553d',
-  negative: '#2f6690',
+  positive: PSIFORM_PALETTE.positive,
+  negative: PSIFORM_PALETTE.negative,
   background: '#ffffff',
   label: '#222222',
   nucleus: '#222222',
@@ -92,7 +92,17 @@ export function SwatchbookEditor({ existing, canEdit, publicationId }: { existin
     setColours((c) => ({ ...c, wheel: { ...(c.wheel ?? DEFAULT_WHEEL), [part]: v } }));
   }
 
-  const canSave = !readOnly && dirty && name.trim() !== '' && check !== null && (Boolean(existing) || Boolean(publicationId));
+  const [problems, setProblems] = useState<Record<string, string>>({});
+  const onProblem = useCallback((field: string, problem: string | null) => {
+    setProblems((p) => {
+      if ((p[field] ?? null) === problem) return p;
+      const next = { ...p };
+      if (problem) next[field] = problem;
+      else delete next[field];
+      return next;
+    });
+  }, []);
+  const canSave = !readOnly && dirty && name.trim() !== '' && check !== null && Object.keys(problems).length === 0 && (Boolean(existing) || Boolean(publicationId));
 
   return (
     <form
@@ -112,7 +122,7 @@ export function SwatchbookEditor({ existing, canEdit, publicationId }: { existin
               }} maxLength={120} disabled={readOnly} data-testid="sw-name" />
           </FormGroup>
           {SWATCHES.map((s) => (
-            <ColourField key={s.key} name={s.key} label={s.label} value={colours[s.key]} optional={s.optional} disabled={readOnly} onChange={(v) => set(s.key, v)} />
+            <ColourField key={s.key} name={s.key} label={s.label} value={colours[s.key]} optional={s.optional} disabled={readOnly} onChange={(v) => set(s.key, v)} onProblem={onProblem} />
           ))}
           <h3>Complex phase wheel</h3>
           <p className="pf-muted pf-small">For complex states the phase arg ψ is a hue at constant OKLCH lightness and chroma.</p>
@@ -145,6 +155,11 @@ export function SwatchbookEditor({ existing, canEdit, publicationId }: { existin
             <Tag minimal intent="success" data-testid="sw-saved">
               Saved
             </Tag>
+          )}
+          {Object.keys(problems).length > 0 && (
+            <span className="pf-error-line" data-testid="sw-save-blocked" role="status">
+              Saving waits for {Object.keys(problems).length === 1 ? 'the colour' : 'the colours'} marked in red.
+            </span>
           )}
           <Button type="submit" intent="primary" icon="floppy-disk" text={existing ? 'Save changes' : 'Create swatchbook'} disabled={!canSave} loading={save.isPending} data-testid="sw-save" />
         </div>

@@ -72,13 +72,13 @@ describe('swatchbook editor: live checks in the browser', () => {
     const first = screen.getByTestId('check-de-normal').textContent;
     expect(Number(first)).toBeGreaterThan(20);
 
-    await setHex(ue, 'negative', '#c8553d'); // same as positive: no difference at all
+    await setHex(ue, 'negative', '#1f5e5b'); // same as positive (Psiform's default verdigris): no difference at all
     expect(screen.getByTestId('check-de-normal').textContent).toBe('0.0');
     for (const k of ['protanopia', 'deuteranopia', 'tritanopia']) expect(screen.getByTestId(`check-de-${k}`).textContent).toBe('0.0');
     expect(screen.getByTestId('check-de-normal-verdict').textContent).toBe('too low');
     expect(screen.getAllByTestId('check-warning').some((w) => w.getAttribute('data-code') === 'phases_too_similar')).toBe(true);
 
-    await setHex(ue, 'negative', '#2f6690');
+    await setHex(ue, 'negative', '#a86a1c');
     expect(screen.getByTestId('check-de-normal').textContent).toBe(first);
 
     // The colour picker drives the same state as the hex text.
@@ -113,9 +113,30 @@ describe('swatchbook editor: live checks in the browser', () => {
     await ue.click(screen.getByTestId('sw-save'));
     await waitFor(() => expect(screen.getByTestId('location').textContent).toBe('/swatchbooks/s9'));
     const [post] = api.callsTo('POST', '/api/swatchbooks');
-    expect(post.body).toMatchObject({ name: 'Fenwright journal', colors: { positive: '#b5452f', negative: '#2f6690', background: '#ffffff' } });
+    expect(post.body).toMatchObject({ name: 'Fenwright journal', colors: { positive: '#b5452f', negative: '#a86a1c', background: '#ffffff' } });
     expect((await screen.findByTestId('swatchbook-title')).textContent).toBe('Fenwright journal');
     expect(await screen.findAllByTestId('sw-version-row')).toHaveLength(1);
+  });
+
+  it('a colour that is not #rrggbb keeps its text and the message (it never silently turns back), and holds Save', async () => {
+    const me = user('art_director');
+    mockFetch({ ...signedInRoutes(me), 'GET /api/swatchbooks': () => json(200, []) });
+    storeSession(me);
+    const ue = userEvent.setup();
+    renderApp('/swatchbooks');
+    await ue.click(await screen.findByTestId('sw-new'));
+    await ue.type(screen.getByTestId('sw-name'), 'Quillmere plates');
+    expect((screen.getByTestId('sw-save') as HTMLButtonElement).disabled).toBe(false);
+    await setHex(ue, 'negative', '#zzz');
+    await ue.click(screen.getByTestId('sw-name')); // leave the field
+    expect((screen.getByTestId('sw-negative-hex') as HTMLInputElement).value).toBe('#zzz');
+    // The wording of libs/contracts HEX_COLOUR_MESSAGE, as the server's 400 says it.
+    expect(screen.getByTestId('sw-negative-error').textContent).toBe('“#zzz”: must be a colour like #1a2b3c (# and six hex digits).');
+    expect((screen.getByTestId('sw-save') as HTMLButtonElement).disabled).toBe(true);
+    expect(screen.getByTestId('sw-save-blocked').textContent).toBe('Saving waits for the colour marked in red.');
+    await setHex(ue, 'negative', '#a86a1c');
+    expect(screen.queryByTestId('sw-negative-error')).toBeNull();
+    expect((screen.getByTestId('sw-save') as HTMLButtonElement).disabled).toBe(false);
   });
 
   it('shows the server 400 messages when saving fails', async () => {

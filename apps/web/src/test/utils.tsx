@@ -37,6 +37,7 @@ export const PUBLICATIONS: PublicationDto[] = [
     publisher: 'Quillmere Press',
     kind: 'book',
     description: 'A first-year text with full-page orbital plates.',
+    lengthUnit: 'angstrom',
     createdAt: '2025-01-02T00:00:00.000Z',
   },
   {
@@ -45,6 +46,7 @@ export const PUBLICATIONS: PublicationDto[] = [
     publisher: 'Fenwright Society',
     kind: 'journal_volume',
     description: '',
+    lengthUnit: 'bohr',
     createdAt: '2025-01-03T00:00:00.000Z',
   },
 ];

@@ -5,6 +5,8 @@ import { annotationsSchema, type Recipe } from '@psiform/contracts';
 import { CanvasBoundary } from '../scene/FigureCanvas';
 import { disposeGeometries, loadGlbGeometries, type PhaseGeometry } from '../scene/geometry';
 import { OrbitalScene } from '../scene/OrbitalScene';
+import { PhaseKeyLegend } from '../components/PhaseKeyLegend';
+import type { PhaseColourAt } from '@psiform/print';
 
 export { phaseOf } from '../scene/geometry';
 
@@ -17,6 +19,8 @@ export interface FigureViewportProps {
   annotations?: Recipe['annotations'];
   /** Called once, after the GLB is in the scene and a frame of it has been drawn. */
   onReady?(): void;
+  /** A figure coloured by arg ψ: the phase key's colours (scene/phaseKeyColours); the sign legend otherwise. */
+  phaseKey?: PhaseColourAt;
 }
 
 const NO_ANNOTATIONS = annotationsSchema.parse({});
@@ -52,7 +56,7 @@ function useGlb(url: string): { surfaces: PhaseGeometry[] | null; error: string 
  * The finished GLB in the shared figure scene (scene/OrbitalScene: the same camera framing, lights and
  * materials as the studio and the print export), orbit to inspect. z (the quantisation axis) is up.
  */
-export default function FigureViewport({ url, palette, stage, annotations, onReady }: FigureViewportProps) {
+export default function FigureViewport({ url, palette, stage, annotations, onReady, phaseKey }: FigureViewportProps) {
   const { surfaces, error } = useGlb(url);
   const [ready, setReady] = useState(false);
   const frames = useRef(0);
@@ -107,12 +111,18 @@ export default function FigureViewport({ url, palette, stage, annotations, onRea
         </CanvasBoundary>
       )}
       <div className="pf-legend" aria-label="Phase colours">
-        <span>
-          <i style={{ background: palette.positive }} /> ψ &gt; 0
-        </span>
-        <span>
-          <i style={{ background: palette.negative }} /> ψ &lt; 0
-        </span>
+        {phaseKey ? (
+          <PhaseKeyLegend colourAt={phaseKey} />
+        ) : (
+          <>
+            <span>
+              <i style={{ background: palette.positive }} /> ψ &gt; 0
+            </span>
+            <span>
+              <i style={{ background: palette.negative }} /> ψ &lt; 0
+            </span>
+          </>
+        )}
         <span className="pf-muted">Drag to turn, scroll to zoom. z (the quantisation axis) points up.</span>
       </div>
       {ready && <span data-testid="viewport-ready" data-ready="true" hidden />}

@@ -32,7 +32,9 @@ export type PreviewResponse =
       warnings?: SurfaceWarning[];
       /** The grid the preview used (points per side and half-width of the outer cube, a0). */
       grid?: { n: number; extent: number };
+      /** Largest |ψ| on the grids sampled for this surface (a0^-3/2): no |ψ| surface exists above it. */
+      maxAbs?: number | null;
       triangles: number;
       ms: { extract: number; total: number };
     }
-  | { type: 'error'; seq: number; message: string };
+  | { type: 'error'; seq: number; message: string; /** As on 'surface': the largest |ψ| sampled before the error. */ maxAbs?: number | null };

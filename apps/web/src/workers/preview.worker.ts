@@ -16,7 +16,12 @@ interface Kept {
   key: string;
   re: Float32Array;
   im: Float32Array | null;
+  /** Largest |ψ| on this grid: the |ψ| rule's upper limit (above it there is no surface). */
+  maxAbs: number;
 }
+
+/** Largest |ψ| over the grids sampled for the current surface request. */
+let maxAbsSeen = 0;
 
 let current: { seq: number; state: OrbitalState; n: number | 'auto'; extent: 'auto' | number } | null = null;
 let kept: Kept | null = null;
@@ -33,8 +38,14 @@ function sampler(state: OrbitalState, grid: { n: number; extent: number }, compi
     const re = new Float32Array(N);
     const im = compiled.isReal ? null : new Float32Array(N);
     compiled.sampleGrid({ n: grid.n, extent: grid.extent as never }, re, im);
-    kept = { key, re, im };
+    let max2 = 0;
+    for (let i = 0; i < N; i++) {
+      const a = re[i] * re[i] + (im ? im[i] * im[i] : 0);
+      if (a > max2) max2 = a;
+    }
+    kept = { key, re, im, maxAbs: Math.sqrt(max2) };
   }
+  maxAbsSeen = Math.max(maxAbsSeen, kept.maxAbs);
   return { re: kept.re.slice(), im: kept.im ? kept.im.slice() : null };
 }
 
@@ -50,6 +61,7 @@ export async function handle(req: PreviewRequest): Promise<void> {
   }
   const t0 = performance.now();
   const { nodal, ...surface } = req.rule;
+  maxAbsSeen = 0;
   const result = await recipeToSurfaces(
     { content: current.state, grid: { n: current.n, extent: current.extent }, surface },
     // Nodal surfaces only while the Stage's outline switch is on: they cost 15-70 ms an update at 112³.
@@ -87,6 +99,7 @@ export async function handle(req: PreviewRequest): Promise<void> {
       enclosedInBox: result.enclosed.inBox,
       warnings: result.warnings,
       grid: { n: result.grid.n, extent: result.grid.extent },
+      maxAbs: maxAbsSeen || null,
       triangles,
       ms: { extract: t.threshold + t.extracting, total: performance.now() - t0 },
     },
@@ -96,6 +109,6 @@ export async function handle(req: PreviewRequest): Promise<void> {
 
 self.onmessage = (ev: MessageEvent<PreviewRequest>) => {
   handle(ev.data).catch((err) => {
-    post({ type: 'error', seq: ev.data?.seq ?? -1, message: err instanceof Error ? err.message : String(err) });
+    post({ type: 'error', seq: ev.data?.seq ?? -1, message: err instanceof Error ? err.message : String(err), maxAbs: maxAbsSeen || null });
   });
 };

@@ -3,10 +3,10 @@ import { UnrecoverableError } from 'bullmq';
 import { QUEUES, type Recipe } from '@psiform/contracts';
 import { AssetStore, CONTENT_TYPES, ENGINE_VERSION, JobsStore, ObjectStorage, exportKey, sha256Hex, type JobPayload, type NewAsset } from '@psiform/server';
 import { DEFAULT_DELIVERY_PROFILE, type ColourMode, type DeliveryProfile, type PressConditionId } from '@psiform/contracts';
-import { buildBundle, preflightReport, preflightText, type BundleFile, type PreflightSubject } from '@psiform/print';
+import { buildBundle, plotAlt, preflightReport, preflightText, type BundleFile, type PreflightSubject } from '@psiform/print';
 import type { JobProcessor, ProcessorJob } from '../queues/job-processor';
 import type { FigureRenderer } from '../render/figure-renderer';
-import { ensureMesh, runTracked, versionOf, type TrackedJob, type TrackedResult } from '../render/tracked-job';
+import { ensureMesh, runTracked, versionOf, type AfterMesh, type TrackedJob, type TrackedResult } from '../render/tracked-job';
 import { companionSvg, figureSvg, type SvgParams } from './svg-export';
 import { altOf, figureWords } from './figure-words';
 import { encodePdf, encodeTiff, pdfSubject, pngFacts, rasterSubject, svgSubject, tiffFacts } from './print-files';
@@ -23,14 +23,6 @@ type ExportParams = (({ format: 'svg' } & SvgParams) | ({ format: 'pdf' } & SvgP
   profile?: DeliveryProfile;
 };
 
-/** The words a plot companion carries as alt text: its SVG title, and title + description as the long text. */
-export function plotAlt(svg: string): { short: string; long: string } {
-  const un = (x: string) => x.replace(/&lt;/g, '<').replace(/&gt;/g, '>').replace(/&quot;/g, '"').replace(/&apos;/g, "'").replace(/&amp;/g, '&');
-  const title = un(/<title>([\s\S]*?)<\/title>/.exec(svg)?.[1] ?? '');
-  const desc = un(/<desc>([\s\S]*?)<\/desc>/.exec(svg)?.[1] ?? '');
-  return { short: title, long: `${title}. ${desc}`.trim() };
-}
-
 /**
  * Export jobs (QUEUES.export): svg (radial plot or section map, Lato embedded), glb/stl (the version's mesh,
  * computed first when missing) and bundle (zip: GLB, STL, PNG, radial SVG, recipe.json, metadata.json, README.txt).
@@ -46,6 +38,8 @@ export class ExportJobProcessor implements JobProcessor<JobPayload, TrackedResul
     private readonly renderer: FigureRenderer | null,
     private readonly engineVersion: string = ENGINE_VERSION,
     private readonly now: () => Date = () => new Date(),
+    /** The mesh job's after-mesh hook (thumbnails), for meshes this job computes first (glb, stl, bundle). */
+    private readonly afterMesh?: AfterMesh,
   ) {}
 
   async process(job: ProcessorJob<JobPayload>): Promise<TrackedResult> {
@@ -61,7 +55,7 @@ export class ExportJobProcessor implements JobProcessor<JobPayload, TrackedResul
       else if (p.format === 'bundle') assets = await this.bundle(t, recipe, version, profile);
       else throw new UnrecoverableError(`export job ${t.id} has an unknown format ${JSON.stringify((p as { format?: unknown }).format)}`);
       return { timings: { total: Math.round(performance.now() - total) }, assets };
-    });
+    }, this.afterMesh);
     return { jobId: res.jobId, assetIds: res.assetIds };
   }
 

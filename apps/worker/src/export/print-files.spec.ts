@@ -3,9 +3,12 @@
 import { spawnSync } from 'node:child_process';
 import { writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
-import { DEFAULT_DELIVERY_PROFILE } from '@psiform/contracts';
-import { encodeRgbaPng, exportPixelSize, preflightFile, sectionMapSvg } from '@psiform/print';
-import { encodePdf, encodeTiff, pdfFacts, pdfSubject, pngFacts, tiffFacts } from './print-files';
+import { DEFAULT_DELIVERY_PROFILE, parseRecipe, type DeliveryProfile } from '@psiform/contracts';
+import { encodeRgbaPng, exportPixelSize, figureSvg, plannedSubject, plotAlt, preflightFile, sectionMapSvg, type PreflightSubject } from '@psiform/print';
+import { encodePdf, encodeTiff, pdfFacts, pdfSubject, pngFacts, rasterSubject, tiffFacts } from './print-files';
+
+// sharp, pdfkit and the Debian readers on the shared 2-core machine: a loaded run has taken over 5 s per file.
+jest.setTimeout(60_000);
 
 function tool(cmd: string, args: string[]): { code: number; out: string } {
   const r = spawnSync(cmd, args, { encoding: 'utf8' });
@@ -118,5 +121,43 @@ describe('encodePdf', () => {
     const pdf = await encodePdf({ ...opts, widthMm: 148, heightMm: 210, colour: 'rgb' });
     // 148 mm = 419.53 pt, 210 mm = 595.28 pt.
     expect(tool("pdfinfo", [tmp("a5.pdf", pdf)]).out).toMatch(/Page size:\s+419\.5\d* x 595\.2\d* pts/);
+  });
+});
+
+describe('the preflight the export dialog shows before an export is the one the written file gets', () => {
+  const parsed = parseRecipe({ version: 1, content: { Z: 1, terms: [{ n: 3, l: 2, m: 0, basis: 'real', re: 1 }] }, grid: { n: 32 }, surface: { rule: 'enclosed', fraction: 0.9 }, canvas: { widthMm: 89, heightMm: 20, dpi: 600 } });
+  if (!parsed.ok) throw new Error(JSON.stringify(parsed.issues));
+  const recipe = parsed.recipe;
+  const alt = { short: 'A 3d_z² orbital', long: 'A 3d_z² orbital: two lobes along z and a ring in the xy plane.' };
+  // A profile that fails on purpose where a hand count says so: 1200 dpi minimum (600 < 1200), a 60 mm widest
+  // column (89 mm > 60 mm: the figure would be reduced to 67%).
+  const strict: DeliveryProfile = { ...DEFAULT_DELIVERY_PROFILE, minDpi: 1200, columnWidthsMm: [{ name: 'narrow', widthMm: 60 }] };
+  const verdicts = (s: PreflightSubject, profile: DeliveryProfile) => preflightFile(s, profile).results.map((r) => [r.rule, r.status, r.rule === 'icc_profile' ? '' : r.actual]);
+
+  for (const profile of [DEFAULT_DELIVERY_PROFILE, strict]) {
+    it(`CMYK TIFF, 89 × 20 mm at 600 dpi (${profile === strict ? 'strict' : 'default'} profile): planned and written agree rule by rule`, async () => {
+      const planned = plannedSubject({ format: 'tiff', widthMm: 89, heightMm: 20, dpi: 600, colour: 'cmyk', pressCondition: 'fogra39' }, recipe, alt);
+      const tif = await encodeTiff(testPng(), { dpi: 600, colour: 'cmyk', pressCondition: 'fogra39', alpha: false, background: '#ffffff' });
+      const written = rasterSubject('figure.tif', 'tiff', await tiffFacts(tif), { widthMm: 89, heightMm: 20, dpi: 600 }, recipe, alt);
+      expect(planned.raster).toEqual({ widthPx: 2102, heightPx: 472, dpi: 600, dpiTagged: 600 });
+      expect(verdicts(planned, profile)).toEqual(verdicts(written, profile));
+    });
+  }
+
+  it('strict profile: the planned TIFF fails resolution and column width, exactly as counted by hand', () => {
+    const r = preflightFile(plannedSubject({ format: 'tiff', widthMm: 89, heightMm: 20, dpi: 600, colour: 'cmyk', pressCondition: 'fogra39' }, recipe, alt), strict);
+    const failed = r.results.filter((x) => x.status === 'fail').map((x) => x.rule);
+    expect(failed).toEqual(expect.arrayContaining(['resolution', 'column_width']));
+    expect(r.results.find((x) => x.rule === 'resolution')?.actual).toBe('600 dpi');
+  });
+
+  it('section-map PDF: planned and written agree rule by rule (page, fonts, colour, profile, text sizes)', async () => {
+    const planned = plannedSubject({ format: 'pdf', kind: 'section', plane: 'xz', widthMm: 89, heightMm: 60, colour: 'cmyk', pressCondition: 'fogra39' }, recipe, null);
+    const svg = figureSvg(recipe, { kind: 'section', plane: 'xz', offset: 0, levels: 4, widthMm: 89, heightMm: 60 }, undefined);
+    const o = { svg, widthMm: 89, heightMm: 60, title: plotAlt(svg).short, alt: plotAlt(svg).short, colour: 'cmyk' as const, pressCondition: 'fogra39' as const };
+    const written = pdfSubject('section.pdf', await encodePdf(o), o, plotAlt(svg));
+    const v = (s: PreflightSubject) => preflightFile(s, DEFAULT_DELIVERY_PROFILE).results.map((r) => [r.rule, r.status]);
+    expect(v(planned)).toEqual(v(written));
+    expect(planned.texts).toEqual(written.texts);
   });
 });

@@ -7,7 +7,7 @@ import PDFDocument from 'pdfkit';
 import SVGtoPDF from 'svg-to-pdfkit';
 import { iccPressTransform, readIccProfile, hexToLabD50, type PressTransform } from '@psiform/colour';
 import { pressCondition, type ColourMode, type PressConditionId, type Recipe } from '@psiform/contracts';
-import { figureTextFacts, mmToPt, readPngInfo, svgDrawnText, svgPrintFacts, uncoveredCharacters, wrapUncoveredRuns, type PreflightSubject } from '@psiform/print';
+import { mmToPt, plannedSubject, readPngInfo, svgDrawnText, svgPrintFacts, uncoveredCharacters, wrapUncoveredRuns, type PreflightSubject } from '@psiform/print';
 import { FALLBACK_FAMILY, facesCover, latoCovers, pdfFaces } from './fonts';
 import { assetPath } from '@psiform/server';
 
@@ -229,12 +229,10 @@ export function pdfSubject(file: string, pdf: Uint8Array, o: PdfOptions, alt: { 
   };
 }
 
-/** The label the figure prints (the overlay's): the annotation's own text, else the recipe's display label. */
-export function printedLabel(recipe: Recipe): string {
-  return recipe.annotations.label.text ?? recipe.label ?? '';
-}
-
-/** Preflight facts of a figure raster (PNG read back with readPngInfo, TIFF with tiffFacts); text is pixels. */
+/**
+ * Preflight facts of a figure raster: the planned subject (@psiform/print plannedSubject: the 2D layer's text and
+ * lines) with what the written file says (PNG read back with readPngInfo, TIFF with tiffFacts); text is pixels.
+ */
 export function rasterSubject(
   file: string,
   format: 'png' | 'tiff',
@@ -243,18 +241,14 @@ export function rasterSubject(
   recipe: Recipe,
   alt: { short?: string; long?: string },
 ): PreflightSubject {
-  const facts = figureTextFacts(recipe.annotations, printedLabel(recipe));
+  const planned = plannedSubject({ format: 'png', ...asked }, recipe, null);
   return {
+    ...planned,
     file,
     format,
-    widthMm: asked.widthMm,
-    heightMm: asked.heightMm,
     raster: { widthPx: read.widthPx, heightPx: read.heightPx, dpi: asked.dpi, dpiTagged: read.dpiTagged },
     colourSpace: read.colourSpace,
     icc: read.icc,
-    texts: facts.texts,
-    lines: facts.lines,
-    fonts: 'rasterised',
     altText: alt,
   };
 }

@@ -35,15 +35,18 @@ export class RenderModule implements OnApplicationShutdown {
         { provide: ThumbnailStore, inject: [DataSource], useFactory: (ds: DataSource) => new ThumbnailStore(ds) },
         { provide: FigureSetStore, inject: [DataSource], useFactory: (ds: DataSource) => new FigureSetStore(ds) },
         { provide: ThumbnailScheduler, inject: [JobsStore, REDIS_CONNECTION], useFactory: (j: JobsStore, r: Redis) => new ThumbnailScheduler(j, r) },
+        // Meshes made by renders, exports and figure sets get their thumbnails as a mesh job's do (config.render.thumbnails).
         {
           provide: RenderJobProcessor,
-          inject: [JobsStore, AssetStore, ObjectStorage, FigureRenderer, ThumbnailStore, FigureSetStore],
-          useFactory: (j: JobsStore, a: AssetStore, s: ObjectStorage, r: FigureRenderer, t: ThumbnailStore, f: FigureSetStore) => new RenderJobProcessor(j, a, s, r, t, ENGINE_VERSION, f),
+          inject: [JobsStore, AssetStore, ObjectStorage, FigureRenderer, ThumbnailStore, FigureSetStore, ThumbnailScheduler],
+          useFactory: (j: JobsStore, a: AssetStore, s: ObjectStorage, r: FigureRenderer, t: ThumbnailStore, f: FigureSetStore, ts: ThumbnailScheduler) =>
+            new RenderJobProcessor(j, a, s, r, t, ENGINE_VERSION, f, config.render.thumbnails ? ts.schedule : undefined),
         },
         {
           provide: ExportJobProcessor,
-          inject: [JobsStore, AssetStore, ObjectStorage, FigureRenderer],
-          useFactory: (j: JobsStore, a: AssetStore, s: ObjectStorage, r: FigureRenderer) => new ExportJobProcessor(j, a, s, r),
+          inject: [JobsStore, AssetStore, ObjectStorage, FigureRenderer, ThumbnailScheduler],
+          useFactory: (j: JobsStore, a: AssetStore, s: ObjectStorage, r: FigureRenderer, ts: ThumbnailScheduler) =>
+            new ExportJobProcessor(j, a, s, r, ENGINE_VERSION, () => new Date(), config.render.thumbnails ? ts.schedule : undefined),
         },
       ],
       exports: [RenderJobProcessor, ExportJobProcessor, ThumbnailScheduler],

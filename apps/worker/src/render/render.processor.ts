@@ -9,7 +9,7 @@ import type { JobProcessor, ProcessorJob } from '../queues/job-processor';
 import type { FigureRenderer } from './figure-renderer';
 import type { FigureSetStore } from './figure-sets';
 import type { ThumbnailStore } from './thumbnails';
-import { ensureMesh, runTracked, versionOf, type TrackedJob, type TrackedResult } from './tracked-job';
+import { ensureMesh, runTracked, versionOf, type AfterMesh, type TrackedJob, type TrackedResult } from './tracked-job';
 
 /** jobs.params of a render job (apps/api exports/export-request.ts, or the thumbnail scheduler). */
 export interface RenderParams {
@@ -54,6 +54,8 @@ export class RenderJobProcessor implements JobProcessor<JobPayload, TrackedResul
     private readonly thumbnails: ThumbnailStore,
     private readonly engineVersion: string = ENGINE_VERSION,
     private readonly sets?: FigureSetStore,
+    /** The mesh job's after-mesh hook (thumbnails), for meshes this job computes first. */
+    private readonly afterMesh?: AfterMesh,
   ) {}
 
   async process(job: ProcessorJob<JobPayload>): Promise<TrackedResult> {
@@ -92,7 +94,7 @@ export class RenderJobProcessor implements JobProcessor<JobPayload, TrackedResul
       const png: NewAsset = { figureVersionId: version.id, publicationId: t.ctx.job.publicationId, kind: 'png', storageKey: stored.key, bytes: stored.bytes, sha256: stored.sha256, stats };
       const timings = { mesh: mesh.meshMs, ...prefixed('render_', out.ms), store: Math.round(performance.now() - ts), total: ms };
       return { timings, assets: [...mesh.newAssets, png] };
-    });
+    }, this.afterMesh);
     const ctx = await this.jobs.loadContext(res.jobId);
     const params = ctx?.job.params as RenderParams | undefined;
     if (params?.figureSetId && this.sets && res.assetIds.length > 0) {

@@ -1,8 +1,10 @@
+import { Logger } from '@nestjs/common';
 import { UnrecoverableError } from 'bullmq';
 import { parseRecipe, type ExportStage, type Recipe } from '@psiform/contracts';
 import { AssetStore, JobsStore, ObjectStorage, meshKey, type JobContext, type JobPayload, type NewAsset } from '@psiform/server';
 import type { ProcessorJob } from '../queues/job-processor';
 import { buildMesh, gridLabel } from '../mesh/mesh-assets';
+import type { MeshDone } from '../mesh/mesh.processor';
 
 /** Progress (0..100) on entering each stage of a render or export job. */
 export const EXPORT_PROGRESS: Record<ExportStage, number> = { queued: 0, meshing: 5, rendering: 30, encoding: 70, storing: 90, done: 100 };
@@ -13,6 +15,8 @@ export interface TrackedJob {
   params: Record<string, unknown>;
   /** Writes the stage (and its progress) to the Job row. */
   stage(s: Exclude<ExportStage, 'queued' | 'done'>): Promise<void>;
+  /** Figure versions whose mesh this job computed (ensureMesh), for the after-mesh hook once the rows are stored. */
+  meshed?: string[];
 }
 
 export interface TrackedResult {
@@ -29,6 +33,7 @@ export async function runTracked(
   jobs: JobsStore,
   job: ProcessorJob<JobPayload>,
   work: (t: TrackedJob) => Promise<{ timings: Record<string, number>; assets: NewAsset[] }>,
+  afterMesh?: AfterMesh,
 ): Promise<TrackedResult & { assets: NewAsset[] }> {
   const id = job.data?.jobId;
   if (typeof id !== 'string') throw new UnrecoverableError('job without a jobId');
@@ -45,8 +50,10 @@ export async function runTracked(
     } else await jobs.setStage(id, s, EXPORT_PROGRESS[s]);
   };
   try {
-    const { timings, assets } = await work({ id, ctx, params: (ctx.job.params ?? {}) as Record<string, unknown>, stage });
+    const tracked: TrackedJob = { id, ctx, params: (ctx.job.params ?? {}) as Record<string, unknown>, stage, meshed: [] };
+    const { timings, assets } = await work(tracked);
     const assetIds = await jobs.complete(id, timings, assets);
+    if (afterMesh) await afterNewMeshes(afterMesh, id, ctx, tracked.meshed ?? [], assets, assetIds);
     return { jobId: id, assetIds, assets };
   } catch (err) {
     const e = err as Error;
@@ -54,6 +61,29 @@ export async function runTracked(
     if (final) await jobs.fail(id, readable(e));
     else await jobs.requeue(id, `attempt ${attempt} of ${attempts} failed: ${readable(e)}; retrying`);
     throw err;
+  }
+}
+
+/** What a mesh job calls once its mesh is stored (the worker schedules the figure's thumbnail there). */
+export type AfterMesh = (done: MeshDone) => Promise<void>;
+
+/**
+ * The after-mesh hook for every figure version whose mesh this job made (ensureMesh's new GLB rows), as a mesh job
+ * calls it: every figure with a mesh gets its thumbnail, whichever job made the mesh (a render, an export, a figure
+ * set's panels). Thumbnail renders are skipped (they never start another); errors are logged, never fail the job.
+ */
+export async function afterNewMeshes(afterMesh: AfterMesh, jobId: string, ctx: JobContext, meshed: string[], assets: NewAsset[], assetIds: string[]): Promise<void> {
+  const params = (ctx.job.params ?? {}) as { thumbnail?: boolean; panels?: { figureId?: string; figureVersionId?: string }[] };
+  if (params.thumbnail) return;
+  const figureOf = (versionId: string): string | undefined =>
+    ctx.version?.id === versionId ? ctx.figure?.id : params.panels?.find((p) => p.figureVersionId === versionId)?.figureId;
+  for (const versionId of new Set(meshed)) {
+    const figureId = figureOf(versionId);
+    if (!figureId) continue;
+    const ids = assets.map((x, k) => (x.figureVersionId === versionId && (x.kind === 'glb' || x.kind === 'stl') ? assetIds[k] : null)).filter((x): x is string => x !== null);
+    await afterMesh({ jobId, figureId, figureVersionId: versionId, publicationId: ctx.job.publicationId, assetIds: ids }).catch((e: Error) =>
+      new Logger('AfterMesh').warn(`after the mesh made by job ${jobId}: ${e.message}`),
+    );
   }
 }
 
@@ -107,5 +137,6 @@ export async function ensureMesh(
   const t0 = performance.now();
   await t.stage('meshing');
   const built = await buildMesh(deps, { recipe, version, publicationId: t.ctx.job.publicationId }, async () => undefined);
+  t.meshed?.push(version.id);
   return { glb: built.files.glb, stl: async () => built.files.stl, stats: built.stats, newAssets: built.assets, existing: {}, meshMs: Math.round(performance.now() - t0) };
 }

@@ -27,7 +27,8 @@ export abstract class AssetStore {
   abstract findByIds(ids: string[]): Promise<AssetEntity[]>;
   abstract findForVersion(figureVersionId: string): Promise<AssetEntity[]>;
   abstract keyReferenced(key: string): Promise<boolean>;
-  abstract presignGet(key: string, expiresInSeconds: number): Promise<string>;
+  /** opts.disposition: the Content-Disposition the storage answers the link with (e.g. an attachment's name). */
+  abstract presignGet(key: string, expiresInSeconds: number, opts?: { disposition?: string }): Promise<string>;
 }
 
 @Injectable()
@@ -70,7 +71,7 @@ export class S3AssetStore extends AssetStore {
     return this.assets.exists({ where: { storageKey: key } });
   }
 
-  presignGet(key: string, expiresInSeconds: number): Promise<string> {
-    return this.storage.presignGet(key, expiresInSeconds);
+  presignGet(key: string, expiresInSeconds: number, opts?: { disposition?: string }): Promise<string> {
+    return this.storage.presignGet(key, expiresInSeconds, opts);
   }
 }

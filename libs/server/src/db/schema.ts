@@ -21,13 +21,14 @@ import { FigureSetExports1765238400000 } from './migrations/1765238400000-Figure
 import { UserLinkEntity } from '../users/user-link.entity';
 import { PeopleAndPublications1765584000000 } from './migrations/1765584000000-PeopleAndPublications';
 import { PrintProduction1765411200000 } from './migrations/1765411200000-PrintProduction';
+import { FigureUnitsAndSetCaptions1765600000000 } from './migrations/1765600000000-FigureUnitsAndSetCaptions';
 import { SwatchbookScope1796200000000 } from './migrations/1796200000000-SwatchbookScope';
 import { DeliveryProfileEntity } from '../delivery-profiles/delivery-profile.entity';
 
 /** Entities and migrations are listed as classes (not globs) so the same list works compiled and under Jest. */
 export const ENTITIES = [UserEntity, PublicationEntity, MembershipEntity, FigureEntity, FigureVersionEntity, AssetEntity, JobEntity,
   SwatchbookEntity, SwatchbookVersionEntity, HouseStyleEntity, BatchEntity, BatchItemEntity, ReviewRoundEntity, CommentEntity, AuditEntryEntity, FigureSetEntity, DeliveryProfileEntity, UserLinkEntity];
-export const MIGRATIONS = [Foundation1764633600000, FigureJobs1764720000000, EditorialReview1764806400000, StudioExports1764979200000, FigureSetExports1765238400000, PrintProduction1765411200000, PeopleAndPublications1765584000000, SwatchbookScope1796200000000];
+export const MIGRATIONS = [Foundation1764633600000, FigureJobs1764720000000, EditorialReview1764806400000, StudioExports1764979200000, FigureSetExports1765238400000, PrintProduction1765411200000, PeopleAndPublications1765584000000, FigureUnitsAndSetCaptions1765600000000, SwatchbookScope1796200000000];
 
 export function dataSourceOptions(url: string, extra: { poolSize?: number } = {}): DataSourceOptions {
   return {

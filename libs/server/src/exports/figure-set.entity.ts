@@ -24,6 +24,10 @@ export class FigureSetEntity {
   @Column({ type: 'int' })
   columns: number;
 
+  /** Printed under the panels of the set's PNG (migration FigureUnitsAndSetCaptions). */
+  @Column({ type: 'text', nullable: true })
+  caption: string | null;
+
   /** The latest exported PNG of the set (migration FigureSetExports). */
   @Column({ name: 'png_asset_id', type: 'uuid', nullable: true })
   pngAssetId: string | null;
@@ -36,5 +40,5 @@ export class FigureSetEntity {
 }
 
 export function toFigureSetDto(s: FigureSetEntity): FigureSetDto {
-  return { id: s.id, publicationId: s.publicationId, title: s.title, figureIds: s.figureIds, columns: s.columns, pngAssetId: s.pngAssetId ?? null, createdBy: s.createdBy, createdAt: s.createdAt.toISOString() };
+  return { id: s.id, publicationId: s.publicationId, title: s.title, figureIds: s.figureIds, columns: s.columns, caption: s.caption ?? null, pngAssetId: s.pngAssetId ?? null, createdBy: s.createdBy, createdAt: s.createdAt.toISOString() };
 }

@@ -7,6 +7,7 @@ export interface NewFigureSet {
   title: string;
   figureIds: string[];
   columns: number;
+  caption?: string | null;
   createdBy: string;
 }
 

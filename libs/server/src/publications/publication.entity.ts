@@ -18,7 +18,7 @@ export class PublicationEntity {
   @Column({ type: 'text', default: '' })
   description: string;
 
-  /** The length unit of this publication's figures (scale bars, captions): ångström or Bohr radius. */
+  /** The one length unit of this publication's figures (scale bars, section-map axes, radial plots). */
   @Column({ name: 'length_unit', type: 'varchar', length: 10, default: 'angstrom' })
   lengthUnit: LengthUnit;
 

@@ -3,7 +3,7 @@ import type { MigrationInterface, QueryRunner } from 'typeorm';
 /**
  * Issue "The workflows a publisher runs on", part 1: accounts that are invited (no password yet), deactivated, or
  * active; one-time links (invitation, password reset) stored only as a SHA-256 of the token; a role per
- * publication membership; a length unit per publication; audit entries about users, publications and house
+ * publication membership (the publication's length unit is FigureUnitsAndSetCaptions'); audit entries about users, publications and house
  * styles in the one audit table. Hand-written.
  */
 export class PeopleAndPublications1765584000000 implements MigrationInterface {
@@ -50,9 +50,6 @@ export class PeopleAndPublications1765584000000 implements MigrationInterface {
     await q.query(`ALTER TABLE "publication_members" ALTER COLUMN "role" SET NOT NULL`);
     await q.query(`ALTER TABLE "publication_members" ADD CONSTRAINT "ck_members_role" CHECK ("role" IN ('illustrator', 'editor', 'art_director', 'admin'))`);
 
-    await q.query(`ALTER TABLE "publications" ADD COLUMN "length_unit" varchar(10) NOT NULL DEFAULT 'angstrom'`);
-    await q.query(`ALTER TABLE "publications" ADD CONSTRAINT "ck_publications_length_unit" CHECK ("length_unit" IN ('angstrom', 'bohr'))`);
-
     // The one audit table also records changes to users, publications and house styles.
     await q.query(`ALTER TABLE "audit_entries" ALTER COLUMN "figure_id" DROP NOT NULL`);
     await q.query(`ALTER TABLE "audit_entries" ADD COLUMN "subject_kind" varchar(20) NOT NULL DEFAULT 'figure'`);
@@ -71,8 +68,6 @@ export class PeopleAndPublications1765584000000 implements MigrationInterface {
     await q.query(`ALTER TABLE "audit_entries" DROP COLUMN "subject_id"`);
     await q.query(`ALTER TABLE "audit_entries" DROP COLUMN "subject_kind"`);
     await q.query(`ALTER TABLE "audit_entries" ALTER COLUMN "figure_id" SET NOT NULL`);
-    await q.query(`ALTER TABLE "publications" DROP CONSTRAINT "ck_publications_length_unit"`);
-    await q.query(`ALTER TABLE "publications" DROP COLUMN "length_unit"`);
     await q.query(`DROP TRIGGER "tr_members_role_default" ON "publication_members"`);
     await q.query(`DROP FUNCTION "psiform_member_role_default"()`);
     await q.query(`ALTER TABLE "publication_members" DROP COLUMN "role"`);

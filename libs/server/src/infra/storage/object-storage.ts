@@ -44,5 +44,6 @@ export abstract class ObjectStorage {
   abstract listUnfinishedUploads(prefix: string): Promise<UnfinishedUpload[]>;
   /** Aborts a multipart upload: its parts are deleted. Aborting one that is gone is not an error. */
   abstract abortUpload(key: string, uploadId: string): Promise<void>;
-  abstract presignGet(key: string, expiresInSeconds: number): Promise<string>;
+  /** opts.disposition: the Content-Disposition the storage answers with (S3 response-content-disposition). */
+  abstract presignGet(key: string, expiresInSeconds: number, opts?: { disposition?: string }): Promise<string>;
 }

@@ -162,7 +162,8 @@ export class S3ObjectStorage extends ObjectStorage implements OnApplicationBoots
     }
   }
 
-  presignGet(key: string, expiresInSeconds: number): Promise<string> {
-    return getSignedUrl(this.client, new GetObjectCommand({ Bucket: this.bucket, Key: key }), { expiresIn: expiresInSeconds });
+  presignGet(key: string, expiresInSeconds: number, opts?: { disposition?: string }): Promise<string> {
+    const disposition = opts?.disposition ? { ResponseContentDisposition: opts.disposition } : {};
+    return getSignedUrl(this.client, new GetObjectCommand({ Bucket: this.bucket, Key: key, ...disposition }), { expiresIn: expiresInSeconds });
   }
 }
