@@ -5,7 +5,8 @@
 //
 // Options: --quick (N = 64, 128 only; for a smoke run)   --no-isosurface   --no-skimage   --only=render,apijob,...
 // Internal: --child-main256 (the N = 256 3d_z² measurement in its own process, for its peak RSS);
-//   --child-workermem=pooled|fresh (five consecutive worker mesh jobs in one process, RSS after each).
+//   --child-workermem=pooled|fresh (five consecutive worker mesh jobs in one process, RSS after each);
+//   --child-sparse512 (3d_z² at 512³ effective, coarse-to-fine, for its peak RSS). --all-rows: every topology row.
 
 import { spawnSync } from 'node:child_process';
 import * as fs from 'node:fs';
@@ -13,6 +14,8 @@ import { createRequire } from 'node:module';
 import * as os from 'node:os';
 import * as path from 'node:path';
 import { fileURLToPath } from 'node:url';
+import { exactSections } from './bench/exact.mjs';
+import { ensureDebianPackages } from './lib/system.mjs';
 
 const require = createRequire(import.meta.url);
 const HERE = path.dirname(fileURLToPath(import.meta.url));
@@ -175,6 +178,12 @@ function skimageAvailable() {
     return false;
   }
   const py = '/usr/bin/python3';
+  try {
+    // The peer comes from Debian (python3-skimage), installed here when missing (needs root, as npm start).
+    ensureDebianPackages(['python3-skimage']);
+  } catch (err) {
+    console.log(`  (could not install python3-skimage: ${err.message.split('\n')[0]})`);
+  }
   const r = spawnSync(py, ['-c', 'import skimage, numpy; print(skimage.__version__)'], { encoding: 'utf8' });
   skimageState = r.status === 0;
   results.skimageNote = skimageState ? `scikit-image ${r.stdout.trim()} (Debian python3-skimage, /usr/bin/python3)` : `skipped: /usr/bin/python3 has no skimage (${(r.stderr || '').trim().split('\n').pop()})`;
@@ -549,16 +558,25 @@ function summary() {
   if (results.liveMeanMs !== undefined) rows.push(['live preview 128³, mean per update', fmt(results.liveMeanMs) + ' ms', `< ${TARGETS.livePreviewMs} ms`, verdict(results.liveMeanMs < TARGETS.livePreviewMs)]);
   if (results.apiMeshMs !== undefined) rows.push(['API POST …/meshes -> completed, 192³', fmt(results.apiMeshMs, 0) + ' ms', '< 2000 ms', verdict(results.apiMeshMs < 2000)]);
   if (results.renderWarmMs !== undefined) rows.push(['render + encode 4252 × 2835 (warm browser)', fmt(results.renderWarmMs, 0) + ' ms', '< 5000 ms', verdict(results.renderWarmMs < 5000)]);
+  rows.push(...EXACT.summaryRows(verdict));
   table(['target', 'measured', 'target', 'verdict'], rows);
   console.log(`\n  machine: ${os.cpus()[0]?.model ?? 'cpu'} × ${os.cpus().length}, Node ${process.version}; bench process peak RSS ${fmt(mb(peakRssKb()))} MB (VmHWM; process.resourceUsage().maxRSS says ${fmt(mb(process.resourceUsage().maxRSS))} MB)`);
 }
 
+// Exact surfaces (scripts/bench/exact.mjs): geometric error, coarse-to-fine cost and memory, topology.
+const EXACT = exactSections({ orbitals, meshing, table, heading, fmt, results, ARGS, HERE, extractSkimage, skimageAvailable, peakRssKb, now });
+const { sectionExact, sectionSparse, sectionTopology } = EXACT;
+
 // Order matters only for readability; each section is independent.
-const SECTIONS = [sectionSampling, sectionExtraction, sectionMemory, sectionWorkerMemory, sectionLivePreview, sectionApiJob, sectionRender];
+const SECTIONS = [sectionSampling, sectionExtraction, sectionMemory, sectionWorkerMemory, sectionLivePreview, sectionApiJob, sectionRender, sectionExact, sectionSparse, sectionTopology];
 
 async function main() {
   if (ARGS.has('--child-main256')) {
     await childMain256();
+    return;
+  }
+  if (ARGS.has('--child-sparse512')) {
+    await EXACT.childSparse512();
     return;
   }
   const workerMem = process.argv.find((a) => a.startsWith('--child-workermem='));
@@ -569,7 +587,8 @@ async function main() {
   const t0 = now();
   console.log(`Psiform bench (sizes ${SIZES.join(', ')}; enclosed fraction ${FRACTION}; libs from dist)`);
   console.log(`  load average at start: ${loadNote()}`);
-  // --only=render,api runs just those sections (names: sampling, extraction, memory, workermemory, livepreview, apijob, render).
+  // --only=render,api runs just those sections (names: sampling, extraction, memory, workermemory, livepreview, apijob,
+  // render, exact, sparse, topology).
   const only = process.argv.find((a) => a.startsWith('--only='))?.slice(7).toLowerCase().split(',');
   for (const section of SECTIONS) {
     if (only && !only.some((o) => section.name.toLowerCase() === `section${o}`)) continue;

@@ -7,7 +7,7 @@ import { TEST_PACKAGES, ensureDebianPackages } from './lib/system.mjs';
 import { buildAll, ensureNodeModules } from './lib/npm.mjs';
 import { ROOT, layout, startServices } from './lib/services.mjs';
 import { migrateAndSeed, startApps } from './lib/apps.mjs';
-import { runCapture } from './lib/proc.mjs';
+import { runCapture, stopRunners } from './lib/proc.mjs';
 import { parseCounts } from './lib/counts.mjs';
 import { fail, log, ok } from './lib/log.mjs';
 
@@ -17,6 +17,7 @@ const cleanups = [];
 let dataDir;
 
 async function cleanup() {
+  stopRunners();
   for (const c of cleanups.reverse()) {
     try { await c(); } catch (e) { fail(`clean-up: ${e.message}`); }
   }
@@ -26,11 +27,15 @@ async function cleanup() {
 process.on('SIGINT', async () => { await cleanup(); process.exit(130); });
 process.on('SIGTERM', async () => { await cleanup(); process.exit(143); });
 
+// Each suite has a time limit, so one hung runner fails its suite with a clear line instead of stalling the run.
+// Generous: about three times what the suite takes on a quiet two-core machine (PSIFORM_SUITE_MINUTES overrides).
+const SUITE_MINUTES = { e2e: 45, api: 30, worker: 20, web: 15, meshing: 15, cli: 15 };
 async function suite(name, runner, cmd, args, opts = {}) {
   if (only.length && !only.includes(name)) return;
   log(`── suite ${name} (${runner}) ──`);
   const t0 = Date.now();
-  const { code, out } = await runCapture(cmd, args, { cwd: ROOT, ...opts, env: { ...process.env, ...opts.env } });
+  const minutes = Number(process.env.PSIFORM_SUITE_MINUTES) || SUITE_MINUTES[name] || 10;
+  const { code, out } = await runCapture(cmd, args, { cwd: ROOT, ...opts, env: { ...process.env, ...opts.env }, timeoutMs: minutes * 60_000 });
   const counts = parseCounts(runner, out);
   const bad = code !== 0 || counts.failed > 0 || counts.passed === 0; // a suite that ran no test is a failure
   results.push({ name, runner, ...counts, code, seconds: (Date.now() - t0) / 1000, bad });
@@ -56,14 +61,15 @@ try {
   for (const [name, dir] of [['contracts', 'libs/contracts'], ['colour', 'libs/colour'], ['orbitals', 'libs/orbitals'], ['meshing', 'libs/meshing'], ['print', 'libs/print'], ['cli', 'apps/cli'], ['web', 'apps/web']]) {
     await suite(name, 'vitest', vitest, ['run'], { cwd: path.join(ROOT, dir), env });
   }
-  await suite('server', 'jest', jest, ['--runInBand', '--ci'], { cwd: path.join(ROOT, 'libs/server'), env });
-  await suite('api', 'jest', jest, ['--runInBand', '--ci'], { cwd: path.join(ROOT, 'apps/api'), env });
-  await suite('worker', 'jest', jest, ['--runInBand', '--ci'], { cwd: path.join(ROOT, 'apps/worker'), env });
+  // --forceExit: a spec that leaves a handle open (a child process, a socket) must not keep the runner alive.
+  await suite('server', 'jest', jest, ['--runInBand', '--ci', '--forceExit'], { cwd: path.join(ROOT, 'libs/server'), env });
+  await suite('api', 'jest', jest, ['--runInBand', '--ci', '--forceExit'], { cwd: path.join(ROOT, 'apps/api'), env });
+  await suite('worker', 'jest', jest, ['--runInBand', '--ci', '--forceExit'], { cwd: path.join(ROOT, 'apps/worker'), env });
 
   if (!only.length || only.includes('e2e')) {
     const apps = await startApps(svc.env, { port: lay.ports.app, logDir: svc.logDir, workers: 1 });
     cleanups.push(apps.stopApps);
-    await suite('e2e', 'node', process.execPath, ['--test', '--test-concurrency=1', 'test/e2e/'], {
+    await suite('e2e', 'node', process.execPath, ['--test', '--test-concurrency=1', '--test-timeout=600000', 'test/e2e/'], {
       env: { ...env, PSIFORM_URL: apps.url, PSIFORM_LOG_DIR: svc.logDir },
     });
   }

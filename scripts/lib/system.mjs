@@ -18,6 +18,8 @@ const PACKAGES = [
   // Build tools for `npm run icc:rebuild` only (argyll is AGPL: used to build assets/icc, never shipped).
   { name: 'argyll', present: () => commandExists('colprof'), purpose: 'build' },
   { name: 'icc-profiles-free', present: () => existsSync('/usr/share/color/icc/FOGRA39L.ti3'), purpose: 'build' },
+  // scikit-image: the bench's peer for marching cubes (`npm run bench` installs it).
+  { name: 'python3-skimage', present: () => pythonHas('skimage'), purpose: 'bench' },
 ];
 
 /** Names of the packages `npm start` needs (`run`) and those `npm test` needs on top (`test`). */

@@ -66,7 +66,8 @@ export async function newPage(browser) {
   const requests = [];
   page.on('pageerror', (err) => errors.push(err));
   page.on('request', (req) => requests.push(req.url()));
-  page.setDefaultTimeout(15_000);
+  // Generous: a wait polls its condition, and the first page of a run compiles shaders on a busy machine.
+  page.setDefaultTimeout(30_000);
   return { context, page, errors, requests };
 }
 

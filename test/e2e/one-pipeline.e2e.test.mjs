@@ -2,7 +2,9 @@
 // (apps/cli/bin/psiform.js) and the Studio's preview Web Worker (the built bundle apps/web/dist/assets/
 // preview.worker-*.js, run in a Node worker thread with a `self` stand-in) all call @psiform/meshing's
 // recipeToSurfaces and colour with @psiform/colour's phaseColoursInto. Positions, triangles and vertex colours
-// must agree to the bit. Needs the whole stack (PSIFORM_URL) and the built CLI and client.
+// must agree to the bit: the worker and the CLI at the 3D-file tolerance, the preview (which projects its
+// vertices but splits nothing, to stay quick) with the CLI at --tolerance none. Needs the whole stack
+// (PSIFORM_URL) and the built CLI and client.
 import assert from 'node:assert/strict';
 import { spawnSync } from 'node:child_process';
 import * as fs from 'node:fs';
@@ -12,6 +14,7 @@ import { test } from 'node:test';
 import { fileURLToPath, pathToFileURL } from 'node:url';
 import { Worker } from 'node:worker_threads';
 import { baseUrl, DEMO_ILLUSTRATOR } from './browser.mjs';
+import { readGlb } from './glb.mjs';
 
 const ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '../..');
 
@@ -24,32 +27,6 @@ async function api(method, route, token, body) {
   const text = await res.text();
   if (!res.ok) throw new Error(`${method} ${route} answered ${res.status}: ${text.slice(0, 300)}`);
   return text ? JSON.parse(text) : null;
-}
-
-/** Meshes of a GLB per phase: positions, indices, COLOR_0 (interleaving and offsets per glTF 2.0 §3.6). */
-function readGlb(bytes) {
-  const dv = new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength);
-  assert.equal(dv.getUint32(0, true), 0x46546c67, 'GLB magic');
-  const jsonLen = dv.getUint32(12, true);
-  const json = JSON.parse(new TextDecoder().decode(bytes.subarray(20, 20 + jsonLen)));
-  const bin = 20 + jsonLen + 8;
-  const read = (index, comps) => {
-    const acc = json.accessors[index];
-    const view = json.bufferViews[acc.bufferView];
-    const stride = view.byteStride ?? 4 * comps;
-    const base = bin + (view.byteOffset ?? 0) + (acc.byteOffset ?? 0);
-    const out = acc.componentType === 5125 ? new Uint32Array(acc.count * comps) : new Float32Array(acc.count * comps);
-    for (let i = 0; i < acc.count; i++)
-      for (let k = 0; k < comps; k++) out[i * comps + k] = acc.componentType === 5125 ? dv.getUint32(base + i * stride + 4 * k, true) : dv.getFloat32(base + i * stride + 4 * k, true);
-    return out;
-  };
-  const out = {};
-  for (const m of json.meshes) {
-    if (!m.extras?.phase) continue;
-    const p = m.primitives[0];
-    out[m.extras.phase] = { positions: read(p.attributes.POSITION, 3), indices: read(p.indices, 1), colors: read(p.attributes.COLOR_0, 3) };
-  }
-  return out;
 }
 
 /** Runs the built preview worker bundle in a worker thread; resolves with its 'surface' answer. */
@@ -121,6 +98,10 @@ test('worker job, CLI and preview worker give the same vertices, triangles and c
       const r = spawnSync(process.execPath, [path.join(ROOT, 'apps/cli/bin/psiform.js'), 'mesh', '--recipe', path.join(dir, 'r.json'), '--out', out, '--json'], { encoding: 'utf8', timeout: 120_000 });
       assert.equal(r.status, 0, `CLI: ${r.stderr}`);
       const fromCli = readGlb(new Uint8Array(fs.readFileSync(out)));
+      const outNone = path.join(dir, 'cli-none.glb');
+      const rn = spawnSync(process.execPath, [path.join(ROOT, 'apps/cli/bin/psiform.js'), 'mesh', '--recipe', path.join(dir, 'r.json'), '--out', outNone, '--tolerance', 'none'], { encoding: 'utf8', timeout: 120_000 });
+      assert.equal(rn.status, 0, `CLI --tolerance none: ${rn.stderr}`);
+      const fromCliNone = readGlb(new Uint8Array(fs.readFileSync(outNone)));
       const fromPreview = await preview(recipe);
 
       assert.deepEqual(Object.keys(fromCli).sort(), Object.keys(fromWorker).sort());
@@ -128,13 +109,16 @@ test('worker job, CLI and preview worker give the same vertices, triangles and c
         const w = fromWorker[phase];
         const c = fromCli[phase];
         const p = fromPreview.surfaces.find((s) => s.phase === phase);
+        const n = fromCliNone[phase];
         assert.ok(p, `the preview has the ${phase} surface`);
         sameArray(c.positions, w.positions, `${input.label} ${phase} positions, CLI vs worker`);
         sameArray(c.indices, w.indices, `${input.label} ${phase} triangles, CLI vs worker`);
         sameArray(c.colors, w.colors, `${input.label} ${phase} colours, CLI vs worker`);
-        sameArray(p.positions, w.positions, `${input.label} ${phase} positions, preview vs worker`);
-        sameArray(p.indices, w.indices, `${input.label} ${phase} triangles, preview vs worker`);
-        sameArray(p.colors, w.colors, `${input.label} ${phase} colours (linear), preview vs worker`);
+        sameArray(p.positions, n.positions, `${input.label} ${phase} positions, preview vs CLI --tolerance none`);
+        sameArray(p.indices, n.indices, `${input.label} ${phase} triangles, preview vs CLI --tolerance none`);
+        sameArray(p.colors, n.colors, `${input.label} ${phase} colours (linear), preview vs CLI --tolerance none`);
+        // The refined mesh keeps every projected vertex of the unrefined one, first and in order.
+        sameArray(w.positions.subarray(0, n.positions.length), n.positions, `${input.label} ${phase} projected vertices kept by refinement`);
       }
       // And the claims agree: level, all-space fraction and warnings.
       const cli = JSON.parse(r.stdout);

@@ -207,7 +207,7 @@ describe('exports (e2e)', () => {
     expect(bundle.assets[0].kind).toBe('bundle');
     const files = unzipSync(await download(bundle.assets[0].id));
     // The demo book's delivery profile takes TIFF and PDF, so the bundle carries them and its preflight report too.
-    expect(Object.keys(files).sort()).toEqual(['PREFLIGHT.txt', 'README.txt', 'figure.glb', 'figure.png', 'figure.stl', 'figure.tif', 'metadata.json', 'preflight.json', 'radial.pdf', 'radial.svg', 'recipe.json']);
+    expect(Object.keys(files).sort()).toEqual(['PREFLIGHT.txt', 'README.txt', 'figure-screen.glb', 'figure.glb', 'figure.png', 'figure.stl', 'figure.tif', 'metadata.json', 'preflight.json', 'radial.pdf', 'radial.svg', 'recipe.json']);
     const meta = JSON.parse(strFromU8(files['metadata.json']));
     expect(meta.model.note).toMatch(/one-electron hydrogen-like model/);
     expect(meta.surface).toMatchObject({ rule: 'enclosed', target: 0.9 });

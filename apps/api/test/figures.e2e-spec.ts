@@ -169,7 +169,10 @@ describe('figures (e2e)', () => {
     expect(bull?.opts.backoff).toEqual({ type: 'exponential', delay: 1000 });
     await t.http().get(`/api/jobs/${jobId}`).set(auth(outsider)).expect(404);
     await t.http().get(`/api/jobs/${jobId}/events`).set(auth(outsider)).expect(404);
-    // Nobody processes it in this file: remove it so no later worker picks it up.
-    await bull?.remove();
+    // Nobody processes it in this file: remove it so no later worker picks it up. (Clean-up only: a worker another
+    // spec left running may already hold it, and then it finishes the job itself.)
+    await bull?.remove().catch((err: Error) => {
+      if (!/locked/.test(err.message)) throw err;
+    });
   });
 });

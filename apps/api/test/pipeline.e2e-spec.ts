@@ -126,6 +126,21 @@ describe('mesh pipeline (e2e)', () => {
     expect(stlBytes.length).toBe(84 + 50 * triangles);
   });
 
+  it('a box that cuts the surface is said in the job result: warnings with the box to widen to, all-space and in-box fractions', async () => {
+    const recipe = { version: 1, content: { Z: 1, terms: [{ n: 2, l: 1, m: 0, basis: 'real', re: 1 }] }, grid: { n: 48, extent: 3 }, surface: { rule: 'enclosed', fraction: 0.9 } };
+    const job = await finished(await queueMesh(await createFigure('2p_z in a narrow box', recipe)), 120000);
+    expect(job.state).toBe('completed');
+    const box = job.warnings!.find((w) => w.code === 'box-cuts-surface')!;
+    expect(box.message).toMatch(/box/);
+    expect(box.suggestedExtent).toBeGreaterThan(3);
+    const stats = job.assets.find((a) => a.kind === 'glb')!.stats!;
+    // 90% over all space (the level solved against the whole state), of which the ±3 a0 cube holds visibly less.
+    expect(stats.enclosed).toBeCloseTo(0.9, 6);
+    expect(stats.enclosedInBox!).toBeLessThan(0.8);
+    expect(stats.warnings!.map((w) => w.code)).toContain('box-cuts-surface');
+    expect(stats.units).toMatchObject({ length: expect.stringContaining('a0') });
+  });
+
   it('a non-member gets 404 for the figure, its job, its event stream and its downloads; the link endpoint gives 5 minutes', async () => {
     const figureId = await createFigure('Members only', smallRecipe({ label: 'members-only' }));
     const jobId = await queueMesh(figureId);

@@ -17,7 +17,9 @@ export { DEMO_PASSWORD, DEMO_USERS, DEMO_PUBLICATION } from '../src/seed/demo-sc
  */
 export function e2eConfig(overrides: Record<string, string> = {}): AppConfig {
   try {
-    return loadConfig({ ...process.env, PORT: '0', ...overrides });
+    // General rate limits off unless a spec sets them: specs poll jobs many times a second from one account, and
+    // security.e2e-spec exercises the limit itself with its own setting.
+    return loadConfig({ ...process.env, PORT: '0', RATE_LIMIT_PER_MINUTE: '0', ...overrides });
   } catch (err) {
     throw new Error(
       `E2E tests need the service environment (the test runner sets it; see DEVELOPERS.md): ${(err as Error).message}`,

@@ -30,13 +30,12 @@ export interface MeshReport {
   timings_ms: Record<string, number>;
 }
 
-export async function meshForRecipe(recipe: Recipe, opts: { threads: number; maxN?: number }): Promise<MeshReport> {
+export async function meshForRecipe(recipe: Recipe, opts: { threads: number; maxN?: number; tolerance?: number | 'file' }): Promise<MeshReport> {
   let result: SurfacesResult;
   try {
-    result = await recipeToSurfaces(recipe, {
-      maxN: opts.maxN,
-      sample: (state, grid) => sampleGridParallel(state, { n: grid.n, extent: bohr(grid.extent) }, { threads: opts.threads }),
-    });
+    // Coarse-to-fine sampling (the pipeline's own: only blocks the surface can cross, so no dense grid in memory)
+    // and the 3D-file tolerance (libs/meshing tolerance.ts).
+    result = await recipeToSurfaces(recipe, { maxN: opts.maxN, tolerance: opts.tolerance ?? 'file' });
   } catch (err) {
     if (err instanceof RangeError) throw new UsageError(oneLine(err.message));
     throw err;

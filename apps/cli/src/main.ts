@@ -24,20 +24,30 @@ function print(text: string): void {
   process.stdout.write(text.endsWith('\n') ? text : text + '\n');
 }
 
+/** --tolerance: 'file' (the 3D-file default), 'none' (vertices projected, nothing split) or a length in a0. */
+function toleranceOption(raw: string | undefined): number | 'file' {
+  if (raw === undefined || raw === 'file') return 'file';
+  if (raw === 'none') return Infinity;
+  const x = parseNumberOption('--tolerance', raw);
+  if (!(x > 0)) throw new UsageError(`--tolerance must be 'file', 'none' or a positive length in a0 (got ${raw})`);
+  return x;
+}
+
 function spec(...parts: OptionSpec[]): OptionSpec {
   return Object.assign({ help: { type: 'boolean', short: 'h' } }, ...parts);
 }
 
 async function cmdMesh(argv: string[]): Promise<void> {
-  const v = parseCommandArgs('mesh', argv, spec(STATE_OPTION_SPEC, SURFACE_OPTION_SPEC, { out: { type: 'string' }, json: { type: 'boolean' }, threads: { type: 'string' } }));
+  const v = parseCommandArgs('mesh', argv, spec(STATE_OPTION_SPEC, SURFACE_OPTION_SPEC, { out: { type: 'string' }, json: { type: 'boolean' }, threads: { type: 'string' }, tolerance: { type: 'string' } }));
   if (v.help) return print(COMMAND_HELP.mesh);
+  const tolerance = toleranceOption(v.tolerance as string | undefined);
   const threads = threadsOption(v.threads as string | undefined);
   const recipe = resolveRecipe(v as StateOptions, { withSurface: true });
   const ext = v.out !== undefined ? checkOutPath(v.out as string, MESH_EXTS) : undefined;
   const state = stateOfRecipe(recipe);
   if (recipe.grid.n !== 'auto') ensureGridFits(recipe.grid.n, !state.isReal);
 
-  const report = await meshForRecipe(recipe, { threads, maxN: largestGridWithinBudget(!state.isReal) });
+  const report = await meshForRecipe(recipe, { threads, maxN: largestGridWithinBudget(!state.isReal), tolerance });
   let written: { file: string; bytes: number } | undefined;
   if (ext !== undefined) {
     const t0 = performance.now();

@@ -123,6 +123,8 @@ export interface JobDto {
   error?: string | null;
   figureId?: string | null;
   assets: AssetDto[];
+  /** What the job's files cannot show truthfully: every distinct warning on its assets' mesh summaries. */
+  warnings?: SurfaceWarningDto[];
   timings?: Record<string, number> | null;
   createdAt: string;
   updatedAt: string;

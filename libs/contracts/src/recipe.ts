@@ -60,7 +60,7 @@ export const termSchema = z
     l: z.number().int({ message: 'l must be an integer' }).min(0, { message: 'l must be at least 0' }),
     m: z.number().int({ message: 'm must be an integer' }),
     /** 'complex': Y_lm with the Condon–Shortley phase; 'real': the chemists' real combination (m>0 cos-type, m<0 sin-type). */
-    basis: z.enum(['complex', 'real']),
+    basis: z.enum(['complex', 'real']).describe("'complex': Y_lm with the Condon–Shortley phase; 'real': the real form (m > 0 cos type, m < 0 sin type, (-1)^m as in ENGINE_CONVENTIONS)."),
     /**
      * Complex coefficient c_k of this term in Σ c_k ψ_k. Coefficients are relative weights: the engine applies ONE
      * normalisation rule, once (@psiform/orbitals compileState): it scales them so that Σ|c|² = 1 over the
@@ -68,7 +68,7 @@ export const termSchema = z
      * eigenstates are each already normalised). Two real 2p terms with coefficient 1 therefore mean 1/√2 each.
      * Every level, density, NRRD value and enclosed fraction refers to the normalised state.
      */
-    re: finite('re'),
+    re: finite('re').describe('Real part of the relative coefficient; the engine normalises once so that sum |c|^2 = 1 over the orthonormal complex-Y_lm expansion.'),
     im: finite('im').default(0),
   })
   .superRefine((t, ctx) => {
@@ -239,7 +239,7 @@ export const recipeSchema = z.strictObject({
   canvas: canvasSchema.default({ widthMm: 89, heightMm: 60, dpi: 300 }),
   /** Optional; absent means computed from content (backwards compatible). */
   source: recipeSourceSchema.optional(),
-});
+}).describe(`A figure recipe. One-electron hydrogen-like model; lengths in Bohr radii a0, |psi| in a0^-3/2. ${ENGINE_CONVENTIONS}`);
 
 export type Recipe = z.infer<typeof recipeSchema>;
 export type RecipeInput = z.input<typeof recipeSchema>;

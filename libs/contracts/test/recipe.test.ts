@@ -245,3 +245,16 @@ describe('grid and palette wheel (issue: truthful figures)', () => {
     expect(!bad.ok && formatRecipeIssues(bad.issues)).toEqual(['palette.wheel.lightness: wheel.lightness must be between 0 and 1 (OKLCH L)']);
   });
 });
+
+describe('the recipe as documented (the API docs convert this schema with zod toJSONSchema)', () => {
+  it('states the sign conventions, the units and the normalisation rule', async () => {
+    const { z } = await import('zod');
+    const { recipeSchema, ENGINE_CONVENTIONS } = await import('../src/recipe');
+    const doc = z.toJSONSchema(recipeSchema, { io: 'input', unrepresentable: 'any' }) as { description: string; properties: { content: { properties: { terms: { items: { properties: { re: { description: string }; basis: { description: string } } } } } } } };
+    expect(doc.description).toContain(ENGINE_CONVENTIONS);
+    expect(doc.description).toContain('Bohr radii a0');
+    const term = doc.properties.content.properties.terms.items.properties;
+    expect(term.re.description).toMatch(/normalises once/);
+    expect(term.basis.description).toMatch(/Condon–Shortley/);
+  });
+});

@@ -10,3 +10,7 @@ export * from './nodal';
 export * from './encoders';
 export * from './nrrd';
 export * from './sections';
+export * from './refine';
+export * from './sparse';
+export * from './tolerance';
+export * from './optimise';

@@ -9,7 +9,7 @@
 // vertices through per-slab edge caches (indexed mesh), writes into growable typed buffers and
 // skips blocks of cells whose corners cannot straddle the level.
 
-import { CORNER_OFFSETS, EDGE_TABLE, TRI_TABLE } from './mc-tables';
+import { CDX, CDY, CDZ, EDGE_AXIS, EDGE_HI, EDGE_LO, EDGE_TABLE, TRI_TABLE } from './mc-tables';
 import type { Mesh } from './mesh';
 
 export interface GridDims {
@@ -50,13 +50,6 @@ export interface ExtractInfo {
   blocksActive: number;
 }
 
-// Per edge of the cell: axis (0 x, 1 y, 2 z) and its lower / upper corner (Bourke numbering).
-const EDGE_AXIS = new Int8Array([0, 1, 0, 1, 0, 1, 0, 1, 2, 2, 2, 2]);
-const EDGE_LO = new Int8Array([0, 1, 3, 0, 4, 5, 7, 4, 0, 1, 2, 3]);
-const EDGE_HI = new Int8Array([1, 2, 2, 3, 5, 6, 6, 7, 4, 5, 6, 7]);
-const CDX = new Int8Array(CORNER_OFFSETS.map((c) => c[0]));
-const CDY = new Int8Array(CORNER_OFFSETS.map((c) => c[1]));
-const CDZ = new Int8Array(CORNER_OFFSETS.map((c) => c[2]));
 
 function checkInputs(field: Float32Array, dims: GridDims, geom: GridGeometry, level: number, opts: ExtractOptions): void {
   const { nx, ny, nz } = dims ?? ({} as GridDims);

@@ -298,3 +298,11 @@ export const CORNER_OFFSETS: readonly (readonly [number, number, number])[] = [
 export const EDGE_CORNERS: readonly (readonly [number, number])[] = [
   [0, 1], [1, 2], [2, 3], [3, 0], [4, 5], [5, 6], [6, 7], [7, 4], [0, 4], [1, 5], [2, 6], [3, 7],
 ];
+
+// Per edge of the cell: axis (0 x, 1 y, 2 z) and its lower / upper corner (Bourke numbering).
+export const EDGE_AXIS = new Int8Array([0, 1, 0, 1, 0, 1, 0, 1, 2, 2, 2, 2]);
+export const EDGE_LO = new Int8Array([0, 1, 3, 0, 4, 5, 7, 4, 0, 1, 2, 3]);
+export const EDGE_HI = new Int8Array([1, 2, 2, 3, 5, 6, 6, 7, 4, 5, 6, 7]);
+export const CDX = new Int8Array(CORNER_OFFSETS.map((c) => c[0]));
+export const CDY = new Int8Array(CORNER_OFFSETS.map((c) => c[1]));
+export const CDZ = new Int8Array(CORNER_OFFSETS.map((c) => c[2]));

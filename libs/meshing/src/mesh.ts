@@ -91,3 +91,59 @@ export function mergeMeshes(parts: readonly Mesh[]): Mesh {
   }
   return phaseAngle ? { positions, normals, indices, phaseAngle } : { positions, normals, indices };
 }
+
+/**
+ * Edge key (a non-negative integer below 2^52, e.g. lattice point × 3 + axis, or vertex a × 2^26 + vertex b) -> int32:
+ * open addressing with linear probing on typed arrays (Knuth, TAOCP vol. 3,
+ * sec. 6.4, algorithm L), several times faster than a Map (whose large-number keys are heap
+ * objects) for the millions of lookups of a fine grid or a refinement round.
+ */
+export class EdgeTable {
+  private keys: Float64Array;
+  private vals: Int32Array;
+  size = 0;
+  private mask: number;
+  /** capacity: expected number of keys (the table starts at twice that, a power of two). */
+  constructor(capacity = 8192) {
+    let cap = 1 << 14;
+    while (cap < 2 * capacity && cap < 1 << 28) cap *= 2;
+    this.keys = new Float64Array(cap).fill(-1);
+    this.vals = new Int32Array(cap);
+    this.mask = cap - 1;
+  }
+  private slot(key: number): number {
+    // Fibonacci hashing of the key's low and high 26 bits.
+    const lo = key % 67108864;
+    const hi = (key - lo) / 67108864;
+    let i = (Math.imul(lo ^ Math.imul(hi, 0x27d4eb2d), 0x9e3779b1) >>> 0) & this.mask;
+    while (this.keys[i] !== -1 && this.keys[i] !== key) i = (i + 1) & this.mask;
+    return i;
+  }
+  /** The value stored for key, or -1 when there is none (so -1 is never stored as a value). */
+  get(key: number): number {
+    const i = this.slot(key);
+    return this.keys[i] === key ? this.vals[i] : -1;
+  }
+  set(key: number, val: number): void {
+    if (2 * (this.size + 1) > this.keys.length) this.grow();
+    const i = this.slot(key);
+    if (this.keys[i] !== key) {
+      this.keys[i] = key;
+      this.size++;
+    }
+    this.vals[i] = val;
+  }
+  /** Calls fn for every stored key and value (in table order). */
+  forEach(fn: (key: number, val: number) => void): void {
+    for (let i = 0; i < this.keys.length; i++) if (this.keys[i] !== -1) fn(this.keys[i], this.vals[i]);
+  }
+  private grow(): void {
+    const ok = this.keys;
+    const ov = this.vals;
+    this.keys = new Float64Array(ok.length * 2).fill(-1);
+    this.vals = new Int32Array(ok.length * 2);
+    this.mask = this.keys.length - 1;
+    this.size = 0;
+    for (let i = 0; i < ok.length; i++) if (ok[i] !== -1) this.set(ok[i], ov[i]);
+  }
+}

@@ -12,7 +12,12 @@
 //   extracting marching cubes per phase on each grid, no box caps; automatic grids are refined where the mesh's
 //              topology differs from the surface's (known from analyseSurface for one-(n, l) states, or checked
 //              by refinement for superpositions)
-//   refining   hooks.refine (identity today; the seam for projecting vertices onto the analytic surface)
+//   refining   every vertex projected onto the analytic level set (safeguarded Newton), normals from the analytic
+//              gradient, edges split until every chord lies within the tolerance the output needs (refine.ts);
+//              hooks.refine replaces this stage
+// Sampling is coarse-to-fine (sparse.ts) unless a caller brings its own sampler: an octree with safe interval
+// bounds of psi (@psiform/orbitals fieldBound) samples only the blocks the surface can cross, so the grid can be
+// fine while the work follows the surface's area.
 //   statistics mesh statistics, topology found against expected, warnings
 
 import {
@@ -27,13 +32,16 @@ import {
   type SurfaceFeature,
   type Term,
 } from '@psiform/orbitals';
-import { enclosedFractionAt, enclosedThreshold } from '@psiform/orbitals';
+import { enclosedFractionAt, enclosedThreshold, fieldBound } from '@psiform/orbitals';
 import { ENGINE_CONVENTIONS, type MeshStatsDto } from '@psiform/contracts';
 import { extractIsosurface } from './marching-cubes';
 import { mergeMeshes, type Mesh } from './mesh';
 import { extractNodalSurface } from './nodal';
-import { cubeGeometry, extractOrbitalSurfaces, type CubeGrid, type Phase, type PhaseSurface } from './orbital-surfaces';
+import { cubeGeometry, type CubeGrid, type Phase, type PhaseSurface } from './orbital-surfaces';
 import { meshStats, type MeshStats } from './stats';
+import { levelFunction, meshDeviation, projectMesh, refineMesh, type ProjectInfo, type RefineInfo } from './refine';
+import { extractSparse, type BlockField, type SparseInfo } from './sparse';
+import { fileTolerance, printTolerance, type OutputScale } from './tolerance';
 
 /** The model every figure states. */
 export const MODEL_NOTE =
@@ -103,10 +111,21 @@ export interface SurfaceHooks {
   nodal?: boolean;
   /** Skip mesh statistics (timings_ms.statistics is then 0; topology is not compared). */
   stats?: boolean;
+  /** Kept for older callers: normals are always analytic now (the refining stage writes -grad F at every vertex). */
   normals?: 'analytic' | 'field';
+  /**
+   * Largest distance (a0) the mesh may lie from the true surface (vertices, edge midpoints, triangle centroids);
+   * 'file': the 3D-file default (tolerance.ts fileTolerance). Default: from `output` (a quarter pixel,
+   * printTolerance), else none: the vertices are projected onto the surface and nothing is split (the preview).
+   */
+  tolerance?: number | 'file';
+  /** The image the surfaces are drawn into (exports): sets the tolerance when `tolerance` is not given. */
+  output?: OutputScale;
+  /** Limit on triangles per surface while refining (default 4 M); reaching it is reported as a warning. */
+  maxTriangles?: number;
 }
 
-export type WarningCode = 'box-cuts-surface' | 'feature-unresolved' | 'topology-mismatch' | 'topology-unverified' | 'measured-in-cube';
+export type WarningCode = 'box-cuts-surface' | 'feature-unresolved' | 'topology-mismatch' | 'topology-unverified' | 'measured-in-cube' | 'tolerance-unmet';
 
 export interface SurfaceWarning {
   code: WarningCode;
@@ -166,7 +185,30 @@ export interface SurfacesResult {
   };
   features: { smallest: { kind: string; size: number; description: string } | null; radialNodes: number[][]; ring: boolean };
   warnings: SurfaceWarning[];
+  /** How exact the surfaces are (computed states; null for uploaded cubes, which have no analytic field). */
+  refinement: SurfaceRefinement | null;
+  /** The analytic field the surfaces lie on (computed states; null for uploads): for checks and the screen GLB. */
+  field: CompiledState | null;
+  /** How psi was sampled: 'sparse' (coarse-to-fine, blocks the surface can cross) or 'dense' (every grid point). */
+  sampling: { method: 'sparse' | 'dense'; points: number; densePoints: number; blocksActive: number; blocksTotal: number };
   timings_ms: Record<SurfaceStage | 'plan', number>;
+}
+
+export interface SurfaceRefinement {
+  /** The distance (a0) asked for, and where it came from. */
+  tolerance: number;
+  toleranceFrom: 'caller' | 'print' | '3D file' | 'none';
+  /** The surface's half-width (a0) the print and 3D-file tolerances scale with (tolerance.ts). */
+  surfaceHalfWidth: number;
+  /** Largest first-order distance |F| / |grad F| of vertices, edge midpoints and centroids from the surface (a0); NaN: not measured. */
+  maxDeviation: number;
+  /** Vertices projected, and those whose Newton iteration failed (left where marching cubes put them). */
+  projected: number;
+  projectionFailed: number;
+  trianglesBefore: number;
+  trianglesAfter: number;
+  rounds: number;
+  met: boolean;
 }
 
 function fmt(x: number): string {
@@ -335,44 +377,137 @@ function extractionField(plan: SurfacePlan, region: GridRegion, field: SampledFi
   const h = (2 * extent) / (n - 1);
   const f = field.re;
   const im = field.im;
-  const a = plan.analysis;
-  const nodes = a ? a.radialNodes : [];
-  const cones = a && a.field === 'signed' && !plan.compiled.isReal && a.nodalCones ? a.nodalCones.map(Math.cos) : null;
-  const signedRadial = !plan.compiled.isReal && a !== null;
-  const rMin = region.rMin;
-  const rMax = region.rMax ?? Infinity;
-  const masked = rMin > 0 || Number.isFinite(rMax);
-  if (plan.compiled.isReal && !masked) return f;
+  const rule = extractionRule(plan, region);
+  if (!rule) return f;
   for (let iz = 0, i = 0; iz < n; iz++) {
     const z = -extent + iz * h;
     for (let iy = 0; iy < n; iy++) {
       const y = -extent + iy * h;
-      const s2 = y * y + z * z;
-      for (let ix = 0; ix < n; ix++, i++) {
-        const x = -extent + ix * h;
-        const r = Math.sqrt(x * x + s2);
-        if (masked && (r < rMin || r > rMax)) {
-          f[i] = 0;
-          continue;
-        }
-        if (plan.compiled.isReal) continue;
-        const re = f[i];
-        const mod = Math.sqrt(re * re + im![i] * im![i]);
-        if (!signedRadial) {
-          f[i] = mod;
-          continue;
-        }
-        let sign = 1;
-        for (let k = 0; k < nodes.length && nodes[k] < r; k++) sign = -sign;
-        if (cones) {
-          const mu = r > 0 ? z / r : 1;
-          for (let k = 0; k < cones.length; k++) if (cones[k] > mu) sign = -sign;
-        }
-        f[i] = sign * mod;
-      }
+      for (let ix = 0; ix < n; ix++, i++) f[i] = extractionValue(rule, -extent + ix * h, y, z, f[i], im ? im[i] : 0);
     }
   }
   return f;
+}
+
+/** What turns psi into the extraction field of a region (null: the field is psi itself). */
+interface ExtractionRule {
+  masked: boolean;
+  rMin: number;
+  rMax: number;
+  real: boolean;
+  signedRadial: boolean;
+  nodes: readonly number[];
+  cones: number[] | null;
+}
+
+function extractionRule(plan: SurfacePlan, region: GridRegion): ExtractionRule | null {
+  const a = plan.analysis;
+  const rMin = region.rMin;
+  const rMax = region.rMax ?? Infinity;
+  const masked = rMin > 0 || Number.isFinite(rMax);
+  if (plan.compiled.isReal && !masked) return null;
+  return {
+    masked,
+    rMin,
+    rMax,
+    real: plan.compiled.isReal,
+    signedRadial: !plan.compiled.isReal && a !== null,
+    nodes: a ? a.radialNodes : [],
+    cones: a && a.field === 'signed' && !plan.compiled.isReal && a.nodalCones ? a.nodalCones.map(Math.cos) : null,
+  };
+}
+
+/** The extraction field at one point from psi there (see extractionField). */
+function extractionValue(rule: ExtractionRule, x: number, y: number, z: number, re: number, im: number): number {
+  const r = Math.sqrt(x * x + (y * y + z * z));
+  if (rule.masked && (r < rule.rMin || r > rule.rMax)) return 0;
+  if (rule.real) return re;
+  const mod = Math.sqrt(re * re + im * im);
+  if (!rule.signedRadial) return mod;
+  let sign = 1;
+  const nodes = rule.nodes;
+  for (let k = 0; k < nodes.length && nodes[k] < r; k++) sign = -sign;
+  const cones = rule.cones;
+  if (cones) {
+    const mu = r > 0 ? z / r : 1;
+    for (let k = 0; k < cones.length; k++) if (cones[k] > mu) sign = -sign;
+  }
+  return sign * mod;
+}
+
+/**
+ * The extraction field of a region as blocks (sparse.ts): safe enclosures from @psiform/orbitals fieldBound,
+ * turned into enclosures of the extraction field, and exact samples at lattice points through sampleBox.
+ */
+function regionBlockField(plan: SurfacePlan, region: GridRegion, timer: { ms: number }): BlockField {
+  const { n, extent } = region;
+  const h = (2 * extent) / (n - 1);
+  const compiled = plan.compiled;
+  const fb = fieldBound(compiled);
+  const rule = extractionRule(plan, region);
+  const w = new Float64Array(4);
+  const S = 1024;
+  let re = new Float32Array(S);
+  let im = compiled.isReal ? null : new Float32Array(S);
+  const origin = [-extent, -extent, -extent] as const;
+  return {
+    bound(x0, x1, y0, y1, z0, z1, out) {
+      const dx = x0 > 0 ? x0 : x1 < 0 ? -x1 : 0;
+      const dy = y0 > 0 ? y0 : y1 < 0 ? -y1 : 0;
+      const dz = z0 > 0 ? z0 : z1 < 0 ? -z1 : 0;
+      const r0 = Math.sqrt(dx * dx + dy * dy + dz * dz);
+      const r1 = Math.sqrt(Math.max(x0 * x0, x1 * x1) + Math.max(y0 * y0, y1 * y1) + Math.max(z0 * z0, z1 * z1));
+      out[2] = 0;
+      if (rule?.masked && (r1 < rule.rMin || r0 > rule.rMax)) {
+        out[0] = out[1] = 0;
+        return;
+      }
+      fb.box(x0, x1, y0, y1, z0, z1, w);
+      if (compiled.isReal) {
+        out[0] = w[0];
+        out[1] = w[1];
+      } else {
+        const minAbs = (lo: number, hi: number) => (lo > 0 ? lo : hi < 0 ? -hi : 0);
+        const maxAbs = (lo: number, hi: number) => Math.max(-lo, hi);
+        const mlo = Math.hypot(minAbs(w[0], w[1]), minAbs(w[2], w[3]));
+        const mhi = Math.hypot(maxAbs(w[0], w[1]), maxAbs(w[2], w[3]));
+        if (rule?.signedRadial) {
+          out[0] = -mhi;
+          out[1] = mhi;
+          out[2] = mlo;
+        } else {
+          out[0] = mlo;
+          out[1] = mhi;
+        }
+      }
+      if (rule?.masked && (r0 < rule.rMin || r1 > rule.rMax)) {
+        // The box meets a cut: some of its points read 0.
+        out[0] = Math.min(out[0], 0);
+        out[1] = Math.max(out[1], 0);
+        out[2] = 0;
+      }
+    },
+    sample(start, size, out) {
+      const t0 = performance.now();
+      const N = size[0] * size[1] * size[2];
+      if (re.length < N) {
+        re = new Float32Array(N);
+        if (im) im = new Float32Array(N);
+      }
+      compiled.sampleBox({ origin, spacing: h, start, size }, re, im);
+      if (!rule) out.set(re.subarray(0, N));
+      else {
+        for (let k = 0, i = 0; k < size[2]; k++) {
+          const z = -extent + (start[2] + k) * h;
+          for (let j = 0; j < size[1]; j++) {
+            const y = -extent + (start[1] + j) * h;
+            for (let q = 0; q < size[0]; q++, i++) out[i] = extractionValue(rule, -extent + (start[0] + q) * h, y, z, re[i], im ? im[i] : 0);
+          }
+        }
+      }
+      timer.ms += performance.now() - t0;
+    },
+  };
 }
 
 function countTopology(surfaces: { phase: Phase; stats: MeshStats | null }[]): Partial<Record<Phase, { components: number; euler: number }>> {
@@ -418,12 +553,62 @@ interface RegionMesh {
   region: GridRegion;
   surfaces: PhaseSurface[];
   stats: Map<Phase, MeshStats>;
-  field: Float32Array;
+  /** The dense extraction field (null when sampled coarse-to-fine). */
+  field: Float32Array | null;
+  points: number;
+  blocks: { active: number; total: number };
   ms: { sample: number; extract: number };
 }
 
-async function meshRegion(plan: SurfacePlan, region: GridRegion, hooks: SurfaceHooks, withStats: boolean): Promise<RegionMesh> {
+/**
+ * Marching cubes on a region through the block extractor (sparse.ts), whatever sampled it: coarse-to-fine blocks,
+ * or a dense field read block by block with exact block ranges. One extractor means one vertex and triangle
+ * order, so the same grid gives bit-identical meshes on every path (worker, CLI, preview).
+ */
+function extractRegion(plan: SurfacePlan, region: GridRegion, field: BlockField, withStats: boolean): { surfaces: PhaseSurface[]; stats: Map<Phase, MeshStats>; info: SparseInfo } {
+  const info = {} as SparseInfo;
+  const c = plan.level.isovalue;
+  const [plus, minus] = extractSparse(field, { n: region.n, extent: region.extent }, [{ level: c, inside: 'above' }, { level: -c, inside: 'below' }], {}, info);
+  const surfaces: PhaseSurface[] = plan.compiled.isReal
+    ? [
+        { phase: '+', mesh: plus },
+        { phase: '-', mesh: minus },
+      ]
+    : [{ phase: 'complex', mesh: mergeMeshes([plus, minus]) }];
+  const stats = new Map<Phase, MeshStats>();
+  if (withStats) for (const s of surfaces) stats.set(s.phase, meshStats(s.mesh));
+  return { surfaces, stats, info };
+}
+
+/**
+ * A dense sampled field as blocks: every block is offered (the bound is unbounded) and the extractor skips the
+ * levels outside each block's own sampled range, which is exact; values are read from the array.
+ */
+function denseBlockField(f: Float32Array, n: number): BlockField {
+  return {
+    bound(_x0, _x1, _y0, _y1, _z0, _z1, out) {
+      out[0] = -Infinity;
+      out[1] = Infinity;
+    },
+    sample(start, size, out) {
+      for (let k = 0, i = 0; k < size[2]; k++)
+        for (let j = 0; j < size[1]; j++) {
+          const row = start[0] + n * (start[1] + j + n * (start[2] + k));
+          for (let q = 0; q < size[0]; q++, i++) out[i] = f[row + q];
+        }
+    },
+  };
+}
+
+async function meshRegion(plan: SurfacePlan, region: GridRegion, hooks: SurfaceHooks, withStats: boolean, sparse: boolean): Promise<RegionMesh> {
   const grid: CubeGrid = { n: region.n, extent: region.extent };
+  if (sparse) {
+    const timer = { ms: 0 };
+    const t0 = performance.now();
+    const { surfaces, stats, info } = extractRegion(plan, region, regionBlockField(plan, region, timer), withStats);
+    const total = performance.now() - t0;
+    return { region, surfaces, stats, field: null, points: info.pointsSampled, blocks: { active: info.blocksActive, total: info.blocksTotal }, ms: { sample: timer.ms, extract: total - timer.ms } };
+  }
   const sample = hooks.sample ?? defaultSample;
   let t0 = performance.now();
   const field = await sample(plan.state, grid, plan.compiled);
@@ -432,10 +617,9 @@ async function meshRegion(plan: SurfacePlan, region: GridRegion, hooks: SurfaceH
   const tSample = performance.now() - t0;
   t0 = performance.now();
   const f = extractionField(plan, region, field);
-  const surfaces = extractOrbitalSurfaces(plan.compiled, f, grid, plan.level.isovalue, { normals: hooks.normals });
-  const stats = new Map<Phase, MeshStats>();
-  if (withStats) for (const s of surfaces) stats.set(s.phase, meshStats(s.mesh));
-  return { region, surfaces, stats, field: f, ms: { sample: tSample, extract: performance.now() - t0 } };
+  const { surfaces, stats } = extractRegion(plan, region, denseBlockField(f, region.n), withStats);
+  const nb = Math.ceil((region.n - 1) / 8) ** 3;
+  return { region, surfaces, stats, field: f, points: N, blocks: { active: nb, total: nb }, ms: { sample: tSample, extract: performance.now() - t0 } };
 }
 
 /** The one recipe → surfaces function (see the file comment). */
@@ -453,8 +637,11 @@ export async function recipeToSurfaces(recipe: SurfaceRecipe, hooks: SurfaceHook
 
   // sampling + extracting, region by region (sampling dominates; timings are split accordingly)
   const meshes: RegionMesh[] = [];
+  // Coarse-to-fine unless the caller samples (its own grid, e.g. the preview's kept one).
+  const wantNodal = hooks.nodal ?? recipe.stage?.material?.nodalOutline === true;
+  const sparse = !hooks.sample;
   const run = async (region: GridRegion) => {
-    const m = await meshRegion(plan, region, hooks, verify);
+    const m = await meshRegion(plan, region, hooks, verify, sparse);
     timings.sampling += m.ms.sample;
     timings.extracting += m.ms.extract;
     return m;
@@ -506,13 +693,26 @@ export async function recipeToSurfaces(recipe: SurfaceRecipe, hooks: SurfaceHook
   }
   let surfaces = mergeRegions(meshes, plan.compiled.isReal);
   t0 = performance.now();
-  const wantNodal = hooks.nodal ?? recipe.stage?.material?.nodalOutline === true;
-  const nodal = wantNodal && plan.compiled.isReal ? extractNodalSurface(meshes[0].field, { n: meshes[0].region.n, extent: meshes[0].region.extent }, plan.level.isovalue) : wantNodal ? null : undefined;
+  // The nodal surfaces come from the dense field of the first grid (sampled here when it was sampled coarse-to-fine).
+  const nodalField = (): Float32Array => meshes[0].field ?? extractionField(plan, meshes[0].region, defaultSample(plan.state, { n: meshes[0].region.n, extent: meshes[0].region.extent }, plan.compiled));
+  const nodal = wantNodal && plan.compiled.isReal ? extractNodalSurface(nodalField(), { n: meshes[0].region.n, extent: meshes[0].region.extent }, plan.level.isovalue) : wantNodal ? null : undefined;
   timings.extracting += performance.now() - t0;
 
   await hooks.onStage?.('refining');
   t0 = performance.now();
+  let refinement: SurfaceRefinement | null = null;
   if (hooks.refine) surfaces = await hooks.refine({ compiled: plan.compiled, isovalue: plan.level.isovalue, surfaces });
+  else {
+    const r = exactSurfaces(plan, surfaces, hooks);
+    surfaces = r.surfaces;
+    refinement = r.refinement;
+    if (!refinement.met) {
+      plan.warnings.push({
+        code: 'tolerance-unmet',
+        message: `the mesh lies up to ${fmt(refinement.maxDeviation)} a0 from the true surface, more than the ${fmt(refinement.tolerance)} a0 the output needs: refinement stopped at its triangle limit or at a detail the grid does not resolve`,
+      });
+    }
+  }
   timings.refining = performance.now() - t0;
 
   await hooks.onStage?.('statistics');
@@ -585,8 +785,66 @@ export async function recipeToSurfaces(recipe: SurfaceRecipe, hooks: SurfaceHook
       ring: a?.ring ?? false,
     },
     warnings,
+    refinement,
+    field: plan.compiled,
+    sampling: {
+      method: sparse ? 'sparse' : 'dense',
+      points: meshes.reduce((s, m) => s + m.points, 0),
+      densePoints: plan.regions.reduce((s, r) => s + r.n ** 3, 0),
+      blocksActive: meshes.reduce((s, m) => s + m.blocks.active, 0),
+      blocksTotal: meshes.reduce((s, m) => s + m.blocks.total, 0),
+    },
     timings_ms: timings,
   };
+}
+
+/**
+ * The refining stage: each surface's vertices projected onto its analytic level set, normals from the analytic
+ * gradient, then edges split until the mesh lies within the tolerance (refine.ts).
+ */
+function exactSurfaces(plan: SurfacePlan, surfaces: PhaseSurface[], hooks: SurfaceHooks): { surfaces: PhaseSurface[]; refinement: SurfaceRefinement } {
+  let tolerance: number;
+  let toleranceFrom: SurfaceRefinement['toleranceFrom'];
+  if (hooks.tolerance === 'file') {
+    tolerance = fileTolerance(plan.surfaceHalfWidth);
+    toleranceFrom = '3D file';
+  } else if (hooks.tolerance !== undefined) {
+    if (!(hooks.tolerance > 0)) throw new RangeError(`tolerance must be a positive length in a0, 'file' or Infinity (got ${String(hooks.tolerance)})`);
+    tolerance = hooks.tolerance;
+    toleranceFrom = Number.isFinite(tolerance) ? 'caller' : 'none';
+  } else if (hooks.output) {
+    tolerance = printTolerance(hooks.output, plan.surfaceHalfWidth);
+    toleranceFrom = 'print';
+  } else {
+    tolerance = Infinity;
+    toleranceFrom = 'none';
+  }
+  const maxMove = Math.max(...plan.regions.map((r) => r.spacing));
+  const minSpacing = Math.min(...plan.regions.map((r) => r.spacing));
+  const c = plan.level.isovalue;
+  const out: SurfaceRefinement = { tolerance, toleranceFrom, surfaceHalfWidth: plan.surfaceHalfWidth, maxDeviation: 0, projected: 0, projectionFailed: 0, trianglesBefore: 0, trianglesAfter: 0, rounds: 0, met: true };
+  const pi: ProjectInfo = { maxDistance: 0, failed: 0 };
+  const next = surfaces.map((s) => {
+    out.trianglesBefore += s.mesh.indices.length / 3;
+    if (s.mesh.indices.length === 0) return s;
+    const F = levelFunction(plan.compiled, s.phase, c);
+    projectMesh(s.mesh, F, maxMove, s.phase, pi);
+    out.projected += s.mesh.positions.length / 3;
+    out.projectionFailed += pi.failed;
+    let mesh = s.mesh;
+    if (Number.isFinite(tolerance)) {
+      const ri = {} as RefineInfo;
+      mesh = refineMesh(s.mesh, F, s.phase, { tolerance, maxTriangles: hooks.maxTriangles, minEdge: minSpacing / 256 }, ri);
+      out.maxDeviation = Math.max(out.maxDeviation, ri.maxDeviation);
+      out.rounds = Math.max(out.rounds, ri.rounds);
+      if (ri.limited) out.met = false;
+    } else if (hooks.stats !== false) out.maxDeviation = Math.max(out.maxDeviation, meshDeviation(mesh, F).max);
+    else out.maxDeviation = NaN; // not measured (callers that skip statistics)
+    out.maxDeviation = Math.max(out.maxDeviation, pi.maxDistance);
+    out.trianglesAfter += mesh.indices.length / 3;
+    return { phase: s.phase, mesh };
+  });
+  return { surfaces: next, refinement: out };
 }
 
 function smallestIn(a: SurfaceAnalysis, r: GridRegion): SurfaceFeature | null {
@@ -702,6 +960,9 @@ async function cubeToSurfaces(recipe: SurfaceRecipe, hooks: SurfaceHooks): Promi
     topology: { expected: null, found: countTopology(list), matches: null },
     features: { smallest: null, radialNodes: [], ring: false },
     warnings,
+    refinement: null,
+    field: null,
+    sampling: { method: 'dense', points: nx * ny * nz, densePoints: nx * ny * nz, blocksActive: 0, blocksTotal: 0 },
     timings_ms: timings,
   };
 }
@@ -754,6 +1015,8 @@ export function summariseSurfaces(r: SurfacesResult) {
     topology: r.topology,
     features: r.features,
     warnings: r.warnings,
+    refinement: r.refinement,
+    sampling: r.sampling,
     surfaces: r.surfaces
       .filter((s) => s.mesh.indices.length > 0)
       .map(

@@ -14,9 +14,20 @@ export interface CompiledState {
   readonly isReal: boolean;
   readonly state: OrbitalState;
   evaluate(x: number, y: number, z: number): Complex;
-  /** out[0..2] = d Re psi/dx,dy,dz; out[3..5] = d Im psi/dx,dy,dz. At r = 0 the radial cusp term is taken as 0. */
+  /**
+   * out[0..2] = d Re psi/dx,dy,dz; out[3..5] = d Im psi/dx,dy,dz. At r = 0 the radial cusp term is taken as 0.
+   * When out holds 8 values, out[6], out[7] = Re psi, Im psi at the same point (one pass for value and slope).
+   */
   gradient(x: number, y: number, z: number, out: Float64Array): void;
   sampleGrid(grid: GridSpec, outRe: Float32Array, outIm: Float32Array | null, zStart?: number, zEnd?: number): void;
+  /**
+   * psi on a block of a lattice: points (ox + (i0 + ix) h, oy + (j0 + iy) h, oz + (k0 + iz) h), ix < nx, iy < ny,
+   * iz < nz, index ix + nx (iy + ny iz), into caller-owned arrays (the coarse-to-fine sampler's kernel). The
+   * coordinates are computed exactly as sampleGrid computes them, so a block of a cube grid gets bit-identical values.
+   */
+  sampleBox(box: BoxSpec, outRe: Float32Array, outIm: Float32Array | null): void;
+  /** The solid-harmonic polynomial H_b of each block (monomials c x^a y^b z^c), for bounds over boxes. */
+  readonly polynomials: ReadonlyArray<ReadonlyArray<Readonly<Monomial>>>;
   /** The (n, l) blocks of the complex-basis expansion, sorted by n then l: psi = sum_b R_{n_b l_b}(r) H_b(unit vector). */
   readonly blocks: ReadonlyArray<{ readonly n: number; readonly l: number }>;
   /** R_{n_b l_b}(r) of block b (Condon–Shortley state, R > 0 near the nucleus). */
@@ -31,6 +42,14 @@ export interface CompiledState {
    * one angular table per block plus a B-term sum per sample. outIm may be null for real states.
    */
   sampleRays(dirs: Float64Array, radii: Float64Array, outRe: Float64Array, outIm: Float64Array | null): void;
+}
+
+/** A block of the lattice origin + index × spacing (see CompiledState.sampleBox). */
+export interface BoxSpec {
+  origin: readonly [number, number, number];
+  spacing: number;
+  start: readonly [number, number, number];
+  size: readonly [number, number, number];
 }
 
 /**
@@ -209,6 +228,8 @@ export function compileState(state: OrbitalState): CompiledState {
     const uy = r > 0 ? y / r : 0;
     const uz = r > 0 ? z / r : 0;
     out.fill(0, 0, 6);
+    let vr = 0;
+    let vi = 0;
     let e = 0;
     for (let i = 0; i < B; i++) {
       if (bNewExp[i]) e = Math.exp(-bKappa[i] * r);
@@ -260,8 +281,14 @@ export function compileState(state: OrbitalState): CompiledState {
       out[3] += drad * ux * hi + rad * hxi;
       out[4] += drad * uy * hi + rad * hyi;
       out[5] += drad * uz * hi + rad * hzi;
+      vr += rad * hr;
+      vi += rad * hi;
     }
     if (real) out[3] = out[4] = out[5] = 0;
+    if (out.length >= 8) {
+      out[6] = vr;
+      out[7] = real ? 0 : vi;
+    }
   };
 
   // row coefficient storage: C_a(y,z) for each block, a = 0..l
@@ -307,13 +334,34 @@ export function compileState(state: OrbitalState): CompiledState {
     if (real && outIm) outIm.fill(0, zStart * plane - offset, z1 * plane - offset);
     const E = grid.extent as number;
     const h = (2 * E) / (n - 1);
-    if (real && B === 1) sampleSingleReal(n, E, h, zStart, z1, offset, outRe);
-    else if (real) sampleGeneralReal(n, E, h, zStart, z1, offset, outRe);
-    else sampleGeneral(n, E, h, zStart, z1, offset, outRe, outIm);
+    run(n, n, 0, 0, -E, -E, -E, h, zStart, z1, offset, outRe, outIm);
   };
 
+  const run = (nx: number, ny: number, sx: number, sy: number, ox: number, oy: number, oz: number, h: number, z0: number, z1: number, offset: number, outRe: Float32Array, outIm: Float32Array | null) => {
+    if (real && B === 1) sampleSingleReal(nx, ny, sx, sy, ox, oy, oz, h, z0, z1, offset, outRe);
+    else if (real) sampleGeneralReal(nx, ny, sx, sy, ox, oy, oz, h, z0, z1, offset, outRe);
+    else sampleGeneral(nx, ny, sx, sy, ox, oy, oz, h, z0, z1, offset, outRe, outIm);
+  };
+
+  const sampleBox = (box: BoxSpec, outRe: Float32Array, outIm: Float32Array | null): void => {
+    const [ox, oy, oz] = box.origin;
+    const [i0, j0, k0] = box.start;
+    const [nx, ny, nz] = box.size;
+    const h = box.spacing;
+    for (const v of [i0, j0, k0]) if (!Number.isInteger(v) || v < 0) throw new RangeError(`sampleBox: start indices must be integers >= 0 (got ${box.start.join(', ')})`);
+    for (const v of [nx, ny, nz]) if (!Number.isInteger(v) || v < 1) throw new RangeError(`sampleBox: sizes must be integers >= 1 (got ${box.size.join(', ')})`);
+    if (![ox, oy, oz, h].every(Number.isFinite) || !(h > 0)) throw new RangeError('sampleBox: origin and spacing must be finite, spacing > 0');
+    const N = nx * ny * nz;
+    if (outRe.length < N) throw new RangeError(`sampleBox: outRe must hold ${N} values`);
+    if (!real && (!outIm || outIm.length < N)) throw new RangeError(`sampleBox: this state is complex-valued; pass outIm of ${N} values`);
+    // Planes k0..k0+nz written from offset k0 * plane, so index = ix + nx (iy + ny (iz - k0)).
+    run(nx, ny, i0, j0, ox, oy, oz, h, k0, k0 + nz, k0 * nx * ny, outRe, real ? null : outIm);
+    if (real && outIm) outIm.fill(0, 0, N);
+  };
+
+
   // Fast path: one (n, l) block with real coefficients (every real single-orbital label).
-  const sampleSingleReal = (n: number, E: number, h: number, z0: number, z1: number, offset: number, out: Float32Array) => {
+  const sampleSingleReal = (nx: number, ny: number, sx: number, sy: number, ox: number, oy: number, oz: number, h: number, z0: number, z1: number, offset: number, out: Float32Array) => {
     const l = bL[0];
     const k = bK[0];
     const scale = bScale[0];
@@ -323,14 +371,14 @@ export function compileState(state: OrbitalState): CompiledState {
     const lo = lagStart[0] - 1;
     const c = rowRe;
     for (let iz = z0; iz < z1; iz++) {
-      const z = -E + iz * h;
-      for (let iy = 0; iy < n; iy++) {
-        const y = -E + iy * h;
+      const z = oz + iz * h;
+      for (let iy = 0; iy < ny; iy++) {
+        const y = oy + (iy + sy) * h;
         const s2 = y * y + z * z;
         computeRow(y, z);
-        let idx = iy * n + iz * n * n - offset;
-        for (let ix = 0; ix < n; ix++, idx++) {
-          const x = -E + ix * h;
+        let idx = iy * nx + iz * nx * ny - offset;
+        for (let ix = 0; ix < nx; ix++, idx++) {
+          const x = ox + (ix + sx) * h;
           const r = Math.sqrt(x * x + s2);
           let L = 1;
           if (k > 0) {
@@ -351,16 +399,16 @@ export function compileState(state: OrbitalState): CompiledState {
     }
   };
 
-  const sampleGeneral = (n: number, E: number, h: number, z0: number, z1: number, offset: number, outRe: Float32Array, outIm: Float32Array | null) => {
+  const sampleGeneral = (nx: number, ny: number, sx: number, sy: number, ox: number, oy: number, oz: number, h: number, z0: number, z1: number, offset: number, outRe: Float32Array, outIm: Float32Array | null) => {
     for (let iz = z0; iz < z1; iz++) {
-      const z = -E + iz * h;
-      for (let iy = 0; iy < n; iy++) {
-        const y = -E + iy * h;
+      const z = oz + iz * h;
+      for (let iy = 0; iy < ny; iy++) {
+        const y = oy + (iy + sy) * h;
         const s2 = y * y + z * z;
         computeRow(y, z);
-        let idx = iy * n + iz * n * n - offset;
-        for (let ix = 0; ix < n; ix++, idx++) {
-          const x = -E + ix * h;
+        let idx = iy * nx + iz * nx * ny - offset;
+        for (let ix = 0; ix < nx; ix++, idx++) {
+          const x = ox + (ix + sx) * h;
           const r = Math.sqrt(x * x + s2);
           let accRe = 0;
           let accIm = 0;
@@ -400,16 +448,16 @@ export function compileState(state: OrbitalState): CompiledState {
   };
 
   // Real superpositions (hybrids, real combinations): same loop without the imaginary Horner pass.
-  const sampleGeneralReal = (n: number, E: number, h: number, z0: number, z1: number, offset: number, outRe: Float32Array) => {
+  const sampleGeneralReal = (nx: number, ny: number, sx: number, sy: number, ox: number, oy: number, oz: number, h: number, z0: number, z1: number, offset: number, outRe: Float32Array) => {
     for (let iz = z0; iz < z1; iz++) {
-      const z = -E + iz * h;
-      for (let iy = 0; iy < n; iy++) {
-        const y = -E + iy * h;
+      const z = oz + iz * h;
+      for (let iy = 0; iy < ny; iy++) {
+        const y = oy + (iy + sy) * h;
         const s2 = y * y + z * z;
         computeRow(y, z);
-        let idx = iy * n + iz * n * n - offset;
-        for (let ix = 0; ix < n; ix++, idx++) {
-          const x = -E + ix * h;
+        let idx = iy * nx + iz * nx * ny - offset;
+        for (let ix = 0; ix < nx; ix++, idx++) {
+          const x = ox + (ix + sx) * h;
           const r = Math.sqrt(x * x + s2);
           let accRe = 0;
           let e = 0;
@@ -490,5 +538,5 @@ export function compileState(state: OrbitalState): CompiledState {
     }
   };
 
-  return { isReal: real, state: cx, evaluate, gradient, sampleGrid, blocks: blockKeys.map((b) => ({ n: b.n, l: b.l })), radial, angular, angularInto, sampleRays };
+  return { isReal: real, state: cx, evaluate, gradient, sampleGrid, sampleBox, polynomials: monos, blocks: blockKeys.map((b) => ({ n: b.n, l: b.l })), radial, angular, angularInto, sampleRays };
 }

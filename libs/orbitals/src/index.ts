@@ -42,7 +42,7 @@ export {
   HYBRID_SETS,
   type ParsedLabel,
 } from './labels';
-export { compileState, type CompiledState } from './compile';
+export { compileState, type CompiledState, type BoxSpec } from './compile';
 export {
   type GridSpec,
   MAX_GRID_N,
@@ -87,3 +87,4 @@ export {
 export { type LevelSolver, type FractionEstimate, levelSolver } from './level';
 export { type RadialLobe, type RadialLobes, type LobeSide, radialLobes, lobeInterval, lobePin, radialProbabilityAbove } from './radial-lobes';
 export { type SurfaceAnalysis, type SurfaceFeature, type SurfaceLayer, type TopologyCount, type FeatureKind, analyseSurface } from './features';
+export { type FieldBound, fieldBound } from './bounds';

@@ -50,6 +50,8 @@ export interface MeshResultLike {
   surfaces: ({ phase: '+' | '-' | 'complex'; stats?: SurfaceStatsLike | null } & Partial<SurfaceStatsLike>)[];
   warnings?: WarningLike[];
   conventions?: string;
+  /** How close the mesh is to the exact surface (@psiform/meshing SurfaceRefinement); absent for uploads. */
+  refinement?: { tolerance: number; toleranceFrom: string; maxDeviation: number } | null;
 }
 
 export interface FigureMetadataInput {
@@ -81,6 +83,8 @@ export interface FigureMetadata {
     enclosedInBox: number;
     /** |psi| level of the surfaces, a0^-3/2. */
     isovalue: number;
+    /** How close the mesh is to the exact surface (a0); null for meshes that were not placed on it (uploads). */
+    exactness: { toleranceBohr: number | null; toleranceFrom: string; maxDeviationBohr: number | null } | null;
     phaseColouring: 'sign' | 'argument';
   };
   grid: {
@@ -254,6 +258,10 @@ export function figureMetadata(input: FigureMetadataInput): FigureMetadata {
       enclosedInBox: inBox,
       isovalue: result.isovalue,
       phaseColouring,
+      // Vertices lie on the exact level set; chords within maxDeviationBohr of it (null: not refined, e.g. uploads).
+      exactness: result.refinement
+        ? { toleranceBohr: Number.isFinite(result.refinement.tolerance) ? result.refinement.tolerance : null, toleranceFrom: result.refinement.toleranceFrom, maxDeviationBohr: Number.isFinite(result.refinement.maxDeviation) ? result.refinement.maxDeviation : null }
+        : null,
     },
     grid: {
       n,
@@ -320,6 +328,8 @@ export function metadataSheetText(meta: FigureMetadata, files: BundleFileEntry[]
     ...(s.enclosedInBox < s.enclosedAchieved ? [`- Drawn inside the box: ${(s.enclosedInBox * 100).toFixed(2)}% (the box cuts the surface)`] : []),
     `- Isovalue |ψ|: ${g(s.isovalue)} ${PSI_UNIT_PLAIN}`, `- Colouring: ${s.phaseColouring === 'sign' ? 'sign of ψ' : 'phase (argument) of ψ'}`);
   for (const x of meta.surfaces) if (x.stats) L.push(`- Surface ${x.phase}: ${x.stats.triangles} triangles, area ${g(x.stats.area)} a₀²`);
+  const ex = s.exactness;
+  if (ex) L.push(`- Mesh vertices on the exact surface; chords and triangle centres within ${ex.maxDeviationBohr !== null ? `${g(ex.maxDeviationBohr)} a₀` : 'an unmeasured distance'} of it${ex.toleranceBohr !== null ? ` (tolerance ${g(ex.toleranceBohr)} a₀, ${ex.toleranceFrom})` : ''}`);
   L.push('', '## Grid', '');
   const gr = meta.grid;
   L.push(`- ${gr.n}³ points; extent ±${g(gr.extentBohr)} a₀ (±${g(gr.extentAngstrom)} Å)${gr.requestedExtent === 'auto' ? ', chosen automatically' : ''}`);

@@ -35,6 +35,7 @@ export * from './infra/redis/redis-attempt-gate';
 export * from './infra/redis/redis-health';
 export * from './infra/redis/redis.module';
 export * from './infra/redis/redis.tokens';
+export * from './infra/redis/request-redis';
 export * from './infra/storage/object-storage';
 export * from './infra/storage/s3-object-storage';
 export * from './infra/storage/storage-health';

@@ -81,7 +81,7 @@ export function dependencyError(e: unknown): HttpException | null {
   if (!err || typeof err !== 'object') return null;
   const codes = ['ECONNREFUSED', 'ECONNRESET', 'ETIMEDOUT', 'EPIPE', 'EHOSTUNREACH', 'ENOTFOUND', 'EAI_AGAIN'];
   const timeout = err.name === 'DependencyTimeout' || err.name === 'TimeoutError';
-  if (timeout || (err.code && codes.includes(err.code)) || /Connection is closed|connection terminated|Connection terminated/i.test(err.message ?? '')) {
+  if (timeout || (err.code && codes.includes(err.code)) || /Connection is closed|connection terminated|Command timed out|timeout exceeded when trying to connect/i.test(err.message ?? '')) {
     return new ServiceUnavailableException(`${err.dependency ?? 'a service this request needs'} is not answering (${err.message}); try again shortly`);
   }
   return null;

@@ -1,5 +1,5 @@
 import { Injectable, NotFoundException, ServiceUnavailableException } from '@nestjs/common';
-import type { JobDto, UserDto } from '@psiform/contracts';
+import type { JobDto, SurfaceWarningDto, UserDto } from '@psiform/contracts';
 import { JobsStore, type NewJob, type JobEntity, JobQueue, AssetStore, toAssetDto, DEFAULT_JOB_OPTIONS, JOB_ROUTES, type RoutedJobType } from '@psiform/server';
 import { MembershipService } from '../publications/membership.service';
 
@@ -72,6 +72,9 @@ export class JobsService {
 
   async toDto(job: JobEntity): Promise<JobDto> {
     const assets = await this.assets.findByIds(job.assetIds ?? []);
+    // The result says what the figure cannot show (box cuts the surface, grid too coarse) without reading the assets.
+    const warnings = new Map<string, SurfaceWarningDto>();
+    for (const a of assets) for (const w of (a.stats as { warnings?: SurfaceWarningDto[] } | null)?.warnings ?? []) warnings.set(`${w.code}\n${w.message}`, w);
     return {
       id: job.id,
       type: job.type,
@@ -81,6 +84,7 @@ export class JobsService {
       error: job.error,
       figureId: job.figureId,
       assets: assets.map(toAssetDto),
+      warnings: [...warnings.values()],
       timings: job.timings,
       createdAt: job.createdAt.toISOString(),
       updatedAt: job.updatedAt.toISOString(),

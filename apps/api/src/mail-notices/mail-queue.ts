@@ -2,7 +2,7 @@ import { Inject, Injectable, type OnApplicationShutdown } from '@nestjs/common';
 import { Queue } from 'bullmq';
 import Redis from 'ioredis';
 import { MAIL_NOTICE_JOB, QUEUES, type MailNoticeJob } from '@psiform/contracts';
-import { APP_CONFIG, type AppConfig } from '@psiform/server';
+import { APP_CONFIG, requestRedisOptions, type AppConfig } from '@psiform/server';
 
 /**
  * Retries of a notice: 8 attempts, exponential backoff from 1 s (1, 2, 4 ... 64 s, about two minutes in
@@ -31,7 +31,7 @@ export class BullMailQueue extends MailQueue implements OnApplicationShutdown {
 
   private get q(): Queue {
     if (!this.queue) {
-      this.connection = new Redis(this.config.redis.url, { maxRetriesPerRequest: 1, connectTimeout: 2000, retryStrategy: (n) => Math.min(n * 200, 2000) });
+      this.connection = new Redis(this.config.redis.url, requestRedisOptions());
       this.connection.on('error', () => undefined); // reported by /api/health
       this.queue = new Queue(QUEUES.mail, { connection: this.connection });
       this.queue.on('error', () => undefined);

@@ -1,14 +1,8 @@
 import { IsBoolean, IsDefined, IsOptional, IsString, IsUUID, MaxLength } from 'class-validator';
 import { OptionalNotNull } from '../common/validation';
 
-/** Colours and names are checked by swatchbook-input.ts (messages name colors.<swatch>). */
-export class CreateSwatchbookBody {
-  @IsDefined({ message: 'name is required' })
-  name: unknown;
-
-  @IsDefined({ message: 'colors is required' })
-  colors: unknown;
-
+/** Where a new swatchbook belongs (create and import): one publication, or `publisher` for all of its publications. */
+class SwatchbookScopeFields {
   /** The publication it belongs to; or `publisher` instead, for every publication of that publisher. */
   @OptionalNotNull()
   @IsUUID('all', { message: 'publicationId must be a UUID' })
@@ -20,6 +14,16 @@ export class CreateSwatchbookBody {
   publisher?: string;
 }
 
+/** Colours and names are checked by swatchbook-input.ts (messages name colors.<swatch>). */
+export class CreateSwatchbookBody extends SwatchbookScopeFields {
+  @IsDefined({ message: 'name is required' })
+  name: unknown;
+
+  @IsDefined({ message: 'colors is required' })
+  colors: unknown;
+
+}
+
 export class UpdateSwatchbookBody {
   @OptionalNotNull()
   name?: unknown;
@@ -29,7 +33,7 @@ export class UpdateSwatchbookBody {
 }
 
 /** The exported file: {format, formatVersion, name, colors, exportedAt?}. */
-export class ImportSwatchbookBody {
+export class ImportSwatchbookBody extends SwatchbookScopeFields {
   @IsDefined({ message: 'format is required' })
   format: unknown;
 
@@ -45,15 +49,6 @@ export class ImportSwatchbookBody {
   @IsOptional() // informative only; the service ignores it
   exportedAt?: unknown;
 
-  /** The publication it belongs to; or `publisher` instead, for every publication of that publisher. */
-  @OptionalNotNull()
-  @IsUUID('all', { message: 'publicationId must be a UUID' })
-  publicationId?: string;
-
-  @OptionalNotNull()
-  @MaxLength(200, { message: 'publisher must be at most 200 characters' })
-  @IsString({ message: 'publisher must be a string' })
-  publisher?: string;
 }
 
 export class ListSwatchbooksQuery {

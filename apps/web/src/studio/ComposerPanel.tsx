@@ -400,7 +400,7 @@ export function ComposerPanel(p: ComposerPanelProps) {
             <Msg id="cmp-grid-error" text={e.grid} />
           ) : (
             <span data-testid="cmp-memory">
-              {gridMemoryText(recipe.grid.n, p.complex)}. The live preview samples {p.previewN}³.
+              {recipe.grid.n === 'auto' ? 'auto: the engine picks the grid that resolves the surface' : gridMemoryText(recipe.grid.n, p.complex)}. The live preview samples {p.previewN}³.
             </span>
           )
         }

@@ -19,6 +19,8 @@ vi.mock('./StudioCanvas', () => ({
 /** Stands in for the module worker: answers like preview.worker.ts with one tiny triangle per phase. */
 class FakeWorker {
   static last: FakeWorker | null = null;
+  /** A box-cuts-surface warning the fake reports while the sampled box is narrower than its suggestion. */
+  static boxWarning: { message: string; suggestedExtent: number } | null = null;
   sent: PreviewRequest[] = [];
   onmessage: ((ev: MessageEvent<PreviewResponse>) => void) | null = null;
   onerror: ((ev: ErrorEvent) => void) | null = null;
@@ -28,7 +30,7 @@ class FakeWorker {
   postMessage(req: PreviewRequest) {
     this.sent.push(req);
     const reply = (msg: PreviewResponse) => queueMicrotask(() => act(() => this.onmessage?.({ data: msg } as MessageEvent<PreviewResponse>)));
-    if (req.type === 'sample') reply({ type: 'sampled', seq: req.seq, n: req.n, extent: 10, ms: 12, maxAbs: 0.05 });
+    if (req.type === 'sample') reply({ type: 'sampled', seq: req.seq, n: req.n, extent: 10, ms: 12 });
     else {
       const tri = () => ({ positions: new Float32Array([0, 0, 1, 1, 0, 1, 0, 1, 1]), normals: new Float32Array([0, 0, 1, 0, 0, 1, 0, 0, 1]), indices: new Uint32Array([0, 1, 2]) });
       reply({
@@ -43,10 +45,19 @@ class FakeWorker {
         enclosed: req.rule.rule === 'enclosed' ? req.rule.fraction : 0.5,
         triangles: 2,
         ms: { extract: 3, total: 4 },
+        maxAbs: 0.05,
+        warnings: this.warningsNow(),
       });
     }
   }
   terminate() {}
+  private warningsNow() {
+    const w = FakeWorker.boxWarning;
+    const sample = this.sent.filter((m) => m.type === 'sample').at(-1);
+    const extent = sample?.type === 'sample' ? sample.extent : 'auto';
+    if (!w || extent === 'auto' || extent >= w.suggestedExtent) return [];
+    return [{ code: 'box-cuts-surface' as const, message: w.message, suggestedExtent: w.suggestedExtent }];
+  }
 }
 
 // These tests type field by field through userEvent; on a shared 2-core machine under load that alone can pass
@@ -55,6 +66,7 @@ vi.setConfig({ testTimeout: 90_000 });
 
 beforeEach(() => {
   FakeWorker.last = null;
+  FakeWorker.boxWarning = null;
   vi.spyOn(previewWorker, 'create').mockImplementation(() => new FakeWorker() as unknown as Worker);
 });
 
@@ -218,6 +230,40 @@ describe('Composer: superposition coefficients', () => {
     expect(screen.getByTestId('cmp-ion').querySelector('sup')?.textContent).toBe('2+');
     await waitFor(() => expect(samples()).toHaveLength(2));
     expect(samples()[1]).toMatchObject({ state: { Z: 3 } });
+  });
+});
+
+describe('Studio: what the figure cannot show', () => {
+  it('says when the box cuts the surface, offers to widen it, and saves the wider box', async () => {
+    let current = figure();
+    current = figure({ currentVersion: { ...current.currentVersion, recipe: { ...current.currentVersion.recipe, grid: { n: 48, extent: 3 } } } });
+    const api = mockFetch({
+      ...signedInRoutes(me),
+      'GET /api/figures/f1': () => json(200, current),
+      'PATCH /api/figures/f1': ({ body }) => {
+        current = figure({ currentVersion: { ...current.currentVersion, id: 'v2', number: 2, recipe: (body as { recipe: FigureDto['currentVersion']['recipe'] }).recipe } });
+        return json(200, current);
+      },
+    });
+    FakeWorker.boxWarning = { message: 'The box (±3 a0) cuts the surface: the figure draws 31% of the 90% it encloses.', suggestedExtent: 7.1234 };
+    storeSession(me);
+    const ue = userEvent.setup();
+    renderApp('/figures/f1/studio');
+    await screen.findByTestId('canvas-probe', {}, { timeout: 15000 });
+    const w = FakeWorker.last!;
+    expect(w.sent.find((m) => m.type === 'sample')).toMatchObject({ extent: 3 });
+    const callout = await screen.findByTestId('studio-warnings');
+    expect(within(callout).getByTestId('studio-warning').getAttribute('data-code')).toBe('box-cuts-surface');
+    expect(callout.textContent).toContain('cuts the surface');
+    // Rounded UP to 3 significant digits, so the offered box really holds the surface.
+    expect(screen.getByTestId('studio-widen-box').textContent).toBe('Widen the box to ±7.13 a0');
+    await ue.click(screen.getByTestId('studio-widen-box'));
+    await waitFor(() => expect(w.sent.filter((m) => m.type === 'sample').at(-1)).toMatchObject({ extent: 7.13 }));
+    await waitFor(() => expect(screen.queryByTestId('studio-warnings')).toBeNull());
+    await ue.click(screen.getByTestId('studio-save'));
+    await waitFor(() => expect(api.callsTo('PATCH', '/api/figures/f1')).toHaveLength(1));
+    const recipe = (api.callsTo('PATCH', '/api/figures/f1')[0].body as { recipe: FigureDto['currentVersion']['recipe'] }).recipe;
+    expect(recipe.grid).toEqual({ n: 48, extent: 7.13 });
   });
 });
 

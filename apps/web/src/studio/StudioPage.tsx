@@ -21,6 +21,7 @@ import { ExportDialog } from './ExportDialog';
 import { COMPOSER_PRESETS, presetRecipe } from './presets';
 import { applyShortcut, isTypingTarget } from './shortcuts';
 import { StagePanel } from './StagePanel';
+import { SurfaceWarnings } from './SurfaceWarnings';
 import { usePreview } from './usePreview';
 import { phaseKeyColours } from '../scene/phaseKeyColours';
 import { PhaseKeyLegend } from '../components/PhaseKeyLegend';
@@ -319,7 +320,19 @@ function Studio({ initial, figure, publicationId }: StudioProps) {
                   </>
                 )}
                 {status.triangles > 0 && <> · {status.triangles.toLocaleString('en-GB')} triangles</>}
-                {status.enclosed !== null && <> · encloses {(status.enclosed * 100).toFixed(1)}%</>}
+                {status.enclosed !== null && (
+                  <>
+                    {' '}
+                    · encloses <span data-testid="preview-enclosed">{(status.enclosed * 100).toFixed(1)}</span>% over all space
+                    {status.enclosedError !== null && status.enclosedError >= 5e-4 && <> ± {(status.enclosedError * 100).toFixed(1)}</>}
+                    {status.enclosedInBox !== null && status.enclosedInBox < status.enclosed - 5e-4 && (
+                      <>
+                        {' '}
+                        (<span data-testid="preview-enclosed-in-box">{(status.enclosedInBox * 100).toFixed(1)}</span>% inside the box)
+                      </>
+                    )}
+                  </>
+                )}
                 {status.isovalue !== null && (
                   <>
                     {' '}
@@ -330,6 +343,13 @@ function Studio({ initial, figure, publicationId }: StudioProps) {
               </>
             )}
           </p>
+          <SurfaceWarnings
+            warnings={status.warnings}
+            extent={recipe.grid.extent}
+            onExtent={(extent) => dispatch({ type: 'grid', grid: { extent } })}
+            gridAuto={recipe.grid.n === 'auto'}
+            onGridAuto={() => dispatch({ type: 'grid', grid: { n: 'auto' } })}
+          />
           <div className="pf-legend" aria-label="Phase colours" data-testid="phase-legend">
             {keyColours && <PhaseKeyLegend colourAt={keyColours} />}
             {!keyColours && (

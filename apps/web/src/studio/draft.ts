@@ -51,6 +51,8 @@ export type DraftAction =
   | { type: 'surface'; surface: Recipe['surface'] }
   | { type: 'look'; stage: Recipe['stage']; annotations: Recipe['annotations'] }
   | { type: 'canvas'; canvas: Partial<Recipe['canvas']> }
+  /** The sampled box and grid (the Studio's warnings offer a wider box or the engine's own grid). */
+  | { type: 'grid'; grid: Partial<Recipe['grid']> }
   | { type: 'palette'; palette: Recipe['palette']; background?: string }
   /** The publication's one length unit (a new figure takes it; the server applies it to every saved version). */
   | { type: 'unit'; unit: Recipe['annotations']['scaleBar']['unit'] }
@@ -251,6 +253,7 @@ export function fieldError(d: ComposerDraft, key: string): string | null {
   if (key === 'grid') {
     const t = v.trim();
     if (t === '') return 'Enter the grid size N.';
+    if (t.toLowerCase() === 'auto') return null; // the engine picks the grid that resolves the surface
     const n = num(t);
     if (!Number.isInteger(n)) return 'Grid N must be a whole number.';
     if (n < RECIPE_LIMITS.gridMin || n > RECIPE_LIMITS.gridMax) return `Grid N must be between ${RECIPE_LIMITS.gridMin} and ${RECIPE_LIMITS.gridMax} (got ${n}).`;
@@ -339,7 +342,7 @@ function applyText(d: ComposerDraft, key: string): ComposerDraft {
   const v = fieldText(d, key);
   const r = d.recipe;
   if (key === 'Z') return { ...d, recipe: { ...r, content: { ...r.content, Z: num(v) } } };
-  if (key === 'grid') return { ...d, recipe: { ...r, grid: { ...r.grid, n: num(v) } } };
+  if (key === 'grid') return { ...d, recipe: { ...r, grid: { ...r.grid, n: v.trim().toLowerCase() === 'auto' ? 'auto' : num(v) } } };
   if (key === 'percent') return { ...d, recipe: { ...r, surface: { rule: 'enclosed', fraction: Number((num(v) / 100).toPrecision(10)) } } };
   if (key === 'psi') return { ...d, recipe: { ...r, surface: { rule: 'psi', value: num(v) } } };
   if (key === 'label') {
@@ -453,6 +456,8 @@ export function draftReducer(d: ComposerDraft, a: DraftAction): ComposerDraft {
       return { ...d, recipe: { ...r, stage: a.stage, annotations: a.annotations } };
     case 'canvas':
       return { ...d, recipe: { ...r, canvas: { ...r.canvas, ...a.canvas } }, text: dropText(d.text, Object.keys(a.canvas).map((k) => `canvas.${k}`)) };
+    case 'grid':
+      return { ...d, recipe: { ...r, grid: { ...r.grid, ...a.grid } }, text: 'n' in a.grid ? dropText(d.text, ['grid']) : d.text };
     case 'palette': {
       const stage = a.background && !r.stage.background.transparent ? { ...r.stage, background: { ...r.stage.background, color: a.background } } : r.stage;
       return { ...d, recipe: { ...r, palette: a.palette, stage } };

@@ -4,6 +4,8 @@ import { QUEUES, type Recipe } from '@psiform/contracts';
 import { AssetStore, CONTENT_TYPES, ENGINE_VERSION, JobsStore, ObjectStorage, exportKey, sha256Hex, type JobPayload, type NewAsset } from '@psiform/server';
 import { DEFAULT_DELIVERY_PROFILE, type ColourMode, type DeliveryProfile, type PressConditionId } from '@psiform/contracts';
 import { buildBundle, plotAlt, preflightReport, preflightText, type BundleFile, type PreflightSubject } from '@psiform/print';
+import { recipeState, screenGlbFromArchival, screenTolerance } from '@psiform/meshing';
+import { compileState } from '@psiform/orbitals';
 import type { JobProcessor, ProcessorJob } from '../queues/job-processor';
 import type { FigureRenderer } from '../render/figure-renderer';
 import { ensureMesh, runTracked, versionOf, type AfterMesh, type TrackedJob, type TrackedResult } from '../render/tracked-job';
@@ -145,6 +147,7 @@ export class ExportJobProcessor implements JobProcessor<JobPayload, TrackedResul
       subjects.push(rasterSubject('figure.tif', 'tiff', await tiffFacts(tiff), pngSize, recipe, alt));
     }
     if (recipe.source?.kind !== 'upload') {
+      files.push({ name: 'figure-screen.glb', bytes: await screenGlb(recipe, mesh.glb, mesh.stats, version.engineVersion || this.engineVersion) });
       const svgParams: SvgParams = { kind: 'radial', plane: 'xz', offset: 0, levels: 4, widthMm: recipe.canvas.widthMm, heightMm: recipe.canvas.heightMm };
       const svgText = companionSvg(recipe, svgParams);
       files.push({ name: 'radial.svg', bytes: new TextEncoder().encode(svgText) });
@@ -180,4 +183,20 @@ export class ExportJobProcessor implements JobProcessor<JobPayload, TrackedResul
   private deps() {
     return { assets: this.assets, storage: this.storage, engineVersion: this.engineVersion };
   }
+}
+
+/**
+ * The screen GLB beside the archival one (libs/meshing optimise.ts): decimated to a quarter pixel of a 2160-pixel
+ * display, checked against the analytic surface, quantised and meshopt-compressed.
+ */
+async function screenGlb(recipe: Recipe, archival: Uint8Array, stats: Record<string, unknown>, version: string): Promise<Uint8Array> {
+  const ref = stats.refinement as { surfaceHalfWidth?: number } | null | undefined;
+  const halfWidth = ref?.surfaceHalfWidth ?? Number((stats.grid as { extent?: number } | undefined)?.extent);
+  return screenGlbFromArchival(archival, {
+    version,
+    field: compileState(recipeState(recipe)),
+    isovalue: Number(stats.isovalue),
+    tolerance: screenTolerance(halfWidth),
+    colouring: { palette: recipe.palette, mode: recipe.phase?.mode },
+  });
 }

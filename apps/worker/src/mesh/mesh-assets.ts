@@ -1,7 +1,7 @@
 import { UnrecoverableError } from 'bullmq';
 import type { Recipe } from '@psiform/contracts';
 import { AssetStore, CONTENT_TYPES, ObjectStorage, meshKey, type MeshStage, type NewAsset } from '@psiform/server';
-import { encodeGlb, encodeStl, parseNrrdHeader, recipeToSurfaces, summariseSurfaces, type Mesh, type PhaseSurface, type SurfaceStage } from '@psiform/meshing';
+import { encodeGlb, encodeStl, parseNrrdHeader, printTolerance, recipeToSurfaces, summariseSurfaces, type Mesh, type PhaseSurface, type SurfaceStage } from '@psiform/meshing';
 import { SamplingBufferPool, sampleGridParallel, type SamplingBuffers } from '@psiform/orbitals/node';
 
 export interface MeshBuildInput {
@@ -75,8 +75,12 @@ async function buildMeshWith(
   const cube = recipe.source?.kind === 'upload' ? await uploadedCube(deps, recipe) : undefined;
   let result;
   try {
+    // The 3D-file tolerance: the stored GLB/STL are the archival meshes every print render starts from (a finer
+    // print re-meshes, see printGlb). The pooled dense sampler gives the same meshes as coarse-to-fine sampling
+    // (one extractor, libs/meshing sparse.ts).
     result = await recipeToSurfaces(recipe, {
       cube,
+      tolerance: 'file',
       sample: async (state, grid) => sampleGridParallel(state, { n: grid.n, extent: grid.extent as never }, { into: buffersFor ? await buffersFor(Number(grid.extent)) : undefined }),
       onStage: async (s) => {
         const js = JOB_STAGE[s];
@@ -147,4 +151,23 @@ async function uploadedCube(deps: { assets: AssetStore; storage: ObjectStorage }
   const dv = new DataView(bytes.buffer, bytes.byteOffset + h.dataOffset, h.dataBytes);
   for (let i = 0; i < count; i++) data[i] = dv.getFloat32(4 * i, true);
   return data;
+}
+
+/**
+ * A print needs its own mesh when the stored one is coarser than a quarter of its pixel (tolerance.ts
+ * printTolerance, from the image size and the recipe's camera): then the surfaces are made again to that
+ * tolerance by the one pipeline and encoded for this render only. Returns null when the stored GLB is fine enough
+ * (or the figure is an uploaded cube, which has no analytic surface to refine onto).
+ */
+export async function printGlb(recipe: Recipe, stored: Record<string, unknown>, image: { widthPx: number; heightPx: number }, engineVersion: string): Promise<{ glb: Uint8Array; tolerance: number } | null> {
+  if (recipe.source?.kind === 'upload') return null;
+  const ref = stored.refinement as { tolerance?: number; surfaceHalfWidth?: number } | null | undefined;
+  const output = { ...image, camera: recipe.stage.camera };
+  if (ref?.surfaceHalfWidth && ref.tolerance !== undefined && ref.tolerance <= printTolerance(output, ref.surfaceHalfWidth)) return null;
+  const result = await recipeToSurfaces(recipe, { output });
+  const summary = summariseSurfaces(result);
+  const surfaces = result.surfaces.filter((s) => s.mesh.indices.length > 0).map((s) => ({ phase: s.phase, mesh: s.mesh }));
+  const colouring = { palette: recipe.palette, mode: recipe.phase?.mode };
+  const glb = await encodeGlb(surfaces, { version: engineVersion, extras: { ...summary, label: recipe.label ?? null }, colouring, nodal: result.nodal ?? null });
+  return { glb, tolerance: result.refinement?.tolerance ?? NaN };
 }

@@ -10,6 +10,7 @@ import type { FigureRenderer } from './figure-renderer';
 import type { FigureSetStore } from './figure-sets';
 import type { ThumbnailStore } from './thumbnails';
 import { ensureMesh, runTracked, versionOf, type AfterMesh, type TrackedJob, type TrackedResult } from './tracked-job';
+import { printGlb } from '../mesh/mesh-assets';
 
 /** jobs.params of a render job (apps/api exports/export-request.ts, or the thumbnail scheduler). */
 export interface RenderParams {
@@ -69,9 +70,11 @@ export class RenderJobProcessor implements JobProcessor<JobPayload, TrackedResul
       const { version, recipe } = versionOf(t.ctx);
       const total = performance.now();
       const mesh = await ensureMesh({ assets: this.assets, storage: this.storage, engineVersion: this.engineVersion }, t, version, recipe);
+      // Thumbnails draw the stored mesh; a print finer than it gets surfaces refined to its quarter pixel.
+      const print = p.thumbnail ? null : await printGlb(recipe, mesh.stats, { widthPx: p.widthPx, heightPx: p.heightPx }, this.engineVersion);
       await t.stage('rendering');
       const transparent = p.transparent ?? undefined;
-      const out = await this.renderer.render({ recipe, glb: mesh.glb, widthPx: p.widthPx, heightPx: p.heightPx, dpi: p.dpi, transparent });
+      const out = await this.renderer.render({ recipe, glb: print?.glb ?? mesh.glb, widthPx: p.widthPx, heightPx: p.heightPx, dpi: p.dpi, transparent });
       await t.stage('encoding'); // finishPng and the checks ran inside render(); the stage marks the hand-over
       await t.stage('storing');
       const ts = performance.now();
@@ -87,6 +90,8 @@ export class RenderJobProcessor implements JobProcessor<JobPayload, TrackedResul
         ms,
         tiles: out.tiles,
         triangles: out.triangles,
+        // How far the drawn surface may lie from the true one (a0): a quarter pixel, or the stored mesh's tolerance.
+        surfaceTolerance: print?.tolerance ?? (mesh.stats.refinement as { tolerance?: number } | null | undefined)?.tolerance ?? null,
         ...(p.thumbnail ? { thumbnail: true } : {}),
         engineVersion: this.engineVersion,
         recipeHash: version.recipeHash,
@@ -123,9 +128,11 @@ export class RenderJobProcessor implements JobProcessor<JobPayload, TrackedResul
     const colour = p.colour ?? profile.colourMode;
     const pressCondition = p.pressCondition ?? profile.pressCondition;
     const mesh = await ensureMesh({ assets: this.assets, storage: this.storage, engineVersion: this.engineVersion }, t, version, recipe);
+    // As for PNG: a print finer than the stored mesh gets surfaces refined to its quarter pixel.
+    const print = await printGlb(recipe, mesh.stats, { widthPx: p.widthPx, heightPx: p.heightPx }, this.engineVersion);
     await t.stage('rendering');
     const alpha = colour === 'rgb' && p.alpha === true;
-    const out = await this.renderer.render({ recipe, glb: mesh.glb, widthPx: p.widthPx, heightPx: p.heightPx, dpi: p.dpi, transparent: alpha ? (p.transparent ?? undefined) : false });
+    const out = await this.renderer.render({ recipe, glb: print?.glb ?? mesh.glb, widthPx: p.widthPx, heightPx: p.heightPx, dpi: p.dpi, transparent: alpha ? (p.transparent ?? undefined) : false });
     await t.stage('encoding');
     const te = performance.now();
     const bg = recipe.stage.background;

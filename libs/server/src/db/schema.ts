@@ -25,6 +25,8 @@ import { FigureUnitsAndSetCaptions1765600000000 } from './migrations/17656000000
 import { SwatchbookScope1796200000000 } from './migrations/1796200000000-SwatchbookScope';
 import { DeliveryProfileEntity } from '../delivery-profiles/delivery-profile.entity';
 
+import { ParameterFreeQueryLogger } from './query-logger';
+
 /** Entities and migrations are listed as classes (not globs) so the same list works compiled and under Jest. */
 export const ENTITIES = [UserEntity, PublicationEntity, MembershipEntity, FigureEntity, FigureVersionEntity, AssetEntity, JobEntity,
   SwatchbookEntity, SwatchbookVersionEntity, HouseStyleEntity, BatchEntity, BatchItemEntity, ReviewRoundEntity, CommentEntity, AuditEntryEntity, FigureSetEntity, DeliveryProfileEntity, UserLinkEntity];
@@ -40,6 +42,7 @@ export function dataSourceOptions(url: string, extra: { poolSize?: number } = {}
     synchronize: false,
     migrationsRun: false,
     logging: ['error'],
+    logger: new ParameterFreeQueryLogger(), // never the query's values (hashes, addresses) in logs
     ...(extra.poolSize ? { extra: { max: extra.poolSize } } : {}),
   };
 }

@@ -5,6 +5,7 @@ import { APP_CONFIG } from '../../config/config.tokens';
 import type { AppConfig } from '../../config/config';
 import type { JobPayload } from '../../pipeline/mesh-job';
 import { JobQueue, type EnqueueOptions } from './job-queue';
+import { requestRedisOptions } from '../redis/request-redis';
 
 @Injectable()
 export class BullJobQueue extends JobQueue implements OnApplicationShutdown {
@@ -18,8 +19,8 @@ export class BullJobQueue extends JobQueue implements OnApplicationShutdown {
   private queue(name: string): Queue {
     let q = this.queues.get(name);
     if (!q) {
-      // Fail an add quickly while Redis is down (the caller answers 503) instead of waiting for it.
-      this.connection ??= new Redis(this.config.redis.url, { maxRetriesPerRequest: 1, connectTimeout: 2000, retryStrategy: (n) => Math.min(n * 200, 2000) });
+      // Fail an add quickly while Redis is down or stalled (the caller answers 503) instead of waiting for it.
+      this.connection ??= new Redis(this.config.redis.url, requestRedisOptions());
       this.connection.on('error', () => undefined); // reported by /api/health
       q = new Queue(name, { connection: this.connection });
       q.on('error', () => undefined);

@@ -3,6 +3,7 @@ import Redis from 'ioredis';
 import { APP_CONFIG } from '../../config/config.tokens';
 import type { AppConfig } from '../../config/config';
 import { REDIS_CLIENT } from './redis.tokens';
+import { requestRedisOptions } from './request-redis';
 import { AttemptGate } from './attempt-gate';
 import { RedisAttemptGate } from './redis-attempt-gate';
 import { RedisHealthProbe } from './redis-health';
@@ -14,12 +15,8 @@ import { RedisHealthProbe } from './redis-health';
       provide: REDIS_CLIENT,
       inject: [APP_CONFIG],
       useFactory: (config: AppConfig) => {
-        const redis = new Redis(config.redis.url, {
-          // Fail a command quickly when Redis is down instead of queueing it for a long time.
-          maxRetriesPerRequest: 1,
-          connectTimeout: 2000,
-          retryStrategy: (times) => Math.min(times * 200, 2000),
-        });
+        // Fail a command quickly when Redis is down or stalled instead of waiting for it (request-redis.ts).
+        const redis = new Redis(config.redis.url, requestRedisOptions());
         // ioredis reconnects by itself; log the first error of each outage only (health reports it).
         const log = new Logger('Redis');
         let down = false;

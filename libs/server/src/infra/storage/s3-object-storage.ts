@@ -40,6 +40,9 @@ export class S3ObjectStorage extends ObjectStorage implements OnApplicationBoots
       requestChecksumCalculation: 'WHEN_REQUIRED',
       responseChecksumValidation: 'WHEN_REQUIRED',
       maxAttempts: 2,
+      // A storage that does not accept a connection fails within 2 s; one that stalls mid-request after 30 s of
+      // silence (not less: s3rver copies and completes large multipart uploads without sending anything meanwhile).
+      requestHandler: { connectionTimeout: 2000, requestTimeout: 30_000 },
     });
   }
 

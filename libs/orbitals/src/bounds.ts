@@ -1,0 +1,249 @@
+// Safe bounds of psi over an axis-aligned box: the test that lets coarse-to-fine sampling skip every block the
+// surface cannot cross (libs/meshing sparse extraction). A bound that is too tight would lose surface, so every
+// step below is an enclosure (never an estimate):
+//
+//   psi = sum_b g_b(r) H_b(x, y, z),   g_b(r) = R_{n_b l_b}(r) / r^l_b = scale e^{-kappa r} L_k^alpha(rhoF r),
+//   H_b = sum of monomials c x^a y^b z^c (the solid harmonics of the block, homogeneous of degree l_b).
+//
+// * g_b over the box's radius range [r0, r1]: its extremes lie at r0, r1 or at an interior critical point. The
+//   critical points are known exactly up to bisection: by Rolle's theorem g_b' has a zero between consecutive
+//   zeros of L_k^alpha and one beyond the last (g_b -> 0), none before the first (g_b'(0) < 0); that is k zeros,
+//   all of them, since -kappa L + rhoF L' has degree k (zeros of L_k^alpha: real, simple, DLMF 18.16).
+// * H_b over the box: the intersection of two enclosures (Moore, "Interval Analysis", 1966): the natural interval
+//   extension (exact ranges of x^a, products of intervals, summed per monomial) and the centred form, H expanded
+//   exactly about the box's centre (Taylor shift of the polynomial, binomial theorem) and each power of the
+//   offset bounded by ±(half-width)^k. The centred form's over-estimate shrinks with the square of the box size
+//   (Moore 1966, ch. 6; Neumaier, "Interval Methods for Systems of Equations", 1990, sec. 2.4), so the
+//   small blocks near the surface get a near-exact range: what lets coarse-to-fine sampling skip almost all
+//   blocks the surface does not cross.
+// * the product and sum of intervals, padded by a relative 1e-6 so float32 samples of psi near the level cannot
+//   fall outside it.
+
+import type { CompiledState } from './compile';
+import { genLaguerre, genLaguerreDerivative } from './laguerre';
+import { radialConstants } from './radial';
+import { radialNodes } from './probability';
+
+export interface FieldBound {
+  /**
+   * Enclosures of Re psi and Im psi over the box [x0, x1] × [y0, y1] × [z0, z1] (a0):
+   * out[0..1] = Re psi low, high; out[2..3] = Im psi low, high (0, 0 for real states).
+   */
+  box(x0: number, x1: number, y0: number, y1: number, z0: number, z1: number, out: Float64Array): void;
+  /** Enclosure of g_b = R_b / r^l over [r0, r1] (exposed for tests): out[0..1]. */
+  radialRange(b: number, r0: number, r1: number, out: Float64Array): void;
+}
+
+/** Smallest and largest of x^a over [lo, hi] (exact). */
+function powRange(lo: number, hi: number, a: number, out: Float64Array, o: number): void {
+  if (a === 0) {
+    out[o] = 1;
+    out[o + 1] = 1;
+    return;
+  }
+  const pl = lo ** a;
+  const ph = hi ** a;
+  if (a % 2 === 1 || lo >= 0) {
+    out[o] = Math.min(pl, ph);
+    out[o + 1] = Math.max(pl, ph);
+  } else if (hi <= 0) {
+    out[o] = ph;
+    out[o + 1] = pl;
+  } else {
+    out[o] = 0;
+    out[o + 1] = Math.max(pl, ph);
+  }
+}
+
+export function fieldBound(compiled: CompiledState): FieldBound {
+  const Z = compiled.state.Z;
+  const blocks = compiled.blocks;
+  const polys = compiled.polynomials;
+  const B = blocks.length;
+  const consts = blocks.map((b) => radialConstants(b.n, b.l, Z));
+  // Critical points of each g_b (see the file comment), sorted.
+  const crit: number[][] = consts.map((c, i) => {
+    if (c.k === 0) return [];
+    const dg = (r: number) => -c.kappa * genLaguerre(c.k, c.alpha, c.rhoFactor * r) + c.rhoFactor * genLaguerreDerivative(c.k, c.alpha, c.rhoFactor * r);
+    const nodes = radialNodes(blocks[i].n, blocks[i].l, Z).map(Number);
+    const brackets: [number, number][] = [];
+    for (let j = 0; j + 1 < nodes.length; j++) brackets.push([nodes[j], nodes[j + 1]]);
+    let hi = nodes[nodes.length - 1] * 2 + 1;
+    while (Math.sign(dg(hi)) === Math.sign(dg(nodes[nodes.length - 1] * (1 + 1e-9))) && hi < 1e6) hi *= 2;
+    brackets.push([nodes[nodes.length - 1], hi]);
+    return brackets.map(([a, b]) => {
+      let fa = dg(a);
+      for (let it = 0; it < 200 && b - a > 1e-13 * b; it++) {
+        const m = 0.5 * (a + b);
+        const fm = dg(m);
+        if (fm === 0) return m;
+        if (Math.sign(fm) === Math.sign(fa)) {
+          a = m;
+          fa = fm;
+        } else b = m;
+      }
+      return 0.5 * (a + b);
+    });
+  });
+  const g = (i: number, r: number) => {
+    const c = consts[i];
+    return c.scale * Math.exp(-c.kappa * r) * genLaguerre(c.k, c.alpha, c.rhoFactor * r);
+  };
+  const radialRange = (i: number, r0: number, r1: number, out: Float64Array): void => {
+    let lo = Math.min(g(i, r0), g(i, r1));
+    let hi = Math.max(g(i, r0), g(i, r1));
+    for (const r of crit[i]) {
+      if (r <= r0 || r >= r1) continue;
+      const v = g(i, r);
+      if (v < lo) lo = v;
+      if (v > hi) hi = v;
+    }
+    out[0] = lo;
+    out[1] = hi;
+  };
+  // Centred form workspace: coefficients of dx^i dy^j dz^k after the shift, per block (size (l+1)^3).
+  const lOf = blocks.map((b) => b.l);
+  const shiftRe = lOf.map((l) => new Float64Array((l + 1) ** 3));
+  const shiftIm = lOf.map((l) => new Float64Array((l + 1) ** 3));
+  const binom: number[][] = [];
+  for (let a = 0; a <= Math.max(0, ...lOf); a++) {
+    binom.push([]);
+    for (let i = 0; i <= a; i++) binom[a].push(i === 0 || i === a ? 1 : binom[a - 1][i - 1] + binom[a - 1][i]);
+  }
+  const cxp = new Float64Array(32);
+  const cyp = new Float64Array(32);
+  const czp = new Float64Array(32);
+  const dxp = new Float64Array(32);
+  const dyp = new Float64Array(32);
+  const dzp = new Float64Array(32);
+  /** Centred-form enclosure of H_b (re in out[0..1], im in out[2..3]) over centre ± half-widths. */
+  const centred = (b: number, cx: number, cy: number, cz: number, hx: number, hy: number, hz: number, out: Float64Array): void => {
+    const l = lOf[b];
+    const L1 = l + 1;
+    const TR = shiftRe[b];
+    const TI = shiftIm[b];
+    TR.fill(0);
+    TI.fill(0);
+    cxp[0] = cyp[0] = czp[0] = dxp[0] = dyp[0] = dzp[0] = 1;
+    for (let k = 1; k <= l; k++) {
+      cxp[k] = cxp[k - 1] * cx;
+      cyp[k] = cyp[k - 1] * cy;
+      czp[k] = czp[k - 1] * cz;
+      dxp[k] = dxp[k - 1] * hx;
+      dyp[k] = dyp[k - 1] * hy;
+      dzp[k] = dzp[k - 1] * hz;
+    }
+    for (const m of polys[b]) {
+      for (let i = 0; i <= m.a; i++) {
+        const fx = binom[m.a][i] * cxp[m.a - i];
+        for (let j = 0; j <= m.b; j++) {
+          const fxy = fx * binom[m.b][j] * cyp[m.b - j];
+          for (let k = 0; k <= m.c; k++) {
+            const f = fxy * binom[m.c][k] * czp[m.c - k];
+            const o = i + L1 * (j + L1 * k);
+            TR[o] += m.re * f;
+            TI[o] += m.im * f;
+          }
+        }
+      }
+    }
+    let rlo = TR[0], rhi = TR[0], ilo = TI[0], ihi = TI[0];
+    for (let k = 0; k < L1; k++)
+      for (let j = 0; j < L1; j++)
+        for (let i = 0; i < L1; i++) {
+          const o = i + L1 * (j + L1 * k);
+          if (o === 0) continue;
+          const tr = TR[o];
+          const ti = TI[o];
+          if (tr === 0 && ti === 0) continue;
+          const mag = dxp[i] * dyp[j] * dzp[k];
+          const even = i % 2 === 0 && j % 2 === 0 && k % 2 === 0;
+          if (even) {
+            if (tr > 0) rhi += tr * mag;
+            else rlo += tr * mag;
+            if (ti > 0) ihi += ti * mag;
+            else ilo += ti * mag;
+          } else {
+            rlo -= Math.abs(tr) * mag;
+            rhi += Math.abs(tr) * mag;
+            ilo -= Math.abs(ti) * mag;
+            ihi += Math.abs(ti) * mag;
+          }
+        }
+    out[0] = rlo;
+    out[1] = rhi;
+    out[2] = ilo;
+    out[3] = ihi;
+  };
+  const cen = new Float64Array(4);
+  const px = new Float64Array(2);
+  const py = new Float64Array(2);
+  const pz = new Float64Array(2);
+  const gr = new Float64Array(2);
+  const box = (x0: number, x1: number, y0: number, y1: number, z0: number, z1: number, out: Float64Array): void => {
+    const dx = x0 > 0 ? x0 : x1 < 0 ? -x1 : 0;
+    const dy = y0 > 0 ? y0 : y1 < 0 ? -y1 : 0;
+    const dz = z0 > 0 ? z0 : z1 < 0 ? -z1 : 0;
+    const r0 = Math.sqrt(dx * dx + dy * dy + dz * dz);
+    const r1 = Math.sqrt(Math.max(x0 * x0, x1 * x1) + Math.max(y0 * y0, y1 * y1) + Math.max(z0 * z0, z1 * z1));
+    let reLo = 0, reHi = 0, imLo = 0, imHi = 0;
+    for (let i = 0; i < B; i++) {
+      let hrLo = 0, hrHi = 0, hiLo = 0, hiHi = 0;
+      for (const m of polys[i]) {
+        powRange(x0, x1, m.a, px, 0);
+        powRange(y0, y1, m.b, py, 0);
+        powRange(z0, z1, m.c, pz, 0);
+        // product of three intervals
+        let lo = px[0], hi = px[1];
+        for (const q of [py, pz]) {
+          const a = lo * q[0], b = lo * q[1], c = hi * q[0], d = hi * q[1];
+          lo = Math.min(a, b, c, d);
+          hi = Math.max(a, b, c, d);
+        }
+        if (m.re > 0) {
+          hrLo += m.re * lo;
+          hrHi += m.re * hi;
+        } else if (m.re < 0) {
+          hrLo += m.re * hi;
+          hrHi += m.re * lo;
+        }
+        if (m.im > 0) {
+          hiLo += m.im * lo;
+          hiHi += m.im * hi;
+        } else if (m.im < 0) {
+          hiLo += m.im * hi;
+          hiHi += m.im * lo;
+        }
+      }
+      centred(i, 0.5 * (x0 + x1), 0.5 * (y0 + y1), 0.5 * (z0 + z1), 0.5 * (x1 - x0), 0.5 * (y1 - y0), 0.5 * (z1 - z0), cen);
+      hrLo = Math.max(hrLo, cen[0]);
+      hrHi = Math.min(hrHi, cen[1]);
+      hiLo = Math.max(hiLo, cen[2]);
+      hiHi = Math.min(hiHi, cen[3]);
+      radialRange(i, r0, r1, gr);
+      const [gLo, gHi] = [gr[0], gr[1]];
+      const pr = [gLo * hrLo, gLo * hrHi, gHi * hrLo, gHi * hrHi];
+      reLo += Math.min(...pr);
+      reHi += Math.max(...pr);
+      if (!compiled.isReal) {
+        const pi = [gLo * hiLo, gLo * hiHi, gHi * hiLo, gHi * hiHi];
+        imLo += Math.min(...pi);
+        imHi += Math.max(...pi);
+      }
+    }
+    // Padding for rounding (float64 here, float32 samples downstream): relative 1e-6 of the largest magnitude.
+    const pad = 1e-6 * Math.max(Math.abs(reLo), Math.abs(reHi), Math.abs(imLo), Math.abs(imHi)) + 1e-300;
+    out[0] = reLo - pad;
+    out[1] = reHi + pad;
+    out[2] = compiled.isReal ? 0 : imLo - pad;
+    out[3] = compiled.isReal ? 0 : imHi + pad;
+  };
+  return {
+    box,
+    radialRange: (b, r0, r1, out) => {
+      if (!Number.isInteger(b) || b < 0 || b >= B) throw new RangeError(`block index must be 0..${B - 1}, got ${String(b)}`);
+      if (!(r0 >= 0 && r1 >= r0)) throw new RangeError(`need 0 <= r0 <= r1 (got ${r0}, ${r1})`);
+      radialRange(b, r0, r1, out);
+    },
+  };
+}

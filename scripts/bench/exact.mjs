@@ -1,0 +1,181 @@
+// Bench sections for exact surfaces (projection, refinement to a tolerance, coarse-to-fine sampling, screen GLB):
+// called from scripts/bench.mjs with its helpers, so they print in the same tables and summary.
+//   exact    geometric error per state at the defaults of a 3D file, and of a 180 mm / 1200 dpi print
+//   sparse   3d_z² at 512³ effective (coarse-to-fine) against scikit-image marching cubes on a uniform 256³ grid
+//            of the same field, in the same run, as medians of pairs; peak RSS of the 512³ run in its own process
+//   topology components and Euler characteristics found against the true surface's (analyseSurface) at the defaults
+
+import { spawnSync } from 'node:child_process';
+import * as path from 'node:path';
+
+export function exactSections(ctx) {
+  const { orbitals, meshing, table, heading, fmt, results, ARGS, HERE, extractSkimage, skimageAvailable, peakRssKb, now } = ctx;
+  const label = (s) => orbitals.parseOrbitalLabel(s).state;
+  const recipe = (content, n = 'auto') => ({ content, grid: { n, extent: 'auto' }, surface: { rule: 'enclosed', fraction: 0.9 } });
+  const e = (x) => (Number.isFinite(x) ? x.toExponential(2) : String(x));
+
+  /** Largest deviation of every surface of a result, measured here (not the pipeline's own number). */
+  function measured(r) {
+    let worst = 0;
+    for (const s of r.surfaces) {
+      if (s.mesh.indices.length === 0) continue;
+      const F = meshing.levelFunction(r.field, s.phase, r.isovalue);
+      worst = Math.max(worst, meshing.meshDeviation(s.mesh, F).max);
+    }
+    return worst;
+  }
+
+  async function sectionExact() {
+    heading('Exact surfaces: geometric error at the 3D-file default (max |F|/|grad F| over vertices, edge midpoints, centroids; a0)');
+    const rows = [];
+    const states = [
+      ['1s', label('1s')],
+      ['2s', label('2s')],
+      ['2p_z', label('2pz')],
+      ['3d_z²', label('3dz2')],
+      ['3d_xy', label('3dxy')],
+      ['4f_xyz', label('4fxyz')],
+      ['2p(m=+1) complex', orbitals.stateFromNlm(2, 1, 1, { complex: true })],
+      ['5s', label('5s')],
+    ];
+    for (const [name, content] of ARGS.has('--quick') ? states.slice(0, 3) : states) {
+      const t0 = now();
+      const r = await meshing.recipeToSurfaces(recipe(content), { tolerance: 'file' });
+      const ms = now() - t0;
+      let extra = '';
+      if (name === '1s') {
+        // Closed form: the 90 % surface of 1s is the sphere r = R with 1 − e^{-2R}(1 + 2R + 2R²) = 0.9.
+        const R = orbitals.oneSEnclosingRadius(0.9, 1);
+        const m = r.surfaces[0].mesh;
+        let worst = 0;
+        const P = m.positions;
+        const I = m.indices;
+        for (let v = 0; v < P.length; v += 3) worst = Math.max(worst, Math.abs(Math.hypot(P[v], P[v + 1], P[v + 2]) - R));
+        for (let t = 0; t < I.length; t += 3)
+          for (const [a, b] of [[I[t], I[t + 1]], [I[t + 1], I[t + 2]], [I[t + 2], I[t]]])
+            worst = Math.max(worst, Math.abs(Math.hypot((P[3 * a] + P[3 * b]) / 2, (P[3 * a + 1] + P[3 * b + 1]) / 2, (P[3 * a + 2] + P[3 * b + 2]) / 2) - R));
+        results.oneSExactError = worst;
+        extra = `sphere: ${e(worst)}`;
+      }
+      const dev = measured(r);
+      results[`exactError_${name}`] = { tolerance: r.refinement.tolerance, dev };
+      rows.push([name, e(r.refinement.tolerance), e(dev), extra, String(r.refinement.trianglesBefore), String(r.refinement.trianglesAfter), fmt(ms, 0), dev <= r.refinement.tolerance * 1.0001 ? 'PASS' : 'MISS']);
+    }
+    table(['state', 'tolerance', 'measured', '1s vs closed form', 'tris before', 'tris after', 'ms', 'within'], rows);
+
+    // A print: 3d_xy on a 180 mm square plate at 1200 dpi (8504 px), perspective 35° (the recipe default camera).
+    const px = Math.round((180 / 25.4) * 1200);
+    const t0 = now();
+    const r = await meshing.recipeToSurfaces(recipe(label('3dxy')), { output: { widthPx: px, heightPx: px, camera: { projection: 'perspective', fovDeg: 35, zoom: 1 } } });
+    const dev = measured(r);
+    results.printError = { tolerance: r.refinement.tolerance, dev };
+    console.log(`  print 3d_xy 180 mm × 180 mm at 1200 dpi (${px} px): quarter pixel ${e(r.refinement.tolerance)} a0, measured ${e(dev)} a0, ${r.refinement.trianglesAfter} triangles, ${fmt(now() - t0, 0)} ms`);
+
+    // The screen GLB beside the archival one.
+    const a = await meshing.recipeToSurfaces(recipe(label('3dz2')), { tolerance: 'file' });
+    const surfaces = a.surfaces.filter((s) => s.mesh.indices.length > 0);
+    const archival = await meshing.encodeGlb(surfaces, { version: 'bench' });
+    const info = {};
+    const screen = await meshing.encodeScreenGlb(surfaces, { version: 'bench', field: a.field, isovalue: a.isovalue, tolerance: meshing.screenTolerance(a.refinement.surfaceHalfWidth) }, info);
+    results.screenGlb = { archival: archival.length, screen: screen.length };
+    console.log(`  GLB 3d_z²: archival ${fmt(archival.length / 1e6, 2)} MB (${info.trianglesBefore} triangles, tolerance ${e(a.refinement.tolerance)} a0) → screen ${fmt(screen.length / 1e6, 3)} MB (${info.trianglesAfter} triangles, ≤ ${e(info.maxDeviation)} a0 of ${e(info.tolerance)} allowed)`);
+  }
+
+  async function childSparse512() {
+    const t0 = now();
+    const r = await meshing.recipeToSurfaces(recipe(label('3dz2'), 512), { tolerance: Infinity, stats: false });
+    const ms = now() - t0;
+    console.log(JSON.stringify({ ms, timings: r.timings_ms, sampling: r.sampling, triangles: r.surfaces.reduce((s, x) => s + x.mesh.indices.length / 3, 0), rssKb: peakRssKb() }));
+  }
+
+  async function sectionSparse() {
+    heading('Coarse-to-fine: 3d_z² at 512³ effective (both phases) vs scikit-image marching cubes on uniform 256³ (same field, same run)');
+    const plan = meshing.planSurfaces(recipe(label('3dz2'), 512));
+    const c = plan.level.isovalue;
+    const E = plan.extent;
+    const compiled = orbitals.compileState(label('3dz2'));
+    const n = 256;
+    const withSk = skimageAvailable();
+    console.log(`  skimage: ${results.skimageNote}`);
+    let field = null;
+    if (withSk) {
+      field = new Float32Array(n ** 3);
+      compiled.sampleGrid({ n, extent: E }, field, null);
+    }
+    const pairs = [];
+    const reps = ARGS.has('--quick') ? 1 : 3;
+    let last = null;
+    for (let i = 0; i < reps; i++) {
+      const t0 = now();
+      const r = await meshing.recipeToSurfaces(recipe(label('3dz2'), 512), { tolerance: Infinity, stats: false });
+      const total = now() - t0;
+      const t = r.timings_ms;
+      const ours = t.sampling + t.extracting; // sampling with bounds + marching cubes, both phases
+      last = { r, total, ours, project: t.refining };
+      const sk = withSk ? extractSkimage(field, n, c, 1) : null;
+      pairs.push({ ours, total, sk: sk?.ms ?? NaN, skTris: sk?.triangles ?? NaN });
+    }
+    const med = (xs) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)];
+    const ratio = med(pairs.map((p) => p.ours / p.sk));
+    const ratioTotal = med(pairs.map((p) => p.total / p.sk));
+    results.sparseRatio = ratio;
+    results.sparseRatioTotal = ratioTotal;
+    const s = last.r.sampling;
+    table(
+      ['run', 'ours: sample+extract ms', 'with projection ms', 'skimage 256³ ms', 'ours / sk', 'points sampled', 'of dense 512³', 'triangles', 'sk triangles'],
+      pairs.map((p, i) => [String(i + 1), fmt(p.ours, 0), fmt(p.total, 0), fmt(p.sk, 0), fmt(p.ours / p.sk, 2), String(s.points), `${fmt((100 * s.points) / s.densePoints, 1)} %`, String(last.r.surfaces.reduce((a, x) => a + x.mesh.indices.length / 3, 0)), String(p.skTris)]),
+    );
+    console.log(`  median of pairs: ours / skimage = ${fmt(ratio, 2)} (sampling and extraction; skimage is handed a sampled grid), ${fmt(ratioTotal, 2)} with the projection of every vertex`);
+    const child = spawnSync(process.execPath, [path.join(HERE, 'bench.mjs'), '--child-sparse512'], { encoding: 'utf8', maxBuffer: 1 << 22 });
+    try {
+      const j = JSON.parse(child.stdout.trim().split('\n').pop());
+      results.sparseRssMB = j.rssKb / 1024;
+      console.log(`  peak RSS, 512³ effective in a fresh process: ${fmt(j.rssKb / 1024, 0)} MB (dense float32 512³ alone would be 512 MB); ${fmt(j.ms, 0)} ms`);
+    } catch {
+      console.log(`  peak RSS child failed: ${(child.stderr || '').split('\n').slice(-3).join(' ')}`);
+    }
+  }
+
+  async function sectionTopology() {
+    heading('Topology at the defaults (grid and box auto, 90 %): found vs the true surface (analyseSurface)');
+    const cases = [];
+    const maxN = ARGS.has('--quick') ? 3 : 7;
+    for (let n = 1; n <= maxN; n++)
+      for (let l = 0; l < n; l++)
+        for (let m = 0; m <= l; m++) cases.push([`${n}${'spdfghi'[l]} m=${m} real`, orbitals.stateFromNlm(n, l, m, { complex: false })]);
+    for (let n = 2; n <= Math.min(maxN, 4); n++) for (let l = 1; l < n; l++) for (let m = 1; m <= l; m++) cases.push([`${n}${'spdfghi'[l]} m=${m} complex`, orbitals.stateFromNlm(n, l, m, { complex: true })]);
+    for (let n = 8; n <= (ARGS.has('--quick') ? 8 : 12); n++) cases.push([`${n}s`, orbitals.stateFromNlm(n, 0, 0, { complex: false })]);
+    const rows = [];
+    let ok = 0;
+    const t0 = now();
+    for (const [name, content] of cases) {
+      let r;
+      try {
+        r = await meshing.recipeToSurfaces(recipe(content));
+      } catch (err) {
+        rows.push([name, '-', '-', `error: ${err.message}`]);
+        continue;
+      }
+      const fmtT = (t) => (t ? Object.entries(t).filter(([, v]) => v && v.components > 0).map(([p, v]) => `${p}:${v.components}/${v.euler}`).join(' ') : '-');
+      const match = r.topology.matches === true;
+      if (match) ok++;
+      rows.push([name, fmtT(r.topology.expected), fmtT(r.topology.found), match ? 'ok' : 'DIFFERS', String(r.grid.regions.map((g) => g.n).join('+'))]);
+    }
+    results.topology = { ok, total: cases.length };
+    const bad = rows.filter((r) => r[3] !== 'ok');
+    table(['state', 'true (parts/Euler)', 'mesh', 'match', 'grid n'], ARGS.has('--all-rows') ? rows : [...rows.slice(0, 12), ...bad]);
+    console.log(`  ${ok} of ${cases.length} states match (${rows.length - 12 > 0 && !ARGS.has('--all-rows') ? 'first 12 rows and every difference shown; --all-rows for all' : 'all shown'}); ${fmt((now() - t0) / 1000, 0)} s`);
+  }
+
+  function summaryRows(verdict) {
+    const rows = [];
+    if (results.oneSExactError !== undefined) rows.push(['1s geometric error at defaults (closed-form sphere)', e(results.oneSExactError) + ' a0', '≤ 1e-4 a0', verdict(results.oneSExactError <= 1e-4)]);
+    if (results.printError) rows.push(['3d_xy 180 mm @ 1200 dpi: error vs quarter pixel', `${e(results.printError.dev)} / ${e(results.printError.tolerance)} a0`, '≤ quarter pixel', verdict(results.printError.dev <= results.printError.tolerance * 1.0001)]);
+    if (results.sparseRatio !== undefined) rows.push(['3d_z² 512³ effective / skimage 256³', fmt(results.sparseRatio, 2), '≤ 1.0', verdict(results.sparseRatio <= 1)]);
+    if (results.sparseRssMB !== undefined) rows.push(['peak RSS 512³ effective', fmt(results.sparseRssMB, 0) + ' MB', '≤ 400 MB', verdict(results.sparseRssMB <= 400)]);
+    if (results.topology) rows.push(['topology at defaults', `${results.topology.ok} / ${results.topology.total}`, 'all', verdict(results.topology.ok === results.topology.total)]);
+    return rows;
+  }
+
+  return { sectionExact, sectionSparse, sectionTopology, childSparse512, summaryRows };
+}
