@@ -23,7 +23,7 @@ const common = {
 function nestJestConfig(rootDir, { e2eTimeout }) {
   return {
     // testTimeout is a global option: inside `projects` Jest ignores it (measured: e2e hooks and tests stopped at the
-    // 5 s default), so it is set here for both projects.
+    // 5 s default), so it is set here for both projects (unit specs mesh real, tiny grids on busy shared cores too).
     testTimeout: e2eTimeout,
     projects: [
       { ...common, displayName: 'unit', rootDir, testMatch: ['<rootDir>/src/**/*.spec.ts'] },

@@ -6,10 +6,11 @@
 //   topology components and Euler characteristics found against the true surface's (analyseSurface) at the defaults
 
 import { spawnSync } from 'node:child_process';
+import * as os from 'node:os';
 import * as path from 'node:path';
 
 export function exactSections(ctx) {
-  const { orbitals, meshing, table, heading, fmt, results, ARGS, HERE, extractSkimage, skimageAvailable, peakRssKb, now } = ctx;
+  const { orbitals, meshing, table, heading, fmt, results, ARGS, HERE, skimageAvailable, peakRssKb, now } = ctx;
   const label = (s) => orbitals.parseOrbitalLabel(s).state;
   const recipe = (content, n = 'auto') => ({ content, grid: { n, extent: 'auto' }, surface: { rule: 'enclosed', fraction: 0.9 } });
   const e = (x) => (Number.isFinite(x) ? x.toExponential(2) : String(x));
@@ -88,44 +89,62 @@ export function exactSections(ctx) {
     console.log(JSON.stringify({ ms, timings: r.timings_ms, sampling: r.sampling, triangles: r.surfaces.reduce((s, x) => s + x.mesh.indices.length / 3, 0), rssKb: peakRssKb() }));
   }
 
+  /** The peer: NumPy samples 3d_z² on a uniform n³ grid and scikit-image meshes both phases (bench/skimage_field_mc.py). */
+  function peerFieldMc(n, extent, level) {
+    const r = spawnSync('/usr/bin/python3', [path.join(HERE, 'bench', 'skimage_field_mc.py'), String(n), String(extent), String(level)], { encoding: 'utf8', maxBuffer: 1 << 20 });
+    if (r.status !== 0) return { error: (r.stderr || '').trim().split('\n').pop() };
+    return JSON.parse(r.stdout);
+  }
+
   async function sectionSparse() {
-    heading('Coarse-to-fine: 3d_z² at 512³ effective (both phases) vs scikit-image marching cubes on uniform 256³ (same field, same run)');
-    const plan = meshing.planSurfaces(recipe(label('3dz2'), 512));
+    heading('Coarse-to-fine: 3d_z² at 512³ effective (both phases) vs NumPy field + scikit-image marching cubes on uniform 256³ (same field, same run)');
+    const content = label('3dz2');
+    const plan = meshing.planSurfaces(recipe(content, 512));
     const c = plan.level.isovalue;
     const E = plan.extent;
-    const compiled = orbitals.compileState(label('3dz2'));
-    const n = 256;
+    const compiled = orbitals.compileState(content);
     const withSk = skimageAvailable();
-    console.log(`  skimage: ${results.skimageNote}`);
-    let field = null;
-    if (withSk) {
-      field = new Float32Array(n ** 3);
-      compiled.sampleGrid({ n, extent: E }, field, null);
-    }
+    console.log(`  peer: ${results.skimageNote}; load ${os.loadavg().map((x) => x.toFixed(2)).join(' ')} (uptime)`);
     const pairs = [];
     const reps = ARGS.has('--quick') ? 1 : 3;
     let last = null;
+    // Ours: sampling (octree with safe bounds, blocks the surface can cross) + marching cubes, both phases; the
+    // projection is timed apart (hooks.refine = identity), as the peer does not project. Wall and CPU time, like the peer's.
+    const identity = (ctx) => ctx.surfaces;
     for (let i = 0; i < reps; i++) {
+      const c0 = process.cpuUsage();
       const t0 = now();
-      const r = await meshing.recipeToSurfaces(recipe(label('3dz2'), 512), { tolerance: Infinity, stats: false });
-      const total = now() - t0;
-      const t = r.timings_ms;
-      const ours = t.sampling + t.extracting; // sampling with bounds + marching cubes, both phases
-      last = { r, total, ours, project: t.refining };
-      const sk = withSk ? extractSkimage(field, n, c, 1) : null;
-      pairs.push({ ours, total, sk: sk?.ms ?? NaN, skTris: sk?.triangles ?? NaN });
+      const r = await meshing.recipeToSurfaces(recipe(content, 512), { refine: identity, stats: false });
+      const wall = now() - t0;
+      const cu = process.cpuUsage(c0);
+      last = r;
+      const sk = withSk ? peerFieldMc(256, E, c) : null;
+      if (sk?.error) console.log(`  peer failed: ${sk.error}`);
+      const skWall = sk && !sk.error ? sk.field_ms + sk.mc_ms : NaN;
+      const skCpu = sk && !sk.error ? sk.field_cpu_ms + sk.mc_cpu_ms : NaN;
+      pairs.push({ wall, cpu: (cu.user + cu.system) / 1000, sk, skWall, skCpu });
     }
+    // Same field on both sides: psi at the peer's probe points against the engine's psi.
+    const probe = pairs.find((p) => p.sk && !p.sk.error)?.sk.probes ?? [];
+    const h = (2 * E) / 255;
+    let probeErr = 0;
+    for (const [i, j, k, v] of probe) probeErr = Math.max(probeErr, Math.abs(compiled.evaluate(-E + i * h, -E + j * h, -E + k * h).re - v) / Math.abs(v));
     const med = (xs) => [...xs].sort((a, b) => a - b)[Math.floor(xs.length / 2)];
-    const ratio = med(pairs.map((p) => p.ours / p.sk));
-    const ratioTotal = med(pairs.map((p) => p.total / p.sk));
+    const ratio = med(pairs.map((p) => p.wall / p.skWall));
+    const ratioCpu = med(pairs.map((p) => p.cpu / p.skCpu));
     results.sparseRatio = ratio;
-    results.sparseRatioTotal = ratioTotal;
-    const s = last.r.sampling;
+    results.sparseRatioCpu = ratioCpu;
+    results.sparseLoad = os.loadavg()[0];
+    const s = last.sampling;
     table(
-      ['run', 'ours: sample+extract ms', 'with projection ms', 'skimage 256³ ms', 'ours / sk', 'points sampled', 'of dense 512³', 'triangles', 'sk triangles'],
-      pairs.map((p, i) => [String(i + 1), fmt(p.ours, 0), fmt(p.total, 0), fmt(p.sk, 0), fmt(p.ours / p.sk, 2), String(s.points), `${fmt((100 * s.points) / s.densePoints, 1)} %`, String(last.r.surfaces.reduce((a, x) => a + x.mesh.indices.length / 3, 0)), String(p.skTris)]),
+      ['run', 'ours wall ms', 'ours CPU ms', 'peer wall ms (field + mc)', 'peer CPU ms', 'wall ratio', 'CPU ratio', 'points sampled', 'of dense 512³', 'triangles', 'peer triangles'],
+      pairs.map((p, i) => [String(i + 1), fmt(p.wall, 0), fmt(p.cpu, 0), p.sk && !p.sk.error ? `${fmt(p.skWall, 0)} (${fmt(p.sk.field_ms, 0)} + ${fmt(p.sk.mc_ms, 0)})` : '-', fmt(p.skCpu, 0), fmt(p.wall / p.skWall, 2), fmt(p.cpu / p.skCpu, 2), String(s.points), `${fmt((100 * s.points) / s.densePoints, 1)} %`, String(last.surfaces.reduce((a, x) => a + x.mesh.indices.length / 3, 0)), String(p.sk?.triangles ?? '-')]),
     );
-    console.log(`  median of pairs: ours / skimage = ${fmt(ratio, 2)} (sampling and extraction; skimage is handed a sampled grid), ${fmt(ratioTotal, 2)} with the projection of every vertex`);
+    console.log(`  median of pairs: ours / peer = ${fmt(ratio, 2)} wall, ${fmt(ratioCpu, 2)} CPU; same field: largest relative difference of psi at the peer's probe points ${probeErr.toExponential(1)}; load after ${os.loadavg().map((x) => x.toFixed(2)).join(' ')}`);
+    // The projection of every vertex onto the true surface (not in the ratio: the peer has no counterpart).
+    const t1 = now();
+    const rp = await meshing.recipeToSurfaces(recipe(content, 512), { tolerance: Infinity, stats: false });
+    console.log(`  with the projection of every vertex and analytic normals: ${fmt(now() - t1, 0)} ms wall (projection ${fmt(rp.timings_ms.refining, 0)} ms)`);
     const child = spawnSync(process.execPath, [path.join(HERE, 'bench.mjs'), '--child-sparse512'], { encoding: 'utf8', maxBuffer: 1 << 22 });
     try {
       const j = JSON.parse(child.stdout.trim().split('\n').pop());
@@ -137,41 +156,62 @@ export function exactSections(ctx) {
   }
 
   async function sectionTopology() {
-    heading('Topology at the defaults (grid and box auto, 90 %): found vs the true surface (analyseSurface)');
+    heading('Topology at the defaults (grid and box auto, 90 % over all space): the mesh against the true surface (SciPy, libs/meshing/test/topology_reference.py)');
+    // Every named real form up to n = 7 (cos types m = 0..l: a sin type is its cos type turned about z by pi/2m, so
+    // it has the same parts), complex m = +1, +2 rings up to n = 7 (m and -m give the same |psi|), ns for n = 8..12.
     const cases = [];
     const maxN = ARGS.has('--quick') ? 3 : 7;
     for (let n = 1; n <= maxN; n++)
       for (let l = 0; l < n; l++)
-        for (let m = 0; m <= l; m++) cases.push([`${n}${'spdfghi'[l]} m=${m} real`, orbitals.stateFromNlm(n, l, m, { complex: false })]);
-    for (let n = 2; n <= Math.min(maxN, 4); n++) for (let l = 1; l < n; l++) for (let m = 1; m <= l; m++) cases.push([`${n}${'spdfghi'[l]} m=${m} complex`, orbitals.stateFromNlm(n, l, m, { complex: true })]);
-    for (let n = 8; n <= (ARGS.has('--quick') ? 8 : 12); n++) cases.push([`${n}s`, orbitals.stateFromNlm(n, 0, 0, { complex: false })]);
+        for (let m = 0; m <= l; m++) cases.push({ name: `${n}${'spdfghi'[l]} m=${m} real`, kind: 'real', n, l, m });
+    for (let n = 2; n <= maxN; n++) for (let l = 1; l < n; l++) for (const m of [1, 2]) if (m <= l) cases.push({ name: `${n}${'spdfghi'[l]} m=+${m} complex`, kind: 'complex', n, l, m });
+    for (let n = 8; n <= (ARGS.has('--quick') ? 8 : 12); n++) cases.push({ name: `${n}s`, kind: 'real', n, l: 0, m: 0 });
+    for (const c of cases) {
+      c.state = orbitals.stateFromNlm(c.n, c.l, c.m, { complex: c.kind === 'complex' });
+      c.t = orbitals.levelSolver(orbitals.compileState(c.state)).solve(0.9).density;
+    }
+    const ref = spawnSync('/usr/bin/python3', [path.join(HERE, '..', 'libs', 'meshing', 'test', 'topology_reference.py')], {
+      input: JSON.stringify(cases.map((c) => ({ kind: c.kind, n: c.n, l: c.l, m: c.m, Z: 1, t: c.t }))),
+      encoding: 'utf8',
+      timeout: 600000,
+    });
+    if (ref.status !== 0) {
+      console.log(`  SciPy reference failed (python3-scipy needed): ${(ref.stderr || '').trim().split('\n').pop()}`);
+      return;
+    }
+    const truth = JSON.parse(ref.stdout);
     const rows = [];
     let ok = 0;
     const t0 = now();
-    for (const [name, content] of cases) {
+    const fmtT = (t) => (t ? Object.entries(t).filter(([, v]) => v && v[0] > 0).map(([p, v]) => `${p}:${v[0]}/${v[1]}`).join(' ') : '-');
+    for (let i = 0; i < cases.length; i++) {
+      const c = cases[i];
       let r;
       try {
-        r = await meshing.recipeToSurfaces(recipe(content));
+        r = await meshing.recipeToSurfaces(recipe(c.state));
       } catch (err) {
-        rows.push([name, '-', '-', `error: ${err.message}`]);
+        rows.push([c.name, fmtT(truth[i]), '-', `error: ${err.message}`, '-']);
         continue;
       }
-      const fmtT = (t) => (t ? Object.entries(t).filter(([, v]) => v && v.components > 0).map(([p, v]) => `${p}:${v.components}/${v.euler}`).join(' ') : '-');
-      const match = r.topology.matches === true;
+      const found = {};
+      for (const s of r.surfaces) if (s.stats && s.stats.components > 0) found[s.phase] = [s.stats.components, s.stats.euler];
+      const want = Object.fromEntries(Object.entries(truth[i]).filter(([, v]) => v[0] > 0));
+      const canon = (t) => JSON.stringify(Object.keys(t).sort().map((k) => [k, t[k]]));
+      const match = canon(found) === canon(want);
       if (match) ok++;
-      rows.push([name, fmtT(r.topology.expected), fmtT(r.topology.found), match ? 'ok' : 'DIFFERS', String(r.grid.regions.map((g) => g.n).join('+'))]);
+      rows.push([c.name, fmtT(want), fmtT(found), match ? 'ok' : 'DIFFERS', String(r.grid.regions.map((g) => g.n).join('+'))]);
     }
     results.topology = { ok, total: cases.length };
     const bad = rows.filter((r) => r[3] !== 'ok');
-    table(['state', 'true (parts/Euler)', 'mesh', 'match', 'grid n'], ARGS.has('--all-rows') ? rows : [...rows.slice(0, 12), ...bad]);
-    console.log(`  ${ok} of ${cases.length} states match (${rows.length - 12 > 0 && !ARGS.has('--all-rows') ? 'first 12 rows and every difference shown; --all-rows for all' : 'all shown'}); ${fmt((now() - t0) / 1000, 0)} s`);
+    table(['state', 'true (parts/Euler, SciPy)', 'mesh', 'match', 'grid n'], ARGS.has('--all-rows') ? rows : [...rows.slice(0, 12), ...bad]);
+    console.log(`  ${ok} of ${cases.length} states match (${!ARGS.has('--all-rows') ? 'first 12 rows and every difference shown; --all-rows for all' : 'all shown'}); ${fmt((now() - t0) / 1000, 0)} s; load ${os.loadavg().map((x) => x.toFixed(2)).join(' ')}`);
   }
 
   function summaryRows(verdict) {
     const rows = [];
     if (results.oneSExactError !== undefined) rows.push(['1s geometric error at defaults (closed-form sphere)', e(results.oneSExactError) + ' a0', '≤ 1e-4 a0', verdict(results.oneSExactError <= 1e-4)]);
     if (results.printError) rows.push(['3d_xy 180 mm @ 1200 dpi: error vs quarter pixel', `${e(results.printError.dev)} / ${e(results.printError.tolerance)} a0`, '≤ quarter pixel', verdict(results.printError.dev <= results.printError.tolerance * 1.0001)]);
-    if (results.sparseRatio !== undefined) rows.push(['3d_z² 512³ effective / skimage 256³', fmt(results.sparseRatio, 2), '≤ 1.0', verdict(results.sparseRatio <= 1)]);
+    if (results.sparseRatio !== undefined) rows.push([`3d_z² 512³ effective / NumPy + skimage 256³ (wall; CPU ${fmt(results.sparseRatioCpu, 2)}; load ${fmt(results.sparseLoad, 1)})`, fmt(results.sparseRatio, 2), '≤ 1.0', verdict(results.sparseRatio <= 1)]);
     if (results.sparseRssMB !== undefined) rows.push(['peak RSS 512³ effective', fmt(results.sparseRssMB, 0) + ' MB', '≤ 400 MB', verdict(results.sparseRssMB <= 400)]);
     if (results.topology) rows.push(['topology at defaults', `${results.topology.ok} / ${results.topology.total}`, 'all', verdict(results.topology.ok === results.topology.total)]);
     return rows;

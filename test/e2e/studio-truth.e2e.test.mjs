@@ -188,3 +188,62 @@ test('the export dialog offers the delivery profile first and preflights the pla
     await context.close();
   }
 });
+
+test("the Composer uses the engine's grid: a new figure starts on 'auto', 7s there shows no warning; a forced coarse grid names the feature; a box that cuts the surface offers to widen it", { timeout: 240_000 }, async () => {
+  const token = await apiLogin(DEMO_ILLUSTRATOR);
+  const [pub] = await api('publications', 'GET', '/api/publications', { token });
+  // 7s with the recipe's defaults (no grid given: 'auto' grid and box), and 2p_z forced into a ±3 a0 box.
+  const s7 = await api('creating 7s', 'POST', '/api/figures', { token, body: { publicationId: pub.id, title: `Seven s ${run()}`, recipe: { version: 1, label: '7s', content: { Z: 1, terms: [{ n: 7, l: 0, m: 0, basis: 'real', re: 1 }] }, surface: { rule: 'enclosed', fraction: 0.9 } } } });
+  assert.equal(s7.currentVersion.recipe.grid.n, 'auto');
+  const narrow = await api('creating 2p_z in a narrow box', 'POST', '/api/figures', { token, body: { publicationId: pub.id, title: `Narrow box ${run()}`, recipe: { version: 1, label: '2p_z', content: { Z: 1, terms: [{ n: 2, l: 1, m: 0, basis: 'real', re: 1 }] }, grid: { n: 48, extent: 3 }, surface: { rule: 'enclosed', fraction: 0.9 } } } });
+  const { page, context, errors } = await newPage(launched.browser);
+  const previewDone = async (what) => {
+    // The status line says "updating…" while the preview worker samples or extracts; ready once it stops.
+    await expectOutcome(page, {
+      ok: () => page.waitForFunction(() => {
+        const s = document.querySelector('[data-testid=preview-status]')?.textContent ?? '';
+        return document.querySelector('[data-testid=preview-ready]') !== null && !s.includes('updating');
+      }, null, { timeout: 120_000, polling: 250 }),
+      errors: ['preview-error'],
+      what,
+      timeout: 120_000,
+    });
+  };
+  try {
+    await signIn(page, DEMO_ILLUSTRATOR);
+    await page.goto(`${baseUrl()}/composer`);
+    await page.getByTestId('composer-panel').waitFor({ timeout: 30_000 });
+    assert.equal(await page.getByTestId('cmp-grid').inputValue(), 'auto', 'a new figure starts on the engine\'s grid');
+
+    await page.goto(`${baseUrl()}/figures/${s7.id}/studio`);
+    await page.getByTestId('composer-panel').waitFor({ timeout: 30_000 });
+    await previewDone('The 7s preview on the automatic grid');
+    assert.equal(await page.getByTestId('studio-warning').count(), 0, `7s at the defaults shows no warning: ${await page.getByTestId('studio-warnings').allTextContents()}`);
+
+    // A forced grid too coarse for 7s's thinnest shell: the engine's warning names the feature; one click goes back to 'auto'.
+    await page.getByTestId('cmp-grid').fill('24');
+    const coarse = page.locator('[data-testid=studio-warning][data-code=feature-unresolved]');
+    await coarse.first().waitFor({ timeout: 120_000 });
+    assert.match(await coarse.first().textContent(), /shell|lobe|node|ring|feature/i, 'the warning names what the grid cannot resolve');
+    await page.getByTestId('studio-grid-auto').click();
+    assert.equal(await page.getByTestId('cmp-grid').inputValue(), 'auto');
+    // The warning goes once the preview on the engine's grid replaces the coarse one (polled, not timed).
+    await coarse.first().waitFor({ state: 'detached', timeout: 120_000 });
+    await previewDone('The 7s preview back on the automatic grid');
+    assert.equal(await page.getByTestId('studio-warning').count(), 0);
+
+    // A box that cuts the surface: the warning, and the offer to widen the box, which clears it.
+    await page.goto(`${baseUrl()}/figures/${narrow.id}/studio`);
+    await page.getByTestId('composer-panel').waitFor({ timeout: 30_000 });
+    const box = page.locator('[data-testid=studio-warning][data-code=box-cuts-surface]');
+    await box.first().waitFor({ timeout: 120_000 });
+    await page.getByTestId('studio-widen-box').click();
+    await box.first().waitFor({ state: 'detached', timeout: 120_000 }); // the widened box holds the surface
+    await previewDone('The preview in the widened box');
+    assert.equal(await box.count(), 0, 'the widened box holds the surface');
+    assert.equal(await page.getByTestId('studio-save').isDisabled(), false, 'the wider box is a change to save');
+    assert.deepEqual(errors.map(String), []);
+  } finally {
+    await context.close();
+  }
+});

@@ -7,6 +7,10 @@ import type { NestExpressApplication } from '@nestjs/platform-express';
 import type { NextFunction, Request, Response } from 'express';
 import { type AppConfig } from '@psiform/server';
 import { AppModule } from './app.module';
+import { serveOpenApi } from './docs/openapi';
+
+// eslint-disable-next-line @typescript-eslint/no-require-imports -- the package version, read at run time outside rootDir
+const API_VERSION = (require('../package.json') as { version: string }).version;
 import { bodyParsers } from './common/input/json-body';
 import { InputSanitationPipe } from './common/input/input-sanitation.pipe';
 import { noStoreForApi, securityHeaders } from './common/security-headers';
@@ -36,6 +40,7 @@ export async function createApp(config: AppConfig, options: CreateAppOptions = {
   );
   app.disable('x-powered-by');
   app.enableShutdownHooks();
+  serveOpenApi(app, API_VERSION); // /api/docs and /api/docs-json
   if (config.http.webDist) serveWebDist(app, config.http.webDist);
   return app;
 }

@@ -10,7 +10,6 @@ import { AssetsModule } from './assets/assets.module';
 import { JobsModule } from './jobs/jobs.module';
 import { FiguresModule } from './figures/figures.module';
 import { UploadsModule } from './uploads/uploads.module';
-import { MailNoticesModule } from './mail-notices/mail-notices.module';
 import { ReviewsModule } from './reviews/reviews.module';
 import { AuditModule } from './audit/audit.module';
 import { SwatchbooksModule } from './swatchbooks/swatchbooks.module';
@@ -44,7 +43,6 @@ export class AppModule implements OnApplicationShutdown {
         JobsModule,
         FiguresModule,
         UploadsModule,
-        MailNoticesModule,
         ReviewsModule,
         AuditModule,
         SwatchbooksModule,

@@ -3,6 +3,7 @@ import { existsSync, readFileSync } from 'node:fs';
 import { createServer } from 'node:net';
 import { join } from 'node:path';
 import type { INestApplicationContext } from '@nestjs/common';
+import { loadWorkerConfig } from '@psiform/server';
 
 const ROOT = join(__dirname, '..', '..', '..');
 const WORKER_DIST = join(ROOT, 'apps', 'worker', 'dist');
@@ -12,8 +13,6 @@ export async function startInProcessWorker(env: Record<string, string>): Promise
   if (!existsSync(join(WORKER_DIST, 'worker.factory.js'))) throw new Error('apps/worker/dist is missing: run `npm run build -w @psiform/worker` first');
   // eslint-disable-next-line @typescript-eslint/no-require-imports
   const { createWorker } = require(join(WORKER_DIST, 'worker.factory.js'));
-  // eslint-disable-next-line @typescript-eslint/no-require-imports
-  const { loadWorkerConfig } = require(join(WORKER_DIST, 'config', 'config.js'));
   return createWorker(loadWorkerConfig({ ...process.env, WORKER_CONCURRENCY: '2', THUMBNAILS: 'off', ...env }), { logger: ['error'] });
 }
 

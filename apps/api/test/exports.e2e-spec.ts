@@ -1,6 +1,10 @@
 import type { AddressInfo } from 'node:net';
-import { existsSync } from 'node:fs';
+import { spawnSync } from 'node:child_process';
+import { existsSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
 import { join } from 'node:path';
+import { phaseHex } from '@psiform/colour';
+import { phaseKeyPlacement, PHASE_KEY_SECTORS } from '@psiform/print';
 import { DOMParser } from '@xmldom/xmldom';
 import { unzipSync, strFromU8 } from 'fflate';
 import { PNG } from 'pngjs';
@@ -36,6 +40,7 @@ describe('exports (e2e)', () => {
   let pngJob: JobDto;
   let thumbFigure: { id: string; title: string } | undefined;
   const pub = DEMO_PUBLICATION.id;
+  const setIds: string[] = [];
 
   const getJob = async (jobId: string): Promise<JobDto> => (await t.http().get(`/api/jobs/${jobId}`).set(auth(tok.editor)).expect(200)).body;
   const finished = (jobId: string, timeoutMs = 90000) =>
@@ -75,6 +80,11 @@ describe('exports (e2e)', () => {
   afterAll(async () => {
     if (process.env.PSIFORM_SHOW_WORKER) console.log(worker?.output());
     await worker?.stop();
+    if (t && setIds.length) {
+      await t.ds.query(`UPDATE figure_sets SET png_asset_id = NULL WHERE id = ANY($1)`, [setIds]);
+      await t.ds.query(`DELETE FROM assets WHERE stats->>'figureSetId' = ANY($1)`, [setIds]);
+      await t.ds.query(`DELETE FROM figure_sets WHERE id = ANY($1)`, [setIds]);
+    }
     await t?.close();
   });
 
@@ -207,7 +217,7 @@ describe('exports (e2e)', () => {
     expect(bundle.assets[0].kind).toBe('bundle');
     const files = unzipSync(await download(bundle.assets[0].id));
     // The demo book's delivery profile takes TIFF and PDF, so the bundle carries them and its preflight report too.
-    expect(Object.keys(files).sort()).toEqual(['PREFLIGHT.txt', 'README.txt', 'figure-screen.glb', 'figure.glb', 'figure.png', 'figure.stl', 'figure.tif', 'metadata.json', 'preflight.json', 'radial.pdf', 'radial.svg', 'recipe.json']);
+    expect(Object.keys(files).sort()).toEqual(['PREFLIGHT.txt', 'README.txt', 'figure-screen.glb', 'figure.glb', 'figure.png', 'figure.stl', 'figure.tif', 'metadata.json', 'preflight.json', 'radial.pdf', 'radial.svg', 'recipe.json', 'section.pdf', 'section.svg']);
     const meta = JSON.parse(strFromU8(files['metadata.json']));
     expect(meta.model.note).toMatch(/one-electron hydrogen-like model/);
     expect(meta.surface).toMatchObject({ rule: 'enclosed', target: 0.9 });
@@ -240,6 +250,73 @@ describe('exports (e2e)', () => {
     expect(meta.altText.length).toBeLessThanOrEqual(125);
     expect(meta.longDescription.length).toBeGreaterThan(meta.altText.length);
   }, 120000);
+
+  it("a complex figure's bundle carries the phase key: figure.png (the ring in the wheel's colours at 0, π/2, π, 3π/2), section.svg (ring and marks) and section.pdf (pdftotext reads the marks)", async () => {
+    // 3d (m = +2), complex: coloured by arg ψ on the swatchbook's wheel (here the default wheel of the demo book's palette).
+    const recipe = smallRecipe({ label: '3d(m=+2)', content: { Z: 1, terms: [{ n: 3, l: 2, m: 2, basis: 'complex', re: 1 }] }, grid: { n: 40 } });
+    const fig = (await t.http().post('/api/figures').set(auth(tok.illustrator)).send({ publicationId: pub, title: `Complex key ${RUN_ID}`, recipe }).expect(201)).body;
+    const stored = fig.currentVersion.recipe;
+    const bundle = await finished(await exportJob({ format: 'bundle' }, tok.illustrator, fig.id), 150000);
+    expect(bundle.error ?? null).toBeNull();
+    const files = unzipSync(await download(bundle.assets[0].id));
+    const wheel = { positive: stored.palette.positive, negative: stored.palette.negative, wheel: stored.palette.wheel ?? null };
+    const hexRgb = (h: string) => [1, 3, 5].map((i) => parseInt(h.slice(i, i + 2), 16));
+
+    // PNG: the ring where the 2D layer places it (@psiform/print phaseKeyPlacement at dpi / 25.4 px per mm), read at
+    // 3/4 of its radius on each mark's angle: the wheel's colour there (@psiform/colour phaseHex, the one phase rule).
+    const img = PNG.sync.read(Buffer.from(files['figure.png']));
+    const dpi = stored.canvas.dpi;
+    expect(img.width).toBe(Math.round((stored.canvas.widthMm / 25.4) * dpi));
+    const key = phaseKeyPlacement(img.width, dpi / 25.4);
+    for (const angle of [0, Math.PI / 2, Math.PI, (3 * Math.PI) / 2]) {
+      const x = Math.round(key.cx + 0.75 * key.r * Math.cos(angle));
+      const y = Math.round(key.cy - 0.75 * key.r * Math.sin(angle));
+      const i = (y * img.width + x) * 4;
+      const got = [img.data[i], img.data[i + 1], img.data[i + 2]];
+      const want = hexRgb(phaseHex(wheel, 'argument', 'complex', angle));
+      // 8-bit sRGB after the canvas draw and the PNG encode: within 3 levels per channel (common practice for 8-bit round trips).
+      expect({ angle, diff: Math.max(...got.map((v, k) => Math.abs(v - want[k]))) <= 3, got, want }).toMatchObject({ angle, diff: true });
+    }
+
+    // SVG: the section map is coloured by phase and carries the key (ring sectors and the four marks, titled arg ψ).
+    const svg = strFromU8(files['section.svg']);
+    const doc = new DOMParser().parseFromString(svg, 'image/svg+xml');
+    const groups = Array.from(doc.getElementsByTagName('g')).filter((g) => g.getAttribute('class') === 'phase-key');
+    expect(groups).toHaveLength(1);
+    expect(Array.from(groups[0].getElementsByTagName('text')).map((e) => e.textContent)).toEqual(['arg ψ', '0', 'π/2', 'π', '3π/2']);
+    expect(groups[0].getElementsByTagName('path').length).toBe(PHASE_KEY_SECTORS);
+    expect(svg).toContain('class="phase-band"');
+    expect(svg).not.toContain('ψ &gt; 0'); // no two-phase legend on a map coloured by phase
+
+    // PDF: the same drawing; poppler's pdftotext reads the key's marks back.
+    const pdfPath = join(tmpdir(), `psiform-key-${process.pid}.pdf`);
+    writeFileSync(pdfPath, files['section.pdf']);
+    const text = spawnSync('pdftotext', [pdfPath, '-'], { encoding: 'utf8' });
+    if (text.error) throw new Error(`pdftotext (poppler-utils) is needed: ${text.error.message}`);
+    // Each mark on its own line (pdftotext keeps a trailing space after some); the π alone is a line of its own.
+    for (const mark of [/arg ?ψ/, /(^|\s)π ?\/ ?2/m, /3 ?π ?\/ ?2/, /^π\s?$/m, /^0\s?$/m]) expect(text.stdout).toMatch(mark);
+  }, 180000);
+
+  it('an approved figure whose mesh a figure-set job made gets a thumbnail too', async () => {
+    const id = (await t.http().post('/api/figures').set(auth(tok.illustrator)).send({ publicationId: pub, title: `Thumb approved ${RUN_ID}`, recipe: smallRecipe({ label: 'thumb-approved', grid: { n: 32 } }) }).expect(201)).body.id;
+    await t.http().post(`/api/figures/${id}/submit`).set(auth(tok.illustrator)).send({}).expect(200);
+    let decision = (await t.http().post(`/api/figures/${id}/approve`).set(auth(tok.editor)).send({}).expect(200)).body;
+    if (decision.status !== 'approved') decision = (await t.http().post(`/api/figures/${id}/colour-signoff`).set(auth(tok.artDirector)).send({}).expect(200)).body;
+    expect(decision.status).toBe('approved');
+    expect((await t.http().get(`/api/figures/${id}`).set(auth(tok.editor)).expect(200)).body.thumbnailAssetId ?? null).toBeNull();
+    const set = (await t.http().post('/api/figure-sets').set(auth(tok.illustrator)).send({ publicationId: pub, title: `Approved set ${RUN_ID}`, figureIds: [id], columns: 1 }).expect(201)).body;
+    setIds.push(set.id);
+    const jobId: string = (await t.http().post(`/api/figure-sets/${set.id}/exports`).set(auth(tok.illustrator)).send({ format: 'png', widthMm: 60, heightMm: 40, dpi: 300 }).expect(201)).body.jobId;
+    const job = await finished(jobId, 150000);
+    expect(job.error ?? null).toBeNull();
+    expect(job.assets.map((a) => a.kind).sort()).toEqual(['glb', 'png', 'stl']); // the set job made the mesh
+    const fig = await waitFor('the thumbnail of the approved figure', async () => {
+      const f = (await t.http().get(`/api/figures/${id}`).set(auth(tok.editor)).expect(200)).body;
+      return f.thumbnailAssetId ? f : undefined;
+    }, 90000, 300);
+    expect(fig.status).toBe('approved');
+    expect(fig.assets.find((a: { id: string }) => a.id === fig.thumbnailAssetId)).toMatchObject({ kind: 'png', stats: { thumbnail: true, widthPx: 320, heightPx: 240 } });
+  }, 240000);
 
   it('downloads are attachments named from the figure through the file-name template; every file of the figure gets its own name', async () => {
     const png = pngJob.assets.find((a) => a.kind === 'png')!;

@@ -183,7 +183,8 @@ describe('faults (e2e)', () => {
         500,
       );
       if (referenced) expect(await storage.list('uploads/')).toContain(referenced); // cubes figures use stay
-      expect(survivor.output()).toMatch(/swept upload leftovers/);
+      // The sweeper logs after its last delete: wait for the line rather than race the child's output pipe.
+      await waitFor('the sweeper to log what it swept', async () => /swept upload leftovers/.test(survivor.output()), 10000, 200);
     } finally {
       survivor.child.kill('SIGTERM');
     }

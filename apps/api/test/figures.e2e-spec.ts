@@ -1,6 +1,7 @@
 import { Queue } from 'bullmq';
-import { QUEUES, RECIPE_LIMITS } from '@psiform/contracts';
+import { fractionProblem, gridProblem, QUEUES, RECIPE_LIMITS } from '@psiform/contracts';
 import { auth, demoTokens, login, runEmail, smallRecipe, startTestApp, DEMO_PUBLICATION, RUN_ID, type TestApp } from './support';
+import { waitFor } from './worker-process';
 
 /** Figures API without a worker: create / read / edit / list, roles, membership, and refused recipes. */
 describe('figures (e2e)', () => {
@@ -11,13 +12,14 @@ describe('figures (e2e)', () => {
   const pub = DEMO_PUBLICATION.id;
 
   const counts = async () => {
-    const [[f], [v], [j]] = await Promise.all([
+    const [[f], [v], [j], [o]] = await Promise.all([
       t.ds.query(`SELECT count(*)::int AS n FROM figures`),
       t.ds.query(`SELECT count(*)::int AS n FROM figure_versions`),
       t.ds.query(`SELECT count(*)::int AS n FROM jobs`),
+      t.ds.query(`SELECT count(*)::int AS n FROM outbox`),
     ]);
     const q = await meshQueue.getJobCounts('waiting', 'delayed', 'active', 'completed', 'failed', 'prioritized', 'waiting-children');
-    return { figures: f.n, versions: v.n, jobs: j.n, queued: Object.values(q).reduce((a, b) => a + b, 0) };
+    return { figures: f.n, versions: v.n, jobs: j.n, outbox: o.n, queued: Object.values(q).reduce((a, b) => a + b, 0) };
   };
 
   beforeAll(async () => {
@@ -82,7 +84,8 @@ describe('figures (e2e)', () => {
     const after = (await t.http().patch(`/api/figures/${created.id}`).set(auth(tok.illustrator)).send({ recipe: smallRecipe({ grid: { n: 40 } }) }).expect(200)).body;
     expect(after.currentVersion).toMatchObject({ number: 3, locked: false });
     const bad = await t.http().patch(`/api/figures/${created.id}`).set(auth(tok.illustrator)).send({ recipe: smallRecipe({ grid: { n: 8 } }) }).expect(400);
-    expect(bad.body.message).toEqual([`recipe.grid.n: grid.n must be at least ${RECIPE_LIMITS.gridMin}`]);
+    // The words of contracts limits.ts gridProblem: the Composer shows the same under its grid field.
+    expect(bad.body.message).toEqual([`recipe.grid.n: grid.n ${gridProblem(8)}`]);
     const [{ n }] = await t.ds.query(`SELECT count(*)::int AS n FROM figure_versions WHERE figure_id = $1`, [created.id]);
     expect(n).toBe(3);
   });
@@ -134,10 +137,10 @@ describe('figures (e2e)', () => {
   describe('malformed recipes are refused with 400 naming the field, and nothing is stored or queued', () => {
     const cases: Array<[string, Record<string, unknown>, string]> = [
       ['l >= n', smallRecipe({ content: { Z: 1, terms: [{ n: 2, l: 2, m: 0, basis: 'real', re: 1 }] } }), 'recipe.content.terms.0.l: l must be less than n (got n=2, l=2)'],
-      ['grid over the limit', smallRecipe({ grid: { n: RECIPE_LIMITS.gridMax + 1 } }), `recipe.grid.n: grid.n must be at most ${RECIPE_LIMITS.gridMax}`],
+      ['grid over the limit', smallRecipe({ grid: { n: RECIPE_LIMITS.gridMax + 1 } }), `recipe.grid.n: grid.n ${gridProblem(RECIPE_LIMITS.gridMax + 1)}`],
       ['NaN as a string', smallRecipe({ content: { Z: 1, terms: [{ n: 2, l: 1, m: 0, basis: 'real', re: 'NaN' }] } }), 'recipe.content.terms.0.re: re must be a number'],
       ['null coefficient', smallRecipe({ content: { Z: 1, terms: [{ n: 2, l: 1, m: 0, basis: 'real', re: null }] } }), 'recipe.content.terms.0.re: re must be a number'],
-      ['fraction 1', smallRecipe({ surface: { rule: 'enclosed', fraction: 1 } }), 'recipe.surface.fraction: fraction must be between 0 and 1 (exclusive)'],
+      ['fraction 1', smallRecipe({ surface: { rule: 'enclosed', fraction: 1 } }), `recipe.surface.fraction: fraction ${fractionProblem(1)}`],
     ];
     it.each(cases)('%s', async (_name, recipe, message) => {
       const before = await counts();
@@ -157,14 +160,19 @@ describe('figures (e2e)', () => {
     });
   });
 
-  it('queueing creates one Job row (queued) and one BullMQ job whose id is the row id, with retries', async () => {
+  it('queueing creates one Job row (queued) and its outbox row in one transaction; the relay makes it one BullMQ job, with retries', async () => {
     const f = (await t.http().post('/api/figures').set(auth(tok.illustrator)).send({ publicationId: pub, title: `Queue ${RUN_ID}`, recipe: smallRecipe() }).expect(201)).body;
     const { jobId } = (await t.http().post(`/api/figures/${f.id}/meshes`).set(auth(tok.illustrator)).expect(201)).body;
     const job = (await t.http().get(`/api/jobs/${jobId}`).set(auth(tok.editor)).expect(200)).body;
     expect(job).toMatchObject({ id: jobId, type: 'mesh', figureId: f.id, assets: [] });
     expect(['queued', 'active', 'completed']).toContain(job.state);
-    const bull = await meshQueue.getJob(jobId);
-    expect(bull?.data).toEqual({ jobId });
+    const [row] = await t.ds.query(`SELECT bull_job_id FROM jobs WHERE id = $1`, [jobId]);
+    const [outbox] = await t.ds.query(`SELECT name, payload FROM outbox WHERE id = $1`, [row.bull_job_id]);
+    expect(outbox).toEqual({ name: 'mesh', payload: { jobId, params: {} } });
+    // The relay (every 200 ms) puts it on the mesh queue under the outbox row's id, then marks the row relayed.
+    const bull = await waitFor('the relayed BullMQ job', () => meshQueue.getJob(row.bull_job_id), 10000);
+    expect(bull.data).toEqual({ jobId, params: {} });
+    await waitFor('the outbox row marked relayed', async () => (await t.ds.query(`SELECT state FROM outbox WHERE id = $1`, [row.bull_job_id]))[0].state !== 'pending', 10000);
     expect(bull?.opts.attempts).toBe(3);
     expect(bull?.opts.backoff).toEqual({ type: 'exponential', delay: 1000 });
     await t.http().get(`/api/jobs/${jobId}`).set(auth(outsider)).expect(404);

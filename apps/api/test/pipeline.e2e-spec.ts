@@ -124,7 +124,7 @@ describe('mesh pipeline (e2e)', () => {
     // Binary STL: 84-byte header + 50 bytes per triangle (the format's fixed record size).
     const triangles = glb.stats!.surfaces!.reduce((n, x) => n + x.triangles, 0);
     expect(stlBytes.length).toBe(84 + 50 * triangles);
-  });
+  }, 120000);
 
   it('a box that cuts the surface is said in the job result: warnings with the box to widen to, all-space and in-box fractions', async () => {
     const recipe = { version: 1, content: { Z: 1, terms: [{ n: 2, l: 1, m: 0, basis: 'real', re: 1 }] }, grid: { n: 48, extent: 3 }, surface: { rule: 'enclosed', fraction: 0.9 } };
@@ -195,8 +195,11 @@ describe('mesh pipeline (e2e)', () => {
     const doomed = await startWorkerProcess({ WORKER_LOCK_MS: LOCK_MS, WORKER_CONCURRENCY: '1' });
     const figureId = await createFigure('Killed mid-job', smallRecipe({ label: 'kill-160', grid: { n: 160 } }));
     const jobId = await queueMesh(figureId);
-    await waitFor('the job to be active', async () => (await getJob(jobId)).state === 'active', 30000, 20);
-    await doomed.kill();
+    try {
+      await waitFor('the job to be active', async () => (await getJob(jobId)).state === 'active', 30000, 20);
+    } finally {
+      await doomed.kill(); // also when the wait failed: a worker left running would take the next specs' jobs
+    }
     expect((await getJob(jobId)).state).toBe('active'); // the dead worker could not report anything
     worker = await startWorkerProcess({ WORKER_LOCK_MS: LOCK_MS });
     const job = await finished(jobId, 90000);

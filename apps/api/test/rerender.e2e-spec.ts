@@ -95,6 +95,14 @@ describe('batch re-render (e2e)', () => {
     expect(a.status).toBe('approved');
     expect(a.currentVersion.recipe.palette.positive).toBe('#c8553d');
 
+    // Idempotent: re-rendering again with unchanged colours adds no version and queues no job.
+    const jobsBefore = (await t.ds.query(`SELECT count(*)::int AS n FROM jobs WHERE figure_id = ANY($1)`, [figures]))[0].n;
+    const again: BatchDto = (await post(`/api/publications/${pubId}/rerender`, tok.artDirector).expect(201)).body;
+    expect(again.total).toBe(0);
+    expect(again.skipped.filter((s) => s.reason === `already has the colours of swatchbook "Workbook palette ${RUN_ID}" v2`).map((s) => s.figureId).sort()).toEqual(figures.slice(0, 10).sort());
+    for (const id of figures.slice(0, 10)) expect((await getFigure(id)).currentVersion.number).toBe(2);
+    expect((await t.ds.query(`SELECT count(*)::int AS n FROM jobs WHERE figure_id = ANY($1)`, [figures]))[0].n).toBe(jobsBefore);
+
     // an unknown batch is 404
     await t.http().get('/api/batches/00000000-0000-4000-8000-000000000000').set(auth(tok.admin)).expect(404);
   }, 180000);

@@ -5,6 +5,8 @@ import { canonicalJson, type Recipe } from '@psiform/contracts';
 import {
   CONVENTIONS_NOTE,
   cubeExtentFor,
+  densityCubeReport,
+  type CubeReport,
   encodeGlb,
   encodeNrrd,
   encodeObj,
@@ -95,6 +97,8 @@ export interface DensityCube {
   /** |psi|^2 in a0^-3, x fastest (of the normalised state). */
   data: Float32Array;
   max: number;
+  /** What the cube holds of the state over all space, and what it cannot show (@psiform/meshing densityCubeReport). */
+  report: CubeReport;
 }
 
 /** |psi|² on the recipe's grid (extent 'auto': a box holding >= 99.9 % of the probability). */
@@ -112,7 +116,7 @@ export async function densityForRecipe(recipe: Recipe, compiled: CompiledState, 
     re[i] = d;
     if (d > max) max = d;
   }
-  return { n, extent, spacing: (2 * extent) / (n - 1), data: re, max };
+  return { n, extent, spacing: (2 * extent) / (n - 1), data: re, max, report: densityCubeReport(recipe, n, extent) };
 }
 
 export function encodeDensityNrrd(cube: DensityCube, recipe: Recipe): Uint8Array {
@@ -129,6 +133,8 @@ export function encodeDensityNrrd(cube: DensityCube, recipe: Recipe): Uint8Array
       'psiform.grid': `${cube.n}^3 points, -${cube.extent}..+${cube.extent} a0 inclusive`,
       'psiform.version': CLI_VERSION,
       'psiform.conventions': CONVENTIONS_NOTE,
+      'psiform.in_box_probability': `${cube.report.inBox} (+/- ${cube.report.error.toExponential(1)}) of the state over all space`,
+      'psiform.warnings': cube.report.warnings.map((w) => oneLine(w.message)).join(' | ') || 'none',
     },
   });
 }

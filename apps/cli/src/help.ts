@@ -1,7 +1,8 @@
-import { CONVENTIONS_NOTE, RESULT_UNITS } from '@psiform/meshing';
+import { ENGINE_CONVENTION_LINES } from '@psiform/contracts';
+import { CONVENTIONS_NOTE, MODEL_NOTE as ENGINE_MODEL_NOTE, RESULT_UNITS, TOLERANCE_3D_RELATIVE } from '@psiform/meshing';
 
-export const MODEL_NOTE =
-  'one-electron hydrogen-like model (psi_nlm = R_nl(r) Y_lm); many-electron orbitals differ';
+/** The model every output states: the engine's own text (@psiform/meshing MODEL_NOTE). */
+export const MODEL_NOTE = ENGINE_MODEL_NOTE;
 
 /** Sign conventions and the normalisation rule (the engine's own text, also in every JSON output and file). */
 export const CONVENTIONS = CONVENTIONS_NOTE;
@@ -9,19 +10,30 @@ export const CONVENTIONS = CONVENTIONS_NOTE;
 /** Units of every number in the JSON outputs. */
 export const UNITS = RESULT_UNITS;
 
-const CONVENTIONS_HELP = `Conventions:
-  Y_lm carry the Condon-Shortley phase (-1)^m (as SciPy's sph_harm); R_nl > 0 near the nucleus.
-  Real forms: m > 0 is the cos type [(-1)^m Y_lm + Y_l,-m]/sqrt2, m < 0 the sin type
-  -i[(-1)^m Y_l|m| - Y_l,-|m|]/sqrt2, so p_x, d_xz, ... point along +x.
-  Hybrids (sp, sp2, sp3, sp3d, sp3d2): textbook coefficients, each term multiplied by (-1)^(n-l-1),
-  so the large lobe is positive and points along the named direction.
-  Coefficients in a recipe are relative: the engine scales them once so that sum |c|^2 = 1 over the
-  orthonormal (complex Y_lm) expansion; every level, density and fraction refers to that state.
-  Units: lengths a0 (Bohr radius, 0.529177210903 A), |psi| a0^-3/2, |psi|^2 a0^-3, area a0^2,
-  volume a0^3, fractions are probabilities 0..1; every JSON output carries a "units" field.`;
+/** Words of `text` in lines of at most `width` characters, each indented by `indent`. */
+function wrap(text: string, indent: string, width = 100): string[] {
+  const lines: string[] = [];
+  let cur = '';
+  for (const w of text.split(/\s+/)) {
+    if (cur && indent.length + cur.length + 1 + w.length > width) {
+      lines.push(indent + cur);
+      cur = w;
+    } else cur = cur ? `${cur} ${w}` : w;
+  }
+  if (cur) lines.push(indent + cur);
+  return lines;
+}
+
+// Generated from the engine's texts (one source: @psiform/contracts ENGINE_CONVENTION_LINES, @psiform/meshing
+// RESULT_UNITS), so the help cannot drift from what the outputs and files state.
+const CONVENTIONS_HELP = [
+  'Conventions:',
+  ...ENGINE_CONVENTION_LINES.flatMap((line) => wrap(line, '  ')),
+  ...wrap(`Units: ${Object.entries(RESULT_UNITS).map(([k, v]) => `${k} ${v}`).join('; ')}; every JSON output carries a "units" field.`, '  '),
+].join('\n');
 
 export const MAIN_HELP = `psiform - hydrogen-like orbital figures from a terminal
-(${MODEL_NOTE}; all lengths in Bohr radii a0)
+(${MODEL_NOTE})
 
 Usage: psiform <command> [options]
 
@@ -78,9 +90,9 @@ ${SURFACE_HELP}
 
 Output:
   --out FILE        write the mesh: .glb (glTF 2.0 binary), .stl (binary), .ply, .obj
-  --tolerance T     how far (a0) the mesh may lie from the true surface: 'file' (default: 3e-5 of the
-                    surface's half-width, finer than a 360 mm plate at 1200 dpi needs), 'none' (vertices
-                    on the surface, chords unchecked) or a length in a0
+  --tolerance T     how far (a0) the mesh may lie from the true surface: 'file' (default: ${TOLERANCE_3D_RELATIVE} of the
+                    surface's half-width, finer than the largest raster export, 64 MP, needs), 'none'
+                    (vertices on the surface, chords unchecked) or a length in a0
   --json            print JSON instead of a readable summary
 
 ${CONVENTIONS_HELP}

@@ -1,5 +1,5 @@
 import * as os from 'node:os';
-import { RECIPE_LIMITS } from '@psiform/contracts';
+import { RECIPE_LIMITS, quantumNumberError } from '@psiform/contracts';
 import { parseCommandArgs, type OptionSpec } from './args';
 import { UsageError, oneLine } from './errors';
 import { COMMAND_HELP, CONVENTIONS, MAIN_HELP, MODEL_NOTE, UNITS } from './help';
@@ -79,22 +79,31 @@ async function cmdSample(argv: string[]): Promise<void> {
   const bytes = encodeDensityNrrd(cube, recipe);
   const written = writeFileAtomic(v.out as string, bytes);
   const t2 = performance.now();
+  // What the cube cannot show truthfully (probability outside the box, shells finer than the grid), as mesh does.
+  const report = cube.report;
+  for (const w of report.warnings) process.stderr.write(`psiform: warning: ${oneLine(w.message)}\n`);
   const json = {
     label: recipe.label ?? null,
     Z: recipe.content.Z,
     model: MODEL_NOTE,
     conventions: CONVENTIONS,
-    units: { ...UNITS, data: 'a0^-3 (|psi|^2 of the normalised state)' },
+    units: { ...UNITS, data: 'a0^-3 (|psi|^2 of the normalised state)', max_density: 'a0^-3', in_box: 'probability, 0..1', outside_box: 'probability, 0..1' },
     quantity: '|psi|^2 in a0^-3',
     grid: { n: cube.n, extent: cube.extent, spacing: cube.spacing },
     max_density: cube.max,
+    // Probability of the normalised state inside the box, over all space (not a sum of the samples).
+    in_box: report.inBox,
+    in_box_error: report.error,
+    outside_box: report.outside,
+    warnings: report.warnings,
     out: { file: v.out as string, bytes: written },
     timings_ms: { sample: round(t1 - t0, 1), encode_write: round(t2 - t1, 1) },
   };
   print(
     v.json
       ? JSON.stringify(json, null, 2)
-      : `${json.label ?? 'state'} (Z=${json.Z}): |psi|^2 on ${cube.n}^3 voxels over +/-${fmt(cube.extent)} a0 -> ${json.out.file} (${json.out.bytes} bytes)\nmodel: ${MODEL_NOTE}`,
+      : `${json.label ?? 'state'} (Z=${json.Z}): |psi|^2 on ${cube.n}^3 voxels over +/-${fmt(cube.extent)} a0 -> ${json.out.file} (${json.out.bytes} bytes)\n` +
+          `in the box: ${(100 * report.inBox).toFixed(report.inBox > 0.9999 ? 4 : 2)}% of the probability over all space\nmodel: ${MODEL_NOTE}`,
   );
 }
 
@@ -105,9 +114,8 @@ function cmdRadial(argv: string[]): void {
   if (v.l === undefined) throw new UsageError('radial needs --l L');
   const n = parseIntOption('--n', v.n as string);
   const l = parseIntOption('--l', v.l as string);
-  if (n < 1 || n > RECIPE_LIMITS.nMax) throw new UsageError(`n must be between 1 and ${RECIPE_LIMITS.nMax} (got n=${n})`);
-  if (l < 0) throw new UsageError(`l must be at least 0 (got l=${l})`);
-  if (l >= n) throw new UsageError(`l must be less than n (got n=${n}, l=${l})`);
+  const broken = quantumNumberError(n, l); // the one quantum-number rule (libs/contracts quantum.ts)
+  if (broken) throw new UsageError(broken);
   const Z = v.Z === undefined ? 1 : parseIntOption('--Z', v.Z as string, { min: 1, max: RECIPE_LIMITS.zMax });
   let outside: number | null = null;
   if (v.outside !== undefined) {

@@ -1,5 +1,5 @@
 import * as fs from 'node:fs';
-import { RECIPE_LIMITS, RECIPE_VERSION, parseRecipe, type Recipe, type RecipeIssue } from '@psiform/contracts';
+import { RECIPE_LIMITS, RECIPE_VERSION, parseRecipe, quantumNumberError, type Recipe, type RecipeIssue } from '@psiform/contracts';
 import { UsageError, oneLine } from './errors';
 import { parseIntOption, parseNlm, parseNumberOption } from './numbers';
 import { stateForLabel, stateForNlm } from './engine';
@@ -135,11 +135,9 @@ export function resolveRecipe(o: StateOptions, opts: { withSurface: boolean }): 
   } else {
     const [n, l, m] = parseNlm(o.nlm!);
     const complex = !!o.complex;
-    // Check in the order a reader thinks: n's range, then l < n, then |m| <= l (the schema repeats these).
-    if (n < 1 || n > RECIPE_LIMITS.nMax) throw new UsageError(`n must be between 1 and ${RECIPE_LIMITS.nMax} (got n=${n})`);
-    if (l < 0) throw new UsageError(`l must be at least 0 (got l=${l})`);
-    if (l >= n) throw new UsageError(`l must be less than n (got n=${n}, l=${l})`);
-    if (Math.abs(m) > l) throw new UsageError(`|m| must not exceed l (got l=${l}, m=${m})`);
+    // The one quantum-number rule (libs/contracts quantum.ts), first broken part in reading order.
+    const broken = quantumNumberError(n, l, m);
+    if (broken) throw new UsageError(broken);
     label = nlmLabel(n, l, m, complex);
     content = { Z: nums.Z ?? 1, terms: stateForNlm(n, l, m, complex) };
   }

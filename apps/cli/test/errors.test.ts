@@ -99,14 +99,14 @@ describe('bad arguments exit 2 with one stderr line and write nothing', () => {
       const dir = tempDir();
       const f = path.join(dir, 'r.json');
       fs.writeFileSync(f, JSON.stringify({ content: { Z: 1, terms: [{ n: 1, l: 0, m: 0, basis: 'real', re: 1 }] }, grid: { n: 32 }, surface: { rule: 'enclosed', fraction: 1 } }));
-      expectRejected(['sample', '--recipe', f, '--out', 'OUT/a.nrrd'], /version: version must be 1; surface\.fraction: fraction must be between 0 and 1/);
+      expectRejected(['sample', '--recipe', f, '--out', 'OUT/a.nrrd'], /version: version must be 1; surface\.fraction: fraction must be a number between 0 and 1/);
     });
 
     it('a grid of 999 in the file', () => {
       const dir = tempDir();
       const f = path.join(dir, 'r.json');
       fs.writeFileSync(f, JSON.stringify({ version: 1, content: { Z: 1, terms: [{ n: 1, l: 0, m: 0, basis: 'real', re: 1 }] }, grid: { n: 999 }, surface: { rule: 'enclosed', fraction: 0.5 } }));
-      expectRejected(['mesh', '--recipe', f], /grid\.n: grid\.n must be at most 384/);
+      expectRejected(['mesh', '--recipe', f], /grid\.n: grid\.n must be 'auto' or a whole number from 16 to 384 \(got 999\)/);
     });
   });
 });

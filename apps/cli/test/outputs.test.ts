@@ -1,3 +1,4 @@
+import { spawnSync } from 'node:child_process';
 import * as fs from 'node:fs';
 import * as path from 'node:path';
 import { describe, expect, it } from 'vitest';
@@ -134,6 +135,44 @@ describe('sample --out FILE.nrrd', () => {
     expect(at(8, 8, 12)).toBeLessThan(1e-12); // (0, 0, 4 a0): on the axis
     // ψ_211 = -(1/8√π) r e^{-r/2} sin θ e^{iφ} (Griffiths 2nd ed., Tables 4.3 and 4.7): |ψ|² at (4, 0, 0) a0 = 16 e^{-4}/(64 π).
     expect(Math.abs(at(12, 8, 8) - (16 * Math.exp(-4)) / (64 * Math.PI)) / ((16 * Math.exp(-4)) / (64 * Math.PI))).toBeLessThan(1e-5);
+  });
+});
+
+describe('sample: what the box holds, over all space', () => {
+  // Independent reference: SciPy's tplquad of |psi_1s|^2 = e^{-2r}/pi over the cube [-1, 1]^3 (8 octants).
+  const scipyCube = (E: number) => {
+    const py = `import numpy as np\nfrom scipy import integrate\nf=lambda z,y,x: np.exp(-2*np.sqrt(x*x+y*y+z*z))/np.pi\nv,_=integrate.tplquad(f,0,${E},0,${E},0,${E},epsabs=1e-11)\nprint(8*v)`;
+    const r = spawnSync('/usr/bin/python3', ['-c', py], { encoding: 'utf8' });
+    if (r.status !== 0) throw new Error(`python3-scipy is needed: ${r.stderr}`);
+    return Number(r.stdout.trim());
+  };
+
+  it('a box narrower than the state: the in-box share (vs SciPy), what lies outside on stderr and in warnings', () => {
+    const dir = tempDir();
+    const out = path.join(dir, 'narrow.nrrd');
+    const r = psiform(['sample', '--orbital', '1s', '--grid', '17', '--extent', '1', '--out', out, '--json']);
+    expect(r.code).toBe(0);
+    const j = JSON.parse(r.stdout);
+    const want = scipyCube(1); // 0.4391...
+    expect(Math.abs(j.in_box - want)).toBeLessThan(2e-4);
+    expect(j.in_box + j.outside_box).toBeCloseTo(1, 12);
+    expect(j.units.in_box).toMatch(/probability/);
+    expect(j.warnings.map((w: { code: string }) => w.code)).toContain('box-cuts-density');
+    expect(r.stderr).toMatch(/psiform: warning: the box \(±1 a0\) holds 43\.9\d% of the probability over all space; 56\.0\d% lies outside/);
+    expect(readNrrd(out).kv['psiform.in_box_probability']).toMatch(/^0\.439/);
+  });
+
+  it('the automatic box holds >= 99.9 % and says nothing; a grid coarser than the inner shell of 5s is named', () => {
+    const dir = tempDir();
+    const j = psiformJson(['sample', '--orbital', '2pz', '--grid', '33', '--out', path.join(dir, 'a.nrrd')]);
+    expect(j.in_box).toBeGreaterThanOrEqual(0.999);
+    expect(j.warnings).toEqual([]);
+    const k = psiform(['sample', '--orbital', '5s', '--grid', '17', '--out', path.join(dir, 'b.nrrd'), '--json']);
+    const w = JSON.parse(k.stdout).warnings.find((x: { code: string }) => x.code === 'feature-unresolved');
+    // 5s radial nodes: roots of L_4^1(2r/5), i.e. SciPy roots_genlaguerre(4, 1) × 5/2; the first bounds the inner shell.
+    const py = spawnSync('/usr/bin/python3', ['-c', 'from scipy.special import roots_genlaguerre; print(roots_genlaguerre(4, 1)[0][0] * 2.5)'], { encoding: 'utf8' });
+    expect(w.feature.size).toBeCloseTo(Number(py.stdout.trim()), 6);
+    expect(k.stderr).toMatch(/innermost radial shell of 5s/);
   });
 });
 

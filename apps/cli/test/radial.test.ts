@@ -109,7 +109,7 @@ print(json.dumps(out))
     const r = psiform(['radial', '--n', '2', '--l', '0', '--outside', '2']);
     expect(r.code).toBe(0);
     expect(r.stdout).toMatch(/radial nodes\s+2\b/);
-    expect(r.stdout).toMatch(/one-electron hydrogen-like model/);
+    expect(r.stdout).toMatch(/one-electron hydrogen-like model/i);
     expect(r.stderr).toBe('');
   });
 });

@@ -133,12 +133,16 @@ describe('labels, headings, units and conventions', () => {
   it('help and JSON state the sign conventions (Condon–Shortley, (-1)^m of real forms, hybrid signs, normalisation)', () => {
     for (const args of [['--help'], ['mesh', '--help'], ['recipe', '--help']]) {
       const t = psiform(args).stdout;
-      expect(t).toMatch(/Condon-Shortley/);
+      // One text for help and outputs (@psiform/contracts ENGINE_CONVENTION_LINES): the help is the JSON's sentences.
+      expect(t).toMatch(/Condon–Shortley/);
       expect(t).toMatch(/\(-1\)\^m Y_lm/);
-      expect(t).toMatch(/Hybrids .*\(-1\)\^\(n-l-1\)/s);
+      expect(t).toMatch(/Hybrids:? .*\(-1\)\^\(n-l-1\)/s);
       expect(t).toMatch(/sum \|c\|\^2 = 1/);
     }
-    expect(psiformJson(['mesh', '--orbital', '1s', '--grid', '16']).conventions).toMatch(/Condon–Shortley/);
+    const conventions = psiformJson(['mesh', '--orbital', '1s', '--grid', '16']).conventions as string;
+    expect(conventions).toMatch(/Condon–Shortley/);
+    const help = psiform(['--help']).stdout.replace(/\s+/g, ' ');
+    for (const sentence of conventions.split(/(?<=\.) (?=[A-Z])/)) expect(help).toContain(sentence);
   });
 });
 

@@ -5,6 +5,8 @@ import '@fontsource/lato/300.css';
 import '@fontsource/lato/400.css';
 import '@fontsource/lato/400-italic.css';
 import '@fontsource/lato/700.css';
+import '@fontsource/dejavu-sans/400.css';
+import '@fontsource/dejavu-sans/700.css';
 import '@blueprintjs/core/lib/css/blueprint.css';
 import './styles.css';
 import { App, createQueryClient } from './App';

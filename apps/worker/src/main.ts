@@ -1,9 +1,9 @@
 import 'reflect-metadata';
 import { Logger } from '@nestjs/common';
-import { loadOrExit, loadWorkerConfig } from './config/config';
+import { loadOrExit, loadWorkerConfig } from '@psiform/server';
 import { createWorker } from './worker.factory';
 
-/** `node dist/main.js`: validates REDIS_URL / WORKER_CONCURRENCY, then runs the BullMQ processors until SIGTERM. */
+/** `node dist/main.js`: validates REDIS_URL / WORKER_CONCURRENCY, then runs the job handlers until SIGTERM. */
 async function main(): Promise<void> {
   const config = loadOrExit(() => loadWorkerConfig(process.env));
   await createWorker(config);

@@ -1,9 +1,9 @@
 import 'reflect-metadata';
 import { NestFactory } from '@nestjs/core';
 import type { INestApplicationContext, LogLevel } from '@nestjs/common';
-import type { WorkerConfig } from './config/config';
+import type { WorkerConfig } from '@psiform/server';
 import { WorkerModule } from './worker.module';
-import { WorkerHost } from './queues/worker-host';
+import { JobRunner } from '@psiform/server';
 
 /** Builds and starts the worker context; main.ts and the e2e test both use it. */
 export async function createWorker(config: WorkerConfig, options: { logger?: LogLevel[] | false } = {}): Promise<INestApplicationContext> {
@@ -13,6 +13,6 @@ export async function createWorker(config: WorkerConfig, options: { logger?: Log
   });
   app.enableShutdownHooks();
   await app.init();
-  await app.get(WorkerHost).waitUntilReady();
+  await app.get(JobRunner).waitUntilReady();
   return app;
 }

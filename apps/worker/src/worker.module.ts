@@ -1,20 +1,21 @@
 import { Module, type DynamicModule } from '@nestjs/common';
-import { AssetStore, JobsStore, ObjectStorage } from '@psiform/server';
-import type { WorkerConfig } from './config/config';
-import { WORKER_CONFIG } from './config/config.tokens';
-import { RedisConnectionModule } from './infra/redis-connection';
+import type Redis from 'ioredis';
+import { AssetStore, JOB_HANDLERS, JobRunner, JobsStore, ObjectStorage, OutboxStore, SmtpMailer, WORKER_CONFIG, type JobHandler, type WorkerConfig } from '@psiform/server';
+import { RedisConnectionModule, REDIS_CONNECTION } from './infra/redis-connection';
 import { PipelineModule } from './infra/pipeline.module';
-import { JOB_PROCESSORS, type JobProcessor } from './queues/job-processor';
-import { WorkerHost } from './queues/worker-host';
 import { HealthPingProcessor } from './health/health-ping.processor';
 import { MeshJobProcessor } from './mesh/mesh.processor';
 import { MailNoticeProcessor } from './mail/mail-notice.processor';
-import { SmtpMailSender, warnNoSmtp } from './mail/mail-sender';
 import { RenderModule } from './render/render.module';
 import { RenderJobProcessor } from './render/render.processor';
 import { ExportJobProcessor } from './export/export.processor';
 import { ThumbnailScheduler } from './render/thumbnails';
 
+/**
+ * The worker: one handler per job name of the contract (libs/contracts jobs.ts), all listed under JOB_HANDLERS; the
+ * JobRunner (libs/server) refuses to start when a job name has no handler or two. A new job kind: its schema in the
+ * contract, a handler class here, one more entry in the JOB_HANDLERS list (DEVELOPERS.md "Jobs").
+ */
 @Module({})
 export class WorkerModule {
   static forRoot(config: WorkerConfig): DynamicModule {
@@ -24,18 +25,21 @@ export class WorkerModule {
       providers: [
         { provide: WORKER_CONFIG, useValue: config },
         HealthPingProcessor,
+        { provide: MeshJobProcessor, inject: [AssetStore, ObjectStorage], useFactory: (assets: AssetStore, storage: ObjectStorage) => new MeshJobProcessor(assets, storage) },
+        // Without SMTP_URL the notice handler is registered but disabled, so notices wait for a worker that can send.
+        { provide: MailNoticeProcessor, useFactory: () => new MailNoticeProcessor(config.smtp ? new SmtpMailer({ smtp: config.smtp }) : null) },
         {
-          provide: MeshJobProcessor,
-          inject: [JobsStore, AssetStore, ObjectStorage, ThumbnailScheduler],
-          // THUMBNAILS=off: no thumbnail render after mesh jobs.
-          useFactory: (jobs: JobsStore, assets: AssetStore, storage: ObjectStorage, thumbs: ThumbnailScheduler) =>
-            new MeshJobProcessor(jobs, assets, storage, undefined, config.render.thumbnails ? thumbs.schedule : undefined),
+          provide: JOB_HANDLERS,
+          inject: [HealthPingProcessor, MeshJobProcessor, MailNoticeProcessor, RenderJobProcessor, ExportJobProcessor],
+          useFactory: (...handlers: JobHandler[]) => handlers,
         },
-        // Without SMTP_URL this worker leaves the mail queue alone, so notices wait for a worker that can send.
-        { provide: MailNoticeProcessor, useFactory: () => (config.smtp ? new MailNoticeProcessor(new SmtpMailSender(config.smtp)) : warnNoSmtp()) },
-        // Render and export processors (studio issue): RenderModule.
-        { provide: JOB_PROCESSORS, inject: [HealthPingProcessor, MeshJobProcessor, MailNoticeProcessor, RenderJobProcessor, ExportJobProcessor], useFactory: (...processors: (JobProcessor | null)[]) => processors.filter((p): p is JobProcessor => p !== null) },
-        WorkerHost,
+        {
+          provide: JobRunner,
+          inject: [REDIS_CONNECTION, JOB_HANDLERS, JobsStore, OutboxStore, ThumbnailScheduler],
+          // Every job that stores a new mesh gets the figure's thumbnail after it (THUMBNAILS=off: none).
+          useFactory: (redis: Redis, handlers: JobHandler[], jobs: JobsStore, outbox: OutboxStore, thumbs: ThumbnailScheduler) =>
+            new JobRunner(redis, handlers, jobs, outbox, { concurrency: config.concurrency, lockMs: config.lockMs, afterMesh: config.render.thumbnails ? thumbs.schedule : undefined }),
+        },
       ],
     };
   }

@@ -5,7 +5,7 @@ import { join } from 'node:path';
 import type { INestApplicationContext } from '@nestjs/common';
 import { Queue, QueueEvents } from 'bullmq';
 import { HEALTH_PING_JOB, QUEUES } from '@psiform/contracts';
-import { loadWorkerConfig, type WorkerConfig } from '../src/config/config';
+import { loadWorkerConfig, type WorkerConfig } from '@psiform/server';
 import { createWorker } from '../src/worker.factory';
 
 /** Runs against the real services named by the environment (the test runner sets them); fails loudly without them. */

@@ -7,7 +7,7 @@ import { encode } from '../src/mesh/mesh-assets';
 import { FigureRenderer } from '../src/render/figure-renderer';
 import { HeadlessBrowser } from '../src/render/headless-browser';
 import { StaticSite } from '../src/render/static-site';
-import { DEFAULT_WEB_DIST } from '../src/config/config';
+import { DEFAULT_WEB_DIST } from '@psiform/server';
 
 /** The worker's render path against the real Debian Chromium and the built render page (no other services). */
 describe('headless render (e2e)', () => {

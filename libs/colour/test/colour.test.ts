@@ -240,7 +240,7 @@ describe('phaseColoursInto: the one phase-colouring rule', () => {
   it('argument colouring follows the wheel: hue = arg psi (within one 8-bit step of culori at every 5 degrees), cyclic', () => {
     for (let d = 0; d < 360; d += 5) {
       const a = (d * Math.PI) / 180;
-      const ref = converter('rgb')(phaseColor(a, palette.wheel));
+      const ref = converter('rgb')(phaseColor(a, palette.wheel))!;
       const got = phaseRgb(palette, 'argument', 'complex', a);
       expect(Math.abs(got[0] - ref.r) * 255).toBeLessThan(1);
       expect(Math.abs(got[1] - ref.g) * 255).toBeLessThan(1);

@@ -9,3 +9,5 @@ export * from './limits';
 export * from './print';
 export * from './people';
 export * from './proofs';
+export * from './jobs';
+export * from './quantum';

@@ -1,5 +1,9 @@
 import { z } from 'zod';
-import { CANVAS_LIMITS, HEX_COLOUR, HEX_COLOUR_MESSAGE, TEXT_LIMITS } from './limits';
+import { N_MAX, quantumNumberIssues } from './quantum';
+import { fractionProblem, gridProblem, HEX_COLOUR, HEX_COLOUR_MESSAGE, isovalueProblem, mmProblem, RECIPE_LIMITS, TEXT_LIMITS, textProblem, zProblem } from './limits';
+
+/** The API's message for a limit: the field, then the very words the client shows (limits.ts). */
+const says = (field: string, problem: (v: unknown) => string | null) => (iss: { input?: unknown }) => `${field} ${problem(iss.input) ?? 'is not valid'}`;
 
 /**
  * The figure recipe: one versioned JSON document that fully describes a figure's content and look
@@ -14,25 +18,24 @@ export const RECIPE_VERSION = 1;
  * The sign conventions and the normalisation rule every figure follows, in one text: the CLI help, the API docs,
  * every mesh summary and the metadata sheet quote it (@psiform/meshing CONVENTIONS_NOTE is this constant).
  */
-export const ENGINE_CONVENTIONS =
-  'Y_lm carry the Condon–Shortley phase (-1)^m (as SciPy sph_harm); R_nl > 0 near the nucleus. Real forms: ' +
-  'm > 0 is the cos type, Y^c = [(-1)^m Y_lm + Y_l,-m]/sqrt2; m < 0 the sin type, Y^s = -i[(-1)^m Y_l|m| - Y_l,-|m|]/sqrt2, ' +
-  'so p_x, d_xz ... point along +x. Hybrids: textbook coefficients with each term multiplied by (-1)^(n-l-1), ' +
-  'so the large lobe is positive and points along the named direction. Coefficients are relative: the engine ' +
-  'scales them once so that sum |c|^2 = 1 over the orthonormal (complex Y_lm) expansion.';
+/**
+ * The sign conventions and the normalisation rule, one sentence per line: THE text the API docs, the recipe schema,
+ * exported metadata (ENGINE_CONVENTIONS) and the CLI's help (its lines, wrapped) all quote.
+ */
+export const ENGINE_CONVENTION_LINES = [
+  'Y_lm carry the Condon–Shortley phase (-1)^m (as SciPy sph_harm); R_nl > 0 near the nucleus.',
+  'Real forms: m > 0 is the cos type, Y^c = [(-1)^m Y_lm + Y_l,-m]/sqrt2; m < 0 the sin type, Y^s = -i[(-1)^m Y_l|m| - Y_l,-|m|]/sqrt2, so p_x, d_xz ... point along +x.',
+  'Hybrids: textbook coefficients with each term multiplied by (-1)^(n-l-1), so the large lobe is positive and points along the named direction.',
+  'Coefficients are relative: the engine scales them once so that sum |c|^2 = 1 over the orthonormal (complex Y_lm) expansion.',
+] as const;
 
-/** Engine limits shared by the CLI, API, worker and web (memory: 384³ float32 ≈ 226 MB per field). */
-export const RECIPE_LIMITS = {
-  nMax: 12,
-  zMax: 118,
-  gridMin: 16,
-  gridMax: 384,
-  termsMax: 16,
-  extentMax: 2000,
-} as const;
+export const ENGINE_CONVENTIONS = ENGINE_CONVENTION_LINES.join(' ');
 
-/** Starting values of a new figure, the same in the Composer, its presets and the CLI's help. */
-export const RECIPE_DEFAULTS = { gridN: 96, fraction: 0.9 } as const;
+/**
+ * Starting values of a new figure, the same in the Composer, its presets, the figure-set shell and the CLI's help:
+ * the engine's own grid ('auto', the state-aware resolution that resolves the smallest feature) and 90 %.
+ */
+export const RECIPE_DEFAULTS = { gridN: 'auto', fraction: 0.9 } as const;
 
 const finite = (what: string) =>
   z.number({ error: `${what} must be a number` }).refine(Number.isFinite, { message: `${what} must be a finite number` });
@@ -56,9 +59,10 @@ export const PSIFORM_PALETTE = {
 
 export const termSchema = z
   .strictObject({
-    n: z.number().int({ message: 'n must be an integer' }).min(1, { message: 'n must be at least 1' }).max(RECIPE_LIMITS.nMax, { message: `n must be at most ${RECIPE_LIMITS.nMax}` }),
-    l: z.number().int({ message: 'l must be an integer' }).min(0, { message: 'l must be at least 0' }),
-    m: z.number().int({ message: 'm must be an integer' }),
+    // The rule on n, l, m (ranges and relations) is quantum.ts's, checked below with its one wording.
+    n: z.number({ error: 'n must be a number' }).describe(`principal quantum number: an integer, 1 ≤ n ≤ ${N_MAX}`),
+    l: z.number({ error: 'l must be a number' }).describe('angular momentum quantum number: an integer, 0 ≤ l < n'),
+    m: z.number({ error: 'm must be a number' }).describe('magnetic quantum number: an integer, |m| ≤ l'),
     /** 'complex': Y_lm with the Condon–Shortley phase; 'real': the chemists' real combination (m>0 cos-type, m<0 sin-type). */
     basis: z.enum(['complex', 'real']).describe("'complex': Y_lm with the Condon–Shortley phase; 'real': the real form (m > 0 cos type, m < 0 sin type, (-1)^m as in ENGINE_CONVENTIONS)."),
     /**
@@ -72,20 +76,19 @@ export const termSchema = z
     im: finite('im').default(0),
   })
   .superRefine((t, ctx) => {
-    if (t.l >= t.n) ctx.addIssue({ code: 'custom', path: ['l'], message: `l must be less than n (got n=${t.n}, l=${t.l})` });
-    if (Math.abs(t.m) > t.l) ctx.addIssue({ code: 'custom', path: ['m'], message: `|m| must not exceed l (got l=${t.l}, m=${t.m})` });
+    for (const issue of quantumNumberIssues(t)) ctx.addIssue({ code: 'custom', path: [issue.field], message: issue.message });
   });
 
 export const surfaceSchema = z.discriminatedUnion('rule', [
   z.strictObject({
     rule: z.literal('enclosed'),
     /** Fraction of the probability the surface encloses, in (0, 1). */
-    fraction: finite('fraction').refine((f) => f > 0 && f < 1, { message: 'fraction must be between 0 and 1 (exclusive)' }),
+    fraction: z.number({ error: says('fraction', fractionProblem) }).refine((f) => fractionProblem(f) === null, { error: says('fraction', fractionProblem) }),
   }),
   z.strictObject({
     rule: z.literal('psi'),
     /** Absolute value c of the isosurfaces ψ = ±c (|ψ| = c for complex states), in a0^(-3/2). */
-    value: finite('value').refine((v) => v > 0, { message: 'value must be positive' }),
+    value: z.number({ error: says('value', isovalueProblem) }).refine((v) => isovalueProblem(v) === null, { error: says('value', isovalueProblem) }),
   }),
 ]);
 
@@ -140,13 +143,13 @@ export const annotationsSchema = z.strictObject({
     .strictObject({ show: z.boolean().default(true), unit: z.enum(['angstrom', 'bohr']).default('angstrom'), length: finite('length').refine((v) => v > 0, { message: 'length must be positive' }).optional() })
     .default({ show: true, unit: 'angstrom' }),
   nucleus: z.boolean().default(true),
-  label: z.strictObject({ show: z.boolean().default(true), text: z.string().max(TEXT_LIMITS.labelMax, { message: `label must be at most ${TEXT_LIMITS.labelMax} characters` }).optional() }).default({ show: true }),
-  caption: z.string().max(TEXT_LIMITS.captionMax, { message: `caption must be at most ${TEXT_LIMITS.captionMax} characters` }).optional(),
+  label: z.strictObject({ show: z.boolean().default(true), text: z.string().max(TEXT_LIMITS.labelMax, { error: says('label', (v) => textProblem(v, TEXT_LIMITS.labelMax)) }).optional() }).default({ show: true }),
+  caption: z.string().max(TEXT_LIMITS.captionMax, { error: says('caption', (v) => textProblem(v, TEXT_LIMITS.captionMax)) }).optional(),
 });
 
 export const canvasSchema = z.strictObject({
-  widthMm: finite('widthMm').refine((v) => v >= CANVAS_LIMITS.mmMin && v <= CANVAS_LIMITS.mmMax, { message: `widthMm must be from ${CANVAS_LIMITS.mmMin} to ${CANVAS_LIMITS.mmMax} mm` }),
-  heightMm: finite('heightMm').refine((v) => v >= CANVAS_LIMITS.mmMin && v <= CANVAS_LIMITS.mmMax, { message: `heightMm must be from ${CANVAS_LIMITS.mmMin} to ${CANVAS_LIMITS.mmMax} mm` }),
+  widthMm: z.number({ error: says('widthMm', mmProblem) }).refine((v) => mmProblem(v) === null, { error: says('widthMm', mmProblem) }),
+  heightMm: z.number({ error: says('heightMm', mmProblem) }).refine((v) => mmProblem(v) === null, { error: says('heightMm', mmProblem) }),
   dpi: z.union([z.literal(300), z.literal(600), z.literal(1200)], { error: 'dpi must be 300, 600 or 1200' }),
 });
 
@@ -196,9 +199,9 @@ export type RecipeSource = z.infer<typeof recipeSourceSchema>;
 export const recipeSchema = z.strictObject({
   version: z.literal(RECIPE_VERSION, { error: `version must be ${RECIPE_VERSION}` }),
   /** Display label such as "3d_xy" or "sp3 #1"; informative only, the terms are authoritative. */
-  label: z.string().max(TEXT_LIMITS.labelMax, { message: `label must be at most ${TEXT_LIMITS.labelMax} characters` }).optional(),
+  label: z.string().max(TEXT_LIMITS.labelMax, { error: says('label', (v) => textProblem(v, TEXT_LIMITS.labelMax)) }).optional(),
   content: z.strictObject({
-    Z: z.number().int({ message: 'Z must be an integer' }).min(1, { message: 'Z must be at least 1' }).max(RECIPE_LIMITS.zMax, { message: `Z must be at most ${RECIPE_LIMITS.zMax}` }),
+    Z: z.number({ error: says('Z', zProblem) }).int({ error: says('Z', zProblem) }).min(1, { error: says('Z', zProblem) }).max(RECIPE_LIMITS.zMax, { error: says('Z', zProblem) }),
     terms: z
       .array(termSchema)
       .min(1, { message: 'at least one term is required' })
@@ -215,8 +218,8 @@ export const recipeSchema = z.strictObject({
     n: z
       .union([
         z.literal('auto'),
-        z.number({ error: "grid.n must be 'auto' or a number" }).int({ message: 'grid.n must be an integer' }).min(RECIPE_LIMITS.gridMin, { message: `grid.n must be at least ${RECIPE_LIMITS.gridMin}` }).max(RECIPE_LIMITS.gridMax, { message: `grid.n must be at most ${RECIPE_LIMITS.gridMax}` }),
-      ])
+        z.number({ error: says('grid.n', gridProblem) }).int({ error: says('grid.n', gridProblem) }).min(RECIPE_LIMITS.gridMin, { error: says('grid.n', gridProblem) }).max(RECIPE_LIMITS.gridMax, { error: says('grid.n', gridProblem) }),
+      ], { error: says('grid.n', gridProblem) })
       .default('auto'),
     /**
      * Half-width of the sampled cube in a0, or 'auto': for meshes, the box that holds the whole surface with a

@@ -1,3 +1,4 @@
+import type { JobName, JobOf } from './jobs';
 import type { FigureStatus } from './states';
 
 /** Editorial review and swatchbooks: shapes exchanged over HTTP and through the mail queue. */
@@ -152,14 +153,9 @@ export interface BatchDto {
   createdAt: string;
 }
 
-/** Job name on QUEUES.mail; payload MailNoticeJob. */
-export const MAIL_NOTICE_JOB = 'notice';
-export interface MailNoticeJob {
-  to: string[];
-  subject: string;
-  text: string;
-  html: string;
-}
+/** Job name on QUEUES.mail; payload MailNoticeJob (the job contract, jobs.ts). */
+export const MAIL_NOTICE_JOB = 'notice' satisfies JobName;
+export type MailNoticeJob = JobOf<'notice'>;
 
 /** GET /api/dev/outbox rows (newest first). */
 export interface OutboxMessageDto {

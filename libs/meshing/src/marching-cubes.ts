@@ -210,6 +210,52 @@ export function activeBlockFlags(range: BlockRange, level: number, inside: 'abov
  * Extract the isosurface field = level as an indexed, watertight, outward-oriented mesh.
  * field: nx*ny*nz values, x fastest (i = x + nx*(y + ny*z)).
  */
+/**
+ * Cube case of a cell: bit c set when corner c is inside, strictly beyond the level (s = +1: v > level; s = -1:
+ * v < level; sl = s × level). Shared by the dense and coarse-to-fine kernels (one copy of the rule).
+ */
+export function cubeCase(s: number, sl: number, v0: number, v1: number, v2: number, v3: number, v4: number, v5: number, v6: number, v7: number): number {
+  return (
+    (s * v0 > sl ? 1 : 0) |
+    (s * v1 > sl ? 2 : 0) |
+    (s * v2 > sl ? 4 : 0) |
+    (s * v3 > sl ? 8 : 0) |
+    (s * v4 > sl ? 16 : 0) |
+    (s * v5 > sl ? 32 : 0) |
+    (s * v6 > sl ? 64 : 0) |
+    (s * v7 > sl ? 128 : 0)
+  );
+}
+
+/** The 8 corner values of a crossed cell into cv (Bourke's corner order), for edge interpolation. */
+export function setCorners(cv: Float64Array, v0: number, v1: number, v2: number, v3: number, v4: number, v5: number, v6: number, v7: number): void {
+  cv[0] = v0;
+  cv[1] = v1;
+  cv[2] = v2;
+  cv[3] = v3;
+  cv[4] = v4;
+  cv[5] = v5;
+  cv[6] = v6;
+  cv[7] = v7;
+}
+
+/**
+ * Appends the triangles of cube case `ci` (bit c set: corner c inside) to idx from ni, with ev[e] the vertex id on
+ * edge e; returns the new length (at most 15 more). One copy for the dense and the coarse-to-fine kernels.
+ * With bits marking inside corners, Bourke's triangles wind clockwise seen from outside; (a, c, b) is emitted so
+ * the right-hand rule points outward.
+ */
+export function emitCellTriangles(ci: number, ev: Uint32Array, idx: Uint32Array, ni: number): number {
+  const tb = ci * 16;
+  for (let q = tb; q < tb + 15 && TRI_TABLE[q] >= 0; q += 3) {
+    idx[ni] = ev[TRI_TABLE[q]];
+    idx[ni + 1] = ev[TRI_TABLE[q + 2]];
+    idx[ni + 2] = ev[TRI_TABLE[q + 1]];
+    ni += 3;
+  }
+  return ni;
+}
+
 export function extractIsosurface(
   field: Float32Array,
   dims: GridDims,
@@ -453,26 +499,10 @@ export function extractIsosurface(
                 v5 = value(i + 1, j, k + 1);
                 v6 = value(i + 1, j + 1, k + 1);
                 v7 = value(i, j + 1, k + 1);
-                // Bit c set when corner c is inside (strictly beyond the level).
-                ci =
-                  (s * v0 > sl ? 1 : 0) |
-                  (s * v1 > sl ? 2 : 0) |
-                  (s * v2 > sl ? 4 : 0) |
-                  (s * v3 > sl ? 8 : 0) |
-                  (s * v4 > sl ? 16 : 0) |
-                  (s * v5 > sl ? 32 : 0) |
-                  (s * v6 > sl ? 64 : 0) |
-                  (s * v7 > sl ? 128 : 0);
+                ci = cubeCase(s, sl, v0, v1, v2, v3, v4, v5, v6, v7);
               }
               if (ci === 0 || ci === 255) continue;
-              cv[0] = v0;
-              cv[1] = v1;
-              cv[2] = v2;
-              cv[3] = v3;
-              cv[4] = v4;
-              cv[5] = v5;
-              cv[6] = v6;
-              cv[7] = v7;
+              setCorners(cv, v0, v1, v2, v3, v4, v5, v6, v7);
               const mask = EDGE_TABLE[ci];
               const cellBase = (j + 1) * W + (i + 1);
               for (let e = 0; e < 12; e++) {
@@ -487,21 +517,13 @@ export function extractIsosurface(
                   ev[e] = id;
                 }
               }
-              const tb = ci * 16;
               if (ni + 15 > icap) {
                 icap *= 2;
                 const i2 = new Uint32Array(icap);
                 i2.set(idx);
                 idx = i2;
               }
-              // With bits marking inside corners, Bourke's triangles wind clockwise seen from
-              // outside; emit (a, c, b) so the right-hand rule points outward.
-              for (let q = tb; TRI_TABLE[q] >= 0 && q < tb + 15; q += 3) {
-                idx[ni] = ev[TRI_TABLE[q]];
-                idx[ni + 1] = ev[TRI_TABLE[q + 2]];
-                idx[ni + 2] = ev[TRI_TABLE[q + 1]];
-                ni += 3;
-              }
+              ni = emitCellTriangles(ci, ev, idx, ni);
             }
           }
         }

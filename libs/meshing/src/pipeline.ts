@@ -32,6 +32,7 @@ import {
   type SurfaceFeature,
   type Term,
 } from '@psiform/orbitals';
+import { radialNodes } from '@psiform/orbitals';
 import { enclosedFractionAt, enclosedThreshold, fieldBound } from '@psiform/orbitals';
 import { ENGINE_CONVENTIONS, type MeshStatsDto } from '@psiform/contracts';
 import { extractIsosurface } from './marching-cubes';
@@ -125,7 +126,7 @@ export interface SurfaceHooks {
   maxTriangles?: number;
 }
 
-export type WarningCode = 'box-cuts-surface' | 'feature-unresolved' | 'topology-mismatch' | 'topology-unverified' | 'measured-in-cube' | 'tolerance-unmet';
+export type WarningCode = 'box-cuts-surface' | 'box-cuts-density' | 'feature-unresolved' | 'topology-mismatch' | 'topology-unverified' | 'measured-in-cube' | 'tolerance-unmet';
 
 export interface SurfaceWarning {
   code: WarningCode;
@@ -494,9 +495,9 @@ function regionBlockField(plan: SurfacePlan, region: GridRegion, timer: { ms: nu
         re = new Float32Array(N);
         if (im) im = new Float32Array(N);
       }
-      compiled.sampleBox({ origin, spacing: h, start, size }, re, im);
-      if (!rule) out.set(re.subarray(0, N));
+      if (!rule) compiled.sampleBox({ origin, spacing: h, start, size }, out, null);
       else {
+        compiled.sampleBox({ origin, spacing: h, start, size }, re, im);
         for (let k = 0, i = 0; k < size[2]; k++) {
           const z = -extent + (start[2] + k) * h;
           for (let j = 0; j < size[1]; j++) {
@@ -981,6 +982,67 @@ function levelBelow(density: Float32Array, t: number): number {
 export function cubeExtentFor(recipe: SurfaceRecipe): number {
   const ext = recipe.grid.extent ?? 'auto';
   return ext === 'auto' ? Number(autoExtent(stateOf(recipe))) : ext;
+}
+
+/** What a sampled density cube (NRRD) holds of the state, over all space, and what it cannot show. */
+export interface CubeReport {
+  /** Probability inside the cube [-extent, extent]³ (of the normalised state over all space) and its estimated error. */
+  inBox: number;
+  outside: number;
+  error: number;
+  /** The half-width that holds >= 99.9 % (the automatic box). */
+  autoExtent: number;
+  warnings: SurfaceWarning[];
+}
+
+/**
+ * The truth about a density cube of n points per side over ±extent: the share of the probability it holds (all-space
+ * quadrature of the level solver with level 0, so every direction's ray is cut at the cube's face), a warning when
+ * more than 0.1 % lies outside (the automatic box's promise), and a warning when the grid step is coarser than half
+ * the thinnest radial shell (between consecutive radial nodes, or nucleus to first node): such shells are not
+ * resolved in the samples.
+ */
+export function densityCubeReport(recipe: Pick<SurfaceRecipe, 'content'>, n: number, extent: number): CubeReport {
+  if (!Number.isInteger(n) || n < 2) throw new RangeError(`grid.n must be an integer >= 2 (got ${n})`);
+  if (!(extent > 0) || !Number.isFinite(extent)) throw new RangeError(`extent must be a positive length in a0 (got ${extent})`);
+  const state = stateOf(recipe as SurfaceRecipe);
+  const compiled = compileState(state);
+  const out = levelSolver(compiled).outsideBox(0, extent);
+  const auto = Number(autoExtent(state));
+  const warnings: SurfaceWarning[] = [];
+  const outside = Math.min(1, Math.max(0, out.fraction));
+  const inBox = 1 - outside;
+  if (outside > 1e-3) {
+    const need = Math.max(auto, extent * 1.01);
+    warnings.push({
+      code: 'box-cuts-density',
+      message: `the box (±${fmt(extent)} a0) holds ${pct(inBox)} of the probability over all space; ${pct(outside)} lies outside it and is not in the file; the automatic box ±${fmt(need)} a0 holds at least 99.9%`,
+      suggestedExtent: Number(need.toPrecision(4)),
+    });
+  }
+  const h = (2 * extent) / (n - 1);
+  let thinnest: { size: number; description: string } | null = null;
+  for (const b of compiled.blocks) {
+    const nodes = radialNodes(b.n, b.l, state.Z).map(Number);
+    const edges = [0, ...nodes];
+    for (let k = 0; k + 1 < edges.length; k++) {
+      const size = edges[k + 1] - edges[k];
+      if (!thinnest || size < thinnest.size) {
+        const name = `${b.n}${'spdfghiklmnoq'[b.l] ?? `(l=${b.l})`}`;
+        thinnest = { size, description: `the ${k === 0 ? 'innermost radial shell' : `radial shell ${k + 1}`} of ${name} (r ${fmt(edges[k])} to ${fmt(edges[k + 1])} a0, ${fmt(size)} a0 thick)` };
+      }
+    }
+  }
+  if (thinnest && h > thinnest.size / 2) {
+    const suggestedN = Math.ceil((2 * extent) / (thinnest.size / 2)) + 1;
+    warnings.push({
+      code: 'feature-unresolved',
+      message: `the grid step ${fmt(h)} a0 (${n} points over ±${fmt(extent)} a0) is coarser than half of ${thinnest.description}: the samples do not resolve it; use at least ${suggestedN} points per side`,
+      feature: { kind: 'radial-shell', size: thinnest.size, description: thinnest.description },
+      suggestedN,
+    });
+  }
+  return { inBox, outside, error: out.error, autoExtent: auto, warnings };
 }
 
 export { cubeGeometry };

@@ -21,6 +21,8 @@ export interface Section extends SectionSpec {
   values: Float64Array;
   /** 'real': psi itself; 'signed-modulus': |psi| with the sign of Re psi (complex states). */
   mode: 'real' | 'signed-modulus';
+  /** Complex states only: arg psi per sample (radians, atan2(Im, Re)), for maps coloured by phase. */
+  arg?: Float64Array;
 }
 
 /** Sample psi on a plane: real states give psi, complex states |psi| * sign(Re psi). */
@@ -32,6 +34,7 @@ export function sectionPlane(compiled: CompiledLike, spec: SectionSpec): Section
   if (!Number.isFinite(offset)) throw new RangeError(`offset must be finite (got ${offset})`);
   const h = (2 * extent) / (n - 1);
   const values = new Float64Array(n * n);
+  const arg = compiled.isReal ? undefined : new Float64Array(n * n);
   for (let j = 0; j < n; j++) {
     const v = -extent + h * j;
     for (let i = 0; i < n; i++) {
@@ -39,9 +42,10 @@ export function sectionPlane(compiled: CompiledLike, spec: SectionSpec): Section
       const [x, y, z] = plane === 'xy' ? [u, v, offset] : plane === 'xz' ? [u, offset, v] : [offset, u, v];
       const psi = compiled.evaluate(x, y, z);
       values[i + n * j] = compiled.isReal ? psi.re : (psi.re < 0 ? -1 : 1) * Math.hypot(psi.re, psi.im);
+      if (arg) arg[i + n * j] = Math.atan2(psi.im, psi.re);
     }
   }
-  return { plane, offset, extent, n, values, mode: compiled.isReal ? 'real' : 'signed-modulus' };
+  return { plane, offset, extent, n, values, mode: compiled.isReal ? 'real' : 'signed-modulus', ...(arg ? { arg } : {}) };
 }
 
 /** GeoJSON-like MultiPolygon (rings of [u, v] points). */
@@ -86,5 +90,22 @@ export function sectionContours(values: Float64Array | Float32Array | ArrayLike<
     plus: thresholds.map((c) => map(gen.contour(arr, c), c)),
     minus: thresholds.map((c) => map(gen.contour(neg, c), -c)),
     nodal: map(gen.contour(arr, 0), 0),
+  };
+}
+
+/**
+ * The region values >= c of one field (any c, also 0 or negative) as polygons, in Bohr when extent is given: what
+ * maps coloured by phase need for each band of the wheel and each |psi| level (same marching squares as above).
+ */
+export function regionContours(values: Float64Array | Float32Array | ArrayLike<number>, n: number, c: number, extent?: number): ContourPolygons {
+  if (!Number.isInteger(n) || n < 2) throw new RangeError(`n must be an integer >= 2 (got ${n})`);
+  if (values.length !== n * n) throw new RangeError(`values length ${values.length} must be n² = ${n * n}`);
+  if (!Number.isFinite(c)) throw new RangeError(`c must be finite (got ${c})`);
+  const g = contours().size([n, n]).contour(Array.from(values as ArrayLike<number>), c);
+  const h = extent !== undefined ? (2 * extent) / (n - 1) : 1;
+  return {
+    type: 'MultiPolygon',
+    value: c,
+    coordinates: extent === undefined ? g.coordinates : g.coordinates.map((poly) => poly.map((ring) => ring.map(([u, v]) => [-extent + (u - 0.5) * h, -extent + (v - 0.5) * h]))),
   };
 }

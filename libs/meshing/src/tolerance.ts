@@ -9,12 +9,17 @@
 // d >= R / sin(fov / 2), hence the factor (1 - sin(fov / 2)). Using the surface's half-width (<= its radius)
 // for R only makes the tolerance smaller, never larger.
 //
-// A 3D file (GLB, STL) has no scale of its own: its default is TOLERANCE_3D_RELATIVE of the surface's
-// half-width, the quarter pixel of a plate about 360 mm wide at 1200 dpi, and at most 1e-4 a0 for surfaces
-// up to 3.3 a0 across.
+// A 3D file (GLB, STL) has no scale of its own. Its default, TOLERANCE_3D_RELATIVE of the surface's half-width, is
+// chosen so that the file is exact for every raster Psiform can export from it: the largest raster is 64 megapixels
+// (@psiform/contracts RASTER_LIMITS), so its shorter side is at most 8000 px, whose quarter pixel at the default
+// camera (perspective 35°, zoom 1) is 0.25 × 2 / 8000 × (1 − sin 17.5°) = 4.4e-5 of the half-width (printTolerance
+// below). 3.5e-5 keeps a margin under that and puts the 90 % surface of 1s (half-width 2.66 a0) within 1e-4 a0. A
+// finer default would only add triangles no export can show (each halving of the tolerance doubles them: the chord
+// error of an edge grows with its length squared); a print finer still (zoomed camera) re-meshes for itself
+// (apps/worker mesh-assets printGlb). Measured in `npm run bench` (exact section): 1s to 5s, 3d, 4f at this default.
 
-/** Default tolerance of 3D files, relative to the surface's half-width. */
-export const TOLERANCE_3D_RELATIVE = 3e-5;
+/** Default tolerance of 3D files, relative to the surface's half-width (see above). */
+export const TOLERANCE_3D_RELATIVE = 3.5e-5;
 
 /** The part of a recipe's camera (@psiform/contracts cameraSchema) the pixel scale depends on. */
 export interface OutputCamera {

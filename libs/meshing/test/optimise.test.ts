@@ -1,4 +1,3 @@
-import { createRequire } from 'node:module';
 import { describe, expect, it } from 'vitest';
 import { parseOrbitalLabel, stateFromNlm } from '@psiform/orbitals';
 import { WebIO } from '@gltf-transform/core';
@@ -9,7 +8,6 @@ import { encodeGlb } from '../src/encoders';
 import { encodeScreenGlb, screenTolerance, type ScreenGlbInfo } from '../src/optimise';
 import { levelFunction, levelDistance } from '../src/refine';
 
-const require = createRequire(import.meta.url);
 // Khronos glTF-Validator (npm gltf-validator): the reference reader for glTF 2.0 and its extensions.
 const validator = require('gltf-validator') as { validateBytes: (b: Uint8Array) => Promise<{ issues: { numErrors: number; messages: { code: string; message: string }[] } }> };
 

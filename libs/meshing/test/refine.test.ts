@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { compileState, parseOrbitalLabel } from '@psiform/orbitals';
 import { fillMissingNormals, levelFunction, meshDeviation, projectMesh, projectPoint, refineMesh, type AnalyticField, type RefineInfo } from '../src/refine';
+import { RASTER_LIMITS } from '@psiform/contracts';
 import { fileTolerance, printTolerance } from '../src/tolerance';
 import { meshStats } from '../src/stats';
 import type { Mesh } from '../src/mesh';
@@ -161,8 +162,17 @@ describe('tolerances from the output', () => {
     expect(() => printTolerance({ widthPx: 0, heightPx: 10 }, 1)).toThrow(/whole pixels/);
   });
 
-  it('3D files: 3e-5 of the half-width (8e-5 a0 for a 1s at 90 %, half-width 2.66 a0)', () => {
-    expect(fileTolerance(2.6612)).toBeCloseTo(7.98e-5, 7);
+  it('3D files: 3.5e-5 of the half-width, finer than the quarter pixel of the largest raster export; 1s within 1e-4 a0', () => {
+    // 1s at 90 %: R solves 1 − e^{-2R}(1 + 2R + 2R²) = 0.9 (R = 2.6612 a0), so the tolerance is 9.31e-5 a0.
+    expect(fileTolerance(2.6612)).toBeCloseTo(9.314e-5, 8);
+    expect(fileTolerance(2.6612)).toBeLessThanOrEqual(1e-4);
+    // The largest raster: 64 megapixels, so at most 8000 px on its shorter side (RASTER_LIMITS, common practice for
+    // the default camera: perspective 35°, zoom 1): its quarter pixel is 0.25 × 2 / 8000 × (1 − sin 17.5°) = 4.37e-5 R.
+    const side = Math.floor(Math.sqrt(RASTER_LIMITS.megapixelsMax * 1e6));
+    expect(side).toBe(8000);
+    const largest = printTolerance({ widthPx: side, heightPx: side, camera: { projection: 'perspective', fovDeg: 35, zoom: 1 } }, 1);
+    expect(largest).toBeCloseTo(0.25 * (2 / 8000) * (1 - Math.sin((17.5 * Math.PI) / 180)), 12);
+    expect(fileTolerance(1)).toBeLessThan(largest);
     expect(() => fileTolerance(-1)).toThrow(/half-width/);
   });
 });

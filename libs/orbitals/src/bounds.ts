@@ -90,9 +90,13 @@ export function fieldBound(compiled: CompiledState): FieldBound {
     return c.scale * Math.exp(-c.kappa * r) * genLaguerre(c.k, c.alpha, c.rhoFactor * r);
   };
   const radialRange = (i: number, r0: number, r1: number, out: Float64Array): void => {
-    let lo = Math.min(g(i, r0), g(i, r1));
-    let hi = Math.max(g(i, r0), g(i, r1));
-    for (const r of crit[i]) {
+    const g0 = g(i, r0);
+    const g1 = r1 === r0 ? g0 : g(i, r1);
+    let lo = Math.min(g0, g1);
+    let hi = Math.max(g0, g1);
+    const ci = crit[i];
+    for (let q = 0; q < ci.length; q++) {
+      const r = ci[q];
       if (r <= r0 || r >= r1) continue;
       const v = g(i, r);
       if (v < lo) lo = v;
@@ -133,7 +137,9 @@ export function fieldBound(compiled: CompiledState): FieldBound {
       dyp[k] = dyp[k - 1] * hy;
       dzp[k] = dzp[k - 1] * hz;
     }
-    for (const m of polys[b]) {
+    const pb = polys[b];
+    for (let p = 0; p < pb.length; p++) {
+      const m = pb[p];
       for (let i = 0; i <= m.a; i++) {
         const fx = binom[m.a][i] * cxp[m.a - i];
         for (let j = 0; j <= m.b; j++) {
@@ -189,13 +195,17 @@ export function fieldBound(compiled: CompiledState): FieldBound {
     let reLo = 0, reHi = 0, imLo = 0, imHi = 0;
     for (let i = 0; i < B; i++) {
       let hrLo = 0, hrHi = 0, hiLo = 0, hiHi = 0;
-      for (const m of polys[i]) {
+      const pi = polys[i];
+      for (let p = 0; p < pi.length; p++) {
+        const m = pi[p];
         powRange(x0, x1, m.a, px, 0);
         powRange(y0, y1, m.b, py, 0);
         powRange(z0, z1, m.c, pz, 0);
         // product of three intervals
+        // product of three intervals (no arrays: this runs for every box of coarse-to-fine sampling)
         let lo = px[0], hi = px[1];
-        for (const q of [py, pz]) {
+        for (let t = 0; t < 2; t++) {
+          const q = t === 0 ? py : pz;
           const a = lo * q[0], b = lo * q[1], c = hi * q[0], d = hi * q[1];
           lo = Math.min(a, b, c, d);
           hi = Math.max(a, b, c, d);
@@ -221,14 +231,13 @@ export function fieldBound(compiled: CompiledState): FieldBound {
       hiLo = Math.max(hiLo, cen[2]);
       hiHi = Math.min(hiHi, cen[3]);
       radialRange(i, r0, r1, gr);
-      const [gLo, gHi] = [gr[0], gr[1]];
-      const pr = [gLo * hrLo, gLo * hrHi, gHi * hrLo, gHi * hrHi];
-      reLo += Math.min(...pr);
-      reHi += Math.max(...pr);
+      const gLo = gr[0];
+      const gHi = gr[1];
+      reLo += Math.min(gLo * hrLo, gLo * hrHi, gHi * hrLo, gHi * hrHi);
+      reHi += Math.max(gLo * hrLo, gLo * hrHi, gHi * hrLo, gHi * hrHi);
       if (!compiled.isReal) {
-        const pi = [gLo * hiLo, gLo * hiHi, gHi * hiLo, gHi * hiHi];
-        imLo += Math.min(...pi);
-        imHi += Math.max(...pi);
+        imLo += Math.min(gLo * hiLo, gLo * hiHi, gHi * hiLo, gHi * hiHi);
+        imHi += Math.max(gLo * hiLo, gLo * hiHi, gHi * hiLo, gHi * hiHi);
       }
     }
     // Padding for rounding (float64 here, float32 samples downstream): relative 1e-6 of the largest magnitude.

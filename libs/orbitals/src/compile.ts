@@ -348,9 +348,10 @@ export function compileState(state: OrbitalState): CompiledState {
     const [i0, j0, k0] = box.start;
     const [nx, ny, nz] = box.size;
     const h = box.spacing;
-    for (const v of [i0, j0, k0]) if (!Number.isInteger(v) || v < 0) throw new RangeError(`sampleBox: start indices must be integers >= 0 (got ${box.start.join(', ')})`);
-    for (const v of [nx, ny, nz]) if (!Number.isInteger(v) || v < 1) throw new RangeError(`sampleBox: sizes must be integers >= 1 (got ${box.size.join(', ')})`);
-    if (![ox, oy, oz, h].every(Number.isFinite) || !(h > 0)) throw new RangeError('sampleBox: origin and spacing must be finite, spacing > 0');
+    // Plain checks, no arrays: coarse-to-fine sampling calls this once per block (10⁵ times at 512³).
+    if (!(Number.isInteger(i0) && i0 >= 0 && Number.isInteger(j0) && j0 >= 0 && Number.isInteger(k0) && k0 >= 0)) throw new RangeError(`sampleBox: start indices must be integers >= 0 (got ${box.start.join(', ')})`);
+    if (!(Number.isInteger(nx) && nx >= 1 && Number.isInteger(ny) && ny >= 1 && Number.isInteger(nz) && nz >= 1)) throw new RangeError(`sampleBox: sizes must be integers >= 1 (got ${box.size.join(', ')})`);
+    if (!(Number.isFinite(ox) && Number.isFinite(oy) && Number.isFinite(oz) && Number.isFinite(h)) || !(h > 0)) throw new RangeError('sampleBox: origin and spacing must be finite, spacing > 0');
     const N = nx * ny * nz;
     if (outRe.length < N) throw new RangeError(`sampleBox: outRe must hold ${N} values`);
     if (!real && (!outIm || outIm.length < N)) throw new RangeError(`sampleBox: this state is complex-valued; pass outIm of ${N} values`);

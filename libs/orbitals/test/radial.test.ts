@@ -90,7 +90,7 @@ describe('radial functions R_nl', () => {
 
   it('reject invalid quantum numbers with a readable message', () => {
     expect(() => radialR(13, 0, 1, 1)).toThrow(/n must be between 1 and 12/);
-    expect(() => radialR(2, 2, 1, 1)).toThrow(/0 <= l < n/);
+    expect(() => radialR(2, 2, 1, 1)).toThrow(/l must be less than n \(got n=2, l=2\)/);
     expect(() => radialR(2, 1, 0, 1)).toThrow(/Z must be a positive/);
   });
 });

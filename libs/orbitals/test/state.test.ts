@@ -25,9 +25,9 @@ describe('validateQuantumNumbers', () => {
     expect(validateQuantumNumbers(0, 0, 0)).toMatch(/n must be between 1 and 12/);
     expect(validateQuantumNumbers(13, 0, 0)).toMatch(/n must be between 1 and 12/);
     expect(validateQuantumNumbers(2.5, 0, 0)).toMatch(/n must be an integer/);
-    expect(validateQuantumNumbers(3, 3, 0)).toMatch(/0 <= l < n/);
-    expect(validateQuantumNumbers(3, -1, 0)).toMatch(/0 <= l < n/);
-    expect(validateQuantumNumbers(3, 1, 2)).toMatch(/\|m\| <= l/);
+    expect(validateQuantumNumbers(3, 3, 0)).toBe('l must be less than n (got n=3, l=3)');
+    expect(validateQuantumNumbers(3, -1, 0)).toBe('l must be at least 0 (got l=-1)');
+    expect(validateQuantumNumbers(3, 1, 2)).toBe('|m| must not exceed l (got l=1, m=2)');
     expect(validateQuantumNumbers(3, 1, 0.5)).toMatch(/m must be an integer/);
   });
 });
@@ -69,10 +69,10 @@ describe('parseOrbitalLabel', () => {
 
   it('rejects bad labels with readable messages', () => {
     expect(() => parseOrbitalLabel('')).toThrow(/non-empty/);
-    expect(() => parseOrbitalLabel('1p')).toThrow(/0 <= l < n/);
+    expect(() => parseOrbitalLabel('1p')).toThrow(/l must be less than n \(got n=1, l=1\)/);
     expect(() => parseOrbitalLabel('13s')).toThrow(/between 1 and 12/);
     expect(() => parseOrbitalLabel('3dq')).toThrow(/not recognised.*dxy/);
-    expect(() => parseOrbitalLabel('2p+2')).toThrow(/\|m\| <= l/);
+    expect(() => parseOrbitalLabel('2p+2')).toThrow(/\|m\| must not exceed l/);
     expect(() => parseOrbitalLabel('2p1')).toThrow(/sign of m/);
     expect(() => parseOrbitalLabel('sp3#5')).toThrow(/#1\.\.#4/);
     expect(() => parseOrbitalLabel('banana')).toThrow(/not recognised/);
@@ -206,9 +206,9 @@ describe('basis changes and normalisation', () => {
   it('validateState names the bad field', () => {
     expect(validateState({ Z: 1, terms: [] })).toMatch(/non-empty/);
     expect(validateState({ Z: 0, terms: [] })).toMatch(/Z must be/);
-    expect(validateState({ Z: 1, terms: [{ n: 2, l: 2, m: 0, basis: 'real', re: 1, im: 0 }] })).toMatch(/terms\[0\].*l < n/);
+    expect(validateState({ Z: 1, terms: [{ n: 2, l: 2, m: 0, basis: 'real', re: 1, im: 0 }] })).toMatch(/terms\[0\]: l must be less than n \(got n=2, l=2\)/);
     expect(validateState({ Z: 1, terms: [{ n: 2, l: 1, m: 0, basis: 'real', re: NaN, im: 0 }] })).toMatch(/terms\[0\].*finite/);
-    expect(() => stateFromNlm(2, 1, 3)).toThrow(/\|m\| <= l/);
+    expect(() => stateFromNlm(2, 1, 3)).toThrow(/\|m\| must not exceed l/);
   });
 });
 

@@ -3,8 +3,8 @@
 // file that is about to be made. One owner, so the preflight shown before an export checks the same drawing and
 // the same sizes the export job then writes (and checks again on the written bytes).
 import { pressCondition, type ColourMode, type PressConditionId, type Recipe, type SectionPlane } from '@psiform/contracts';
-import { autoExtent } from '@psiform/orbitals';
-import { recipeState } from '@psiform/meshing';
+import { autoExtent, compileState } from '@psiform/orbitals';
+import { recipeState, sectionPlane } from '@psiform/meshing';
 import { figureTextFacts } from './figure-text';
 import { usesPhaseKey } from './phase-key';
 import { figureMetadata, type FigureMetadata, type MeshResultLike } from './metadata';
@@ -64,7 +64,46 @@ export function figureSvg(recipe: Recipe, p: SvgParams, fonts: FontBytes | undef
   }
   const state = recipeState(recipe);
   const extent = recipe.grid.extent === 'auto' ? Number(autoExtent(state)) : recipe.grid.extent;
-  return sectionMapSvg({ state, plane: p.plane, offset: p.offset, extent, n: SECTION_SAMPLES, levels: p.levels, palette, widthMm: p.widthMm, heightMm: p.heightMm, fonts, unit });
+  return sectionMapSvg({
+    state, plane: p.plane, offset: p.offset, extent, n: SECTION_SAMPLES, levels: p.levels, palette, widthMm: p.widthMm, heightMm: p.heightMm, fonts, unit,
+    // Coloured as the figure's surfaces are: by arg ψ on the swatchbook's wheel (with its key) or by sign.
+    colouring: { mode: recipe.phase?.mode ?? 'auto', wheel: recipe.palette.wheel ?? null },
+  });
+}
+
+/**
+ * The coordinate plane a section map shows when nobody chose one (the bundle's): the plane through the nucleus that
+ * holds the most of |ψ|² (summed on a coarse 33 × 33 grid of the figure's box), xz first among equals. A state coloured
+ * by phase shows its phase where it is largest: the xy plane for m ≠ 0 rings (the whole wheel), xz for 2p_z or 3d_z².
+ */
+export function sectionPlaneFor(recipe: Recipe): SectionPlane {
+  const state = recipeState(recipe);
+  const compiled = compileState(state);
+  const extent = recipe.grid.extent === 'auto' ? Number(autoExtent(state)) : recipe.grid.extent;
+  let best: SectionPlane = 'xz';
+  let bestSum = -1;
+  for (const plane of ['xz', 'xy', 'yz'] as const) {
+    const s = sectionPlane(compiled, { plane, offset: 0, extent, n: 33 });
+    let sum = 0;
+    for (let i = 0; i < s.values.length; i++) sum += s.values[i] * s.values[i];
+    if (sum > bestSum * (1 + 1e-6)) {
+      best = plane;
+      bestSum = sum;
+    }
+  }
+  return best;
+}
+
+/**
+ * The 2D companions a bundle carries, in this order: the radial plot, and the section map in sectionPlanesFor's
+ * plane (coloured as the figure is, so a figure coloured by phase brings its phase key into the bundle's vector files).
+ */
+export function bundleCompanions(recipe: Recipe): SvgParams[] {
+  const size = { widthMm: recipe.canvas.widthMm, heightMm: recipe.canvas.heightMm };
+  return [
+    { kind: 'radial', plane: 'xz', offset: 0, levels: 4, ...size },
+    { kind: 'section', plane: sectionPlaneFor(recipe), offset: 0, levels: 4, ...size },
+  ];
 }
 
 /** The metadata sheet (caption, alt text, model note) of a version from its mesh statistics: one place for every job. */

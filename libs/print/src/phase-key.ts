@@ -6,6 +6,7 @@
 
 import type { Recipe } from '@psiform/contracts';
 import { isRealState } from '@psiform/orbitals';
+import { OVERLAY_MM } from './figure-text';
 
 /**
  * True when the figure is coloured by arg ψ (phase mode 'argument', or 'auto' on a complex state): then it carries
@@ -134,4 +135,16 @@ export function drawPhaseKey(ctx: KeyCanvas, o: { cx: number; cy: number; r: num
     ctx.fillText(o.title, o.cx, o.cy - o.r - o.fontPx * 1.6);
   }
   ctx.restore();
+}
+
+/**
+ * Where the figure's 2D layer (preview, PNG, TIFF, thumbnails, set panels) puts the key on an image `widthPx` wide at
+ * `pxPerMm`: top right of the figure area, with room right of the ring for the "0" mark and above it for the title and
+ * the π/2 mark. Pixels, y down. The one placement the overlay draws and tests read the written files at.
+ */
+export function phaseKeyPlacement(widthPx: number, pxPerMm: number): { cx: number; cy: number; r: number; fontPx: number } {
+  const fontPx = OVERLAY_MM.small * pxPerMm;
+  const r = OVERLAY_MM.keyRadius * pxPerMm;
+  const margin = OVERLAY_MM.margin * pxPerMm;
+  return { cx: widthPx - margin - r - fontPx * 1.2, cy: margin + fontPx * 2.2 + r, r, fontPx };
 }

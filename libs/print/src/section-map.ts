@@ -1,10 +1,12 @@
 // Cross-section contour map of psi on a coordinate plane as a standalone SVG 1.1 (user unit = 1 mm).
 
 import { BOHR_RADIUS_ANGSTROM, compileState, prettyLabel, toRealBasis, validateState, type CompiledState, type OrbitalState } from '@psiform/orbitals';
-import { sectionContours, sectionPlane, type ContourPolygons, type SectionPlaneName } from '@psiform/meshing';
+import { regionContours, sectionContours, sectionPlane, type ContourPolygons, type SectionPlaneName } from '@psiform/meshing';
+import { phaseColoursInto, phaseHex, resolvePhaseMode, type PhaseMode, type PhasePalette } from '@psiform/colour';
 import { axisTicks, checkPalette, checkSizeMm, f, fontStyle, niceStep, svgOpen, tickLabel, type FontBytes, type PlotPalette } from './svg-common';
 import { plainLabel, PSI_UNIT_TEXT, svgText, UNIT_TEXT } from './typeset';
 import { MODEL_NOTE_SHORT } from './radial-plot';
+import { phaseKeySvg, PHASE_KEY_MARKS } from './phase-key';
 
 export interface SectionMapOptions {
   /** The state, or an already compiled one (compileState). */
@@ -28,7 +30,19 @@ export interface SectionMapOptions {
   unit?: 'bohr' | 'angstrom';
   /** Overrides the title text. */
   title?: string;
+  /**
+   * How the map is coloured, as the figure's surfaces are (@psiform/colour, the one phase rule): 'sign' fills ψ > 0
+   * and ψ < 0 in palette.positive/negative; 'argument' colours by arg ψ on the swatchbook's phase wheel and carries
+   * the phase key; 'auto' (default) = sign for real states, argument for complex ones.
+   */
+  colouring?: { mode?: PhaseMode; wheel?: PhasePalette['wheel'] };
 }
+
+/**
+ * Bands of the wheel a map coloured by arg ψ is filled in: 36 (10° each), fine enough that neighbouring bands differ
+ * by about one just-noticeable step on the default wheel, coarse enough to keep an A4 map's file small.
+ */
+export const PHASE_MAP_BANDS = 36;
 
 const AXES: Record<SectionPlaneName, [string, string, string]> = { xy: ['x', 'y', 'z'], xz: ['x', 'z', 'y'], yz: ['y', 'z', 'x'] };
 
@@ -43,7 +57,11 @@ function isCompiled(s: OrbitalState | CompiledState): s is CompiledState {
  * Elements: path.contour-pos / path.contour-neg (data-level k / -k, data-value c), one path.nodal
  * (data-level 0). A plane that lies inside a nodal surface (psi = 0 throughout, e.g. xy for 2p_z) gets no
  * filled contour and one hatched path.nodal.nodal-plane covering the square.
- * Complex states are drawn as |psi| with the sign of Re psi (meshing's sectionPlane).
+ * Coloured by arg ψ (complex states by default, see `colouring`): the region |ψ| ≥ c_1 is filled in PHASE_MAP_BANDS
+ * bands of the swatchbook's phase wheel (path.phase-band, data-angle = the band's arg ψ, its colour from
+ * phaseColoursInto), |ψ| = c_k are ink lines (path.contour-abs, data-level k), and the phase key (g.phase-key, marked
+ * 0, π/2, π, 3π/2) sits right of the map; only a real state has nodal lines there.
+ * A complex state coloured by sign is drawn as |ψ| with the sign of Re ψ, its dashed line being Re ψ = 0.
  */
 export function sectionMapSvg(opts: SectionMapOptions): string {
   const { plane, offset, extent, n, widthMm: W, heightMm: H } = opts;
@@ -65,6 +83,8 @@ export function sectionMapSvg(opts: SectionMapOptions): string {
     label = prettyLabel(opts.state);
   }
   const section = sectionPlane(compiled, { plane, offset, extent, n });
+  const mode = resolvePhaseMode(opts.colouring?.mode ?? 'auto', compiled.isReal);
+  const wheelPalette: PhasePalette = { positive: pal.positive, negative: pal.negative, wheel: opts.colouring?.wheel ?? null };
   const levels = opts.levels ?? 4;
   if (opts.thresholds === undefined && (!Number.isInteger(levels) || levels < 1 || levels > 20)) throw new RangeError(`levels must be an integer in 1..20 (got ${String(levels)})`);
 
@@ -86,7 +106,11 @@ export function sectionMapSvg(opts: SectionMapOptions): string {
   // Layout: square plot centred, room for title above, ticks left and below, legend under the plot.
   const fs = Math.min(3.2, Math.max(2.1, Math.min(W, H) * 0.034));
   const left = 4.4 * fs;
-  const right = 1.2 * fs;
+  // A map coloured by arg ψ keeps a column right of the plot for its phase key: ring of radius keyR, marks beside it.
+  const keyR = 1.8 * fs;
+  const keyMarkFs = fs * 0.85;
+  const keyColumn = mode === 'argument' ? 2 * keyR + 2 * (0.5 * keyMarkFs + 2.4 * keyMarkFs) + fs : 0;
+  const right = 1.2 * fs + keyColumn;
   const top = 2.8 * fs;
   const bottom = 8.6 * fs;
   const side = Math.max(5, Math.min(W - left - right, H - top - bottom));
@@ -111,7 +135,13 @@ export function sectionMapSvg(opts: SectionMapOptions): string {
   const lvl = thresholds.map((t) => (maxAbs > 0 ? t / maxAbs : 0));
 
   const parts: string[] = [];
-  parts.push(svgOpen(W, H, title, `Cross-section of ψ for ${plainLabel(label)} (Z = ${compiled.state.Z}) in the ${plane} plane at ${plainLabel(offsetText)}, lengths in ${plainLabel(unitText)}, ${MODEL_NOTE_SHORT}. Positive regions in the positive colour, negative in the negative colour, nodal lines dashed.`));
+  const howColoured =
+    mode === 'argument'
+      ? `Colour shows the phase arg ψ on the phase wheel (key marked ${PHASE_KEY_MARKS.map((m) => m.text).join(', ')}) where |ψ| reaches the lowest level; lines are levels of |ψ|${compiled.isReal ? '; nodal lines dashed' : ''}.`
+      : compiled.isReal
+        ? 'Positive regions in the positive colour, negative in the negative colour, nodal lines dashed.'
+        : 'Regions where Re ψ > 0 in the positive colour, Re ψ < 0 in the negative colour, the line Re ψ = 0 dashed.';
+  parts.push(svgOpen(W, H, title, `Cross-section of ψ for ${plainLabel(label)} (Z = ${compiled.state.Z}) in the ${plane} plane at ${plainLabel(offsetText)}, lengths in ${plainLabel(unitText)}, ${MODEL_NOTE_SHORT}. ${howColoured}`));
   parts.push(
     fontStyle(
       opts.fonts,
@@ -129,7 +159,16 @@ export function sectionMapSvg(opts: SectionMapOptions): string {
   const ringPath = (g: ContourPolygons) =>
     g.coordinates.map((poly) => poly.map((ring) => ring.map(([u, v], i) => `${i ? 'L' : 'M'}${f(U(u))} ${f(V(v))}`).join('') + 'Z').join('')).join('');
   const opacity = Math.min(0.3, 0.85 / Math.max(1, thresholds.length));
-  if (cs) {
+  if (cs && mode === 'argument') {
+    parts.push(...phaseBandPaths(section.values, section.arg, n, extent, thresholds[0], maxAbs, wheelPalette, ringPath));
+    thresholds.forEach((c, i) => {
+      const g = regionContours(absValues(section.values), n, c, extent);
+      if (g.coordinates.length) parts.push(`<path class="contour-abs" data-level="${i + 1}" data-value="${c}" d="${ringPath(g)}" fill="none" stroke="${pal.label}" stroke-width="0.2"/>`);
+    });
+    // Nodal lines are lines only where ψ is real; a complex ψ vanishes on lines where Re ψ and Im ψ both do.
+    const d = compiled.isReal ? nodalLines(cs.nodal, extent, (2 * extent) / (n - 1), U, V) : '';
+    if (d) parts.push(`<path class="nodal" data-level="0" data-value="0" d="${d}" fill="none" stroke="${pal.label}" stroke-width="0.3" stroke-dasharray="1 0.7"/>`);
+  } else if (cs) {
     cs.plus.forEach((g, i) => {
       if (g.coordinates.length === 0) return;
       parts.push(`<path class="contour-pos" data-level="${i + 1}" data-value="${g.value}" d="${ringPath(g)}" fill="${pal.positive}" fill-opacity="${f(opacity)}" fill-rule="evenodd" stroke="${pal.positive}" stroke-width="0.2"/>`);
@@ -178,32 +217,82 @@ export function sectionMapSvg(opts: SectionMapOptions): string {
   const ly = barY + fs * 1.5;
   const sw = fs * 0.9;
   let lx = px0;
-  const legend = (cls: string, fill: string, text: string, dashed = false) => {
+  const legend = (cls: string, fill: string, text: string, line: false | 'dashed' | 'solid' = false) => {
     parts.push(
-      dashed
-        ? `<path class="legend-${cls}" d="M${f(lx)} ${f(ly - sw / 2)}h${f(sw * 1.6)}" stroke="${pal.label}" stroke-width="0.3" stroke-dasharray="1 0.7"/>`
+      line
+        ? `<path class="legend-${cls}" d="M${f(lx)} ${f(ly - sw / 2)}h${f(sw * 1.6)}" stroke="${pal.label}" stroke-width="${line === 'solid' ? 0.2 : 0.3}"${line === 'dashed' ? ' stroke-dasharray="1 0.7"' : ''}/>`
         : `<rect class="legend-${cls}" x="${f(lx)}" y="${f(ly - sw)}" width="${f(sw * 1.6)}" height="${f(sw)}" fill="${fill}" fill-opacity="0.6"/>`,
     );
     parts.push(`<text class="note" x="${f(lx + sw * 2)}" y="${f(ly - sw * 0.15)}">${text}</text>`);
     lx += sw * 2 + fs * 0.5 * text.length + fs;
   };
   const signed = section.mode === 'signed-modulus';
-  legend('pos', pal.positive, signed ? '|ψ|, Re ψ &gt; 0' : 'ψ &gt; 0');
-  legend('neg', pal.negative, signed ? '|ψ|, Re ψ &lt; 0' : 'ψ &lt; 0');
-  legend('nodal', 'none', 'ψ = 0 (node)', true);
+  if (mode === 'argument') {
+    legend('abs', 'none', '|ψ| levels', 'solid');
+    if (compiled.isReal) legend('nodal', 'none', 'ψ = 0 (node)', 'dashed');
+    // The key: right of the map, its title "arg ψ" level with the top of the plot.
+    const keyCx = px0 + side + fs + 2.9 * keyMarkFs + keyR;
+    const keyCy = py0 + keyR + 1.9 * keyMarkFs + fs * 0.6;
+    parts.push(phaseKeySvg({ cx: keyCx, cy: keyCy, r: keyR, colourAt: (a) => phaseHex(wheelPalette, 'argument', 'complex', a), ink: pal.label, fontSize: keyMarkFs, title: 'arg ψ' }));
+  } else {
+    legend('pos', pal.positive, signed ? '|ψ|, Re ψ &gt; 0' : 'ψ &gt; 0');
+    legend('neg', pal.negative, signed ? '|ψ|, Re ψ &lt; 0' : 'ψ &lt; 0');
+    legend('nodal', 'none', signed ? 'Re ψ = 0' : 'ψ = 0 (node)', 'dashed');
+  }
   const notes: string[] = [
     cs
       ? opts.thresholds
-        ? `levels ±${thresholds.map((t) => (t * psiScale).toPrecision(3)).join(', ')} ${psiUnit} (max |ψ| here ${(maxAbs * psiScale).toPrecision(3)})`
-        : `levels ±${lvl.map((x) => x.toFixed(2)).join(', ')} × max |ψ| here (${(maxAbs * psiScale).toPrecision(3)} ${psiUnit})`
+        ? `levels ${mode === 'argument' ? '|ψ| = ' : '±'}${thresholds.map((t) => (t * psiScale).toPrecision(3)).join(', ')} ${psiUnit} (max |ψ| here ${(maxAbs * psiScale).toPrecision(3)})`
+        : `levels ${mode === 'argument' ? '|ψ| = ' : '±'}${lvl.map((x) => x.toFixed(2)).join(', ')} × max |ψ| here (${(maxAbs * psiScale).toPrecision(3)} ${psiUnit})`
       : 'no contours: the plane lies in a nodal surface',
   ];
-  if (section.mode === 'signed-modulus') notes.push('complex ψ drawn as |ψ| with the sign of Re ψ');
+  if (mode === 'argument') notes.push('colour: arg ψ on the phase wheel (key); blank where |ψ| is below the lowest level');
+  else if (section.mode === 'signed-modulus') notes.push('complex ψ drawn as |ψ| with the sign of Re ψ');
   notes.push(`${MODEL_NOTE_SHORT}; many-electron orbitals differ`);
   notes.forEach((t, i) => parts.push(`<text class="note${i === notes.length - 1 ? ' model-note' : i === 0 ? ' levels' : ''}" x="${f(px0)}" y="${f(ly + fs * (1.1 + 0.95 * i))}">${svgText(t, fs * 0.75)}</text>`));
   parts.push(`<text class="title" x="${f(px0)}" y="${f(fs * 1.5)}">${titleSvg}</text>`);
   parts.push('</svg>\n');
   return parts.join('\n');
+}
+
+function absValues(v: Float64Array): Float64Array {
+  const out = new Float64Array(v.length);
+  for (let i = 0; i < v.length; i++) out[i] = Math.abs(v[i]);
+  return out;
+}
+
+/**
+ * The region |ψ| ≥ floor cut into PHASE_MAP_BANDS bands of arg ψ, one filled path per band in the wheel's colour at
+ * the band's centre. Band b (centre θ_b) is where cos(arg ψ − θ_b) ≥ cos(π/K) — continuous across arg = ±π, so no
+ * band is split by the branch cut — and |ψ| ≥ floor: the zero contour of the smaller of the two (scaled) fields. Each
+ * path is stroked in its own colour (0.1 mm) so neighbouring bands leave no hairline of paper between them.
+ * `arg` is absent for a real state: arg ψ is then 0 or π by the sign of ψ.
+ */
+function phaseBandPaths(values: Float64Array, arg: Float64Array | undefined, n: number, extent: number, floor: number, maxAbs: number, palette: PhasePalette, ringPath: (g: ContourPolygons) => string): string[] {
+  const K = PHASE_MAP_BANDS;
+  const centres = Float32Array.from({ length: K }, (_, b) => (2 * Math.PI * b) / K);
+  const rgb = phaseColoursInto(palette, 'argument', 'complex', centres, new Float32Array(3 * K));
+  const hex = (b: number) => '#' + [0, 1, 2].map((k) => Math.round(Math.min(1, Math.max(0, rgb[3 * b + k])) * 255).toString(16).padStart(2, '0')).join('');
+  const cosHalf = Math.cos(Math.PI / K);
+  const field = new Float64Array(values.length);
+  const out: string[] = [];
+  for (let b = 0; b < K; b++) {
+    const th = centres[b];
+    let any = false;
+    for (let i = 0; i < values.length; i++) {
+      const a = arg ? arg[i] : values[i] < 0 ? Math.PI : 0;
+      const inBand = Math.cos(a - th) - cosHalf;
+      const above = (Math.abs(values[i]) - floor) / maxAbs;
+      field[i] = Math.min(inBand, above);
+      if (field[i] >= 0) any = true;
+    }
+    if (!any) continue;
+    const g = regionContours(field, n, 0, extent);
+    if (!g.coordinates.length) continue;
+    const c = hex(b);
+    out.push(`<path class="phase-band" data-angle="${f(th)}" d="${ringPath(g)}" fill="${c}" fill-rule="evenodd" stroke="${c}" stroke-width="0.1" stroke-linejoin="round"/>`);
+  }
+  return out;
 }
 
 /**

@@ -1,6 +1,7 @@
 import { parseOrbitalLabel, compileState } from '@psiform/orbitals';
 import { describe, expect, it } from 'vitest';
-import { base64, radialPlotSvg, sectionMapSvg } from '../src';
+import { phaseHex } from '@psiform/colour';
+import { base64, PHASE_MAP_BANDS, radialPlotSvg, sectionMapSvg } from '../src';
 import { PALETTE, byClass, parseSvg, pathPoints } from './helpers';
 
 const num = (e: { getAttribute(n: string): string | null }, a: string) => Number(e.getAttribute(a));
@@ -181,9 +182,11 @@ describe('sectionMapSvg', () => {
     const doc = parseSvg(svg);
     expect(byClass(doc, 'path', 'contour-pos').map((p) => p.getAttribute('data-value'))).toEqual(['0.01', '0.05']);
     expect(doc.getElementsByTagName('title')[0].textContent).toMatch(/^2pz: yz plane, x = 0 a₀$/);
-    const cx = sectionMapSvg({ state: parseOrbitalLabel('2p+1').state, plane: 'xz', offset: 0, extent: 10, n: 31, palette: PALETTE, widthMm: 60, heightMm: 70 });
-    parseSvg(cx);
+    const cx = sectionMapSvg({ state: parseOrbitalLabel('2p+1').state, plane: 'xz', offset: 0, extent: 10, n: 31, palette: PALETTE, widthMm: 60, heightMm: 70, colouring: { mode: 'sign' } });
+    const cdoc = parseSvg(cx);
     expect(cx).toContain('|ψ| with the sign of Re ψ');
+    // Coloured by sign, a complex map's dashed line is where Re ψ changes sign, and says so (it is no node of ψ).
+    expect(Array.from(cdoc.getElementsByTagName('text')).map((t) => t.textContent)).toContain('Re ψ = 0');
   });
   it('one length unit per figure: an Å map says Å for the axes, the plane position, the scale bar and ψ; a0 appears nowhere', () => {
     // 3d_z² in the xz plane at y = 1 a0 = 0.529 Å (CODATA 2018 a0 = 0.529177210903 Å).
@@ -214,5 +217,76 @@ describe('sectionMapSvg', () => {
     expect(() => sectionMapSvg({ ...base, levels: 0 })).toThrow(/levels/);
     expect(() => sectionMapSvg({ ...base, thresholds: [-1] })).toThrow(/thresholds/);
     expect(() => sectionMapSvg({ ...base, state: { Z: 1, terms: [{ n: 1, l: 1, m: 0, basis: 'real', re: 1, im: 0 }] } })).toThrow(/state: terms\[0\]/);
+  });
+});
+
+/** Even-odd point-in-path for the M/L/Z paths the maps write (mm, y down). */
+function inside(d: string, x: number, y: number): boolean {
+  let hit = false;
+  for (const sub of d.split('M').filter(Boolean)) {
+    const pts = pathPoints('M' + sub);
+    for (let i = 0, j = pts.length - 1; i < pts.length; j = i++) {
+      const [xi, yi] = pts[i];
+      const [xj, yj] = pts[j];
+      if (yi > y !== yj > y && x < ((xj - xi) * (y - yi)) / (yj - yi) + xi) hit = !hit;
+    }
+  }
+  return hit;
+}
+
+describe('sectionMapSvg coloured by arg ψ (complex states, and any figure coloured by phase)', () => {
+  const WHEEL = { lightness: 0.7, chroma: 0.12 };
+  const map = (label: string, plane: 'xy' | 'xz', extra: Partial<Parameters<typeof sectionMapSvg>[0]> = {}) => {
+    const svg = sectionMapSvg({ state: parseOrbitalLabel(label).state, plane, offset: 0, extent: 10, n: 61, palette: PALETTE, widthMm: 89, heightMm: 60, colouring: { wheel: WHEEL }, ...extra });
+    const doc = parseSvg(svg);
+    const g = byClass(doc, 'g', 'section')[0];
+    const x0 = num(g, 'data-x0');
+    const y0 = num(g, 'data-y0');
+    const side = num(g, 'data-side');
+    // Map (u, v) in a0 to the page (v up), as the map draws it.
+    const at = (u: number, v: number) => [x0 + ((u + 10) / 20) * side, y0 + ((10 - v) / 20) * side] as const;
+    return { svg, doc, at, bands: byClass(doc, 'path', 'phase-band') };
+  };
+  it('2p(m=+1) in the xy plane: every band of the wheel, each in phaseColoursInto\'s colour, and the point at azimuth φ lies in the band of arg ψ = φ + π', () => {
+    // ψ ∝ Y_1^1 = −√(3/8π) sin θ e^{iφ} (Condon–Shortley phase, as in DLMF 14.7.14 / 14.30.1), so arg ψ = φ + π.
+    const { doc, at, bands } = map('2p+1', 'xy');
+    expect(bands).toHaveLength(PHASE_MAP_BANDS);
+    for (const b of bands) expect(b.getAttribute('fill')).toBe(phaseHex({ positive: PALETTE.positive, negative: PALETTE.negative, wheel: WHEEL }, 'argument', 'complex', (2 * Math.PI * Math.round((num(b, 'data-angle') * PHASE_MAP_BANDS) / (2 * Math.PI))) / PHASE_MAP_BANDS));
+    for (const phiDeg of [17, 93, 200, 290]) {
+      const phi = (phiDeg * Math.PI) / 180;
+      const [x, y] = at(3 * Math.cos(phi), 3 * Math.sin(phi)); // off the bands' edges (φ + π not at 5° + k·10°), r = 3 a0: |ψ| well above the lowest level
+      const holding = bands.filter((b) => inside(b.getAttribute('d')!, x, y)).map((b) => num(b, 'data-angle'));
+      expect(holding.length).toBe(1);
+      const want = (phi + Math.PI) % (2 * Math.PI);
+      const diff = Math.abs(((holding[0] - want + 3 * Math.PI) % (2 * Math.PI)) - Math.PI);
+      expect(diff).toBeLessThanOrEqual(Math.PI / PHASE_MAP_BANDS + 0.01); // within half a band
+    }
+    // The key: marked 0, π/2, π, 3π/2, titled arg ψ; no ψ > 0 / ψ < 0 legend and no nodal line (ψ is complex).
+    const key = byClass(doc, 'g', 'phase-key');
+    expect(key).toHaveLength(1);
+    const texts = Array.from(key[0].getElementsByTagName('text')).map((t) => t.textContent);
+    expect(texts).toEqual(['arg ψ', '0', 'π/2', 'π', '3π/2']);
+    expect(byClass(doc, 'rect', 'legend-pos')).toHaveLength(0);
+    expect(byClass(doc, 'path', 'nodal')).toHaveLength(0);
+    expect(byClass(doc, 'path', 'contour-abs').length).toBe(4);
+    expect(doc.getElementsByTagName('desc')[0].textContent).toMatch(/arg ψ on the phase wheel \(key marked 0, π\/2, π, 3π\/2\)/);
+  });
+  it('2p(m=+1) in the xz plane shows only arg 0 and π (ψ is real there), on the side Condon–Shortley puts them', () => {
+    const { at, bands } = map('2p+1', 'xz');
+    expect(bands.map((b) => num(b, 'data-angle'))).toEqual([0, 3.142]);
+    const [xr, yr] = at(3, 0);
+    expect(inside(bands[1].getAttribute('d')!, xr, yr)).toBe(true); // x > 0: ψ < 0, arg π
+    const [xl, yl] = at(-3, 0);
+    expect(inside(bands[0].getAttribute('d')!, xl, yl)).toBe(true);
+  });
+  it('a real state keeps the two-phase legend by default, and coloured by phase it has bands at 0 and π, its nodal line and the key', () => {
+    const plain = map('2pz', 'xz', { colouring: undefined });
+    expect(plain.bands).toHaveLength(0);
+    expect(byClass(plain.doc, 'g', 'phase-key')).toHaveLength(0);
+    expect(byClass(plain.doc, 'rect', 'legend-pos')).toHaveLength(1);
+    const phased = map('2pz', 'xz', { colouring: { mode: 'argument', wheel: WHEEL } });
+    expect(phased.bands.map((b) => num(b, 'data-angle'))).toEqual([0, 3.142]);
+    expect(byClass(phased.doc, 'path', 'nodal')).toHaveLength(1);
+    expect(byClass(phased.doc, 'g', 'phase-key')).toHaveLength(1);
   });
 });

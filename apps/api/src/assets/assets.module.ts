@@ -1,19 +1,17 @@
 import { Module } from '@nestjs/common';
-import { DataSource } from 'typeorm';
+import { TypeOrmModule } from '@nestjs/typeorm';
+import { ASSETS_ENTITIES, AssetStore, S3AssetStore } from '@psiform/server';
 import { PublicationsModule } from '../publications/publications.module';
-import { ObjectStorage, AssetStore, S3AssetStore, TypeormDeliveryProfilesStore } from '@psiform/server';
 import { AssetsService } from './assets.service';
 import { AssetsController } from './assets.controller';
 import { MembershipService } from '../publications/membership.service';
-import { AssetNames, TypeormAssetNames } from './asset-names';
 
 @Module({
-  imports: [PublicationsModule],
+  imports: [TypeOrmModule.forFeature(ASSETS_ENTITIES), PublicationsModule],
   controllers: [AssetsController],
   providers: [
-    { provide: AssetStore, inject: [ObjectStorage, DataSource], useFactory: (s: ObjectStorage, ds: DataSource) => new S3AssetStore(s, ds) },
-    { provide: AssetNames, inject: [DataSource], useFactory: (ds: DataSource) => new TypeormAssetNames(ds, new TypeormDeliveryProfilesStore(ds)) },
-    { provide: AssetsService, inject: [AssetStore, MembershipService, AssetNames], useFactory: (a: AssetStore, m: MembershipService, n: AssetNames) => new AssetsService(a, m, n) },
+    { provide: AssetStore, useClass: S3AssetStore },
+    { provide: AssetsService, inject: [AssetStore, MembershipService], useFactory: (a: AssetStore, m: MembershipService) => new AssetsService(a, m) },
   ],
   exports: [AssetStore],
 })

@@ -3,7 +3,7 @@ import type { AssetLinkDto, UserDto } from '@psiform/contracts';
 import { MembershipService } from '../publications/membership.service';
 import { AssetStore } from '@psiform/server';
 import { attachmentDisposition } from '@psiform/print';
-import { AssetNames, downloadName } from './asset-names';
+import { downloadName } from './asset-names';
 
 /** Presigned links live this long (short: a link forwarded outside the publication soon stops working). */
 export const LINK_TTL_SECONDS = 300;
@@ -13,7 +13,6 @@ export class AssetsService {
   constructor(
     private readonly store: AssetStore,
     private readonly membership: MembershipService,
-    private readonly names: AssetNames,
     private readonly now: () => Date = () => new Date(),
   ) {}
 
@@ -25,8 +24,8 @@ export class AssetsService {
   async link(user: Pick<UserDto, 'id' | 'role'>, id: string): Promise<AssetLinkDto> {
     const asset = await this.store.findById(id);
     if (!asset || !(await this.membership.canAccess(user, asset.publicationId))) throw new NotFoundException(`asset ${id} not found`);
-    const facts = await this.names.facts(id);
-    const fileName = facts ? downloadName(facts, await this.names.templateFor(asset.publicationId)) : `${asset.kind}-${asset.id}`;
+    const facts = await this.store.nameFacts(id);
+    const fileName = facts ? downloadName(facts) : `${asset.kind}-${asset.id}`;
     const expiresAt = new Date(this.now().getTime() + LINK_TTL_SECONDS * 1000);
     const url = await this.store.presignGet(asset.storageKey, LINK_TTL_SECONDS, { disposition: attachmentDisposition(fileName) });
     return { url, expiresAt: expiresAt.toISOString(), fileName };

@@ -1,18 +1,15 @@
 import { Module } from '@nestjs/common';
-import { DataSource } from 'typeorm';
+import { TypeOrmModule } from '@nestjs/typeorm';
+import { AUDIT_ENTITIES, AuditStore, TypeormAuditStore } from '@psiform/server';
 import { PublicationsModule } from '../publications/publications.module';
-import { ReviewsStore, TypeormReviewsStore, AuditStore, TypeormAuditStore } from '@psiform/server';
+import { ReviewsModule } from '../reviews/reviews.module';
 import { AuditService } from './audit.service';
 import { AuditController } from './audit.controller';
 import { SubjectAuditController } from './subject-audit.controller';
 
 @Module({
-  imports: [PublicationsModule],
+  imports: [TypeOrmModule.forFeature(AUDIT_ENTITIES), PublicationsModule, ReviewsModule],
   controllers: [AuditController, SubjectAuditController],
-  providers: [
-    { provide: AuditStore, inject: [DataSource], useFactory: (ds: DataSource) => new TypeormAuditStore(ds) },
-    { provide: ReviewsStore, inject: [DataSource], useFactory: (ds: DataSource) => new TypeormReviewsStore(ds) },
-    AuditService,
-  ],
+  providers: [{ provide: AuditStore, useClass: TypeormAuditStore }, AuditService],
 })
 export class AuditModule {}

@@ -1,11 +1,25 @@
-import { ArgumentsHost, BadRequestException, Catch, ConflictException, HttpException, Logger, ServiceUnavailableException } from '@nestjs/common';
+import { ArgumentsHost, BadRequestException, Catch, ConflictException, ForbiddenException, HttpException, Logger, NotFoundException, PayloadTooLargeException, ServiceUnavailableException } from '@nestjs/common';
 import { BaseExceptionFilter } from '@nestjs/core';
 import type { Response } from 'express';
 import { QueryFailedError } from 'typeorm';
+import { DomainError, type DomainErrorKind } from '@psiform/server';
 import { TooManyRequestsException } from './too-many-requests.exception';
 
+/** The one mapping of domain errors (libs/server common/domain-errors.ts) to HTTP. */
+const HTTP: Record<DomainErrorKind, (e: DomainError) => HttpException> = {
+  invalid: (e) => new BadRequestException(e.messages), // one message per field, as the ValidationPipe answers
+  forbidden: (e) => new ForbiddenException(e.message),
+  not_found: (e) => new NotFoundException(e.message),
+  conflict: (e) => new ConflictException(e.message),
+  too_large: (e) => new PayloadTooLargeException(e.message),
+  unavailable: (e) => new ServiceUnavailableException(e.message),
+};
+
+export const toHttpException = (e: DomainError): HttpException => HTTP[e.kind](e);
+
 /**
- * Nest's own error handling and {statusCode, message, error} body, plus: the Retry-After header on 429s; body-parser
+ * The api's one error filter: domain errors (thrown by stores and services) become their HTTP answer; then Nest's own
+ * handling and {statusCode, message, error} body, plus: the Retry-After header on 429s; body-parser
  * errors (already translated by common/input/json-body.ts); database refusals of bad values as 4xx naming the column (a safety net behind the
  * DTO and input rules, which should catch these first), logged without the query's parameters (they can hold
  * password hashes); unreachable or stalled dependencies as 503 with the reason.
@@ -15,6 +29,7 @@ export class HttpErrorFilter extends BaseExceptionFilter {
   private readonly log = new Logger('HttpErrorFilter');
 
   catch(exception: unknown, host: ArgumentsHost): void {
+    if (exception instanceof DomainError) exception = toHttpException(exception);
     if (exception instanceof TooManyRequestsException && host.getType() === 'http') {
       host.switchToHttp().getResponse<Response>().setHeader('Retry-After', String(exception.retryAfterSeconds));
     }

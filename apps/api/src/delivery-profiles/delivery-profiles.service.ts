@@ -1,6 +1,8 @@
 import { BadRequestException, Injectable, NotFoundException } from '@nestjs/common';
 import {
   DEFAULT_DELIVERY_PROFILE,
+  HEX_COLOUR_MESSAGE,
+  hexProblem,
   parseDeliveryProfile,
   pressCondition,
   PRESS_CONDITIONS,
@@ -58,10 +60,10 @@ export class DeliveryProfilesService {
   checkPress(id: string, body: unknown) {
     if (!pressCondition(id)) throw new NotFoundException(`press condition ${id} not found; one of ${PRESS_CONDITIONS.map((c) => c.id).join(', ')}`);
     const colours = (body as { colours?: unknown } | null)?.colours;
-    if (!colours || typeof colours !== 'object' || Array.isArray(colours)) throw new BadRequestException(['colours: must be an object of name -> "#rrggbb"']);
+    if (!colours || typeof colours !== 'object' || Array.isArray(colours)) throw new BadRequestException([`colours: must be an object of name -> colour, each ${HEX_COLOUR_MESSAGE}`]);
     const entries = Object.entries(colours as Record<string, unknown>);
     if (entries.length < 1 || entries.length > 32) throw new BadRequestException(['colours: between 1 and 32 colours']);
-    const bad = entries.filter(([, v]) => !isHex(v)).map(([k, v]) => `colours.${k}: must be a #rrggbb colour (got ${JSON.stringify(v)})`);
+    const bad = entries.filter(([, v]) => !isHex(v)).map(([k, v]) => `colours.${k}: ${hexProblem(v)} (got ${JSON.stringify(v)})`);
     if (bad.length) throw new BadRequestException(bad);
     return checkColours(id as PressConditionId, colours as Record<string, string>);
   }

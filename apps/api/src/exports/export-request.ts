@@ -1,24 +1,14 @@
-import { COLOUR_MODES, EXPORT_DPI, EXPORT_FORMATS, EXPORT_LIMITS, PRESS_CONDITION_IDS, SECTION_PLANES, rasterProblem, type ColourMode, type DeliveryProfile, type ExportFormat, type PressConditionId, type Recipe, type SectionPlane } from '@psiform/contracts';
+import { COLOUR_MODES, EXPORT_DPI, EXPORT_FORMATS, EXPORT_LIMITS, PRESS_CONDITION_IDS, SECTION_PLANES, rasterProblem, type ColourMode, type DeliveryProfile, type ExportFormat, type PressConditionId, type Recipe, type RenderParams, type ExportParams as ExportJobParams, type SectionPlane } from '@psiform/contracts';
 import { exportPixelSize } from '@psiform/print';
 
-/** What a render/export job is asked to do; stored in jobs.params and read by the worker. */
 /** Colour of a print file: from the request, else the publication's delivery profile (filled in by the service). */
 export interface PrintColour {
   colour: ColourMode;
   pressCondition: PressConditionId;
 }
 
-export type ExportParams = (
-  | { format: 'png'; widthMm: number; heightMm: number; dpi: number; widthPx: number; heightPx: number; transparent: boolean | null }
-  | ({ format: 'tiff'; widthMm: number; heightMm: number; dpi: number; widthPx: number; heightPx: number; transparent: boolean | null; alpha: boolean } & Partial<PrintColour>)
-  | { format: 'svg'; kind: 'radial' | 'section'; plane: SectionPlane; offset: number; levels: number; widthMm: number; heightMm: number }
-  | ({ format: 'pdf'; kind: 'radial' | 'section'; plane: SectionPlane; offset: number; levels: number; widthMm: number; heightMm: number } & Partial<PrintColour>)
-  | { format: 'glb' | 'stl' }
-  | { format: 'bundle' }
-) & {
-  /** The publication's delivery profile when the export was asked for: the worker preflights against this copy. */
-  profile?: DeliveryProfile;
-};
+/** What a render (png, tiff) or export job is asked to do: the job contract's params (libs/contracts jobs.ts). */
+export type ExportParams = RenderParams | ExportJobParams;
 
 export type ExportParse = { ok: true; params: ExportParams } | { ok: false; messages: string[] };
 

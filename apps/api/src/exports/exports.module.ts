@@ -1,16 +1,16 @@
 import { DeliveryProfilesModule } from '../delivery-profiles/delivery-profiles.module';
 import { Module } from '@nestjs/common';
-import { DataSource } from 'typeorm';
+import { TypeOrmModule } from '@nestjs/typeorm';
 import { PublicationsModule } from '../publications/publications.module';
 import { FiguresModule } from '../figures/figures.module';
 import { JobsModule } from '../jobs/jobs.module';
 import { ExportsController } from './exports.controller';
 import { ExportsService } from './exports.service';
-import { FigureSetsStore, TypeormFigureSetsStore } from '@psiform/server';
+import { FIGURE_SETS_ENTITIES, FigureSetsStore, TypeormFigureSetsStore } from '@psiform/server';
 
 @Module({
-  imports: [PublicationsModule, FiguresModule, JobsModule, DeliveryProfilesModule],
+  imports: [TypeOrmModule.forFeature(FIGURE_SETS_ENTITIES), PublicationsModule, FiguresModule, JobsModule, DeliveryProfilesModule],
   controllers: [ExportsController],
-  providers: [{ provide: FigureSetsStore, inject: [DataSource], useFactory: (ds: DataSource) => new TypeormFigureSetsStore(ds) }, ExportsService],
+  providers: [{ provide: FigureSetsStore, useClass: TypeormFigureSetsStore }, ExportsService],
 })
 export class ExportsModule {}

@@ -1,7 +1,7 @@
 import { BadRequestException, ForbiddenException, Injectable, NotFoundException } from '@nestjs/common';
-import { FIGURE_SET_LIMITS, parseRecipe, TEXT_LIMITS, titleProblem, type CreateFigureSetRequest, type CreateJobResponse, type FigureSetDto, type UserDto } from '@psiform/contracts';
+import { FIGURE_SET_LIMITS, parseRecipe, TEXT_LIMITS, titleProblem, type DeliveryProfile, type ExportParams as ExportJobParams, type RenderParams, type CreateFigureSetRequest, type CreateJobResponse, type FigureSetDto, type UserDto } from '@psiform/contracts';
 import { FiguresService } from '../figures/figures.service';
-import { FiguresStore, type FigureEntity, FigureSetsStore, toFigureSetDto } from '@psiform/server';
+import { FiguresStore, FigureSetsStore, toFigureSetDto, type FigureEntity } from '@psiform/server';
 import { JobsService } from '../jobs/jobs.service';
 import { MembershipService, guarded, refusalOf } from '../publications/membership.service';
 import { parseExportRequest } from './export-request';
@@ -34,16 +34,14 @@ export class ExportsService {
     if (!recipe.ok) throw new BadRequestException(['recipe: the stored recipe of this figure is not valid; save the figure again']);
     const parsed = parseExportRequest(body, recipe.recipe);
     if (!parsed.ok) throw new BadRequestException(parsed.messages);
-    const type = parsed.params.format === 'png' || parsed.params.format === 'tiff' ? 'render' : 'export';
     // The worker preflights against the profile as it is now (a copy travels with the job and into the report).
     const profile = await this.deliveryProfiles.profileFor(figure.publicationId);
-    const job = await this.jobs.enqueue(type, {
-      publicationId: figure.publicationId,
-      figureId: figure.id,
-      figureVersionId: version.id,
-      requestedBy: user.id,
-      params: { ...parsed.params, profile },
-    });
+    const p = parsed.params;
+    const on = { publicationId: figure.publicationId, figureId: figure.id, figureVersionId: version.id, requestedBy: user.id };
+    // Rasters (png, tiff) are render jobs; plots, meshes and bundles export jobs (the job contract's params of each).
+    const job = isRaster(p)
+      ? await this.jobs.enqueue({ type: 'render', params: { ...p, profile }, ...on })
+      : await this.jobs.enqueue({ type: 'export', params: withProfile(p, profile), ...on });
     return { jobId: job.id };
   }
 
@@ -98,7 +96,8 @@ export class ExportsService {
       const v = await this.figureStore.findVersion(f.id, f.currentVersion);
       panels.push({ figureId: f.id, figureVersionId: v!.id });
     }
-    const job = await this.jobs.enqueue('render', {
+    const job = await this.jobs.enqueue({
+      type: 'render',
       publicationId: set.publicationId,
       figureId: null,
       figureVersionId: null,
@@ -107,6 +106,13 @@ export class ExportsService {
     });
     return { jobId: job.id };
   }
+}
+
+const isRaster = (p: RenderParams | ExportJobParams): p is RenderParams => p.format === 'png' || p.format === 'tiff';
+
+/** An export job's params with the delivery profile copy (a spread of the union would lose its discriminant). */
+function withProfile(p: ExportJobParams, profile: DeliveryProfile): ExportJobParams {
+  return Object.assign({}, p, { profile });
 }
 
 const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;

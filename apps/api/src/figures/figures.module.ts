@@ -1,16 +1,17 @@
 import { Module } from '@nestjs/common';
-import { DataSource } from 'typeorm';
+import { TypeOrmModule } from '@nestjs/typeorm';
+import { FIGURES_ENTITIES, FiguresStore, TypeormFiguresStore } from '@psiform/server';
 import { PublicationsModule } from '../publications/publications.module';
 import { AssetsModule } from '../assets/assets.module';
 import { JobsModule } from '../jobs/jobs.module';
-import { FiguresStore, TypeormFiguresStore } from '@psiform/server';
 import { FiguresService } from './figures.service';
 import { FiguresController } from './figures.controller';
 
+/** Figures and their versions (FiguresService.saveVersion is the one writer of versions; other features import this module). */
 @Module({
-  imports: [PublicationsModule, AssetsModule, JobsModule],
+  imports: [TypeOrmModule.forFeature(FIGURES_ENTITIES), PublicationsModule, AssetsModule, JobsModule],
   controllers: [FiguresController],
-  providers: [{ provide: FiguresStore, inject: [DataSource], useFactory: (ds: DataSource) => new TypeormFiguresStore(ds) }, FiguresService],
+  providers: [{ provide: FiguresStore, useClass: TypeormFiguresStore }, FiguresService],
   exports: [FiguresService, FiguresStore],
 })
 export class FiguresModule {}

@@ -1,7 +1,23 @@
 import { BadRequestException, Injectable, NotFoundException } from '@nestjs/common';
 import type { CreateJobResponse, FigureDto, FigureSummaryDto, LengthUnit, Page, Recipe, UserDto } from '@psiform/contracts';
-import { MembershipService, guarded } from '../publications/membership.service';
-import { AssetStore, toAssetDto, ENGINE_VERSION, FiguresStore, type NewVersion, type FigureEntity, toFigureVersionDto, type FigureVersionEntity, recipeHash } from '@psiform/server';
+import {
+  AssetStore,
+  ConflictError,
+  ENGINE_VERSION,
+  FiguresStore,
+  isEditable,
+  recipeHash,
+  toAssetDto,
+  toFigureVersionDto,
+  withPalette,
+  type FigureEntity,
+  type FigureVersionEntity,
+  type NewAsset,
+  type NewVersion,
+  type PaletteColours,
+} from '@psiform/server';
+import { isUUID } from 'class-validator';
+import { MembershipService, guarded, scopeOf } from '../publications/membership.service';
 import { LINK_TTL_SECONDS } from '../assets/assets.service';
 import { JobsService } from '../jobs/jobs.service';
 import type { CreateFigureBody, ListFiguresQuery, UpdateFigureBody } from './figures.dto';
@@ -20,6 +36,34 @@ export function inLengthUnit(recipe: Recipe, unit: LengthUnit | undefined): Reci
   return { ...recipe, annotations: { ...recipe.annotations, scaleBar: { ...bar, unit } } };
 }
 
+/** What a write changes: a recipe (a new version when it differs), a title, or both. */
+export interface VersionChange {
+  recipe?: Recipe;
+  title?: string;
+  /** 'edit': PATCH by the figure's people; 'rerender': a batch re-render with a swatchbook's current colours. */
+  reason: 'edit' | 'rerender';
+  /** The version the caller saw; another write in between is a conflict (409 / skipped). */
+  expectedCurrent?: number;
+  /** Written to the audit entry of a re-render. */
+  note?: string;
+  /** Also request a mesh job for the new version, in the same transaction. */
+  mesh?: boolean;
+}
+
+export interface SavedVersion {
+  figure: FigureEntity;
+  version: FigureVersionEntity;
+  /** false: the recipe equals the current one (idempotent), no version was added. */
+  created: boolean;
+  jobId?: string;
+}
+
+/** The publication's house rules applied to a recipe: its length unit, and its palette where it enforces one. */
+const housed = (recipe: Recipe, pinned: PaletteColours | null, unit: LengthUnit | undefined): Recipe => {
+  const r = inLengthUnit(recipe, unit);
+  return pinned ? withPalette(r, pinned) : r;
+};
+
 @Injectable()
 export class FiguresService {
   constructor(
@@ -29,11 +73,63 @@ export class FiguresService {
     private readonly jobs: JobsService,
   ) {}
 
+  /**
+   * THE writer of figure versions (every feature that makes one calls it: PATCH here, batch re-renders in swatchbooks,
+   * uploads and POST through `saveFirst`). In ONE transaction under the figure's row lock:
+   * - the edit lock: only draft and changes_requested figures change (a title PATCH racing a submit cannot rename a
+   *   proof in review: the submit takes the same lock);
+   * - the house palette, where the publication pins a swatchbook without allowOverride;
+   * - a recipe equal to the current one (same hash, current not locked) adds no version: re-rendering with
+   *   unchanged colours, or saving twice, is idempotent;
+   * - the audit entries: `revise` for a new version, `rerender` for a re-render, `retitle` for a title change;
+   * - the mesh job request of a re-render (outbox row), committed with the version.
+   */
+  async saveVersion(caller: Caller, figureId: string, change: VersionChange): Promise<SavedVersion> {
+    return this.store.inFigureTransaction(figureId, async (tx) => {
+      const from = tx.figure.status;
+      if (change.expectedCurrent !== undefined && tx.figure.currentVersion !== change.expectedCurrent) {
+        throw new ConflictError(`figure ${figureId} changed meanwhile; reload and try again`);
+      }
+      if (!isEditable(from)) throw new ConflictError(`cannot edit a figure that is ${from}: allowed only from draft or changes_requested`);
+      let version = tx.current;
+      let created = false;
+      if (change.recipe) {
+        const unit = (await this.membership.findPublication(tx.figure.publicationId))?.lengthUnit;
+        const next = this.newVersion(housed(change.recipe, await tx.enforcedPalette(), unit), caller);
+        if (next.recipeHash !== tx.current.recipeHash || tx.current.locked) {
+          version = await tx.addVersion(next);
+          created = true;
+          const note = change.reason === 'rerender' ? (change.note ?? `version ${version.number} re-rendered`) : `version ${version.number} created`;
+          await tx.audit({ actorId: caller.id, action: change.reason === 'rerender' ? 'rerender' : 'revise', fromStatus: from, toStatus: tx.figure.status, note });
+        }
+      }
+      if (change.title !== undefined && change.title !== tx.figure.title) {
+        const before = tx.figure.title;
+        await tx.setTitle(change.title);
+        await tx.audit({ actorId: caller.id, action: 'retitle', fromStatus: tx.figure.status, toStatus: tx.figure.status, note: `title "${before}" → "${change.title}"` });
+      }
+      let jobId: string | undefined;
+      if (created && change.mesh) {
+        const job = await tx.requestJob({ type: 'mesh', params: {}, publicationId: tx.figure.publicationId, figureId, figureVersionId: version.id, requestedBy: caller.id });
+        jobId = job.id;
+      }
+      return { figure: tx.figure, version, created, jobId };
+    });
+  }
+
+  /** Version 1 of a new figure (POST, uploads), with the house palette; an uploaded cube's asset row in the same transaction. */
+  async saveFirst(caller: Caller, figure: { publicationId: string; title: string }, recipe: Recipe, asset?: Omit<NewAsset, 'figureVersionId'> & { id: string }): Promise<{ figure: FigureEntity; version: FigureVersionEntity }> {
+    const unit = (await this.membership.findPublication(figure.publicationId))?.lengthUnit;
+    const v = this.newVersion(housed(recipe, await this.store.enforcedPalette(figure.publicationId), unit), caller);
+    const fields = { ...figure, ownerId: caller.id };
+    return asset ? this.store.createWithAsset(fields, v, asset) : this.store.create(fields, v);
+  }
+
   async create(user: Caller, body: CreateFigureBody): Promise<FigureDto> {
-    const publication = await this.membership.requireAccess(user, body.publicationId);
-    const recipe = inLengthUnit(validateRecipe(body.recipe), publication.lengthUnit);
+    await this.membership.requireAccess(user, body.publicationId);
+    const recipe = validateRecipe(body.recipe);
     await this.checkSource(recipe, body.publicationId);
-    const { figure, version } = await this.store.create({ publicationId: body.publicationId, title: body.title, ownerId: user.id }, this.newVersion(recipe, user));
+    const { figure, version } = await this.saveFirst(user, { publicationId: body.publicationId, title: body.title }, recipe);
     return this.toDto(figure, version);
   }
 
@@ -43,22 +139,17 @@ export class FiguresService {
   }
 
   /**
-   * Title changes touch the figure only. A recipe that differs from the current one becomes a new draft
-   * version (number + 1) and the current one; existing versions are never modified, locked or not.
+   * PATCH: a title, a recipe, or both, through saveVersion (one transaction, the edit lock, the house palette, the
+   * audit entries). A recipe that differs from the current one becomes a new draft version; existing versions are
+   * never modified, locked or not.
    */
   async update(user: Caller, id: string, body: UpdateFigureBody): Promise<FigureDto> {
     const figure = await this.requireFigure(user, id);
     await this.membership.authorize(user, 'figure.edit', guarded.figure(figure));
-    let version = await this.currentVersion(figure);
-    const recipe = body.recipe === undefined ? undefined : inLengthUnit(validateRecipe(body.recipe), (await this.membership.requireAccess(user, figure.publicationId)).lengthUnit);
-    if (recipe) {
-      await this.checkSource(recipe, figure.publicationId);
-      const next = this.newVersion(recipe, user);
-      if (next.recipeHash !== version.recipeHash || version.locked) version = await this.store.addVersion(figure.id, figure.currentVersion, next);
-    }
-    if (body.title !== undefined && body.title !== figure.title) await this.store.setTitle(figure.id, body.title);
-    const fresh = await this.store.findById(figure.id);
-    return this.toDto(fresh!, version);
+    const recipe = body.recipe === undefined ? undefined : validateRecipe(body.recipe);
+    if (recipe) await this.checkSource(recipe, figure.publicationId);
+    const saved = await this.saveVersion(user, figure.id, { recipe, title: body.title, reason: 'edit' });
+    return this.toDto((await this.store.findById(figure.id)) ?? saved.figure, saved.version);
   }
 
   async list(user: Caller, q: ListFiguresQuery): Promise<Page<FigureSummaryDto>> {
@@ -117,8 +208,9 @@ export class FiguresService {
   /** Queues a mesh job for the current version. */
   async requestMesh(user: Caller, id: string): Promise<CreateJobResponse> {
     const figure = await this.requireFigure(user, id);
+    await this.membership.authorize(user, 'figure.mesh', guarded.figure(figure));
     const version = await this.currentVersion(figure);
-    const job = await this.jobs.enqueue('mesh', { publicationId: figure.publicationId, figureId: figure.id, figureVersionId: version.id, requestedBy: user.id });
+    const job = await this.jobs.enqueue({ type: 'mesh', params: {}, publicationId: figure.publicationId, figureId: figure.id, figureVersionId: version.id, requestedBy: user.id });
     return { jobId: job.id };
   }
 
@@ -139,8 +231,17 @@ export class FiguresService {
     return v;
   }
 
-  /** An upload source must name an uploaded cube of the same publication, with the same content. */
+  /**
+   * What a recipe refers to must be of the figure's publication: an upload source an uploaded cube of it with the same
+   * content; a named swatchbook one of it or of its publisher (unless the house palette replaces it anyway), so no
+   * other publication's palette flows into this one's figures. 400 naming the field; nothing is stored.
+   */
   private async checkSource(recipe: Recipe, publicationId: string): Promise<void> {
+    const named = recipe.palette.swatchbookId;
+    if (named !== null && !(await this.store.enforcedPalette(publicationId))) {
+      const [home, pub] = await Promise.all([isUUID(named) ? this.store.swatchbookHome(named) : null, this.membership.findPublication(publicationId)]);
+      if (!home || !pub || !MembershipService.reaches(scopeOf(home), pub)) throw new BadRequestException([`recipe.palette.swatchbookId: no swatchbook ${named} in this publication`]);
+    }
     const src = recipe.source;
     if (!src || src.kind !== 'upload') return;
     const asset = await this.assets.findById(src.assetId);

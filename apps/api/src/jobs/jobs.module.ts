@@ -1,15 +1,15 @@
 import { Module } from '@nestjs/common';
-import { DataSource } from 'typeorm';
+import { TypeOrmModule } from '@nestjs/typeorm';
+import { JOBS_ENTITIES, JobsStore, TypeormJobsStore } from '@psiform/server';
 import { PublicationsModule } from '../publications/publications.module';
 import { AssetsModule } from '../assets/assets.module';
-import { JobsStore, TypeormJobsStore } from '@psiform/server';
 import { JobsService } from './jobs.service';
 import { JobsController } from './jobs.controller';
 
 @Module({
-  imports: [PublicationsModule, AssetsModule],
+  imports: [TypeOrmModule.forFeature(JOBS_ENTITIES), PublicationsModule, AssetsModule],
   controllers: [JobsController],
-  providers: [{ provide: JobsStore, inject: [DataSource], useFactory: (ds: DataSource) => new TypeormJobsStore(ds) }, JobsService],
+  providers: [{ provide: JobsStore, useClass: TypeormJobsStore }, JobsService],
   exports: [JobsService],
 })
 export class JobsModule {}

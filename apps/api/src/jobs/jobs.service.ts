@@ -1,6 +1,6 @@
-import { Injectable, NotFoundException, ServiceUnavailableException } from '@nestjs/common';
+import { Injectable, NotFoundException } from '@nestjs/common';
 import type { JobDto, SurfaceWarningDto, UserDto } from '@psiform/contracts';
-import { JobsStore, type NewJob, type JobEntity, JobQueue, AssetStore, toAssetDto, DEFAULT_JOB_OPTIONS, JOB_ROUTES, type RoutedJobType } from '@psiform/server';
+import { JobsStore, type NewJob, type JobEntity, AssetStore, toAssetDto } from '@psiform/server';
 import { MembershipService } from '../publications/membership.service';
 
 const FINAL: ReadonlySet<string> = new Set(['completed', 'failed']);
@@ -11,31 +11,21 @@ export interface WatchOptions {
 }
 
 /**
- * The one place that creates Job rows and enqueues them (mesh now, render/export later), and reads them back.
- * The BullMQ job id is the row id: every request is its own job, so queueing again after completion works;
+ * Job requests of the api's features, and reading jobs back. A request is a Job row plus its outbox row in one
+ * transaction (JobsStore.request, the one enqueue path): no request waits for Redis, and none is lost when Redis is
+ * down (the relay sends it when it is back). Every request is its own job, so asking again after completion works;
  * repeated work is cheap because outputs live under content-derived keys.
  */
 @Injectable()
 export class JobsService {
   constructor(
     private readonly store: JobsStore,
-    private readonly queue: JobQueue,
     private readonly assets: AssetStore,
     private readonly membership: MembershipService,
   ) {}
 
-  async enqueue(type: RoutedJobType, job: Omit<NewJob, 'type'>): Promise<JobEntity> {
-    const row = await this.store.insert({ ...job, type });
-    const route = JOB_ROUTES[type];
-    try {
-      const bullId = await this.queue.add(route.queue, route.name, row.id, { jobId: row.id }, DEFAULT_JOB_OPTIONS);
-      await this.store.setBullJobId(row.id, bullId);
-      row.bullJobId = bullId;
-      return row;
-    } catch (err) {
-      await this.store.remove(row.id);
-      throw new ServiceUnavailableException(`the job queue is not reachable, nothing was queued: ${(err as Error).message}`);
-    }
+  enqueue(job: NewJob): Promise<JobEntity> {
+    return this.store.request(job);
   }
 
   /** The job for a member of its publication; 404 for everyone else (and for unknown ids). */

@@ -90,3 +90,8 @@ export function linkMail(purpose: LinkPurpose, to: string, p: { displayName: str
     [`The link works once and for ${ttl}. If you did not ask for it, you can ignore this message: your password stays as it is.`],
   );
 }
+
+/** The proof page of a figure under the configured PUBLIC_BASE_URL: where every proof notice links to. */
+export function proofUrl(publicBaseUrl: string, figureId: string): string {
+  return `${publicBaseUrl}/figures/${encodeURIComponent(figureId)}/proof`;
+}

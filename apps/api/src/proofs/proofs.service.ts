@@ -63,7 +63,10 @@ export class ProofsService {
     const recipe = this.recipeOf(v, 'number');
     const parsed = parseExportRequest({ format: 'png', widthMm: recipe.canvas.widthMm, heightMm: recipe.canvas.heightMm, dpi: recipe.canvas.dpi }, recipe);
     if (!parsed.ok) throw new BadRequestException(parsed.messages);
-    const job = await this.jobs.enqueue('render', { publicationId: figure.publicationId, figureId: figure.id, figureVersionId: v.id, requestedBy: user.id, params: parsed.params });
+    const params = parsed.params;
+    // A PNG request always parses to raster parameters; the check narrows the type for the job contract.
+    if (params.format !== 'png') throw new Error(`a proof render parsed to ${params.format}`);
+    const job = await this.jobs.enqueue({ type: 'render', params, publicationId: figure.publicationId, figureId: figure.id, figureVersionId: v.id, requestedBy: user.id });
     return { jobId: job.id };
   }
 

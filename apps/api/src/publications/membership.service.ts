@@ -121,6 +121,9 @@ export function refusalOf(user: Caller, action: AccessAction, r: Guarded): strin
   return null;
 }
 
+/** A swatchbook's scope: its publication, or (publicationId null) every publication of its publisher. */
+export const scopeOf = (s: { publicationId: string | null; publisher: string | null }): Scope => (s.publicationId ? { publicationId: s.publicationId } : { publisher: s.publisher! });
+
 /** The Guarded form of the scoped resources (one shape per kind, used by every call site). */
 export const guarded = {
   figure: (f: { id: string; publicationId: string; ownerId: string }): Guarded => ({ kind: 'figure', id: f.id, scope: { publicationId: f.publicationId }, ownerId: f.ownerId }),

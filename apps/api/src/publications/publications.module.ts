@@ -10,7 +10,7 @@ import { PublicationsController } from './publications.controller';
   imports: [TypeOrmModule.forFeature([PublicationEntity, MembershipEntity, UserEntity]), UsersModule],
   controllers: [PublicationsController],
   providers: [{ provide: PublicationsStore, useClass: TypeormPublicationsStore }, MembershipService, PublicationsService],
-  /** Later features (figures, reviews) import this module and call MembershipService. */
+  /** Later features import this module: MembershipService (who sees what, and through ACCESS_RULES who may write what). */
   exports: [MembershipService],
 })
 export class PublicationsModule {}

@@ -1,18 +1,20 @@
 import { Transform, Type } from 'class-transformer';
-import { DESK_STATES, type DeskState } from '@psiform/contracts';
-import { IsDefined, IsIn, IsNotEmpty, IsNumber, IsObject, IsOptional, IsString, IsUUID, Max, MaxLength, Min, ValidateNested } from 'class-validator';
+import { DESK_STATES, TEXT_LIMITS, textProblem, type DeskState } from '@psiform/contracts';
+import { IsDefined, IsIn, IsNotEmpty, IsNumber, IsObject, IsOptional, IsString, IsUUID, Max, MaxLength, Min, ValidateNested, type ValidationArguments } from 'class-validator';
 import { OptionalNotNull } from '../common/validation';
 
 const trim = ({ value }: { value: unknown }) => (typeof value === 'string' ? value.trim() : value);
 
-export const NOTE_MAX = 2000;
-export const COMMENT_MAX = 4000;
+// The limits and their wording are libs/contracts' (TEXT_LIMITS, textProblem), so the client says the same.
+export const NOTE_MAX = TEXT_LIMITS.noteMax;
+export const COMMENT_MAX = TEXT_LIMITS.commentMax;
+const tooLong = (field: string, max: number) => (a: ValidationArguments) => `${field} ${textProblem(a.value, max) ?? `must be at most ${max} characters`}`;
 
 export class RequestChangesBody {
   @Transform(trim)
   @IsDefined({ message: 'note is required' })
   @IsNotEmpty({ message: 'note must not be empty' })
-  @MaxLength(NOTE_MAX, { message: `note must be at most ${NOTE_MAX} characters` })
+  @MaxLength(NOTE_MAX, { message: tooLong('note', NOTE_MAX) })
   @IsString({ message: 'note must be a string' })
   note: string;
 }
@@ -20,7 +22,7 @@ export class RequestChangesBody {
 export class OptionalNoteBody {
   @OptionalNotNull()
   @Transform(trim)
-  @MaxLength(NOTE_MAX, { message: `note must be at most ${NOTE_MAX} characters` })
+  @MaxLength(NOTE_MAX, { message: tooLong('note', NOTE_MAX) })
   @IsString({ message: 'note must be a string' })
   note?: string;
 }
@@ -48,7 +50,7 @@ export class CommentBody {
   @Transform(trim)
   @IsDefined({ message: 'body is required' })
   @IsNotEmpty({ message: 'body must not be empty' })
-  @MaxLength(COMMENT_MAX, { message: `body must be at most ${COMMENT_MAX} characters` })
+  @MaxLength(COMMENT_MAX, { message: tooLong('body', COMMENT_MAX) })
   @IsString({ message: 'body must be a string' })
   body: string;
 

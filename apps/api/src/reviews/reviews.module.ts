@@ -1,22 +1,18 @@
 import { Module } from '@nestjs/common';
-import { APP_INTERCEPTOR } from '@nestjs/core';
-import { DataSource } from 'typeorm';
+import { TypeOrmModule } from '@nestjs/typeorm';
 import { PublicationsModule } from '../publications/publications.module';
-import { MailNoticesModule } from '../mail-notices/mail-notices.module';
 import { DeliveryProfilesModule } from '../delivery-profiles/delivery-profiles.module';
-import { ReviewsStore, TypeormReviewsStore } from '@psiform/server';
+import { REVIEWS_ENTITIES, ReviewsStore, TypeormReviewsStore } from '@psiform/server';
 import { ReviewsService } from './reviews.service';
 import { ReviewDeskController, ReviewsController } from './reviews.controller';
-import { FigureEditInterceptor } from './figure-edit.interceptor';
 
 @Module({
-  imports: [PublicationsModule, MailNoticesModule, DeliveryProfilesModule],
+  imports: [TypeOrmModule.forFeature(REVIEWS_ENTITIES), PublicationsModule, DeliveryProfilesModule],
   controllers: [ReviewsController, ReviewDeskController],
   providers: [
-    { provide: ReviewsStore, inject: [DataSource], useFactory: (ds: DataSource) => new TypeormReviewsStore(ds) },
+    { provide: ReviewsStore, useClass: TypeormReviewsStore },
     ReviewsService,
-    { provide: APP_INTERCEPTOR, useClass: FigureEditInterceptor },
   ],
-  exports: [ReviewsService],
+  exports: [ReviewsService, ReviewsStore],
 })
 export class ReviewsModule {}

@@ -1,9 +1,8 @@
-import { BadRequestException, ConflictException, ForbiddenException, Injectable, NotFoundException } from '@nestjs/common';
-import type { CommentDto, DeskState, FigureStatus, ReviewAction, ReviewDeskItemDto, ReviewTransitionDto, UserDto } from '@psiform/contracts';
+import { BadRequestException, ConflictException, ForbiddenException, Inject, Injectable, NotFoundException } from '@nestjs/common';
+import type { CommentDto, DeskState, FigureStatus, MailNoticeJob, ReviewAction, ReviewDeskItemDto, ReviewTransitionDto, UserDto } from '@psiform/contracts';
 import { MembershipService, guarded } from '../publications/membership.service';
-import { NoticesService } from '../mail-notices/notices.service';
-import { approvedNotice, changesRequestedNotice, submittedNotice, type NoticeFigure } from '../mail-notices/compose';
-import { type FigureEntity, ReviewsStore, type ReviewTx, approvalOutcome, assertTransition, isEditable, TransitionConflict, type ApprovalPart, type CommentEntity } from '@psiform/server';
+import { approvedNotice, changesRequestedNotice, proofUrl, submittedNotice, type NoticeFigure } from '../mail-notices/compose';
+import { APP_CONFIG, type AppConfig, type FigureEntity, ReviewsStore, type ReviewTx, approvalOutcome, assertTransition, TransitionConflict, type ApprovalPart, type CommentEntity } from '@psiform/server';
 import { DeliveryProfilesService } from '../delivery-profiles/delivery-profiles.service';
 import { decideGate, type GateDecision } from '../gates/gate';
 
@@ -11,22 +10,29 @@ type Caller = Pick<UserDto, 'id' | 'role'>;
 
 interface StepResult {
   dto: ReviewTransitionDto;
-  notify?: 'editors' | 'owner';
   figure: FigureEntity;
+}
+
+/** Who hears of a step: the publication's editors or the figure's owner; `when` filters on the step's outcome. */
+interface NoticePlan {
+  actor: Caller;
+  who: 'editors' | 'owner';
+  note?: string;
+  when?: (dto: ReviewTransitionDto) => boolean;
 }
 
 /**
  * The proof review: every step checks membership (404), ownership where needed (403) and the transition
- * table (409), then changes status, version lock, review round and audit log in ONE transaction; notices
- * are queued after the commit.
+ * table (409), then changes status, version lock, review round, audit log and its mail notice (an outbox row) in
+ * ONE transaction: a notice is sent exactly when its step commits, even if Redis is down at that moment.
  */
 @Injectable()
 export class ReviewsService {
   constructor(
     private readonly store: ReviewsStore,
     private readonly membership: MembershipService,
-    private readonly notices: NoticesService,
     private readonly preflight: DeliveryProfilesService,
+    @Inject(APP_CONFIG) private readonly config: Pick<AppConfig, 'http'>,
   ) {}
 
   /** The figure for members of its publication (admins: all); 404 otherwise. */
@@ -45,8 +51,7 @@ export class ReviewsService {
       await tx.setStatus('in_review');
       await tx.audit({ actorId: user.id, action: 'submit', fromStatus: from, toStatus: 'in_review', note: `version ${tx.version.number} submitted as a proof` });
       return { status: 'in_review', missing: [], message: `version ${tx.version.number} is now a proof in review` };
-    });
-    await this.notify(r, user, 'editors');
+    }, { actor: user, who: 'editors' });
     return r.dto;
   }
 
@@ -62,8 +67,7 @@ export class ReviewsService {
       await tx.setStatus('changes_requested');
       await tx.audit({ actorId: user.id, action: 'request_changes', fromStatus: from, toStatus: 'changes_requested', note });
       return { status: 'changes_requested', missing: [], message: 'changes requested; a new version (or a resubmission) goes back to review' };
-    });
-    await this.notify(r, user, 'owner', note);
+    }, { actor: user, who: 'owner', note });
     return r.dto;
   }
 
@@ -113,8 +117,7 @@ export class ReviewsService {
         missing: outcome.missing,
         message: outcome.status === 'approved' ? `version ${tx.version.number} approved` : `${what} recorded; still in review until ${describe(outcome.missing)}`,
       };
-    });
-    if (r.dto.status === 'approved') await this.notify(r, user, 'owner', note);
+    }, { actor: user, who: 'owner', note, when: (dto) => dto.status === 'approved' });
     return r.dto;
   }
 
@@ -133,32 +136,35 @@ export class ReviewsService {
     id: string,
     action: ReviewAction,
     fn: (tx: ReviewTx, from: FigureStatus) => Promise<{ status: FigureStatus; missing: ApprovalPart[]; message: string }>,
+    notice?: NoticePlan,
   ): Promise<StepResult> {
-    try {
-      return await this.store.inFigureTransaction(id, async (tx) => {
+    // A TransitionConflict (a ConflictError) answers 409 through the domain-error filter.
+    return this.store.inFigureTransaction(id, async (tx) => {
         const from = tx.figure.status;
         assertTransition(action, from);
         const out = await fn(tx, from);
-        return { figure: tx.figure, dto: { figureId: id, action, fromStatus: from, versionNumber: tx.version.number, ...out } };
+        const dto: ReviewTransitionDto = { figureId: id, action, fromStatus: from, versionNumber: tx.version.number, ...out };
+        if (notice && (notice.when?.(dto) ?? true)) {
+          const mail = await this.composeNotice(tx.figure, dto, notice);
+          if (mail) await tx.notify(mail);
+        }
+        return { figure: tx.figure, dto };
       });
-    } catch (err) {
-      if (err instanceof TransitionConflict) throw new ConflictException(err.message);
-      throw err;
-    }
   }
 
-  private async notify(r: StepResult, actor: Caller, who: 'editors' | 'owner', note?: string): Promise<void> {
-    const f = r.figure;
-    const [publicationTitle, by] = await Promise.all([this.store.publicationTitle(f.publicationId), this.store.userInfo(actor.id)]);
-    const nf: NoticeFigure = { title: f.title, publicationTitle, versionNumber: r.dto.versionNumber, proofUrl: this.notices.proofUrl(f.id) };
+  /** The notice of a step (null when nobody is to hear of it). */
+  private async composeNotice(f: FigureEntity, dto: ReviewTransitionDto, plan: NoticePlan): Promise<MailNoticeJob | null> {
+    const [publicationTitle, by] = await Promise.all([this.store.publicationTitle(f.publicationId), this.store.userInfo(plan.actor.id)]);
+    const nf: NoticeFigure = { title: f.title, publicationTitle, versionNumber: dto.versionNumber, proofUrl: proofUrl(this.config.http.publicBaseUrl, f.id) };
     const byName = by?.displayName ?? 'Someone';
-    if (who === 'editors') {
-      await this.notices.send(submittedNotice(await this.store.editorEmails(f.publicationId), nf, byName));
-      return;
+    let mail: MailNoticeJob;
+    if (plan.who === 'editors') mail = submittedNotice(await this.store.editorEmails(f.publicationId), nf, byName);
+    else {
+      const owner = await this.store.userInfo(f.ownerId);
+      if (!owner) return null;
+      mail = dto.status === 'approved' ? approvedNotice([owner.email], nf, byName, plan.note) : changesRequestedNotice([owner.email], nf, byName, plan.note ?? '');
     }
-    const owner = await this.store.userInfo(f.ownerId);
-    if (!owner) return;
-    await this.notices.send(r.dto.status === 'approved' ? approvedNotice([owner.email], nf, byName, note) : changesRequestedNotice([owner.email], nf, byName, note ?? ''));
+    return mail.to.length > 0 ? mail : null;
   }
 
   // ---- comments --------------------------------------------------------------------------------------
@@ -213,29 +219,6 @@ export class ReviewsService {
       };
     });
     return filter.minAgeHours === undefined ? items : items.filter((i) => i.ageHours >= filter.minAgeHours!);
-  }
-
-  // ---- edits made through PATCH /api/figures/:id (figures feature) -------------------------------------
-
-  /**
-   * Before a figure PATCH: 409 unless the figure is draft or changes_requested (a proof in review, an
-   * approved or a released figure is not edited). Returns null when the caller cannot see the figure, so
-   * the figures feature answers 404 itself.
-   */
-  async assertEditable(user: Caller, id: string): Promise<{ status: FigureStatus; versionNumber: number } | null> {
-    const figure = await this.store.findFigure(id);
-    if (!figure || !(await this.membership.canAccess(user, figure.publicationId))) return null;
-    if (!isEditable(figure.status)) {
-      throw new ConflictException(`cannot edit a figure that is ${figure.status}: allowed only from draft or changes_requested`);
-    }
-    return { status: figure.status, versionNumber: figure.currentVersion };
-  }
-
-  /** After a figure PATCH: a new version is the "revise" step (changes_requested -> draft) in the audit log. */
-  async recordRevision(user: Caller, id: string, before: { status: FigureStatus; versionNumber: number }): Promise<void> {
-    const figure = await this.store.findFigure(id);
-    if (!figure || figure.currentVersion === before.versionNumber) return;
-    await this.store.recordAudit({ figureId: id, actorId: user.id, action: 'revise', fromStatus: before.status, toStatus: figure.status, note: `version ${figure.currentVersion} created` });
   }
 }
 

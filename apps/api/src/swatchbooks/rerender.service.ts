@@ -1,35 +1,27 @@
 import { ConflictException, Injectable, NotFoundException } from '@nestjs/common';
-import type { BatchDto, BatchItemDto, FigureStatus, Recipe, UserDto } from '@psiform/contracts';
+import type { BatchDto, BatchItemDto, FigureStatus, UserDto } from '@psiform/contracts';
+import { ConflictError, SwatchbooksStore, withPalette } from '@psiform/server';
 import { MembershipService } from '../publications/membership.service';
-import { JobsService } from '../jobs/jobs.service';
-import { ENGINE_VERSION, SwatchbooksStore, recipeHash } from '@psiform/server';
-import type { SwatchbookColorsDto } from '@psiform/contracts';
+import { FiguresService } from '../figures/figures.service';
 
 type Caller = Pick<UserDto, 'id' | 'role'>;
 
 /** Only figures still being worked on are re-rendered; proofs in review, approved and released ones stay as they are. */
 export const RERENDERABLE: readonly FigureStatus[] = ['draft', 'changes_requested'];
 
-/** The recipe with the swatchbook's colours copied in (phases, and the background unless transparent). */
-export function withPalette(recipe: Recipe, swatchbookId: string, colors: SwatchbookColorsDto): Recipe {
-  return {
-    ...recipe,
-    palette: { ...recipe.palette, swatchbookId, positive: colors.positive, negative: colors.negative },
-    stage: { ...recipe.stage, background: recipe.stage.background.transparent ? recipe.stage.background : { ...recipe.stage.background, color: colors.background } },
-  };
-}
-
 @Injectable()
 export class RerenderService {
   constructor(
     private readonly store: SwatchbooksStore,
     private readonly membership: MembershipService,
-    private readonly jobs: JobsService,
+    private readonly figures: FiguresService,
   ) {}
 
   /**
    * For every figure of the publication that uses the pinned swatchbook and is draft or changes_requested:
-   * a new draft version with the swatchbook's current colours, and a mesh job for it. Others are listed as skipped.
+   * a new draft version with the swatchbook's current colours and a mesh job for it, both through
+   * FiguresService.saveVersion (one transaction under the figure's lock). Idempotent: a figure that already has the
+   * swatchbook's current colours gets no new version and no job. Others are listed as skipped, with the reason.
    */
   async rerender(user: Caller, publicationId: string): Promise<BatchDto> {
     await this.membership.requireAccess(user, publicationId);
@@ -48,24 +40,20 @@ export class RerenderService {
         skip(`status is ${figure.status}: only draft and changes_requested figures are re-rendered`);
         continue;
       }
-      const recipe = withPalette(version.recipe, book.id, book.colors);
-      const v = await this.store.addRerenderVersion(figure.id, figure.currentVersion, RERENDERABLE, {
-        recipe,
-        recipeHash: recipeHash(recipe),
-        engineVersion: ENGINE_VERSION,
-        authorId: user.id,
-        auditNote: `re-rendered with swatchbook "${book.name}" v${book.version}`,
-      });
-      if (!v) {
-        skip('changed meanwhile');
-        continue;
-      }
+      const recipe = withPalette(version.recipe, { swatchbookId: book.id, ...book.colors });
       try {
-        const job = await this.jobs.enqueue('mesh', { publicationId, figureId: figure.id, figureVersionId: v.id, requestedBy: user.id });
-        items.push({ figureId: figure.id, status: 'queued', reason: null, jobId: job.id, figureVersionId: v.id });
+        const saved = await this.figures.saveVersion(user, figure.id, {
+          recipe,
+          reason: 'rerender',
+          expectedCurrent: figure.currentVersion,
+          note: `re-rendered with swatchbook "${book.name}" v${book.version}`,
+          mesh: true,
+        });
+        if (!saved.created) skip(`already has the colours of swatchbook "${book.name}" v${book.version}`);
+        else items.push({ figureId: figure.id, status: 'queued', reason: null, jobId: saved.jobId ?? null, figureVersionId: saved.version.id });
       } catch (err) {
-        // The new version stays (it is the figure's current draft); its mesh can be queued again later.
-        skip(`version ${v.number} created but its mesh job was not queued: ${(err as Error).message}`);
+        if (!(err instanceof ConflictError)) throw err;
+        skip('changed meanwhile');
       }
     }
     const batch = await this.store.createBatch({ publicationId, swatchbookId: book.id, swatchbookVersion: book.version, requestedBy: user.id }, items);

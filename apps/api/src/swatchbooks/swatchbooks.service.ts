@@ -10,7 +10,7 @@ import {
   type SwatchbookVersionDto,
   type UserDto,
 } from '@psiform/contracts';
-import { MembershipService, type AccessAction, type Guarded, type Scope } from '../publications/membership.service';
+import { MembershipService, scopeOf, type AccessAction, type Guarded, type Scope } from '../publications/membership.service';
 import { SwatchbooksStore, toSwatchbookDto, toSwatchbookVersionDto, type SwatchbookEntity } from '@psiform/server';
 import { parseColors, parseName, parseSwatchbookFile } from './swatchbook-input';
 
@@ -18,16 +18,7 @@ type Caller = Pick<UserDto, 'id' | 'role'>;
 
 const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
 
-export const scopeOf = (s: Pick<SwatchbookEntity, 'publicationId' | 'publisher'>): Scope => (s.publicationId ? { publicationId: s.publicationId } : { publisher: s.publisher! });
 const guardedSwatchbook = (s: SwatchbookEntity): Guarded => ({ kind: 'swatchbook', id: s.id, scope: scopeOf(s), ownerId: s.ownerId });
-
-/** The palette a figure's recipe must carry where the house style pins a swatchbook without override. */
-export interface PinnedPalette {
-  swatchbookId: string;
-  positive: string;
-  negative: string;
-  background: string;
-}
 
 @Injectable()
 export class SwatchbooksService {
@@ -126,15 +117,6 @@ export class SwatchbooksService {
     return checkSwatchbook(s.colors) as unknown as SwatchbookCheckDto;
   }
 
-  /**
-   * A swatchbook a figure of `publicationId` may name in recipe.palette.swatchbookId: it must belong to that
-   * publication (or its publisher). 400 naming the field otherwise; the figures feature answers for the figure.
-   */
-  async requireUsableIn(publicationId: string, swatchbookId: string): Promise<void> {
-    const [s, pub] = await Promise.all([this.store.findById(swatchbookId), this.membership.findPublication(publicationId)]);
-    if (!s || !pub || !MembershipService.reaches(scopeOf(s), pub)) throw new BadRequestException([`recipe.palette.swatchbookId: no swatchbook ${swatchbookId} in this publication`]);
-  }
-
   // ---- house style ----------------------------------------------------------------------------------
 
   async getHouseStyle(user: Caller, publicationId: string): Promise<HouseStyleDto> {
@@ -161,22 +143,5 @@ export class SwatchbooksService {
       updatedBy: user.id,
     });
     return this.getHouseStyle(user, publicationId);
-  }
-
-  /** The pinned palette figures of this publication must use, or null (no house style, or override allowed). */
-  async enforcedPalette(publicationId: string): Promise<PinnedPalette | null> {
-    const h = await this.store.houseStyle(publicationId);
-    if (!h || h.allowOverride) return null;
-    const s = await this.store.findById(h.swatchbookId);
-    if (!s) return null;
-    return { swatchbookId: s.id, positive: s.colors.positive, negative: s.colors.negative, background: s.colors.background };
-  }
-
-  figurePublication(figureId: string): Promise<string | null> {
-    return this.store.figurePublication(figureId);
-  }
-
-  canAccess(user: Caller, publicationId: string): Promise<boolean> {
-    return this.membership.canAccess(user, publicationId);
   }
 }

@@ -3,11 +3,10 @@ import type { IncomingMessage } from 'node:http';
 import type { Readable } from 'node:stream';
 import { BadRequestException, HttpException, Inject, Injectable, PayloadTooLargeException } from '@nestjs/common';
 import busboy from 'busboy';
-import { RECIPE_LIMITS, RECIPE_VERSION, UPLOAD_FORMATS, type Recipe, type UploadFormat, type UploadResponse, type UserDto } from '@psiform/contracts';
+import { fractionProblem, RECIPE_LIMITS, RECIPE_VERSION, titleProblem, UPLOAD_FORMATS, type Recipe, type UploadFormat, type UploadResponse, type UserDto } from '@psiform/contracts';
 import { APP_CONFIG, type AppConfig, ObjectStorage, AssetStore, FiguresStore, uploadKey, uploadTempKey, CubeCheck, parseSidecar, UploadRejected, type CubeCheckResult, type CubeGeometry } from '@psiform/server';
 import { MembershipService } from '../publications/membership.service';
 import { FiguresService } from '../figures/figures.service';
-import { FIGURE_TITLE_MAX } from '../figures/figures.dto';
 import { validateRecipe } from '../figures/recipe-input';
 import { inputProblems } from '../common/input/input-rules';
 import { dependencyError } from '../common/http-error.filter';
@@ -186,12 +185,13 @@ export class UploadsService {
     if (problems.length) throw new BadRequestException(problems);
     if (!UUID.test(f.publicationId ?? '')) problems.push('publicationId must be a UUID (a field part before the cube)');
     const title = (f.title ?? '').trim();
-    if (!title) problems.push('title must not be empty');
-    else if (title.length > FIGURE_TITLE_MAX) problems.push(`title must be at most ${FIGURE_TITLE_MAX} characters`);
+    const tp = titleProblem(title);
+    if (tp) problems.push(`title ${tp}`);
     if (!(UPLOAD_FORMATS as readonly string[]).includes(f.format ?? '')) problems.push(`format must be one of: ${UPLOAD_FORMATS.join(', ')}`);
     if (f.quantity !== undefined && f.quantity !== 'psi' && f.quantity !== 'density') problems.push('quantity must be psi or density');
     const fraction = f.fraction === undefined ? 0.9 : Number(f.fraction);
-    if (!(fraction > 0 && fraction < 1)) problems.push('fraction must be between 0 and 1 (exclusive)');
+    const fp = fractionProblem(fraction);
+    if (fp) problems.push(`fraction ${fp}`);
     if (problems.length) throw new BadRequestException(problems);
     return { publicationId: f.publicationId, title, format: f.format as UploadFormat, quantity: f.quantity as 'psi' | 'density' | undefined, fraction };
   }
@@ -203,9 +203,11 @@ export class UploadsService {
     const assetId = randomUUID();
     try {
       const recipe = validateRecipe(uploadRecipe(meta.title, meta.fraction, { ...cube, quantity, assetId }));
-      const { figure } = await this.figuresStore.createWithAsset(
-        { publicationId: meta.publicationId, title: meta.title, ownerId: user.id },
-        this.figures.newVersion(recipe, user),
+      // Version 1 through the figures feature's one writer (house palette included), the asset row in its transaction.
+      const { figure } = await this.figures.saveFirst(
+        user,
+        { publicationId: meta.publicationId, title: meta.title },
+        recipe,
         {
           id: assetId,
           publicationId: meta.publicationId,

@@ -1,7 +1,6 @@
 import { BadRequestException, Inject, Injectable, Logger } from '@nestjs/common';
 import type { LinkInfoDto, SetPasswordResponse } from '@psiform/contracts';
-import { APP_CONFIG, type AppConfig, AttemptGate, type BackoffPolicy, UsersStore, userState } from '@psiform/server';
-import { NoticesService } from '../mail-notices/notices.service';
+import { APP_CONFIG, type AppConfig, AttemptGate, type BackoffPolicy, UsersStore, enqueueIn, userState } from '@psiform/server';
 import { linkMail } from '../mail-notices/compose';
 import { hashPassword } from './password';
 import { hashLinkToken, linkExpiry, newLinkToken, setPasswordUrl } from './links';
@@ -26,7 +25,6 @@ export class PasswordLinksService {
   constructor(
     private readonly store: UsersStore,
     private readonly gate: AttemptGate,
-    private readonly notices: NoticesService,
     @Inject(APP_CONFIG) private readonly config: AppConfig,
   ) {}
 
@@ -72,8 +70,9 @@ export class PasswordLinksService {
     await this.store.transaction(async (tx) => {
       await tx.addLink({ userId: user.id, purpose: 'reset', tokenHash: hash, expiresAt: linkExpiry('reset'), createdBy: null });
       await tx.audit({ subjectKind: 'user', subjectId: user.id, actorId: null, action: 'reset_requested', note: 'a password-reset link was requested from the sign-in page' });
+      // The mail is an outbox row of the same transaction: sent exactly when the link exists, even if Redis is down now.
+      await enqueueIn(tx.manager, { name: 'notice', data: linkMail('reset', user.email, { displayName: user.displayName, url: setPasswordUrl(this.config.http.publicBaseUrl, token) }) });
     });
-    await this.notices.send(linkMail('reset', user.email, { displayName: user.displayName, url: setPasswordUrl(this.config.http.publicBaseUrl, token) }));
     return answer;
   }
 }

@@ -1,13 +1,12 @@
 import { Module } from '@nestjs/common';
 import { TypeOrmModule } from '@nestjs/typeorm';
 import { UserEntity, UserLinkEntity, TypeormUsersStore, UsersStore, PublicationEntity, MembershipEntity, PublicationsStore, TypeormPublicationsStore } from '@psiform/server';
-import { MailNoticesModule } from '../mail-notices/mail-notices.module';
 import { UsersService } from './users.service';
 import { UsersController } from './users.controller';
 import { PasswordLinksService } from './password-links.service';
 
 @Module({
-  imports: [TypeOrmModule.forFeature([UserEntity, UserLinkEntity, PublicationEntity, MembershipEntity]), MailNoticesModule],
+  imports: [TypeOrmModule.forFeature([UserEntity, UserLinkEntity, PublicationEntity, MembershipEntity])],
   controllers: [UsersController],
   providers: [
     UsersService,

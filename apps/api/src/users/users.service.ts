@@ -15,6 +15,7 @@ import {
   APP_CONFIG,
   type AppConfig,
   DuplicateEmailError,
+  enqueueIn,
   PublicationsStore,
   UsersStore,
   toUserDto,
@@ -22,7 +23,6 @@ import {
   type UserEntity,
   type UsersTx,
 } from '@psiform/server';
-import { NoticesService } from '../mail-notices/notices.service';
 import { linkMail } from '../mail-notices/compose';
 import { hashPassword } from './password';
 import { linkExpiry, newLinkToken, setPasswordUrl } from './links';
@@ -35,14 +35,13 @@ const duplicate = (email: string) => new ConflictException(`email: ${email} is a
 /**
  * Accounts, as an admin runs them: create or invite (the invitation mail carries a one-time link), change role or
  * name, deactivate (every token stops at once) and reactivate, send a password reset. Each change and its audit
- * entry are one transaction; the mail is queued after the commit.
+ * entry are one transaction, and so is its mail (an outbox row: sent exactly when the change commits).
  */
 @Injectable()
 export class UsersService {
   constructor(
     private readonly store: UsersStore,
     private readonly publications: PublicationsStore,
-    private readonly notices: NoticesService,
     @Inject(APP_CONFIG) private readonly config: AppConfig,
   ) {}
 
@@ -67,9 +66,9 @@ export class UsersService {
       const u = await tx.insert({ email, displayName: req.displayName, role: req.role, passwordHash: null });
       await tx.addLink({ userId: u.id, purpose: 'invite', tokenHash: hash, expiresAt: linkExpiry('invite'), createdBy: actor.id });
       await tx.audit({ subjectKind: 'user', subjectId: u.id, actorId: actor.id, action: 'user_invite', note: `invited as ${ROLE_LABELS[u.role].toLowerCase()}` });
+      await this.mailLink(tx, 'invite', u, token, actor);
       return u;
     });
-    await this.mailLink('invite', user, token, actor);
     return this.get(user.id);
   }
 
@@ -84,9 +83,9 @@ export class UsersService {
       if (state === 'active') throw new ConflictException('this person has already chosen a password: send a password reset instead');
       await tx.addLink({ userId: u.id, purpose: 'invite', tokenHash: hash, expiresAt: linkExpiry('invite'), createdBy: actor.id });
       await tx.audit({ subjectKind: 'user', subjectId: u.id, actorId: actor.id, action: 'invite_resend', note: 'a new invitation link was sent; the earlier one no longer works' });
+      await this.mailLink(tx, 'invite', u, token, actor);
       return u;
     });
-    await this.mailLink('invite', user, token, actor);
     return this.get(user.id);
   }
 
@@ -101,9 +100,9 @@ export class UsersService {
       if (state === 'invited') throw new ConflictException('this person has not chosen a password yet: send the invitation again instead');
       await tx.addLink({ userId: u.id, purpose: 'reset', tokenHash: hash, expiresAt: linkExpiry('reset'), createdBy: actor.id });
       await tx.audit({ subjectKind: 'user', subjectId: u.id, actorId: actor.id, action: 'reset_sent', note: 'a password-reset link was sent by an administrator' });
+      await this.mailLink(tx, 'reset', u, token, actor);
       return u;
     });
-    await this.mailLink('reset', user, token, actor);
     return this.get(user.id);
   }
 
@@ -172,9 +171,10 @@ export class UsersService {
     }
   }
 
-  private async mailLink(purpose: LinkPurpose, user: UserEntity, token: string, actor: Caller | null): Promise<void> {
+  /** The link's mail as an outbox row in the transaction that made the link. */
+  private async mailLink(tx: UsersTx, purpose: LinkPurpose, user: UserEntity, token: string, actor: Caller | null): Promise<void> {
     const by = actor ? await this.store.findById(actor.id) : null;
-    await this.notices.send(linkMail(purpose, user.email, { displayName: user.displayName, invitedBy: by?.displayName ?? null, url: setPasswordUrl(this.config.http.publicBaseUrl, token) }));
+    await enqueueIn(tx.manager, { name: 'notice', data: linkMail(purpose, user.email, { displayName: user.displayName, invitedBy: by?.displayName ?? null, url: setPasswordUrl(this.config.http.publicBaseUrl, token) }) });
   }
 
   private async membershipsOf(userIds: string[]): Promise<Map<string, UserMembershipDto[]>> {

@@ -1,4 +1,4 @@
-import { FIGURE_STATUS_LABELS, RECIPE_LIMITS, type FigureStatus, type Recipe } from '@psiform/contracts';
+import { FIGURE_STATUS_LABELS, fractionProblem, gridProblem, zProblem, type FigureStatus, type Recipe } from '@psiform/contracts';
 import { formatBytes, gridBytes, isRealState, prettyLabel, type OrbitalState } from '@psiform/orbitals';
 import { PSI_UNIT_TEXT } from '@psiform/print';
 
@@ -12,24 +12,20 @@ export function gridMemoryText(n: number, complex: boolean): string {
   return `${n}³ × 4 bytes × ${complex ? 2 : 1} = ${formatBytes(gridBytes(n, complex))} for ${fields}`;
 }
 
+// Inline messages in the words of libs/contracts limits.ts, the API's own (one wording for client and server).
 export function validateGridN(n: number): string | null {
-  if (!Number.isInteger(n)) return 'Grid N must be a whole number.';
-  if (n < RECIPE_LIMITS.gridMin || n > RECIPE_LIMITS.gridMax) {
-    return `Grid N must be between ${RECIPE_LIMITS.gridMin} and ${RECIPE_LIMITS.gridMax} (got ${n}).`;
-  }
-  return null;
+  const p = gridProblem(n);
+  return p ? `Grid N ${p}.` : null;
 }
 
 export function validateFraction(f: number): string | null {
-  if (!Number.isFinite(f)) return 'Enclosed fraction must be a number.';
-  if (!(f > 0 && f < 1)) return `Enclosed fraction must be between 0 and 1, both excluded (got ${f}).`;
-  return null;
+  const p = fractionProblem(f);
+  return p ? `The enclosed fraction ${p}.` : null;
 }
 
 export function validateZInt(Z: number): string | null {
-  if (!Number.isInteger(Z)) return 'Z must be a whole number.';
-  if (Z < 1 || Z > RECIPE_LIMITS.zMax) return `Z must be between 1 and ${RECIPE_LIMITS.zMax} (got ${Z}).`;
-  return null;
+  const p = zProblem(Z);
+  return p ? `Z ${p}.` : null;
 }
 
 function stateOf(recipe: Recipe): OrbitalState {

@@ -1,7 +1,10 @@
-import { RECIPE_LIMITS } from '@psiform/contracts';
-import { L_LETTERS, LabelError, parseOrbitalLabel, prettyLabel, type Term } from '@psiform/orbitals';
+import { quantumNumberIssues } from '@psiform/contracts';
+import { LabelError, parseOrbitalLabel, prettyLabel, type Term } from '@psiform/orbitals';
 
-/** Per-field messages for n, l, m typed into the form (null: fine). Rules: 1 ≤ n ≤ 12, 0 ≤ l < n, |m| ≤ l. */
+/**
+ * Per-field messages for n, l, m typed into the form (null: fine). The rule and its wording are the one of
+ * @psiform/contracts (quantum.ts), shared with the API, the engine and the CLI; the form adds which values would do.
+ */
 export interface QuantumErrors {
   n: string | null;
   l: string | null;
@@ -27,31 +30,26 @@ function range(a: number, b: number): number[] {
 }
 
 export function checkQuantumNumbers(nText: string, lText: string, mText: string): QuantumErrors & { values: { n: number; l: number; m: number } | null } {
-  const nMax = RECIPE_LIMITS.nMax;
   const n = asInt(nText);
   const l = asInt(lText);
   const m = asInt(mText);
   const errors: QuantumErrors = { n: null, l: null, m: null };
-
+  // Reading the text first: an empty or non-integer field says so; only numbers go to the rule.
   if (nText.trim() === '') errors.n = 'Enter the principal quantum number n.';
   else if (n === null) errors.n = 'n must be a whole number.';
-  else if (n < 1 || n > nMax) errors.n = `n must be between 1 and ${nMax} (got ${n}).`;
-
-  const nOk = errors.n === null && n !== null;
   if (lText.trim() === '') errors.l = 'Enter the angular momentum quantum number l.';
   else if (l === null) errors.l = 'l must be a whole number.';
-  else if (l < 0) errors.l = `l cannot be negative (got ${l}).`;
-  else if (nOk && l >= n) {
-    errors.l = `l must be less than n: with n = ${n}, l can be ${choices(range(0, Math.min(n - 1, 11)))} (got ${l}).`;
-  } else if (l > L_LETTERS.length - 1) errors.l = `l must be at most ${L_LETTERS.length - 1} (got ${l}).`;
-
-  const lOk = errors.l === null && l !== null;
   if (mText.trim() === '') errors.m = 'Enter the magnetic quantum number m.';
   else if (m === null) errors.m = 'm must be a whole number (it may be negative).';
-  else if (lOk && Math.abs(m) > l) {
-    errors.m = `|m| must not exceed l: with l = ${l}, m can be ${choices(range(-l, l))} (got ${m}).`;
-  }
 
+  const hint = { n: '', l: n !== null ? `: with n = ${n}, l can be ${choices(range(0, n - 1))}` : '', m: l !== null && l >= 0 ? `: with l = ${l}, m can be ${choices(range(-l, l))}` : '' };
+  const q = { n: n ?? undefined, l: l ?? undefined, m: m ?? undefined };
+  for (const issue of quantumNumberIssues(q)) {
+    // A relation (l < n, |m| ≤ l) is only shown when the number it is compared with is itself fine.
+    if (issue.field === 'l' && errors.n !== null && l !== null && l >= 0) continue;
+    if (issue.field === 'm' && errors.l !== null) continue;
+    errors[issue.field] ??= `${issue.message}${issue.message.includes('less than n') || issue.message.includes('not exceed l') ? hint[issue.field] : ''}.`;
+  }
   const ok = errors.n === null && errors.l === null && errors.m === null;
   return { ...errors, values: ok ? { n: n!, l: l!, m: m! } : null };
 }

@@ -2,7 +2,7 @@ import { lazy, Suspense, useState } from 'react';
 import { Button, Callout, EditableText, NonIdealState, Spinner, Tag } from '@blueprintjs/core';
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { Link, useParams, useSearchParams } from 'react-router-dom';
-import { parseRecipe, type AssetDto, type FigureDto, type JobDto } from '@psiform/contracts';
+import { parseRecipe, titleProblem, type AssetDto, type FigureDto, type JobDto } from '@psiform/contracts';
 import { ApiError, describeError } from '../api/client';
 import { useApi, useAuth } from '../auth/AuthProvider';
 import { AssetDownloads } from '../figures/AssetDownloads';
@@ -74,16 +74,20 @@ function Title({ figure, editable }: { figure: FigureDto; editable: boolean }) {
           onChange={setDraft}
           onConfirm={(v) => {
             const t = v.trim();
-            if (!t) setDraft(null);
-            else if (t !== figure.title) rename.mutate(t);
+            if (titleProblem(t)) return; // the message below names the limit; the text stays for correcting
+            if (t !== figure.title) rename.mutate(t);
             else setDraft(null);
           }}
           onCancel={() => setDraft(null)}
-          maxLength={200}
           placeholder="Figure title"
           selectAllOnFocus
         />
       </h1>
+      {draft !== null && titleProblem(draft) && (
+        <Callout intent="warning" data-testid="title-error" className="pf-gap">
+          The title {titleProblem(draft)}. It was not changed.
+        </Callout>
+      )}
       {rename.isError && (
         <Callout intent="danger" data-testid="rename-error" className="pf-gap">
           The title was not changed: {describeError(rename.error)}

@@ -1,7 +1,7 @@
 import { useState } from 'react';
 import { Button, Callout, FormGroup, Spinner, Tag, TextArea } from '@blueprintjs/core';
 import { useMutation, useQueryClient } from '@tanstack/react-query';
-import type { CommentDto, FigureDto } from '@psiform/contracts';
+import { TEXT_LIMITS, textProblem, type CommentDto, type FigureDto } from '@psiform/contracts';
 import { describeError } from '../api/client';
 import { useApi } from '../auth/AuthProvider';
 import { formatDate } from '../figures/model';
@@ -36,6 +36,8 @@ export function CommentsPanel({
   const api = useApi();
   const queryClient = useQueryClient();
   const [body, setBody] = useState('');
+  // The limit in the API's own words (libs/contracts), shown as it is passed rather than cutting the text off.
+  const bodyProblem = textProblem(body.trim(), TEXT_LIMITS.commentMax);
   const post = useMutation({
     mutationFn: () => addComment(api, figure.id, { body: body.trim(), versionId: figure.currentVersion.id, ...(pin ? { pin } : {}) }),
     onSuccess: () => {
@@ -92,26 +94,29 @@ export function CommentsPanel({
       <form
         onSubmit={(e) => {
           e.preventDefault();
-          if (body.trim()) post.mutate();
+          if (body.trim() && !bodyProblem) post.mutate();
         }}
         data-testid="comment-form"
       >
         <FormGroup
           label="Add a comment"
           labelFor="comment-body"
+          intent={bodyProblem ? 'danger' : 'none'}
           helperText={
-            pin
+            bodyProblem
+              ? <span data-testid="comment-error-limit">The comment {bodyProblem}.</span>
+              : pin
               ? `Pinned at ${Math.round(pin.x * 100)}% across, ${Math.round(pin.y * 100)}% down.`
               : pinsPossible
                 ? 'Click on the proof image to pin the comment to a spot (optional).'
                 : 'Pins need a rendered PNG proof; this comment is about the figure as a whole.'
           }
         >
-          <TextArea id="comment-body" fill rows={3} value={body} onChange={(e) => setBody(e.target.value)} maxLength={4000} data-testid="comment-input" />
+          <TextArea id="comment-body" fill rows={3} value={body} onChange={(e) => setBody(e.target.value)} intent={bodyProblem ? 'danger' : 'none'} data-testid="comment-input" />
         </FormGroup>
         <div className="pf-head-actions">
           {pin && <Button variant="minimal" text="Remove pin" onClick={onClearPin} data-testid="comment-clear-pin" />}
-          <Button type="submit" intent="primary" text="Comment" disabled={!body.trim()} loading={post.isPending} data-testid="comment-submit" />
+          <Button type="submit" intent="primary" text="Comment" disabled={!body.trim() || !!bodyProblem} loading={post.isPending} data-testid="comment-submit" />
         </div>
         {post.isError && (
           <Callout intent="danger" className="pf-gap" data-testid="comment-error">

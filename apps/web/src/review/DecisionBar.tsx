@@ -2,7 +2,7 @@ import { useState } from 'react';
 import { Button, Callout, Dialog, DialogBody, DialogFooter, FormGroup, TextArea, type Intent } from '@blueprintjs/core';
 import type { IconName } from '@blueprintjs/icons';
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import type { FigureDto, ReviewTransitionDto } from '@psiform/contracts';
+import { TEXT_LIMITS, textProblem, type FigureDto, type ReviewTransitionDto } from '@psiform/contracts';
 import { ApiError, describeError } from '../api/client';
 import { useApi, useAuth } from '../auth/AuthProvider';
 import { availableDecisions, DECISION_LABELS, roundFromAudit } from './decisions';
@@ -74,6 +74,8 @@ export function DecisionBar({ figure }: { figure: FigureDto }) {
     round: roundFromAudit(audit.data ?? []),
   });
   const noteMissing = note.trim() === '';
+  // The API's limit in its own words (libs/contracts), shown rather than cutting the note off.
+  const noteTooLong = textProblem(note.trim(), TEXT_LIMITS.noteMax);
 
   function run(decision: Decision) {
     setDone(null);
@@ -128,7 +130,7 @@ export function DecisionBar({ figure }: { figure: FigureDto }) {
           onSubmit={(e) => {
             e.preventDefault();
             setNoteTouched(true);
-            if (!noteMissing) mutation.mutate({ decision: 'request_changes', note: note.trim() });
+            if (!noteMissing && !noteTooLong) mutation.mutate({ decision: 'request_changes', note: note.trim() });
           }}
           data-testid="request-changes-form"
         >
@@ -136,8 +138,14 @@ export function DecisionBar({ figure }: { figure: FigureDto }) {
             <FormGroup
               label="What should change?"
               labelFor="rc-note"
-              helperText={noteTouched && noteMissing ? 'A note is required: say what the illustrator should change.' : 'The illustrator receives this note by mail and sees it in the audit trail.'}
-              intent={noteTouched && noteMissing ? 'danger' : 'none'}
+              helperText={
+                noteTooLong
+                  ? `The note ${noteTooLong}.`
+                  : noteTouched && noteMissing
+                    ? 'A note is required: say what the illustrator should change.'
+                    : 'The illustrator receives this note by mail and sees it in the audit trail.'
+              }
+              intent={noteTooLong || (noteTouched && noteMissing) ? 'danger' : 'none'}
             >
               <TextArea
                 id="rc-note"
@@ -146,7 +154,6 @@ export function DecisionBar({ figure }: { figure: FigureDto }) {
                 value={note}
                 onChange={(e) => setNote(e.target.value)}
                 onBlur={() => setNoteTouched(true)}
-                maxLength={2000}
                 data-testid="request-changes-note"
               />
             </FormGroup>
@@ -160,7 +167,7 @@ export function DecisionBar({ figure }: { figure: FigureDto }) {
             actions={
               <>
                 <Button text="Cancel" onClick={() => setAsking(false)} />
-                <Button type="submit" intent="warning" text="Send the request" disabled={noteMissing} loading={mutation.isPending} data-testid="request-changes-submit" />
+                <Button type="submit" intent="warning" text="Send the request" disabled={noteMissing || !!noteTooLong} loading={mutation.isPending} data-testid="request-changes-submit" />
               </>
             }
           />

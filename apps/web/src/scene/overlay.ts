@@ -3,7 +3,8 @@
 // into each tile and composites it, so both show the same layer at any resolution.
 import { BOHR_RADIUS_ANGSTROM } from '@psiform/orbitals';
 import type { Recipe } from '@psiform/contracts';
-import { drawPhaseKey, drawRuns, measureRuns, OVERLAY_MM, typeset, UNIT_TEXT, type PhaseColourAt, type TextCanvas, type TextRun } from '@psiform/print';
+import { OVERLAY_FAMILY } from './fonts';
+import { drawPhaseKey, drawRuns, phaseKeyPlacement, measureRuns, OVERLAY_MM, typeset, UNIT_TEXT, type PhaseColourAt, type TextCanvas, type TextRun } from '@psiform/print';
 
 export type ScaleUnit = Recipe['annotations']['scaleBar']['unit'];
 
@@ -72,7 +73,7 @@ export interface CaptionLayout {
 
 export const CAPTION_MAX_LINES = 6;
 
-const FAMILY = 'Lato, "Helvetica Neue", Arial, sans-serif';
+const FAMILY = OVERLAY_FAMILY;
 
 /**
  * Lays the caption out for a canvas `widthMm` wide, measuring with `ctx` at `pxPerMm`: the lines (at most
@@ -159,10 +160,8 @@ export function drawOverlay(ctx: CanvasRenderingContext2D, o: OverlayInput): voi
   }
 
   if (o.phaseKey) {
-    const fontPx = OVERLAY_MM.small * mm;
-    const r = OVERLAY_MM.keyRadius * mm;
-    // Room right of the ring for the "0" mark, above it for the title and the π/2 mark.
-    drawPhaseKey(ctx, { cx: o.width - margin - r - fontPx * 1.2, cy: margin + fontPx * 2.2 + r, r, colourAt: o.phaseKey, ink: o.ink, fontPx, fontFamily: family, title: 'arg ψ' });
+    const { cx, cy, r, fontPx } = phaseKeyPlacement(o.width, mm);
+    drawPhaseKey(ctx, { cx, cy, r, colourAt: o.phaseKey, ink: o.ink, fontPx, fontFamily: family, title: 'arg ψ' });
   }
 
   if (cap.lines.length) {

@@ -24,6 +24,7 @@ describe('shell preset arithmetic', () => {
     const r = orbitalRecipe(shellOrbitals(2, 1)[1]);
     expect(r.label).toBe('2p_y');
     expect(r.content.terms).toEqual([{ n: 2, l: 1, m: -1, basis: 'real', re: 1, im: 0 }]);
+    expect(r.grid.n).toBe('auto'); // the engine's state-aware grid, as every new figure
   });
 });
 

@@ -3,7 +3,7 @@
 import { useEffect, useMemo, useState } from 'react';
 import { useQuery, useQueryClient } from '@tanstack/react-query';
 import { Button, Callout, Checkbox, FormGroup, HTMLSelect, HTMLTable, InputGroup, NonIdealState, Spinner, TextArea } from '@blueprintjs/core';
-import { DEFAULT_DELIVERY_PROFILE, FIGURE_SET_LIMITS, FIGURE_STATUSES, TEXT_LIMITS, titleProblem, type DeliveryProfile, type FigureSetDto, type FigureSummaryDto, type JobDto } from '@psiform/contracts';
+import { DEFAULT_DELIVERY_PROFILE, FIGURE_SET_LIMITS, FIGURE_STATUSES, TEXT_LIMITS, textProblem, titleProblem, type DeliveryProfile, type FigureSetDto, type FigureSummaryDto, type JobDto } from '@psiform/contracts';
 import { describeError } from '../api/client';
 import { useApi } from '../auth/AuthProvider';
 import { PublicationChooser } from '../figures/PublicationChooser';
@@ -186,7 +186,8 @@ export function NewSetForm({ publicationId, figures, onCreated }: { publicationI
   const L = FIGURE_SET_LIMITS;
   const tp = titleProblem(title);
   const titleError = tp ? `The title ${tp}.` : null;
-  const captionError = caption.length > TEXT_LIMITS.captionMax ? `The caption must be at most ${TEXT_LIMITS.captionMax} characters (this one has ${caption.length}).` : null;
+  const captionProblem = textProblem(caption, TEXT_LIMITS.captionMax);
+  const captionError = captionProblem ? `The caption ${captionProblem}.` : null;
   const countError = picked.length < L.figuresMin ? 'Pick at least one figure.' : picked.length > L.figuresMax ? `A set holds at most ${L.figuresMax} figures.` : null;
 
   function toggle(f: FigureSummaryDto, on: boolean) {

@@ -1,6 +1,6 @@
 // "Every orbital of one shell": the real orbitals of shell n (optionally one subshell l), matched to existing
 // figures of a publication by label, and recipes for the ones that are missing.
-import { RECIPE_VERSION, type FigureSummaryDto } from '@psiform/contracts';
+import { RECIPE_DEFAULTS, RECIPE_VERSION, type FigureSummaryDto } from '@psiform/contracts';
 import { parseOrbitalLabel, prettyLabel } from '@psiform/orbitals';
 
 /** Real-form names per l (s; p_x p_y p_z; the five real d; the seven real f of the general set), common practice. */
@@ -53,7 +53,7 @@ export function matchFigures(wanted: ShellOrbital[], figures: Pick<FigureSummary
 }
 
 /** A recipe document for one orbital (Z = 1; the server fills the stage, palette and canvas defaults). */
-export function orbitalRecipe(o: ShellOrbital, gridN = 64, fraction = 0.9) {
+export function orbitalRecipe(o: ShellOrbital, gridN: number | 'auto' = RECIPE_DEFAULTS.gridN, fraction: number = RECIPE_DEFAULTS.fraction) {
   const parsed = parseOrbitalLabel(o.key);
   return {
     version: RECIPE_VERSION,

@@ -91,7 +91,7 @@ describe('Composer: quantum numbers as you type', () => {
     await ue.type(screen.getByTestId('cmp-n'), '3');
     await ue.clear(screen.getByTestId('cmp-l'));
     await ue.type(screen.getByTestId('cmp-l'), '3');
-    expect(screen.getByTestId('cmp-l-error').textContent).toBe('l must be less than n: with n = 3, l can be 0, 1 or 2 (got 3).');
+    expect(screen.getByTestId('cmp-l-error').textContent).toBe('l must be less than n (got n=3, l=3): with n = 3, l can be 0, 1 or 2.');
     expect(save().disabled).toBe(true);
 
     await ue.clear(screen.getByTestId('cmp-l'));
@@ -99,12 +99,12 @@ describe('Composer: quantum numbers as you type', () => {
     expect(screen.queryByTestId('cmp-l-error')).toBeNull();
     await ue.clear(screen.getByTestId('cmp-m'));
     await ue.type(screen.getByTestId('cmp-m'), '-3');
-    expect(screen.getByTestId('cmp-m-error').textContent).toBe('|m| must not exceed l: with l = 2, m can be −2, −1, 0, 1 or 2 (got -3).');
+    expect(screen.getByTestId('cmp-m-error').textContent).toBe('|m| must not exceed l (got l=2, m=-3): with l = 2, m can be −2, −1, 0, 1 or 2.');
     expect(save().disabled).toBe(true);
 
     await ue.clear(screen.getByTestId('cmp-n'));
     await ue.type(screen.getByTestId('cmp-n'), '13');
-    expect(screen.getByTestId('cmp-n-error').textContent).toBe('n must be between 1 and 12 (got 13).');
+    expect(screen.getByTestId('cmp-n-error').textContent).toBe('n must be between 1 and 12 (got n=13).');
 
     await ue.clear(screen.getByTestId('cmp-n'));
     await ue.type(screen.getByTestId('cmp-n'), '3');
@@ -121,6 +121,7 @@ describe('Composer: quantum numbers as you type', () => {
     const body = api.callsTo('POST', '/api/figures')[0].body as { title: string; recipe: { content: { terms: unknown[] } } };
     expect(body.title).toBe('Plate 7: 3d');
     expect(body.recipe.content.terms).toEqual([{ n: 3, l: 2, m: -2, basis: 'real', re: 1, im: 0 }]);
+    expect((body.recipe as unknown as { grid: { n: unknown } }).grid.n).toBe('auto'); // the engine's state-aware grid
     await waitFor(() => expect(screen.getByTestId('location').textContent).toBe('/figures/f9/studio'), { timeout: 15_000 });
   });
 
@@ -217,7 +218,9 @@ describe('Composer: superposition coefficients', () => {
     const samples = () => w.sent.filter((m) => m.type === 'sample');
     const surfaces = () => w.sent.filter((m) => m.type === 'surface');
     expect(samples()).toHaveLength(1);
-    expect(samples()[0]).toMatchObject({ n: 96, state: { Z: 1, terms: [{ n: 2, l: 1, m: 0 }] } }); // recipe grid 96 (contracts RECIPE_DEFAULTS), under the 112 preview cap
+    // A new figure starts on the engine's own grid (contracts RECIPE_DEFAULTS 'auto'): the preview asks for it too.
+    expect(samples()[0]).toMatchObject({ n: 'auto', state: { Z: 1, terms: [{ n: 2, l: 1, m: 0 }] } });
+    expect((screen.getByTestId('cmp-grid') as HTMLInputElement).value).toBe('auto');
     await ue.clear(screen.getByTestId('cmp-fraction'));
     await ue.type(screen.getByTestId('cmp-fraction'), '75');
     await waitFor(() => expect(surfaces().at(-1)).toMatchObject({ rule: { rule: 'enclosed', fraction: 0.75 } }));

@@ -1,6 +1,6 @@
 // Pieces of the Composer's content (the draft model is ./draft.ts): coefficients as magnitude and phase,
 // Σ|c|², hybrid tables, the searchable label list, Z and ion names.
-import { RECIPE_LIMITS } from '@psiform/contracts';
+import { zProblem } from '@psiform/contracts';
 import { L_LETTERS, normaliseState, prettyLabel, stateNormSquared, type OrbitalState, type Term } from '@psiform/orbitals';
 import { ionName } from '@psiform/print';
 
@@ -53,10 +53,8 @@ export function trimNumber(x: number, digits = 6): string {
 
 export function zError(text: string): string | null {
   if (text.trim() === '') return 'Enter the nuclear charge Z.';
-  const Z = num(text);
-  if (!Number.isInteger(Z)) return 'Z must be a whole number.';
-  if (Z < 1 || Z > RECIPE_LIMITS.zMax) return `Z must be between 1 and ${RECIPE_LIMITS.zMax} (got ${Z}).`;
-  return null;
+  const p = zProblem(num(text));
+  return p ? `Z ${p}.` : null;
 }
 
 /** One-electron ions by Z: H, He⁺, Li²⁺, Be³⁺, B⁴⁺, C⁵⁺ … (from @psiform/print). */

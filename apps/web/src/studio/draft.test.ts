@@ -1,4 +1,4 @@
-import { canonicalJson, parseRecipe, type Recipe, type RecipeTerm } from '@psiform/contracts';
+import { canonicalJson, gridProblem, mmProblem, parseRecipe, type Recipe, type RecipeTerm } from '@psiform/contracts';
 import { compileState, parseOrbitalLabel } from '@psiform/orbitals';
 import { createDraft, draftErrors, draftReducer, fieldText, initialMode, isDirty, namedState, viewShowsState, type ComposerDraft, type ContentMode, type DraftAction } from './draft';
 
@@ -117,8 +117,12 @@ describe('Composer draft: one model over the recipe', () => {
     expect(draftErrors(d)).toMatchObject({
       'canvas.widthMm': 'The width must be from 10 to 1000 mm (got 5 mm).',
       'canvas.heightMm': 'The height must be from 10 to 1000 mm (got 5000 mm).',
-      grid: 'Grid N must be between 16 and 384 (got 999).',
+      grid: "Grid N must be 'auto' or a whole number from 16 to 384 (got 999).",
     });
+    // The words after the field name are the API's own (libs/contracts): its 400 says "grid.n <the same>".
+    expect(parseRecipe({ ...r, grid: { ...r.grid, n: 999 } })).toMatchObject({ ok: false, issues: [{ path: 'grid.n', message: `grid.n ${gridProblem(999)}` }] });
+    expect(draftErrors(d).grid).toBe(`Grid N ${gridProblem(999)}.`);
+    expect(draftErrors(d)['canvas.widthMm']).toBe(`The width ${mmProblem(5)}.`);
     expect(d.recipe.canvas).toEqual(r.canvas);
     expect(d.recipe.grid.n).toBe(64);
     const titled = run(createDraft(r, { isNew: true }), { type: 'text', key: 'title', value: 'x'.repeat(250) });

@@ -6,9 +6,13 @@
 import {
   CANVAS_LIMITS,
   canonicalJson,
+  fractionProblem,
+  gridProblem,
+  isovalueProblem,
   mmProblem,
   RECIPE_LIMITS,
   TEXT_LIMITS,
+  textProblem,
   titleProblem,
   type Recipe,
   type RecipeTerm,
@@ -254,25 +258,20 @@ export function fieldError(d: ComposerDraft, key: string): string | null {
     const t = v.trim();
     if (t === '') return 'Enter the grid size N.';
     if (t.toLowerCase() === 'auto') return null; // the engine picks the grid that resolves the surface
-    const n = num(t);
-    if (!Number.isInteger(n)) return 'Grid N must be a whole number.';
-    if (n < RECIPE_LIMITS.gridMin || n > RECIPE_LIMITS.gridMax) return `Grid N must be between ${RECIPE_LIMITS.gridMin} and ${RECIPE_LIMITS.gridMax} (got ${n}).`;
-    return null;
+    const p = gridProblem(num(t));
+    return p ? `Grid N ${p}.` : null;
   }
   if (key === 'percent') {
     const t = v.trim();
     if (t === '') return 'Enter the enclosed probability in percent.';
-    const p = num(t);
-    if (!Number.isFinite(p)) return 'The enclosed probability must be a number.';
-    if (!(p > 0 && p < 100)) return `The enclosed probability must be between 0% and 100%, both excluded (got ${p}%).`;
-    return null;
+    const p = fractionProblem(num(t), 'percent');
+    return p ? `The enclosed probability ${p}.` : null;
   }
   if (key === 'psi') {
     const t = v.trim();
     if (t === '') return 'Enter the |ψ| value.';
-    const x = num(t);
-    if (!Number.isFinite(x) || x <= 0) return 'The |ψ| value must be a positive number.';
-    return null;
+    const p = isovalueProblem(num(t));
+    return p ? `The |ψ| value ${p}.` : null;
   }
   if (key === 'label') {
     const r = orbitalFromLabel(v);
@@ -303,8 +302,14 @@ export function fieldError(d: ComposerDraft, key: string): string | null {
     const p = mmProblem(num(t));
     return p ? `The ${what} ${p}.` : null;
   }
-  if (key === 'label.text' && v.length > TEXT_LIMITS.labelMax) return `The label must be at most ${TEXT_LIMITS.labelMax} characters (this one has ${v.length}).`;
-  if (key === 'caption' && v.length > TEXT_LIMITS.captionMax) return `The caption must be at most ${TEXT_LIMITS.captionMax} characters (this one has ${v.length}).`;
+  if (key === 'label.text') {
+    const p = textProblem(v, TEXT_LIMITS.labelMax);
+    return p ? `The label ${p}.` : null;
+  }
+  if (key === 'caption') {
+    const p = textProblem(v, TEXT_LIMITS.captionMax);
+    return p ? `The caption ${p}.` : null;
+  }
   return null;
 }
 

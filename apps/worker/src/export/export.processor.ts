@@ -1,14 +1,12 @@
 import { Injectable } from '@nestjs/common';
 import { UnrecoverableError } from 'bullmq';
-import { QUEUES, type Recipe } from '@psiform/contracts';
-import { AssetStore, CONTENT_TYPES, ENGINE_VERSION, JobsStore, ObjectStorage, exportKey, sha256Hex, type JobPayload, type NewAsset } from '@psiform/server';
-import { DEFAULT_DELIVERY_PROFILE, type ColourMode, type DeliveryProfile, type PressConditionId } from '@psiform/contracts';
-import { buildBundle, plotAlt, preflightReport, preflightText, type BundleFile, type PreflightSubject } from '@psiform/print';
+import { DEFAULT_DELIVERY_PROFILE, type ColourMode, type DeliveryProfile, type PressConditionId, type Recipe } from '@psiform/contracts';
+import { AssetStore, CONTENT_TYPES, ENGINE_VERSION, ObjectStorage, exportKey, sha256Hex, type NewAsset, type TrackedJobHandler, type TrackedOutcome, type TrackedRun } from '@psiform/server';
+import { buildBundle, bundleCompanions, plotAlt, preflightReport, preflightText, type BundleFile, type PreflightSubject } from '@psiform/print';
 import { recipeState, screenGlbFromArchival, screenTolerance } from '@psiform/meshing';
 import { compileState } from '@psiform/orbitals';
-import type { JobProcessor, ProcessorJob } from '../queues/job-processor';
 import type { FigureRenderer } from '../render/figure-renderer';
-import { ensureMesh, runTracked, versionOf, type AfterMesh, type TrackedJob, type TrackedResult } from '../render/tracked-job';
+import { EXPORT_PROGRESS, ensureMesh, versionOf, type TrackedJob } from '../render/tracked-job';
 import { companionSvg, figureSvg, type SvgParams } from './svg-export';
 import { altOf, figureWords } from './figure-words';
 import { encodePdf, encodeTiff, pdfSubject, pngFacts, rasterSubject, svgSubject, tiffFacts } from './print-files';
@@ -20,49 +18,37 @@ interface PrintColour {
   colour?: ColourMode;
   pressCondition?: PressConditionId;
 }
-type ExportParams = (({ format: 'svg' } & SvgParams) | ({ format: 'pdf' } & SvgParams & PrintColour) | { format: 'glb' | 'stl' } | { format: 'bundle' }) & {
-  /** The publication's delivery profile when the export was asked for (apps/api fills it in). */
-  profile?: DeliveryProfile;
-};
 
 /**
  * Export jobs (QUEUES.export): svg (radial plot or section map, Lato embedded), glb/stl (the version's mesh,
- * computed first when missing) and bundle (zip: GLB, STL, PNG, radial SVG, recipe.json, metadata.json, README.txt).
+ * computed first when missing) and bundle (zip: GLB, STL, PNG, radial plot and section map SVG, recipe.json, metadata.json, README.txt).
  */
 @Injectable()
-export class ExportJobProcessor implements JobProcessor<JobPayload, TrackedResult> {
-  readonly queue = QUEUES.export;
+export class ExportJobProcessor implements TrackedJobHandler<'export'> {
+  readonly kind = 'tracked';
+  readonly name = 'export';
+  readonly progress = EXPORT_PROGRESS;
 
   constructor(
-    private readonly jobs: JobsStore,
     private readonly assets: AssetStore,
     private readonly storage: ObjectStorage,
     private readonly renderer: FigureRenderer | null,
     private readonly engineVersion: string = ENGINE_VERSION,
     private readonly now: () => Date = () => new Date(),
-    /** The mesh job's after-mesh hook (thumbnails), for meshes this job computes first (glb, stl, bundle). */
-    private readonly afterMesh?: AfterMesh,
   ) {}
 
-  async process(job: ProcessorJob<JobPayload>): Promise<TrackedResult> {
-    const res = await runTracked(this.jobs, job, async (t) => {
-      const p = t.params as unknown as ExportParams;
-      const { version, recipe } = versionOf(t.ctx);
-      const total = performance.now();
-      let assets: NewAsset[];
-      const profile = p.profile ?? DEFAULT_DELIVERY_PROFILE;
-      if (p.format === 'svg') assets = await this.svg(t, recipe, version.id, version.recipeHash, p, profile);
-      else if (p.format === 'pdf') assets = await this.pdf(t, recipe, version.id, version.recipeHash, p, profile);
-      else if (p.format === 'glb' || p.format === 'stl') assets = await this.mesh(t, recipe, version, p.format);
-      else if (p.format === 'bundle') assets = await this.bundle(t, recipe, version, profile);
-      else throw new UnrecoverableError(`export job ${t.id} has an unknown format ${JSON.stringify((p as { format?: unknown }).format)}`);
-      return { timings: { total: Math.round(performance.now() - total) }, assets };
-    }, this.afterMesh);
-    return { jobId: res.jobId, assetIds: res.assetIds };
-  }
-
-  async onFailed(job: ProcessorJob<JobPayload>, error: Error, final: boolean): Promise<void> {
-    if (final && typeof job.data?.jobId === 'string') await this.jobs.fail(job.data.jobId, error.message);
+  /** The payload (params included) was checked against the job contract by the runner: no cast. */
+  async run(t: TrackedRun<'export'>): Promise<TrackedOutcome> {
+    const p = t.params;
+    const { version, recipe } = versionOf(t.ctx);
+    const total = performance.now();
+    let assets: NewAsset[];
+    const profile = p.profile ?? DEFAULT_DELIVERY_PROFILE;
+    if (p.format === 'svg') assets = await this.svg(t, recipe, version.id, version.recipeHash, p, profile);
+    else if (p.format === 'pdf') assets = await this.pdf(t, recipe, version.id, version.recipeHash, p, profile);
+    else if (p.format === 'glb' || p.format === 'stl') assets = await this.mesh(t, recipe, version, p.format);
+    else assets = await this.bundle(t, recipe, version, profile);
+    return { timings: { total: Math.round(performance.now() - total) }, assets };
   }
 
   private async svg(t: TrackedJob, recipe: Recipe, versionId: string, recipeHash: string, p: SvgParams, profile: DeliveryProfile): Promise<NewAsset[]> {
@@ -138,7 +124,7 @@ export class ExportJobProcessor implements JobProcessor<JobPayload, TrackedResul
     const meta = figureWords(recipe, mesh.stats, version.engineVersion || this.engineVersion, this.now().toISOString());
     const alt = altOf(meta);
     // Print files per the delivery profile: the figure as the profile's first raster format (TIFF in its colour),
-    // the radial plot as its first vector format; each is preflighted and the report travels in the bundle.
+    // the radial plot and the section map (bundleCompanions) as its first vector format; each is preflighted and the report travels in the bundle.
     const subjects: PreflightSubject[] = [rasterSubject('figure.png', 'png', pngFacts(png), pngSize, recipe, alt)];
     if (profile.rasterFormats[0] === 'tiff') {
       const bg = recipe.stage.background;
@@ -148,17 +134,18 @@ export class ExportJobProcessor implements JobProcessor<JobPayload, TrackedResul
     }
     if (recipe.source?.kind !== 'upload') {
       files.push({ name: 'figure-screen.glb', bytes: await screenGlb(recipe, mesh.glb, mesh.stats, version.engineVersion || this.engineVersion) });
-      const svgParams: SvgParams = { kind: 'radial', plane: 'xz', offset: 0, levels: 4, widthMm: recipe.canvas.widthMm, heightMm: recipe.canvas.heightMm };
-      const svgText = companionSvg(recipe, svgParams);
-      files.push({ name: 'radial.svg', bytes: new TextEncoder().encode(svgText) });
-      subjects.push(svgSubject('radial.svg', svgText, svgParams.widthMm, svgParams.heightMm, plotAlt(svgText)));
-      if (profile.vectorFormats.includes('pdf')) {
-        const plain = figureSvg(recipe, svgParams, undefined);
-        const palt = plotAlt(plain);
-        const opts = { svg: plain, widthMm: svgParams.widthMm, heightMm: svgParams.heightMm, title: palt.short, alt: palt.short, colour: profile.colourMode, pressCondition: profile.pressCondition };
-        const pdf = await encodePdf(opts);
-        files.push({ name: 'radial.pdf', bytes: pdf });
-        subjects.push(pdfSubject('radial.pdf', pdf, opts, palt));
+      for (const svgParams of bundleCompanions(recipe)) {
+        const svgText = companionSvg(recipe, svgParams);
+        files.push({ name: `${svgParams.kind}.svg`, bytes: new TextEncoder().encode(svgText) });
+        subjects.push(svgSubject(`${svgParams.kind}.svg`, svgText, svgParams.widthMm, svgParams.heightMm, plotAlt(svgText)));
+        if (profile.vectorFormats.includes('pdf')) {
+          const plain = figureSvg(recipe, svgParams, undefined);
+          const palt = plotAlt(plain);
+          const opts = { svg: plain, widthMm: svgParams.widthMm, heightMm: svgParams.heightMm, title: palt.short, alt: palt.short, colour: profile.colourMode, pressCondition: profile.pressCondition };
+          const pdf = await encodePdf(opts);
+          files.push({ name: `${svgParams.kind}.pdf`, bytes: pdf });
+          subjects.push(pdfSubject(`${svgParams.kind}.pdf`, pdf, opts, palt));
+        }
       }
     }
     const preflight = preflightReport(subjects, profile, meta.generatedAt);

@@ -1,15 +1,15 @@
 import { hostname } from 'node:os';
 import { Injectable } from '@nestjs/common';
-import { HEALTH_PING_JOB, QUEUES, type HealthPingResult } from '@psiform/contracts';
-import type { JobProcessor } from '../queues/job-processor';
+import type { HealthPingResult } from '@psiform/contracts';
+import type { PlainJobHandler } from '@psiform/server';
 
 /** Answers ping jobs on the health queue so callers can tell a worker is alive. */
 @Injectable()
-export class HealthPingProcessor implements JobProcessor<unknown, HealthPingResult> {
-  readonly queue = QUEUES.health;
+export class HealthPingProcessor implements PlainJobHandler<'ping'> {
+  readonly kind = 'plain';
+  readonly name = 'ping';
 
-  async process(job: { name: string }): Promise<HealthPingResult> {
-    if (job.name !== HEALTH_PING_JOB) throw new Error(`unknown job name "${job.name}" on queue ${this.queue}`);
+  async run(): Promise<HealthPingResult> {
     return { pong: true, worker: `${hostname()}/${process.pid}` };
   }
 }

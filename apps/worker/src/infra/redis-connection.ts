@@ -1,8 +1,8 @@
-import { Global, Inject, Logger, Module, type DynamicModule, type OnApplicationShutdown } from '@nestjs/common';
-import Redis from 'ioredis';
-import type { WorkerConfig } from '../config/config';
+import { Global, Inject, Module, type DynamicModule, type OnApplicationShutdown } from '@nestjs/common';
+import type Redis from 'ioredis';
+import { closeRedis, openRedis, type WorkerConfig } from '@psiform/server';
 
-/** Shared ioredis connection for BullMQ; only adapters (WorkerHost) use it. */
+/** The worker's BullMQ connection (libs/server openRedis, role 'worker'); only the JobRunner uses it. */
 export const REDIS_CONNECTION = Symbol('REDIS_CONNECTION');
 
 @Global()
@@ -13,32 +13,13 @@ export class RedisConnectionModule implements OnApplicationShutdown {
   static forRoot(config: WorkerConfig): DynamicModule {
     return {
       module: RedisConnectionModule,
-      providers: [
-        {
-          provide: REDIS_CONNECTION,
-          useFactory: () => {
-            // BullMQ workers require maxRetriesPerRequest: null (stack notes).
-            const redis = new Redis(config.redis.url, { maxRetriesPerRequest: null });
-            const log = new Logger('Redis');
-            let down = false;
-            redis.on('error', (err: Error) => {
-              if (!down) log.warn(`Redis connection problem: ${err.message}`);
-              down = true;
-            });
-            redis.on('ready', () => {
-              if (down) log.log('Redis connection restored');
-              down = false;
-            });
-            return redis;
-          },
-        },
-      ],
+      providers: [{ provide: REDIS_CONNECTION, useFactory: () => openRedis(config.redis.url, 'worker') }],
       exports: [REDIS_CONNECTION],
     };
   }
 
-  /** Runs after WorkerHost closed the workers (beforeApplicationShutdown). */
+  /** Runs after the JobRunner closed its workers (beforeApplicationShutdown). */
   async onApplicationShutdown(): Promise<void> {
-    await this.redis.quit().catch(() => this.redis.disconnect());
+    await closeRedis(this.redis);
   }
 }

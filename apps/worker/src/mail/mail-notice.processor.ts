@@ -1,31 +1,27 @@
-import type { OnApplicationShutdown } from '@nestjs/common';
-import { MAIL_NOTICE_JOB, QUEUES, type MailNoticeJob } from '@psiform/contracts';
-import type { JobProcessor, ProcessorJob } from '../queues/job-processor';
-import { MailSender } from './mail-sender';
+import { Logger } from '@nestjs/common';
+import type { MailNoticeJob } from '@psiform/contracts';
+import type { Mailer, PlainJobHandler } from '@psiform/server';
 
 /**
- * Sends the api's review notices (queue QUEUES.mail). A failure throws, and BullMQ retries with the
- * job's backoff (the api queues 8 attempts, exponential from 1 s), so a mail server down for a moment
- * delays a notice but does not lose it.
+ * Sends the api's review notices (job "notice" on QUEUES.mail). A failure throws and the runner's retries take over
+ * (NOTICE_JOB_OPTIONS: 1 s doubling to a try a minute, about an hour in all), so a mail server that is down delays a
+ * notice but does not lose it; the outbox row marks it done once sent, so a re-delivery does not send it twice.
+ * Without SMTP_URL (`mailer` null) this worker leaves the mail queue alone and notices wait for one that has it.
  */
-export class MailNoticeProcessor implements JobProcessor<MailNoticeJob, { accepted: string[] }>, OnApplicationShutdown {
-  readonly queue = QUEUES.mail;
+export class MailNoticeProcessor implements PlainJobHandler<'notice'> {
+  readonly kind = 'plain';
+  readonly name = 'notice';
+  readonly enabled: boolean;
 
-  constructor(private readonly sender: MailSender) {}
-
-  async process(job: ProcessorJob<MailNoticeJob>): Promise<{ accepted: string[] }> {
-    if (job.name !== MAIL_NOTICE_JOB) throw new Error(`unknown job name "${job.name}" on queue ${this.queue}`);
-    const m = job.data;
-    if (!m || !Array.isArray(m.to) || m.to.length === 0 || typeof m.subject !== 'string' || typeof m.text !== 'string' || typeof m.html !== 'string') {
-      throw new Error('malformed mail notice: to[], subject, text and html are required');
-    }
-    const accepted = await this.sender.send(m);
-    if (accepted.length === 0) throw new Error(`the mail server accepted none of ${m.to.join(', ')}`);
-    return { accepted };
+  constructor(private readonly mailer: Mailer | null) {
+    this.enabled = mailer !== null;
+    if (!mailer) new Logger('Mail').warn('SMTP_URL is not set: this worker sends no mail; notices stay queued for a worker that has SMTP_URL');
   }
 
-  /** After WorkerHost closed the BullMQ workers (beforeApplicationShutdown). */
-  onApplicationShutdown(): void {
-    this.sender.close();
+  async run(m: MailNoticeJob): Promise<{ accepted: string[] }> {
+    if (!this.mailer) throw new Error('this worker has no SMTP_URL');
+    const accepted = await this.mailer.send(m);
+    if (accepted.length === 0) throw new Error(`the mail server accepted none of ${m.to.join(', ')}`);
+    return { accepted };
   }
 }

@@ -2,7 +2,9 @@ import { UnrecoverableError } from 'bullmq';
 import { parseRecipe } from '@psiform/contracts';
 import { AssetStore, JobsStore, ObjectStorage, meshKey, recipeHash, type JobContext, type NewAsset, type StoredObject } from '@psiform/server';
 import { closeParallelSampler } from '@psiform/orbitals/node';
+import type { AfterMesh, MeshDone } from '@psiform/server';
 import { MeshJobProcessor } from './mesh.processor';
+import { NoOutbox, lifecycle } from '../testing/lifecycle';
 
 // Each job runs the real engine (all-space level, surface analysis, sampling on worker threads): allow for a busy machine.
 jest.setTimeout(60_000);
@@ -20,7 +22,7 @@ class FakeJobs extends JobsStore {
   state = 'queued';
   version: JobContext['version'] = { id: 'v1', figureId: 'f1', number: 1, recipe, recipeHash: recipeHash(recipe), engineVersion: 'test-engine', authorId: 'u1', locked: false, createdAt: new Date() };
   async loadContext(id: string): Promise<JobContext | null> {
-    if (id === 'gone') return null;
+    if (id === GONE) return null;
     return {
       job: { id, state: this.state, assetIds: ['a1', 'a2'], publicationId: 'p1' } as JobContext['job'],
       figure: { id: 'f1' } as JobContext['figure'],
@@ -44,9 +46,9 @@ class FakeJobs extends JobsStore {
     this.completed = assets;
     return assets.map((_, i) => `asset-${i}`);
   }
-  insert = () => Promise.reject(new Error('unused'));
-  setBullJobId = () => Promise.reject(new Error('unused'));
-  remove = () => Promise.reject(new Error('unused'));
+  request = () => Promise.reject(new Error('unused'));
+  staleQueued = () => Promise.reject(new Error('unused'));
+  redriveQueued = () => Promise.reject(new Error('unused'));
   findById = () => Promise.reject(new Error('unused'));
 }
 
@@ -67,18 +69,25 @@ class FakeAssets extends AssetStore {
   findForVersion = () => Promise.resolve([]);
   keyReferenced = () => Promise.resolve(false);
   presignGet = () => Promise.resolve('');
+  nameFacts = () => Promise.resolve(null);
 }
 
-const job = (attemptsMade = 0, id = 'j1') => ({ id, name: 'mesh', data: { jobId: id }, attemptsMade, opts: { attempts: 3 } });
+const J1 = '0b6f7c1e-2d3a-4b5c-9d8e-7f6a5b4c3d2e';
+const GONE = '9e8d7c6b-5a4f-4e3d-8c2b-1a0f9e8d7c6b';
+const job = (attemptsMade = 0, id = J1) => ({ id: `bull-${id}`, name: 'mesh', data: { jobId: id, params: {} }, attemptsMade, opts: { attempts: 3 } });
+/** The handler run through the job runner's own lifecycle (stages, retries, completion, failure recording). */
+const runner = (jobs: FakeJobs, p: MeshJobProcessor, afterMesh?: AfterMesh) => ({
+  process: (j: ReturnType<typeof job>) => lifecycle(jobs, new NoOutbox(), afterMesh).process('psiform-mesh', p, j),
+  onFailed: (j: ReturnType<typeof job>, e: Error, final: boolean) => lifecycle(jobs, new NoOutbox()).recordFailure(p, j, e, final),
+});
 
 describe('MeshJobProcessor', () => {
   it('reports the stages in order, stores glb and stl under content-derived keys and completes with timings', async () => {
     const jobs = new FakeJobs();
     const assets = new FakeAssets();
-    const p = new MeshJobProcessor(jobs, assets, {} as ObjectStorage, 'test-engine');
-    expect(p.queue).toBe('psiform-mesh');
+    const p = runner(jobs, new MeshJobProcessor(assets, {} as ObjectStorage, 'test-engine'));
     const res = await p.process(job());
-    expect(res).toEqual({ jobId: 'j1', assetIds: ['asset-0', 'asset-1'] });
+    expect(res).toEqual({ jobId: J1, assetIds: ['asset-0', 'asset-1'] });
     expect(jobs.log).toEqual(['active:1:sampling', 'threshold:40', 'extracting:50', 'encoding:75', 'storing:90', 'complete:encode,extract,sample,stats,store,threshold,total']);
     const h = jobs.version!.recipeHash;
     expect(jobs.completed.map((a) => [a.kind, a.storageKey, a.figureVersionId, a.publicationId])).toEqual([
@@ -100,7 +109,7 @@ describe('MeshJobProcessor', () => {
     const jobs = new FakeJobs();
     const assets = new FakeAssets();
     assets.failPuts = 2;
-    const p = new MeshJobProcessor(jobs, assets, {} as ObjectStorage, 'test-engine');
+    const p = runner(jobs, new MeshJobProcessor(assets, {} as ObjectStorage, 'test-engine'));
     await expect(p.process(job(0))).rejects.toThrow('storage unreachable');
     expect(jobs.log.at(-1)).toBe('requeue:attempt 1 of 3 failed: storage unreachable; retrying');
     await expect(p.process(job(2))).rejects.toThrow('storage unreachable');
@@ -109,26 +118,26 @@ describe('MeshJobProcessor', () => {
 
   it('a completed row is not redone; a missing row or an invalid stored recipe fails without retries', async () => {
     const jobs = new FakeJobs();
-    const p = new MeshJobProcessor(jobs, new FakeAssets(), {} as ObjectStorage, 'test-engine');
+    const p = runner(jobs, new MeshJobProcessor(new FakeAssets(), {} as ObjectStorage, 'test-engine'));
     jobs.state = 'completed';
-    await expect(p.process(job())).resolves.toEqual({ jobId: 'j1', assetIds: ['a1', 'a2'] });
+    await expect(p.process(job())).resolves.toEqual({ jobId: J1, assetIds: ['a1', 'a2'] });
     expect(jobs.log).toEqual([]);
-    await expect(p.process(job(0, 'gone'))).rejects.toBeInstanceOf(UnrecoverableError);
+    await expect(p.process(job(0, GONE))).rejects.toBeInstanceOf(UnrecoverableError);
     jobs.state = 'queued';
     jobs.version = { ...jobs.version!, recipe: { ...recipe, grid: { n: 4, extent: 'auto' } } };
     await expect(p.process(job(0))).rejects.toBeInstanceOf(UnrecoverableError);
-    expect(jobs.log.at(-1)).toMatch(/^fail:the stored recipe is not valid: grid\.n: grid\.n must be at least 16/);
+    expect(jobs.log.at(-1)).toMatch(/^fail:the stored recipe is not valid: grid\.n: grid\.n must be 'auto' or a whole number from 16 to 384 \(got 4\)/);
   });
 
-  it('afterMesh (thumbnails) runs after the completion; its failure is logged and the mesh job still succeeds', async () => {
+  it("the runner's after-mesh hook (thumbnails) runs after the completion; its failure is logged and the mesh job still succeeds", async () => {
     const jobs = new FakeJobs();
     const seen: unknown[] = [];
-    const ok = new MeshJobProcessor(jobs, new FakeAssets(), {} as ObjectStorage, 'test-engine', async (d) => void seen.push({ ...d, log: [...jobs.log] }));
+    const ok = runner(jobs, new MeshJobProcessor(new FakeAssets(), {} as ObjectStorage, 'test-engine'), async (d: MeshDone) => void seen.push({ ...d, log: [...jobs.log] }));
     await ok.process(job());
-    expect(seen).toEqual([{ jobId: 'j1', figureId: 'f1', figureVersionId: 'v1', publicationId: 'p1', assetIds: ['asset-0', 'asset-1'], log: expect.arrayContaining([expect.stringMatching(/^complete:/)]) }]);
+    expect(seen).toEqual([{ jobId: J1, figureId: 'f1', figureVersionId: 'v1', publicationId: 'p1', assetIds: ['asset-0', 'asset-1'], log: expect.arrayContaining([expect.stringMatching(/^complete:/)]) }]);
     const jobs2 = new FakeJobs();
-    const failing = new MeshJobProcessor(jobs2, new FakeAssets(), {} as ObjectStorage, 'test-engine', () => Promise.reject(new Error('no browser')));
-    await expect(failing.process(job())).resolves.toEqual({ jobId: 'j1', assetIds: ['asset-0', 'asset-1'] });
+    const failing = runner(jobs2, new MeshJobProcessor(new FakeAssets(), {} as ObjectStorage, 'test-engine'), () => Promise.reject(new Error('no browser')));
+    await expect(failing.process(job())).resolves.toEqual({ jobId: J1, assetIds: ['asset-0', 'asset-1'] });
     expect(jobs2.log.some((l) => l.startsWith('fail:') || l.startsWith('requeue:'))).toBe(false);
   });
 
@@ -137,7 +146,7 @@ describe('MeshJobProcessor', () => {
     const cut = parseRecipe({ version: 1, content: { Z: 1, terms: [{ n: 2, l: 1, m: 0, basis: 'real', re: 1 }] }, grid: { n: 20, extent: 3 }, surface: { rule: 'enclosed', fraction: 0.9 } });
     if (!cut.ok) throw new Error('bad test recipe');
     jobs.version = { ...jobs.version!, recipe: cut.recipe, recipeHash: recipeHash(cut.recipe) };
-    await new MeshJobProcessor(jobs, new FakeAssets(), {} as ObjectStorage, 'test-engine').process(job());
+    await runner(jobs, new MeshJobProcessor(new FakeAssets(), {} as ObjectStorage, 'test-engine')).process(job());
     for (const a of jobs.completed) {
       const s = a.stats as unknown as { warnings: { code: string }[]; enclosed: number; enclosedError: number; enclosedInBox: number; surfaces: { watertight: boolean }[]; units: { length: string }; conventions: string };
       expect(s.warnings.map((w: { code: string }) => w.code)).toContain('box-cuts-surface');
@@ -151,7 +160,7 @@ describe('MeshJobProcessor', () => {
 
   it('onFailed marks the row failed only when BullMQ gives up', async () => {
     const jobs = new FakeJobs();
-    const p = new MeshJobProcessor(jobs, new FakeAssets(), {} as ObjectStorage);
+    const p = runner(jobs, new MeshJobProcessor(new FakeAssets(), {} as ObjectStorage));
     await p.onFailed(job(), new Error('job stalled more than allowable limit'), false);
     expect(jobs.log).toEqual([]);
     await p.onFailed(job(), new Error('job stalled more than allowable limit'), true);

@@ -4,8 +4,16 @@ import { AssetStore, JobsStore, ObjectStorage, meshKey, recipeHash, sha256Hex, t
 import { closeParallelSampler } from '@psiform/orbitals/node';
 import { RenderJobProcessor } from './render.processor';
 import type { FigureRenderer, RenderRequest } from './figure-renderer';
-import type { FigureSetStore } from './figure-sets';
-import type { ThumbnailStore } from './thumbnails';
+import type { FigureSetsStore, FiguresStore } from '@psiform/server';
+import { NoOutbox, lifecycle } from '../testing/lifecycle';
+
+// Ids are UUIDs: the job contract checks the render payload's figure-set and panel ids.
+const VX = '1a2b3c4d-0001-4000-8000-00000000000a';
+const VZ = '1a2b3c4d-0002-4000-8000-00000000000b';
+const SET1 = '1a2b3c4d-0003-4000-8000-00000000000c';
+const FIG_VX = '1a2b3c4d-0004-4000-8000-00000000000d';
+const FIG_VZ = '1a2b3c4d-0005-4000-8000-00000000000e';
+const J1 = '1a2b3c4d-0006-4000-8000-00000000000f';
 
 // Fresh meshes run the real engine (all-space level, surface analysis, sampling): allow for a busy machine.
 jest.setTimeout(60_000);
@@ -16,10 +24,10 @@ const recipeFor = (m: number, label: string): Recipe => {
   if (!r.ok) throw new Error('bad test recipe');
   return r.recipe;
 };
-const version = (id: string, recipe: Recipe) => ({ id, figureId: `fig-${id}`, number: 1, recipe, recipeHash: recipeHash(recipe), engineVersion: 'test-engine', authorId: 'u1', locked: false, createdAt: new Date() }) as FigureVersionEntity;
-const vx = version('vx', recipeFor(1, '2p_x'));
-const vz = version('vz', recipeFor(0, '2p_z'));
-const params = { format: 'png', widthPx: 300, heightPx: 100, dpi: 300, figureSetId: 'set1', columns: 2, title: 'p', panels: [{ figureId: 'fig-vx', figureVersionId: 'vx' }, { figureId: 'fig-vz', figureVersionId: 'vz' }] };
+const version = (id: string, recipe: Recipe) => ({ id, figureId: id === VX ? FIG_VX : FIG_VZ, number: 1, recipe, recipeHash: recipeHash(recipe), engineVersion: 'test-engine', authorId: 'u1', locked: false, createdAt: new Date() }) as FigureVersionEntity;
+const vx = version(VX, recipeFor(1, '2p_x'));
+const vz = version(VZ, recipeFor(0, '2p_z'));
+const params = { format: 'png' as const, widthPx: 300, heightPx: 100, dpi: 300, figureSetId: SET1, columns: 2, title: 'p', panels: [{ figureId: FIG_VX, figureVersionId: VX }, { figureId: FIG_VZ, figureVersionId: VZ }] };
 
 class FakeJobs extends JobsStore {
   log: string[] = [];
@@ -43,9 +51,9 @@ class FakeJobs extends JobsStore {
     this.completed = assets;
     return assets.map((_, i) => `asset-${i}`);
   }
-  insert = () => Promise.reject(new Error('unused'));
-  setBullJobId = () => Promise.reject(new Error('unused'));
-  remove = () => Promise.reject(new Error('unused'));
+  request = () => Promise.reject(new Error('unused'));
+  staleQueued = () => Promise.reject(new Error('unused'));
+  redriveQueued = () => Promise.reject(new Error('unused'));
   findById = () => Promise.reject(new Error('unused'));
 }
 
@@ -57,13 +65,14 @@ class FakeAssets extends AssetStore {
     return { key, bytes: bytes.length, sha256: 'y'.repeat(64), reused: false };
   }
   findForVersion = async (id: string) =>
-    id === 'vx'
-      ? (['glb', 'stl'] as const).map((kind) => ({ id: `old-${kind}`, figureVersionId: 'vx', publicationId: 'p1', kind, storageKey: meshKey(vx.recipeHash, 'test-engine', '20', kind), bytes: 4, sha256: 'z'.repeat(64), stats: {} }) as unknown as AssetEntity)
+    id === VX
+      ? (['glb', 'stl'] as const).map((kind) => ({ id: `old-${kind}`, figureVersionId: VX, publicationId: 'p1', kind, storageKey: meshKey(vx.recipeHash, 'test-engine', '20', kind), bytes: 4, sha256: 'z'.repeat(64), stats: {} }) as unknown as AssetEntity)
       : [];
   findById = () => Promise.resolve(null);
   findByIds = () => Promise.resolve([]);
   keyReferenced = () => Promise.resolve(false);
   presignGet = () => Promise.resolve('');
+  nameFacts = () => Promise.resolve(null);
 }
 
 const storage = { get: async (key: string) => new TextEncoder().encode(`stored:${key}`) } as unknown as ObjectStorage;
@@ -77,7 +86,9 @@ function fakeRenderer(seen: RenderRequest[]): FigureRenderer {
   } as unknown as FigureRenderer;
 }
 
-const bull = { id: 'j1', name: 'render', data: { jobId: 'j1' }, attemptsMade: 0, opts: { attempts: 3 } };
+const bull = { id: 'bull-1', name: 'render', data: { jobId: J1, params }, attemptsMade: 0, opts: { attempts: 3 } };
+/** The handler through the job runner's own lifecycle. */
+const run = (jobs: FakeJobs, p: RenderJobProcessor) => lifecycle(jobs, new NoOutbox()).process('psiform-render', p, bull) as Promise<{ jobId: string; assetIds: string[] }>;
 
 describe('RenderJobProcessor, figure sets', () => {
   it('renders the panels in order (stored GLB for one, a fresh mesh for the other), stores a set PNG and points the set at it', async () => {
@@ -85,12 +96,12 @@ describe('RenderJobProcessor, figure sets', () => {
     const assets = new FakeAssets();
     const seen: RenderRequest[] = [];
     const pointed: [string, string][] = [];
-    const sets = { versions: async (ids: string[]) => ids.map((id) => (id === 'vx' ? vx : id === 'vz' ? vz : null)), setPng: async (s: string, a: string) => {
+    const sets = { versions: async (ids: string[]) => ids.map((id) => (id === VX ? vx : id === VZ ? vz : null)), setPng: async (s: string, a: string) => {
         pointed.push([s, a]);
         return true;
-      } } as unknown as FigureSetStore;
-    const p = new RenderJobProcessor(jobs, assets, storage, fakeRenderer(seen), {} as ThumbnailStore, 'test-engine', sets);
-    const res = await p.process(bull);
+      } } as unknown as FigureSetsStore;
+    const p = new RenderJobProcessor(assets, storage, fakeRenderer(seen), {} as FiguresStore, 'test-engine', sets);
+    const res = await run(jobs, p);
     expect(jobs.log).toEqual(['meshing', 'rendering', 'encoding', 'storing']);
     expect(seen).toHaveLength(1);
     expect(seen[0]).toMatchObject({ widthPx: 300, heightPx: 100, dpi: 300, columns: 2 });
@@ -99,23 +110,23 @@ describe('RenderJobProcessor, figure sets', () => {
     expect(Buffer.from(seen[0].panels![1].glb.subarray(0, 4)).toString('latin1')).toBe('glTF');
     // Fresh mesh rows for vz, then the set's PNG: no figure version, the publication's, stats naming the set.
     expect(jobs.completed.map((a) => [a.kind, a.figureVersionId])).toEqual([
-      ['glb', 'vz'],
-      ['stl', 'vz'],
+      ['glb', VZ],
+      ['stl', VZ],
       ['png', null],
     ]);
-    expect(jobs.completed[2]).toMatchObject({ publicationId: 'p1', stats: { figureSetId: 'set1', widthPx: 300, heightPx: 100, panels: [{ figureVersionId: 'vx' }, { figureVersionId: 'vz' }] } });
+    expect(jobs.completed[2]).toMatchObject({ publicationId: 'p1', stats: { figureSetId: SET1, widthPx: 300, heightPx: 100, panels: [{ figureVersionId: VX }, { figureVersionId: VZ }] } });
     // Content-derived: the panels' recipe hashes in order name the folder, the PNG's own sha256 the file.
     const folder = sha256Hex(new TextEncoder().encode(`${vx.recipeHash},${vz.recipeHash}`));
     expect(jobs.completed[2].storageKey).toBe(`exports/${folder}/${sha256Hex(new Uint8Array([1, 2, 3]))}.png`);
     expect(res.assetIds).toEqual(['asset-0', 'asset-1', 'asset-2']);
-    expect(pointed).toEqual([['set1', 'asset-2']]);
+    expect(pointed).toEqual([[SET1, 'asset-2']]);
   });
 
   it('a panel whose version is gone fails the job at once, naming the panel', async () => {
     const jobs = new FakeJobs();
-    const sets = { versions: async (ids: string[]) => ids.map((id) => (id === 'vx' ? vx : null)), setPng: async () => true } as unknown as FigureSetStore;
-    const p = new RenderJobProcessor(jobs, new FakeAssets(), storage, fakeRenderer([]), {} as ThumbnailStore, 'test-engine', sets);
-    await expect(p.process(bull)).rejects.toBeInstanceOf(UnrecoverableError);
-    expect(jobs.log).toEqual(['fail:panel 2: figure version vz no longer exists']);
+    const sets = { versions: async (ids: string[]) => ids.map((id) => (id === VX ? vx : null)), setPng: async () => true } as unknown as FigureSetsStore;
+    const p = new RenderJobProcessor(new FakeAssets(), storage, fakeRenderer([]), {} as FiguresStore, 'test-engine', sets);
+    await expect(run(jobs, p)).rejects.toBeInstanceOf(UnrecoverableError);
+    expect(jobs.log).toEqual([`fail:panel 2: figure version ${VZ} no longer exists`]);
   });
 });

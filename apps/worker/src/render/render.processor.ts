@@ -1,38 +1,26 @@
 import { Injectable, Logger } from '@nestjs/common';
 import { UnrecoverableError } from 'bullmq';
-import { DEFAULT_DELIVERY_PROFILE, parseRecipe, QUEUES, type ColourMode, type DeliveryProfile, type PressConditionId, type Recipe } from '@psiform/contracts';
+import { DEFAULT_DELIVERY_PROFILE, parseRecipe, type Recipe, type RenderParams } from '@psiform/contracts';
 import { preflightReport } from '@psiform/print';
 import { encodeTiff, rasterSubject, softProofPng, tiffFacts } from '../export/print-files';
 import { altOf, figureWords } from '../export/figure-words';
-import { AssetStore, CONTENT_TYPES, ENGINE_VERSION, JobsStore, ObjectStorage, exportKey, sha256Hex, type JobPayload, type NewAsset } from '@psiform/server';
-import type { JobProcessor, ProcessorJob } from '../queues/job-processor';
+import {
+  AssetStore,
+  CONTENT_TYPES,
+  ENGINE_VERSION,
+  FigureSetsStore,
+  FiguresStore,
+  ObjectStorage,
+  exportKey,
+  sha256Hex,
+  type NewAsset,
+  type TrackedJobHandler,
+  type TrackedOutcome,
+  type TrackedRun,
+} from '@psiform/server';
 import type { FigureRenderer } from './figure-renderer';
-import type { FigureSetStore } from './figure-sets';
-import type { ThumbnailStore } from './thumbnails';
-import { ensureMesh, runTracked, versionOf, type AfterMesh, type TrackedJob, type TrackedResult } from './tracked-job';
+import { EXPORT_PROGRESS, ensureMesh, versionOf, type TrackedJob } from './tracked-job';
 import { printGlb } from '../mesh/mesh-assets';
-
-/** jobs.params of a render job (apps/api exports/export-request.ts, or the thumbnail scheduler). */
-export interface RenderParams {
-  /** tiff: rendered as the PNG is, then written as TIFF (RGB + sRGB, or CMYK through the press profile). */
-  format: 'png' | 'tiff';
-  colour?: ColourMode;
-  pressCondition?: PressConditionId;
-  alpha?: boolean;
-  profile?: DeliveryProfile;
-  widthPx: number;
-  heightPx: number;
-  dpi: number;
-  widthMm?: number;
-  heightMm?: number;
-  transparent?: boolean | null;
-  thumbnail?: boolean;
-  /** Figure sets (apps/api ExportsService.requestSetExport): the versions pinned when the export was asked for. */
-  figureSetId?: string;
-  columns?: number;
-  title?: string;
-  panels?: { figureId: string; figureVersionId: string }[];
-}
 
 /**
  * Render jobs (QUEUES.render): a print PNG of the figure's current version, or its thumbnail after a mesh job.
@@ -41,87 +29,85 @@ export interface RenderParams {
  * across page builds), so an identical re-render reuses object and row.
  */
 @Injectable()
-export class RenderJobProcessor implements JobProcessor<JobPayload, TrackedResult> {
-  readonly queue = QUEUES.render;
+export class RenderJobProcessor implements TrackedJobHandler<'render'> {
+  readonly kind = 'tracked';
+  readonly name = 'render';
+  readonly progress = EXPORT_PROGRESS;
   /** Software rendering uses every core: one render at a time per worker process. */
   readonly concurrency = 1;
   private readonly log = new Logger('RenderJob');
 
   constructor(
-    private readonly jobs: JobsStore,
     private readonly assets: AssetStore,
     private readonly storage: ObjectStorage,
     private readonly renderer: FigureRenderer,
-    private readonly thumbnails: ThumbnailStore,
+    private readonly figures: FiguresStore,
     private readonly engineVersion: string = ENGINE_VERSION,
-    private readonly sets?: FigureSetStore,
-    /** The mesh job's after-mesh hook (thumbnails), for meshes this job computes first. */
-    private readonly afterMesh?: AfterMesh,
+    private readonly sets?: FigureSetsStore,
   ) {}
 
-  async process(job: ProcessorJob<JobPayload>): Promise<TrackedResult> {
-    const res = await runTracked(this.jobs, job, async (t) => {
-      const p = t.params as unknown as RenderParams;
-      if ((p.format !== 'png' && p.format !== 'tiff') || !Number.isInteger(p.widthPx) || !Number.isInteger(p.heightPx) || !(p.dpi > 0)) {
-        throw new UnrecoverableError(`render job ${t.id} has no valid png parameters`);
-      }
-      if (p.figureSetId) return this.renderSet(t, p);
-      if (p.format === 'tiff') return this.renderTiff(t, p);
-      const { version, recipe } = versionOf(t.ctx);
-      const total = performance.now();
-      const mesh = await ensureMesh({ assets: this.assets, storage: this.storage, engineVersion: this.engineVersion }, t, version, recipe);
-      // Thumbnails draw the stored mesh; a print finer than it gets surfaces refined to its quarter pixel.
-      const print = p.thumbnail ? null : await printGlb(recipe, mesh.stats, { widthPx: p.widthPx, heightPx: p.heightPx }, this.engineVersion);
-      await t.stage('rendering');
-      const transparent = p.transparent ?? undefined;
-      const out = await this.renderer.render({ recipe, glb: print?.glb ?? mesh.glb, widthPx: p.widthPx, heightPx: p.heightPx, dpi: p.dpi, transparent });
-      await t.stage('encoding'); // finishPng and the checks ran inside render(); the stage marks the hand-over
-      await t.stage('storing');
-      const ts = performance.now();
-      const stored = await this.assets.storeObject(exportKey(version.recipeHash, sha256Hex(out.png), 'png'), out.png, CONTENT_TYPES.png);
-      const ms = Math.round(performance.now() - total);
-      const stats = {
-        widthPx: out.widthPx,
-        heightPx: out.heightPx,
-        dpi: p.dpi,
-        widthMm: p.widthMm ?? round3((out.widthPx / p.dpi) * 25.4),
-        heightMm: p.heightMm ?? round3((out.heightPx / p.dpi) * 25.4),
-        transparent: transparent ?? recipe.stage.background.transparent,
-        ms,
-        tiles: out.tiles,
-        triangles: out.triangles,
-        // How far the drawn surface may lie from the true one (a0): a quarter pixel, or the stored mesh's tolerance.
-        surfaceTolerance: print?.tolerance ?? (mesh.stats.refinement as { tolerance?: number } | null | undefined)?.tolerance ?? null,
-        ...(p.thumbnail ? { thumbnail: true } : {}),
-        engineVersion: this.engineVersion,
-        recipeHash: version.recipeHash,
-      };
-      const png: NewAsset = { figureVersionId: version.id, publicationId: t.ctx.job.publicationId, kind: 'png', storageKey: stored.key, bytes: stored.bytes, sha256: stored.sha256, stats };
-      const timings = { mesh: mesh.meshMs, ...prefixed('render_', out.ms), store: Math.round(performance.now() - ts), total: ms };
-      return { timings, assets: [...mesh.newAssets, png] };
-    }, this.afterMesh);
-    const ctx = await this.jobs.loadContext(res.jobId);
-    const params = ctx?.job.params as RenderParams | undefined;
-    if (params?.figureSetId && this.sets && res.assetIds.length > 0) {
-      const pngId = res.assetIds[res.assetIds.length - 1];
+  /** The payload (params included) was checked against the job contract by the runner: no cast, no re-check here. */
+  async run(t: TrackedRun<'render'>): Promise<TrackedOutcome> {
+    const p = t.params;
+    if (p.figureSetId) return this.renderSet(t, p);
+    if (p.format === 'tiff') return this.renderTiff(t, p);
+    const { version, recipe } = versionOf(t.ctx);
+    const total = performance.now();
+    const mesh = await ensureMesh({ assets: this.assets, storage: this.storage, engineVersion: this.engineVersion }, t, version, recipe);
+    // Thumbnails draw the stored mesh; a print finer than it gets surfaces refined to its quarter pixel.
+    const print = p.thumbnail ? null : await printGlb(recipe, mesh.stats, { widthPx: p.widthPx, heightPx: p.heightPx }, this.engineVersion);
+    await t.stage('rendering');
+    const transparent = p.transparent ?? undefined;
+    const out = await this.renderer.render({ recipe, glb: print?.glb ?? mesh.glb, widthPx: p.widthPx, heightPx: p.heightPx, dpi: p.dpi, transparent });
+    await t.stage('encoding'); // finishPng and the checks ran inside render(); the stage marks the hand-over
+    await t.stage('storing');
+    const ts = performance.now();
+    const stored = await this.assets.storeObject(exportKey(version.recipeHash, sha256Hex(out.png), 'png'), out.png, CONTENT_TYPES.png);
+    const ms = Math.round(performance.now() - total);
+    const stats = {
+      widthPx: out.widthPx,
+      heightPx: out.heightPx,
+      dpi: p.dpi,
+      widthMm: p.widthMm ?? round3((out.widthPx / p.dpi) * 25.4),
+      heightMm: p.heightMm ?? round3((out.heightPx / p.dpi) * 25.4),
+      transparent: transparent ?? recipe.stage.background.transparent,
+      ms,
+      tiles: out.tiles,
+      triangles: out.triangles,
+      // How far the drawn surface may lie from the true one (a0): a quarter pixel, or the stored mesh's tolerance.
+      surfaceTolerance: print?.tolerance ?? (mesh.stats.refinement as { tolerance?: number } | null | undefined)?.tolerance ?? null,
+      ...(p.thumbnail ? { thumbnail: true } : {}),
+      engineVersion: this.engineVersion,
+      recipeHash: version.recipeHash,
+    };
+    const png: NewAsset = { figureVersionId: version.id, publicationId: t.ctx.job.publicationId, kind: 'png', storageKey: stored.key, bytes: stored.bytes, sha256: stored.sha256, stats };
+    const timings = { mesh: mesh.meshMs, ...prefixed('render_', out.ms), store: Math.round(performance.now() - ts), total: ms };
+    return { timings, assets: [...mesh.newAssets, png] };
+  }
+
+  /** After the completion committed: point the figure set or the figure (thumbnail) at the new PNG. */
+  async afterComplete(t: TrackedRun<'render'>, assetIds: string[]): Promise<void> {
+    const params = t.params;
+    const ctx = t.ctx;
+    if (params.figureSetId && this.sets && assetIds.length > 0) {
+      const pngId = assetIds[assetIds.length - 1];
       await this.sets.setPng(params.figureSetId, pngId).catch((e: Error) => this.log.warn(`figure set ${params.figureSetId}: ${e.message}`));
     }
-    if (params?.thumbnail && ctx?.figure && ctx.version) {
-      const pngId = res.assetIds[res.assetIds.length - 1];
-      const set = await this.thumbnails.setThumbnail(ctx.figure.id, ctx.version.id, pngId).catch((e: Error) => {
+    if (params.thumbnail && ctx.figure && ctx.version) {
+      const pngId = assetIds[assetIds.length - 1];
+      const set = await this.figures.setThumbnail(ctx.figure.id, ctx.version.id, pngId).catch((e: Error) => {
         this.log.warn(`thumbnail of figure ${ctx.figure!.id}: ${e.message}`);
         return false;
       });
       if (!set) this.log.log(`thumbnail ${pngId} kept but not shown: figure ${ctx.figure.id} has a newer version`);
     }
-    return { jobId: res.jobId, assetIds: res.assetIds };
   }
 
   /**
    * A TIFF: the same render (same pixels as the PNG path), written by sharp, read back and preflighted against the
    * delivery profile copied into the job; a CMYK TIFF also gets a soft-proof PNG (its colours back in sRGB).
    */
-  private async renderTiff(t: TrackedJob, p: RenderParams): Promise<{ timings: Record<string, number>; assets: NewAsset[] }> {
+  private async renderTiff(t: TrackedJob, p: RenderParams): Promise<TrackedOutcome> {
     const { version, recipe } = versionOf(t.ctx);
     const total = performance.now();
     const profile = p.profile ?? DEFAULT_DELIVERY_PROFILE;
@@ -175,9 +161,9 @@ export class RenderJobProcessor implements JobProcessor<JobPayload, TrackedResul
    * the render page with panels (one camera, one a0-per-pixel scale). The PNG belongs to the set: its asset row has
    * no figure version, stats name the set and its panels; figure_sets.png_asset_id is pointed at it afterwards.
    */
-  private async renderSet(t: TrackedJob, p: RenderParams): Promise<{ timings: Record<string, number>; assets: NewAsset[] }> {
+  private async renderSet(t: TrackedJob, p: RenderParams): Promise<TrackedOutcome> {
     if (!this.sets) throw new UnrecoverableError('this worker cannot render figure sets (no figure-set store)');
-    const refs = Array.isArray(p.panels) ? p.panels : [];
+    const refs = p.panels ?? [];
     if (refs.length === 0) throw new UnrecoverableError(`figure-set job ${t.id} lists no panels`);
     const total = performance.now();
     const versions = await this.sets.versions(refs.map((r) => r.figureVersionId));
@@ -234,9 +220,6 @@ export class RenderJobProcessor implements JobProcessor<JobPayload, TrackedResul
     return { timings, assets: [...meshAssets, png] };
   }
 
-  async onFailed(job: ProcessorJob<JobPayload>, error: Error, final: boolean): Promise<void> {
-    if (final && typeof job.data?.jobId === 'string') await this.jobs.fail(job.data.jobId, error.message);
-  }
 }
 
 const round3 = (x: number) => Math.round(x * 1000) / 1000;

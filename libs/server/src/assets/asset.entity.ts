@@ -1,4 +1,5 @@
-import { Column, CreateDateColumn, Entity, JoinColumn, ManyToOne, PrimaryGeneratedColumn } from 'typeorm';
+import { Column, Entity, JoinColumn, ManyToOne } from 'typeorm';
+import { IdColumn, UuidColumn, CreatedAt, RefTo } from '../db/columns';
 import type { AssetDto, AssetKind } from '@psiform/contracts';
 import { FigureVersionEntity } from '../figures/figure-version.entity';
 import { PublicationEntity } from '../publications/publication.entity';
@@ -13,40 +14,17 @@ const bigintAsNumber = { to: (v: number) => v, from: (v: string | null) => (v ==
  */
 @Entity({ name: 'assets' })
 export class AssetEntity {
-  @PrimaryGeneratedColumn('uuid')
-  id: string;
-
-  @Column({ name: 'figure_version_id', type: 'uuid', nullable: true })
-  figureVersionId: string | null;
-
-  @ManyToOne(() => FigureVersionEntity, { onDelete: 'CASCADE', nullable: true })
-  @JoinColumn({ name: 'figure_version_id' })
-  figureVersion?: FigureVersionEntity | null;
-
-  @Column({ name: 'publication_id', type: 'uuid' })
-  publicationId: string;
-
-  @ManyToOne(() => PublicationEntity, { onDelete: 'CASCADE' })
-  @JoinColumn({ name: 'publication_id' })
-  publication?: PublicationEntity;
-
-  @Column({ type: 'varchar', length: 20 })
-  kind: AssetKind;
-
-  @Column({ name: 'storage_key', type: 'varchar', length: 500 })
-  storageKey: string;
-
-  @Column({ type: 'bigint', transformer: bigintAsNumber })
-  bytes: number;
-
-  @Column({ type: 'char', length: 64 })
-  sha256: string;
-
-  @Column({ type: 'jsonb', nullable: true })
-  stats: AssetDto['stats'];
-
-  @CreateDateColumn({ name: 'created_at', type: 'timestamptz' })
-  createdAt: Date;
+  @IdColumn() id: string;
+  @UuidColumn('figure_version_id', true) figureVersionId: string | null;
+  @ManyToOne(() => FigureVersionEntity, { onDelete: 'CASCADE', nullable: true }) @JoinColumn({ name: 'figure_version_id' }) figureVersion?: FigureVersionEntity | null;
+  @UuidColumn('publication_id') publicationId: string;
+  @RefTo(() => PublicationEntity, 'publication_id', 'CASCADE') publication?: PublicationEntity;
+  @Column({ type: 'varchar', length: 20 }) kind: AssetKind;
+  @Column({ name: 'storage_key', type: 'varchar', length: 500 }) storageKey: string;
+  @Column({ type: 'bigint', transformer: bigintAsNumber }) bytes: number;
+  @Column({ type: 'char', length: 64 }) sha256: string;
+  @Column({ type: 'jsonb', nullable: true }) stats: AssetDto['stats'];
+  @CreatedAt() createdAt: Date;
 }
 
 export function toAssetDto(a: AssetEntity): AssetDto {

@@ -1,4 +1,5 @@
-import { Column, Entity, PrimaryGeneratedColumn } from 'typeorm';
+import { Column, Entity } from 'typeorm';
+import { IdColumn, UuidColumn } from '../db/columns';
 import type { AuditEntryDto, AuditSubject, FigureStatus, SubjectAuditEntryDto } from '@psiform/contracts';
 
 /**
@@ -7,41 +8,20 @@ import type { AuditEntryDto, AuditSubject, FigureStatus, SubjectAuditEntryDto } 
  */
 @Entity({ name: 'audit_entries' })
 export class AuditEntryEntity {
-  @PrimaryGeneratedColumn('uuid')
-  id: string;
-
+  @IdColumn() id: string;
   /** Insertion order (bigserial; read as a string by pg). */
-  @Column({ type: 'bigint', insert: false, update: false })
-  seq: string;
-
+  @Column({ type: 'bigint', insert: false, update: false }) seq: string;
   /** Set for entries about a figure (subject_kind 'figure'); null otherwise. */
-  @Column({ name: 'figure_id', type: 'uuid', nullable: true })
-  figureId: string | null;
-
-  @Column({ name: 'subject_kind', type: 'varchar', length: 20, default: 'figure' })
-  subjectKind: AuditSubject;
-
+  @UuidColumn('figure_id', true) figureId: string | null;
+  @Column({ name: 'subject_kind', type: 'varchar', length: 20, default: 'figure' }) subjectKind: AuditSubject;
   /** The user, publication or house style (= its publication id) the entry is about; null for figure entries. */
-  @Column({ name: 'subject_id', type: 'uuid', nullable: true })
-  subjectId: string | null;
-
-  @Column({ name: 'actor_id', type: 'uuid', nullable: true })
-  actorId: string | null;
-
-  @Column({ type: 'varchar', length: 30 })
-  action: string;
-
-  @Column({ name: 'from_status', type: 'varchar', length: 20, nullable: true })
-  fromStatus: FigureStatus | null;
-
-  @Column({ name: 'to_status', type: 'varchar', length: 20, nullable: true })
-  toStatus: FigureStatus | null;
-
-  @Column({ type: 'text', nullable: true })
-  note: string | null;
-
-  @Column({ type: 'timestamptz', insert: false, update: false })
-  at: Date;
+  @UuidColumn('subject_id', true) subjectId: string | null;
+  @UuidColumn('actor_id', true) actorId: string | null;
+  @Column({ type: 'varchar', length: 30 }) action: string;
+  @Column({ name: 'from_status', type: 'varchar', length: 20, nullable: true }) fromStatus: FigureStatus | null;
+  @Column({ name: 'to_status', type: 'varchar', length: 20, nullable: true }) toStatus: FigureStatus | null;
+  @Column({ type: 'text', nullable: true }) note: string | null;
+  @Column({ type: 'timestamptz', insert: false, update: false }) at: Date;
 }
 
 export function toAuditEntryDto(e: AuditEntryEntity, actorName?: string | null): AuditEntryDto {

@@ -1,5 +1,6 @@
 import { Injectable } from '@nestjs/common';
-import { DataSource, type EntityManager } from 'typeorm';
+import { InjectRepository } from '@nestjs/typeorm';
+import { Repository, type EntityManager } from 'typeorm';
 import type { AuditSubject, FigureStatus } from '@psiform/contracts';
 import { AuditEntryEntity } from './audit-entry.entity';
 import { UserEntity } from '../users/user.entity';
@@ -52,10 +53,10 @@ export abstract class AuditStore {
 }
 
 @Injectable()
-export class TypeormAuditStore extends AuditStore {
-  constructor(private readonly ds: DataSource) {
-    super();
-  }
+export class TypeormAuditStore implements AuditStore {
+  constructor(@InjectRepository(AuditEntryEntity) private readonly entries: Repository<AuditEntryEntity>) {}
+  /** Transactions, and the joins of reads, run on the manager of this feature's own repositories. */
+  private get ds(): EntityManager { return this.entries.manager; }
 
   async listForFigure(figureId: string) {
     const { entities, raw } = await this.ds
@@ -87,3 +88,6 @@ export class TypeormAuditStore extends AuditStore {
     return { rows: entities.map((entry, i) => ({ entry, actorName: (raw[i]?.actor_name as string | undefined) ?? null })), total };
   }
 }
+
+/** The tables this feature owns (TypeOrmModule.forFeature in its api module; the worker builds the store from them). */
+export const AUDIT_ENTITIES = [AuditEntryEntity];

@@ -1,17 +1,36 @@
+import { resolve } from 'node:path';
+
 /**
- * Start-up configuration: read once from the environment, validated into a typed object.
- * A bad or missing value raises ConfigError naming the variable; entry points print it and exit 1.
+ * Start-up configuration of both apps: read once from the environment, validated into a typed object (AppConfig for
+ * the api, WorkerConfig for the worker; the sections they share are read by the same functions). A bad or missing
+ * value raises ConfigError naming the variable (every bad variable at once); entry points print it and exit 1.
+ * A new variable: a field here, its reader line in loadConfig/loadWorkerConfig, a case in config.spec.ts, and the
+ * "Environment" table of DEVELOPERS.md.
  */
 export interface DatabaseConfig {
   url: string;
 }
+export interface RedisConfig {
+  url: string;
+}
+export interface S3Config {
+  endpoint: string;
+  bucket: string;
+  accessKeyId: string;
+  secretAccessKey: string;
+  region: string;
+}
+export interface SmtpConfig {
+  url: string;
+  from: string;
+}
 
 export interface AppConfig {
   database: DatabaseConfig;
-  redis: { url: string };
-  s3: { endpoint: string; bucket: string; accessKeyId: string; secretAccessKey: string; region: string };
+  redis: RedisConfig;
+  s3: S3Config;
   /** outboxFile: MAIL_OUTBOX_FILE, set only while the local mail fake is in use (GET /api/dev/outbox). */
-  smtp: { url: string; from: string; outboxFile?: string };
+  smtp: SmtpConfig & { outboxFile?: string };
   jwt: { secret: string; ttl: string };
   /**
    * trustProxy: Express's `trust proxy` (TRUST_PROXY: unset/false = the socket address is the client; true, a hop
@@ -41,6 +60,33 @@ export class ConfigError extends Error {
   }
 }
 
+/** Worker start-up configuration. */
+export interface WorkerConfig {
+  redis: RedisConfig;
+  database: DatabaseConfig;
+  s3: S3Config;
+  concurrency: number;
+  /**
+   * BullMQ lock of an active job (WORKER_LOCK_MS). A worker that dies stops renewing it; after it expires
+   * the stalled-job check of another worker puts the job back in the queue. The stalled check runs every
+   * lockMs too.
+   */
+  lockMs: number;
+  /** Mail notices (SMTP_URL, MAIL_FROM as in the api). Without SMTP_URL notices stay queued for a worker that has it. */
+  smtp?: SmtpConfig;
+  /**
+   * Render/export jobs: the built client whose render.html draws figures (WEB_DIST, default apps/web/dist), the browser
+   * (CHROMIUM_PATH, default /usr/bin/chromium), thumbnails after mesh jobs (THUMBNAILS=on|off, default on) and the time
+   * one page call may take (RENDER_TIMEOUT_MS, default 120000).
+   */
+  render: { webDist: string; chromiumPath: string; thumbnails: boolean; timeoutMs: number };
+  /** The outbox sweeper: how often it runs (OUTBOX_SWEEP_MS, 30000) and when a row counts as stuck (OUTBOX_STALE_MS, 60000). */
+  outbox: { sweepMs: number; staleMs: number };
+}
+
+/** apps/web/dist of this repository (libs/server/{src,dist}/config -> ../../../../apps/web/dist). */
+export const DEFAULT_WEB_DIST = resolve(__dirname, '..', '..', '..', '..', 'apps', 'web', 'dist');
+
 export const DEFAULTS = {
   S3_REGION: 'us-east-1',
   MAIL_FROM: 'Psiform <no-reply@psiform.test>',
@@ -48,6 +94,12 @@ export const DEFAULTS = {
   PORT: '3000',
   HOST: '127.0.0.1',
   UPLOAD_MAX_BYTES: '536870912',
+  WORKER_CONCURRENCY: '2',
+  WORKER_LOCK_MS: '30000',
+  CHROMIUM_PATH: '/usr/bin/chromium',
+  RENDER_TIMEOUT_MS: '120000',
+  OUTBOX_SWEEP_MS: '30000',
+  OUTBOX_STALE_MS: '60000',
   UPLOAD_ORPHAN_AGE_SECONDS: '21600',
   RATE_LIMIT_PER_MINUTE: '1200',
 } as const;
@@ -135,6 +187,15 @@ class Reader {
     return `${parsed.origin}${parsed.pathname.replace(/\/+$/, '')}`;
   }
 
+  oneOf<T extends string>(name: string, choices: readonly T[], fallback: T): T {
+    const v = (this.raw(name, fallback) ?? fallback).toLowerCase();
+    if (!(choices as readonly string[]).includes(v)) {
+      this.fail(`${name} must be ${choices.join(' or ')}`);
+      return fallback;
+    }
+    return v as T;
+  }
+
   private fail(problem: string): string {
     this.problems.push(problem);
     return '';
@@ -149,6 +210,24 @@ function readDatabase(r: Reader): DatabaseConfig {
   return { url: r.url('DATABASE_URL', ['postgres:', 'postgresql:'], 'a postgres:// URL') };
 }
 
+function readRedis(r: Reader): RedisConfig {
+  return { url: r.url('REDIS_URL', ['redis:', 'rediss:'], 'a redis:// URL') };
+}
+
+function readS3(r: Reader): S3Config {
+  return {
+    endpoint: r.url('S3_ENDPOINT', ['http:', 'https:'], 'an http:// or https:// URL'),
+    bucket: r.string('S3_BUCKET'),
+    accessKeyId: r.string('S3_ACCESS_KEY_ID'),
+    secretAccessKey: r.string('S3_SECRET_ACCESS_KEY'),
+    region: r.string('S3_REGION', DEFAULTS.S3_REGION),
+  };
+}
+
+function readSmtp(r: Reader): SmtpConfig {
+  return { url: r.url('SMTP_URL', ['smtp:'], 'an smtp://host:port URL'), from: r.string('MAIL_FROM', DEFAULTS.MAIL_FROM) };
+}
+
 /** Only what the migration and seed scripts need. */
 export function loadDatabaseConfig(env: Env): DatabaseConfig {
   const r = new Reader(env);
@@ -161,19 +240,9 @@ export function loadConfig(env: Env): AppConfig {
   const r = new Reader(env);
   const config: AppConfig = {
     database: readDatabase(r),
-    redis: { url: r.url('REDIS_URL', ['redis:', 'rediss:'], 'a redis:// URL') },
-    s3: {
-      endpoint: r.url('S3_ENDPOINT', ['http:', 'https:'], 'an http:// or https:// URL'),
-      bucket: r.string('S3_BUCKET'),
-      accessKeyId: r.string('S3_ACCESS_KEY_ID'),
-      secretAccessKey: r.string('S3_SECRET_ACCESS_KEY'),
-      region: r.string('S3_REGION', DEFAULTS.S3_REGION),
-    },
-    smtp: {
-      url: r.url('SMTP_URL', ['smtp:'], 'an smtp://host:port URL'),
-      from: r.string('MAIL_FROM', DEFAULTS.MAIL_FROM),
-      outboxFile: r.optional('MAIL_OUTBOX_FILE'),
-    },
+    redis: readRedis(r),
+    s3: readS3(r),
+    smtp: { ...readSmtp(r), outboxFile: r.optional('MAIL_OUTBOX_FILE') },
     jwt: {
       secret: r.string('JWT_SECRET', undefined, MIN_JWT_SECRET_LENGTH),
       ttl: r.duration('JWT_TTL', DEFAULTS.JWT_TTL),
@@ -199,6 +268,28 @@ export function loadConfig(env: Env): AppConfig {
 function defaultPublicBaseUrl(host: string, port: number): string {
   const h = host === '0.0.0.0' || host === '::' || host === '' ? '127.0.0.1' : host.includes(':') ? `[${host}]` : host;
   return `http://${h}:${port || Number(DEFAULTS.PORT)}`;
+}
+
+export function loadWorkerConfig(env: Env): WorkerConfig {
+  const r = new Reader(env);
+  const config: WorkerConfig = {
+    redis: readRedis(r),
+    database: readDatabase(r),
+    s3: readS3(r),
+    concurrency: r.int('WORKER_CONCURRENCY', DEFAULTS.WORKER_CONCURRENCY, 1, 64),
+    lockMs: r.int('WORKER_LOCK_MS', DEFAULTS.WORKER_LOCK_MS, 1000, 600000),
+    render: {
+      webDist: r.optional('WEB_DIST') ?? DEFAULT_WEB_DIST,
+      chromiumPath: r.string('CHROMIUM_PATH', DEFAULTS.CHROMIUM_PATH),
+      thumbnails: r.oneOf('THUMBNAILS', ['on', 'off'], 'on') === 'on',
+      timeoutMs: r.int('RENDER_TIMEOUT_MS', DEFAULTS.RENDER_TIMEOUT_MS, 5000, 3600000),
+    },
+    outbox: { sweepMs: r.int('OUTBOX_SWEEP_MS', DEFAULTS.OUTBOX_SWEEP_MS, 100, 3600000), staleMs: r.int('OUTBOX_STALE_MS', DEFAULTS.OUTBOX_STALE_MS, 100, 86400000) },
+  };
+  // Optional for the worker: without it this worker leaves the mail queue alone.
+  if (r.optional('SMTP_URL') !== undefined) config.smtp = readSmtp(r);
+  r.done();
+  return config;
 }
 
 /** Entry-point helper: on a ConfigError print the message (naming the variable) and exit 1. */

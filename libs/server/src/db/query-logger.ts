@@ -11,7 +11,7 @@ export class ParameterFreeQueryLogger implements TypeOrmLogger {
 
   logQuery(): void {}
 
-  logQueryError(error: string | Error, query: string): void {
+  logQueryError(error: string | Error, query: string, _parameters?: unknown[]): void {
     const message = typeof error === 'string' ? error : error.message;
     this.out.error(`query failed: ${query.replace(/\s+/g, ' ').slice(0, 300)} (${message})`);
   }

@@ -24,13 +24,22 @@ import { PrintProduction1765411200000 } from './migrations/1765411200000-PrintPr
 import { FigureUnitsAndSetCaptions1765600000000 } from './migrations/1765600000000-FigureUnitsAndSetCaptions';
 import { SwatchbookScope1796200000000 } from './migrations/1796200000000-SwatchbookScope';
 import { DeliveryProfileEntity } from '../delivery-profiles/delivery-profile.entity';
+import { OutboxEntity } from '../outbox/outbox.entity';
+import { Outbox1796188459275 } from './migrations/1796188459275-Outbox';
 
 import { ParameterFreeQueryLogger } from './query-logger';
 
-/** Entities and migrations are listed as classes (not globs) so the same list works compiled and under Jest. */
+/**
+ * Entities and migrations are listed as classes (not globs) so the same list works compiled and under Jest.
+ * A new table: its entity in libs/server/src/<feature>/, a hand-written migration with a fresh timestamp in
+ * db/migrations/, and one entry in each list below (DEVELOPERS.md "Persistence"). TypeORM runs pending
+ * migrations in timestamp order, so keep this list in that order too.
+ */
 export const ENTITIES = [UserEntity, PublicationEntity, MembershipEntity, FigureEntity, FigureVersionEntity, AssetEntity, JobEntity,
-  SwatchbookEntity, SwatchbookVersionEntity, HouseStyleEntity, BatchEntity, BatchItemEntity, ReviewRoundEntity, CommentEntity, AuditEntryEntity, FigureSetEntity, DeliveryProfileEntity, UserLinkEntity];
-export const MIGRATIONS = [Foundation1764633600000, FigureJobs1764720000000, EditorialReview1764806400000, StudioExports1764979200000, FigureSetExports1765238400000, PrintProduction1765411200000, PeopleAndPublications1765584000000, FigureUnitsAndSetCaptions1765600000000, SwatchbookScope1796200000000];
+  SwatchbookEntity, SwatchbookVersionEntity, HouseStyleEntity, BatchEntity, BatchItemEntity, ReviewRoundEntity, CommentEntity, AuditEntryEntity, FigureSetEntity, DeliveryProfileEntity,
+  OutboxEntity, UserLinkEntity];
+export const MIGRATIONS = [Foundation1764633600000, FigureJobs1764720000000, EditorialReview1764806400000, StudioExports1764979200000, FigureSetExports1765238400000, PrintProduction1765411200000,
+  PeopleAndPublications1765584000000, FigureUnitsAndSetCaptions1765600000000, Outbox1796188459275, SwatchbookScope1796200000000];
 
 export function dataSourceOptions(url: string, extra: { poolSize?: number } = {}): DataSourceOptions {
   return {

@@ -1,4 +1,5 @@
-import { Column, CreateDateColumn, Entity, JoinColumn, ManyToOne, PrimaryGeneratedColumn } from 'typeorm';
+import { Column, Entity } from 'typeorm';
+import { IdColumn, UuidColumn, CreatedAt, RefTo } from '../db/columns';
 import type { FigureVersionDto, Recipe } from '@psiform/contracts';
 import { FigureEntity } from './figure.entity';
 import { UserEntity } from '../users/user.entity';
@@ -9,41 +10,18 @@ import { UserEntity } from '../users/user.entity';
  */
 @Entity({ name: 'figure_versions' })
 export class FigureVersionEntity {
-  @PrimaryGeneratedColumn('uuid')
-  id: string;
-
-  @Column({ name: 'figure_id', type: 'uuid' })
-  figureId: string;
-
-  @ManyToOne(() => FigureEntity, { onDelete: 'CASCADE' })
-  @JoinColumn({ name: 'figure_id' })
-  figure?: FigureEntity;
-
-  @Column({ type: 'int' })
-  number: number;
-
-  @Column({ type: 'jsonb' })
-  recipe: Recipe;
-
+  @IdColumn() id: string;
+  @UuidColumn('figure_id') figureId: string;
+  @RefTo(() => FigureEntity, 'figure_id', 'CASCADE') figure?: FigureEntity;
+  @Column({ type: 'int' }) number: number;
+  @Column({ type: 'jsonb' }) recipe: Recipe;
   /** sha256 (hex) of canonicalJson(recipe). */
-  @Column({ name: 'recipe_hash', type: 'char', length: 64 })
-  recipeHash: string;
-
-  @Column({ name: 'engine_version', type: 'varchar', length: 80 })
-  engineVersion: string;
-
-  @Column({ name: 'author_id', type: 'uuid' })
-  authorId: string;
-
-  @ManyToOne(() => UserEntity, { onDelete: 'RESTRICT' })
-  @JoinColumn({ name: 'author_id' })
-  author?: UserEntity;
-
-  @Column({ type: 'boolean', default: false })
-  locked: boolean;
-
-  @CreateDateColumn({ name: 'created_at', type: 'timestamptz' })
-  createdAt: Date;
+  @Column({ name: 'recipe_hash', type: 'char', length: 64 }) recipeHash: string;
+  @Column({ name: 'engine_version', type: 'varchar', length: 80 }) engineVersion: string;
+  @UuidColumn('author_id') authorId: string;
+  @RefTo(() => UserEntity, 'author_id', 'RESTRICT') author?: UserEntity;
+  @Column({ type: 'boolean', default: false }) locked: boolean;
+  @CreatedAt() createdAt: Date;
 }
 
 export function toFigureVersionDto(v: FigureVersionEntity): FigureVersionDto {

@@ -1,4 +1,5 @@
-import { Column, CreateDateColumn, Entity, JoinColumn, ManyToOne, PrimaryGeneratedColumn, UpdateDateColumn } from 'typeorm';
+import { Column, Entity, JoinColumn, ManyToOne } from 'typeorm';
+import { IdColumn, UuidColumn, CreatedAt, UpdatedAt } from '../db/columns';
 import type { JobDto, JobState } from '@psiform/contracts';
 import { FigureEntity } from '../figures/figure.entity';
 import { FigureVersionEntity } from '../figures/figure-version.entity';
@@ -13,71 +14,29 @@ export type JobType = JobDto['type'];
  */
 @Entity({ name: 'jobs' })
 export class JobEntity {
-  @PrimaryGeneratedColumn('uuid')
-  id: string;
-
-  @Column({ type: 'varchar', length: 20 })
-  type: JobType;
-
-  @Column({ type: 'varchar', length: 20, default: 'queued' })
-  state: JobState;
-
+  @IdColumn() id: string;
+  @Column({ type: 'varchar', length: 20 }) type: JobType;
+  @Column({ type: 'varchar', length: 20, default: 'queued' }) state: JobState;
   /** 0..100. */
-  @Column({ type: 'int', default: 0 })
-  progress: number;
-
-  @Column({ type: 'varchar', length: 40, default: 'queued' })
-  stage: string;
-
-  @Column({ type: 'text', nullable: true })
-  error: string | null;
-
-  @Column({ type: 'jsonb', nullable: true })
-  timings: Record<string, number> | null;
-
-  @Column({ name: 'figure_id', type: 'uuid', nullable: true })
-  figureId: string | null;
-
-  @ManyToOne(() => FigureEntity, { onDelete: 'CASCADE', nullable: true })
-  @JoinColumn({ name: 'figure_id' })
-  figure?: FigureEntity | null;
-
-  @Column({ name: 'figure_version_id', type: 'uuid', nullable: true })
-  figureVersionId: string | null;
-
-  @ManyToOne(() => FigureVersionEntity, { onDelete: 'CASCADE', nullable: true })
-  @JoinColumn({ name: 'figure_version_id' })
-  figureVersion?: FigureVersionEntity | null;
-
+  @Column({ type: 'int', default: 0 }) progress: number;
+  @Column({ type: 'varchar', length: 40, default: 'queued' }) stage: string;
+  @Column({ type: 'text', nullable: true }) error: string | null;
+  @Column({ type: 'jsonb', nullable: true }) timings: Record<string, number> | null;
+  @UuidColumn('figure_id', true) figureId: string | null;
+  @ManyToOne(() => FigureEntity, { onDelete: 'CASCADE', nullable: true }) @JoinColumn({ name: 'figure_id' }) figure?: FigureEntity | null;
+  @UuidColumn('figure_version_id', true) figureVersionId: string | null;
+  @ManyToOne(() => FigureVersionEntity, { onDelete: 'CASCADE', nullable: true }) @JoinColumn({ name: 'figure_version_id' }) figureVersion?: FigureVersionEntity | null;
   /** Publication the job belongs to (access checks). */
-  @Column({ name: 'publication_id', type: 'uuid' })
-  publicationId: string;
-
-  @Column({ name: 'requested_by', type: 'uuid', nullable: true })
-  requestedBy: string | null;
-
-  @ManyToOne(() => UserEntity, { onDelete: 'SET NULL', nullable: true })
-  @JoinColumn({ name: 'requested_by' })
-  requester?: UserEntity | null;
-
-  @Column({ name: 'bull_job_id', type: 'varchar', length: 100, nullable: true })
-  bullJobId: string | null;
-
+  @UuidColumn('publication_id') publicationId: string;
+  @UuidColumn('requested_by', true) requestedBy: string | null;
+  @ManyToOne(() => UserEntity, { onDelete: 'SET NULL', nullable: true }) @JoinColumn({ name: 'requested_by' }) requester?: UserEntity | null;
+  @Column({ name: 'bull_job_id', type: 'varchar', length: 100, nullable: true }) bullJobId: string | null;
   /** Attempts started so far (BullMQ retries with backoff). */
-  @Column({ type: 'int', default: 0 })
-  attempts: number;
-
+  @Column({ type: 'int', default: 0 }) attempts: number;
   /** Assets this job produced (they may be shared with other jobs of equal content). */
   /** What render/export jobs are asked for (format, size, dpi, ...); null for mesh jobs. Migration StudioExports. */
-  @Column({ type: 'jsonb', nullable: true })
-  params: Record<string, unknown> | null;
-
-  @Column({ name: 'asset_ids', type: 'uuid', array: true, default: () => `'{}'` })
-  assetIds: string[];
-
-  @CreateDateColumn({ name: 'created_at', type: 'timestamptz' })
-  createdAt: Date;
-
-  @UpdateDateColumn({ name: 'updated_at', type: 'timestamptz' })
-  updatedAt: Date;
+  @Column({ type: 'jsonb', nullable: true }) params: Record<string, unknown> | null;
+  @Column({ name: 'asset_ids', type: 'uuid', array: true, default: () => `'{}'` }) assetIds: string[];
+  @CreatedAt() createdAt: Date;
+  @UpdatedAt() updatedAt: Date;
 }

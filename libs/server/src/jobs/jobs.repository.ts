@@ -1,29 +1,37 @@
 import { Injectable } from '@nestjs/common';
-import { DataSource } from 'typeorm';
-import type { AssetKind, AssetDto } from '@psiform/contracts';
-import { JobEntity, type JobType } from './job.entity';
-import { AssetEntity } from '../assets/asset.entity';
+import { InjectRepository } from '@nestjs/typeorm';
+import { Repository, type EntityManager } from 'typeorm';
+import type { JobItem, JobOf, TrackedJobName } from '@psiform/contracts';
+import { enqueueIn } from '../outbox/outbox.repository';
+import { JobEntity } from './job.entity';
+import { upsertAssetsIn, type NewAsset } from '../assets/asset-store';
 import { FigureEntity } from '../figures/figure.entity';
 import { FigureVersionEntity } from '../figures/figure-version.entity';
 
-export interface NewJob {
-  type: JobType;
+interface NewJobBase {
   publicationId: string;
   figureId: string | null;
   figureVersionId: string | null;
   requestedBy: string | null;
-  /** Render/export parameters (jobs.params). */
-  params?: Record<string, unknown> | null;
+  /** BullMQ tries (default: the job name's, JOB_OPTIONS). */
+  maxAttempts?: number;
 }
 
-export interface NewAsset {
-  figureVersionId: string | null;
-  publicationId: string;
-  kind: AssetKind;
-  storageKey: string;
-  bytes: number;
-  sha256: string;
-  stats: AssetDto['stats'];
+/** A job request: its type and the parameters the job contract declares for it (stored in jobs.params too). */
+export type NewJob = { [N in TrackedJobName]: NewJobBase & { type: N; params: JobOf<N>['params'] } }[TrackedJobName];
+
+/**
+ * A Job row and its outbox row in the caller's transaction (the one enqueue path): committed together with the change
+ * that asks for the job, or not at all. The relay puts it on the queue; the row's bull_job_id is the outbox row id.
+ */
+export async function requestJobIn(em: EntityManager, job: NewJob): Promise<JobEntity> {
+  const { maxAttempts, ...fields } = job;
+  const repo = em.getRepository(JobEntity);
+  const row = await repo.save(repo.create({ ...fields, state: 'queued', stage: 'queued', progress: 0 }));
+  const item = { name: job.type, data: { jobId: row.id, params: job.params } } as JobItem;
+  row.bullJobId = await enqueueIn(em, item, { maxAttempts });
+  await repo.update({ id: row.id }, { bullJobId: row.bullJobId });
+  return row;
 }
 
 export interface JobContext {
@@ -37,9 +45,12 @@ export interface JobContext {
  * touching the jobs table; it takes a DataSource so the worker can build it without the api's Nest modules.
  */
 export abstract class JobsStore {
-  abstract insert(job: NewJob): Promise<JobEntity>;
-  abstract setBullJobId(id: string, bullJobId: string): Promise<void>;
-  abstract remove(id: string): Promise<void>;
+  /** Job row + outbox row in one transaction (requestJobIn). */
+  abstract request(job: NewJob): Promise<JobEntity>;
+  /** Queued rows not touched for `olderThanMs` (the sweeper checks their queue entry). */
+  abstract staleQueued(olderThanMs: number, limit: number): Promise<JobEntity[]>;
+  /** A queued row whose queue entry is gone gets a fresh outbox row (under its row lock); false if it moved on meanwhile. */
+  abstract redriveQueued(id: string): Promise<boolean>;
   abstract findById(id: string): Promise<JobEntity | null>;
   abstract loadContext(id: string): Promise<JobContext | null>;
   abstract markActive(id: string, attempt: number, stage: string, progress: number): Promise<void>;
@@ -47,30 +58,43 @@ export abstract class JobsStore {
   /** Back to queued between attempts, keeping the last error readable. */
   abstract requeue(id: string, error: string): Promise<void>;
   abstract fail(id: string, error: string): Promise<void>;
-  /** One transaction: asset rows find-or-create (ON CONFLICT DO NOTHING), then the job completed. Returns asset ids. */
+  /** One transaction: asset rows find-or-create (upsertAssetsIn), then the job completed. Returns asset ids. */
   abstract complete(id: string, timings: Record<string, number>, assets: NewAsset[]): Promise<string[]>;
 }
 
 @Injectable()
-export class TypeormJobsStore extends JobsStore {
-  constructor(private readonly ds: DataSource) {
-    super();
-  }
+export class TypeormJobsStore implements JobsStore {
+  constructor(@InjectRepository(JobEntity) private readonly jobRows: Repository<JobEntity>) {}
+  /** Transactions, and the joins of reads, run on the manager of this feature's own repositories. */
+  private get ds(): EntityManager { return this.jobRows.manager; }
 
   private get jobs() {
     return this.ds.getRepository(JobEntity);
   }
 
-  insert(job: NewJob): Promise<JobEntity> {
-    return this.jobs.save(this.jobs.create({ ...job, state: 'queued', stage: 'queued', progress: 0 }));
+  request(job: NewJob): Promise<JobEntity> {
+    return this.ds.transaction((em) => requestJobIn(em, job));
   }
 
-  async setBullJobId(id: string, bullJobId: string): Promise<void> {
-    await this.jobs.update({ id }, { bullJobId });
+  staleQueued(olderThanMs: number, limit: number): Promise<JobEntity[]> {
+    return this.jobs
+      .createQueryBuilder('j')
+      .where(`j.state = 'queued' AND j.updated_at <= now() - (:ms || ' milliseconds')::interval`, { ms: String(olderThanMs) })
+      .orderBy('j.updated_at', 'ASC')
+      .limit(limit)
+      .getMany();
   }
 
-  async remove(id: string): Promise<void> {
-    await this.jobs.delete({ id });
+  redriveQueued(id: string): Promise<boolean> {
+    return this.ds.transaction(async (em) => {
+      const row = await em.getRepository(JobEntity).createQueryBuilder('j').setLock('pessimistic_write').setOnLocked('skip_locked').where('j.id = :id', { id }).getOne();
+      if (!row || row.state !== 'queued') return false;
+      const params = row.params ?? {};
+      const bullJobId = await enqueueIn(em, { name: row.type, data: { jobId: row.id, params } } as JobItem);
+      // updated_at moves on, so the sweeper looks at this row again only after another full wait.
+      await em.getRepository(JobEntity).update({ id }, { bullJobId });
+      return true;
+    });
   }
 
   findById(id: string): Promise<JobEntity | null> {
@@ -119,25 +143,12 @@ export class TypeormJobsStore extends JobsStore {
 
   async complete(id: string, timings: Record<string, number>, assets: NewAsset[]): Promise<string[]> {
     return this.ds.transaction(async (em) => {
-      const ids: string[] = [];
-      for (const a of assets) {
-        await em
-          .createQueryBuilder()
-          .insert()
-          .into(AssetEntity)
-          .values(a as never)
-          .onConflict(`ON CONSTRAINT "uq_assets_version_kind_key" DO NOTHING`)
-          .execute();
-        const row = await em
-          .getRepository(AssetEntity)
-          .createQueryBuilder('a')
-          .where('a.kind = :kind AND a.storage_key = :key', { kind: a.kind, key: a.storageKey })
-          .andWhere(a.figureVersionId === null ? 'a.figure_version_id IS NULL' : 'a.figure_version_id = :v', { v: a.figureVersionId })
-          .getOneOrFail();
-        ids.push(row.id);
-      }
+      const ids = await upsertAssetsIn(em, assets);
       await em.getRepository(JobEntity).update({ id }, { state: 'completed', stage: 'done', progress: 100, error: null, timings, assetIds: ids });
       return ids;
     });
   }
 }
+
+/** The tables this feature owns (TypeOrmModule.forFeature in its api module; the worker builds the store from them). */
+export const JOBS_ENTITIES = [JobEntity];

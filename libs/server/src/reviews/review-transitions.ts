@@ -1,3 +1,4 @@
+import { ConflictError } from '../common/domain-errors';
 import type { FigureStatus, ReviewAction, Role } from '@psiform/contracts';
 
 /**
@@ -25,12 +26,8 @@ export const REVIEW_TRANSITIONS: Record<ReviewAction, TransitionRule> = {
 };
 
 /** A transition not allowed from the current state (HTTP 409). */
-export class TransitionConflict extends Error {
-  constructor(message: string) {
-    super(message);
-    this.name = 'TransitionConflict';
-  }
-}
+/** A review step the figure's state does not allow (409 through the domain-error filter). */
+export class TransitionConflict extends ConflictError {}
 
 /** Throws TransitionConflict naming the current and the allowed states. */
 export function assertTransition(action: ReviewAction, status: FigureStatus): TransitionRule {

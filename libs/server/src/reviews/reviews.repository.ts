@@ -1,7 +1,10 @@
 import { Injectable } from '@nestjs/common';
-import { DataSource, IsNull, type EntityManager } from 'typeorm';
-import type { FigureStatus } from '@psiform/contracts';
+import { InjectRepository } from '@nestjs/typeorm';
+import { IsNull, Repository, type EntityManager } from 'typeorm';
+import type { FigureStatus, MailNoticeJob } from '@psiform/contracts';
+import { enqueueIn } from '../outbox/outbox.repository';
 import { FigureEntity } from '../figures/figure.entity';
+import { lockFigureIn, lockVersionIn, setFigureStatusIn } from '../figures/figures.repository';
 import { FigureVersionEntity } from '../figures/figure-version.entity';
 import { PublicationEntity } from '../publications/publication.entity';
 import { MembershipEntity } from '../publications/membership.entity';
@@ -22,6 +25,8 @@ export interface ReviewTx {
   lockVersion(): Promise<void>;
   setStatus(status: FigureStatus): Promise<void>;
   audit(entry: Omit<NewAuditEntry, 'figureId'>): Promise<void>;
+  /** A mail notice about this step, written to the outbox in the step's transaction: sent only if the step commits. */
+  notify(notice: MailNoticeJob): Promise<void>;
   addComment(c: { figureVersionId: string | null; authorId: string; body: string; pinX: number | null; pinY: number | null }): Promise<CommentEntity>;
 }
 
@@ -52,15 +57,16 @@ export abstract class ReviewsStore {
   abstract listComments(figureId: string): Promise<{ comment: CommentEntity; authorName: string | null }[]>;
   /** Figures in one of `statuses` (default: in review) in the given publications, longest waiting first. */
   abstract reviewDesk(publicationIds: string[] | 'all', statuses?: FigureStatus[]): Promise<ReviewDeskRow[]>;
-  /** An audit entry on its own (for changes other modules commit, e.g. a PATCH making a new version). */
-  abstract recordAudit(entry: NewAuditEntry): Promise<void>;
 }
 
 @Injectable()
-export class TypeormReviewsStore extends ReviewsStore {
-  constructor(private readonly ds: DataSource) {
-    super();
-  }
+export class TypeormReviewsStore implements ReviewsStore {
+  constructor(
+    @InjectRepository(ReviewRoundEntity) private readonly roundRows: Repository<ReviewRoundEntity>,
+    @InjectRepository(CommentEntity) private readonly commentRows: Repository<CommentEntity>,
+  ) {}
+  /** Transactions, and the joins of reads, run on the manager of this feature's own repositories. */
+  private get ds(): EntityManager { return this.roundRows.manager; }
 
   findFigure(id: string) {
     return this.ds.getRepository(FigureEntity).findOne({ where: { id } });
@@ -72,10 +78,8 @@ export class TypeormReviewsStore extends ReviewsStore {
 
   inFigureTransaction<T>(figureId: string, fn: (tx: ReviewTx) => Promise<T>): Promise<T> {
     return this.ds.transaction(async (em) => {
-      const figure = await em.getRepository(FigureEntity).createQueryBuilder('f').setLock('pessimistic_write').where('f.id = :id', { id: figureId }).getOne();
-      if (!figure) throw new Error(`figure ${figureId} vanished`);
-      const version = await em.getRepository(FigureVersionEntity).findOneOrFail({ where: { figureId, number: figure.currentVersion } });
-      return fn(this.tx(em, figure, version));
+      const { figure, current } = await lockFigureIn(em, figureId);
+      return fn(this.tx(em, figure, current));
     });
   }
 
@@ -89,15 +93,10 @@ export class TypeormReviewsStore extends ReviewsStore {
       saveRound: async (round) => {
         await rounds.save(round);
       },
-      lockVersion: async () => {
-        await em.getRepository(FigureVersionEntity).update({ id: version.id }, { locked: true });
-        version.locked = true;
-      },
-      setStatus: async (status) => {
-        await em.getRepository(FigureEntity).update({ id: figure.id }, { status });
-        figure.status = status;
-      },
+      lockVersion: () => lockVersionIn(em, version),
+      setStatus: (status) => setFigureStatusIn(em, figure, status),
       audit: (entry) => insertAudit(em, { ...entry, figureId: figure.id }),
+      notify: async (notice) => void (await enqueueIn(em, { name: 'notice', data: notice })),
       addComment: (c) => em.getRepository(CommentEntity).save(em.getRepository(CommentEntity).create({ ...c, figureId: figure.id })),
     };
   }
@@ -169,7 +168,7 @@ export class TypeormReviewsStore extends ReviewsStore {
     }));
   }
 
-  async recordAudit(entry: NewAuditEntry): Promise<void> {
-    await insertAudit(this.ds.manager, entry);
-  }
 }
+
+/** The tables this feature owns (TypeOrmModule.forFeature in its api module; the worker builds the store from them). */
+export const REVIEWS_ENTITIES = [ReviewRoundEntity, CommentEntity];

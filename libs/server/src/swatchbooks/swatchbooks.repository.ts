@@ -1,13 +1,14 @@
-import { ConflictException, Injectable } from '@nestjs/common';
-import { DataSource, In, type EntityManager } from 'typeorm';
-import type { FigureStatus, Recipe, SwatchbookColorsDto, SwatchbookVersionDto } from '@psiform/contracts';
+import { Injectable } from '@nestjs/common';
+import { InjectRepository } from '@nestjs/typeorm';
+import { In, Repository, type EntityManager } from 'typeorm';
+import type { SwatchbookColorsDto, SwatchbookVersionDto } from '@psiform/contracts';
 import { FigureEntity } from '../figures/figure.entity';
 import { FigureVersionEntity } from '../figures/figure-version.entity';
 import { JobEntity } from '../jobs/job.entity';
-import { insertAudit } from '../audit/audit.repository';
 import { SwatchbookEntity, SwatchbookVersionEntity } from './swatchbook.entity';
 import { HouseStyleEntity } from './house-style.entity';
 import { BatchEntity, BatchItemEntity } from './batch.entity';
+import { ConflictError } from '../common/domain-errors';
 
 export interface SwatchbookChange {
   name?: string;
@@ -18,14 +19,6 @@ export interface SwatchbookChange {
 export interface FigureWithVersion {
   figure: FigureEntity;
   version: FigureVersionEntity;
-}
-
-export interface NewRerenderVersion {
-  recipe: Recipe;
-  recipeHash: string;
-  engineVersion: string;
-  authorId: string;
-  auditNote: string;
 }
 
 /** A new swatchbook and its scope: exactly one of publicationId and publisher is set. */
@@ -51,22 +44,22 @@ export abstract class SwatchbooksStore {
   abstract versions(id: string): Promise<SwatchbookVersionEntity[]>;
   abstract houseStyle(publicationId: string): Promise<HouseStyleEntity | null>;
   abstract putHouseStyle(h: { publicationId: string; swatchbookId: string; requireColourSignOff: boolean; allowOverride: boolean; updatedBy: string }): Promise<HouseStyleEntity>;
-  abstract figurePublication(figureId: string): Promise<string | null>;
   abstract figuresWithCurrentVersion(publicationId: string): Promise<FigureWithVersion[]>;
-  /**
-   * New draft version (current + 1) of a figure whose status is still one of `allowed`, made current, with
-   * its audit entry, in one transaction; null when the figure moved on meanwhile (status or version).
-   */
-  abstract addRerenderVersion(figureId: string, expectedCurrent: number, allowed: readonly FigureStatus[], v: NewRerenderVersion): Promise<FigureVersionEntity | null>;
   abstract createBatch(b: { publicationId: string; swatchbookId: string; swatchbookVersion: number; requestedBy: string }, items: Omit<BatchItemEntity, 'id' | 'batchId'>[]): Promise<BatchEntity>;
   abstract findBatch(id: string): Promise<{ batch: BatchEntity; items: { item: BatchItemEntity; title: string; versionNumber: number | null; jobState: string | null }[] } | null>;
 }
 
 @Injectable()
-export class TypeormSwatchbooksStore extends SwatchbooksStore {
-  constructor(private readonly ds: DataSource) {
-    super();
-  }
+export class TypeormSwatchbooksStore implements SwatchbooksStore {
+  constructor(
+    @InjectRepository(SwatchbookEntity) private readonly bookRows: Repository<SwatchbookEntity>,
+    @InjectRepository(SwatchbookVersionEntity) private readonly bookVersionRows: Repository<SwatchbookVersionEntity>,
+    @InjectRepository(HouseStyleEntity) private readonly houseRows: Repository<HouseStyleEntity>,
+    @InjectRepository(BatchEntity) private readonly batchRows: Repository<BatchEntity>,
+    @InjectRepository(BatchItemEntity) private readonly batchItemRows: Repository<BatchItemEntity>,
+  ) {}
+  /** Transactions, and the joins of reads, run on the manager of this feature's own repositories. */
+  private get ds(): EntityManager { return this.bookRows.manager; }
 
   private async snapshot(em: EntityManager, s: SwatchbookEntity, action: SwatchbookVersionDto['action'], authorId: string | null) {
     const repo = em.getRepository(SwatchbookVersionEntity);
@@ -99,7 +92,7 @@ export class TypeormSwatchbooksStore extends SwatchbooksStore {
       const repo = em.getRepository(SwatchbookEntity);
       const s = await repo.createQueryBuilder('s').setLock('pessimistic_write').where('s.id = :id', { id }).getOne();
       if (!s) return null;
-      if (requireUnlocked && s.locked) throw new ConflictException(`swatchbook "${s.name}" is locked; unlock it before editing`);
+      if (requireUnlocked && s.locked) throw new ConflictError(`swatchbook "${s.name}" is locked; unlock it before editing`);
       if (change.locked !== undefined && change.locked === s.locked) return s; // nothing to record
       Object.assign(s, change);
       s.version += 1;
@@ -123,10 +116,6 @@ export class TypeormSwatchbooksStore extends SwatchbooksStore {
     return repo.findOneOrFail({ where: { publicationId: h.publicationId } });
   }
 
-  async figurePublication(figureId: string) {
-    return (await this.ds.getRepository(FigureEntity).findOne({ where: { id: figureId }, select: { id: true, publicationId: true } }))?.publicationId ?? null;
-  }
-
   async figuresWithCurrentVersion(publicationId: string): Promise<FigureWithVersion[]> {
     const figures = await this.ds.getRepository(FigureEntity).find({ where: { publicationId }, order: { createdAt: 'ASC', id: 'ASC' } });
     if (figures.length === 0) return [];
@@ -138,19 +127,6 @@ export class TypeormSwatchbooksStore extends SwatchbooksStore {
       .getMany();
     const byFigure = new Map(versions.map((v) => [v.figureId, v]));
     return figures.filter((f) => byFigure.has(f.id)).map((figure) => ({ figure, version: byFigure.get(figure.id)! }));
-  }
-
-  addRerenderVersion(figureId: string, expectedCurrent: number, allowed: readonly FigureStatus[], v: NewRerenderVersion) {
-    return this.ds.transaction(async (em) => {
-      const figures = em.getRepository(FigureEntity);
-      const f = await figures.createQueryBuilder('f').setLock('pessimistic_write').where('f.id = :id', { id: figureId }).getOne();
-      if (!f || f.currentVersion !== expectedCurrent || !allowed.includes(f.status)) return null;
-      const repo = em.getRepository(FigureVersionEntity);
-      const saved = await repo.save(repo.create({ figureId, number: expectedCurrent + 1, recipe: v.recipe, recipeHash: v.recipeHash, engineVersion: v.engineVersion, authorId: v.authorId, locked: false }));
-      await figures.update({ id: figureId }, { currentVersion: saved.number, status: 'draft' });
-      await insertAudit(em, { figureId, actorId: v.authorId, action: 'rerender', fromStatus: f.status, toStatus: 'draft', note: v.auditNote });
-      return saved;
-    });
   }
 
   createBatch(b: { publicationId: string; swatchbookId: string; swatchbookVersion: number; requestedBy: string }, items: Omit<BatchItemEntity, 'id' | 'batchId'>[]) {
@@ -187,3 +163,6 @@ export class TypeormSwatchbooksStore extends SwatchbooksStore {
     };
   }
 }
+
+/** The tables this feature owns (TypeOrmModule.forFeature in its api module; the worker builds the store from them). */
+export const SWATCHBOOKS_ENTITIES = [SwatchbookEntity, SwatchbookVersionEntity, HouseStyleEntity, BatchEntity, BatchItemEntity];

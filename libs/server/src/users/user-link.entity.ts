@@ -1,5 +1,6 @@
-import { Column, CreateDateColumn, Entity, PrimaryGeneratedColumn } from 'typeorm';
+import { Column, Entity } from 'typeorm';
 import type { LinkPurpose } from '@psiform/contracts';
+import { CreatedAt, IdColumn, UuidColumn } from '../db/columns';
 
 /**
  * A one-time link (invitation or password reset). Only the SHA-256 of the token is stored: a copy of the
@@ -7,27 +8,12 @@ import type { LinkPurpose } from '@psiform/contracts';
  */
 @Entity({ name: 'user_links' })
 export class UserLinkEntity {
-  @PrimaryGeneratedColumn('uuid')
-  id: string;
-
-  @Column({ name: 'user_id', type: 'uuid' })
-  userId: string;
-
-  @Column({ type: 'varchar', length: 10 })
-  purpose: LinkPurpose;
-
-  @Column({ name: 'token_hash', type: 'char', length: 64 })
-  tokenHash: string;
-
-  @Column({ name: 'expires_at', type: 'timestamptz' })
-  expiresAt: Date;
-
-  @Column({ name: 'used_at', type: 'timestamptz', nullable: true })
-  usedAt: Date | null;
-
-  @Column({ name: 'created_by', type: 'uuid', nullable: true })
-  createdBy: string | null;
-
-  @CreateDateColumn({ name: 'created_at', type: 'timestamptz' })
-  createdAt: Date;
+  @IdColumn() id: string;
+  @UuidColumn('user_id') userId: string;
+  @Column({ type: 'varchar', length: 10 }) purpose: LinkPurpose;
+  @Column({ name: 'token_hash', type: 'char', length: 64 }) tokenHash: string;
+  @Column({ name: 'expires_at', type: 'timestamptz' }) expiresAt: Date;
+  @Column({ name: 'used_at', type: 'timestamptz', nullable: true }) usedAt: Date | null;
+  @UuidColumn('created_by', true) createdBy: string | null;
+  @CreatedAt() createdAt: Date;
 }

@@ -1,35 +1,21 @@
-import { Column, CreateDateColumn, Entity, PrimaryGeneratedColumn } from 'typeorm';
+import { Column, Entity } from 'typeorm';
+import { IdColumn, CreatedAt } from '../db/columns';
 import type { Role, UserDto, UserState } from '@psiform/contracts';
 
 @Entity({ name: 'users' })
 export class UserEntity {
-  @PrimaryGeneratedColumn('uuid')
-  id: string;
-
+  @IdColumn() id: string;
   /** Stored lower-cased; unique (constraint uq_users_email). */
-  @Column({ type: 'varchar', length: 320 })
-  email: string;
-
-  @Column({ name: 'display_name', type: 'varchar', length: 120 })
-  displayName: string;
-
+  @Column({ type: 'varchar', length: 320 }) email: string;
+  @Column({ name: 'display_name', type: 'varchar', length: 120 }) displayName: string;
   /** null while an invitation waits for its link to be used: such an account cannot sign in. */
-  @Column({ name: 'password_hash', type: 'varchar', length: 100, nullable: true })
-  passwordHash: string | null;
-
-  @Column({ type: 'varchar', length: 20 })
-  role: Role;
-
+  @Column({ name: 'password_hash', type: 'varchar', length: 100, nullable: true }) passwordHash: string | null;
+  @Column({ type: 'varchar', length: 20 }) role: Role;
   /** false: deactivated; sign-in is refused and every token stops working at once. */
-  @Column({ type: 'boolean', default: true })
-  active: boolean;
-
+  @Column({ type: 'boolean', default: true }) active: boolean;
   /** Tokens issued (JWT iat) before this instant are refused: set on deactivation and on a password change. */
-  @Column({ name: 'tokens_valid_after', type: 'timestamptz', nullable: true })
-  tokensValidAfter: Date | null;
-
-  @CreateDateColumn({ name: 'created_at', type: 'timestamptz' })
-  createdAt: Date;
+  @Column({ name: 'tokens_valid_after', type: 'timestamptz', nullable: true }) tokensValidAfter: Date | null;
+  @CreatedAt() createdAt: Date;
 }
 
 /** The public shape: never the hash. */

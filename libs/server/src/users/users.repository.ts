@@ -1,14 +1,16 @@
 import { Injectable } from '@nestjs/common';
 import { InjectRepository } from '@nestjs/typeorm';
 import { DataSource, QueryFailedError, Repository, type EntityManager } from 'typeorm';
+import { ConflictError } from '../common/domain-errors';
 import type { LinkPurpose, Role, UserSortKey, UserState } from '@psiform/contracts';
 import { UserEntity } from './user.entity';
 import { UserLinkEntity } from './user-link.entity';
 import { insertSubjectAudit, type NewSubjectAuditEntry } from '../audit/audit.repository';
 
-export class DuplicateEmailError extends Error {
+/** 409 through the domain-error filter. */
+export class DuplicateEmailError extends ConflictError {
   constructor(readonly email: string) {
-    super(`a user with email ${email} already exists`);
+    super(`email ${email} is already registered`);
   }
 }
 

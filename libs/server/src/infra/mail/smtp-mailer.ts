@@ -1,19 +1,21 @@
 import { Inject, Injectable, type OnApplicationShutdown } from '@nestjs/common';
 import { createTransport, type Transporter } from 'nodemailer';
 import { APP_CONFIG } from '../../config/config.tokens';
-import type { AppConfig } from '../../config/config';
+import type { SmtpConfig } from '../../config/config';
 import { Mailer, type OutgoingMail } from './mailer';
 
+/** SMTP adapter of both apps; the worker builds one directly from its own config (`new SmtpMailer({ smtp })`). */
 @Injectable()
 export class SmtpMailer extends Mailer implements OnApplicationShutdown {
   private readonly transport: Transporter;
   private readonly from: string;
 
-  constructor(@Inject(APP_CONFIG) config: AppConfig) {
+  constructor(@Inject(APP_CONFIG) config: { smtp: SmtpConfig }) {
     super();
     const url = new URL(config.smtp.url);
     this.from = config.smtp.from;
-    // Stack notes: the SMTP fake has STARTTLS off, so plain SMTP with ignoreTLS.
+    // Stack notes: the SMTP fake has STARTTLS off, so plain SMTP with ignoreTLS. Short connect/greeting timeouts so a
+    // mail server that is down fails a try quickly (the notice is retried); a slow transfer gets 10 s.
     this.transport = createTransport({
       host: url.hostname,
       port: Number(url.port || 25),
@@ -22,7 +24,7 @@ export class SmtpMailer extends Mailer implements OnApplicationShutdown {
       auth: url.username ? { user: decodeURIComponent(url.username), pass: decodeURIComponent(url.password) } : undefined,
       connectionTimeout: 2000,
       greetingTimeout: 2000,
-      socketTimeout: 5000,
+      socketTimeout: 10000,
     });
   }
 
@@ -31,11 +33,15 @@ export class SmtpMailer extends Mailer implements OnApplicationShutdown {
   }
 
   async send(mail: OutgoingMail): Promise<string[]> {
-    const info = await this.transport.sendMail({ from: this.from, to: mail.to, subject: mail.subject, text: mail.text });
+    const info = await this.transport.sendMail({ from: this.from, to: mail.to, subject: mail.subject, text: mail.text, ...(mail.html ? { html: mail.html } : {}) });
     return (info.accepted as (string | { address: string })[]).map((a) => (typeof a === 'string' ? a : a.address));
   }
 
-  onApplicationShutdown(): void {
+  override close(): void {
     this.transport.close();
+  }
+
+  onApplicationShutdown(): void {
+    this.close();
   }
 }

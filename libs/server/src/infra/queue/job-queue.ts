@@ -1,14 +1,9 @@
-import type { JobPayload } from '../../pipeline/mesh-job';
+import type { JobOptions } from '../../jobs/job-options';
 
-export interface EnqueueOptions {
-  attempts: number;
-  backoff: { type: 'exponential' | 'fixed'; delay: number };
-  removeOnComplete?: { age: number; count: number };
-  removeOnFail?: { age: number; count: number };
-}
-
-/** Port for the job queue. Only BullJobQueue talks to BullMQ. */
+/** Port for the job queue. Only BullJobQueue talks to BullMQ; only the outbox relay and sweeper call it. */
 export abstract class JobQueue {
-  /** Adds a job with the given id; resolves to the id BullMQ stored. */
-  abstract add(queue: string, name: string, jobId: string, data: JobPayload, opts: EnqueueOptions): Promise<string>;
+  /** Adds a job with the given id (adding an id that is already queued is a no-op); resolves to the stored id. */
+  abstract add(queue: string, name: string, jobId: string, data: Record<string, unknown>, opts: JobOptions): Promise<string>;
+  /** The queue's state of a job ('waiting', 'active', 'completed', 'failed', 'delayed', …), or null when it has none. */
+  abstract state(queue: string, jobId: string): Promise<string | null>;
 }

@@ -1,12 +1,13 @@
-import type { JobContext, NewAsset } from '@psiform/server';
-import type { MeshDone } from '../mesh/mesh.processor';
-import { afterNewMeshes } from './tracked-job';
+import type { JobContext } from './jobs.repository';
+import type { NewAsset } from '../assets/asset-store';
+import type { MeshDone } from './job-handler';
+import { afterNewMeshes } from './job-runner';
 
 const asset = (figureVersionId: string, kind: NewAsset['kind']): NewAsset => ({ figureVersionId, publicationId: 'p1', kind, storageKey: `${figureVersionId}/${kind}`, bytes: 1, sha256: 'x', stats: null });
 const ctx = (params: Record<string, unknown>, version: string | null = 'v1', figure: string | null = 'f1') =>
   ({ job: { publicationId: 'p1', params }, version: version ? { id: version } : null, figure: figure ? { id: figure } : null }) as unknown as JobContext;
 
-describe('afterNewMeshes: every figure whose mesh a render, export or set job made gets the after-mesh hook (its thumbnail)', () => {
+describe('afterNewMeshes: every figure whose mesh a mesh, render, export or set job made gets the after-mesh hook (its thumbnail)', () => {
   it("a figure's own render/export: the figure, its version and the new mesh rows", async () => {
     const calls: MeshDone[] = [];
     const assets = [asset('v1', 'glb'), asset('v1', 'stl'), { ...asset('v1', 'png'), storageKey: 'png' }];

@@ -18,6 +18,7 @@ describe('loadWorkerConfig', () => {
       concurrency: 2,
       lockMs: 30000,
       render: { webDist: DEFAULT_WEB_DIST, chromiumPath: '/usr/bin/chromium', thumbnails: true, timeoutMs: 120000 },
+      outbox: { sweepMs: 30000, staleMs: 60000 },
     });
     expect(DEFAULT_WEB_DIST).toMatch(/apps\/web\/dist$/);
     expect(loadWorkerConfig({ ...good, THUMBNAILS: 'off', WEB_DIST: '/srv/web' }).render).toMatchObject({ thumbnails: false, webDist: '/srv/web' });

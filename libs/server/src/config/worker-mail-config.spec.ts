@@ -1,4 +1,4 @@
-import { loadWorkerConfig } from '../config/config';
+import { loadWorkerConfig } from './config';
 
 const base = {
   REDIS_URL: 'redis://127.0.0.1:6379',

@@ -1,1 +1,0 @@
-export const WORKER_CONFIG = Symbol('WORKER_CONFIG');

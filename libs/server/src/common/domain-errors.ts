@@ -1,0 +1,41 @@
+/**
+ * Errors of the domain, thrown by stores and services and mapped to HTTP in ONE place (the api's HttpErrorFilter):
+ * invalid → 400 (one message per field, as the ValidationPipe answers), forbidden → 403, not_found → 404,
+ * conflict → 409, too_large → 413, unavailable → 503. Stores never throw HTTP exceptions.
+ */
+export type DomainErrorKind = 'invalid' | 'forbidden' | 'not_found' | 'conflict' | 'too_large' | 'unavailable';
+
+export abstract class DomainError extends Error {
+  abstract readonly kind: DomainErrorKind;
+  /** The messages shown to the caller (one per field for `invalid`). */
+  readonly messages: string[];
+
+  constructor(messages: string | string[]) {
+    const list = Array.isArray(messages) ? messages : [messages];
+    super(list.join('; '));
+    this.messages = list;
+    this.name = new.target.name;
+  }
+}
+
+/** Bad input: each message names its field (`recipe.grid.n: …`). */
+export class InvalidInputError extends DomainError {
+  readonly kind = 'invalid' as const;
+}
+export class ForbiddenError extends DomainError {
+  readonly kind = 'forbidden' as const;
+}
+export class NotFoundError extends DomainError {
+  readonly kind = 'not_found' as const;
+}
+/** The request is fine but the state does not allow it now (a proof in review, a locked swatchbook, a race lost). */
+export class ConflictError extends DomainError {
+  readonly kind = 'conflict' as const;
+}
+export class TooLargeError extends DomainError {
+  readonly kind = 'too_large' as const;
+}
+/** A dependency is down or too slow; the message says which. */
+export class UnavailableError extends DomainError {
+  readonly kind = 'unavailable' as const;
+}
