@@ -6,7 +6,7 @@
 // Options: --quick (N = 64, 128 only; for a smoke run)   --no-isosurface   --no-skimage   --only=render,apijob,...
 // Internal: --child-main256 (the N = 256 3d_z² measurement in its own process, for its peak RSS);
 //   --child-workermem=pooled|fresh (five consecutive worker mesh jobs in one process, RSS after each);
-//   --child-sparse512 (3d_z² at 512³ effective, coarse-to-fine, for its peak RSS). --all-rows: every topology row.
+//   --child-sparse512 (3d_z² at 512³ effective, coarse-to-fine, for its peak RSS); --child-sparse-time (one timed side of the cost pair). --all-rows: every topology row.
 
 import { spawnSync } from 'node:child_process';
 import * as fs from 'node:fs';
@@ -573,6 +573,10 @@ const SECTIONS = [sectionSampling, sectionExtraction, sectionMemory, sectionWork
 async function main() {
   if (ARGS.has('--child-main256')) {
     await childMain256();
+    return;
+  }
+  if (ARGS.has('--child-sparse-time')) {
+    await EXACT.childSparseTime();
     return;
   }
   if (ARGS.has('--child-sparse512')) {

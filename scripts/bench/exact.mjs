@@ -96,6 +96,17 @@ export function exactSections(ctx) {
     return JSON.parse(r.stdout);
   }
 
+  /** One timed side of a pair, in its own process: sampling + marching cubes of 3d_z² at 512³, both phases. */
+  async function childSparseTime() {
+    const identity = (ctx) => ctx.surfaces;
+    const c0 = process.cpuUsage();
+    const t0 = now();
+    const r = await meshing.recipeToSurfaces(recipe(label('3dz2'), 512), { refine: identity, stats: false });
+    const wall = now() - t0;
+    const cu = process.cpuUsage(c0);
+    console.log(JSON.stringify({ wall, cpu: (cu.user + cu.system) / 1000, sampling: r.sampling, triangles: r.surfaces.reduce((a, x) => a + x.mesh.indices.length / 3, 0) }));
+  }
+
   async function sectionSparse() {
     heading('Coarse-to-fine: 3d_z² at 512³ effective (both phases) vs NumPy field + scikit-image marching cubes on uniform 256³ (same field, same run)');
     const content = label('3dz2');
@@ -110,19 +121,19 @@ export function exactSections(ctx) {
     let last = null;
     // Ours: sampling (octree with safe bounds, blocks the surface can cross) + marching cubes, both phases; the
     // projection is timed apart (hooks.refine = identity), as the peer does not project. Wall and CPU time, like the peer's.
-    const identity = (ctx) => ctx.surfaces;
+    // Each side runs in a fresh process of its own (the peer: python3; ours: node bench.mjs --child-sparse-time), so
+    // neither carries the heap of earlier sections; each times only its work (imports and module loading excluded).
     for (let i = 0; i < reps; i++) {
-      const c0 = process.cpuUsage();
-      const t0 = now();
-      const r = await meshing.recipeToSurfaces(recipe(content, 512), { refine: identity, stats: false });
-      const wall = now() - t0;
-      const cu = process.cpuUsage(c0);
-      last = r;
+      const child = spawnSync(process.execPath, [path.join(HERE, 'bench.mjs'), '--child-sparse-time'], { encoding: 'utf8', maxBuffer: 1 << 22 });
+      const j = JSON.parse(child.stdout.trim().split('\n').pop());
+      const wall = j.wall;
+      const cu = j.cpu;
+      last = j;
       const sk = withSk ? peerFieldMc(256, E, c) : null;
       if (sk?.error) console.log(`  peer failed: ${sk.error}`);
       const skWall = sk && !sk.error ? sk.field_ms + sk.mc_ms : NaN;
       const skCpu = sk && !sk.error ? sk.field_cpu_ms + sk.mc_cpu_ms : NaN;
-      pairs.push({ wall, cpu: (cu.user + cu.system) / 1000, sk, skWall, skCpu });
+      pairs.push({ wall, cpu: cu, sk, skWall, skCpu });
     }
     // Same field on both sides: psi at the peer's probe points against the engine's psi.
     const probe = pairs.find((p) => p.sk && !p.sk.error)?.sk.probes ?? [];
@@ -138,7 +149,7 @@ export function exactSections(ctx) {
     const s = last.sampling;
     table(
       ['run', 'ours wall ms', 'ours CPU ms', 'peer wall ms (field + mc)', 'peer CPU ms', 'wall ratio', 'CPU ratio', 'points sampled', 'of dense 512³', 'triangles', 'peer triangles'],
-      pairs.map((p, i) => [String(i + 1), fmt(p.wall, 0), fmt(p.cpu, 0), p.sk && !p.sk.error ? `${fmt(p.skWall, 0)} (${fmt(p.sk.field_ms, 0)} + ${fmt(p.sk.mc_ms, 0)})` : '-', fmt(p.skCpu, 0), fmt(p.wall / p.skWall, 2), fmt(p.cpu / p.skCpu, 2), String(s.points), `${fmt((100 * s.points) / s.densePoints, 1)} %`, String(last.surfaces.reduce((a, x) => a + x.mesh.indices.length / 3, 0)), String(p.sk?.triangles ?? '-')]),
+      pairs.map((p, i) => [String(i + 1), fmt(p.wall, 0), fmt(p.cpu, 0), p.sk && !p.sk.error ? `${fmt(p.skWall, 0)} (${fmt(p.sk.field_ms, 0)} + ${fmt(p.sk.mc_ms, 0)})` : '-', fmt(p.skCpu, 0), fmt(p.wall / p.skWall, 2), fmt(p.cpu / p.skCpu, 2), String(s.points), `${fmt((100 * s.points) / s.densePoints, 1)} %`, String(last.triangles), String(p.sk?.triangles ?? '-')]),
     );
     console.log(`  median of pairs: ours / peer = ${fmt(ratio, 2)} wall, ${fmt(ratioCpu, 2)} CPU; same field: largest relative difference of psi at the peer's probe points ${probeErr.toExponential(1)}; load after ${os.loadavg().map((x) => x.toFixed(2)).join(' ')}`);
     // The projection of every vertex onto the true surface (not in the ratio: the peer has no counterpart).
@@ -217,5 +228,5 @@ export function exactSections(ctx) {
     return rows;
   }
 
-  return { sectionExact, sectionSparse, sectionTopology, childSparse512, summaryRows };
+  return { sectionExact, sectionSparse, sectionTopology, childSparse512, childSparseTime, summaryRows };
 }

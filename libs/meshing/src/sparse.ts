@@ -110,7 +110,7 @@ export function extractSparse(field: BlockField, grid: CubeGrid, levels: readonl
   const cornerTab = new Int32Array(8 * R);
   for (let sl0 = 0; sl0 < R; sl0++)
     for (let c = 0; c < 8; c++) cornerTab[8 * sl0 + c] = CDY[c] * nR + (CDZ[c] ? (sl0 + 1) % R : sl0) * n + CDX[c];
-  const box = new Float32Array(S * S * S);
+  let box = new Float32Array(S * S * S * 4);
   // Vertex ids of lattice edges, per level: the edge from point (i, j, k) along axis a belongs to the block that
   // holds the point with local coordinates (i mod B, j mod B, k mod B) < B, in a record of 3 B³ L ids in a pool.
   // A block's cells reach points of its own slab and of the next, so two pools (by slab parity) are enough and
@@ -172,25 +172,34 @@ export function extractSparse(field: BlockField, grid: CubeGrid, levels: readonl
         owner.fill(-1);
         const i0 = bx * B, j0 = by * B, k0 = bz * B;
         const sx = Math.min(S, n - i0), sy = Math.min(S, n - j0), sz = Math.min(S, n - k0);
-        // The lower faces an active neighbour already sampled (its values are still in the rings: the -x and -y
-        // neighbours in this slab, the -z neighbour in the slab just before, whose top plane keeps its slot).
-        const dx = active(bx - 1, by, bz) ? 1 : 0;
+        const row0 = nb * (by + nb * bz);
+        // The lower faces an active neighbour already sampled are skipped: their values are still in the rings (the
+        // -x and -y neighbours in this slab, the -z neighbour in the slab just before, whose top plane keeps its slot).
         const dy = active(bx, by - 1, bz) ? 1 : 0;
         const dz = active(bx, by, bz - 1) ? 1 : 0;
-        const ux = sx - dx, uy = sy - dy, uz = sz - dz;
-        start[0] = i0 + dx;
-        start[1] = j0 + dy;
-        start[2] = k0 + dz;
-        size[0] = ux;
-        size[1] = uy;
-        size[2] = uz;
-        field.sample(start, size, box);
-        stats.pointsSampled += ux * uy * uz;
-        for (let k = 0, b = 0; k < uz; k++) {
-          const slot = (k0 + dz + k) % R;
-          for (let j = 0; j < uy; j++) {
-            const row = (j0 + dy + j) * nR + slot * n + i0 + dx;
-            for (let i = 0; i < ux; i++, b++) vals[row + i] = box[b];
+        const prev = bx > 0 && masks[row0 + bx - 1] !== 0;
+        if (!prev || dy !== (active(bx - 1, by - 1, bz) ? 1 : 0) || dz !== (active(bx - 1, by, bz - 1) ? 1 : 0)) {
+          // First block of a run of active blocks along x with the same faces to skip: sample the run in one box
+          // (long rows cost less per point than short ones).
+          let end = bx;
+          while (end + 1 < nb && masks[row0 + end + 1] !== 0 && (active(end + 1, by - 1, bz) ? 1 : 0) === dy && (active(end + 1, by, bz - 1) ? 1 : 0) === dz) end++;
+          const dx = prev ? 1 : 0;
+          const ux = Math.min((end - bx + 1) * B + 1, n - i0) - dx, uy = sy - dy, uz = sz - dz;
+          if (box.length < ux * uy * uz) box = new Float32Array(ux * S * S);
+          start[0] = i0 + dx;
+          start[1] = j0 + dy;
+          start[2] = k0 + dz;
+          size[0] = ux;
+          size[1] = uy;
+          size[2] = uz;
+          field.sample(start, size, box);
+          stats.pointsSampled += ux * uy * uz;
+          for (let k = 0, b = 0; k < uz; k++) {
+            const slot = (k0 + dz + k) % R;
+            for (let j = 0; j < uy; j++) {
+              const row = (j0 + dy + j) * nR + slot * n + i0 + dx;
+              for (let i = 0; i < ux; i++, b++) vals[row + i] = box[b];
+            }
           }
         }
         let vmin = Infinity;
