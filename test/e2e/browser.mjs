@@ -103,16 +103,17 @@ export async function apiGet(path, token, url = baseUrl()) {
   return JSON.parse(text);
 }
 
-/** Calls the API from Node; throws naming the step and the server's answer unless the status is expected. */
-export async function apiCall(step, method, path, { token, body, expect = [200, 201], hint = '' } = {}) {
-  const res = await fetch(`${baseUrl()}${path}`, {
+/** Calls the API from Node; throws naming the step and the server's answer unless the status is one of `expect`
+ * (a missing route says so, with `hint` naming what should have been deployed). */
+export async function apiCall(step, method, path, { token, body, expect = [200, 201], hint = 'is this server side deployed?', url = baseUrl() } = {}) {
+  const res = await fetch(`${url}${path}`, {
     method,
     headers: { Accept: 'application/json', ...(body ? { 'Content-Type': 'application/json' } : {}), ...(token ? { Authorization: `Bearer ${token}` } : {}) },
     body: body ? JSON.stringify(body) : undefined,
   });
   const text = await res.text();
   if (!expect.includes(res.status)) {
-    const missing = res.status === 404 && /Cannot (GET|POST|PUT)/.test(text) ? ` (the route does not exist${hint ? `: ${hint}` : ''})` : '';
+    const missing = res.status === 404 && /Cannot (GET|POST|PATCH|PUT|DELETE)/.test(text) ? ` (the route does not exist: ${hint})` : '';
     throw new Error(`${step}: ${method} ${path} answered ${res.status}${missing}: ${text.slice(0, 300)}`);
   }
   return { status: res.status, body: text ? JSON.parse(text) : null };

@@ -15,6 +15,7 @@ import { AuditModule } from './audit/audit.module';
 import { SwatchbooksModule } from './swatchbooks/swatchbooks.module';
 import { DevModule } from './dev/dev.module';
 import { ExportsModule } from './exports/exports.module';
+import { ProofsModule } from './proofs/proofs.module';
 import { DeliveryProfilesModule } from './delivery-profiles/delivery-profiles.module';
 import { HttpErrorFilter } from './common/http-error.filter';
 
@@ -48,6 +49,7 @@ export class AppModule implements OnApplicationShutdown {
         SwatchbooksModule,
         DevModule,
         ExportsModule,
+        ProofsModule,
         DeliveryProfilesModule,
       ],
       providers: [{ provide: APP_FILTER, useClass: HttpErrorFilter }],

@@ -46,7 +46,7 @@ describe('publications (e2e)', () => {
     const editorId = (await t.http().get('/api/auth/me').set(auth(editor)).expect(200)).body.id;
     await t.http().get(`/api/publications/${otherPubId}`).set(auth(editor)).expect(404);
     const added = await t.http().post(`/api/publications/${otherPubId}/members`).set(auth(admin)).send({ userId: editorId }).expect(201);
-    expect(added.body).toEqual({ publicationId: otherPubId, userId: editorId });
+    expect(added.body).toEqual({ publicationId: otherPubId, userId: editorId, role: 'editor' });
     await t.http().get(`/api/publications/${otherPubId}`).set(auth(editor)).expect(200);
     const members = await t.http().get(`/api/publications/${otherPubId}/members`).set(auth(editor)).expect(200);
     expect(members.body.map((u: { id: string }) => u.id)).toEqual([editorId]);
@@ -76,7 +76,7 @@ describe('publications (e2e)', () => {
     const pub = (await t.http().post('/api/publications').set(auth(admin)).send({ title: `Units ${RUN_ID}`, publisher: 'Sedgefield Press', kind: 'book' }).expect(201)).body;
     expect(pub.lengthUnit).toBe('angstrom'); // the default
     for (const email of ['illustrator@demo.psiform.test', 'artdirector@demo.psiform.test']) {
-      const u = (await t.http().get('/api/users').set(auth(admin)).expect(200)).body.find((x: { email: string }) => x.email === email);
+      const u = (await t.http().get('/api/users').query({ q: email }).set(auth(admin)).expect(200)).body.items.find((x: { email: string }) => x.email === email);
       await t.http().post(`/api/publications/${pub.id}/members`).set(auth(admin)).send({ userId: u.id }).expect(201);
     }
     // Bad input names the field; the wrong role is 403; nothing changes.

@@ -170,7 +170,8 @@ describe('editorial review (e2e)', () => {
     expect(toOwner.map((m) => m.subject).sort()).toEqual([`Approved: "${title} ${RUN_ID}"`, `Changes requested on "${title} ${RUN_ID}"`]);
     const changesMail = toOwner.find((m) => m.subject.startsWith('Changes'))!;
     expect(changesMail.text).toContain(note);
-    expect(changesMail.html).toContain('<p>');
+    expect(changesMail.html).toMatch(/<p[\s>]/);
+    expect(changesMail.text).toMatch(/Open the proof: https?:\/\/\S+\/figures\/[0-9a-f-]{36}\/proof/);
     expect(changesMail.html).toContain(`${title} ${RUN_ID}`);
     expect(mails.every((m) => !m.to.includes(emails.artDirector))).toBe(true);
 

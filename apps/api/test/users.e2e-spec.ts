@@ -21,9 +21,9 @@ describe('users (e2e)', () => {
     expect(res.body).not.toHaveProperty('passwordHash');
     const signedIn = await login(t, email, 'long-enough-pw');
     expect(signedIn.user.id).toBe(res.body.id);
-    const list = await t.http().get('/api/users').set('Authorization', `Bearer ${adminToken}`).expect(200);
-    expect(list.body.map((u: { email: string }) => u.email)).toContain(email.toLowerCase());
-    expect(list.body.every((u: object) => !('passwordHash' in u))).toBe(true);
+    const list = await t.http().get('/api/users').query({ q: email, pageSize: 100 }).set('Authorization', `Bearer ${adminToken}`).expect(200);
+    expect(list.body.items.map((u: { email: string }) => u.email)).toEqual([email.toLowerCase()]);
+    expect(list.body.items.every((u: object) => !('passwordHash' in u))).toBe(true);
   });
 
   it('answers 409 for a duplicate email (any case) and stores nothing', async () => {

@@ -13,6 +13,9 @@ import { LibraryPage } from './pages/LibraryPage';
 import { NotFound } from './pages/NotFound';
 import { PublicationsPage } from './pages/PublicationsPage';
 import { SignInPage } from './pages/SignInPage';
+import { ForgotPasswordPage, SetPasswordPage } from './pages/SetPasswordPage';
+import { PeoplePage } from './admin/PeoplePage';
+import { PublicationAdminPage, PublicationsAdminPage } from './admin/PublicationsAdminPage';
 import { UploadPage } from './pages/UploadPage';
 import { HouseStylePage } from './review/HouseStylePage';
 import { DeliveryProfilePage } from './print/DeliveryProfilePage';
@@ -51,6 +54,8 @@ const BUILT: Record<string, () => ReactNode> = {
   '/composer': () => <StudioPage />,
   '/swatchbooks': () => <SwatchbooksPage />,
   '/sets': () => <FigureSetsPage />,
+  '/people': () => <PeoplePage />,
+  '/manage/publications': () => <PublicationsAdminPage />,
 };
 
 /** Pages reached from the places (not in the navigation); SUB_ROUTES says who may open them. */
@@ -63,6 +68,7 @@ const SUB_PAGES: Record<string, () => ReactNode> = {
   '/figures/:figureId/proof': () => <ProofPage />,
   '/swatchbooks/:swatchbookId': () => <SwatchbookPage />,
   '/publications/:publicationId/house-style': () => <HouseStylePage />,
+  '/manage/publications/:publicationId': () => <PublicationAdminPage />,
   '/publications/:publicationId/delivery-profile': () => <DeliveryProfilePage />,
 };
 
@@ -87,6 +93,8 @@ export function AppRoutes() {
     <Routes>
       <Route element={<Frame />}>
         <Route path="/sign-in" element={<SignInPage />} />
+        <Route path="/set-password" element={<SetPasswordPage />} />
+        <Route path="/forgot-password" element={<ForgotPasswordPage />} />
         <Route
           element={
             <RequireAuth>

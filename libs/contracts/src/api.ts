@@ -42,6 +42,8 @@ export interface LengthUnitRequest {
 export interface MembershipDto {
   publicationId: string;
   userId: string;
+  /** The member's role in this publication. */
+  role: Role;
 }
 
 export type ServiceWord = string;
@@ -76,6 +78,7 @@ export interface CreatePublicationRequest {
   publisher: string;
   kind: PublicationKind;
   description?: string;
+  lengthUnit?: 'angstrom' | 'bohr';
 }
 
 export interface AddMemberRequest {

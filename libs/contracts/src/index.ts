@@ -7,5 +7,7 @@ export * from './reviews';
 export * from './exports';
 export * from './limits';
 export * from './print';
+export * from './people';
+export * from './proofs';
 export * from './jobs';
 export * from './quantum';

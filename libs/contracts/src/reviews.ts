@@ -116,6 +116,8 @@ export interface AuditEntryDto {
 export interface ReviewDeskItemDto {
   figureId: string;
   title: string;
+  /** in_review unless the desk was asked for another state. */
+  status: FigureStatus;
   publicationId: string;
   publicationTitle: string;
   versionNumber: number;
@@ -159,6 +161,8 @@ export type MailNoticeJob = JobOf<'notice'>;
 export interface OutboxMessageDto {
   subject: string;
   text: string;
+  /** The HTML part ('' when the message had none). */
+  html: string;
   to: string[];
   receivedAt: string;
 }

@@ -13,6 +13,7 @@ export * from './bundle';
 export * from './typeset';
 export * from './file-names';
 export * from './preflight';
+export * from './recipe-changes';
 export * from './figure-text';
 export * from './figure-files';
 export * from './svg-fonts';

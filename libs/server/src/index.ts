@@ -71,3 +71,4 @@ export * from './swatchbooks/swatchbooks.repository';
 export * from './uploads/cube-check';
 export * from './users/user.entity';
 export * from './users/users.repository';
+export * from './users/user-link.entity';

@@ -5,10 +5,11 @@ import { PublicationsModule } from '../publications/publications.module';
 import { ReviewsModule } from '../reviews/reviews.module';
 import { AuditService } from './audit.service';
 import { AuditController } from './audit.controller';
+import { SubjectAuditController } from './subject-audit.controller';
 
 @Module({
   imports: [TypeOrmModule.forFeature(AUDIT_ENTITIES), PublicationsModule, ReviewsModule],
-  controllers: [AuditController],
+  controllers: [AuditController, SubjectAuditController],
   providers: [{ provide: AuditStore, useClass: TypeormAuditStore }, AuditService],
 })
 export class AuditModule {}

@@ -1,7 +1,8 @@
 import { Injectable, NotFoundException } from '@nestjs/common';
-import type { AuditEntryDto, UserDto } from '@psiform/contracts';
+import { ADMIN_PAGE_SIZE, type AuditEntryDto, type Page, type SubjectAuditEntryDto, type UserDto } from '@psiform/contracts';
 import { MembershipService } from '../publications/membership.service';
-import { ReviewsStore, AuditStore, toAuditEntryDto } from '@psiform/server';
+import { ReviewsStore, AuditStore, toAuditEntryDto, toSubjectAuditEntryDto } from '@psiform/server';
+import type { SubjectAuditQuery } from './audit.dto';
 
 @Injectable()
 export class AuditService {
@@ -16,5 +17,13 @@ export class AuditService {
     const figure = await this.figures.findFigure(figureId);
     if (!figure || !(await this.membership.canAccess(user, figure.publicationId))) throw new NotFoundException(`figure ${figureId} not found`);
     return (await this.store.listForFigure(figureId)).map(({ entry, actorName }) => toAuditEntryDto(entry, actorName));
+  }
+
+  /** Entries about users, publications and house styles, newest first (admins). */
+  async forSubjects(q: SubjectAuditQuery): Promise<Page<SubjectAuditEntryDto>> {
+    const page = q.page ?? 1;
+    const pageSize = q.pageSize ?? ADMIN_PAGE_SIZE.default;
+    const { rows, total } = await this.store.listForSubjects({ subjectKind: q.subjectKind, subjectId: q.subjectId, page, pageSize });
+    return { items: rows.map(({ entry, actorName }) => toSubjectAuditEntryDto(entry, actorName)), total, page, pageSize };
   }
 }

@@ -46,20 +46,37 @@ const user: UserEntity = {
   displayName: 'Mira',
   role: 'editor',
   passwordHash: hashSync(PASSWORD, 4),
+  active: true,
+  tokensValidAfter: null,
   createdAt: new Date('2026-01-01T00:00:00Z'),
 };
+const deactivated: UserEntity = { ...user, id: '00000000-0000-4000-8000-000000000002', email: 'gone@example.test', active: false };
+const invited: UserEntity = { ...user, id: '00000000-0000-4000-8000-000000000003', email: 'new@example.test', passwordHash: null };
+const everyone = [user, deactivated, invited];
 
 class FakeUsers extends UsersStore {
   async findById(id: string) {
-    return id === user.id ? user : null;
+    return everyone.find((u) => u.id === id) ?? null;
   }
   async findByEmail(email: string) {
-    return email === user.email ? user : null;
+    return everyone.find((u) => u.email === email) ?? null;
   }
   async findAll() {
-    return [user];
+    return everyone;
   }
   async insert(_: NewUser): Promise<UserEntity> {
+    throw new Error('not used');
+  }
+  async page(): Promise<never> {
+    throw new Error('not used');
+  }
+  async findUsableLink(): Promise<never> {
+    throw new Error('not used');
+  }
+  async lastLinkSentAt(): Promise<never> {
+    throw new Error('not used');
+  }
+  async transaction(): Promise<never> {
     throw new Error('not used');
   }
 }
@@ -78,6 +95,13 @@ async function failures(auth: AuthService, n: number, email = user.email, ip = '
 
 describe('AuthService.login', () => {
   jest.setTimeout(30_000); // bcrypt on a loaded machine
+  it('refuses a deactivated account (after its password) and an invited one without a password', async () => {
+    const { auth } = setup();
+    await expect(auth.login(deactivated.email, PASSWORD, '10.0.0.2')).rejects.toThrow('this account is deactivated; ask an administrator');
+    await expect(auth.login(deactivated.email, 'wrong password', '10.0.0.2')).rejects.toThrow('email or password is incorrect');
+    await expect(auth.login(invited.email, PASSWORD, '10.0.0.2')).rejects.toThrow('email or password is incorrect');
+  });
+
   it('returns a token whose subject is the user, and the user without its hash', async () => {
     const { auth } = setup();
     const res = await auth.login('  MIRA@example.test ', PASSWORD, '10.0.0.1');

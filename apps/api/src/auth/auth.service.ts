@@ -21,8 +21,10 @@ export class AuthService {
     // Compare against a dummy hash for unknown emails so both paths take the same time.
     const ok = await verifyPassword(password, user?.passwordHash ?? (await dummyPasswordHash()));
     if (!user || !ok) throw new UnauthorizedException('email or password is incorrect');
+    // Checked after the password, so the answer reveals the state only to someone who knows the password.
+    if (!user.active) throw new UnauthorizedException('this account is deactivated; ask an administrator');
     await attempt.succeeded();
-    const payload: JwtPayload = { sub: user.id, role: user.role };
+    const payload: JwtPayload = { sub: user.id, role: user.role, iatMs: Date.now() };
     return { accessToken: await this.jwt.signAsync(payload), user: toUserDto(user) };
   }
 }

@@ -21,7 +21,7 @@ describe('GET /api/dev/outbox', () => {
   });
   it('lists subject, text, recipients and time (no HTML) when it is', async () => {
     await expect(new DevController(config('/tmp/outbox.jsonl'), new FakeReader(line)).list()).resolves.toEqual([
-      { subject: 'Approved: "Figure 1"', text: 'body', to: ['e@x.test'], receivedAt: '2026-01-01T10:00:00.000Z' },
+      { subject: 'Approved: "Figure 1"', text: 'body', html: '<p>body</p>', to: ['e@x.test'], receivedAt: '2026-01-01T10:00:00.000Z' },
     ]);
   });
 });

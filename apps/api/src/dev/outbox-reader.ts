@@ -23,8 +23,8 @@ export function parseOutbox(content: string): OutboxMessageDto[] {
   for (const line of content.split('\n')) {
     if (!line.trim()) continue;
     try {
-      const m = JSON.parse(line) as { subject?: string; text?: string; to?: string[]; receivedAt?: string };
-      rows.push({ subject: m.subject ?? '', text: m.text ?? '', to: Array.isArray(m.to) ? m.to : [], receivedAt: m.receivedAt ?? '' });
+      const m = JSON.parse(line) as { subject?: string; text?: string; html?: string; to?: string[]; receivedAt?: string };
+      rows.push({ subject: m.subject ?? '', text: m.text ?? '', html: m.html ?? '', to: Array.isArray(m.to) ? m.to : [], receivedAt: m.receivedAt ?? '' });
     } catch {
       continue;
     }

@@ -8,8 +8,8 @@ describe('parseOutbox', () => {
       '{"id": "3", "recei',
     ].join('\n');
     expect(parseOutbox(lines)).toEqual([
-      { subject: 'second', text: 'two', to: ['y@t'], receivedAt: '2026-01-01T11:00:00.000Z' },
-      { subject: 'first', text: 'one', to: ['x@t'], receivedAt: '2026-01-01T10:00:00.000Z' },
+      { subject: 'second', text: 'two', html: '', to: ['y@t'], receivedAt: '2026-01-01T11:00:00.000Z' },
+      { subject: 'first', text: 'one', html: '', to: ['x@t'], receivedAt: '2026-01-01T10:00:00.000Z' },
     ]);
     expect(parseOutbox('')).toEqual([]);
   });

@@ -28,7 +28,22 @@ class FakeStore extends PublicationsStore {
   async listMembers(): Promise<UserEntity[]> {
     return [];
   }
-  async setLengthUnit(): Promise<void> {
+  async listMembersWithRoles(): Promise<never> {
+    throw new Error('not used');
+  }
+  async memberRole(publicationId: string, userId: string) {
+    return this.members.has(`${publicationId}|${userId}`) ? ('editor' as const) : null;
+  }
+  async membershipsOf(): Promise<never> {
+    throw new Error('not used');
+  }
+  async page(): Promise<never> {
+    throw new Error('not used');
+  }
+  async memberCount(): Promise<never> {
+    throw new Error('not used');
+  }
+  async transaction(): Promise<never> {
     throw new Error('not used');
   }
 }
@@ -50,6 +65,12 @@ describe('MembershipService', () => {
     await expect(svc.requireAccess(member, 'b')).rejects.toBeInstanceOf(NotFoundException);
     await expect(svc.requireAccess(admin, 'b')).resolves.toMatchObject({ id: 'b' });
     await expect(svc.requireAccess(admin, 'zzz')).rejects.toThrow('publication zzz not found');
+  });
+
+  it('roleIn: the membership role for members, admin for admins, null for others', async () => {
+    expect(await svc.roleIn(member, 'a')).toBe('editor');
+    expect(await svc.roleIn(member, 'b')).toBeNull();
+    expect(await svc.roleIn(admin, 'b')).toBe('admin');
   });
 
   it('canAccess mirrors requireAccess', async () => {

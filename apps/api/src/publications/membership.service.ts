@@ -68,6 +68,15 @@ export class MembershipService {
     throw new NotFoundException(`publication ${publicationId} not found`);
   }
 
+  /**
+   * The user's role in the publication (set per membership by an admin; defaults to the user's own role), or null
+   * for non-members. Admins act as admins everywhere. Notices to "the publication's editors" go by this role.
+   */
+  async roleIn(user: Pick<UserDto, 'id' | 'role'>, publicationId: string): Promise<Role | null> {
+    if (user.role === 'admin') return 'admin';
+    return this.store.memberRole(publicationId, user.id);
+  }
+
   /** The publication itself, without an access check (for rules between resources, not for answering callers). */
   findPublication(id: string): Promise<PublicationEntity | null> {
     return this.store.findById(id);

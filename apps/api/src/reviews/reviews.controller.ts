@@ -1,8 +1,8 @@
-import { Body, Controller, Get, HttpCode, Param, Post } from '@nestjs/common';
+import { Body, Controller, Get, HttpCode, Param, Post, Query } from '@nestjs/common';
 import type { CommentDto, ReviewDeskItemDto, ReviewTransitionDto, UserDto } from '@psiform/contracts';
 import { CurrentUser, Roles } from '../auth/auth.decorators';
 import { uuidParam } from '../common/uuid-param.pipe';
-import { CommentBody, OptionalNoteBody, ApproveBody, RequestChangesBody } from './reviews.dto';
+import { CommentBody, OptionalNoteBody, ApproveBody, RequestChangesBody, ReviewDeskQuery } from './reviews.dto';
 import { ReviewsService } from './reviews.service';
 import { REVIEW_TRANSITIONS as T } from '@psiform/server';
 
@@ -61,10 +61,10 @@ export class ReviewsController {
 export class ReviewDeskController {
   constructor(private readonly reviews: ReviewsService) {}
 
-  /** Proofs in review in the caller's publications, oldest first. */
+  /** Proofs in the caller's publications (in review unless ?state= says otherwise), oldest first; filtered by publication and age. */
   @Get()
   @Roles('editor', 'art_director', 'admin')
-  list(@CurrentUser() user: UserDto): Promise<ReviewDeskItemDto[]> {
-    return this.reviews.reviewDesk(user);
+  list(@CurrentUser() user: UserDto, @Query() query: ReviewDeskQuery): Promise<ReviewDeskItemDto[]> {
+    return this.reviews.reviewDesk(user, query);
   }
 }

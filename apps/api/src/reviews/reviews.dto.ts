@@ -1,6 +1,6 @@
 import { Transform, Type } from 'class-transformer';
-import { IsDefined, IsNotEmpty, IsNumber, IsObject, IsString, IsUUID, Max, MaxLength, Min, ValidateNested, type ValidationArguments } from 'class-validator';
-import { TEXT_LIMITS, textProblem } from '@psiform/contracts';
+import { DESK_STATES, TEXT_LIMITS, textProblem, type DeskState } from '@psiform/contracts';
+import { IsDefined, IsIn, IsNotEmpty, IsNumber, IsObject, IsOptional, IsString, IsUUID, Max, MaxLength, Min, ValidateNested, type ValidationArguments } from 'class-validator';
 import { OptionalNotNull } from '../common/validation';
 
 const trim = ({ value }: { value: unknown }) => (typeof value === 'string' ? value.trim() : value);
@@ -62,4 +62,22 @@ export class CommentBody {
   @ValidateNested()
   @Type(() => PinBody)
   pin?: PinBody;
+}
+
+/** Review desk filters: one publication, a proof state, and how long a proof has waited at least. */
+export class ReviewDeskQuery {
+  @IsOptional()
+  @IsUUID('all', { message: 'publicationId must be a UUID' })
+  publicationId?: string;
+
+  @IsOptional()
+  @IsIn(DESK_STATES as readonly string[], { message: `state must be one of: ${DESK_STATES.join(', ')}` })
+  state?: DeskState;
+
+  @IsOptional()
+  @Type(() => Number)
+  @IsNumber({ allowNaN: false, allowInfinity: false }, { message: 'minAgeHours must be a number of hours' })
+  @Min(0, { message: 'minAgeHours must be 0 or more' })
+  @Max(100_000, { message: 'minAgeHours must be at most 100000' })
+  minAgeHours?: number;
 }

@@ -1,6 +1,6 @@
 import { BadRequestException, ConflictException, ForbiddenException, NotFoundException } from '@nestjs/common';
 import type { FigureStatus, MailNoticeJob, UserDto } from '@psiform/contracts';
-import { ConflictError, type FigureEntity, type FigureVersionEntity, type NewAuditEntry, ReviewsStore, type HouseRules, type ReviewTx, type ReviewRoundEntity, type CommentEntity, type PublicationsStore } from '@psiform/server';
+import { ConflictError, type AppConfig, type FigureEntity, type FigureVersionEntity, type NewAuditEntry, ReviewsStore, type HouseRules, type ReviewTx, type ReviewRoundEntity, type CommentEntity, type PublicationsStore } from '@psiform/server';
 import { MembershipService } from '../publications/membership.service';
 import type { DeliveryProfilesService } from '../delivery-profiles/delivery-profiles.service';
 import { ReviewsService } from './reviews.service';
@@ -87,9 +87,6 @@ class FakeStore extends ReviewsStore {
   async reviewDesk() {
     return [];
   }
-  async recordAudit(e: NewAuditEntry) {
-    this.audit.push(e);
-  }
 }
 
 function setup(members = ['ill', 'ed', 'ad'], failures: string[] = []) {
@@ -100,7 +97,8 @@ function setup(members = ['ill', 'ed', 'ad'], failures: string[] = []) {
     findById: async (id: string) => ({ id, publisher: 'P' }),
     isMember: async (_p: string, userId: string) => members.includes(userId),
   } as unknown as PublicationsStore);
-  return { store, sent: store.notices, svc: new ReviewsService(store, membership, { preflightOf: async () => preflight } as unknown as DeliveryProfilesService) };
+  const config = { http: { publicBaseUrl: 'https://figures.example.org' } } as Pick<AppConfig, 'http'>;
+  return { store, sent: store.notices, svc: new ReviewsService(store, membership, { preflightOf: async () => preflight } as unknown as DeliveryProfilesService, config) };
 }
 
 describe('ReviewsService', () => {
@@ -148,6 +146,7 @@ describe('ReviewsService', () => {
     expect(store.rounds[0]).toMatchObject({ outcome: 'changes_requested' });
     expect(sent[1]).toMatchObject({ to: ['ill@x.test'], subject: 'Changes requested on "Figure 1.1 1s"' });
     expect(sent[1].text).toContain('Lighten the negative lobe');
+    expect(sent[1].text).toContain('Open the proof: https://figures.example.org/figures/f1/proof');
   });
 
   it('with colour sign-off required: editor approval waits; the second approval is 409; sign-off completes it', async () => {

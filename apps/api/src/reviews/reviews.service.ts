@@ -1,8 +1,8 @@
-import { BadRequestException, Injectable, NotFoundException } from '@nestjs/common';
-import type { CommentDto, FigureStatus, MailNoticeJob, ReviewAction, ReviewDeskItemDto, ReviewTransitionDto, UserDto } from '@psiform/contracts';
+import { BadRequestException, ConflictException, ForbiddenException, Inject, Injectable, NotFoundException } from '@nestjs/common';
+import type { CommentDto, DeskState, FigureStatus, MailNoticeJob, ReviewAction, ReviewDeskItemDto, ReviewTransitionDto, UserDto } from '@psiform/contracts';
 import { MembershipService, guarded } from '../publications/membership.service';
-import { approvedNotice, changesRequestedNotice, submittedNotice, type NoticeFigure } from '../mail-notices/compose';
-import { type FigureEntity, ReviewsStore, type ReviewTx, approvalOutcome, assertTransition, TransitionConflict, type ApprovalPart, type CommentEntity } from '@psiform/server';
+import { approvedNotice, changesRequestedNotice, proofUrl, submittedNotice, type NoticeFigure } from '../mail-notices/compose';
+import { APP_CONFIG, type AppConfig, type FigureEntity, ReviewsStore, type ReviewTx, approvalOutcome, assertTransition, TransitionConflict, type ApprovalPart, type CommentEntity } from '@psiform/server';
 import { DeliveryProfilesService } from '../delivery-profiles/delivery-profiles.service';
 import { decideGate, type GateDecision } from '../gates/gate';
 
@@ -32,6 +32,7 @@ export class ReviewsService {
     private readonly store: ReviewsStore,
     private readonly membership: MembershipService,
     private readonly preflight: DeliveryProfilesService,
+    @Inject(APP_CONFIG) private readonly config: Pick<AppConfig, 'http'>,
   ) {}
 
   /** The figure for members of its publication (admins: all); 404 otherwise. */
@@ -154,7 +155,7 @@ export class ReviewsService {
   /** The notice of a step (null when nobody is to hear of it). */
   private async composeNotice(f: FigureEntity, dto: ReviewTransitionDto, plan: NoticePlan): Promise<MailNoticeJob | null> {
     const [publicationTitle, by] = await Promise.all([this.store.publicationTitle(f.publicationId), this.store.userInfo(plan.actor.id)]);
-    const nf: NoticeFigure = { title: f.title, publicationTitle, versionNumber: dto.versionNumber };
+    const nf: NoticeFigure = { title: f.title, publicationTitle, versionNumber: dto.versionNumber, proofUrl: proofUrl(this.config.http.publicBaseUrl, f.id) };
     const byName = by?.displayName ?? 'Someone';
     let mail: MailNoticeJob;
     if (plan.who === 'editors') mail = submittedNotice(await this.store.editorEmails(f.publicationId), nf, byName);
@@ -189,14 +190,23 @@ export class ReviewsService {
 
   // ---- review desk -----------------------------------------------------------------------------------
 
-  async reviewDesk(user: Caller, now = new Date()): Promise<ReviewDeskItemDto[]> {
-    const pubs = user.role === 'admin' ? 'all' : (await this.membership.visiblePublications(user)).map((p) => p.id);
-    const rows = await this.store.reviewDesk(pubs);
-    return rows.map(({ figure, publicationTitle, round, submitterName, requireColourSignOff }) => {
+  /**
+   * The desk: proofs in the caller's publications in one state (in review by default), narrowed to one publication
+   * (404 unless the caller may see it) and to those that have waited at least minAgeHours.
+   */
+  async reviewDesk(user: Caller, filter: { publicationId?: string; state?: DeskState; minAgeHours?: number } = {}, now = new Date()): Promise<ReviewDeskItemDto[]> {
+    let pubs: string[] | 'all' = user.role === 'admin' ? 'all' : (await this.membership.visiblePublications(user)).map((p) => p.id);
+    if (filter.publicationId) {
+      await this.membership.requireAccess(user, filter.publicationId);
+      pubs = [filter.publicationId];
+    }
+    const rows = await this.store.reviewDesk(pubs, [filter.state ?? 'in_review']);
+    const items = rows.map(({ figure, publicationTitle, round, submitterName, requireColourSignOff }) => {
       const submittedAt = round?.submittedAt ?? figure.updatedAt;
       return {
         figureId: figure.id,
         title: figure.title,
+        status: figure.status,
         publicationId: figure.publicationId,
         publicationTitle,
         versionNumber: figure.currentVersion,
@@ -208,6 +218,7 @@ export class ReviewsService {
         requireColourSignOff,
       };
     });
+    return filter.minAgeHours === undefined ? items : items.filter((i) => i.ageHours >= filter.minAgeHours!);
   }
 }
 

@@ -37,7 +37,7 @@ export async function runSeed(ds: DataSource): Promise<SeedSummary> {
       const m = await members
         .createQueryBuilder()
         .insert()
-        .values({ publicationId: DEMO_PUBLICATION.id, userId: row.id })
+        .values({ publicationId: DEMO_PUBLICATION.id, userId: row.id, role: row.role })
         .orIgnore()
         .execute();
       summary.membershipsAdded += (m.raw as unknown[]).length;

@@ -1,21 +1,193 @@
-import { Injectable } from '@nestjs/common';
-import type { CreateUserRequest, UserDto } from '@psiform/contracts';
-import { DuplicateEmailError, UsersStore, toUserDto } from '@psiform/server';
+import { BadRequestException, ConflictException, Inject, Injectable, NotFoundException } from '@nestjs/common';
+import {
+  ADMIN_PAGE_SIZE,
+  ROLE_LABELS,
+  type CreateUserRequest,
+  type InviteUserRequest,
+  type LinkPurpose,
+  type Page,
+  type UpdateUserRequest,
+  type UserAdminDto,
+  type UserDto,
+  type UserMembershipDto,
+} from '@psiform/contracts';
+import {
+  APP_CONFIG,
+  type AppConfig,
+  DuplicateEmailError,
+  enqueueIn,
+  PublicationsStore,
+  UsersStore,
+  toUserDto,
+  userState,
+  type UserEntity,
+  type UsersTx,
+} from '@psiform/server';
+import { linkMail } from '../mail-notices/compose';
 import { hashPassword } from './password';
+import { linkExpiry, newLinkToken, setPasswordUrl } from './links';
+import type { ListUsersQuery } from './users.dto';
 
+type Caller = Pick<UserDto, 'id' | 'role'>;
+
+const duplicate = (email: string) => new ConflictException(`email: ${email} is already registered`);
+
+/**
+ * Accounts, as an admin runs them: create or invite (the invitation mail carries a one-time link), change role or
+ * name, deactivate (every token stops at once) and reactivate, send a password reset. Each change and its audit
+ * entry are one transaction, and so is its mail (an outbox row: sent exactly when the change commits).
+ */
 @Injectable()
 export class UsersService {
-  constructor(private readonly store: UsersStore) {}
+  constructor(
+    private readonly store: UsersStore,
+    private readonly publications: PublicationsStore,
+    @Inject(APP_CONFIG) private readonly config: AppConfig,
+  ) {}
 
-  async create(req: CreateUserRequest): Promise<UserDto> {
+  /** An account with a password chosen by the admin (scripts and tests); the invitation is the usual way. */
+  async create(actor: Caller, req: CreateUserRequest): Promise<UserDto> {
     const email = req.email.trim().toLowerCase();
-    if (await this.store.findByEmail(email)) throw new DuplicateEmailError(email);
-    // A concurrent insert of the same email makes the store throw DuplicateEmailError too (409 through the filter).
-    const user = await this.store.insert({ email, displayName: req.displayName, role: req.role, passwordHash: await hashPassword(req.password) });
+    if (await this.store.findByEmail(email)) throw duplicate(email);
+    const passwordHash = await hashPassword(req.password);
+    const user = await this.inTx(email, async (tx) => {
+      const u = await tx.insert({ email, displayName: req.displayName, role: req.role, passwordHash });
+      await tx.audit({ subjectKind: 'user', subjectId: u.id, actorId: actor.id, action: 'user_create', note: `created as ${ROLE_LABELS[u.role].toLowerCase()} with a password set by an administrator` });
+      return u;
+    });
     return toUserDto(user);
   }
 
-  async list(): Promise<UserDto[]> {
-    return (await this.store.findAll()).map(toUserDto);
+  async invite(actor: Caller, req: InviteUserRequest): Promise<UserAdminDto> {
+    const email = req.email.trim().toLowerCase();
+    if (await this.store.findByEmail(email)) throw duplicate(email);
+    const { token, hash } = newLinkToken();
+    const user = await this.inTx(email, async (tx) => {
+      const u = await tx.insert({ email, displayName: req.displayName, role: req.role, passwordHash: null });
+      await tx.addLink({ userId: u.id, purpose: 'invite', tokenHash: hash, expiresAt: linkExpiry('invite'), createdBy: actor.id });
+      await tx.audit({ subjectKind: 'user', subjectId: u.id, actorId: actor.id, action: 'user_invite', note: `invited as ${ROLE_LABELS[u.role].toLowerCase()}` });
+      await this.mailLink(tx, 'invite', u, token, actor);
+      return u;
+    });
+    return this.get(user.id);
   }
+
+  /** A fresh invitation link (the older one stops working). Only for accounts still waiting for their first password. */
+  async resendInvitation(actor: Caller, id: string): Promise<UserAdminDto> {
+    const { token, hash } = newLinkToken();
+    const user = await this.store.transaction(async (tx) => {
+      const u = await tx.lock(id);
+      if (!u) throw new NotFoundException(`user ${id} not found`);
+      const state = userState(u);
+      if (state === 'deactivated') throw new ConflictException('this account is deactivated: reactivate it first');
+      if (state === 'active') throw new ConflictException('this person has already chosen a password: send a password reset instead');
+      await tx.addLink({ userId: u.id, purpose: 'invite', tokenHash: hash, expiresAt: linkExpiry('invite'), createdBy: actor.id });
+      await tx.audit({ subjectKind: 'user', subjectId: u.id, actorId: actor.id, action: 'invite_resend', note: 'a new invitation link was sent; the earlier one no longer works' });
+      await this.mailLink(tx, 'invite', u, token, actor);
+      return u;
+    });
+    return this.get(user.id);
+  }
+
+  /** An admin sends a password-reset link to an active account. */
+  async sendPasswordReset(actor: Caller, id: string): Promise<UserAdminDto> {
+    const { token, hash } = newLinkToken();
+    const user = await this.store.transaction(async (tx) => {
+      const u = await tx.lock(id);
+      if (!u) throw new NotFoundException(`user ${id} not found`);
+      const state = userState(u);
+      if (state === 'deactivated') throw new ConflictException('this account is deactivated: reactivate it first');
+      if (state === 'invited') throw new ConflictException('this person has not chosen a password yet: send the invitation again instead');
+      await tx.addLink({ userId: u.id, purpose: 'reset', tokenHash: hash, expiresAt: linkExpiry('reset'), createdBy: actor.id });
+      await tx.audit({ subjectKind: 'user', subjectId: u.id, actorId: actor.id, action: 'reset_sent', note: 'a password-reset link was sent by an administrator' });
+      await this.mailLink(tx, 'reset', u, token, actor);
+      return u;
+    });
+    return this.get(user.id);
+  }
+
+  async list(query: ListUsersQuery): Promise<Page<UserAdminDto>> {
+    const page = query.page ?? 1;
+    const pageSize = query.pageSize ?? ADMIN_PAGE_SIZE.default;
+    const { rows, total } = await this.store.page({
+      q: query.q || undefined,
+      role: query.role,
+      state: query.state,
+      sort: query.sort ?? 'displayName',
+      order: query.order ?? 'asc',
+      page,
+      pageSize,
+    });
+    const memberships = await this.membershipsOf(rows.map((r) => r.user.id));
+    return { items: rows.map((r) => toAdminDto(r.user, r.lastLinkSentAt, memberships.get(r.user.id) ?? [])), total, page, pageSize };
+  }
+
+  async get(id: string): Promise<UserAdminDto> {
+    const user = await this.store.findById(id);
+    if (!user) throw new NotFoundException(`user ${id} not found`);
+    const [last, memberships] = await Promise.all([this.store.lastLinkSentAt(id), this.membershipsOf([id])]);
+    return toAdminDto(user, last, memberships.get(id) ?? []);
+  }
+
+  async update(actor: Caller, id: string, req: UpdateUserRequest): Promise<UserAdminDto> {
+    if (req.displayName === undefined && req.role === undefined && req.active === undefined) {
+      throw new BadRequestException(['displayName, role or active is required']);
+    }
+    await this.store.transaction(async (tx) => {
+      const u = await tx.lock(id);
+      if (!u) throw new NotFoundException(`user ${id} not found`);
+      // An admin cannot lock themselves out; so at least one active admin always remains.
+      if (u.id === actor.id && req.active === false) throw new ConflictException('active: you cannot deactivate your own account');
+      if (u.id === actor.id && req.role !== undefined && req.role !== u.role) throw new ConflictException('role: you cannot change your own role');
+      const audit = (action: string, note: string) => tx.audit({ subjectKind: 'user', subjectId: u.id, actorId: actor.id, action, note });
+      if (req.displayName !== undefined && req.displayName !== u.displayName) {
+        await tx.update(u.id, { displayName: req.displayName });
+        await audit('user_rename', `name "${u.displayName}" → "${req.displayName}"`);
+      }
+      if (req.role !== undefined && req.role !== u.role) {
+        await tx.update(u.id, { role: req.role });
+        await audit('user_role', `role ${ROLE_LABELS[u.role].toLowerCase()} → ${ROLE_LABELS[req.role].toLowerCase()}`);
+      }
+      if (req.active === false && u.active) {
+        await tx.update(u.id, { active: false, tokensValidAfter: new Date() });
+        await audit('user_deactivate', 'deactivated: sign-in refused and every session ended');
+      }
+      if (req.active === true && !u.active) {
+        // Tokens from before the deactivation stay refused (tokensValidAfter is kept).
+        await tx.update(u.id, { active: true });
+        await audit('user_reactivate', 'reactivated: may sign in again');
+      }
+    });
+    return this.get(id);
+  }
+
+  private async inTx<T>(email: string, fn: (tx: UsersTx) => Promise<T>): Promise<T> {
+    try {
+      return await this.store.transaction(fn);
+    } catch (err) {
+      // Lost a race with a concurrent insert of the same email.
+      if (err instanceof DuplicateEmailError) throw duplicate(email);
+      throw err;
+    }
+  }
+
+  /** The link's mail as an outbox row in the transaction that made the link. */
+  private async mailLink(tx: UsersTx, purpose: LinkPurpose, user: UserEntity, token: string, actor: Caller | null): Promise<void> {
+    const by = actor ? await this.store.findById(actor.id) : null;
+    await enqueueIn(tx.manager, { name: 'notice', data: linkMail(purpose, user.email, { displayName: user.displayName, invitedBy: by?.displayName ?? null, url: setPasswordUrl(this.config.http.publicBaseUrl, token) }) });
+  }
+
+  private async membershipsOf(userIds: string[]): Promise<Map<string, UserMembershipDto[]>> {
+    const out = new Map<string, UserMembershipDto[]>();
+    for (const m of await this.publications.membershipsOf(userIds)) {
+      const list = out.get(m.userId) ?? [];
+      list.push({ publicationId: m.publicationId, publicationTitle: m.publicationTitle, role: m.role });
+      out.set(m.userId, list);
+    }
+    return out;
+  }
+}
+
+function toAdminDto(u: UserEntity, lastLinkSentAt: Date | null, memberships: UserMembershipDto[]): UserAdminDto {
+  return { ...toUserDto(u), state: userState(u), lastLinkSentAt: lastLinkSentAt ? new Date(lastLinkSentAt).toISOString() : null, memberships };
 }

@@ -14,16 +14,20 @@ describe('route guards', () => {
   });
 
   it('returns to the page first asked for after signing in', async () => {
-    // /people is a place not built yet (the Composer now is): its honest panel proves we landed there.
+    // /people (an admin page) proves we landed where we first asked: its invitation form shows.
     const me = user('admin');
-    mockFetch({ 'POST /api/auth/login': () => json(201, { accessToken: 'tok-1', user: me }), ...signedInRoutes(me) });
+    mockFetch({
+      'POST /api/auth/login': () => json(201, { accessToken: 'tok-1', user: me }),
+      ...signedInRoutes(me),
+      'GET /api/users': () => json(200, { items: [], total: 0, page: 1, pageSize: 25 }),
+    });
     renderApp('/people');
     const u = userEvent.setup();
     await u.type(await screen.findByLabelText('Email'), me.email);
     await u.type(screen.getByLabelText('Password'), 'a-long-password');
     await u.click(screen.getByRole('button', { name: 'Sign in' }));
     await waitFor(() => expect(screen.getByTestId('location').textContent).toBe('/people'));
-    expect(screen.getByTestId('coming-later').textContent).toContain('Coming in a later release');
+    expect(await screen.findByTestId('people-page')).toBeTruthy();
   });
 
   it('shows a 403-style message when the role may not open the page, and keeps the URL', async () => {

@@ -5,14 +5,14 @@ import { Link } from 'react-router-dom';
 import { FIGURE_STATUSES, type FigureStatus, type FigureSummaryDto } from '@psiform/contracts';
 import { type FigureListParams, type FigureSortKey } from '../api/client';
 import { useApi } from '../auth/AuthProvider';
+import { Pager, SortHeader, nextSort, useDebounced, SEARCH_DEBOUNCE_MS } from '../components/TableParts';
 import { formatDate, statusLabel } from './model';
 import { Typeset } from '../components/Typeset';
 import { plainLabel } from '@psiform/print';
 import { QueryStatus } from '../components/QueryStatus';
 
 export const PAGE_SIZE = 25;
-/** Typing pauses this long before the search is sent. */
-export const SEARCH_DEBOUNCE_MS = 300;
+export { SEARCH_DEBOUNCE_MS };
 
 const COLUMNS: { key: string; label: string; sort?: FigureSortKey }[] = [
   { key: 'thumbnail', label: 'Preview' },
@@ -23,15 +23,6 @@ const COLUMNS: { key: string; label: string; sort?: FigureSortKey }[] = [
   { key: 'version', label: 'Version', sort: 'versionNumber' },
   { key: 'updated', label: 'Updated', sort: 'updatedAt' },
 ];
-
-function useDebounced<T>(value: T, ms: number): T {
-  const [v, setV] = useState(value);
-  useEffect(() => {
-    const t = setTimeout(() => setV(value), ms);
-    return () => clearTimeout(t);
-  }, [value, ms]);
-  return v;
-}
 
 export function statusIntent(s: FigureStatus | string) {
   switch (s) {
@@ -102,20 +93,14 @@ export function FiguresTable({ publicationId, pageSize = PAGE_SIZE }: { publicat
   });
 
   const total = figures.data?.total ?? 0;
-  const pages = Math.max(1, Math.ceil(total / pageSize));
   const items = figures.data?.items ?? [];
 
   function toggleSort(key: FigureSortKey) {
-    if (sort === key) setOrder(order === 'asc' ? 'desc' : 'asc');
-    else {
-      setSort(key);
-      setOrder(key === 'updatedAt' || key === 'versionNumber' ? 'desc' : 'asc');
-    }
+    const next = nextSort({ sort, order }, key, ['updatedAt', 'versionNumber']);
+    setSort(next.sort);
+    setOrder(next.order);
     setPage(1);
   }
-
-  const first = total === 0 ? 0 : (page - 1) * pageSize + 1;
-  const last = Math.min(total, page * pageSize);
 
   return (
     <section className="pf-figures" aria-label="Figures">
@@ -161,32 +146,15 @@ export function FiguresTable({ publicationId, pageSize = PAGE_SIZE }: { publicat
           <HTMLTable className="pf-table" striped interactive data-testid="figures-table">
             <thead>
               <tr>
-                {COLUMNS.map((c) => {
-                  const active = c.sort && sort === c.sort;
-                  return (
-                    <th
-                      key={c.key}
-                      scope="col"
-                      aria-sort={active ? (order === 'asc' ? 'ascending' : 'descending') : undefined}
-                    >
-                      {c.sort ? (
-                        <button
-                          type="button"
-                          className={active ? 'pf-sort pf-sort-active' : 'pf-sort'}
-                          onClick={() => toggleSort(c.sort!)}
-                          data-testid={`sort-${c.sort}`}
-                        >
-                          {c.label}
-                          <span aria-hidden="true" className="pf-sort-mark">
-                            {active ? (order === 'asc' ? '▲' : '▼') : '↕'}
-                          </span>
-                        </button>
-                      ) : (
-                        c.label
-                      )}
+                {COLUMNS.map((c) =>
+                  c.sort ? (
+                    <SortHeader key={c.key} label={c.label} sortKey={c.sort} state={{ sort, order }} onSort={toggleSort} />
+                  ) : (
+                    <th key={c.key} scope="col">
+                      {c.label}
                     </th>
-                  );
-                })}
+                  ),
+                )}
               </tr>
             </thead>
             <tbody>
@@ -213,27 +181,7 @@ export function FiguresTable({ publicationId, pageSize = PAGE_SIZE }: { publicat
               ))}
             </tbody>
           </HTMLTable>
-          <div className="pf-pager">
-            <Button
-              icon="chevron-left"
-              text="Previous"
-              variant="minimal"
-              disabled={page <= 1}
-              onClick={() => setPage((p) => Math.max(1, p - 1))}
-              data-testid="figures-prev"
-            />
-            <span data-testid="figures-page-info">
-              {first}–{last} of {total} · page {page} of {pages}
-            </span>
-            <Button
-              endIcon="chevron-right"
-              text="Next"
-              variant="minimal"
-              disabled={page >= pages}
-              onClick={() => setPage((p) => Math.min(pages, p + 1))}
-              data-testid="figures-next"
-            />
-          </div>
+          <Pager page={page} pageSize={pageSize} total={total} onPage={setPage} testIdPrefix="figures" />
         </>
       )}
     </section>

@@ -2,14 +2,14 @@ import { screen, waitFor, within } from '@testing-library/react';
 import userEvent from '@testing-library/user-event';
 import { ROLES, type Role } from '@psiform/contracts';
 import { SESSION_STORAGE_KEY } from '../auth/session';
-import { mockFetch, renderApp, signedInRoutes, storeSession, user } from '../test/utils';
+import { json, mockFetch, renderApp, signedInRoutes, storeSession, user } from '../test/utils';
 import { navItemsFor } from './navigation';
 
 const EXPECTED: Record<Role, string[]> = {
   illustrator: ['Publications', 'Library', 'Composer', 'Figure sets'],
   editor: ['Publications', 'Library', 'Review desk'],
   art_director: ['Publications', 'Library', 'Review desk', 'Swatchbooks'],
-  admin: ['Publications', 'People'],
+  admin: ['Publications', 'People', 'Manage publications'],
 };
 
 describe('role-based navigation', () => {
@@ -45,24 +45,24 @@ describe('role-based navigation', () => {
     expect(within(nav).getByTestId('nav-composer').textContent).toBe('Composer');
   });
 
-  it('marks the admin place that is not built yet', async () => {
+  it('every place is built now: the admin places carry no "later" mark', async () => {
     const me = user('admin');
     mockFetch(signedInRoutes(me));
     storeSession(me);
     renderApp('/publications');
     const nav = await screen.findByTestId('main-nav');
-    expect(within(nav).getByTestId('nav-people').textContent).toBe('Peoplelater');
+    expect(within(nav).getByTestId('nav-people').textContent).toBe('People');
+    expect(within(nav).getByTestId('nav-manage/publications').textContent).toBe('Manage publications');
   });
 
-  it('follows a link to an unbuilt page and shows the honest panel', async () => {
+  it('follows the People link to the People page', async () => {
     const me = user('admin');
-    mockFetch(signedInRoutes(me));
+    mockFetch({ ...signedInRoutes(me), 'GET /api/users': () => json(200, { items: [], total: 0, page: 1, pageSize: 25 }) });
     storeSession(me);
     renderApp('/publications');
     await userEvent.setup().click(await screen.findByRole('link', { name: /People/ }));
-    const panel = await screen.findByTestId('coming-later');
-    expect(panel.textContent).toContain('Coming in a later release');
-    expect(panel.textContent).toContain('memberships');
+    expect(await screen.findByTestId('people-page')).toBeTruthy();
+    expect(screen.queryByTestId('coming-later')).toBeNull();
     expect(screen.getByTestId('location').textContent).toBe('/people');
   });
 

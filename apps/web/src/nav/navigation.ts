@@ -67,8 +67,16 @@ export const NAV_ITEMS: readonly NavItem[] = [
     label: 'People',
     icon: 'people',
     roles: ['admin'],
-    ready: false,
+    ready: true,
     purpose: 'Accounts, roles and publication memberships.',
+  },
+  {
+    path: '/manage/publications',
+    label: 'Manage publications',
+    icon: 'manual',
+    roles: ['admin'],
+    ready: true,
+    purpose: 'Create and edit publications, and choose who works on each and in which role.',
   },
 ];
 
@@ -92,6 +100,7 @@ export const SUB_ROUTES: readonly SubRoute[] = [
   // Everyone may read swatchbooks and house styles; only art directors change them (the server enforces it).
   { path: '/swatchbooks/:swatchbookId', label: 'Swatchbook', roles: ROLES },
   { path: '/publications/:publicationId/house-style', label: 'House style', roles: ROLES },
+  { path: '/manage/publications/:publicationId', label: 'Manage publication', roles: ['admin'] },
   // Every member reads the delivery profile; art directors (and admins) set it (the server enforces it).
   { path: '/publications/:publicationId/delivery-profile', label: 'Delivery profile', roles: ROLES },
 ];

@@ -1,13 +1,16 @@
 import { useState, type FormEvent } from 'react';
 import { Button, Callout, FormGroup, InputGroup } from '@blueprintjs/core';
 import { useMutation } from '@tanstack/react-query';
-import { Navigate, useLocation, useNavigate } from 'react-router-dom';
+import { Link, Navigate, useLocation, useNavigate } from 'react-router-dom';
 import { describeError } from '../api/client';
 import { useAuth } from '../auth/AuthProvider';
 import { Wordmark } from '../components/Wordmark';
 
 interface FromState {
   from?: string;
+  /** Set by the set-password page: the address to sign in with, and what just happened. */
+  email?: string;
+  notice?: string;
 }
 
 function destination(state: unknown): string {
@@ -20,7 +23,8 @@ export function SignInPage() {
   const { user, signIn, lastSignOut } = useAuth();
   const navigate = useNavigate();
   const location = useLocation();
-  const [email, setEmail] = useState('');
+  const arrived = (location.state as FromState | null) ?? {};
+  const [email, setEmail] = useState(typeof arrived.email === 'string' ? arrived.email : '');
   const [password, setPassword] = useState('');
   const [fieldError, setFieldError] = useState<string | null>(null);
 
@@ -53,6 +57,11 @@ export function SignInPage() {
         </h1>
         <p className="pf-muted">Orbital figures for print and screen, from composition to approved proof.</p>
 
+        {typeof arrived.notice === 'string' && !error && (
+          <Callout intent="success" compact className="pf-gap" data-testid="signin-arrived">
+            {arrived.notice}
+          </Callout>
+        )}
         {lastSignOut === 'expired' && !error && (
           <Callout intent="warning" compact className="pf-gap" data-testid="signin-notice">
             Your session has ended. Sign in again to continue.
@@ -99,6 +108,11 @@ export function SignInPage() {
           text="Sign in"
           data-testid="signin-submit"
         />
+        <p className="pf-gap pf-small">
+          <Link to="/forgot-password" data-testid="signin-forgot">
+            Forgot your password?
+          </Link>
+        </p>
       </form>
     </main>
   );

@@ -1,7 +1,6 @@
 import type { KeyboardEvent, MouseEvent } from 'react';
 import { Callout, NonIdealState, Spinner } from '@blueprintjs/core';
 import { useQuery } from '@tanstack/react-query';
-import type { AssetDto } from '@psiform/contracts';
 import { describeError } from '../api/client';
 import { useApi } from '../auth/AuthProvider';
 
@@ -14,6 +13,9 @@ export interface NumberedPin extends Pin {
   n: number;
 }
 
+/** 'fit': the whole image in the column; 'pixels': one image pixel per device pixel (1:1 print pixels). */
+export type ProofZoom = 'fit' | 'pixels';
+
 const clamp01 = (v: number) => Math.min(1, Math.max(0, v));
 
 /** Where a click fell on the element, as fractions (0..1) of its width and height from the top left. */
@@ -24,18 +26,24 @@ export function pinFromClick(e: MouseEvent<HTMLElement>): Pin | null {
   return { x: round((e.clientX - r.left) / r.width), y: round((e.clientY - r.top) / r.height) };
 }
 
-/**
- * The rendered proof (PNG asset, through a presigned link). A click places the pending pin; saved pins
- * are numbered markers in the order of the comments that carry them.
- */
-export function ProofImage({ asset, pins, pending, onPlace }: { asset: AssetDto; pins: NumberedPin[]; pending: Pin | null; onPlace(pin: Pin): void }) {
+/** CSS width that shows `widthPx` image pixels on as many device pixels (CSS px = device px / devicePixelRatio). */
+export function onePixelWidth(widthPx: number, devicePixelRatio: number): number {
+  return widthPx / (devicePixelRatio > 0 ? devicePixelRatio : 1);
+}
+
+/** The presigned link of an image asset (short-lived; refreshed on remount). */
+export function useAssetUrl(assetId: string) {
   const api = useApi();
-  const link = useQuery({
-    queryKey: ['asset-link', asset.id],
-    queryFn: ({ signal }) => api.assetLink(asset.id, signal),
-    staleTime: 30_000,
-    gcTime: 30_000,
-  });
+  return useQuery({ queryKey: ['asset-link', assetId], queryFn: ({ signal }) => api.assetLink(assetId, signal), staleTime: 30_000, gcTime: 30_000, enabled: assetId !== '' });
+}
+
+/**
+ * The rendered proof (PNG asset, through a presigned link). A click places the pending pin; saved pins are numbered
+ * markers in the order of the comments that carry them. At zoom 'pixels' the image is shown at 1:1 print pixels
+ * inside a scrolling frame; pins keep their places (they are fractions of the image).
+ */
+export function ProofImage({ assetId, widthPx, zoom = 'fit', pins, pending, onPlace }: { assetId: string; widthPx?: number; zoom?: ProofZoom; pins: NumberedPin[]; pending: Pin | null; onPlace(pin: Pin): void }) {
+  const link = useAssetUrl(assetId);
   if (link.isPending) return <NonIdealState icon={<Spinner size={28} />} title="Fetching the proof image…" />;
   if (link.isError)
     return (
@@ -49,30 +57,35 @@ export function ProofImage({ asset, pins, pending, onPlace }: { asset: AssetDto;
       onPlace({ x: 0.5, y: 0.5 });
     }
   };
+  const pixels = zoom === 'pixels' && widthPx;
+  const width = pixels ? onePixelWidth(widthPx, window.devicePixelRatio) : undefined;
   return (
-    <div
-      className="pf-proof-image"
-      role="button"
-      tabIndex={0}
-      aria-label="Proof image: click to place a pin for your comment"
-      onClick={(e) => {
-        const p = pinFromClick(e);
-        if (p) onPlace(p);
-      }}
-      onKeyDown={keyPlace}
-      data-testid="proof-image"
-    >
-      <img src={link.data.url} alt="Rendered proof" draggable={false} />
-      {pins.map((p) => (
-        <span key={`${p.n}`} className="pf-pin" style={{ left: `${p.x * 100}%`, top: `${p.y * 100}%` }} data-testid="proof-pin">
-          {p.n}
-        </span>
-      ))}
-      {pending && (
-        <span className="pf-pin pf-pin-pending" style={{ left: `${pending.x * 100}%`, top: `${pending.y * 100}%` }} data-testid="proof-pin-pending">
-          +
-        </span>
-      )}
+    <div className={pixels ? 'pf-proof-scroll pf-proof-scroll-1to1' : 'pf-proof-scroll'} data-testid="proof-scroll" data-zoom={zoom}>
+      <div
+        className="pf-proof-image"
+        role="button"
+        tabIndex={0}
+        aria-label="Proof image: click to place a pin for your comment"
+        style={width ? { width, maxWidth: 'none' } : undefined}
+        onClick={(e) => {
+          const p = pinFromClick(e);
+          if (p) onPlace(p);
+        }}
+        onKeyDown={keyPlace}
+        data-testid="proof-image"
+      >
+        <img src={link.data.url} alt="Rendered proof" draggable={false} style={width ? { width, maxWidth: 'none' } : undefined} data-testid="proof-img" />
+        {pins.map((p) => (
+          <span key={`${p.n}`} className="pf-pin" style={{ left: `${p.x * 100}%`, top: `${p.y * 100}%` }} data-testid="proof-pin">
+            {p.n}
+          </span>
+        ))}
+        {pending && (
+          <span className="pf-pin pf-pin-pending" style={{ left: `${pending.x * 100}%`, top: `${pending.y * 100}%` }} data-testid="proof-pin-pending">
+            +
+          </span>
+        )}
+      </div>
     </div>
   );
 }

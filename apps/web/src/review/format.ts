@@ -16,6 +16,25 @@ const AUDIT_WORDS: Record<string, string> = {
   release: 'released',
   comment: 'commented',
   rerender: 're-rendered',
+  colour_override: 'overrode the colour checks',
+  // People and publications (admin audit).
+  user_create: 'created the account',
+  user_invite: 'invited',
+  invite_resend: 'sent a new invitation',
+  user_rename: 'renamed',
+  user_role: 'changed the role',
+  user_deactivate: 'deactivated the account',
+  user_reactivate: 'reactivated the account',
+  reset_sent: 'sent a password reset',
+  reset_requested: 'asked for a password reset',
+  password_set: 'chose a password',
+  password_reset: 'changed the password',
+  publication_create: 'created the publication',
+  publication_edit: 'edited the publication',
+  member_add: 'added a member',
+  member_role: "changed a member's role",
+  member_remove: 'removed a member',
+  house_style_pin: 'pinned a house style',
 };
 
 export function auditWords(action: string): string {

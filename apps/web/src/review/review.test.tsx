@@ -3,7 +3,7 @@ import userEvent from '@testing-library/user-event';
 import { vi } from 'vitest';
 import { FIGURE_STATUSES, ROLES, type AuditEntryDto, type FigureDto, type FigureStatus, type ReviewDeskItemDto, type Role } from '@psiform/contracts';
 import { json, mockFetch, renderApp, signedInRoutes, storeSession, user, type Handler } from '../test/utils';
-import { figure, GLB_ASSET } from '../test/figures';
+import { figure, GLB_ASSET, PROOF_IMAGE, versionSummary } from '../test/figures';
 import { availableDecisions, roundFromAudit } from './decisions';
 import { formatAge } from './format';
 
@@ -15,6 +15,7 @@ function deskItem(i: number, ageHours: number, o: Partial<ReviewDeskItemDto> = {
   return {
     figureId: `f${i}`,
     title: `Plate ${i}`,
+    status: 'in_review',
     publicationId: 'p1',
     publicationTitle: 'Shapes of the Electron Cloud',
     versionNumber: i,
@@ -127,6 +128,7 @@ function proofRoutes(me: ReturnType<typeof user>, state: { fig: FigureDto; trail
     'GET /api/figures/f1': () => json(200, state.fig),
     'GET /api/figures/f1/comments': () => json(200, []),
     'GET /api/figures/f1/audit': () => json(200, state.trail),
+    'GET /api/figures/f1/versions': () => json(200, [versionSummary(1, { current: true })]),
     'GET /api/assets/a-glb/link': () => json(200, { url: 'http://storage.test/a.glb', expiresAt: '2030-01-01T00:00:00Z' }),
     ...extra,
   });
@@ -247,6 +249,7 @@ describe('proof comments and pins', () => {
       'GET /api/figures/f1/comments': () => json(200, comments),
       'GET /api/figures/f1/audit': () => json(200, []),
       'GET /api/assets/a-png/link': () => json(200, { url: 'http://storage.test/proof.png', expiresAt: '2030-01-01T00:00:00Z' }),
+      'GET /api/figures/f1/versions': () => json(200, [versionSummary(1, { current: true, image: PROOF_IMAGE })]),
       'POST /api/figures/f1/comments': ({ body }) => {
         const c = { id: 'c2', figureId: 'f1', authorId: 'u', authorName: 'Tomas Edevane', createdAt: '2025-02-03T10:00:00Z', ...(body as object) };
         comments = [...comments, c];

@@ -3,7 +3,6 @@ import type {
   BatchDto,
   CommentDto,
   HouseStyleDto,
-  ReviewDeskItemDto,
   ReviewTransitionDto,
 } from '@psiform/contracts';
 import { ApiError, type ApiClient } from '../api/client';
@@ -32,10 +31,6 @@ export interface HouseStyleInput {
   swatchbookId: string;
   requireColourSignOff: boolean;
   allowOverride: boolean;
-}
-
-export function reviewDesk(api: ApiClient, signal?: AbortSignal): Promise<ReviewDeskItemDto[]> {
-  return api.request<ReviewDeskItemDto[]>('/api/review-desk', { signal });
 }
 
 export function decide(api: ApiClient, figureId: string, decision: Decision, note?: string): Promise<ReviewTransitionDto> {

@@ -1,3 +1,4 @@
+import type { FigureVersionSummaryDto, ProofImageDto } from '@psiform/contracts';
 import type { AssetDto, FigureDto, FigureSummaryDto, JobDto, Page } from '@psiform/contracts';
 import { parseRecipe, type Recipe } from '@psiform/contracts';
 
@@ -120,3 +121,10 @@ export function sseStream() {
     },
   };
 }
+
+/** A version as GET /api/figures/:id/versions lists it. */
+export function versionSummary(n: number, o: Partial<FigureVersionSummaryDto> = {}): FigureVersionSummaryDto {
+  return { id: `v${n}`, number: n, current: false, locked: true, label: '2pz', recipeHash: `h${n}`, authorName: 'Ilse Marwick', createdAt: `2025-02-0${n}T10:00:00.000Z`, image: null, ...o };
+}
+
+export const PROOF_IMAGE: ProofImageDto = { assetId: 'a-png', kind: 'png', widthPx: 1051, heightPx: 709, dpi: 300, widthMm: 89, heightMm: 60, colourMode: 'RGB, sRGB (IEC 61966-2-1)', createdAt: '2025-02-02T10:00:00.000Z' };

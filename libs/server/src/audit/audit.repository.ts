@@ -1,7 +1,7 @@
 import { Injectable } from '@nestjs/common';
 import { InjectRepository } from '@nestjs/typeorm';
 import { Repository, type EntityManager } from 'typeorm';
-import type { FigureStatus } from '@psiform/contracts';
+import type { AuditSubject, FigureStatus } from '@psiform/contracts';
 import { AuditEntryEntity } from './audit-entry.entity';
 import { UserEntity } from '../users/user.entity';
 
@@ -14,14 +14,42 @@ export interface NewAuditEntry {
   note?: string | null;
 }
 
+/** An entry about a user, a publication or a house style (subject id = the publication's id). */
+export interface NewSubjectAuditEntry {
+  subjectKind: Exclude<AuditSubject, 'figure'>;
+  subjectId: string;
+  actorId: string | null;
+  action: string;
+  note?: string | null;
+}
+
 /** Writes one entry with the caller's EntityManager, i.e. inside the transaction of the change it records. */
 export async function insertAudit(em: EntityManager, entry: NewAuditEntry): Promise<void> {
-  await em.getRepository(AuditEntryEntity).insert({ ...entry, note: entry.note ?? null });
+  await em.getRepository(AuditEntryEntity).insert({ ...entry, subjectKind: 'figure', subjectId: null, note: entry.note ?? null });
+}
+
+/** The same for users, publications and house styles. */
+export async function insertSubjectAudit(em: EntityManager, entry: NewSubjectAuditEntry): Promise<void> {
+  await em.getRepository(AuditEntryEntity).insert({ ...entry, figureId: null, fromStatus: null, toStatus: null, note: entry.note ?? null });
+}
+
+export interface SubjectAuditQuery {
+  subjectKind?: Exclude<AuditSubject, 'figure'>;
+  subjectId?: string;
+  page: number;
+  pageSize: number;
+}
+
+export interface AuditRow {
+  entry: AuditEntryEntity;
+  actorName: string | null;
 }
 
 /** Port for reading the audit log. */
 export abstract class AuditStore {
-  abstract listForFigure(figureId: string): Promise<{ entry: AuditEntryEntity; actorName: string | null }[]>;
+  abstract listForFigure(figureId: string): Promise<AuditRow[]>;
+  /** Entries about users, publications and house styles, newest first. */
+  abstract listForSubjects(q: SubjectAuditQuery): Promise<{ rows: AuditRow[]; total: number }>;
 }
 
 @Injectable()
@@ -40,6 +68,24 @@ export class TypeormAuditStore implements AuditStore {
       .orderBy('e.seq', 'ASC')
       .getRawAndEntities();
     return entities.map((entry, i) => ({ entry, actorName: (raw[i]?.actor_name as string | undefined) ?? null }));
+  }
+
+  async listForSubjects(q: SubjectAuditQuery) {
+    const qb = this.ds
+      .getRepository(AuditEntryEntity)
+      .createQueryBuilder('e')
+      .leftJoin(UserEntity, 'u', 'u.id = e.actor_id')
+      .addSelect('u.display_name', 'actor_name')
+      .where(`e.subject_kind <> 'figure'`);
+    if (q.subjectKind) qb.andWhere('e.subject_kind = :kind', { kind: q.subjectKind });
+    if (q.subjectId) qb.andWhere('e.subject_id = :sid', { sid: q.subjectId });
+    const total = await qb.getCount();
+    const { entities, raw } = await qb
+      .orderBy('e.seq', 'DESC')
+      .offset((q.page - 1) * q.pageSize)
+      .limit(q.pageSize)
+      .getRawAndEntities();
+    return { rows: entities.map((entry, i) => ({ entry, actorName: (raw[i]?.actor_name as string | undefined) ?? null })), total };
   }
 }
 

@@ -28,10 +28,22 @@ describe('loadConfig', () => {
     expect(c.s3).toEqual({ endpoint: good.S3_ENDPOINT, bucket: 'bucket', accessKeyId: 'key', secretAccessKey: 'secret', region: 'us-east-1' });
     expect(c.smtp.from).toBe('Psiform <no-reply@psiform.test>');
     expect(c.jwt.ttl).toBe('8h');
-    expect(c.http).toEqual({ port: 3000, host: '127.0.0.1', webDist: undefined, trustProxy: false });
+    expect(c.http).toEqual({ port: 3000, host: '127.0.0.1', webDist: undefined, trustProxy: false, publicBaseUrl: 'http://127.0.0.1:3000' });
     expect(c.uploads.maxBytes).toBe(536870912);
     expect(c.uploads.orphanAgeSeconds).toBe(21600);
     expect(c.limits.requestsPerMinute).toBe(1200);
+  });
+
+  it('PUBLIC_BASE_URL: an http(s) URL without query or fragment, trailing slash dropped; default from HOST and PORT', () => {
+    expect(loadConfig({ ...good, PUBLIC_BASE_URL: 'https://figures.example.org/' }).http.publicBaseUrl).toBe('https://figures.example.org');
+    expect(loadConfig({ ...good, PUBLIC_BASE_URL: 'https://example.org/psiform/' }).http.publicBaseUrl).toBe('https://example.org/psiform');
+    expect(loadConfig({ ...good, PORT: '4100', HOST: '0.0.0.0' }).http.publicBaseUrl).toBe('http://127.0.0.1:4100');
+    expect(loadConfig({ ...good, PORT: '0' }).http.publicBaseUrl).toBe('http://127.0.0.1:3000');
+    expect(problemsOf({ ...good, PUBLIC_BASE_URL: 'figures.example.org' })).toEqual(['PUBLIC_BASE_URL must be an http:// or https:// URL such as https://figures.example.org']);
+    expect(problemsOf({ ...good, PUBLIC_BASE_URL: 'ftp://example.org' })[0]).toMatch(/^PUBLIC_BASE_URL must be an http/);
+    expect(problemsOf({ ...good, PUBLIC_BASE_URL: 'https://example.org/?a=1' })).toEqual(['PUBLIC_BASE_URL must not have a query or fragment']);
+    expect(problemsOf({ ...good, PUBLIC_BASE_URL: 'https://example.org/#x' })).toEqual(['PUBLIC_BASE_URL must not have a query or fragment']);
+    expect(problemsOf({ ...good, PUBLIC_BASE_URL: 'https://u:p@example.org' })).toEqual(['PUBLIC_BASE_URL must not contain credentials']);
   });
 
   it('reads UPLOAD_MAX_BYTES and names it when bad', () => {
@@ -45,7 +57,7 @@ describe('loadConfig', () => {
 
   it('reads overrides', () => {
     const c = loadConfig({ ...good, PORT: '8081', HOST: '0.0.0.0', JWT_TTL: '30m', WEB_DIST: '/srv/web', S3_REGION: 'eu-west-1', TRUST_PROXY: 'loopback, 10.0.0.0/8' });
-    expect(c.http).toEqual({ port: 8081, host: '0.0.0.0', webDist: '/srv/web', trustProxy: ['loopback', '10.0.0.0/8'] });
+    expect(c.http).toEqual({ port: 8081, host: '0.0.0.0', webDist: '/srv/web', trustProxy: ['loopback', '10.0.0.0/8'], publicBaseUrl: 'http://127.0.0.1:8081' });
     expect(c.jwt.ttl).toBe('30m');
     expect(c.s3.region).toBe('eu-west-1');
   });

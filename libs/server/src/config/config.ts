@@ -36,8 +36,10 @@ export interface AppConfig {
    * trustProxy: Express's `trust proxy` (TRUST_PROXY: unset/false = the socket address is the client; true, a hop
    * count, or a comma list of addresses/CIDRs/loopback|linklocal|uniquelocal). Only with it set does sign-in
    * throttling also count per client address, since only then is that address the client's and not a proxy's.
+   * publicBaseUrl: PUBLIC_BASE_URL, where people open the client (links in mail: proofs, invitations, password
+   * resets); no trailing slash. Default http://HOST:PORT (127.0.0.1 for a wildcard HOST, 3000 for PORT 0).
    */
-  http: { port: number; host: string; webDist: string | undefined; trustProxy: TrustProxy };
+  http: { port: number; host: string; webDist: string | undefined; trustProxy: TrustProxy; publicBaseUrl: string };
   /**
    * Largest accepted cube file of POST /api/uploads, in bytes (UPLOAD_MAX_BYTES); orphanAgeSeconds: after how long
    * the leftovers of an upload whose API process died (temporary objects, unfinished multipart uploads, cubes no
@@ -170,6 +172,21 @@ class Reader {
     return v;
   }
 
+  /** An http(s) origin with an optional path: no query, fragment or credentials; the trailing slash is dropped. */
+  baseUrl(name: string, fallback: string): string {
+    const v = this.raw(name, fallback)!;
+    let parsed: URL;
+    try {
+      parsed = new URL(v);
+    } catch {
+      return this.fail(`${name} must be an http:// or https:// URL such as https://figures.example.org`);
+    }
+    if (!['http:', 'https:'].includes(parsed.protocol) || parsed.hostname === '') return this.fail(`${name} must be an http:// or https:// URL such as https://figures.example.org`);
+    if (parsed.search || parsed.hash || v.includes('#') || v.includes('?')) return this.fail(`${name} must not have a query or fragment`);
+    if (parsed.username || parsed.password) return this.fail(`${name} must not contain credentials`);
+    return `${parsed.origin}${parsed.pathname.replace(/\/+$/, '')}`;
+  }
+
   oneOf<T extends string>(name: string, choices: readonly T[], fallback: T): T {
     const v = (this.raw(name, fallback) ?? fallback).toLowerCase();
     if (!(choices as readonly string[]).includes(v)) {
@@ -235,6 +252,7 @@ export function loadConfig(env: Env): AppConfig {
       host: r.string('HOST', DEFAULTS.HOST),
       webDist: r.optional('WEB_DIST'),
       trustProxy: r.trustProxy('TRUST_PROXY'),
+      publicBaseUrl: '',
     },
     uploads: {
       maxBytes: r.int('UPLOAD_MAX_BYTES', DEFAULTS.UPLOAD_MAX_BYTES, 1, 17179869184),
@@ -242,8 +260,14 @@ export function loadConfig(env: Env): AppConfig {
     },
     limits: { requestsPerMinute: r.int('RATE_LIMIT_PER_MINUTE', DEFAULTS.RATE_LIMIT_PER_MINUTE, 0, 1_000_000) },
   };
+  config.http.publicBaseUrl = r.baseUrl('PUBLIC_BASE_URL', defaultPublicBaseUrl(config.http.host, config.http.port));
   r.done();
   return config;
+}
+
+function defaultPublicBaseUrl(host: string, port: number): string {
+  const h = host === '0.0.0.0' || host === '::' || host === '' ? '127.0.0.1' : host.includes(':') ? `[${host}]` : host;
+  return `http://${h}:${port || Number(DEFAULTS.PORT)}`;
 }
 
 export function loadWorkerConfig(env: Env): WorkerConfig {

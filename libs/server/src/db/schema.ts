@@ -18,6 +18,8 @@ import { EditorialReview1764806400000 } from './migrations/1764806400000-Editori
 import { FigureSetEntity } from '../exports/figure-set.entity';
 import { StudioExports1764979200000 } from './migrations/1764979200000-StudioExports';
 import { FigureSetExports1765238400000 } from './migrations/1765238400000-FigureSetExports';
+import { UserLinkEntity } from '../users/user-link.entity';
+import { PeopleAndPublications1765584000000 } from './migrations/1765584000000-PeopleAndPublications';
 import { PrintProduction1765411200000 } from './migrations/1765411200000-PrintProduction';
 import { FigureUnitsAndSetCaptions1765600000000 } from './migrations/1765600000000-FigureUnitsAndSetCaptions';
 import { SwatchbookScope1796200000000 } from './migrations/1796200000000-SwatchbookScope';
@@ -35,9 +37,9 @@ import { ParameterFreeQueryLogger } from './query-logger';
  */
 export const ENTITIES = [UserEntity, PublicationEntity, MembershipEntity, FigureEntity, FigureVersionEntity, AssetEntity, JobEntity,
   SwatchbookEntity, SwatchbookVersionEntity, HouseStyleEntity, BatchEntity, BatchItemEntity, ReviewRoundEntity, CommentEntity, AuditEntryEntity, FigureSetEntity, DeliveryProfileEntity,
-  OutboxEntity];
+  OutboxEntity, UserLinkEntity];
 export const MIGRATIONS = [Foundation1764633600000, FigureJobs1764720000000, EditorialReview1764806400000, StudioExports1764979200000, FigureSetExports1765238400000, PrintProduction1765411200000,
-  FigureUnitsAndSetCaptions1765600000000, Outbox1796188459275, SwatchbookScope1796200000000];
+  PeopleAndPublications1765584000000, FigureUnitsAndSetCaptions1765600000000, Outbox1796188459275, SwatchbookScope1796200000000];
 
 /**
  * Time limits of database calls made while answering a request (the api's data source), so a stalled PostgreSQL

@@ -51,11 +51,12 @@ export abstract class ReviewsStore {
   abstract inFigureTransaction<T>(figureId: string, fn: (tx: ReviewTx) => Promise<T>): Promise<T>;
   abstract houseRules(publicationId: string): Promise<HouseRules | null>;
   abstract publicationTitle(publicationId: string): Promise<string>;
-  /** Emails of the editors who are members of the publication. */
+  /** Emails of the active members whose role in the publication is editor. */
   abstract editorEmails(publicationId: string): Promise<string[]>;
   abstract userInfo(id: string): Promise<{ email: string; displayName: string } | null>;
   abstract listComments(figureId: string): Promise<{ comment: CommentEntity; authorName: string | null }[]>;
-  abstract reviewDesk(publicationIds: string[] | 'all'): Promise<ReviewDeskRow[]>;
+  /** Figures in one of `statuses` (default: in review) in the given publications, longest waiting first. */
+  abstract reviewDesk(publicationIds: string[] | 'all', statuses?: FigureStatus[]): Promise<ReviewDeskRow[]>;
 }
 
 @Injectable()
@@ -114,7 +115,7 @@ export class TypeormReviewsStore implements ReviewsStore {
       .getRepository(UserEntity)
       .createQueryBuilder('u')
       .innerJoin(MembershipEntity, 'm', 'm.user_id = u.id AND m.publication_id = :publicationId', { publicationId })
-      .where('u.role = :role', { role: 'editor' })
+      .where('m.role = :role AND u.active = true', { role: 'editor' })
       .orderBy('u.email')
       .getMany();
     return rows.map((u) => u.email);
@@ -138,7 +139,7 @@ export class TypeormReviewsStore implements ReviewsStore {
     return entities.map((comment, i) => ({ comment, authorName: (raw[i]?.author_name as string | undefined) ?? null }));
   }
 
-  async reviewDesk(publicationIds: string[] | 'all'): Promise<ReviewDeskRow[]> {
+  async reviewDesk(publicationIds: string[] | 'all', statuses: FigureStatus[] = ['in_review']): Promise<ReviewDeskRow[]> {
     if (publicationIds !== 'all' && publicationIds.length === 0) return [];
     const qb = this.ds
       .getRepository(FigureEntity)
@@ -151,9 +152,9 @@ export class TypeormReviewsStore implements ReviewsStore {
       .addSelect('u.display_name', 'submitter_name')
       .addSelect('r.id', 'round_id')
       .addSelect('h.require_colour_signoff', 'require_signoff')
-      .where('f.status = :status', { status: 'in_review' });
+      .where('f.status IN (:...statuses)', { statuses });
     if (publicationIds !== 'all') qb.andWhere('f.publication_id IN (:...pubs)', { pubs: publicationIds });
-    qb.orderBy('r.submitted_at', 'ASC', 'NULLS LAST').addOrderBy('f.id', 'ASC');
+    qb.orderBy('r.submitted_at', 'ASC', 'NULLS LAST').addOrderBy('f.updated_at', 'ASC').addOrderBy('f.id', 'ASC');
     const { entities, raw } = await qb.getRawAndEntities();
     const roundIds = raw.map((r) => r.round_id as string | null).filter((x): x is string => !!x);
     const rounds = roundIds.length ? await this.ds.getRepository(ReviewRoundEntity).createQueryBuilder('r').where('r.id IN (:...ids)', { ids: roundIds }).getMany() : [];
