@@ -1,5 +1,5 @@
 import { useEffect, useState } from 'react';
-import { Button, HTMLSelect, HTMLTable, InputGroup, NonIdealState, Spinner, Tag } from '@blueprintjs/core';
+import { HTMLSelect, HTMLTable, InputGroup, NonIdealState, Spinner, Tag } from '@blueprintjs/core';
 import { keepPreviousData, useQuery } from '@tanstack/react-query';
 import { Link } from 'react-router-dom';
 import { FIGURE_STATUSES, type FigureStatus, type FigureSummaryDto } from '@psiform/contracts';
