@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { parseRecipe, type Recipe } from '@psiform/contracts';
+import { parseRecipe, PSIFORM_PALETTE, type Recipe } from '@psiform/contracts';
 import { describeRecipeChanges, recipeChanges } from '../src/recipe-changes';
 
 const base = {
@@ -59,7 +59,7 @@ describe('recipeChanges (words for the proof comparison)', () => {
       'coefficient of 2p_x 1 → 0.5−0.5i',
       'surface 90% → |ψ| = 0.05 a₀⁻³ᐟ²',
       'grid 64³ → 96³',
-      'positive phase colour #c8553d → #aa3300',
+      `positive phase colour ${PSIFORM_PALETTE.positive} → #aa3300`,
       'print size 89 × 60 mm → 120 × 80 mm',
       'resolution 300 dpi → 600 dpi',
     ]);
