@@ -4,6 +4,7 @@
 // re-samples when the plan asks for another grid. Colours: @psiform/colour's phase rule. Results go back as
 // transferable typed arrays (no copies).
 import { phaseColoursInto, resolvePhaseMode } from '@psiform/colour';
+import { PSIFORM_PALETTE } from '@psiform/contracts';
 import { recipeToSurfaces, type SampledField } from '@psiform/meshing';
 import type { CompiledState, OrbitalState } from '@psiform/orbitals';
 import type { SurfaceArrays } from '../scene/geometry';
@@ -67,7 +68,7 @@ export async function handle(req: PreviewRequest): Promise<void> {
     // Nodal surfaces only while the Stage's outline switch is on: they cost 15-70 ms an update at 112³.
     { sample: sampler, maxN: PREVIEW_GRID_CAP, nodal: nodal === true, stats: false },
   );
-  const palette = req.palette ?? { positive: '#c8553d', negative: '#2f6690', wheel: null };
+  const palette = req.palette ?? { positive: PSIFORM_PALETTE.positive, negative: PSIFORM_PALETTE.negative, wheel: null };
   const isReal = result.surfaces.every((s) => s.phase !== 'complex');
   const mode = resolvePhaseMode(req.mode, isReal);
   const surfaces: SurfaceArrays[] = [];
