@@ -31,7 +31,7 @@ export class AppModule implements OnApplicationShutdown {
       imports: [
         ConfigModule.forRoot(config),
         // Request paths: PostgreSQL calls time out (REQUEST_DB_TIMEOUTS) so a stalled database answers 503, not a hang.
-        TypeOrmModule.forRoot({ ...dataSourceOptions(config.database.url, { requestTimeouts: true }), retryAttempts: 3, retryDelay: 1000 }),
+        TypeOrmModule.forRoot({ ...dataSourceOptions(config.database.url, { requestTimeoutMs: config.database.requestTimeoutMs }), retryAttempts: 3, retryDelay: 1000 }),
         RedisModule,
         StorageModule,
         MailModule,

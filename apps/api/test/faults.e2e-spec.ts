@@ -3,7 +3,7 @@ import { readFileSync } from 'node:fs';
 import { request as httpRequest } from 'node:http';
 import { join } from 'node:path';
 import { DataSource } from 'typeorm';
-import { ObjectStorage, dataSourceOptions } from '@psiform/server';
+import { ObjectStorage, REQUEST_DB_TIMEOUTS, dataSourceOptions } from '@psiform/server';
 import type { JobDto } from '@psiform/contracts';
 import { auth, demoTokens, smallRecipe, startTestApp, DEMO_PUBLICATION, RUN_ID, type TestApp } from './support';
 import { startWorkerProcess, waitFor, type WorkerProcess } from './worker-process';
@@ -70,7 +70,7 @@ describe('faults (e2e)', () => {
   }
 
   beforeAll(async () => {
-    t = await startTestApp();
+    t = await startTestApp({ DB_REQUEST_TIMEOUT_MS: String(REQUEST_DB_TIMEOUTS.statementMs) }); // the production default: the PostgreSQL fault below tests it
     tok = await demoTokens(t);
     storage = t.app.get(ObjectStorage);
   }, 60_000);

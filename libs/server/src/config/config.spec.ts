@@ -32,6 +32,13 @@ describe('loadConfig', () => {
     expect(c.uploads.maxBytes).toBe(536870912);
     expect(c.uploads.orphanAgeSeconds).toBe(21600);
     expect(c.limits.requestsPerMinute).toBe(1200);
+    expect(c.database.requestTimeoutMs).toBe(1500);
+  });
+
+  it('DB_REQUEST_TIMEOUT_MS: whole milliseconds from 100 to 600000', () => {
+    expect(loadConfig({ ...good, DB_REQUEST_TIMEOUT_MS: '15000' }).database.requestTimeoutMs).toBe(15000);
+    expect(problemsOf({ ...good, DB_REQUEST_TIMEOUT_MS: '50' }).join()).toContain('DB_REQUEST_TIMEOUT_MS');
+    expect(problemsOf({ ...good, DB_REQUEST_TIMEOUT_MS: 'soon' }).join()).toContain('DB_REQUEST_TIMEOUT_MS');
   });
 
   it('PUBLIC_BASE_URL: an http(s) URL without query or fragment, trailing slash dropped; default from HOST and PORT', () => {

@@ -10,6 +10,13 @@ import { resolve } from 'node:path';
 export interface DatabaseConfig {
   url: string;
 }
+/**
+ * The api's database: requestTimeoutMs (DB_REQUEST_TIMEOUT_MS, default 1500) is how long one statement of a request
+ * may run, lock waits included, before the request answers 503 (db/schema.ts REQUEST_DB_TIMEOUTS).
+ */
+export interface ApiDatabaseConfig extends DatabaseConfig {
+  requestTimeoutMs: number;
+}
 export interface RedisConfig {
   url: string;
 }
@@ -26,7 +33,7 @@ export interface SmtpConfig {
 }
 
 export interface AppConfig {
-  database: DatabaseConfig;
+  database: ApiDatabaseConfig;
   redis: RedisConfig;
   s3: S3Config;
   /** outboxFile: MAIL_OUTBOX_FILE, set only while the local mail fake is in use (GET /api/dev/outbox). */
@@ -102,6 +109,7 @@ export const DEFAULTS = {
   OUTBOX_STALE_MS: '60000',
   UPLOAD_ORPHAN_AGE_SECONDS: '21600',
   RATE_LIMIT_PER_MINUTE: '1200',
+  DB_REQUEST_TIMEOUT_MS: '1500',
 } as const;
 
 export const MIN_JWT_SECRET_LENGTH = 32;
@@ -239,7 +247,7 @@ export function loadDatabaseConfig(env: Env): DatabaseConfig {
 export function loadConfig(env: Env): AppConfig {
   const r = new Reader(env);
   const config: AppConfig = {
-    database: readDatabase(r),
+    database: { ...readDatabase(r), requestTimeoutMs: r.int('DB_REQUEST_TIMEOUT_MS', DEFAULTS.DB_REQUEST_TIMEOUT_MS, 100, 600_000) },
     redis: readRedis(r),
     s3: readS3(r),
     smtp: { ...readSmtp(r), outboxFile: r.optional('MAIL_OUTBOX_FILE') },
