@@ -23,7 +23,7 @@ export function gateBlocked(err: unknown): GateBlockedDto | null {
 function ImpactList({ impact }: { impact: HouseStyleImpactDto }) {
   const change = impact.figures.filter((f) => f.effect !== 'kept');
   const kept = impact.figures.filter((f) => f.effect === 'kept');
-  const heading = impact.for === 'rerender' ? "Will get a new version with the swatchbook's current colours" : 'Take these colours at their next save or batch re-render';
+  const heading = impact.for === 'rerender' ? "Will get a new version with the swatchbook's current colours" : 'Take these colours at their next save';
   return (
     <>
       <h3>
@@ -62,10 +62,12 @@ function ImpactList({ impact }: { impact: HouseStyleImpactDto }) {
 /** The checks' verdict at the top of a confirmation: failures block without a reason; warnings are listed. */
 function GateSummary({ impact, blocks }: { impact: HouseStyleImpactDto; blocks: boolean }) {
   const g = impact.gate;
+  const count = (n: number, what: string) => `${n} ${what}${n === 1 ? '' : 's'}`;
+  const found = [g.failures.length ? `${count(g.failures.length, 'error')} (this swatchbook is already pinned)` : '', g.warnings.length ? `${count(g.warnings.length, 'warning')} (see the swatchbook)` : ''].filter(Boolean);
   if (!blocks)
     return (
-      <Callout intent={g.warnings.length ? 'warning' : 'success'} compact data-testid="impact-checks">
-        Colour checks of “{impact.swatchbook.name}” v{impact.swatchbook.version}: {g.failures.length ? `${g.failures.length} error${g.failures.length === 1 ? '' : 's'} (this swatchbook is already pinned)` : 'no error'}{g.warnings.length ? `; ${g.warnings.length} warning${g.warnings.length === 1 ? '' : 's'} (see the swatchbook)` : 's or warnings'}.
+      <Callout intent={found.length ? 'warning' : 'success'} compact data-testid="impact-checks">
+        Colour checks of “{impact.swatchbook.name}” v{impact.swatchbook.version}: {found.length ? found.join('; ') : 'no errors or warnings'}.
       </Callout>
     );
   return (

@@ -5,7 +5,7 @@ import { json, mockFetch, renderApp, signedInRoutes, storeSession, user } from '
 
 import { batchFraction } from './BatchProgress';
 
-const HOUSE: HouseStyleDto = { publicationId: 'p1', swatchbookId: 's1', swatchbookName: 'Quillmere plates', requireColourSignOff: false, allowOverride: false, updatedAt: '2025-01-01T00:00:00Z' };
+const HOUSE: HouseStyleDto = { publicationId: 'p1', swatchbookId: 's1', swatchbookName: 'Quillmere plates', requireColourSignOff: false, allowOverride: false, updatedAt: '2025-01-01T00:00:00Z', colourOverride: null };
 const BOOKS = [
   { id: 's1', name: 'Quillmere plates', ownerId: 'u', publicationId: 'p1', publisher: null, colors: { positive: '#c8553d', negative: '#2f6690', background: '#ffffff', label: '#222222' }, locked: true, version: 4, createdAt: '', updatedAt: '' },
   { id: 's2', name: 'Fenwright journal', ownerId: 'u', publicationId: 'p1', publisher: null, colors: { positive: '#b5452f', negative: '#2f6690', background: '#ffffff', label: '#222222' }, locked: false, version: 1, createdAt: '', updatedAt: '' },
@@ -26,6 +26,7 @@ function batch(completed: number, o: Partial<BatchDto> = {}): BatchDto {
       { figureId: 'f3', title: 'Plate 3', status: 'queued', jobState: completed >= 2 ? 'completed' : 'queued' },
     ],
     skipped: [],
+    overrideReason: null,
     createdAt: '2025-02-01T00:00:00Z',
     ...o,
   };
@@ -65,7 +66,7 @@ describe('house style panel', () => {
       ...signedInRoutes(me),
       'GET /api/swatchbooks': () => json(200, BOOKS),
       'GET /api/publications/p1/house-style/impact': () =>
-        json(200, impact('pin', [impactFigure(1, { effect: 'next_save', changes: [{ path: 'palette.positive', what: 'positive phase colour', from: '#c8553d', to: '#b5452f' }], reason: 'Draft: takes these colours at its next save or batch re-render' }), impactFigure(2, { status: 'approved', reason: 'Approved: keeps the colours it has until a new version' })])),
+        json(200, impact('pin', [impactFigure(1, { effect: 'next_save', changes: [{ path: 'palette.positive', what: 'positive phase colour', from: '#c8553d', to: '#b5452f' }], reason: 'Draft: takes these colours at its next save' }), impactFigure(2, { status: 'approved', reason: 'Approved: keeps the colours it has until a new version' })])),
       'PUT /api/publications/p1/house-style': ({ body }) => {
         const b = body as HouseStyleDto;
         saved = { ...HOUSE, ...b, swatchbookName: 'Fenwright journal' };
@@ -153,7 +154,7 @@ describe('house style panel', () => {
 
   it('a failing swatchbook: the pin is blocked until the art director writes a reason; the reason is sent as override and shown', async () => {
     const me = user('art_director');
-    const failing = impact('pin', [impactFigure(1, { effect: 'next_save', reason: 'Draft: takes these colours at its next save or batch re-render' })], [FAILURE]);
+    const failing = impact('pin', [impactFigure(1, { effect: 'next_save', reason: 'Draft: takes these colours at its next save' })], [FAILURE]);
     const api = mockFetch({
       ...signedInRoutes(me),
       'GET /api/swatchbooks': () => json(200, BOOKS),

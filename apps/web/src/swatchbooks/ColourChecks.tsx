@@ -15,8 +15,11 @@ function Verdict({ ok, warn, testId }: { ok: boolean; warn?: boolean; testId: st
   );
 }
 
-/** Which check raised a warning: each warning is shown under the heading of its check. */
-export const WARNING_GROUP: Record<string, 'phases' | 'contrast' | 'print' | 'wheel'> = {
+type CheckGroup = 'phases' | 'contrast' | 'print' | 'wheel';
+type Warning = SwatchbookCheck['warnings'][number];
+
+/** Which check raised a warning: each warning is shown under the heading of its check (every code has one). */
+export const WARNING_GROUP: Record<Warning['code'], CheckGroup> = {
   phases_too_similar: 'phases',
   label_contrast_low: 'contrast',
   phase_background_contrast_low: 'contrast',
@@ -24,13 +27,13 @@ export const WARNING_GROUP: Record<string, 'phases' | 'contrast' | 'print' | 'wh
   wheel_clamped: 'wheel',
 };
 
-export function groupWarnings(warnings: SwatchbookCheck['warnings']): Record<'phases' | 'contrast' | 'print' | 'wheel', SwatchbookCheck['warnings']> {
-  const out = { phases: [], contrast: [], print: [], wheel: [] } as Record<'phases' | 'contrast' | 'print' | 'wheel', SwatchbookCheck['warnings']>;
-  for (const w of warnings) out[WARNING_GROUP[w.code] ?? 'print'].push(w);
+export function groupWarnings(warnings: Warning[]): Record<CheckGroup, Warning[]> {
+  const out: Record<CheckGroup, Warning[]> = { phases: [], contrast: [], print: [], wheel: [] };
+  for (const w of warnings) out[WARNING_GROUP[w.code]].push(w);
   return out;
 }
 
-function Warnings({ list, group }: { list: SwatchbookCheck['warnings']; group: string }) {
+function Warnings({ list, group }: { list: Warning[]; group: CheckGroup }) {
   if (list.length === 0) return null;
   return (
     <ul className="pf-warnings" data-testid={`check-warnings-${group}`}>
