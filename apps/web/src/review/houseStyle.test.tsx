@@ -51,6 +51,17 @@ function impact(mode: 'pin' | 'rerender', figures: HouseStyleImpactFigureDto[], 
   return { publicationId: 'p1', for: mode, swatchbook: { id: 's2', name: 'Fenwright journal', version: 1 }, gate: { name: 'colour checks', failures, warnings: [], blocks: failures.length > 0 }, figures };
 }
 
+/** Signs `me` in, opens the house-style page and clicks "Re-render affected figures" once it is enabled. */
+async function openRerender(me: ReturnType<typeof user>) {
+  storeSession(me);
+  const ue = userEvent.setup();
+  renderApp('/publications/p1/house-style');
+  const button = await screen.findByTestId('rerender');
+  await waitFor(() => expect((button as HTMLButtonElement).disabled).toBe(false));
+  await ue.click(button);
+  return ue;
+}
+
 describe('batchFraction', () => {
   it('counts finished (completed or failed) jobs; an empty batch is complete', () => {
     expect(batchFraction({ total: 4, completed: 1, failed: 1 })).toBe(0.5);
@@ -125,12 +136,7 @@ describe('house style panel', () => {
       'POST /api/publications/p1/rerender': () => json(201, batch(0)),
       'GET /api/batches/b1': () => json(200, batch(Math.min(2, ++polls))),
     });
-    storeSession(me);
-    const ue = userEvent.setup();
-    renderApp('/publications/p1/house-style');
-    const button = await screen.findByTestId('rerender');
-    await waitFor(() => expect((button as HTMLButtonElement).disabled).toBe(false));
-    await ue.click(button);
+    const ue = await openRerender(me);
 
     const change = await screen.findByTestId('rerender-change');
     expect(within(change).getAllByRole('listitem').map((li) => li.textContent)).toEqual(['Plate 1 (Draft, v1)', 'Plate 3 (Changes requested, v1)']);
@@ -196,12 +202,7 @@ describe('house style panel', () => {
           : json(409, { statusCode: 409, error: 'Conflict', gate: 'colour checks', message: `colour checks failed (1 failure): ${FAILURE}`, failures: [FAILURE], overridable: true }),
       'GET /api/batches/b1': () => json(200, batch(2)),
     });
-    storeSession(me);
-    const ue = userEvent.setup();
-    renderApp('/publications/p1/house-style');
-    const button = await screen.findByTestId('rerender');
-    await waitFor(() => expect((button as HTMLButtonElement).disabled).toBe(false));
-    await ue.click(button);
+    const ue = await openRerender(me);
     await ue.click(await screen.findByTestId('rerender-confirm'));
     expect((await screen.findByTestId('colour-override-failures')).textContent).toContain('deuteranopia');
     await ue.type(screen.getByTestId('colour-override-reason'), 'Screen-only edition of the plates');
