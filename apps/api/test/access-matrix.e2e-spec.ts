@@ -159,4 +159,47 @@ describe('access matrix: roles × membership (e2e)', () => {
     await t.http().patch(`/api/figures/${figure}`).set(auth(tok.owner)).send({ recipe: smallRecipe({ palette: { swatchbookId: book } }) }).expect(200);
     await t.http().post('/api/figures').set(auth(tok.owner)).send({ publicationId: P, title: `Matrix named ${RUN_ID}`, recipe: smallRecipe({ palette: { swatchbookId: foreignBook } }) }).expect(400);
   });
+  describe('colour checks that gate (issue 13): the impact, the pin and the batch re-render', () => {
+    // Phases ΔE00 2.9 apart under simulated deuteranopia: an error-level failure of the swatchbook's colour checks.
+    const failingColors = { positive: '#c0392b', negative: '#5a8a2a', background: '#ffffff', label: '#1a1a1a' };
+    const reason = 'Printed as a duotone with hatching; red and green only on screen';
+    let failingBook: string;
+    const gateState = async () =>
+      (
+        await t.ds.query(
+          `SELECT (SELECT swatchbook_id FROM house_styles WHERE publication_id = $1) AS pinned,
+                  (SELECT count(*)::int FROM batches WHERE publication_id = $1) AS batches,
+                  (SELECT count(*)::int FROM audit_entries WHERE subject_id = $1) AS audits`,
+          [P],
+        )
+      )[0];
+
+    beforeAll(async () => {
+      failingBook = (await t.http().post('/api/swatchbooks').set(auth(tok.artDirector)).send({ name: `Matrix failing ${RUN_ID}`, colors: failingColors, publicationId: P }).expect(201)).body.id;
+    });
+
+    //                 owner ill2 editor artDir admin outIll outAD
+    it('GET the impact of a pin or a re-render: every member; outsiders 404; no token 401', async () => {
+      await row([200, 200, 200, 200, 200, 404, 404], (k) => t.http().get(`/api/publications/${P}/house-style/impact?for=pin&swatchbookId=${failingBook}`).set(auth(k)), gateState);
+      await row([200, 200, 200, 200, 200, 404, 404], (k) => t.http().get(`/api/publications/${P}/house-style/impact?for=rerender`).set(auth(k)), gateState);
+      await t.http().get(`/api/publications/${P}/house-style/impact?for=pin`).expect(401);
+    });
+
+    it('PUT a failing swatchbook as the house style: 409 naming the failure for its art directors and admins, nothing stored', async () => {
+      const got = await row([403, 403, 403, 409, 409, 403, 404], (k) => t.http().put(`/api/publications/${P}/house-style`).set(auth(k)).send({ swatchbookId: failingBook }), gateState);
+      expect(got.artDirector).toBe(409);
+      await t.http().put(`/api/publications/${P}/house-style`).send({ swatchbookId: failingBook, override: { reason } }).expect(401);
+    });
+
+    it('PUT it with a written reason: its art directors and admins; the others refused with nothing stored', async () => {
+      await row([403, 403, 403, 200, 200, 403, 404], (k) => t.http().put(`/api/publications/${P}/house-style`).set(auth(k)).send({ swatchbookId: failingBook, override: { reason } }), gateState);
+      expect((await gateState()).pinned).toBe(failingBook);
+    });
+
+    it('POST a batch re-render with the failing swatchbook: 409 without a reason, 201 with one, for its art directors and admins', async () => {
+      await row([403, 403, 403, 409, 409, 403, 404], (k) => t.http().post(`/api/publications/${P}/rerender`).set(auth(k)), gateState);
+      await row([403, 403, 403, 201, 201, 403, 404], (k) => t.http().post(`/api/publications/${P}/rerender`).set(auth(k)).send({ override: { reason } }), gateState);
+      await t.http().post(`/api/publications/${P}/rerender`).send({ override: { reason } }).expect(401);
+    });
+  });
 });

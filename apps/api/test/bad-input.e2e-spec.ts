@@ -298,6 +298,11 @@ describe('bad input on every route: 4xx naming the field, nothing stored, still 
       c('house style: a swatchbook that does not exist', 'artDirector', 'put', `/api/publications/${pub}/house-style`, { swatchbookId: NIL }, 400, /swatchbookId/),
       c('house style: unknown field', 'artDirector', 'put', `/api/publications/${pub}/house-style`, { swatchbookId: '{B}', colours: 'all' }, 400, /colours/),
       c('rerender: publication id not a UUID', 'artDirector', 'post', '/api/publications/p/rerender', undefined, 400, /id must be a UUID/),
+      c('house style: override a string', 'artDirector', 'put', `/api/publications/${pub}/house-style`, { swatchbookId: '{B}', override: 'yes' }, 400, /override must be an object/),
+      c('house style: override reason too short', 'artDirector', 'put', `/api/publications/${pub}/house-style`, { swatchbookId: '{B}', override: { reason: 'ok' } }, 400, /override\.reason: at least 10/),
+      c('rerender: override an array', 'artDirector', 'post', `/api/publications/${pub}/rerender`, { override: ['a reason long enough'] }, 400, /override must be an object/),
+      c('house-style impact: for missing', 'artDirector', 'get', `/api/publications/${pub}/house-style/impact`, undefined, 400, /for must be one of pin, rerender/),
+      c('house-style impact: swatchbookId not a UUID', 'artDirector', 'get', `/api/publications/${pub}/house-style/impact?for=pin&swatchbookId=red`, undefined, 400, /swatchbookId must be a UUID/),
       c('batch: id not a UUID', 'artDirector', 'get', '/api/batches/b1', undefined, 400, /id must be a UUID/),
       // ---- jobs and assets
       c('job: id not a UUID', 'illustrator', 'get', '/api/jobs/j1', undefined, 400, /id must be a UUID/),

@@ -11,3 +11,4 @@ export * from './people';
 export * from './proofs';
 export * from './jobs';
 export * from './quantum';
+export * from './colour-gate';

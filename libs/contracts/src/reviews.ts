@@ -1,5 +1,6 @@
 import type { JobName, JobOf } from './jobs';
 import type { FigureStatus } from './states';
+import type { ColourOverrideDto } from './colour-gate';
 
 /** Editorial review and swatchbooks: shapes exchanged over HTTP and through the mail queue. */
 
@@ -74,6 +75,8 @@ export interface HouseStyleDto {
   requireColourSignOff: boolean;
   allowOverride: boolean;
   updatedAt: string;
+  /** Set while the pinned swatchbook was pinned past failing colour checks with a written reason. */
+  colourOverride: ColourOverrideDto | null;
 }
 
 export const REVIEW_ACTIONS = ['submit', 'request_changes', 'revise', 'approve', 'colour_signoff', 'release'] as const;
@@ -150,6 +153,8 @@ export interface BatchDto {
   state: 'running' | 'completed' | 'failed';
   jobs: BatchItemDto[];
   skipped: BatchItemDto[];
+  /** The written reason when the swatchbook failed its colour checks and the batch went ahead anyway. */
+  overrideReason: string | null;
   createdAt: string;
 }
 

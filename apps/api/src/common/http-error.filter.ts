@@ -2,7 +2,8 @@ import { ArgumentsHost, BadRequestException, Catch, ConflictException, Forbidden
 import { BaseExceptionFilter } from '@nestjs/core';
 import type { Response } from 'express';
 import { QueryFailedError } from 'typeorm';
-import { DomainError, type DomainErrorKind } from '@psiform/server';
+import type { GateBlockedDto } from '@psiform/contracts';
+import { DomainError, GateBlockedError, type DomainErrorKind } from '@psiform/server';
 import { TooManyRequestsException } from './too-many-requests.exception';
 
 /** The one mapping of domain errors (libs/server common/domain-errors.ts) to HTTP. */
@@ -10,10 +11,15 @@ const HTTP: Record<DomainErrorKind, (e: DomainError) => HttpException> = {
   invalid: (e) => new BadRequestException(e.messages), // one message per field, as the ValidationPipe answers
   forbidden: (e) => new ForbiddenException(e.message),
   not_found: (e) => new NotFoundException(e.message),
-  conflict: (e) => new ConflictException(e.message),
+  conflict: (e) => new ConflictException(e instanceof GateBlockedError ? gateBody(e) : e.message),
   too_large: (e) => new PayloadTooLargeException(e.message),
   unavailable: (e) => new ServiceUnavailableException(e.message),
 };
+
+/** A gate's 409 names the gate and each failing check, and says whether a written reason lets the action go ahead. */
+function gateBody(e: GateBlockedError): GateBlockedDto {
+  return { statusCode: 409, error: 'Conflict', gate: e.gate, message: e.message, failures: e.failures, overridable: e.overridable };
+}
 
 export const toHttpException = (e: DomainError): HttpException => HTTP[e.kind](e);
 

@@ -48,6 +48,8 @@ export interface VersionChange {
   note?: string;
   /** Also request a mesh job for the new version, in the same transaction. */
   mesh?: boolean;
+  /** A gate's override that let this write go ahead (e.g. the colour checks of a batch re-render): audited with the new version. */
+  override?: { action: string; note: string };
 }
 
 export interface SavedVersion {
@@ -81,7 +83,8 @@ export class FiguresService {
    * - the house palette, where the publication pins a swatchbook without allowOverride;
    * - a recipe equal to the current one (same hash, current not locked) adds no version: re-rendering with
    *   unchanged colours, or saving twice, is idempotent;
-   * - the audit entries: `revise` for a new version, `rerender` for a re-render, `retitle` for a title change;
+   * - the audit entries: `revise` for a new version, `rerender` for a re-render, `retitle` for a title change, and
+   *   the override of a gate that let the write go ahead (`change.override`, with the new version only);
    * - the mesh job request of a re-render (outbox row), committed with the version.
    */
   async saveVersion(caller: Caller, figureId: string, change: VersionChange): Promise<SavedVersion> {
@@ -101,6 +104,7 @@ export class FiguresService {
           created = true;
           const note = change.reason === 'rerender' ? (change.note ?? `version ${version.number} re-rendered`) : `version ${version.number} created`;
           await tx.audit({ actorId: caller.id, action: change.reason === 'rerender' ? 'rerender' : 'revise', fromStatus: from, toStatus: tx.figure.status, note });
+          if (change.override) await tx.audit({ actorId: caller.id, action: change.override.action, fromStatus: tx.figure.status, toStatus: tx.figure.status, note: change.override.note });
         }
       }
       if (change.title !== undefined && change.title !== tx.figure.title) {

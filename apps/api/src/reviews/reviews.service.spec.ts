@@ -1,6 +1,6 @@
 import { BadRequestException, ConflictException, ForbiddenException, NotFoundException } from '@nestjs/common';
 import type { FigureStatus, MailNoticeJob, UserDto } from '@psiform/contracts';
-import { ConflictError, type AppConfig, type FigureEntity, type FigureVersionEntity, type NewAuditEntry, ReviewsStore, type HouseRules, type ReviewTx, type ReviewRoundEntity, type CommentEntity, type PublicationsStore } from '@psiform/server';
+import { ConflictError, GateBlockedError, InvalidInputError, type AppConfig, type FigureEntity, type FigureVersionEntity, type NewAuditEntry, ReviewsStore, type HouseRules, type ReviewTx, type ReviewRoundEntity, type CommentEntity, type PublicationsStore } from '@psiform/server';
 import { MembershipService } from '../publications/membership.service';
 import type { DeliveryProfilesService } from '../delivery-profiles/delivery-profiles.service';
 import { ReviewsService } from './reviews.service';
@@ -117,11 +117,16 @@ describe('ReviewsService', () => {
   it('preflight failures block approval (409 naming them) until an override with a written reason, which is audited', async () => {
     const { store, svc } = setup(['ill', 'ed'], ['tiff figure.tif: resolution: expected at least 600 dpi (combination art); has 300 dpi']);
     await svc.submit(caller('ill', 'illustrator'), 'f1');
-    const blocked = await svc.approve(caller('ed', 'editor'), 'f1').catch((e: ConflictException) => e);
-    expect(blocked).toBeInstanceOf(ConflictException);
-    expect((blocked as ConflictException).getResponse()).toMatchObject({ gate: 'preflight', overridable: true, failures: [expect.stringContaining('300 dpi')] });
+    const blocked = await svc.approve(caller('ed', 'editor'), 'f1').catch((e: unknown) => e);
+    expect(blocked).toBeInstanceOf(GateBlockedError);
+    // The one filter's answer: 409 naming the gate and each failure.
+    const http = toHttpException(blocked as GateBlockedError);
+    expect(http).toBeInstanceOf(ConflictException);
+    expect(http.getResponse()).toMatchObject({ statusCode: 409, gate: 'preflight', overridable: true, failures: [expect.stringContaining('300 dpi')] });
     expect(store.figure.status).toBe('in_review');
-    await expect(svc.approve(caller('ed', 'editor'), 'f1', undefined, { reason: 'short' })).rejects.toThrow(BadRequestException);
+    const short = await svc.approve(caller('ed', 'editor'), 'f1', undefined, { reason: 'short' }).catch((e: unknown) => e);
+    expect(short).toBeInstanceOf(InvalidInputError);
+    expect(toHttpException(short as InvalidInputError)).toBeInstanceOf(BadRequestException);
     const r = await svc.approve(caller('ed', 'editor'), 'f1', undefined, { reason: 'The printer accepts 300 dpi for this plate; agreed by phone.' });
     expect(r.status).toBe('approved');
     const entry = store.audit.find((a) => a.action === 'preflight_override');

@@ -1,13 +1,12 @@
-import { ConflictException, Injectable, NotFoundException } from '@nestjs/common';
-import type { BatchDto, BatchItemDto, FigureStatus, UserDto } from '@psiform/contracts';
-import { ConflictError, SwatchbooksStore, withPalette } from '@psiform/server';
+import { Injectable } from '@nestjs/common';
+import { COLOUR_OVERRIDE_ACTION, type BatchDto, type BatchItemDto, type UserDto } from '@psiform/contracts';
+import { ConflictError, NotFoundError, SwatchbooksStore, withPalette, type GateAudits } from '@psiform/server';
 import { MembershipService } from '../publications/membership.service';
 import { FiguresService } from '../figures/figures.service';
+import { decideGate } from '../gates/gate';
+import { colourGate, houseStyleImpact } from './house-style-impact';
 
 type Caller = Pick<UserDto, 'id' | 'role'>;
-
-/** Only figures still being worked on are re-rendered; proofs in review, approved and released ones stay as they are. */
-export const RERENDERABLE: readonly FigureStatus[] = ['draft', 'changes_requested'];
 
 @Injectable()
 export class RerenderService {
@@ -18,26 +17,30 @@ export class RerenderService {
   ) {}
 
   /**
-   * For every figure of the publication that uses the pinned swatchbook and is draft or changes_requested:
-   * a new draft version with the swatchbook's current colours and a mesh job for it, both through
-   * FiguresService.saveVersion (one transaction under the figure's lock). Idempotent: a figure that already has the
-   * swatchbook's current colours gets no new version and no job. Others are listed as skipped, with the reason.
+   * For every figure of the publication that uses the pinned swatchbook, is draft or changes_requested and is not
+   * already in its colours (houseStyleImpact, the rule the confirmation shows): a new draft version with the
+   * swatchbook's current colours and a mesh job for it, both through FiguresService.saveVersion (one transaction
+   * under the figure's lock). Idempotent: a figure that already has the colours gets no new version and no job.
+   * Gated by the swatchbook's colour checks (decideGate): error-level failures answer 409 before anything is written
+   * unless `override: { reason }` is given; then each new version carries a 'colour_override' audit entry, and the
+   * batch keeps the reason (audited on the house style with the batch).
    */
-  async rerender(user: Caller, publicationId: string): Promise<BatchDto> {
+  async rerender(user: Caller, publicationId: string, override?: unknown): Promise<BatchDto> {
     await this.membership.requireAccess(user, publicationId);
     const house = await this.store.houseStyle(publicationId);
-    if (!house) throw new ConflictException('this publication has no house style: pin a swatchbook first (PUT /api/publications/:id/house-style)');
+    if (!house) throw new ConflictError('this publication has no house style: pin a swatchbook first (PUT /api/publications/:id/house-style)');
     const book = await this.store.findById(house.swatchbookId);
-    if (!book) throw new ConflictException('the pinned swatchbook no longer exists');
+    if (!book) throw new ConflictError('the pinned swatchbook no longer exists');
+    const gate = colourGate(book.colors);
+    const decision = decideGate(gate.name, gate.failures, override);
+    const overrideNote = decision.overridden ? `batch re-render with swatchbook "${book.name}" v${book.version}: ${decision.auditNote}` : undefined;
+    const rows = await this.store.figuresWithCurrentVersion(publicationId);
+    const impact = houseStyleImpact(rows.map(({ figure, version }) => ({ figure, recipe: version.recipe })), book, 'rerender');
     const items: { figureId: string; status: 'queued' | 'skipped'; reason: string | null; jobId: string | null; figureVersionId: string | null }[] = [];
-    for (const { figure, version } of await this.store.figuresWithCurrentVersion(publicationId)) {
+    for (const [i, { figure, version }] of rows.entries()) {
       const skip = (reason: string) => items.push({ figureId: figure.id, status: 'skipped', reason, jobId: null, figureVersionId: null });
-      if (version.recipe.palette?.swatchbookId !== book.id) {
-        skip('does not use the pinned swatchbook');
-        continue;
-      }
-      if (!RERENDERABLE.includes(figure.status)) {
-        skip(`status is ${figure.status}: only draft and changes_requested figures are re-rendered`);
+      if (impact[i].effect !== 'rerender') {
+        skip(impact[i].reason);
         continue;
       }
       const recipe = withPalette(version.recipe, { swatchbookId: book.id, ...book.colors });
@@ -48,6 +51,7 @@ export class RerenderService {
           expectedCurrent: figure.currentVersion,
           note: `re-rendered with swatchbook "${book.name}" v${book.version}`,
           mesh: true,
+          override: overrideNote ? { action: COLOUR_OVERRIDE_ACTION, note: overrideNote } : undefined,
         });
         if (!saved.created) skip(`already has the colours of swatchbook "${book.name}" v${book.version}`);
         else items.push({ figureId: figure.id, status: 'queued', reason: null, jobId: saved.jobId ?? null, figureVersionId: saved.version.id });
@@ -56,13 +60,20 @@ export class RerenderService {
         skip('changed meanwhile');
       }
     }
-    const batch = await this.store.createBatch({ publicationId, swatchbookId: book.id, swatchbookVersion: book.version, requestedBy: user.id }, items);
+    const audits: GateAudits | undefined = overrideNote
+      ? { subject: [{ subjectKind: 'house_style', subjectId: publicationId, actorId: user.id, action: COLOUR_OVERRIDE_ACTION, note: overrideNote }] }
+      : undefined;
+    const batch = await this.store.createBatch(
+      { publicationId, swatchbookId: book.id, swatchbookVersion: book.version, requestedBy: user.id, overrideReason: decision.overridden ? decision.reason : null },
+      items,
+      audits,
+    );
     return this.get(user, batch.id);
   }
 
   async get(user: Caller, batchId: string): Promise<BatchDto> {
     const found = await this.store.findBatch(batchId);
-    if (!found || !(await this.membership.canAccess(user, found.batch.publicationId))) throw new NotFoundException(`batch ${batchId} not found`);
+    if (!found || !(await this.membership.canAccess(user, found.batch.publicationId))) throw new NotFoundError(`batch ${batchId} not found`);
     const { batch, items } = found;
     const jobs: BatchItemDto[] = [];
     const skipped: BatchItemDto[] = [];
@@ -84,6 +95,7 @@ export class RerenderService {
       state,
       jobs,
       skipped,
+      overrideReason: batch.overrideReason,
       createdAt: batch.createdAt.toISOString(),
     };
   }

@@ -1,9 +1,9 @@
 import { Body, Controller, Get, HttpCode, Param, Patch, Post, Put, Query, Res } from '@nestjs/common';
 import type { Response } from 'express';
-import type { BatchDto, HouseStyleDto, SwatchbookCheckDto, SwatchbookDto, SwatchbookVersionDto, UserDto } from '@psiform/contracts';
+import type { BatchDto, HouseStyleDto, HouseStyleImpactDto, SwatchbookCheckDto, SwatchbookDto, SwatchbookVersionDto, UserDto } from '@psiform/contracts';
 import { CurrentUser, Roles } from '../auth/auth.decorators';
 import { uuidParam } from '../common/uuid-param.pipe';
-import { CreateSwatchbookBody, HouseStyleBody, ImportSwatchbookBody, ListSwatchbooksQuery, UpdateSwatchbookBody } from './swatchbooks.dto';
+import { CreateSwatchbookBody, HouseStyleBody, HouseStyleImpactQuery, ImportSwatchbookBody, ListSwatchbooksQuery, RerenderBody, UpdateSwatchbookBody } from './swatchbooks.dto';
 import { SwatchbooksService } from './swatchbooks.service';
 import { RerenderService } from './rerender.service';
 
@@ -87,17 +87,24 @@ export class HouseStyleController {
     return this.swatchbooks.getHouseStyle(user, id);
   }
 
+  /** What pinning a swatchbook (for=pin) or a batch re-render (for=rerender) would do: the colour checks and every figure. */
+  @Get(':id/house-style/impact')
+  impact(@CurrentUser() user: UserDto, @Param('id', uuidParam('id')) id: string, @Query() q: HouseStyleImpactQuery): Promise<HouseStyleImpactDto> {
+    return this.swatchbooks.impact(user, id, q.for, q.swatchbookId);
+  }
+
+  /** Pins or changes the house style; a (new) pin is gated by the swatchbook's colour checks (body override: { reason }). */
   @Put(':id/house-style')
   @Roles('art_director', 'admin')
   put(@CurrentUser() user: UserDto, @Param('id', uuidParam('id')) id: string, @Body() body: HouseStyleBody): Promise<HouseStyleDto> {
     return this.swatchbooks.putHouseStyle(user, id, body);
   }
 
-  /** Batch re-render with the pinned swatchbook's current colours. */
+  /** Batch re-render with the pinned swatchbook's current colours (gated by its colour checks; body override: { reason }). */
   @Post(':id/rerender')
   @Roles('art_director', 'admin')
-  rerender(@CurrentUser() user: UserDto, @Param('id', uuidParam('id')) id: string): Promise<BatchDto> {
-    return this.rerenders.rerender(user, id);
+  rerender(@CurrentUser() user: UserDto, @Param('id', uuidParam('id')) id: string, @Body() body: RerenderBody): Promise<BatchDto> {
+    return this.rerenders.rerender(user, id, body?.override);
   }
 }
 

@@ -1,4 +1,5 @@
-import { IsBoolean, IsDefined, IsOptional, IsString, IsUUID, MaxLength } from 'class-validator';
+import { IsBoolean, IsDefined, IsIn, IsObject, IsOptional, IsString, IsUUID, MaxLength } from 'class-validator';
+import { HOUSE_STYLE_IMPACT_FOR, type HouseStyleImpactFor } from '@psiform/contracts';
 import { OptionalNotNull } from '../common/validation';
 
 /** Where a new swatchbook belongs (create and import): one publication, or `publisher` for all of its publications. */
@@ -57,7 +58,16 @@ export class ListSwatchbooksQuery {
   publicationId?: string;
 }
 
-export class HouseStyleBody {
+
+/** A written reason to go past failing colour checks ({ reason }; its length is checked by the gate, gates/gate.ts). */
+class GateOverrideField {
+  @OptionalNotNull()
+  @IsObject({ message: 'override must be an object { reason }' })
+  override?: unknown;
+}
+
+/** PUT /api/publications/:id/house-style */
+export class HouseStyleBody extends GateOverrideField {
   @IsUUID('all', { message: 'swatchbookId must be a UUID' })
   swatchbookId: string;
 
@@ -68,4 +78,18 @@ export class HouseStyleBody {
   @OptionalNotNull()
   @IsBoolean({ message: 'allowOverride must be true or false' })
   allowOverride?: boolean;
+}
+
+/** POST /api/publications/:id/rerender: the optional written reason to go past failing colour checks. */
+export class RerenderBody extends GateOverrideField {}
+
+/** GET /api/publications/:id/house-style/impact */
+export class HouseStyleImpactQuery {
+  @IsIn(HOUSE_STYLE_IMPACT_FOR, { message: `for must be one of ${HOUSE_STYLE_IMPACT_FOR.join(', ')}` })
+  for: HouseStyleImpactFor;
+
+  /** The swatchbook to pin (for=pin); the pinned one when left out. */
+  @OptionalNotNull()
+  @IsUUID('all', { message: 'swatchbookId must be a UUID' })
+  swatchbookId?: string;
 }

@@ -1,8 +1,11 @@
 import { BadRequestException, Injectable, NotFoundException } from '@nestjs/common';
 import { checkSwatchbook } from '@psiform/colour';
 import {
+  COLOUR_OVERRIDE_ACTION,
   SWATCHBOOK_FILE_FORMAT,
   type HouseStyleDto,
+  type HouseStyleImpactDto,
+  type HouseStyleImpactFor,
   type SwatchbookCheckDto,
   type SwatchbookColorsDto,
   type SwatchbookDto,
@@ -11,7 +14,9 @@ import {
   type UserDto,
 } from '@psiform/contracts';
 import { MembershipService, scopeOf, type AccessAction, type Guarded, type Scope } from '../publications/membership.service';
-import { SwatchbooksStore, toSwatchbookDto, toSwatchbookVersionDto, type SwatchbookEntity } from '@psiform/server';
+import { InvalidInputError, SwatchbooksStore, toSwatchbookDto, toSwatchbookVersionDto, type GateAudits, type HouseStyleOverride, type SwatchbookEntity } from '@psiform/server';
+import { decideGate } from '../gates/gate';
+import { colourGate, houseStyleImpact } from './house-style-impact';
 import { parseColors, parseName, parseSwatchbookFile } from './swatchbook-input';
 
 type Caller = Pick<UserDto, 'id' | 'role'>;
@@ -121,27 +126,91 @@ export class SwatchbooksService {
 
   async getHouseStyle(user: Caller, publicationId: string): Promise<HouseStyleDto> {
     await this.membership.requireAccess(user, publicationId);
-    const h = await this.store.houseStyle(publicationId);
-    if (!h) throw new NotFoundException(`publication ${publicationId} has no house style yet`);
+    const view = await this.store.houseStyleView(publicationId);
+    if (!view) throw new NotFoundException(`publication ${publicationId} has no house style yet`);
+    const { house: h, overrideByName } = view;
     const s = await this.store.findById(h.swatchbookId);
     if (!s) throw new NotFoundException(`the pinned swatchbook ${h.swatchbookId} no longer exists`);
-    return { publicationId, swatchbookId: h.swatchbookId, swatchbookName: s.name, requireColourSignOff: h.requireColourSignOff, allowOverride: h.allowOverride, updatedAt: h.updatedAt.toISOString() };
+    const colourOverride =
+      h.overrideReason !== null && h.overrideAt !== null
+        ? { reason: h.overrideReason, byName: overrideByName, at: h.overrideAt.toISOString(), failures: h.overrideFailures ?? [], swatchbookVersion: h.overrideSwatchbookVersion ?? s.version }
+        : null;
+    return { publicationId, swatchbookId: h.swatchbookId, swatchbookName: s.name, requireColourSignOff: h.requireColourSignOff, allowOverride: h.allowOverride, updatedAt: h.updatedAt.toISOString(), colourOverride };
   }
 
-  async putHouseStyle(user: Caller, publicationId: string, body: { swatchbookId: string; requireColourSignOff?: boolean; allowOverride?: boolean }): Promise<HouseStyleDto> {
-    const pub = await this.membership.requireAccess(user, publicationId);
-    const s = await this.store.findById(body.swatchbookId);
+  /** A swatchbook that may be pinned in this publication (its own, or its publisher's); 400 naming swatchbookId otherwise. */
+  private async pinnable(publicationId: string, swatchbookId: string, pub: { id: string; publisher: string }): Promise<SwatchbookEntity> {
+    const s = await this.store.findById(swatchbookId);
     // Only a swatchbook of this publication (or of its publisher) may be pinned: another publication's palette
     // would otherwise flow into this one's figures.
-    if (!s || !MembershipService.reaches(scopeOf(s), pub)) throw new BadRequestException([`swatchbookId: no swatchbook ${body.swatchbookId} in this publication`]);
+    if (!s || !MembershipService.reaches(scopeOf(s), pub)) throw new BadRequestException([`swatchbookId: no swatchbook ${swatchbookId} in this publication`]);
+    return s;
+  }
+
+  /**
+   * Pins or changes the house style. Pinning a swatchbook (the first, or another one) is gated by its colour checks
+   * (decideGate): error-level failures answer 409 naming them unless `override: { reason }` comes with the request;
+   * the reason is kept on the house style and audited ('colour_override') on it and on every affected figure, in the
+   * transaction of the change. Changing only the rules of the pinned swatchbook passes no gate and keeps the
+   * override. Every change is audited on the house style ('house_style_pin').
+   */
+  async putHouseStyle(
+    user: Caller,
+    publicationId: string,
+    body: { swatchbookId: string; requireColourSignOff?: boolean; allowOverride?: boolean; override?: unknown },
+  ): Promise<HouseStyleDto> {
+    const pub = await this.membership.requireAccess(user, publicationId);
+    const s = await this.pinnable(publicationId, body.swatchbookId, pub);
     const previous = await this.store.houseStyle(publicationId);
-    await this.store.putHouseStyle({
-      publicationId,
-      swatchbookId: s.id,
-      requireColourSignOff: body.requireColourSignOff ?? previous?.requireColourSignOff ?? false,
-      allowOverride: body.allowOverride ?? previous?.allowOverride ?? false,
-      updatedBy: user.id,
-    });
+    const requireColourSignOff = body.requireColourSignOff ?? previous?.requireColourSignOff ?? false;
+    const allowOverride = body.allowOverride ?? previous?.allowOverride ?? false;
+    const pinning = !previous || previous.swatchbookId !== s.id;
+    const gate = colourGate(s.colors);
+    const decision = decideGate(gate.name, pinning ? gate.failures : [], body.override);
+    const words: string[] = [];
+    if (pinning) words.push(`pinned swatchbook "${s.name}" v${s.version}${gate.failures.length ? '' : ' (colour checks pass)'}`);
+    if (requireColourSignOff !== (previous?.requireColourSignOff ?? false)) words.push(requireColourSignOff ? 'approval needs a colour sign-off' : 'no colour sign-off needed');
+    if (allowOverride !== (previous?.allowOverride ?? false)) words.push(allowOverride ? 'figures may use other colours' : 'figures must use these colours');
+    const audits: Required<GateAudits> = { subject: [], figures: [] };
+    if (words.length) audits.subject.push({ subjectKind: 'house_style', subjectId: publicationId, actorId: user.id, action: 'house_style_pin', note: words.join('; ') });
+    let override: HouseStyleOverride | null | undefined = pinning ? null : undefined;
+    if (decision.overridden) {
+      const note = `swatchbook "${s.name}" v${s.version} pinned past failing colour checks: ${decision.auditNote}`;
+      override = { reason: decision.reason, by: user.id, failures: gate.failures, swatchbookVersion: s.version };
+      audits.subject.push({ subjectKind: 'house_style', subjectId: publicationId, actorId: user.id, action: COLOUR_OVERRIDE_ACTION, note });
+      for (const f of (await this.figureImpact(publicationId, s, 'pin', allowOverride)).filter((x) => x.affected)) {
+        audits.figures.push({ figureId: f.figureId, actorId: user.id, action: COLOUR_OVERRIDE_ACTION, fromStatus: f.status, toStatus: f.status, note });
+      }
+    }
+    await this.store.putHouseStyle({ publicationId, swatchbookId: s.id, requireColourSignOff, allowOverride, updatedBy: user.id }, { override, audits });
     return this.getHouseStyle(user, publicationId);
+  }
+
+  /**
+   * What pinning a swatchbook (`pin`; default the pinned one) or a batch re-render with the pinned one (`rerender`)
+   * would do: the gate's verdict and every figure of the publication. Read-only: the confirmation before the change.
+   */
+  async impact(user: Caller, publicationId: string, mode: HouseStyleImpactFor, swatchbookId?: string): Promise<HouseStyleImpactDto> {
+    const pub = await this.membership.requireAccess(user, publicationId);
+    const house = await this.store.houseStyle(publicationId);
+    if (mode === 'rerender' && swatchbookId !== undefined && swatchbookId !== house?.swatchbookId) {
+      throw new InvalidInputError(['swatchbookId: a batch re-render uses the pinned swatchbook; leave swatchbookId out']);
+    }
+    const id = swatchbookId ?? house?.swatchbookId;
+    if (!id) throw new InvalidInputError(['swatchbookId: required while the publication has no house style']);
+    const s = await this.pinnable(publicationId, id, pub);
+    const allowOverride = house?.allowOverride ?? false;
+    return {
+      publicationId,
+      for: mode,
+      swatchbook: { id: s.id, name: s.name, version: s.version },
+      gate: colourGate(s.colors),
+      figures: await this.figureImpact(publicationId, s, mode, allowOverride),
+    };
+  }
+
+  private async figureImpact(publicationId: string, s: SwatchbookEntity, mode: HouseStyleImpactFor, allowOverride: boolean) {
+    const rows = await this.store.figuresWithCurrentVersion(publicationId);
+    return houseStyleImpact(rows.map(({ figure, version }) => ({ figure, recipe: version.recipe })), s, mode, { allowOverride });
   }
 }

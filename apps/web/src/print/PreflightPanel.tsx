@@ -1,11 +1,11 @@
-import { useState } from 'react';
-import { Button, Callout, FormGroup, HTMLTable, Tag, TextArea } from '@blueprintjs/core';
+import { Callout, HTMLTable, Tag } from '@blueprintjs/core';
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import { DELIVERY_LIMITS, PREFLIGHT_RULES, type FigureDto, type PreflightFileReport } from '@psiform/contracts';
+import { PREFLIGHT_RULES, type FigureDto, type PreflightFileReport } from '@psiform/contracts';
 import { describeError } from '../api/client';
 import { useApi, useAuth } from '../auth/AuthProvider';
 import { approveWithOverride, getFigurePreflight } from './printApi';
 import { TableHead } from '../components/TableHead';
+import { OverrideReason } from '../components/OverrideReason';
 
 const RULE_NAME = Object.fromEntries(PREFLIGHT_RULES.map((r) => [r.id, r.name]));
 
@@ -44,9 +44,8 @@ export function PreflightPanel({ figure }: { figure: Pick<FigureDto, 'id' | 'sta
   const { user } = useAuth();
   const qc = useQueryClient();
   const q = useQuery({ queryKey: ['figure-preflight', figure.id], queryFn: () => getFigurePreflight(api, figure.id) });
-  const [reason, setReason] = useState('');
   const approve = useMutation({
-    mutationFn: () => approveWithOverride(api, figure.id, reason.trim()),
+    mutationFn: (reason: string) => approveWithOverride(api, figure.id, reason),
     onSuccess: () => {
       for (const key of [['figure', figure.id], ['figure-audit', figure.id], ['review-desk'], ['figures'], ['figure-preflight', figure.id]]) void qc.invalidateQueries({ queryKey: key });
     },
@@ -54,7 +53,6 @@ export function PreflightPanel({ figure }: { figure: Pick<FigureDto, 'id' | 'sta
   if (q.isPending) return <p className="pf-muted" data-testid="preflight-loading">Checking preflight…</p>;
   if (q.isError) return <Callout intent="danger" data-testid="preflight-error">{describeError(q.error)}</Callout>;
   const pf = q.data;
-  const tooShort = reason.trim().length < DELIVERY_LIMITS.reasonMin;
   return (
     <section className="pf-section" data-testid="preflight-panel" data-blocks={pf.blocksApproval ? 'true' : 'false'}>
       <h2>Preflight of version {pf.versionNumber}</h2>
@@ -79,27 +77,16 @@ export function PreflightPanel({ figure }: { figure: Pick<FigureDto, 'id' | 'sta
             ))}
           </ul>
           {user?.role === 'editor' && figure.status === 'in_review' && (
-            <form
-              data-testid="preflight-override-form"
-              onSubmit={(e) => {
-                e.preventDefault();
-                if (!tooShort) approve.mutate();
-              }}
+            <OverrideReason
+              label="Approve anyway: say why these failures are acceptable (recorded in the audit trail)"
+              submitText="Approve with this reason"
+              pending={approve.isPending}
+              onSubmit={(reason) => approve.mutate(reason)}
+              testIdPrefix="preflight-override"
             >
-              <FormGroup label="Approve anyway: say why these failures are acceptable (recorded in the audit trail)" labelFor="pf-override-reason">
-                <TextArea id="pf-override-reason" data-testid="preflight-override-reason" fill value={reason} onChange={(e) => setReason(e.target.value)} />
-              </FormGroup>
-              {reason.length > 0 && tooShort && (
-                <div className="pf-field-error" role="alert" data-testid="preflight-override-short">
-                  At least {DELIVERY_LIMITS.reasonMin} characters.
-                </div>
-              )}
-              <Button type="submit" intent="warning" disabled={tooShort} loading={approve.isPending} data-testid="preflight-override-submit">
-                Approve with this reason
-              </Button>
               {approve.isError && <Callout intent="danger" data-testid="preflight-override-error">{describeError(approve.error)}</Callout>}
               {approve.isSuccess && <span data-testid="preflight-override-done">Approved; the reason is in the audit trail.</span>}
-            </form>
+            </OverrideReason>
           )}
         </Callout>
       )}

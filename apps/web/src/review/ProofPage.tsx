@@ -6,11 +6,11 @@ import type { AssetDto } from '@psiform/contracts';
 import { ApiError, describeError } from '../api/client';
 import { useApi } from '../auth/AuthProvider';
 import { statusIntent } from '../figures/FiguresTable';
-import { statusLabel } from '../figures/model';
+import { formatDate, statusLabel } from '../figures/model';
 import { Viewport } from '../pages/FigurePage';
 import { AuditTrail } from './AuditTrail';
 import { CommentsPanel, numberPins } from './CommentsPanel';
-import { DecisionBar } from './DecisionBar';
+import { DecisionBar, useFigureAudit } from './DecisionBar';
 import { ProofImage, type Pin, type ProofZoom } from './ProofImage';
 import { listComments } from './reviewApi';
 import { ComparePanel } from './ComparePanel';
@@ -21,6 +21,18 @@ import { useMutation, useQueryClient } from '@tanstack/react-query';
 
 function latest(assets: AssetDto[], kind: AssetDto['kind']): AssetDto | undefined {
   return assets.filter((a) => a.kind === kind).sort((a, b) => b.createdAt.localeCompare(a.createdAt))[0];
+}
+
+/** The colours of this figure were pinned or re-rendered past failing colour checks: the newest such reason, always in view. */
+export function ColourOverrideNote({ figureId }: { figureId: string }) {
+  const audit = useFigureAudit(figureId);
+  const last = [...(audit.data ?? [])].reverse().find((e) => e.action === 'colour_override');
+  if (!last) return null;
+  return (
+    <Callout intent="warning" icon="warning-sign" title="Colour checks overridden" className="pf-gap" data-testid="proof-colour-override">
+      {last.actorName ?? 'An art director'}, {formatDate(last.at)}: {last.note}
+    </Callout>
+  );
 }
 
 /** A proof as a reviewer sees it: the image (or the 3D view), comments with pins, decisions, history. */
@@ -78,6 +90,7 @@ export function ProofPage() {
           <span data-testid="proof-version">Version {f.currentVersion.number}</span>
           {f.ownerName && <span>by {f.ownerName}</span>}
         </div>
+        <ColourOverrideNote figureId={f.id} />
       </header>
 
       <div className="pf-proof-layout">

@@ -121,6 +121,18 @@ describe('proof page: compare versions', () => {
     }
   });
 
+  it('a colour override on the figure is shown on its proof', async () => {
+    routes([v2, v1], {
+      'GET /api/figures/f1/audit': () =>
+        json(200, [{ id: 'a1', figureId: 'f1', actorId: 'u', actorName: 'Ada Vane', action: 'colour_override', fromStatus: 'in_review', toStatus: 'in_review', note: 'colour checks overridden: duotone print', at: '2025-03-01T10:00:00.000Z' }]),
+    });
+    renderApp('/figures/f1/proof');
+    const note = await screen.findByTestId('proof-colour-override');
+    expect(note.textContent).toContain('Colour checks overridden');
+    expect(note.textContent).toContain('Ada Vane');
+    expect(note.textContent).toContain('colour checks overridden: duotone print');
+  });
+
   it('states print size, dpi and colour mode of the image under review and zooms to 1:1 print pixels', async () => {
     routes([versionSummary(2, { current: true, image: { ...PROOF_IMAGE, assetId: 'png-2' } }), v1]);
     renderApp('/figures/f1/proof');

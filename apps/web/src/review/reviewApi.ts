@@ -3,6 +3,7 @@ import type {
   BatchDto,
   CommentDto,
   HouseStyleDto,
+  HouseStyleImpactDto,
   ReviewTransitionDto,
 } from '@psiform/contracts';
 import { ApiError, type ApiClient } from '../api/client';
@@ -31,6 +32,8 @@ export interface HouseStyleInput {
   swatchbookId: string;
   requireColourSignOff: boolean;
   allowOverride: boolean;
+  /** A written reason to pin a swatchbook whose colour checks fail at error level. */
+  override?: { reason: string };
 }
 
 export function decide(api: ApiClient, figureId: string, decision: Decision, note?: string): Promise<ReviewTransitionDto> {
@@ -64,8 +67,14 @@ export function putHouseStyle(api: ApiClient, publicationId: string, body: House
   return api.request<HouseStyleDto>(`/api/publications/${enc(publicationId)}/house-style`, { method: 'PUT', body });
 }
 
-export function startRerender(api: ApiClient, publicationId: string): Promise<BatchDto> {
-  return api.request<BatchDto>(`/api/publications/${enc(publicationId)}/rerender`, { method: 'POST' });
+export function startRerender(api: ApiClient, publicationId: string, reason?: string): Promise<BatchDto> {
+  return api.request<BatchDto>(`/api/publications/${enc(publicationId)}/rerender`, { method: 'POST', body: reason ? { override: { reason } } : {} });
+}
+
+/** What pinning `swatchbookId` (or a re-render with the pinned one) would do: the colour checks and every figure. */
+export function houseStyleImpact(api: ApiClient, publicationId: string, mode: 'pin' | 'rerender', swatchbookId?: string): Promise<HouseStyleImpactDto> {
+  const qs = new URLSearchParams({ for: mode, ...(swatchbookId ? { swatchbookId } : {}) });
+  return api.request<HouseStyleImpactDto>(`/api/publications/${enc(publicationId)}/house-style/impact?${qs.toString()}`);
 }
 
 export function batch(api: ApiClient, batchId: string, signal?: AbortSignal): Promise<BatchDto> {

@@ -15,6 +15,40 @@ function Verdict({ ok, warn, testId }: { ok: boolean; warn?: boolean; testId: st
   );
 }
 
+type CheckGroup = 'phases' | 'contrast' | 'print' | 'wheel';
+type Warning = SwatchbookCheck['warnings'][number];
+
+/** Which check raised a warning: each warning is shown under the heading of its check (every code has one). */
+export const WARNING_GROUP: Record<Warning['code'], CheckGroup> = {
+  phases_too_similar: 'phases',
+  label_contrast_low: 'contrast',
+  phase_background_contrast_low: 'contrast',
+  out_of_print_gamut: 'print',
+  wheel_clamped: 'wheel',
+};
+
+export function groupWarnings(warnings: Warning[]): Record<CheckGroup, Warning[]> {
+  const out: Record<CheckGroup, Warning[]> = { phases: [], contrast: [], print: [], wheel: [] };
+  for (const w of warnings) out[WARNING_GROUP[w.code]].push(w);
+  return out;
+}
+
+function Warnings({ list, group }: { list: Warning[]; group: CheckGroup }) {
+  if (list.length === 0) return null;
+  return (
+    <ul className="pf-warnings" data-testid={`check-warnings-${group}`}>
+      {list.map((w, i) => (
+        <li key={`${w.code}-${i}`}>
+          <Callout intent={w.level === 'error' ? 'danger' : 'warning'} compact data-testid="check-warning" data-code={w.code} data-level={w.level} data-group={group}>
+            {w.level === 'error' && <strong>Blocks pinning and batch re-renders: </strong>}
+            {w.message.charAt(0).toUpperCase() + w.message.slice(1)}.
+          </Callout>
+        </li>
+      ))}
+    </ul>
+  );
+}
+
 const de = (v: number) => v.toFixed(1);
 const ratio = (v: number) => `${v.toFixed(2)}:1`;
 
@@ -35,6 +69,7 @@ export function ColourChecks({ check }: { check: SwatchbookCheck }) {
     ['axes', 'Axes on background', f.axesBackgroundContrast, WCAG_AA_GRAPHICS],
   ];
 
+  const groups = groupWarnings(check.warnings);
   return (
     <div className="pf-checks" data-testid="colour-checks">
       <h3>Phases told apart (CIEDE2000)</h3>
@@ -55,6 +90,7 @@ export function ColourChecks({ check }: { check: SwatchbookCheck }) {
           ))}
         </tbody>
       </HTMLTable>
+      <Warnings list={groups.phases} group="phases" />
 
       <h3>Contrast (WCAG 2.1)</h3>
       <p className="pf-muted pf-small">
@@ -75,6 +111,7 @@ export function ColourChecks({ check }: { check: SwatchbookCheck }) {
             ))}
         </tbody>
       </HTMLTable>
+      <Warnings list={groups.contrast} group="contrast" />
 
       <h3>Print</h3>
       <p className="pf-muted pf-small" data-testid="check-gamut">
@@ -85,17 +122,15 @@ export function ColourChecks({ check }: { check: SwatchbookCheck }) {
             : `Out of gamut on ${f.print.condition.name}: ${f.outOfPrintGamut.join(', ')}.`}
       </p>
 
-      {check.warnings.length > 0 ? (
-        <ul className="pf-warnings" data-testid="check-warnings">
-          {check.warnings.map((w, i) => (
-            <li key={`${w.code}-${i}`}>
-              <Callout intent={w.level === 'error' ? 'danger' : 'warning'} compact data-testid="check-warning" data-code={w.code}>
-                {w.message.charAt(0).toUpperCase() + w.message.slice(1)}.
-              </Callout>
-            </li>
-          ))}
-        </ul>
-      ) : (
+      <Warnings list={groups.print} group="print" />
+      {groups.wheel.length > 0 && (
+        <>
+          <h3>Complex-phase wheel</h3>
+          <Warnings list={groups.wheel} group="wheel" />
+        </>
+      )}
+
+      {check.warnings.length === 0 && (
         <Callout intent="success" compact data-testid="check-all-clear">
           No warnings: the phases are distinct for every simulated vision and the label reads on the background.
         </Callout>

@@ -39,3 +39,17 @@ export class TooLargeError extends DomainError {
 export class UnavailableError extends DomainError {
   readonly kind = 'unavailable' as const;
 }
+
+/**
+ * A gate stopped the action (apps/api gates/gate.ts): the checks named in `failures` failed, and the action goes
+ * ahead only with a written reason when `overridable`. 409 whose body names the gate and each failure (GateBlockedDto).
+ */
+export class GateBlockedError extends ConflictError {
+  constructor(
+    readonly gate: string,
+    readonly failures: string[],
+    readonly overridable: boolean,
+  ) {
+    super(`${gate} failed (${failures.length} ${failures.length === 1 ? 'failure' : 'failures'})${overridable ? '; to go ahead anyway, send override: { reason } saying why' : ''}: ${failures.join(' | ')}`);
+  }
+}

@@ -23,6 +23,7 @@ import { PeopleAndPublications1765584000000 } from './migrations/1765584000000-P
 import { PrintProduction1765411200000 } from './migrations/1765411200000-PrintProduction';
 import { FigureUnitsAndSetCaptions1765600000000 } from './migrations/1765600000000-FigureUnitsAndSetCaptions';
 import { SwatchbookScope1796200000000 } from './migrations/1796200000000-SwatchbookScope';
+import { ColourGate1796225688699 } from './migrations/1796225688699-ColourGate';
 import { DeliveryProfileEntity } from '../delivery-profiles/delivery-profile.entity';
 import { OutboxEntity } from '../outbox/outbox.entity';
 import { Outbox1796188459275 } from './migrations/1796188459275-Outbox';
@@ -39,7 +40,7 @@ export const ENTITIES = [UserEntity, PublicationEntity, MembershipEntity, Figure
   SwatchbookEntity, SwatchbookVersionEntity, HouseStyleEntity, BatchEntity, BatchItemEntity, ReviewRoundEntity, CommentEntity, AuditEntryEntity, FigureSetEntity, DeliveryProfileEntity,
   OutboxEntity, UserLinkEntity];
 export const MIGRATIONS = [Foundation1764633600000, FigureJobs1764720000000, EditorialReview1764806400000, StudioExports1764979200000, FigureSetExports1765238400000, PrintProduction1765411200000,
-  PeopleAndPublications1765584000000, FigureUnitsAndSetCaptions1765600000000, Outbox1796188459275, SwatchbookScope1796200000000];
+  PeopleAndPublications1765584000000, FigureUnitsAndSetCaptions1765600000000, Outbox1796188459275, SwatchbookScope1796200000000, ColourGate1796225688699];
 
 /**
  * Time limits of database calls made while answering a request (the api's data source), so a stalled PostgreSQL

@@ -9,6 +9,8 @@ export class BatchEntity {
   @UuidColumn('swatchbook_id') swatchbookId: string;
   @Column({ name: 'swatchbook_version', type: 'int' }) swatchbookVersion: number;
   @UuidColumn('requested_by', true) requestedBy: string | null;
+  /** The written reason when the swatchbook failed its colour checks at error level and the batch went ahead. */
+  @Column({ name: 'override_reason', type: 'text', nullable: true }) overrideReason: string | null;
   @CreatedAt() createdAt: Date;
 }
 

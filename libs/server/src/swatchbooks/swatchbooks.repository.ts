@@ -9,6 +9,36 @@ import { SwatchbookEntity, SwatchbookVersionEntity } from './swatchbook.entity';
 import { HouseStyleEntity } from './house-style.entity';
 import { BatchEntity, BatchItemEntity } from './batch.entity';
 import { ConflictError } from '../common/domain-errors';
+import { UserEntity } from '../users/user.entity';
+import { insertAudit, insertSubjectAudit, type NewAuditEntry, type NewSubjectAuditEntry } from '../audit/audit.repository';
+
+/** The house style's rules (what PUT sets). */
+export interface HouseStyleRules {
+  publicationId: string;
+  swatchbookId: string;
+  requireColourSignOff: boolean;
+  allowOverride: boolean;
+  updatedBy: string;
+}
+
+/** A pin past failing colour checks: the written reason, who gave it and what it went past. */
+export interface HouseStyleOverride {
+  reason: string;
+  by: string;
+  failures: string[];
+  swatchbookVersion: number;
+}
+
+/** Audit entries written in the transaction of a house-style change or a batch (the house style, its figures). */
+export interface GateAudits {
+  subject?: NewSubjectAuditEntry[];
+  figures?: NewAuditEntry[];
+}
+
+async function writeAudits(em: EntityManager, audits: GateAudits | undefined): Promise<void> {
+  for (const a of audits?.subject ?? []) await insertSubjectAudit(em, a);
+  for (const a of audits?.figures ?? []) await insertAudit(em, a);
+}
 
 export interface SwatchbookChange {
   name?: string;
@@ -43,9 +73,20 @@ export abstract class SwatchbooksStore {
   abstract change(id: string, change: SwatchbookChange, authorId: string, action: SwatchbookVersionDto['action'], requireUnlocked: boolean): Promise<SwatchbookEntity | null>;
   abstract versions(id: string): Promise<SwatchbookVersionEntity[]>;
   abstract houseStyle(publicationId: string): Promise<HouseStyleEntity | null>;
-  abstract putHouseStyle(h: { publicationId: string; swatchbookId: string; requireColourSignOff: boolean; allowOverride: boolean; updatedBy: string }): Promise<HouseStyleEntity>;
+  /** The house style with the name of whoever overrode its colour checks (null when nobody did, or they are gone). */
+  abstract houseStyleView(publicationId: string): Promise<{ house: HouseStyleEntity; overrideByName: string | null } | null>;
+  /**
+   * Sets the rules and, in the same transaction, the colour override (`undefined` keeps it, `null` clears it) and the
+   * audit entries of the change.
+   */
+  abstract putHouseStyle(h: HouseStyleRules, opts?: { override?: HouseStyleOverride | null; audits?: GateAudits }): Promise<HouseStyleEntity>;
   abstract figuresWithCurrentVersion(publicationId: string): Promise<FigureWithVersion[]>;
-  abstract createBatch(b: { publicationId: string; swatchbookId: string; swatchbookVersion: number; requestedBy: string }, items: Omit<BatchItemEntity, 'id' | 'batchId'>[]): Promise<BatchEntity>;
+  /** The batch, its items and (an override of the colour checks) its audit entries, in one transaction. */
+  abstract createBatch(
+    b: { publicationId: string; swatchbookId: string; swatchbookVersion: number; requestedBy: string; overrideReason: string | null },
+    items: Omit<BatchItemEntity, 'id' | 'batchId'>[],
+    audits?: GateAudits,
+  ): Promise<BatchEntity>;
   abstract findBatch(id: string): Promise<{ batch: BatchEntity; items: { item: BatchItemEntity; title: string; versionNumber: number | null; jobState: string | null }[] } | null>;
 }
 
@@ -110,10 +151,32 @@ export class TypeormSwatchbooksStore implements SwatchbooksStore {
     return this.ds.getRepository(HouseStyleEntity).findOne({ where: { publicationId } });
   }
 
-  async putHouseStyle(h: { publicationId: string; swatchbookId: string; requireColourSignOff: boolean; allowOverride: boolean; updatedBy: string }) {
-    const repo = this.ds.getRepository(HouseStyleEntity);
-    await repo.upsert(h, ['publicationId']);
-    return repo.findOneOrFail({ where: { publicationId: h.publicationId } });
+  async houseStyleView(publicationId: string) {
+    const { entities, raw } = await this.ds
+      .getRepository(HouseStyleEntity)
+      .createQueryBuilder('h')
+      .leftJoin(UserEntity, 'u', 'u.id = h.override_by')
+      .addSelect('u.display_name', 'override_by_name')
+      .where('h.publication_id = :publicationId', { publicationId })
+      .getRawAndEntities();
+    if (!entities[0]) return null;
+    return { house: entities[0], overrideByName: (raw[0]?.override_by_name as string | null | undefined) ?? null };
+  }
+
+  putHouseStyle(h: HouseStyleRules, opts: { override?: HouseStyleOverride | null; audits?: GateAudits } = {}) {
+    return this.ds.transaction(async (em) => {
+      const repo = em.getRepository(HouseStyleEntity);
+      const o = opts.override;
+      const override =
+        o === undefined
+          ? {}
+          : o === null
+            ? { overrideReason: null, overrideBy: null, overrideAt: null, overrideFailures: null, overrideSwatchbookVersion: null }
+            : { overrideReason: o.reason, overrideBy: o.by, overrideAt: new Date(), overrideFailures: o.failures, overrideSwatchbookVersion: o.swatchbookVersion };
+      await repo.upsert({ ...h, ...override }, ['publicationId']);
+      await writeAudits(em, opts.audits);
+      return repo.findOneOrFail({ where: { publicationId: h.publicationId } });
+    });
   }
 
   async figuresWithCurrentVersion(publicationId: string): Promise<FigureWithVersion[]> {
@@ -129,10 +192,15 @@ export class TypeormSwatchbooksStore implements SwatchbooksStore {
     return figures.filter((f) => byFigure.has(f.id)).map((figure) => ({ figure, version: byFigure.get(figure.id)! }));
   }
 
-  createBatch(b: { publicationId: string; swatchbookId: string; swatchbookVersion: number; requestedBy: string }, items: Omit<BatchItemEntity, 'id' | 'batchId'>[]) {
+  createBatch(
+    b: { publicationId: string; swatchbookId: string; swatchbookVersion: number; requestedBy: string; overrideReason: string | null },
+    items: Omit<BatchItemEntity, 'id' | 'batchId'>[],
+    audits?: GateAudits,
+  ) {
     return this.ds.transaction(async (em) => {
       const batch = await em.getRepository(BatchEntity).save(em.getRepository(BatchEntity).create(b));
       if (items.length) await em.getRepository(BatchItemEntity).insert(items.map((i) => ({ ...i, batchId: batch.id })));
+      await writeAudits(em, audits);
       return batch;
     });
   }
