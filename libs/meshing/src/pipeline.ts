@@ -120,7 +120,7 @@ export interface SurfaceHooks {
   normals?: 'analytic' | 'field';
   /**
    * Largest distance (a0) the mesh may lie from the true surface (vertices, edge midpoints, triangle centroids);
-   * 'file': the 3D-file default (tolerance.ts fileTolerance). Default: from `output` (a quarter pixel,
+   * 'file': the 3D-file default (tolerance.ts fileTolerance: exact for every raster export, within a triangle budget). Default: from `output` (a quarter pixel,
    * printTolerance), else none: the vertices are projected onto the surface and nothing is split (the preview).
    */
   tolerance?: number | 'file';
@@ -845,7 +845,7 @@ function exactSurfaces(plan: SurfacePlan, surfaces: PhaseSurface[], hooks: Surfa
   let tolerance: number;
   let toleranceFrom: SurfaceRefinement['toleranceFrom'];
   if (hooks.tolerance === 'file') {
-    tolerance = fileTolerance(plan.surfaceHalfWidth);
+    tolerance = NaN; // set below, from the projected meshes (tolerance.ts fileTolerance)
     toleranceFrom = '3D file';
   } else if (hooks.tolerance !== undefined) {
     if (!(hooks.tolerance > 0)) throw new RangeError(`tolerance must be a positive length in a0, 'file' or Infinity (got ${String(hooks.tolerance)})`);
@@ -863,13 +863,31 @@ function exactSurfaces(plan: SurfacePlan, surfaces: PhaseSurface[], hooks: Surfa
   const c = plan.level.isovalue;
   const out: SurfaceRefinement = { tolerance, toleranceFrom, surfaceHalfWidth: plan.surfaceHalfWidth, maxDeviation: 0, projected: 0, projectionFailed: 0, trianglesBefore: 0, trianglesAfter: 0, rounds: 0, met: true };
   const pi: ProjectInfo = { maxDistance: 0, failed: 0 };
-  const next = surfaces.map((s) => {
+  // 1. Every vertex onto the analytic level set.
+  const projected = surfaces.map((s) => {
     out.trianglesBefore += s.mesh.indices.length / 3;
-    if (s.mesh.indices.length === 0) return s;
+    if (s.mesh.indices.length === 0) return { s, F: null };
     const F = levelFunction(plan.compiled, s.phase, c);
     projectMesh(s.mesh, F, maxMove, s.phase, pi);
     out.projected += s.mesh.positions.length / 3;
     out.projectionFailed += pi.failed;
+    return { s, F };
+  });
+  if (toleranceFrom === '3D file') {
+    // The 3D-file default needs the projected mesh's deviation (its triangle budget, tolerance.ts).
+    const deviations = new Float64Array(out.trianglesBefore);
+    let at = 0;
+    for (const { s, F } of projected) {
+      if (!F) continue;
+      meshDeviation(s.mesh, F, deviations.subarray(at));
+      at += s.mesh.indices.length / 3;
+    }
+    tolerance = fileTolerance(plan.surfaceHalfWidth, deviations);
+    out.tolerance = tolerance;
+  }
+  // 2. Edges split until the mesh lies within the tolerance.
+  const next = projected.map(({ s, F }) => {
+    if (!F) return s;
     let mesh = s.mesh;
     if (Number.isFinite(tolerance)) {
       const ri = {} as RefineInfo;
