@@ -169,13 +169,13 @@ export function exactSections(ctx) {
   async function sectionTopology() {
     heading('Topology at the defaults (grid and box auto, 90 % over all space): the mesh against the true surface (SciPy, libs/meshing/test/topology_reference.py)');
     // Every named real form up to n = 7 (cos types m = 0..l: a sin type is its cos type turned about z by pi/2m, so
-    // it has the same parts), complex m = +1, +2 rings up to n = 7 (m and -m give the same |psi|), ns for n = 8..12.
+    // it has the same parts), complex m = +1, +2, +3 rings up to n = 7 (m and -m give the same |psi|), ns for n = 8..12.
     const cases = [];
     const maxN = ARGS.has('--quick') ? 3 : 7;
     for (let n = 1; n <= maxN; n++)
       for (let l = 0; l < n; l++)
         for (let m = 0; m <= l; m++) cases.push({ name: `${n}${'spdfghi'[l]} m=${m} real`, kind: 'real', n, l, m });
-    for (let n = 2; n <= maxN; n++) for (let l = 1; l < n; l++) for (const m of [1, 2]) if (m <= l) cases.push({ name: `${n}${'spdfghi'[l]} m=+${m} complex`, kind: 'complex', n, l, m });
+    for (let n = 2; n <= maxN; n++) for (let l = 1; l < n; l++) for (const m of [1, 2, 3]) if (m <= l) cases.push({ name: `${n}${'spdfghi'[l]} m=+${m} complex`, kind: 'complex', n, l, m });
     for (let n = 8; n <= (ARGS.has('--quick') ? 8 : 12); n++) cases.push({ name: `${n}s`, kind: 'real', n, l: 0, m: 0 });
     for (const c of cases) {
       c.state = orbitals.stateFromNlm(c.n, c.l, c.m, { complex: c.kind === 'complex' });

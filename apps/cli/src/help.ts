@@ -1,5 +1,5 @@
 import { ENGINE_CONVENTION_LINES } from '@psiform/contracts';
-import { CONVENTIONS_NOTE, MODEL_NOTE as ENGINE_MODEL_NOTE, RESULT_UNITS, TOLERANCE_3D_RELATIVE } from '@psiform/meshing';
+import { CONVENTIONS_NOTE, MODEL_NOTE as ENGINE_MODEL_NOTE, RESULT_UNITS, TOLERANCE_3D_RELATIVE, FILE_TRIANGLE_BUDGET } from '@psiform/meshing';
 
 /** The model every output states: the engine's own text (@psiform/meshing MODEL_NOTE). */
 export const MODEL_NOTE = ENGINE_MODEL_NOTE;
@@ -91,7 +91,8 @@ ${SURFACE_HELP}
 Output:
   --out FILE        write the mesh: .glb (glTF 2.0 binary), .stl (binary), .ply, .obj
   --tolerance T     how far (a0) the mesh may lie from the true surface: 'file' (default: ${TOLERANCE_3D_RELATIVE} of the
-                    surface's half-width, finer than the largest raster export, 64 MP, needs), 'none'
+                    surface's half-width, finer than the largest raster export, 64 MP, needs, or coarser where that
+                    would pass ${FILE_TRIANGLE_BUDGET} triangles; the summary states the tolerance met), 'none'
                     (vertices on the surface, chords unchecked) or a length in a0
   --json            print JSON instead of a readable summary
 

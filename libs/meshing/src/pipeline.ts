@@ -62,8 +62,12 @@ export const RESULT_UNITS = {
   time: 'ms',
 } as const;
 
-/** Points per side the automatic grid starts from, and its ceilings. */
-export const AUTO_GRID = { base: 96, max: 256, maxComplex: 224, min: 24 } as const;
+/**
+ * Points per side the automatic grid starts from, and its ceilings. All odd: an automatic grid always has an odd
+ * number of points per side (oddN), so the centred lattice holds the origin, the three axes and the coordinate
+ * planes, where many states vanish exactly (see ringHoleHeld).
+ */
+export const AUTO_GRID = { base: 97, max: 257, maxComplex: 225, min: 25 } as const;
 
 export type SurfaceRule = { rule: 'enclosed'; fraction: number } | { rule: 'psi'; value: number };
 
@@ -116,7 +120,7 @@ export interface SurfaceHooks {
   normals?: 'analytic' | 'field';
   /**
    * Largest distance (a0) the mesh may lie from the true surface (vertices, edge midpoints, triangle centroids);
-   * 'file': the 3D-file default (tolerance.ts fileTolerance). Default: from `output` (a quarter pixel,
+   * 'file': the 3D-file default (tolerance.ts fileTolerance: exact for every raster export, within a triangle budget). Default: from `output` (a quarter pixel,
    * printTolerance), else none: the vertices are projected onto the surface and nothing is split (the preview).
    */
   tolerance?: number | 'file';
@@ -267,9 +271,39 @@ function stepFor(f: SurfaceFeature | null): number {
   return f ? f.size / 2 : Infinity;
 }
 
+/** The odd number nearest above n, or below when that passes the ceiling `hi` (hi is odd or gives way). */
+function oddN(n: number, hi = Infinity): number {
+  if (n % 2 === 1) return n;
+  return n + 1 <= hi ? n + 1 : n - 1;
+}
+
 function nFor(extent: number, step: number, lo: number, hi: number): number {
   const n = Math.ceil((2 * extent) / step) + 1;
-  return Math.max(lo, Math.min(hi, Number.isFinite(n) ? n : lo));
+  return oddN(Math.max(lo, Math.min(hi, Number.isFinite(n) ? n : lo)), hi);
+}
+
+/**
+ * Whether a grid holds the hole of every ring open whatever its width. For a complex state of one m ≠ 0 every part
+ * is a ring round the z axis (|psi| does not depend on φ), and psi = 0 on that axis exactly (Y_lm ∝ sin^|m| θ).
+ * A centred cube with an odd number of points per side has the axis as a lattice line, so every grid point on it
+ * reads 0, below every level: no marching-cubes surface crosses the axis and no ring can close into a ball,
+ * however narrow its hole (the inner rings of np, m = ±1 are a few hundredths of a0 across). The ring's tube
+ * (its thickness and width, the other features) still needs two steps across.
+ */
+function ringHoleHeld(a: SurfaceAnalysis, region: { n: number }): boolean {
+  return a.ring && region.n % 2 === 1;
+}
+
+/** The features a grid must step across twice (the ring holes it holds open by the axis left out). */
+function needsStep(a: SurfaceAnalysis, f: SurfaceFeature, region: { n: number }): boolean {
+  return !(f.kind === 'ring-hole' && ringHoleHeld(a, region));
+}
+
+/** The smallest feature of radial lobe `lobe` a grid of this parity must resolve (null: none). */
+function lobeSmallest(a: SurfaceAnalysis, lobe: number, region: { n: number }): SurfaceFeature | null {
+  let best: SurfaceFeature | null = null;
+  for (const f of a.features) if (f.lobe === lobe && needsStep(a, f, region) && (!best || f.size < best.size)) best = f;
+  return best;
 }
 
 /** Stage 1: level over all space, features, box and grids. Synchronous and cheap next to sampling. */
@@ -293,7 +327,8 @@ export function planSurfaces(recipe: SurfaceRecipe, opts: { maxN?: number } = {}
   }
   const analysis = analyseSurface(compiled, level.density);
   const halfWidth = Number(solver.halfWidth(level.density));
-  const cap = Math.max(AUTO_GRID.min, Math.min(opts.maxN ?? Infinity, compiled.isReal ? AUTO_GRID.max : AUTO_GRID.maxComplex));
+  const capIn = Math.max(AUTO_GRID.min, Math.min(opts.maxN ?? Infinity, compiled.isReal ? AUTO_GRID.max : AUTO_GRID.maxComplex));
+  const cap = capIn % 2 === 1 ? capIn : capIn - 1; // automatic grids are odd (a caller's maxN may be even)
   const warnings: SurfaceWarning[] = [];
   const fixedN = recipe.grid.n === 'auto' ? null : (recipe.grid.n as number);
   const extentIn = recipe.grid.extent ?? 'auto';
@@ -345,9 +380,12 @@ function layeredRegions(a: SurfaceAnalysis, extent: number, cap: number): GridRe
   // cubes are small, so this costs fewer points than one fine cube for everything.
   const growCap = Math.min(cap, Math.round(1.25 * AUTO_GRID.base));
   let cur = { E: extent, step: globalStep, lobes: [] as typeof present };
+  // Automatic grids are odd (nFor), so ring holes are held open by the axis (ringHoleHeld).
+  const auto = { n: AUTO_GRID.base };
+  const lobeStep = (layer: (typeof present)[number]) => stepFor(lobeSmallest(a, layer.lobe, auto));
   for (let i = present.length - 1; i >= 0; i--) {
     const layer = present[i];
-    const need = Math.min(cur.step, stepFor(layer.smallest));
+    const need = Math.min(cur.step, lobeStep(layer));
     if (cur.lobes.length === 0 || Math.ceil((2 * cur.E) / need) + 1 <= (groups.length < 6 ? growCap : cap)) {
       cur.lobes.push(layer);
       cur.step = need;
@@ -355,7 +393,7 @@ function layeredRegions(a: SurfaceAnalysis, extent: number, cap: number): GridRe
     }
     groups.push(cur);
     // A new cube holds every lobe from this one inwards (they lie inside this lobe's outer node sphere).
-    cur = { E: Math.min(cur.E, layer.rHi), step: Math.min(globalStep, stepFor(layer.smallest)), lobes: [layer] };
+    cur = { E: Math.min(cur.E, layer.rHi), step: Math.min(globalStep, lobeStep(layer)), lobes: [layer] };
   }
   groups.push(cur);
   const regions: GridRegion[] = groups.map((g, k) => {
@@ -665,7 +703,7 @@ export async function recipeToSurfaces(recipe: SurfaceRecipe, hooks: SurfaceHook
       if (expected) {
         while (!sameTopology(found, expected) && meshes[k].region.n < plan.cap) {
           const r = meshes[k].region;
-          const n = Math.min(plan.cap, Math.ceil(r.n * 1.5));
+          const n = oddN(Math.min(plan.cap, Math.ceil(r.n * 1.5)), plan.cap);
           meshes[k] = await run({ ...r, n, spacing: (2 * r.extent) / (n - 1) });
           plan.regions[k] = meshes[k].region;
           found = countTopology(meshes[k].surfaces.map((s) => ({ phase: s.phase, stats: meshes[k].stats.get(s.phase) ?? null })));
@@ -675,7 +713,7 @@ export async function recipeToSurfaces(recipe: SurfaceRecipe, hooks: SurfaceHook
         let agreed = false;
         for (let it = 0; it < 4 && !agreed && meshes[0].region.n < plan.cap; it++) {
           const r = meshes[0].region;
-          const n = Math.min(plan.cap, Math.ceil(r.n * 1.5));
+          const n = oddN(Math.min(plan.cap, Math.ceil(r.n * 1.5)), plan.cap);
           const next = await run({ ...r, n, spacing: (2 * r.extent) / (n - 1) });
           const nextFound = countTopology(next.surfaces.map((s) => ({ phase: s.phase, stats: next.stats.get(s.phase) ?? null })));
           agreed = sameTopology(found, nextFound);
@@ -807,7 +845,7 @@ function exactSurfaces(plan: SurfacePlan, surfaces: PhaseSurface[], hooks: Surfa
   let tolerance: number;
   let toleranceFrom: SurfaceRefinement['toleranceFrom'];
   if (hooks.tolerance === 'file') {
-    tolerance = fileTolerance(plan.surfaceHalfWidth);
+    tolerance = NaN; // set below, from the projected meshes (tolerance.ts fileTolerance)
     toleranceFrom = '3D file';
   } else if (hooks.tolerance !== undefined) {
     if (!(hooks.tolerance > 0)) throw new RangeError(`tolerance must be a positive length in a0, 'file' or Infinity (got ${String(hooks.tolerance)})`);
@@ -825,13 +863,31 @@ function exactSurfaces(plan: SurfacePlan, surfaces: PhaseSurface[], hooks: Surfa
   const c = plan.level.isovalue;
   const out: SurfaceRefinement = { tolerance, toleranceFrom, surfaceHalfWidth: plan.surfaceHalfWidth, maxDeviation: 0, projected: 0, projectionFailed: 0, trianglesBefore: 0, trianglesAfter: 0, rounds: 0, met: true };
   const pi: ProjectInfo = { maxDistance: 0, failed: 0 };
-  const next = surfaces.map((s) => {
+  // 1. Every vertex onto the analytic level set.
+  const projected = surfaces.map((s) => {
     out.trianglesBefore += s.mesh.indices.length / 3;
-    if (s.mesh.indices.length === 0) return s;
+    if (s.mesh.indices.length === 0) return { s, F: null };
     const F = levelFunction(plan.compiled, s.phase, c);
     projectMesh(s.mesh, F, maxMove, s.phase, pi);
     out.projected += s.mesh.positions.length / 3;
     out.projectionFailed += pi.failed;
+    return { s, F };
+  });
+  if (toleranceFrom === '3D file') {
+    // The 3D-file default needs the projected mesh's deviation (its triangle budget, tolerance.ts).
+    const deviations = new Float64Array(out.trianglesBefore);
+    let at = 0;
+    for (const { s, F } of projected) {
+      if (!F) continue;
+      meshDeviation(s.mesh, F, deviations.subarray(at));
+      at += s.mesh.indices.length / 3;
+    }
+    tolerance = fileTolerance(plan.surfaceHalfWidth, deviations);
+    out.tolerance = tolerance;
+  }
+  // 2. Edges split until the mesh lies within the tolerance.
+  const next = projected.map(({ s, F }) => {
+    if (!F) return s;
     let mesh = s.mesh;
     if (Number.isFinite(tolerance)) {
       const ri = {} as RefineInfo;
@@ -848,12 +904,14 @@ function exactSurfaces(plan: SurfacePlan, surfaces: PhaseSurface[], hooks: Surfa
   return { surfaces: next, refinement: out };
 }
 
+/** The smallest feature of the lobes a region draws that its grid must step across (ringHoleHeld). */
 function smallestIn(a: SurfaceAnalysis, r: GridRegion): SurfaceFeature | null {
   const rMax = r.rMax ?? Infinity;
   let best: SurfaceFeature | null = null;
   for (const l of a.layers) {
-    if (!l.present || !l.smallest || l.rLo < r.rMin - 1e-12 || l.rLo >= rMax) continue;
-    if (!best || l.smallest.size < best.size) best = l.smallest;
+    if (!l.present || l.rLo < r.rMin - 1e-12 || l.rLo >= rMax) continue;
+    const f = lobeSmallest(a, l.lobe, r);
+    if (f && (!best || f.size < best.size)) best = f;
   }
   return best;
 }

@@ -485,7 +485,7 @@ class Grow64 {
  * Largest first-order distance |F| / |grad F| (a0) of the mesh's vertices, edge midpoints and triangle centroids
  * from the level set: the geometric error the bench reports and refinement drives below its tolerance.
  */
-export function meshDeviation(mesh: Mesh, F: LevelFunction): { vertices: number; midpoints: number; centroids: number; max: number } {
+export function meshDeviation(mesh: Mesh, F: LevelFunction, perTriangle?: Float64Array): { vertices: number; midpoints: number; centroids: number; max: number } {
   const P = mesh.positions;
   const I = mesh.indices;
   const g = new Float64Array(3);
@@ -495,11 +495,16 @@ export function meshDeviation(mesh: Mesh, F: LevelFunction): { vertices: number;
   for (let v = 0; v < P.length; v += 3) vert = Math.max(vert, levelDistance(F, P[v], P[v + 1], P[v + 2], g));
   for (let t = 0; t < I.length; t += 3) {
     const a = 3 * I[t], b = 3 * I[t + 1], c = 3 * I[t + 2];
+    let worst = 0;
     for (const [u, w] of [[a, b], [b, c], [c, a]]) {
       // each interior edge is met twice; the maximum does not mind
-      midp = Math.max(midp, levelDistance(F, 0.5 * (P[u] + P[w]), 0.5 * (P[u + 1] + P[w + 1]), 0.5 * (P[u + 2] + P[w + 2]), g));
+      worst = Math.max(worst, levelDistance(F, 0.5 * (P[u] + P[w]), 0.5 * (P[u + 1] + P[w + 1]), 0.5 * (P[u + 2] + P[w + 2]), g));
     }
-    cent = Math.max(cent, levelDistance(F, (P[a] + P[b] + P[c]) / 3, (P[a + 1] + P[b + 1] + P[c + 1]) / 3, (P[a + 2] + P[b + 2] + P[c + 2]) / 3, g));
+    midp = Math.max(midp, worst);
+    const dc = levelDistance(F, (P[a] + P[b] + P[c]) / 3, (P[a + 1] + P[b + 1] + P[c + 1]) / 3, (P[a + 2] + P[b + 2] + P[c + 2]) / 3, g);
+    cent = Math.max(cent, dc);
+    // Each triangle's own worst point (midpoints, centroid), for callers that estimate refinement's cost.
+    if (perTriangle) perTriangle[t / 3] = Math.max(worst, dc);
   }
   return { vertices: vert, midpoints: midp, centroids: cent, max: Math.max(vert, midp, cent) };
 }

@@ -18,8 +18,26 @@
 // error of an edge grows with its length squared); a print finer still (zoomed camera) re-meshes for itself
 // (apps/worker mesh-assets printGlb). Measured in `npm run bench` (exact section): 1s to 5s, 3d, 4f at this default.
 
+// That alone made every 3D file as heavy as the most detailed state needs (the 90 % surface of 4f_xyz: 1.27 M
+// triangles, 38 MB; 2p_z 12 MB) and a mesh job took seconds whatever grid it asked for, since refinement, not the
+// grid, sets the triangle count. So the default is also bounded by a budget: FILE_TRIANGLE_BUDGET triangles. A
+// triangle's chord error grows with its edge length squared, so a triangle whose worst point lies d from the surface
+// becomes about d / tol triangles within tol (splitting an edge in k quarters the error k² times, but only along
+// the direction of curvature it needs), and the projected mesh's triangles give the count a tolerance costs:
+// sum over triangles of max(1, K d / tol), K = REFINE_OVERHEAD (red-green splitting makes more triangles than that
+// ideal; measured on the 1s sphere). The tolerance the budget reaches solves count = budget (bisection: the count
+// falls as the tolerance grows).
+// The default is the coarser of the two: a file is exact for every raster export unless that needs more than the
+// budget, and then as exact as the budget allows; the tolerance met is stated in the result (refinement), and a
+// render finer than it re-meshes for itself (apps/worker mesh-assets printGlb), so no print loses detail. The
+// budget is what the 1s surface needs at its 1e-4 a0 (about 2.8e5 triangles, 8.5 MB as GLB), so the smallest,
+// simplest state keeps that target and no default file is heavier than it (bench exact section).
+
 /** Default tolerance of 3D files, relative to the surface's half-width (see above). */
 export const TOLERANCE_3D_RELATIVE = 3.5e-5;
+
+/** Triangles a default 3D file is refined to at most (see above). */
+export const FILE_TRIANGLE_BUDGET = 300_000;
 
 /** The part of a recipe's camera (@psiform/contracts cameraSchema) the pixel scale depends on. */
 export interface OutputCamera {
@@ -34,10 +52,34 @@ export interface OutputScale {
   camera?: OutputCamera;
 }
 
-/** Distance (a0) the surface may deviate by in a 3D file: TOLERANCE_3D_RELATIVE × the surface's half-width. */
-export function fileTolerance(surfaceHalfWidth: number): number {
+/** Triangles refinement makes per ideal piece (see above; measured 1.28 to 1.51 for 1s, 2p_z, 3d_z², 5s at 3.5e-5 of their half-widths). */
+export const REFINE_OVERHEAD = 1.4;
+
+/** Triangles refinement is expected to make from triangles whose worst points lie `deviations` from the surface. */
+export function refinedTriangles(deviations: ArrayLike<number>, tolerance: number): number {
+  let count = 0;
+  for (let i = 0; i < deviations.length; i++) count += Math.max(1, (REFINE_OVERHEAD * deviations[i]) / tolerance);
+  return count;
+}
+
+/**
+ * Distance (a0) the surface may deviate by in a 3D file: TOLERANCE_3D_RELATIVE × the surface's half-width, or
+ * coarser when the projected mesh (each triangle's worst deviation, `deviations`) would need more than
+ * FILE_TRIANGLE_BUDGET triangles to get there (see above).
+ */
+export function fileTolerance(surfaceHalfWidth: number, deviations?: ArrayLike<number>): number {
   if (!(surfaceHalfWidth > 0) || !Number.isFinite(surfaceHalfWidth)) throw new RangeError(`surface half-width must be a positive length (got ${surfaceHalfWidth})`);
-  return TOLERANCE_3D_RELATIVE * surfaceHalfWidth;
+  const exact = TOLERANCE_3D_RELATIVE * surfaceHalfWidth;
+  if (!deviations || deviations.length >= FILE_TRIANGLE_BUDGET || refinedTriangles(deviations, exact) <= FILE_TRIANGLE_BUDGET) return exact;
+  let lo = exact;
+  let hi = exact;
+  while (refinedTriangles(deviations, hi) > FILE_TRIANGLE_BUDGET) hi *= 2;
+  for (let it = 0; it < 40 && hi / lo > 1.01; it++) {
+    const mid = Math.sqrt(lo * hi);
+    if (refinedTriangles(deviations, mid) > FILE_TRIANGLE_BUDGET) lo = mid;
+    else hi = mid;
+  }
+  return hi;
 }
 
 /** Distance (a0) the surface may deviate by in an image of widthPx × heightPx framed as the render page frames it. */

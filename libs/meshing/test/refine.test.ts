@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { compileState, parseOrbitalLabel } from '@psiform/orbitals';
 import { fillMissingNormals, levelFunction, meshDeviation, projectMesh, projectPoint, refineMesh, type AnalyticField, type RefineInfo } from '../src/refine';
 import { RASTER_LIMITS } from '@psiform/contracts';
-import { fileTolerance, printTolerance } from '../src/tolerance';
+import { FILE_TRIANGLE_BUDGET, REFINE_OVERHEAD, fileTolerance, printTolerance, refinedTriangles } from '../src/tolerance';
 import { meshStats } from '../src/stats';
 import type { Mesh } from '../src/mesh';
 
@@ -174,5 +174,20 @@ describe('tolerances from the output', () => {
     expect(largest).toBeCloseTo(0.25 * (2 / 8000) * (1 - Math.sin((17.5 * Math.PI) / 180)), 12);
     expect(fileTolerance(1)).toBeLessThan(largest);
     expect(() => fileTolerance(-1)).toThrow(/half-width/);
+  });
+
+  it('3D files: coarser only when the projected mesh would pass the triangle budget, to where it meets the budget', () => {
+    // 1000 triangles 0.01 a0 off (half-width 1): at 3.5e-5 they would become 1000 × 1.4 × 0.01 / 3.5e-5 = 4e5 > 3e5
+    // triangles, so the tolerance is where 1000 × 1.4 × 0.01 / tol = 3e5: tol = 14 / 3e5 = 4.667e-5 a0 (bisection, 1 %).
+    expect(FILE_TRIANGLE_BUDGET).toBe(300_000);
+    expect(REFINE_OVERHEAD).toBe(1.4);
+    const far = new Float64Array(1000).fill(0.01);
+    expect(refinedTriangles(far, 3.5e-5)).toBeCloseTo(4e5, 6);
+    const tol = fileTolerance(1, far);
+    expect(tol / (14 / 3e5)).toBeGreaterThanOrEqual(1);
+    expect(tol / (14 / 3e5)).toBeLessThan(1.01);
+    // 100 such triangles make 4e4 < 3e5: the exact default stands; a triangle within the tolerance stays one.
+    expect(fileTolerance(1, far.subarray(0, 100))).toBe(3.5e-5);
+    expect(refinedTriangles([1e-9, 1e-9], 1e-4)).toBe(2);
   });
 });

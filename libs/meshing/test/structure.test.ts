@@ -67,3 +67,49 @@ describe('a thin shell between two radial nodes (3s, |psi| at 99 % of its middle
     expect(w?.suggestedN).toBeGreaterThan(24);
   });
 });
+
+describe('a ring whose hole is narrower than a grid step (complex 2p, m = +1, |psi| set so the hole is 0.2 a0 across)', () => {
+  // Hydrogen 2p by hand (closed forms of R_21 and Y_1±1 as tabulated in Griffiths, ch. 4; table numbers from memory):
+  // |psi_21±1| = (1 / sqrt 24) r e^{−r/2} · sqrt(3 / 8 pi) sin θ = k ρ e^{−r/2}, ρ = r sin θ the distance from the
+  // z axis. For a given ρ it is largest at z = 0 (r = ρ), so the ring {|psi| > c} is narrowest in the xy plane:
+  // its hole has radius ρ_in and its rim radius ρ_out, the two roots of k ρ e^{−ρ/2} = c (one each side of ρ = 2).
+  const k = (1 / Math.sqrt(24)) * Math.sqrt(3 / (8 * Math.PI));
+  const rhoIn = 0.1;
+  const c = k * rhoIn * Math.exp(-rhoIn / 2);
+  const rhoOut = bisect((p) => k * p * Math.exp(-p / 2) - c, 2, 30);
+  const recipe = (n: number | 'auto') => ({ content: stateFromNlm(2, 1, 1, { complex: true }), grid: { n, extent: 'auto' as const }, surface: { rule: 'psi' as const, value: c } });
+  const radii = (positions: Float32Array) => {
+    let lo = Infinity;
+    let hi = 0;
+    for (let v = 0; v < positions.length; v += 3) {
+      const p = Math.hypot(positions[v], positions[v + 1]);
+      lo = Math.min(lo, p);
+      hi = Math.max(hi, p);
+    }
+    return { lo, hi };
+  };
+
+  it('at the defaults: one ring (Euler 0) with its 0.2 a0 hole, though the grid step is wider, and no warning', async () => {
+    const r = await recipeToSurfaces(recipe('auto'), { tolerance: Infinity });
+    expect(r.features.smallest?.kind).toBe('ring-hole');
+    expect(r.features.smallest!.size).toBeCloseTo(2 * rhoIn, 2);
+    expect(r.grid.n % 2).toBe(1); // odd: the z axis is a lattice line
+    expect(r.grid.spacing).toBeGreaterThan(2 * rhoIn);
+    expect(r.topology.found?.complex).toEqual({ components: 1, euler: 0 });
+    expect(r.warnings).toEqual([]);
+    // Projected onto the analytic surface: the hole's waist and the rim at the hand-solved radii (float32 positions).
+    const { lo, hi } = radii(r.surfaces[0].mesh.positions);
+    expect(Math.abs(lo - rhoIn)).toBeLessThan(1e-5);
+    expect(Math.abs(hi - rhoOut)).toBeLessThan(5e-3);
+  });
+
+  it('a forced even grid (the axis between lattice points) closes the hole and says so, naming the ring', async () => {
+    const r = await recipeToSurfaces(recipe(96), { tolerance: Infinity });
+    // Its points nearest the axis are h/√2 ≈ 0.15 a0 from it, inside the ring: the hole is lost (a ball, Euler 2).
+    expect(r.topology.found?.complex).toEqual({ components: 1, euler: 2 });
+    const w = r.warnings.find((x) => x.code === 'feature-unresolved');
+    expect(w?.feature?.kind).toBe('ring-hole');
+    expect(w?.message).toMatch(/hole of a ring/);
+    expect(r.warnings.map((x) => x.code)).toContain('topology-mismatch');
+  });
+});

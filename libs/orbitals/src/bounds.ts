@@ -18,6 +18,16 @@
 //   blocks the surface does not cross.
 // * the product and sum of intervals, padded by a relative 1e-6 so float32 samples of psi near the level cannot
 //   fall outside it.
+// * Away from the nucleus (the box does not hold r = 0) the split is radial × direction instead:
+//   psi = sum_b R_b(r) H_b(u), u = p / |p| (H_b homogeneous of degree l_b, so H_b(u) = Y-part of the block). R_b
+//   over [r0, r1] is exact from its critical points (by Rolle's theorem R_b' has one zero between consecutive zeros
+//   of R_b, counting r = 0 when l_b > 0, and one beyond the last; that is k + 1 zeros for l_b > 0, all of them,
+//   since R_b' = e^{-kappa r} r^{l-1} × a polynomial of degree k + 1; k zeros for l_b = 0, as for g_b). Each
+//   coordinate of u has an exact range over the box (x / sqrt(x² + q) rises with x and, at fixed x, is monotone in
+//   q = y² + z², whose range over the box is exact), and H_b is enclosed over that box of directions by the natural
+//   extension ∩ the centred form. g_b and r^l_b in H_b vary together (at the outer surface of 3d_z² e^{-r/3} falls
+//   while r² rises, so their separate ranges add what the product cancels); R_b keeps that cancellation, and the box
+//   of directions is about |box| / r wide: at 512³ this leaves a fifth fewer blocks to sample (bench 3d_z²).
 
 import type { CompiledState } from './compile';
 import { genLaguerre, genLaguerreDerivative } from './laguerre';
@@ -55,6 +65,27 @@ function powRange(lo: number, hi: number, a: number, out: Float64Array, o: numbe
   }
 }
 
+/** The root of f in [a, b] (f changes sign there), by bisection to 1e-13 relative. */
+function bisectRoot(f: (r: number) => number, a: number, b: number): number {
+  let fa = f(a);
+  for (let it = 0; it < 200 && b - a > 1e-13 * b; it++) {
+    const m = 0.5 * (a + b);
+    const fm = f(m);
+    if (fm === 0) return m;
+    if (Math.sign(fm) === Math.sign(fa)) {
+      a = m;
+      fa = fm;
+    } else b = m;
+  }
+  return 0.5 * (a + b);
+}
+
+/** Exact range of a / sqrt(a² + q) over a in [a0, a1], q in [q0, q1] (q >= 0): it rises with a; see the file comment. */
+function unitRange(a0: number, a1: number, q0: number, q1: number, out: Float64Array, o: number): void {
+  out[o] = a0 === 0 ? 0 : a0 / Math.sqrt(a0 * a0 + (a0 > 0 ? q1 : q0));
+  out[o + 1] = a1 === 0 ? 0 : a1 / Math.sqrt(a1 * a1 + (a1 > 0 ? q0 : q1));
+}
+
 export function fieldBound(compiled: CompiledState): FieldBound {
   const Z = compiled.state.Z;
   const blocks = compiled.blocks;
@@ -71,34 +102,41 @@ export function fieldBound(compiled: CompiledState): FieldBound {
     let hi = nodes[nodes.length - 1] * 2 + 1;
     while (Math.sign(dg(hi)) === Math.sign(dg(nodes[nodes.length - 1] * (1 + 1e-9))) && hi < 1e6) hi *= 2;
     brackets.push([nodes[nodes.length - 1], hi]);
-    return brackets.map(([a, b]) => {
-      let fa = dg(a);
-      for (let it = 0; it < 200 && b - a > 1e-13 * b; it++) {
-        const m = 0.5 * (a + b);
-        const fm = dg(m);
-        if (fm === 0) return m;
-        if (Math.sign(fm) === Math.sign(fa)) {
-          a = m;
-          fa = fm;
-        } else b = m;
-      }
-      return 0.5 * (a + b);
-    });
+    return brackets.map(([a, b]) => bisectRoot(dg, a, b));
+  });
+  // Critical points of R_b = g_b r^l (see the file comment): zeros of l L + r (-kappa L + rhoF L') (R_b' without
+  // its positive factors), one in each of (0, node_1), ..., (node_k-1, node_k), (node_k, infinity); for l = 0, crit.
+  const critR: number[][] = consts.map((c, i) => {
+    const l = blocks[i].l;
+    if (l === 0) return crit[i];
+    const dR = (r: number) => l * genLaguerre(c.k, c.alpha, c.rhoFactor * r) + r * (-c.kappa * genLaguerre(c.k, c.alpha, c.rhoFactor * r) + c.rhoFactor * genLaguerreDerivative(c.k, c.alpha, c.rhoFactor * r));
+    const nodes = c.k > 0 ? radialNodes(blocks[i].n, l, Z).map(Number) : [];
+    const edges = [0, ...nodes];
+    let hi = Math.max(edges[edges.length - 1] * 2, l / c.kappa) + 1;
+    while (Math.sign(dR(hi)) === Math.sign(dR(edges[edges.length - 1] * (1 + 1e-9) || 1e-9)) && hi < 1e6) hi *= 2;
+    const brackets: [number, number][] = [];
+    for (let j = 0; j + 1 < edges.length; j++) brackets.push([edges[j], edges[j + 1]]);
+    brackets.push([edges[edges.length - 1], hi]);
+    return brackets.map(([a, b]) => bisectRoot(dR, a, b));
   });
   const g = (i: number, r: number) => {
     const c = consts[i];
     return c.scale * Math.exp(-c.kappa * r) * genLaguerre(c.k, c.alpha, c.rhoFactor * r);
   };
-  const radialRange = (i: number, r0: number, r1: number, out: Float64Array): void => {
-    const g0 = g(i, r0);
-    const g1 = r1 === r0 ? g0 : g(i, r1);
+  const R = (i: number, r: number) => g(i, r) * r ** lOfBlock[i];
+  const lOfBlock = blocks.map((b) => b.l);
+  /** Range of g_b (full = false) or of R_b = g_b r^l (full = true) over [r0, r1]: ends and critical points. */
+  const rangeOf = (i: number, r0: number, r1: number, full: boolean, out: Float64Array): void => {
+    const f = full ? R : g;
+    const g0 = f(i, r0);
+    const g1 = r1 === r0 ? g0 : f(i, r1);
     let lo = Math.min(g0, g1);
     let hi = Math.max(g0, g1);
-    const ci = crit[i];
+    const ci = full ? critR[i] : crit[i];
     for (let q = 0; q < ci.length; q++) {
       const r = ci[q];
       if (r <= r0 || r >= r1) continue;
-      const v = g(i, r);
+      const v = f(i, r);
       if (v < lo) lo = v;
       if (v > hi) hi = v;
     }
@@ -186,51 +224,66 @@ export function fieldBound(compiled: CompiledState): FieldBound {
   const py = new Float64Array(2);
   const pz = new Float64Array(2);
   const gr = new Float64Array(2);
+  const hr = new Float64Array(4);
+  const u = new Float64Array(6);
+  /** Enclosure of H_i over a box (natural extension ∩ centred form): re in out[0..1], im in out[2..3]. */
+  const polyRange = (i: number, x0: number, x1: number, y0: number, y1: number, z0: number, z1: number, out: Float64Array): void => {
+    let hrLo = 0, hrHi = 0, hiLo = 0, hiHi = 0;
+    const pi = polys[i];
+    for (let p = 0; p < pi.length; p++) {
+      const m = pi[p];
+      powRange(x0, x1, m.a, px, 0);
+      powRange(y0, y1, m.b, py, 0);
+      powRange(z0, z1, m.c, pz, 0);
+      // product of three intervals (no arrays: this runs for every box of coarse-to-fine sampling)
+      let lo = px[0], hi = px[1];
+      for (let t = 0; t < 2; t++) {
+        const q = t === 0 ? py : pz;
+        const a = lo * q[0], b = lo * q[1], c = hi * q[0], d = hi * q[1];
+        lo = Math.min(a, b, c, d);
+        hi = Math.max(a, b, c, d);
+      }
+      if (m.re > 0) {
+        hrLo += m.re * lo;
+        hrHi += m.re * hi;
+      } else if (m.re < 0) {
+        hrLo += m.re * hi;
+        hrHi += m.re * lo;
+      }
+      if (m.im > 0) {
+        hiLo += m.im * lo;
+        hiHi += m.im * hi;
+      } else if (m.im < 0) {
+        hiLo += m.im * hi;
+        hiHi += m.im * lo;
+      }
+    }
+    centred(i, 0.5 * (x0 + x1), 0.5 * (y0 + y1), 0.5 * (z0 + z1), 0.5 * (x1 - x0), 0.5 * (y1 - y0), 0.5 * (z1 - z0), cen);
+    out[0] = Math.max(hrLo, cen[0]);
+    out[1] = Math.min(hrHi, cen[1]);
+    out[2] = Math.max(hiLo, cen[2]);
+    out[3] = Math.min(hiHi, cen[3]);
+  };
   const box = (x0: number, x1: number, y0: number, y1: number, z0: number, z1: number, out: Float64Array): void => {
     const dx = x0 > 0 ? x0 : x1 < 0 ? -x1 : 0;
     const dy = y0 > 0 ? y0 : y1 < 0 ? -y1 : 0;
     const dz = z0 > 0 ? z0 : z1 < 0 ? -z1 : 0;
     const r0 = Math.sqrt(dx * dx + dy * dy + dz * dz);
-    const r1 = Math.sqrt(Math.max(x0 * x0, x1 * x1) + Math.max(y0 * y0, y1 * y1) + Math.max(z0 * z0, z1 * z1));
+    const X = Math.max(x0 * x0, x1 * x1), Y = Math.max(y0 * y0, y1 * y1), Zs = Math.max(z0 * z0, z1 * z1);
+    const r1 = Math.sqrt(X + Y + Zs);
+    // Radial × direction away from the nucleus, g_b × H_b over the box where it holds r = 0 (file comment).
+    const split = r0 > 0;
+    if (split) {
+      unitRange(x0, x1, dy * dy + dz * dz, Y + Zs, u, 0);
+      unitRange(y0, y1, dx * dx + dz * dz, X + Zs, u, 2);
+      unitRange(z0, z1, dx * dx + dy * dy, X + Y, u, 4);
+    }
     let reLo = 0, reHi = 0, imLo = 0, imHi = 0;
     for (let i = 0; i < B; i++) {
-      let hrLo = 0, hrHi = 0, hiLo = 0, hiHi = 0;
-      const pi = polys[i];
-      for (let p = 0; p < pi.length; p++) {
-        const m = pi[p];
-        powRange(x0, x1, m.a, px, 0);
-        powRange(y0, y1, m.b, py, 0);
-        powRange(z0, z1, m.c, pz, 0);
-        // product of three intervals
-        // product of three intervals (no arrays: this runs for every box of coarse-to-fine sampling)
-        let lo = px[0], hi = px[1];
-        for (let t = 0; t < 2; t++) {
-          const q = t === 0 ? py : pz;
-          const a = lo * q[0], b = lo * q[1], c = hi * q[0], d = hi * q[1];
-          lo = Math.min(a, b, c, d);
-          hi = Math.max(a, b, c, d);
-        }
-        if (m.re > 0) {
-          hrLo += m.re * lo;
-          hrHi += m.re * hi;
-        } else if (m.re < 0) {
-          hrLo += m.re * hi;
-          hrHi += m.re * lo;
-        }
-        if (m.im > 0) {
-          hiLo += m.im * lo;
-          hiHi += m.im * hi;
-        } else if (m.im < 0) {
-          hiLo += m.im * hi;
-          hiHi += m.im * lo;
-        }
-      }
-      centred(i, 0.5 * (x0 + x1), 0.5 * (y0 + y1), 0.5 * (z0 + z1), 0.5 * (x1 - x0), 0.5 * (y1 - y0), 0.5 * (z1 - z0), cen);
-      hrLo = Math.max(hrLo, cen[0]);
-      hrHi = Math.min(hrHi, cen[1]);
-      hiLo = Math.max(hiLo, cen[2]);
-      hiHi = Math.min(hiHi, cen[3]);
-      radialRange(i, r0, r1, gr);
+      if (split) polyRange(i, u[0], u[1], u[2], u[3], u[4], u[5], hr);
+      else polyRange(i, x0, x1, y0, y1, z0, z1, hr);
+      const hrLo = hr[0], hrHi = hr[1], hiLo = hr[2], hiHi = hr[3];
+      rangeOf(i, r0, r1, split, gr);
       const gLo = gr[0];
       const gHi = gr[1];
       reLo += Math.min(gLo * hrLo, gLo * hrHi, gHi * hrLo, gHi * hrHi);
@@ -252,7 +305,7 @@ export function fieldBound(compiled: CompiledState): FieldBound {
     radialRange: (b, r0, r1, out) => {
       if (!Number.isInteger(b) || b < 0 || b >= B) throw new RangeError(`block index must be 0..${B - 1}, got ${String(b)}`);
       if (!(r0 >= 0 && r1 >= r0)) throw new RangeError(`need 0 <= r0 <= r1 (got ${r0}, ${r1})`);
-      radialRange(b, r0, r1, out);
+      rangeOf(b, r0, r1, false, out);
     },
   };
 }

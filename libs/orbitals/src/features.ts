@@ -83,8 +83,18 @@ interface SphereGrid {
   uz: Float64Array;
 }
 
-function sphereGrid(compiled: CompiledState, field: 'signed' | 'radial-sign', nT: number): SphereGrid {
-  const nP = 2 * nT;
+/**
+ * Pixels per row: 2 nT, or for an axial state (one m in the complex basis: |H| and the sign rule depend on θ only)
+ * 8 with every row set to its first pixel's value. Every count below then comes out the same as on 2 nT columns
+ * (a row is all in or all out, so components, χ, chamfer distances along θ and the ring-hole angle are those of
+ * the finer grid) at a 38th of the pixels: the plan of a 3d_z² surface took longer than sampling it.
+ */
+function pixelsPerRow(nT: number, axial: boolean): number {
+  return axial ? 8 : 2 * nT;
+}
+
+function sphereGrid(compiled: CompiledState, field: 'signed' | 'radial-sign', nT: number, axial: boolean): SphereGrid {
+  const nP = pixelsPerRow(nT, axial);
   const N = nT * nP + 2;
   const h = new Float64Array(N);
   const ux = new Float64Array(N);
@@ -121,6 +131,8 @@ function sphereGrid(compiled: CompiledState, field: 'signed' | 'radial-sign', nT
     const mod = Math.hypot(h[p], im[p]);
     h[p] = field === 'signed' && single ? Math.sign(assocLegendre(l, m, uz[p])) * mod || 0 : mod;
   }
+  // Axial: rows exactly uniform (no rounding differences along φ).
+  if (axial) for (let i = 0; i < nT; i++) for (let j = 1; j < nP; j++) h[i * nP + j] = h[i * nP];
   return { nT, nP, h, ux, uy, uz };
 }
 
@@ -324,10 +336,10 @@ export function analyseSurface(compiled: CompiledState, t: number): SurfaceAnaly
   const field: 'signed' | 'radial-sign' = compiled.isReal || oneM ? 'signed' : 'radial-sign';
   // s states are the same in every direction: a coarse sphere grid is exact for them.
   const nT = l === 0 ? 8 : 2 * Math.round(60 + 8 * l);
-  const gKey = `${JSON.stringify(compiled.state)}|${field}|${nT}`;
+  const gKey = `${JSON.stringify(compiled.state)}|${field}|${nT}|${oneM}`;
   let g = grids.get(gKey);
   if (!g) {
-    g = sphereGrid(compiled, field, nT);
+    g = sphereGrid(compiled, field, nT, oneM);
     if (grids.size >= 8) grids.delete(grids.keys().next().value as string);
     grids.set(gKey, g);
   }

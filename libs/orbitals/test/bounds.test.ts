@@ -88,6 +88,24 @@ describe('fieldBound: enclosures of psi over boxes never miss a value', () => {
     }
   });
 
+  it('away from the nucleus the bound is radial × direction: 2p_z round its radial peak r = 2 is exact to the padding', () => {
+    // 2p_z = R_21(r) Y_10, R_21 = r e^{-r/2} / √24 (Griffiths Table 4.7), Y_10 = √(3/4π) cos θ: psi = z e^{-r/2} / √(32π).
+    // d/dr (r e^{-r/2}) = 0 at r = 2 (by hand), so over a thin box round (0, 0, 2) the largest psi is psi(0, 0, 2).
+    // A product of separate ranges of e^{-r/2} and z would overshoot by (z1 / 2) e^{(2 - r0) / 2} ≈ 10 % here.
+    const c = compileState(label('2pz'));
+    const fb = fieldBound(c);
+    const w = new Float64Array(4);
+    fb.box(-0.01, 0.01, -0.01, 0.01, 1.9, 2.1, w);
+    const top = (2 * Math.exp(-1)) / Math.sqrt(32 * Math.PI);
+    expect(w[1]).toBeGreaterThanOrEqual(top);
+    expect(w[1] / top - 1).toBeLessThan(1e-5);
+    // The lower end: the smaller of R at r0 = 1.9 and r1 = √(2.1² + 2 · 0.01²) times the smallest cos θ of the box.
+    const R21 = (r: number) => (r * Math.exp(-r / 2)) / Math.sqrt(24);
+    const lowest = Math.min(R21(1.9), R21(Math.hypot(0.01, 0.01, 2.1))) * Math.sqrt(3 / (4 * Math.PI)) * (1.9 / Math.hypot(1.9, 0.01, 0.01));
+    expect(w[0]).toBeLessThanOrEqual(c.evaluate(0.01, 0.01, 2.1).re);
+    expect(Math.abs(w[0] / lowest - 1)).toBeLessThan(1e-5);
+  });
+
   it('radialRange: 2s, g = R_20 (closed form (2 − r) e^{-r/2} / (2√2), Griffiths Table 4.7) has its minimum at r = 4 inside [1, 6]', () => {
     const fb = fieldBound(compileState(label('2s')));
     const out = new Float64Array(2);
