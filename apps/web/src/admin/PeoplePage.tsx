@@ -9,6 +9,7 @@ import { Pager, SortHeader, nextSort, useDebounced, SEARCH_DEBOUNCE_MS, type Sor
 import { formatDate } from '../figures/model';
 import { SubjectAudit } from './SubjectAudit';
 import { inviteUser, listUsers, messagesByField, resendInvitation, sendPasswordReset, updateUser } from './adminApi';
+import { QueryStatus } from '../components/QueryStatus';
 
 export const PEOPLE_PAGE_SIZE = 25;
 
@@ -239,12 +240,7 @@ export function PeoplePage() {
         )}
       </section>
 
-      {people.isPending && <NonIdealState icon={<Spinner size={32} />} title="Loading people…" />}
-      {people.isError && (
-        <Callout intent="danger" title="People could not be loaded" data-testid="people-error">
-          {describeError(people.error)}
-        </Callout>
-      )}
+      <QueryStatus query={people} what="people" testId="people" />
       {people.isSuccess && items.length === 0 && <NonIdealState icon="people" title="Nobody matches" description="No account matches the search and filters." />}
       {people.isSuccess && items.length > 0 && (
         <>

@@ -22,6 +22,7 @@ import { Pager, SortHeader, nextSort, useDebounced, SEARCH_DEBOUNCE_MS, type Sor
 import { formatDate } from '../figures/model';
 import { SubjectAudit } from './SubjectAudit';
 import { addMember, createPublication, listMembers, listPublicationsAdmin, listUsers, messagesByField, removeMember, setMemberRole, updatePublication } from './adminApi';
+import { QueryStatus } from '../components/QueryStatus';
 
 export const PUBLICATIONS_PAGE_SIZE = 25;
 export const KIND_LABELS: Record<PublicationKind, string> = { book: 'Book', journal_volume: 'Journal volume' };
@@ -148,12 +149,7 @@ export function PublicationsAdminPage() {
           </Callout>
         )}
       </section>
-      {list.isPending && <NonIdealState icon={<Spinner size={32} />} title="Loading publications…" />}
-      {list.isError && (
-        <Callout intent="danger" title="Publications could not be loaded" data-testid="pubs-error">
-          {describeError(list.error)}
-        </Callout>
-      )}
+      <QueryStatus query={list} what="publications" testId="pubs" />
       {list.isSuccess && items.length === 0 && <NonIdealState icon="book" title="No publication matches" />}
       {list.isSuccess && items.length > 0 && (
         <>

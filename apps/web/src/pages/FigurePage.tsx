@@ -3,7 +3,7 @@ import { Button, Callout, EditableText, NonIdealState, Spinner, Tag } from '@blu
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { Link, useParams, useSearchParams } from 'react-router-dom';
 import { parseRecipe, titleProblem, type AssetDto, type FigureDto, type JobDto } from '@psiform/contracts';
-import { ApiError, describeError } from '../api/client';
+import { describeError } from '../api/client';
 import { useApi, useAuth } from '../auth/AuthProvider';
 import { AssetDownloads } from '../figures/AssetDownloads';
 import { statusIntent } from '../figures/FiguresTable';
@@ -15,6 +15,7 @@ import { PreflightPanel } from '../print/PreflightPanel';
 import { FigureStudioBar } from '../studio/FigureStudioBar';
 import { Typeset } from '../components/Typeset';
 import { phaseKeyColours } from '../scene/phaseKeyColours';
+import { FigureLoadStatus } from '../components/FigureLoadStatus';
 
 // three.js and R3F load only when a mesh is shown (keeps them out of the first bundle).
 const FigureViewport = lazy(() => import('../viewport/FigureViewport'));
@@ -124,28 +125,7 @@ export function FigurePage() {
     if (job.state === 'completed') void queryClient.invalidateQueries({ queryKey: ['figure', figureId] });
   }
 
-  if (figure.isPending) {
-    return (
-      <div className="pf-page" data-testid="figure-loading">
-        <NonIdealState icon={<Spinner size={32} />} title="Loading the figure…" />
-      </div>
-    );
-  }
-  if (figure.isError) {
-    const notFound = figure.error instanceof ApiError && (figure.error.status === 404 || figure.error.status === 403);
-    return (
-      <div className="pf-page">
-        <Callout intent={notFound ? 'warning' : 'danger'} title={notFound ? 'Figure not found' : 'The figure could not be loaded'} data-testid="figure-error">
-          <p>
-            {notFound
-              ? 'There is no such figure in the publications you belong to.'
-              : describeError(figure.error)}
-          </p>
-          <Link to="/library">Back to the library</Link>
-        </Callout>
-      </div>
-    );
-  }
+  if (!figure.isSuccess) return <FigureLoadStatus figure={figure} what="figure" testId="figure" back={{ to: '/library', text: 'Back to the library' }} />;
 
   const f = figure.data;
   const parsed = parseRecipe(f.currentVersion.recipe);

@@ -18,6 +18,7 @@ import { Typeset } from '../components/Typeset';
 import { statusLabel } from '../figures/model';
 import { labelKey } from './shell';
 import { TableHead } from '../components/TableHead';
+import { QueryStatus } from '../components/QueryStatus';
 
 const SUBSHELLS = ['s', 'p', 'd', 'f', 'hybrid', 'other'] as const;
 
@@ -46,12 +47,7 @@ export function FigureSetsPage() {
         </div>
         {current && <PublicationChooser publications={list} value={current.id} onChange={setChosen} inline />}
       </header>
-      {publications.isPending && <NonIdealState icon={<Spinner size={32} />} title="Loading publications…" />}
-      {publications.isError && (
-        <Callout intent="danger" title="Publications could not be loaded" data-testid="sets-error">
-          {describeError(publications.error)}
-        </Callout>
-      )}
+      <QueryStatus query={publications} what="publications" testId="sets" />
       {publications.isSuccess && !current && <NonIdealState icon="book" title="No publications yet" description="Ask an admin to add you to a publication." />}
       {current && <SetsOfPublication key={current.id} publicationId={current.id} />}
       <p className="pf-muted pf-small" data-testid="sets-model">
