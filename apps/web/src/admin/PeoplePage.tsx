@@ -10,6 +10,7 @@ import { formatDate } from '../figures/model';
 import { SubjectAudit } from './SubjectAudit';
 import { inviteUser, listUsers, messagesByField, resendInvitation, sendPasswordReset, updateUser } from './adminApi';
 import { QueryStatus } from '../components/QueryStatus';
+import { fieldMessages, FormMessages } from './FormMessages';
 
 export const PEOPLE_PAGE_SIZE = 25;
 
@@ -52,12 +53,7 @@ export function InviteForm({ onDone }: { onDone(user: UserAdminDto): void }) {
     if (Object.keys(local).length === 0) invite.mutate();
   }
 
-  const fieldError = (f: string, id: string) =>
-    errors[f]?.length ? (
-      <span className="pf-field-error" data-testid={id}>
-        {errors[f].join(' ')}
-      </span>
-    ) : undefined;
+  const fieldError = (f: string, id: string) => fieldMessages(errors[f], id);
 
   return (
     <form className="pf-admin-form" onSubmit={submit} noValidate data-testid="invite-form" aria-label="Invite someone">
@@ -70,11 +66,7 @@ export function InviteForm({ onDone }: { onDone(user: UserAdminDto): void }) {
       <FormGroup label="Role" labelFor="invite-role" helperText={fieldError('role', 'invite-role-error')}>
         <HTMLSelect id="invite-role" value={role} onChange={(e) => setRole(e.currentTarget.value as Role)} options={roleOptions} data-testid="invite-role" />
       </FormGroup>
-      {errors['']?.length ? (
-        <Callout intent="danger" compact data-testid="invite-error">
-          {errors[''].join(' ')}
-        </Callout>
-      ) : null}
+      <FormMessages messages={errors['']} testId="invite-error" />
       <Button type="submit" intent="primary" icon="envelope" text="Send invitation" loading={invite.isPending} data-testid="invite-submit" />
     </form>
   );

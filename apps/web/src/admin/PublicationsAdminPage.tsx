@@ -23,6 +23,8 @@ import { formatDate } from '../figures/model';
 import { SubjectAudit } from './SubjectAudit';
 import { addMember, createPublication, listMembers, listPublicationsAdmin, listUsers, messagesByField, removeMember, setMemberRole, updatePublication } from './adminApi';
 import { QueryStatus } from '../components/QueryStatus';
+import { fieldMessages, FormMessages } from './FormMessages';
+import { TableHead } from '../components/TableHead';
 
 export const PUBLICATIONS_PAGE_SIZE = 25;
 export const KIND_LABELS: Record<PublicationKind, string> = { book: 'Book', journal_volume: 'Journal volume' };
@@ -59,12 +61,7 @@ export function PublicationForm({ initial, submitText, onSubmit, pending }: { in
       setErrors(messagesByField(body ? (Array.isArray(body.message) ? body.message : [body.message]) : [describeError(err)], FIELDS));
     }
   }
-  const err = (k: string) =>
-    errors[k]?.length ? (
-      <span className="pf-field-error" data-testid={`pub-${k}-error`}>
-        {errors[k].join(' ')}
-      </span>
-    ) : undefined;
+  const err = (k: string) => fieldMessages(errors[k], `pub-${k}-error`);
 
   return (
     <form className="pf-admin-form" onSubmit={(e) => void submit(e)} noValidate data-testid="publication-form">
@@ -86,11 +83,7 @@ export function PublicationForm({ initial, submitText, onSubmit, pending }: { in
       <FormGroup label="Description" labelFor="pub-description" helperText={err('description')}>
         <TextArea id="pub-description" value={f.description} onChange={(e) => set('description', e.currentTarget.value)} fill rows={2} data-testid="pub-description" />
       </FormGroup>
-      {errors['']?.length ? (
-        <Callout intent="danger" compact data-testid="pub-error">
-          {errors[''].join(' ')}
-        </Callout>
-      ) : null}
+      <FormMessages messages={errors['']} testId="pub-error" />
       <Button type="submit" intent="primary" text={submitText} loading={pending} data-testid="pub-submit" />
     </form>
   );
@@ -320,16 +313,7 @@ export function PublicationAdminPage() {
           {members.isSuccess && members.data.length === 0 && <p className="pf-muted" data-testid="members-empty">Nobody works on this publication yet.</p>}
           {members.isSuccess && members.data.length > 0 && (
             <HTMLTable className="pf-table" compact data-testid="members-table">
-              <thead>
-                <tr>
-                  <th scope="col">Name</th>
-                  <th scope="col">Role here</th>
-                  <th scope="col">Account</th>
-                  <th scope="col">
-                    <span className="pf-visually-hidden">Actions</span>
-                  </th>
-                </tr>
-              </thead>
+              <TableHead columns={['Name', 'Role here', 'Account', { hidden: 'Actions' }]} />
               <tbody>
                 {members.data.map((m) => (
                   <tr key={m.id} data-testid="member-row" data-email={m.email}>

@@ -1,12 +1,10 @@
 import { useState } from 'react';
-import { Button, ButtonGroup, Callout, Spinner, Tag } from '@blueprintjs/core';
+import { Button, ButtonGroup, Callout, Spinner } from '@blueprintjs/core';
 import { useQuery } from '@tanstack/react-query';
 import { Link, useParams } from 'react-router-dom';
 import type { AssetDto } from '@psiform/contracts';
 import { describeError } from '../api/client';
 import { useApi } from '../auth/AuthProvider';
-import { statusIntent } from '../figures/FiguresTable';
-import { statusLabel } from '../figures/model';
 import { Viewport } from '../pages/FigurePage';
 import { AuditTrail } from './AuditTrail';
 import { CommentsPanel, numberPins } from './CommentsPanel';
@@ -19,6 +17,7 @@ import { JobProgress } from '../figures/JobProgress';
 import { useAuth } from '../auth/AuthProvider';
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { FigureLoadStatus } from '../components/FigureLoadStatus';
+import { FigureMeta } from '../figures/FigureMeta';
 
 function latest(assets: AssetDto[], kind: AssetDto['kind']): AssetDto | undefined {
   return assets.filter((a) => a.kind === kind).sort((a, b) => b.createdAt.localeCompare(a.createdAt))[0];
@@ -56,13 +55,7 @@ export function ProofPage() {
           <Link to="/review">Review desk</Link> · <Link to={`/figures/${encodeURIComponent(f.id)}`}>Figure page</Link>
         </p>
         <h1 data-testid="proof-title">{f.title}</h1>
-        <div className="pf-meta">
-          <Tag minimal intent={statusIntent(f.status)} data-testid="proof-status">
-            {statusLabel(f.status)}
-          </Tag>
-          <span data-testid="proof-version">Version {f.currentVersion.number}</span>
-          {f.ownerName && <span>by {f.ownerName}</span>}
-        </div>
+        <FigureMeta figure={f} testId="proof" />
       </header>
 
       <div className="pf-proof-layout">

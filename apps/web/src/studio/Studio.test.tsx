@@ -3,7 +3,7 @@ import userEvent from '@testing-library/user-event';
 import { vi } from 'vitest';
 import { DEFAULT_DELIVERY_PROFILE, parseRecipe, type FigureDto } from '@psiform/contracts';
 import { AppProviders, createQueryClient } from '../App';
-import { json, mockFetch, renderApp, signedInRoutes, storeSession, user, retype } from '../test/utils';
+import { json, mockFetch, renderApp, signedInRoutes, storeSession, user, retype, type Handler } from '../test/utils';
 import { figure } from '../test/figures';
 import type { PreviewRequest, PreviewResponse } from '../workers/preview-protocol';
 import { ExportForm } from './ExportDialog';
@@ -71,6 +71,30 @@ beforeEach(() => {
 });
 
 const me = user('illustrator');
+
+/** The export form alone for a signed-in illustrator, for a `widthMm` × 60 mm canvas at 300 dpi; returns the user-event driver. */
+function openExportForm(widthMm: number) {
+  storeSession(me);
+  const ue = userEvent.setup();
+  render(
+    <AppProviders client={createQueryClient()}>
+      <ExportForm figure={figure()} canvas={{ widthMm, heightMm: 60, dpi: 300 }} transparentDefault={false} />
+    </AppProviders>,
+  );
+  return ue;
+}
+
+/** GET and PATCH of figure f1 over one stored figure: a PATCH stores version 2 with the recipe sent, as the server does. */
+function savedFigureRoutes(initial: FigureDto): Record<string, Handler> {
+  let current = initial;
+  return {
+    'GET /api/figures/f1': () => json(200, current),
+    'PATCH /api/figures/f1': ({ body }) => {
+      current = figure({ currentVersion: { ...current.currentVersion, id: 'v2', number: 2, recipe: (body as { recipe: FigureDto['currentVersion']['recipe'] }).recipe } });
+      return json(200, current);
+    },
+  };
+}
 
 describe('Composer: quantum numbers as you type', () => {
   it('names the broken rule at once, keeps save disabled while invalid, and creates the figure once valid', async () => {
@@ -221,15 +245,10 @@ describe('Composer: superposition coefficients', () => {
 
 describe('Studio: what the figure cannot show', () => {
   it('says when the box cuts the surface, offers to widen it, and saves the wider box', async () => {
-    let current = figure();
-    current = figure({ currentVersion: { ...current.currentVersion, recipe: { ...current.currentVersion.recipe, grid: { n: 48, extent: 3 } } } });
+    const first = figure();
     const api = mockFetch({
       ...signedInRoutes(me),
-      'GET /api/figures/f1': () => json(200, current),
-      'PATCH /api/figures/f1': ({ body }) => {
-        current = figure({ currentVersion: { ...current.currentVersion, id: 'v2', number: 2, recipe: (body as { recipe: FigureDto['currentVersion']['recipe'] }).recipe } });
-        return json(200, current);
-      },
+      ...savedFigureRoutes(figure({ currentVersion: { ...first.currentVersion, recipe: { ...first.currentVersion.recipe, grid: { n: 48, extent: 3 } } } })),
     });
     FakeWorker.boxWarning = { message: 'The box (±3 a0) cuts the surface: the figure draws 31% of the 90% it encloses.', suggestedExtent: 7.1234 };
     storeSession(me);
@@ -292,15 +311,7 @@ describe('Opening a saved figure', () => {
 
 describe('Stage shortcuts', () => {
   it('1/2/3/4/0 choose the view, O the projection, A the axes; typing in a field does not; the stage is saved', async () => {
-    let current = figure();
-    const api = mockFetch({
-      ...signedInRoutes(me),
-      'GET /api/figures/f1': () => json(200, current),
-      'PATCH /api/figures/f1': ({ body }) => {
-        current = figure({ currentVersion: { ...current.currentVersion, id: 'v2', number: 2, recipe: (body as { recipe: FigureDto['currentVersion']['recipe'] }).recipe } });
-        return json(200, current);
-      },
-    });
+    const api = mockFetch({ ...signedInRoutes(me), ...savedFigureRoutes(figure()) });
     storeSession(me);
     const ue = userEvent.setup();
     renderApp('/figures/f1/studio');
@@ -417,13 +428,7 @@ describe('Export dialog: size arithmetic', () => {
       'GET /api/jobs/j7/events': () => stream.response,
       ...profileRoute(),
     });
-    storeSession(me);
-    const ue = userEvent.setup();
-    render(
-      <AppProviders client={createQueryClient()}>
-        <ExportForm figure={figure()} canvas={{ widthMm: 89, heightMm: 60, dpi: 300 }} transparentDefault={false} />
-      </AppProviders>,
-    );
+    const ue = openExportForm(89);
     await ue.click(await screen.findByTestId('exp-transparent'));
     await ue.click(screen.getByTestId('exp-submit'));
     await waitFor(() => expect(api.callsTo('POST', '/api/figures/f1/exports')).toHaveLength(1));
@@ -441,13 +446,7 @@ describe('Export dialog: size arithmetic', () => {
 
   it('says plainly when the server has no export route', async () => {
     mockFetch({ ...signedInRoutes(me) }); // unknown route -> 404 "No mock for …"
-    storeSession(me);
-    const ue = userEvent.setup();
-    render(
-      <AppProviders client={createQueryClient()}>
-        <ExportForm figure={figure()} canvas={{ widthMm: 89, heightMm: 60, dpi: 300 }} transparentDefault={false} />
-      </AppProviders>,
-    );
+    const ue = openExportForm(89);
     // No delivery-profile route either: the dialog says so and offers the default profile's choices.
     expect((await screen.findByTestId('exp-profile-error')).textContent).toContain('default profile');
     await ue.selectOptions(screen.getByTestId('exp-format'), 'bundle');
@@ -463,13 +462,7 @@ describe('Export dialog: the delivery profile first, the preflight before export
       ...profileRoute({ ...DEFAULT_DELIVERY_PROFILE, publicationId: 'p1', isDefault: false, updatedAt: null, updatedBy: null, pressCondition: 'gracol', columnWidthsMm: [{ name: 'text', widthMm: 84 }, { name: 'full page', widthMm: 174 }] }),
       'POST /api/figures/f1/exports': () => json(202, { jobId: 'j9' }),
     });
-    storeSession(me);
-    const ue = userEvent.setup();
-    render(
-      <AppProviders client={createQueryClient()}>
-        <ExportForm figure={figure()} canvas={{ widthMm: 84, heightMm: 60, dpi: 300 }} transparentDefault={false} />
-      </AppProviders>,
-    );
+    const ue = openExportForm(84);
     const format = (await screen.findByTestId('exp-format')) as HTMLSelectElement;
     // The profile lists TIFF, PNG, then PDF and SVG: in that order, TIFF chosen.
     expect(Array.from(format.options).map((o) => o.value).slice(0, 6)).toEqual(['tiff', 'png', 'pdf-radial', 'pdf-section', 'svg-radial', 'svg-section']);
