@@ -8,6 +8,18 @@ import { chromium } from 'playwright-core';
 import { CHROMIUM_FLAGS } from '@psiform/contracts';
 
 export const DEMO_ILLUSTRATOR = { email: 'illustrator@demo.psiform.test', password: 'psiform-demo' };
+export const DEMO_EDITOR = { email: 'editor@demo.psiform.test', password: DEMO_ILLUSTRATOR.password };
+export const DEMO_ART_DIRECTOR = { email: 'artdirector@demo.psiform.test', password: DEMO_ILLUSTRATOR.password };
+export const DEMO_ADMIN = { email: 'admin@demo.psiform.test', password: DEMO_ILLUSTRATOR.password };
+
+/** A 2p_z figure on a coarse 24³ grid (90% enclosed): quick to mesh and render, for tests that only need a figure. */
+export const QUICK_2PZ_RECIPE = Object.freeze({
+  version: 1,
+  label: '2p_z',
+  content: { Z: 1, terms: [{ n: 2, l: 1, m: 0, basis: 'real', re: 1, im: 0 }] },
+  grid: { n: 24, extent: 'auto' },
+  surface: { rule: 'enclosed', fraction: 0.9 },
+});
 
 export const CHROMIUM_PATH = '/usr/bin/chromium';
 

@@ -4,20 +4,10 @@
 // from the comparison; sees both side by side, under the slider and blinking; the proof states its print size, dpi
 // and colour mode and zooms to 1:1 print pixels. Needs the worker and Chromium for the renders.
 import assert from 'node:assert/strict';
-import { after, before, test } from 'node:test';
-import { apiCall, apiLogin, baseUrl, DEMO_ILLUSTRATOR, expectOutcome, launchBrowser, newPage, signIn } from './browser.mjs';
+import { test } from 'node:test';
+import { apiCall, apiLogin, browserPerFile, DEMO_EDITOR, DEMO_ILLUSTRATOR, expectOutcome, newPage, QUICK_2PZ_RECIPE, signIn } from './browser.mjs';
 
-const DEMO_EDITOR = { email: 'editor@demo.psiform.test', password: DEMO_ILLUSTRATOR.password };
-let launched;
-
-before(async () => {
-  baseUrl();
-  launched = await launchBrowser();
-});
-
-after(async () => {
-  await launched?.close();
-});
+const browser = browserPerFile();
 
 async function waitForJob(token, jobId, what) {
   const t0 = Date.now();
@@ -36,14 +26,7 @@ test('an editor compares version 1 and version 2 of a proof and sees the changes
   const pub = pubs[0];
   const title = `E2E compare ${Math.random().toString(36).slice(2, 8)}`;
   // A small canvas (30 × 20 mm at 300 dpi = 354 × 236 px) and grid keep the two renders quick.
-  const v1 = {
-    version: 1,
-    label: '2p_z',
-    content: { Z: 1, terms: [{ n: 2, l: 1, m: 0, basis: 'real', re: 1, im: 0 }] },
-    grid: { n: 24, extent: 'auto' },
-    surface: { rule: 'enclosed', fraction: 0.9 },
-    canvas: { widthMm: 30, heightMm: 20, dpi: 300 },
-  };
+  const v1 = { ...QUICK_2PZ_RECIPE, canvas: { widthMm: 30, heightMm: 20, dpi: 300 } };
   const { body: created } = await apiCall('Creating version 1', 'POST', '/api/figures', { token: illustrator, body: { publicationId: pub.id, title, recipe: v1 } });
   const figureId = created.id;
   // The house palette (if the publication pins one) is applied by the server on every save, so only these two change.
@@ -55,7 +38,7 @@ test('an editor compares version 1 and version 2 of a proof and sees the changes
   const { body: r1 } = await apiCall('Rendering version 1 at print size', 'POST', `/api/figures/${figureId}/versions/1/render`, { token: editor });
   await waitForJob(editor, r1.jobId, 'the render of version 1');
 
-  const { context, page, errors } = await newPage(launched.browser);
+  const { context, page, errors } = await newPage(browser());
   try {
     await signIn(page, DEMO_EDITOR);
     await page.getByTestId('nav-review').click();

@@ -3,20 +3,10 @@
 // they see exactly that one. Run against a running stack (npm test starts one): PSIFORM_URL=… node --test test/e2e/
 import assert from 'node:assert/strict';
 import { randomBytes } from 'node:crypto';
-import { after, before, test } from 'node:test';
-import { apiGet, baseUrl, expectOutcome, launchBrowser, newPage, signIn } from './browser.mjs';
+import { test } from 'node:test';
+import { apiGet, baseUrl, browserPerFile, DEMO_ADMIN, expectOutcome, newPage, signIn } from './browser.mjs';
 
-const DEMO_ADMIN = { email: 'admin@demo.psiform.test', password: 'psiform-demo' };
-let launched;
-
-before(async () => {
-  baseUrl();
-  launched = await launchBrowser();
-});
-
-after(async () => {
-  await launched?.close();
-});
+const browser = browserPerFile();
 
 /** The newest mail to `email` in the local SMTP fake's outbox (GET /api/dev/outbox, admins), waiting for the worker to send it. */
 async function waitForMail(token, email, timeoutMs = 30_000) {
@@ -35,8 +25,8 @@ test('admin invites; the mailed link sets a password once; the new illustrator s
   const email = `odile-${run}@e2e.psiform.test`;
   const name = `Odile Marsh ${run}`;
   const pubTitle = `Field Guide to Nodes ${run}`;
-  const admin = await newPage(launched.browser);
-  const invitee = await newPage(launched.browser);
+  const admin = await newPage(browser());
+  const invitee = await newPage(browser());
   try {
     const session = await signIn(admin.page, DEMO_ADMIN);
     const page = admin.page;

@@ -4,9 +4,8 @@
 // fails and approval would be blocked).   PSIFORM_URL=http://127.0.0.1:3000 node --test test/e2e/
 import assert from 'node:assert/strict';
 import { test } from 'node:test';
-import { apiCall, apiLogin, baseUrl, browserPerFile, DEMO_ILLUSTRATOR, newPage, signIn } from './browser.mjs';
+import { apiCall, apiLogin, baseUrl, browserPerFile, DEMO_ART_DIRECTOR, DEMO_ILLUSTRATOR, newPage, signIn } from './browser.mjs';
 
-const DEMO_ART_DIRECTOR = { email: 'artdirector@demo.psiform.test', password: DEMO_ILLUSTRATOR.password };
 const RULES = ['format', 'size', 'resolution', 'column_width', 'font_size', 'line_weight', 'colour_mode', 'icc_profile', 'fonts_embedded', 'alt_text'];
 const browser = browserPerFile();
 

@@ -6,10 +6,8 @@
 // naming the missing step. Only correct demo passwords are used: the API throttles sign-in after 5 failures per IP.
 import assert from 'node:assert/strict';
 import { test } from 'node:test';
-import { apiCall, apiGet, apiLogin, browserPerFile, DEMO_ILLUSTRATOR, newPage, signIn } from './browser.mjs';
+import { apiCall, apiGet, apiLogin, browserPerFile, DEMO_ART_DIRECTOR, DEMO_EDITOR, DEMO_ILLUSTRATOR, newPage, QUICK_2PZ_RECIPE, signIn } from './browser.mjs';
 
-const DEMO_EDITOR = { email: 'editor@demo.psiform.test', password: DEMO_ILLUSTRATOR.password };
-const DEMO_ART_DIRECTOR = { email: 'artdirector@demo.psiform.test', password: DEMO_ILLUSTRATOR.password };
 
 const browser = browserPerFile();
 
@@ -23,13 +21,7 @@ test('an editor approves a submitted proof from the review desk', { timeout: 180
   assert.ok(Array.isArray(pubs) && pubs.length > 0, 'the demo illustrator belongs to at least one publication');
   const publicationId = pubs[0].id;
   const title = `E2E proof ${new Date().toISOString()} ${Math.random().toString(36).slice(2, 8)}`;
-  const recipe = {
-    version: 1,
-    label: '2p_z',
-    content: { Z: 1, terms: [{ n: 2, l: 1, m: 0, basis: 'real', re: 1, im: 0 }] },
-    grid: { n: 24, extent: 'auto' },
-    surface: { rule: 'enclosed', fraction: 0.9 },
-  };
+  const recipe = QUICK_2PZ_RECIPE;
   const { body: created } = await api('Creating the figure', 'POST', '/api/figures', { token: illustrator, body: { publicationId, title, recipe } });
   const figureId = created.id;
   const { body: submitted } = await api('Submitting the figure for review', 'POST', `/api/figures/${figureId}/submit`, { token: illustrator });

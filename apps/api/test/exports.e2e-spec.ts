@@ -9,7 +9,7 @@ import { DOMParser } from '@xmldom/xmldom';
 import { unzipSync, strFromU8 } from 'fflate';
 import { PNG } from 'pngjs';
 import { EXPORT_STAGES, PSIFORM_PALETTE, type JobDto } from '@psiform/contracts';
-import { auth, demoTokens, login, phasePixels, runEmail, smallRecipe, startTestApp, DEMO_PUBLICATION, RUN_ID, type TestApp, deleteFigureSets } from './support';
+import { auth, demoTokens, phasePixels, smallRecipe, startTestApp, DEMO_PUBLICATION, RUN_ID, type TestApp, deleteFigureSets, newAccount } from './support';
 import { readSse, startWorkerProcess, waitFor, type WorkerProcess } from './worker-process';
 
 const WEB_DIST = join(__dirname, '..', '..', 'web', 'dist');
@@ -66,13 +66,8 @@ describe('exports (e2e)', () => {
     await t.app.listen(0, '127.0.0.1');
     base = `http://127.0.0.1:${(t.app.getHttpServer().address() as AddressInfo).port}`;
     tok = await demoTokens(t);
-    const email = runEmail('exports-outsider');
-    await t.http().post('/api/users').set(auth(tok.admin)).send({ email, displayName: 'Outside Viewer', password: 'long-enough-pw', role: 'editor' }).expect(201);
-    outsider = (await login(t, email, 'long-enough-pw')).accessToken;
-    const email2 = runEmail('exports-illustrator');
-    const other = (await t.http().post('/api/users').set(auth(tok.admin)).send({ email: email2, displayName: 'Second Illustrator', password: 'long-enough-pw', role: 'illustrator' }).expect(201)).body;
-    await t.http().post(`/api/publications/${pub}/members`).set(auth(tok.admin)).send({ userId: other.id }).expect(201);
-    otherIllustrator = (await login(t, email2, 'long-enough-pw')).accessToken;
+    outsider = (await newAccount(t, tok.admin, { name: 'exports-outsider', displayName: 'Outside Viewer', role: 'editor' })).token;
+    otherIllustrator = (await newAccount(t, tok.admin, { name: 'exports-illustrator', displayName: 'Second Illustrator', role: 'illustrator', memberOf: pub })).token;
     figureId = (await t.http().post('/api/figures').set(auth(tok.illustrator)).send({ publicationId: pub, title: `Export 2p_z ${RUN_ID}`, recipe: smallRecipe({ grid: { n: 48 } }) }).expect(201)).body.id;
     worker = await startWorkerProcess({ WEB_DIST, THUMBNAILS: 'on' });
   }, 60000);

@@ -1,6 +1,6 @@
 import { Queue } from 'bullmq';
 import { fractionProblem, gridProblem, QUEUES, RECIPE_LIMITS } from '@psiform/contracts';
-import { auth, demoTokens, login, runEmail, smallRecipe, startTestApp, DEMO_PUBLICATION, RUN_ID, type TestApp } from './support';
+import { auth, demoTokens, smallRecipe, startTestApp, DEMO_PUBLICATION, RUN_ID, type TestApp, newAccount } from './support';
 import { waitFor } from './worker-process';
 
 /** Figures API without a worker: create / read / edit / list, roles, membership, and refused recipes. */
@@ -25,9 +25,7 @@ describe('figures (e2e)', () => {
   beforeAll(async () => {
     t = await startTestApp();
     tok = await demoTokens(t);
-    const email = runEmail('outsider');
-    await t.http().post('/api/users').set(auth(tok.admin)).send({ email, displayName: 'Outside Reader', password: 'long-enough-pw', role: 'illustrator' }).expect(201);
-    outsider = (await login(t, email, 'long-enough-pw')).accessToken;
+    outsider = (await newAccount(t, tok.admin, { name: 'outsider', displayName: 'Outside Reader', role: 'illustrator' })).token;
     meshQueue = new Queue(QUEUES.mesh, { connection: { url: process.env.REDIS_URL! } });
   });
   afterAll(async () => {
@@ -125,6 +123,9 @@ describe('figures (e2e)', () => {
     const p2 = await t.http().get(`/api/figures?q=${tag}&sort=title&order=asc&pageSize=2&page=2`).set(auth(tok.editor)).expect(200);
     expect(p2.body).toMatchObject({ total: 3, page: 2, pageSize: 2 });
     expect(p2.body.items.map((i: { title: string }) => i.title)).toEqual([`${tag} gamma`]);
+    // Every column the library offers to sort by is one the server accepts (FIGURE_SORT_KEYS, libs/contracts).
+    const byVersion = await t.http().get(`/api/figures?q=${tag}&sort=versionNumber&order=desc`).set(auth(tok.editor)).expect(200);
+    expect(byVersion.body.total).toBe(3);
     const none = await t.http().get(`/api/figures?q=${tag}&status=approved`).set(auth(tok.editor)).expect(200);
     expect(none.body.total).toBe(0);
     // '%' and '_' in q are literal characters, not wildcards.

@@ -3,7 +3,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import type { INestApplicationContext } from '@nestjs/common';
 import type { MemberDto, Page, SubjectAuditEntryDto, UserAdminDto } from '@psiform/contracts';
-import { auth, clearLoginCounters, demoTokens, login, runEmail, startTestApp, DEMO_PUBLICATION, RUN_ID, type TestApp } from './support';
+import { auth, clearLoginCounters, demoTokens, login, runEmail, startTestApp, DEMO_PUBLICATION, RUN_ID, type TestApp, newAccount } from './support';
 import { MailFake, freePort, startInProcessWorker, type OutboxEntry } from './editorial-support';
 import { waitFor } from './worker-process';
 
@@ -143,9 +143,8 @@ describe('people and publications (e2e)', () => {
   });
 
   it('a role change is audited; deactivation ends every session at once and blocks sign-in; reactivation needs a new sign-in', async () => {
-    const email = runEmail('deact');
-    const u = (await post('/api/users', tok.admin, { email, displayName: 'Dora Vane', password: 'long-enough-pw', role: 'illustrator' }).expect(201)).body;
-    const token = (await login(t, email, 'long-enough-pw')).accessToken;
+    const u = await newAccount(t, tok.admin, { name: 'deact', displayName: 'Dora Vane', role: 'illustrator' });
+    const { email, token } = u;
     await t.http().get('/api/auth/me').set(auth(token)).expect(200);
     const changed = (await patch(`/api/users/${u.id}`, tok.admin, { role: 'editor' }).expect(200)).body as UserAdminDto;
     expect(changed.role).toBe('editor');
@@ -205,9 +204,8 @@ describe('people and publications (e2e)', () => {
   });
 
   it('publications: create and edit (length unit Å or a₀), members with their role, each change audited; the member sees only their publications', async () => {
-    const email = runEmail('member');
-    const u = (await post('/api/users', tok.admin, { email, displayName: 'Mina Holt', password: 'long-enough-pw', role: 'illustrator' }).expect(201)).body;
-    const mine = (await login(t, email, 'long-enough-pw')).accessToken;
+    const u = await newAccount(t, tok.admin, { name: 'member', displayName: 'Mina Holt', role: 'illustrator' });
+    const { email, token: mine } = u;
     expect((await t.http().get('/api/publications').set(auth(mine)).expect(200)).body).toEqual([]);
 
     const edited = await patch(`/api/publications/${pubId}`, tok.admin, { lengthUnit: 'angstrom', publisher: 'Harrowgate Academic' }).expect(200);
@@ -254,9 +252,7 @@ describe('people and publications (e2e)', () => {
   });
 
   it('role × membership matrix: every route of this feature', async () => {
-    const outsiderEmail = runEmail('outsider');
-    await post('/api/users', tok.admin, { email: outsiderEmail, displayName: 'Otto Side', password: 'long-enough-pw', role: 'editor' }).expect(201);
-    const outsider = (await login(t, outsiderEmail, 'long-enough-pw')).accessToken;
+    const { email: outsiderEmail, token: outsider } = await newAccount(t, tok.admin, { name: 'outsider', displayName: 'Otto Side', role: 'editor' });
     const target = (await post('/api/users', tok.admin, { email: runEmail('target'), displayName: 'Tess Target', password: 'long-enough-pw', role: 'illustrator' }).expect(201)).body;
     const demoPub = DEMO_PUBLICATION.id;
     const ghost = '00000000-0000-4000-8000-00000000abcd';

@@ -4,7 +4,7 @@ import { promisify } from 'node:util';
 import type { AddressInfo } from 'node:net';
 import { MESH_STAGES, type JobDto } from '@psiform/contracts';
 import { ObjectStorage } from '@psiform/server';
-import { auth, demoTokens, login, runEmail, smallRecipe, startTestApp, DEMO_PUBLICATION, RUN_ID, type TestApp } from './support';
+import { auth, demoTokens, smallRecipe, startTestApp, DEMO_PUBLICATION, RUN_ID, type TestApp, newAccount } from './support';
 import { readSse, startWorkerProcess, waitFor, type WorkerProcess } from './worker-process';
 
 // Khronos glTF validator (npm gltf-validator), the reference check for glTF 2.0 files.
@@ -58,9 +58,7 @@ describe('mesh pipeline (e2e)', () => {
     await t.app.listen(0, '127.0.0.1');
     base = `http://127.0.0.1:${(t.app.getHttpServer().address() as AddressInfo).port}`;
     tok = await demoTokens(t);
-    const email = runEmail('pipeline-outsider');
-    await t.http().post('/api/users').set(auth(tok.admin)).send({ email, displayName: 'Outside Viewer', password: 'long-enough-pw', role: 'editor' }).expect(201);
-    outsider = (await login(t, email, 'long-enough-pw')).accessToken;
+    outsider = (await newAccount(t, tok.admin, { name: 'pipeline-outsider', displayName: 'Outside Viewer', role: 'editor' })).token;
     storage = t.app.get(ObjectStorage);
     worker = await startWorkerProcess({ WORKER_LOCK_MS: LOCK_MS });
   }, 60000);

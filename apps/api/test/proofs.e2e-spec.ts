@@ -3,7 +3,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import type { INestApplicationContext } from '@nestjs/common';
 import type { FigureVersionSummaryDto, ReviewDeskItemDto, VersionComparisonDto } from '@psiform/contracts';
-import { auth, clearLoginCounters, demoTokens, login, runEmail, smallRecipe, startTestApp, RUN_ID, type TestApp } from './support';
+import { auth, clearLoginCounters, demoTokens, smallRecipe, startTestApp, RUN_ID, type TestApp, newAccount } from './support';
 import { MailFake, freePort, startInProcessWorker } from './editorial-support';
 import { waitFor } from './worker-process';
 
@@ -37,13 +37,8 @@ describe('proofs: compare versions, render a version, desk filters (e2e)', () =>
       const me = (await get('/api/auth/me', tok[k]).expect(200)).body;
       await post(`/api/publications/${pubId}/members`, tok.admin, { userId: me.id }).expect(201);
     }
-    const outsiderEmail = runEmail('proof-outsider');
-    await post('/api/users', tok.admin, { email: outsiderEmail, displayName: 'Outside Editor', password: 'long-enough-pw', role: 'editor' }).expect(201);
-    outsider = (await login(t, outsiderEmail, 'long-enough-pw')).accessToken;
-    const ill2 = runEmail('proof-ill2');
-    const u2 = (await post('/api/users', tok.admin, { email: ill2, displayName: 'Second Illustrator', password: 'long-enough-pw', role: 'illustrator' }).expect(201)).body;
-    await post(`/api/publications/${pubId}/members`, tok.admin, { userId: u2.id }).expect(201);
-    otherIllustrator = (await login(t, ill2, 'long-enough-pw')).accessToken;
+    outsider = (await newAccount(t, tok.admin, { name: 'proof-outsider', displayName: 'Outside Editor', role: 'editor' })).token;
+    otherIllustrator = (await newAccount(t, tok.admin, { name: 'proof-ill2', displayName: 'Second Illustrator', role: 'illustrator', memberOf: pubId })).token;
 
     // Version 1, then version 2 with a brighter key light and a larger enclosed fraction; a small canvas keeps renders quick.
     const recipe = smallRecipe({ canvas: { widthMm: 30, heightMm: 20, dpi: 300 } });

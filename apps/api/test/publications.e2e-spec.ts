@@ -1,4 +1,4 @@
-import { startTestApp, login, runEmail, RUN_ID, DEMO_PASSWORD, DEMO_PUBLICATION, DEMO_USERS, type TestApp } from './support';
+import { startTestApp, login, RUN_ID, DEMO_PASSWORD, DEMO_PUBLICATION, DEMO_USERS, type TestApp, newAccount } from './support';
 
 describe('publications (e2e)', () => {
   let t: TestApp;
@@ -104,9 +104,7 @@ describe('publications (e2e)', () => {
   });
 
   it('a fresh user with no memberships sees an empty list', async () => {
-    const email = runEmail('loner');
-    await t.http().post('/api/users').set(auth(admin)).send({ email, displayName: 'Lone Reader', password: 'long-enough-pw', role: 'editor' }).expect(201);
-    const token = (await login(t, email, 'long-enough-pw')).accessToken;
+    const { token } = await newAccount(t, admin, { name: 'loner', displayName: 'Lone Reader', role: 'editor' });
     const res = await t.http().get('/api/publications').set(auth(token)).expect(200);
     expect(res.body).toEqual([]);
     await t.http().get(`/api/publications/${DEMO_PUBLICATION.id}`).set(auth(token)).expect(404);

@@ -5,7 +5,7 @@ import type { INestApplicationContext } from '@nestjs/common';
 import { Queue } from 'bullmq';
 import Redis from 'ioredis';
 import { QUEUES, type AuditEntryDto, type ReviewTransitionDto } from '@psiform/contracts';
-import { auth, demoTokens, login, runEmail, smallRecipe, startTestApp, RUN_ID, type TestApp } from './support';
+import { auth, demoTokens, smallRecipe, startTestApp, RUN_ID, type TestApp, newAccount } from './support';
 import { MailFake, freePort, startInProcessWorker } from './editorial-support';
 import { waitFor } from './worker-process';
 
@@ -45,13 +45,8 @@ describe('editorial review (e2e)', () => {
     pubTitle = `Orbitals in Colour, 2nd ed. ${RUN_ID}`;
     pubId = (await post('/api/publications', tok.admin, { title: pubTitle, publisher: 'Fenwick Lane Books', kind: 'book' }).expect(201)).body.id;
     for (const k of ['illustrator', 'editor', 'artDirector']) await post(`/api/publications/${pubId}/members`, tok.admin, { userId: emails[`${k}Id`] }).expect(201);
-    const outsiderEmail = runEmail('review-outsider');
-    await post('/api/users', tok.admin, { email: outsiderEmail, displayName: 'Outside Editor', password: 'long-enough-pw', role: 'editor' }).expect(201);
-    outsider = (await login(t, outsiderEmail, 'long-enough-pw')).accessToken;
-    const ill2 = runEmail('second-illustrator');
-    const ill2User = (await post('/api/users', tok.admin, { email: ill2, displayName: 'Second Illustrator', password: 'long-enough-pw', role: 'illustrator' }).expect(201)).body;
-    await post(`/api/publications/${pubId}/members`, tok.admin, { userId: ill2User.id }).expect(201);
-    otherIllustrator = (await login(t, ill2, 'long-enough-pw')).accessToken;
+    outsider = (await newAccount(t, tok.admin, { name: 'review-outsider', displayName: 'Outside Editor', role: 'editor' })).token;
+    otherIllustrator = (await newAccount(t, tok.admin, { name: 'second-illustrator', displayName: 'Second Illustrator', role: 'illustrator', memberOf: pubId })).token;
     worker = await startInProcessWorker({ SMTP_URL: fake.url });
   }, 60000);
 

@@ -95,6 +95,24 @@ export async function clearLoginCounters(redis: Redis, emails: string[] = []): P
 
 export const auth = (token: string) => ({ Authorization: `Bearer ${token}` });
 
+/** The password of the accounts the suites make (at least MIN_PASSWORD_LENGTH). */
+export const ACCOUNT_PASSWORD = 'long-enough-pw';
+
+/**
+ * A fresh account made by an admin (POST /api/users, email from runEmail(name)), optionally added to the publication
+ * `memberOf`, then signed in. Its row goes with the run (TestApp.close deletes the run's users).
+ */
+export async function newAccount(
+  t: TestApp,
+  adminToken: string,
+  a: { name: string; displayName: string; role: 'illustrator' | 'editor' | 'art_director' | 'admin'; memberOf?: string },
+): Promise<{ id: string; email: string; token: string }> {
+  const email = runEmail(a.name);
+  const user = (await t.http().post('/api/users').set(auth(adminToken)).send({ email, displayName: a.displayName, password: ACCOUNT_PASSWORD, role: a.role }).expect(201)).body as { id: string };
+  if (a.memberOf) await t.http().post(`/api/publications/${a.memberOf}/members`).set(auth(adminToken)).send({ userId: user.id }).expect(201);
+  return { id: user.id, email, token: (await login(t, email, ACCOUNT_PASSWORD)).accessToken };
+}
+
 /** The demo illustrator's, editor's and admin's tokens. */
 export async function demoTokens(t: TestApp): Promise<{ illustrator: string; editor: string; artDirector: string; admin: string }> {
   const [illustrator, editor, artDirector, admin] = await Promise.all(

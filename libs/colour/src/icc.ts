@@ -174,17 +174,20 @@ function curve(t: Float64Array, x: number): number {
   return t[k] + r * (t[k + 1] - t[k]);
 }
 
+/** The cell of a 3D grid of `g` points a side holding (x, y, z) in grid units, and where in it (0..1 per axis); the top edge falls in the last cell. */
+function cellOf(g: number, x: number, y: number, z: number): [number, number, number, number, number, number] {
+  const x0 = Math.min(g - 2, Math.floor(x));
+  const y0 = Math.min(g - 2, Math.floor(y));
+  const z0 = Math.min(g - 2, Math.floor(z));
+  return [x0, y0, z0, x - x0, y - y0, z - z0];
+}
+
 /**
  * Tetrahedral interpolation in a 3D grid at (x, y, z) in grid units, writing `o` outputs. `base` is the offset of
  * the sub-grid in `clut`; strides are for the three axes (x slowest). Same tetrahedra as Little CMS.
  */
 function tetra(clut: Float64Array, base: number, sx: number, sy: number, sz: number, g: number, o: number, x: number, y: number, z: number, out: Float64Array): void {
-  const x0 = Math.min(g - 2, Math.floor(x));
-  const y0 = Math.min(g - 2, Math.floor(y));
-  const z0 = Math.min(g - 2, Math.floor(z));
-  const rx = x - x0;
-  const ry = y - y0;
-  const rz = z - z0;
+  const [x0, y0, z0, rx, ry, rz] = cellOf(g, x, y, z);
   const c0 = base + x0 * sx + y0 * sy + z0 * sz;
   for (let k = 0; k < o; k++) {
     const C = (dx: number, dy: number, dz: number) => clut[c0 + dx * sx + dy * sy + dz * sz + k];
@@ -209,12 +212,7 @@ function tetra(clut: Float64Array, base: number, sx: number, sy: number, sz: num
 
 /** Trilinear interpolation in a 3D grid (x slowest), as Little CMS's TrilinearInterpFloat. */
 function trilinear(clut: Float64Array, g: number, o: number, x: number, y: number, z: number, out: Float64Array): void {
-  const x0 = Math.min(g - 2, Math.floor(x));
-  const y0 = Math.min(g - 2, Math.floor(y));
-  const z0 = Math.min(g - 2, Math.floor(z));
-  const rx = x - x0;
-  const ry = y - y0;
-  const rz = z - z0;
+  const [x0, y0, z0, rx, ry, rz] = cellOf(g, x, y, z);
   const sx = g * g * o;
   const sy = g * o;
   const c0 = x0 * sx + y0 * sy + z0 * o;

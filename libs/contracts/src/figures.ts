@@ -14,34 +14,34 @@ export interface FigureVersionDto {
   createdAt: string;
 }
 
-export interface FigureDto {
+/** What a figure is, in the list and on its own page alike. */
+export interface FigureHeadDto {
   id: string;
   publicationId: string;
   title: string;
   ownerId: string;
   ownerName?: string;
   status: FigureStatus;
-  currentVersion: FigureVersionDto;
-  /** Assets of the current version (latest mesh outputs, renders, exports). */
-  assets: AssetDto[];
   thumbnailAssetId?: string | null;
-  createdAt: string;
   updatedAt: string;
 }
 
-export interface FigureSummaryDto {
-  id: string;
-  publicationId: string;
-  title: string;
-  ownerId: string;
-  ownerName?: string;
-  status: FigureStatus;
+export interface FigureDto extends FigureHeadDto {
+  currentVersion: FigureVersionDto;
+  /** Assets of the current version (latest mesh outputs, renders, exports). */
+  assets: AssetDto[];
+  createdAt: string;
+}
+
+/** Sortable columns of GET /api/figures (query parameter `sort`): the one list the server accepts and the library offers. */
+export const FIGURE_SORT_KEYS = ['updatedAt', 'createdAt', 'title', 'status', 'versionNumber'] as const;
+export type FigureSortKey = (typeof FIGURE_SORT_KEYS)[number];
+
+export interface FigureSummaryDto extends FigureHeadDto {
   versionNumber: number;
   label?: string;
-  thumbnailAssetId?: string | null;
   /** Short-lived presigned GET link to the 320 × 240 PNG thumbnail (about 5 minutes); null when there is none. */
   thumbnailUrl?: string | null;
-  updatedAt: string;
 }
 
 export interface Page<T> {

@@ -1,10 +1,8 @@
 import { Transform, Type } from 'class-transformer';
-import { IsDefined, IsIn, IsInt, IsNotEmpty, IsString, IsUUID, Max, MaxLength, Min, type ValidationArguments } from 'class-validator';
-import { OptionalNotNull } from '../common/validation';
-import { FIGURE_STATUSES, TEXT_LIMITS, titleProblem, type CreateFigureRequest, type FigureStatus, type UpdateFigureRequest } from '@psiform/contracts';
-import { FIGURE_SORTS, type FigureSort } from '@psiform/server';
+import { IsDefined, IsInt, IsNotEmpty, IsString, IsUUID, Max, MaxLength, Min, type ValidationArguments } from 'class-validator';
+import { OneOf, OptionalNotNull, SortOrder, trim } from '../common/validation';
+import { FIGURE_SORT_KEYS, FIGURE_STATUSES, TEXT_LIMITS, titleProblem, type CreateFigureRequest, type FigureSortKey, type FigureStatus, type UpdateFigureRequest } from '@psiform/contracts';
 
-const trim = ({ value }: { value: unknown }) => (typeof value === 'string' ? value.trim() : value);
 
 /** From libs/contracts, so the client names the same limit in the same words. */
 export const FIGURE_TITLE_MAX = TEXT_LIMITS.titleMax;
@@ -65,14 +63,13 @@ export class ListFiguresQuery {
   q?: string;
 
   @OptionalNotNull()
-  @IsIn(FIGURE_STATUSES as readonly string[], { message: `status must be one of: ${FIGURE_STATUSES.join(', ')}` })
+  @OneOf(FIGURE_STATUSES)
   status?: FigureStatus;
 
   @OptionalNotNull()
-  @IsIn(FIGURE_SORTS as readonly string[], { message: `sort must be one of: ${FIGURE_SORTS.join(', ')}` })
-  sort?: FigureSort;
+  @OneOf(FIGURE_SORT_KEYS)
+  sort?: FigureSortKey;
 
-  @OptionalNotNull()
-  @IsIn(['asc', 'desc'], { message: 'order must be asc or desc' })
+  @SortOrder(OptionalNotNull())
   order?: 'asc' | 'desc';
 }

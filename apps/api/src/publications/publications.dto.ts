@@ -1,7 +1,5 @@
-import { Transform, Type } from 'class-transformer';
-import { IsIn, IsInt, IsNotEmpty, IsOptional, IsString, IsUUID, Max, MaxLength, Min } from 'class-validator';
+import { IsOptional, IsString, IsUUID, MaxLength } from 'class-validator';
 import {
-  ADMIN_PAGE_SIZE,
   LENGTH_UNITS,
   PUBLICATION_KINDS,
   PUBLICATION_SORT_KEYS,
@@ -15,27 +13,17 @@ import {
   type Role,
   type UpdatePublicationRequest,
 } from '@psiform/contracts';
-import { OptionalNotNull } from '../common/validation';
+import { AdminListQuery, OneOf, OptionalNotNull, SortOrder, TrimmedText } from '../common/validation';
 
-const trim = ({ value }: { value: unknown }) => (typeof value === 'string' ? value.trim() : value);
-const KIND_MESSAGE = `kind must be one of: ${PUBLICATION_KINDS.join(', ')}`;
-const UNIT_MESSAGE = `lengthUnit must be one of: ${LENGTH_UNITS.join(', ')}`;
-const ROLE_MESSAGE = `role must be one of: ${ROLES.join(', ')}`;
 
 export class CreatePublicationBody implements CreatePublicationRequest {
-  @Transform(trim)
-  @IsNotEmpty({ message: 'title must not be empty' })
-  @MaxLength(300, { message: 'title must be at most 300 characters' })
-  @IsString({ message: 'title must be a string' })
+  @TrimmedText(300)
   title: string;
 
-  @Transform(trim)
-  @IsNotEmpty({ message: 'publisher must not be empty' })
-  @MaxLength(200, { message: 'publisher must be at most 200 characters' })
-  @IsString({ message: 'publisher must be a string' })
+  @TrimmedText(200)
   publisher: string;
 
-  @IsIn(PUBLICATION_KINDS as readonly string[], { message: KIND_MESSAGE })
+  @OneOf(PUBLICATION_KINDS)
   kind: PublicationKind;
 
   @OptionalNotNull()
@@ -44,27 +32,21 @@ export class CreatePublicationBody implements CreatePublicationRequest {
   description?: string;
 
   @OptionalNotNull()
-  @IsIn(LENGTH_UNITS as readonly string[], { message: UNIT_MESSAGE })
+  @OneOf(LENGTH_UNITS)
   lengthUnit?: LengthUnit;
 }
 
 export class UpdatePublicationBody implements UpdatePublicationRequest {
   @OptionalNotNull()
-  @Transform(trim)
-  @IsString({ message: 'title must be a string' })
-  @IsNotEmpty({ message: 'title must not be empty' })
-  @MaxLength(300, { message: 'title must be at most 300 characters' })
+  @TrimmedText(300)
   title?: string;
 
   @OptionalNotNull()
-  @Transform(trim)
-  @IsString({ message: 'publisher must be a string' })
-  @IsNotEmpty({ message: 'publisher must not be empty' })
-  @MaxLength(200, { message: 'publisher must be at most 200 characters' })
+  @TrimmedText(200)
   publisher?: string;
 
   @OptionalNotNull()
-  @IsIn(PUBLICATION_KINDS as readonly string[], { message: KIND_MESSAGE })
+  @OneOf(PUBLICATION_KINDS)
   kind?: PublicationKind;
 
   @OptionalNotNull()
@@ -73,7 +55,7 @@ export class UpdatePublicationBody implements UpdatePublicationRequest {
   description?: string;
 
   @OptionalNotNull()
-  @IsIn(LENGTH_UNITS as readonly string[], { message: UNIT_MESSAGE })
+  @OneOf(LENGTH_UNITS)
   lengthUnit?: LengthUnit;
 }
 
@@ -82,50 +64,29 @@ export class AddMemberBody implements AddMemberWithRoleRequest {
   userId: string;
 
   @OptionalNotNull()
-  @IsIn(ROLES as readonly string[], { message: ROLE_MESSAGE })
+  @OneOf(ROLES)
   role?: Role;
 }
 
 export class SetMemberRoleBody {
-  @IsIn(ROLES as readonly string[], { message: ROLE_MESSAGE })
+  @OneOf(ROLES)
   role: Role;
 }
 
-export class ListPublicationsQuery {
+export class ListPublicationsQuery extends AdminListQuery {
   @IsOptional()
-  @Type(() => Number)
-  @IsInt({ message: 'page must be an integer' })
-  @Min(1, { message: 'page must be 1..100000' })
-  @Max(100_000, { message: 'page must be 1..100000' })
-  page?: number;
-
-  @IsOptional()
-  @Type(() => Number)
-  @IsInt({ message: 'pageSize must be an integer' })
-  @Min(1, { message: `pageSize must be 1..${ADMIN_PAGE_SIZE.max}` })
-  @Max(ADMIN_PAGE_SIZE.max, { message: `pageSize must be 1..${ADMIN_PAGE_SIZE.max}` })
-  pageSize?: number;
-
-  @IsOptional()
-  @Transform(trim)
-  @IsString({ message: 'q must be a string' })
-  @MaxLength(200, { message: 'q must be at most 200 characters' })
-  q?: string;
-
-  @IsOptional()
-  @IsIn(PUBLICATION_KINDS as readonly string[], { message: KIND_MESSAGE })
+  @OneOf(PUBLICATION_KINDS)
   kind?: PublicationKind;
 
   @IsOptional()
-  @IsIn(PUBLICATION_SORT_KEYS as readonly string[], { message: `sort must be one of: ${PUBLICATION_SORT_KEYS.join(', ')}` })
+  @OneOf(PUBLICATION_SORT_KEYS)
   sort?: PublicationSortKey;
 
-  @IsOptional()
-  @IsIn(['asc', 'desc'], { message: 'order must be asc or desc' })
+  @SortOrder()
   order?: 'asc' | 'desc';
 }
 
 export class LengthUnitBody implements LengthUnitRequest {
-  @IsIn(LENGTH_UNITS as readonly string[], { message: `lengthUnit must be one of: ${LENGTH_UNITS.join(', ')}` })
+  @OneOf(LENGTH_UNITS)
   lengthUnit: LengthUnit;
 }

@@ -1,9 +1,8 @@
 import { Transform, Type } from 'class-transformer';
 import { DESK_STATES, TEXT_LIMITS, textProblem, type DeskState } from '@psiform/contracts';
-import { IsDefined, IsIn, IsNotEmpty, IsNumber, IsObject, IsOptional, IsString, IsUUID, Max, MaxLength, Min, ValidateNested, type ValidationArguments } from 'class-validator';
-import { OptionalNotNull } from '../common/validation';
+import { IsDefined, IsNotEmpty, IsNumber, IsObject, IsOptional, IsString, IsUUID, Max, MaxLength, Min, ValidateNested, type ValidationArguments } from 'class-validator';
+import { OneOf, OptionalNotNull, trim } from '../common/validation';
 
-const trim = ({ value }: { value: unknown }) => (typeof value === 'string' ? value.trim() : value);
 
 // The limits and their wording are libs/contracts' (TEXT_LIMITS, textProblem), so the client says the same.
 export const NOTE_MAX = TEXT_LIMITS.noteMax;
@@ -71,7 +70,7 @@ export class ReviewDeskQuery {
   publicationId?: string;
 
   @IsOptional()
-  @IsIn(DESK_STATES as readonly string[], { message: `state must be one of: ${DESK_STATES.join(', ')}` })
+  @OneOf(DESK_STATES)
   state?: DeskState;
 
   @IsOptional()

@@ -1,7 +1,6 @@
-import { Transform, Type } from 'class-transformer';
-import { IsBoolean, IsEmail, IsIn, IsInt, IsNotEmpty, IsOptional, IsString, Max, MaxLength, Min, MinLength } from 'class-validator';
+import { Transform } from 'class-transformer';
+import { IsBoolean, IsEmail, IsNotEmpty, IsOptional, IsString, MaxLength, MinLength } from 'class-validator';
 import {
-  ADMIN_PAGE_SIZE,
   MIN_PASSWORD_LENGTH,
   ROLES,
   USER_SORT_KEYS,
@@ -13,14 +12,12 @@ import {
   type UserSortKey,
   type UserState,
 } from '@psiform/contracts';
-import { MaxUtf8Bytes, OptionalNotNull } from '../common/validation';
+import { AdminListQuery, MaxUtf8Bytes, OneOf, OptionalNotNull, SortOrder, TrimmedText } from '../common/validation';
 
 const trimLower = ({ value }: { value: unknown }) => (typeof value === 'string' ? value.trim().toLowerCase() : value);
-const trim = ({ value }: { value: unknown }) => (typeof value === 'string' ? value.trim() : value);
 
 /** bcrypt reads only the first 72 bytes (not characters). */
 export const MAX_PASSWORD_BYTES = 72;
-const ROLE_MESSAGE = `role must be one of: ${ROLES.join(', ')}`;
 
 export class CreateUserBody implements CreateUserRequest {
   @Transform(trimLower)
@@ -28,10 +25,7 @@ export class CreateUserBody implements CreateUserRequest {
   @IsEmail({}, { message: 'email must be a valid email address' })
   email: string;
 
-  @Transform(trim)
-  @IsNotEmpty({ message: 'displayName must not be empty' })
-  @MaxLength(120, { message: 'displayName must be at most 120 characters' })
-  @IsString({ message: 'displayName must be a string' })
+  @TrimmedText(120)
   displayName: string;
 
   @MinLength(MIN_PASSWORD_LENGTH, { message: `password must be at least ${MIN_PASSWORD_LENGTH} characters` })
@@ -39,7 +33,7 @@ export class CreateUserBody implements CreateUserRequest {
   @IsString({ message: 'password must be a string' })
   password: string;
 
-  @IsIn(ROLES as readonly string[], { message: ROLE_MESSAGE })
+  @OneOf(ROLES)
   role: Role;
 }
 
@@ -49,26 +43,20 @@ export class InviteUserBody implements InviteUserRequest {
   @MaxLength(320, { message: 'email must be at most 320 characters' })
   email: string;
 
-  @Transform(trim)
-  @IsString({ message: 'displayName must be a string' })
-  @IsNotEmpty({ message: 'displayName must not be empty' })
-  @MaxLength(120, { message: 'displayName must be at most 120 characters' })
+  @TrimmedText(120)
   displayName: string;
 
-  @IsIn(ROLES as readonly string[], { message: ROLE_MESSAGE })
+  @OneOf(ROLES)
   role: Role;
 }
 
 export class UpdateUserBody implements UpdateUserRequest {
   @OptionalNotNull()
-  @Transform(trim)
-  @IsString({ message: 'displayName must be a string' })
-  @IsNotEmpty({ message: 'displayName must not be empty' })
-  @MaxLength(120, { message: 'displayName must be at most 120 characters' })
+  @TrimmedText(120)
   displayName?: string;
 
   @OptionalNotNull()
-  @IsIn(ROLES as readonly string[], { message: ROLE_MESSAGE })
+  @OneOf(ROLES)
   role?: Role;
 
   @OptionalNotNull()
@@ -76,41 +64,20 @@ export class UpdateUserBody implements UpdateUserRequest {
   active?: boolean;
 }
 
-export class ListUsersQuery {
+export class ListUsersQuery extends AdminListQuery {
   @IsOptional()
-  @Type(() => Number)
-  @IsInt({ message: 'page must be an integer' })
-  @Min(1, { message: 'page must be 1..100000' })
-  @Max(100_000, { message: 'page must be 1..100000' })
-  page?: number;
-
-  @IsOptional()
-  @Type(() => Number)
-  @IsInt({ message: 'pageSize must be an integer' })
-  @Min(1, { message: `pageSize must be 1..${ADMIN_PAGE_SIZE.max}` })
-  @Max(ADMIN_PAGE_SIZE.max, { message: `pageSize must be 1..${ADMIN_PAGE_SIZE.max}` })
-  pageSize?: number;
-
-  @IsOptional()
-  @Transform(trim)
-  @IsString({ message: 'q must be a string' })
-  @MaxLength(200, { message: 'q must be at most 200 characters' })
-  q?: string;
-
-  @IsOptional()
-  @IsIn(ROLES as readonly string[], { message: ROLE_MESSAGE })
+  @OneOf(ROLES)
   role?: Role;
 
   @IsOptional()
-  @IsIn(USER_STATES as readonly string[], { message: `state must be one of: ${USER_STATES.join(', ')}` })
+  @OneOf(USER_STATES)
   state?: UserState;
 
   @IsOptional()
-  @IsIn(USER_SORT_KEYS as readonly string[], { message: `sort must be one of: ${USER_SORT_KEYS.join(', ')}` })
+  @OneOf(USER_SORT_KEYS)
   sort?: UserSortKey;
 
-  @IsOptional()
-  @IsIn(['asc', 'desc'], { message: 'order must be asc or desc' })
+  @SortOrder()
   order?: 'asc' | 'desc';
 }
 

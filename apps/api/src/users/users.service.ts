@@ -37,6 +37,12 @@ const duplicate = (email: string) => new ConflictException(`email: ${email} is a
  * name, deactivate (every token stops at once) and reactivate, send a password reset. Each change and its audit
  * entry are one transaction, and so is its mail (an outbox row: sent exactly when the change commits).
  */
+/** A fresh link of each kind: the account state it is refused in (the other kind of link is for that), and its audit. */
+const FRESH_LINK = {
+  invite: { refuse: 'active', refusal: 'this person has already chosen a password: send a password reset instead', action: 'invite_resend', note: 'a new invitation link was sent; the earlier one no longer works' },
+  reset: { refuse: 'invited', refusal: 'this person has not chosen a password yet: send the invitation again instead', action: 'reset_sent', note: 'a password-reset link was sent by an administrator' },
+} as const;
+
 @Injectable()
 export class UsersService {
   constructor(
@@ -73,34 +79,35 @@ export class UsersService {
   }
 
   /** A fresh invitation link (the older one stops working). Only for accounts still waiting for their first password. */
-  async resendInvitation(actor: Caller, id: string): Promise<UserAdminDto> {
-    const { token, hash } = newLinkToken();
-    const user = await this.store.transaction(async (tx) => {
-      const u = await tx.lock(id);
-      if (!u) throw new NotFoundException(`user ${id} not found`);
-      const state = userState(u);
-      if (state === 'deactivated') throw new ConflictException('this account is deactivated: reactivate it first');
-      if (state === 'active') throw new ConflictException('this person has already chosen a password: send a password reset instead');
-      await tx.addLink({ userId: u.id, purpose: 'invite', tokenHash: hash, expiresAt: linkExpiry('invite'), createdBy: actor.id });
-      await tx.audit({ subjectKind: 'user', subjectId: u.id, actorId: actor.id, action: 'invite_resend', note: 'a new invitation link was sent; the earlier one no longer works' });
-      await this.mailLink(tx, 'invite', u, token, actor);
-      return u;
-    });
-    return this.get(user.id);
+  resendInvitation(actor: Caller, id: string): Promise<UserAdminDto> {
+    return this.mailNewLink(actor, id, 'invite');
   }
 
   /** An admin sends a password-reset link to an active account. */
-  async sendPasswordReset(actor: Caller, id: string): Promise<UserAdminDto> {
+  sendPasswordReset(actor: Caller, id: string): Promise<UserAdminDto> {
+    return this.mailNewLink(actor, id, 'reset');
+  }
+
+  /**
+   * A new one-time link of `purpose` for an existing account, under its row lock: refused for deactivated accounts
+   * and for the state the other kind of link is for; stored (hash only), audited and mailed in one transaction.
+   */
+  private async mailNewLink(
+    actor: Caller,
+    id: string,
+    purpose: 'invite' | 'reset',
+  ): Promise<UserAdminDto> {
+    const rule = FRESH_LINK[purpose];
     const { token, hash } = newLinkToken();
     const user = await this.store.transaction(async (tx) => {
       const u = await tx.lock(id);
       if (!u) throw new NotFoundException(`user ${id} not found`);
       const state = userState(u);
       if (state === 'deactivated') throw new ConflictException('this account is deactivated: reactivate it first');
-      if (state === 'invited') throw new ConflictException('this person has not chosen a password yet: send the invitation again instead');
-      await tx.addLink({ userId: u.id, purpose: 'reset', tokenHash: hash, expiresAt: linkExpiry('reset'), createdBy: actor.id });
-      await tx.audit({ subjectKind: 'user', subjectId: u.id, actorId: actor.id, action: 'reset_sent', note: 'a password-reset link was sent by an administrator' });
-      await this.mailLink(tx, 'reset', u, token, actor);
+      if (state === rule.refuse) throw new ConflictException(rule.refusal);
+      await tx.addLink({ userId: u.id, purpose, tokenHash: hash, expiresAt: linkExpiry(purpose), createdBy: actor.id });
+      await tx.audit({ subjectKind: 'user', subjectId: u.id, actorId: actor.id, action: rule.action, note: rule.note });
+      await this.mailLink(tx, purpose, u, token, actor);
       return u;
     });
     return this.get(user.id);

@@ -9,6 +9,8 @@ import { Pager, SortHeader, nextSort, useDebounced, SEARCH_DEBOUNCE_MS, type Sor
 import { formatDate } from '../figures/model';
 import { SubjectAudit } from './SubjectAudit';
 import { inviteUser, listUsers, messagesByField, resendInvitation, sendPasswordReset, updateUser } from './adminApi';
+import { QueryStatus } from '../components/QueryStatus';
+import { fieldMessages, FormMessages } from './FormMessages';
 
 export const PEOPLE_PAGE_SIZE = 25;
 
@@ -51,12 +53,7 @@ export function InviteForm({ onDone }: { onDone(user: UserAdminDto): void }) {
     if (Object.keys(local).length === 0) invite.mutate();
   }
 
-  const fieldError = (f: string, id: string) =>
-    errors[f]?.length ? (
-      <span className="pf-field-error" data-testid={id}>
-        {errors[f].join(' ')}
-      </span>
-    ) : undefined;
+  const fieldError = (f: string, id: string) => fieldMessages(errors[f], id);
 
   return (
     <form className="pf-admin-form" onSubmit={submit} noValidate data-testid="invite-form" aria-label="Invite someone">
@@ -69,11 +66,7 @@ export function InviteForm({ onDone }: { onDone(user: UserAdminDto): void }) {
       <FormGroup label="Role" labelFor="invite-role" helperText={fieldError('role', 'invite-role-error')}>
         <HTMLSelect id="invite-role" value={role} onChange={(e) => setRole(e.currentTarget.value as Role)} options={roleOptions} data-testid="invite-role" />
       </FormGroup>
-      {errors['']?.length ? (
-        <Callout intent="danger" compact data-testid="invite-error">
-          {errors[''].join(' ')}
-        </Callout>
-      ) : null}
+      <FormMessages messages={errors['']} testId="invite-error" />
       <Button type="submit" intent="primary" icon="envelope" text="Send invitation" loading={invite.isPending} data-testid="invite-submit" />
     </form>
   );
@@ -239,12 +232,7 @@ export function PeoplePage() {
         )}
       </section>
 
-      {people.isPending && <NonIdealState icon={<Spinner size={32} />} title="Loading people…" />}
-      {people.isError && (
-        <Callout intent="danger" title="People could not be loaded" data-testid="people-error">
-          {describeError(people.error)}
-        </Callout>
-      )}
+      <QueryStatus query={people} what="people" testId="people" />
       {people.isSuccess && items.length === 0 && <NonIdealState icon="people" title="Nobody matches" description="No account matches the search and filters." />}
       {people.isSuccess && items.length > 0 && (
         <>

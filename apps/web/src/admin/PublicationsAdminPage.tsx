@@ -22,6 +22,9 @@ import { Pager, SortHeader, nextSort, useDebounced, SEARCH_DEBOUNCE_MS, type Sor
 import { formatDate } from '../figures/model';
 import { SubjectAudit } from './SubjectAudit';
 import { addMember, createPublication, listMembers, listPublicationsAdmin, listUsers, messagesByField, removeMember, setMemberRole, updatePublication } from './adminApi';
+import { QueryStatus } from '../components/QueryStatus';
+import { fieldMessages, FormMessages } from './FormMessages';
+import { TableHead } from '../components/TableHead';
 
 export const PUBLICATIONS_PAGE_SIZE = 25;
 export const KIND_LABELS: Record<PublicationKind, string> = { book: 'Book', journal_volume: 'Journal volume' };
@@ -58,12 +61,7 @@ export function PublicationForm({ initial, submitText, onSubmit, pending }: { in
       setErrors(messagesByField(body ? (Array.isArray(body.message) ? body.message : [body.message]) : [describeError(err)], FIELDS));
     }
   }
-  const err = (k: string) =>
-    errors[k]?.length ? (
-      <span className="pf-field-error" data-testid={`pub-${k}-error`}>
-        {errors[k].join(' ')}
-      </span>
-    ) : undefined;
+  const err = (k: string) => fieldMessages(errors[k], `pub-${k}-error`);
 
   return (
     <form className="pf-admin-form" onSubmit={(e) => void submit(e)} noValidate data-testid="publication-form">
@@ -85,11 +83,7 @@ export function PublicationForm({ initial, submitText, onSubmit, pending }: { in
       <FormGroup label="Description" labelFor="pub-description" helperText={err('description')}>
         <TextArea id="pub-description" value={f.description} onChange={(e) => set('description', e.currentTarget.value)} fill rows={2} data-testid="pub-description" />
       </FormGroup>
-      {errors['']?.length ? (
-        <Callout intent="danger" compact data-testid="pub-error">
-          {errors[''].join(' ')}
-        </Callout>
-      ) : null}
+      <FormMessages messages={errors['']} testId="pub-error" />
       <Button type="submit" intent="primary" text={submitText} loading={pending} data-testid="pub-submit" />
     </form>
   );
@@ -148,12 +142,7 @@ export function PublicationsAdminPage() {
           </Callout>
         )}
       </section>
-      {list.isPending && <NonIdealState icon={<Spinner size={32} />} title="Loading publications…" />}
-      {list.isError && (
-        <Callout intent="danger" title="Publications could not be loaded" data-testid="pubs-error">
-          {describeError(list.error)}
-        </Callout>
-      )}
+      <QueryStatus query={list} what="publications" testId="pubs" />
       {list.isSuccess && items.length === 0 && <NonIdealState icon="book" title="No publication matches" />}
       {list.isSuccess && items.length > 0 && (
         <>
@@ -324,16 +313,7 @@ export function PublicationAdminPage() {
           {members.isSuccess && members.data.length === 0 && <p className="pf-muted" data-testid="members-empty">Nobody works on this publication yet.</p>}
           {members.isSuccess && members.data.length > 0 && (
             <HTMLTable className="pf-table" compact data-testid="members-table">
-              <thead>
-                <tr>
-                  <th scope="col">Name</th>
-                  <th scope="col">Role here</th>
-                  <th scope="col">Account</th>
-                  <th scope="col">
-                    <span className="pf-visually-hidden">Actions</span>
-                  </th>
-                </tr>
-              </thead>
+              <TableHead columns={['Name', 'Role here', 'Account', { hidden: 'Actions' }]} />
               <tbody>
                 {members.data.map((m) => (
                   <tr key={m.id} data-testid="member-row" data-email={m.email}>

@@ -2,6 +2,7 @@ import type {
   ApiErrorBody,
   CreateFigureRequest,
   FigureDto,
+  FigureSortKey,
   FigureStatus,
   FigureSummaryDto,
   HealthResponse,
@@ -107,10 +108,6 @@ async function readJson(res: Response): Promise<unknown> {
     return undefined; // not JSON (e.g. an HTML page from a proxy)
   }
 }
-
-/** Sortable columns of the figures list (query parameter `sort`). */
-export const FIGURE_SORT_KEYS = ['title', 'status', 'versionNumber', 'updatedAt'] as const;
-export type FigureSortKey = (typeof FIGURE_SORT_KEYS)[number];
 
 export interface FigureListParams {
   publicationId: string;

@@ -1,7 +1,7 @@
 import { screen, waitFor } from '@testing-library/react';
 import userEvent from '@testing-library/user-event';
 import { SESSION_STORAGE_KEY } from './session';
-import { json, mockFetch, renderApp, signedInRoutes, storeSession, user } from '../test/utils';
+import { json, mockFetch, renderApp, signedInRoutes, storeSession, user, openAs } from '../test/utils';
 
 describe('route guards', () => {
   it('sends an unsigned visitor to /sign-in and fetches nothing private', async () => {
@@ -31,10 +31,7 @@ describe('route guards', () => {
   });
 
   it('shows a 403-style message when the role may not open the page, and keeps the URL', async () => {
-    const me = user('editor');
-    mockFetch(signedInRoutes(me));
-    storeSession(me);
-    renderApp('/swatchbooks');
+    openAs('editor', '/swatchbooks');
     const forbidden = await screen.findByTestId('forbidden');
     expect(forbidden.textContent).toContain('Swatchbooks is not open to your role');
     expect(forbidden.textContent).toContain('for the art director role');
@@ -44,19 +41,13 @@ describe('route guards', () => {
   });
 
   it('lets the right role through to the page', async () => {
-    const me = user('art_director');
-    mockFetch({ ...signedInRoutes(me), 'GET /api/swatchbooks': () => json(200, []) });
-    storeSession(me);
-    renderApp('/swatchbooks');
+    openAs('art_director', '/swatchbooks', { 'GET /api/swatchbooks': () => json(200, []) });
     expect((await screen.findByTestId('swatchbooks-page')).textContent).toContain('Swatchbooks');
     expect(screen.queryByTestId('forbidden')).toBeNull();
   });
 
   it('redirects a signed-in user away from /sign-in', async () => {
-    const me = user('admin');
-    mockFetch(signedInRoutes(me));
-    storeSession(me);
-    renderApp('/sign-in');
+    openAs('admin', '/sign-in');
     await waitFor(() => expect(screen.getByTestId('location').textContent).toBe('/publications'));
     expect(screen.queryByTestId('signin-form')).toBeNull();
   });

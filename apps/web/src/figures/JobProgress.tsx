@@ -54,8 +54,26 @@ export function useFollowJob(jobId: string, onFinished?: (job: JobDto) => void):
   return { job, streamError };
 }
 
-/** A progress bar with the stage name for one job. */
-export function JobProgress({ jobId, onFinished }: { jobId: string; onFinished?(job: JobDto): void }) {
+/**
+ * A progress bar with the stage name for one job, the one view of every kind of job (meshes, renders, exports).
+ * `words` names the stages, `failure` words a failed job, `connecting` shows before the first snapshot. Test ids:
+ * `<testId>-progress` (with data-state), `-stage`, `-percent`, `-progress-bar`, `-error`, `-stream-error`.
+ */
+export function JobProgress({
+  jobId,
+  onFinished,
+  testId = 'job',
+  words = STAGE_WORDS,
+  connecting = 'Connecting to the job…',
+  failure = failureText,
+}: {
+  jobId: string;
+  onFinished?(job: JobDto): void;
+  testId?: string;
+  words?: Record<string, string>;
+  connecting?: string;
+  failure?(job: JobDto): string;
+}) {
   const { job, streamError } = useFollowJob(jobId, onFinished);
 
   const state = job?.state ?? 'queued';
@@ -63,10 +81,10 @@ export function JobProgress({ jobId, onFinished }: { jobId: string; onFinished?(
   const running = state === 'queued' || state === 'active';
 
   return (
-    <div className="pf-job" data-testid="job-progress" data-state={state} aria-live="polite">
+    <div className="pf-job" data-testid={`${testId}-progress`} data-state={state} aria-live="polite">
       <div className="pf-job-line">
-        <span data-testid="job-stage">{job ? stageWords(job.stage) : 'Connecting to the job…'}</span>
-        <span className="pf-muted" data-testid="job-percent">
+        <span data-testid={`${testId}-stage`}>{job ? (words[job.stage] ?? job.stage) : connecting}</span>
+        <span className="pf-muted" data-testid={`${testId}-percent`}>
           {Math.round(value * 100)}%
         </span>
       </div>
@@ -75,15 +93,15 @@ export function JobProgress({ jobId, onFinished }: { jobId: string; onFinished?(
         intent={state === 'failed' ? 'danger' : state === 'completed' ? 'success' : 'primary'}
         animate={running}
         stripes={running}
-        data-testid="job-progress-bar"
+        data-testid={`${testId}-progress-bar`}
       />
       {job?.state === 'failed' && (
-        <Callout intent="danger" className="pf-job-msg" data-testid="job-error">
-          {failureText(job)}
+        <Callout intent="danger" className="pf-job-msg" data-testid={`${testId}-error`}>
+          {failure(job)}
         </Callout>
       )}
       {streamError && (
-        <Callout intent="warning" className="pf-job-msg" data-testid="job-stream-error">
+        <Callout intent="warning" className="pf-job-msg" data-testid={`${testId}-stream-error`}>
           Progress could not be followed: {streamError}
         </Callout>
       )}

@@ -2,7 +2,7 @@ import { screen, waitFor, within } from '@testing-library/react';
 import userEvent from '@testing-library/user-event';
 import { ROLES, type Role } from '@psiform/contracts';
 import { SESSION_STORAGE_KEY } from '../auth/session';
-import { json, mockFetch, renderApp, signedInRoutes, storeSession, user } from '../test/utils';
+import { json, mockFetch, renderApp, signedInRoutes, storeSession, user, openAs } from '../test/utils';
 import { navItemsFor } from './navigation';
 
 const EXPECTED: Record<Role, string[]> = {
@@ -35,10 +35,7 @@ describe('role-based navigation', () => {
   });
 
   it('marks places that are not built yet', async () => {
-    const me = user('illustrator');
-    mockFetch(signedInRoutes(me));
-    storeSession(me);
-    renderApp('/publications');
+    openAs('illustrator', '/publications');
     const nav = await screen.findByTestId('main-nav');
     expect(within(nav).getByTestId('nav-publications').textContent).toBe('Publications');
     // The Composer is built (studio issue); People (admin) is still to come.
@@ -46,20 +43,14 @@ describe('role-based navigation', () => {
   });
 
   it('every place is built now: the admin places carry no "later" mark', async () => {
-    const me = user('admin');
-    mockFetch(signedInRoutes(me));
-    storeSession(me);
-    renderApp('/publications');
+    openAs('admin', '/publications');
     const nav = await screen.findByTestId('main-nav');
     expect(within(nav).getByTestId('nav-people').textContent).toBe('People');
     expect(within(nav).getByTestId('nav-manage/publications').textContent).toBe('Manage publications');
   });
 
   it('follows the People link to the People page', async () => {
-    const me = user('admin');
-    mockFetch({ ...signedInRoutes(me), 'GET /api/users': () => json(200, { items: [], total: 0, page: 1, pageSize: 25 }) });
-    storeSession(me);
-    renderApp('/publications');
+    openAs('admin', '/publications', { 'GET /api/users': () => json(200, { items: [], total: 0, page: 1, pageSize: 25 }) });
     await userEvent.setup().click(await screen.findByRole('link', { name: /People/ }));
     expect(await screen.findByTestId('people-page')).toBeTruthy();
     expect(screen.queryByTestId('coming-later')).toBeNull();
@@ -67,10 +58,7 @@ describe('role-based navigation', () => {
   });
 
   it('sign-out clears the session and returns to sign-in', async () => {
-    const me = user('admin');
-    mockFetch(signedInRoutes(me));
-    storeSession(me);
-    renderApp('/people');
+    openAs('admin', '/people');
     await userEvent.setup().click(await screen.findByTestId('sign-out'));
     await waitFor(() => expect(screen.getByTestId('location').textContent).toBe('/sign-in'));
     expect(window.sessionStorage.getItem(SESSION_STORAGE_KEY)).toBeNull();

@@ -3,7 +3,7 @@ import userEvent from '@testing-library/user-event';
 import { vi } from 'vitest';
 import type { FigureDto } from '@psiform/contracts';
 import { browser } from '../figures/AssetDownloads';
-import { json, mockFetch, renderApp, signedInRoutes, storeSession, user } from '../test/utils';
+import { json, mockFetch, renderApp, signedInRoutes, storeSession, user, openAs, retype } from '../test/utils';
 import { figure, GLB_ASSET, job, sseStream, STL_ASSET } from '../test/figures';
 
 // The R3F canvas needs WebGL, which jsdom lacks: the viewport is replaced by a probe of its props.
@@ -101,18 +101,14 @@ describe('figure page', () => {
       if (!el) throw new Error('the title is not in edit mode');
       return el;
     });
-    await ue.clear(input);
-    await ue.type(input, 'Plate 1 (revised){Enter}');
+    await retype(ue, input, 'Plate 1 (revised){Enter}');
     await waitFor(() => expect(api.callsTo('PATCH', '/api/figures/f1')).toHaveLength(1));
     expect(api.callsTo('PATCH', '/api/figures/f1')[0].body).toEqual({ title: 'Plate 1 (revised)' });
     await waitFor(() => expect(screen.getByTestId('figure-title').textContent).toBe('Plate 1 (revised)'));
   });
 
   it('says plainly when the figure is not in the user’s publications', async () => {
-    const me = user('editor');
-    mockFetch({ ...signedInRoutes(me), 'GET /api/figures/nope': () => json(404, { statusCode: 404, message: 'Figure not found', error: 'Not Found' }) });
-    storeSession(me);
-    renderApp('/figures/nope');
+    openAs('editor', '/figures/nope', { 'GET /api/figures/nope': () => json(404, { statusCode: 404, message: 'Figure not found', error: 'Not Found' }) });
     const err = await screen.findByTestId('figure-error');
     expect(err.textContent).toContain('There is no such figure in the publications you belong to.');
   });

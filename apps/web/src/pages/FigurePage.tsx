@@ -1,20 +1,21 @@
 import { lazy, Suspense, useState } from 'react';
-import { Button, Callout, EditableText, NonIdealState, Spinner, Tag } from '@blueprintjs/core';
+import { Button, Callout, EditableText, NonIdealState, Spinner } from '@blueprintjs/core';
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { Link, useParams, useSearchParams } from 'react-router-dom';
 import { parseRecipe, titleProblem, type AssetDto, type FigureDto, type JobDto } from '@psiform/contracts';
-import { ApiError, describeError } from '../api/client';
+import { describeError } from '../api/client';
 import { useApi, useAuth } from '../auth/AuthProvider';
 import { AssetDownloads } from '../figures/AssetDownloads';
-import { statusIntent } from '../figures/FiguresTable';
 import { JobProgress } from '../figures/JobProgress';
 import { MeshStatsTable } from '../figures/MeshStatsTable';
-import { describeRecipe, formatDate, statusLabel } from '../figures/model';
+import { describeRecipe, formatDate } from '../figures/model';
 import { FigureReview } from '../review/FigureReview';
 import { PreflightPanel } from '../print/PreflightPanel';
 import { FigureStudioBar } from '../studio/FigureStudioBar';
 import { Typeset } from '../components/Typeset';
 import { phaseKeyColours } from '../scene/phaseKeyColours';
+import { FigureLoadStatus } from '../components/FigureLoadStatus';
+import { FigureMeta } from '../figures/FigureMeta';
 
 // three.js and R3F load only when a mesh is shown (keeps them out of the first bundle).
 const FigureViewport = lazy(() => import('../viewport/FigureViewport'));
@@ -124,28 +125,7 @@ export function FigurePage() {
     if (job.state === 'completed') void queryClient.invalidateQueries({ queryKey: ['figure', figureId] });
   }
 
-  if (figure.isPending) {
-    return (
-      <div className="pf-page" data-testid="figure-loading">
-        <NonIdealState icon={<Spinner size={32} />} title="Loading the figure…" />
-      </div>
-    );
-  }
-  if (figure.isError) {
-    const notFound = figure.error instanceof ApiError && (figure.error.status === 404 || figure.error.status === 403);
-    return (
-      <div className="pf-page">
-        <Callout intent={notFound ? 'warning' : 'danger'} title={notFound ? 'Figure not found' : 'The figure could not be loaded'} data-testid="figure-error">
-          <p>
-            {notFound
-              ? 'There is no such figure in the publications you belong to.'
-              : describeError(figure.error)}
-          </p>
-          <Link to="/library">Back to the library</Link>
-        </Callout>
-      </div>
-    );
-  }
+  if (!figure.isSuccess) return <FigureLoadStatus figure={figure} what="figure" testId="figure" back={{ to: '/library', text: 'Back to the library' }} />;
 
   const f = figure.data;
   const parsed = parseRecipe(f.currentVersion.recipe);
@@ -160,14 +140,9 @@ export function FigurePage() {
           <Link to={`/publications/${encodeURIComponent(f.publicationId)}/figures`}>Library</Link>
         </p>
         <Title figure={f} editable={canEdit} />
-        <div className="pf-meta">
-          <Tag minimal intent={statusIntent(f.status)} data-testid="figure-status">
-            {statusLabel(f.status)}
-          </Tag>
-          <span data-testid="figure-version">Version {f.currentVersion.number}</span>
-          {f.ownerName && <span>by {f.ownerName}</span>}
+        <FigureMeta figure={f} testId="figure">
           <span className="pf-muted">updated {formatDate(f.updatedAt)}</span>
-        </div>
+        </FigureMeta>
       </header>
 
       <section className="pf-section">

@@ -2,7 +2,7 @@ import { act, screen, waitFor } from '@testing-library/react';
 import userEvent from '@testing-library/user-event';
 import { vi } from 'vitest';
 import { checkNrrdHeader, checkRawBytes, parseSidecar, precheckCube } from '../figures/precheck';
-import { json, mockFetch, PUBLICATIONS, renderApp, signedInRoutes, storeSession, user } from '../test/utils';
+import { json, mockFetch, PUBLICATIONS, renderApp, signedInRoutes, storeSession, user, retype } from '../test/utils';
 import { figure } from '../test/figures';
 
 const SIDECAR = JSON.stringify({ sizes: [4, 3, 2], spacing: 0.5, quantity: 'density' });
@@ -92,12 +92,10 @@ describe('upload form', () => {
     await ue.upload(screen.getByTestId('upload-cube'), file([header, new Float32Array(8)], 'cube.nrrd'));
     await waitFor(() => expect(screen.getByTestId('upload-precheck').textContent).toBe('NRRD header read: sizes 2 × 2 × 2, type float.'));
     await ue.click(screen.getByText('density |ψ|² (one surface)'));
-    await ue.clear(screen.getByTestId('upload-fraction'));
-    await ue.type(screen.getByTestId('upload-fraction'), '1.5');
+    await retype(ue, screen.getByTestId('upload-fraction'), '1.5');
     expect(screen.getByTestId('upload-fraction-error').textContent).toContain('between 0 and 1');
     expect((screen.getByTestId('upload-submit') as HTMLButtonElement).disabled).toBe(true);
-    await ue.clear(screen.getByTestId('upload-fraction'));
-    await ue.type(screen.getByTestId('upload-fraction'), '0.75');
+    await retype(ue, screen.getByTestId('upload-fraction'), '0.75');
     await ue.click(screen.getByTestId('upload-submit'));
     const xhr = FakeXhr.last!;
     expect([...xhr.body!.entries()].map(([k, v]) => [k, typeof v === 'string' ? v : (v as File).name])).toEqual([

@@ -1,5 +1,5 @@
 import { useEffect, useRef, useState, type FormEvent, type HTMLProps } from 'react';
-import { Button, Callout, FileInput, FormGroup, InputGroup, NonIdealState, ProgressBar, Radio, RadioGroup, Spinner } from '@blueprintjs/core';
+import { Button, Callout, FileInput, FormGroup, InputGroup, NonIdealState, ProgressBar, Radio, RadioGroup } from '@blueprintjs/core';
 import { useQueryClient } from '@tanstack/react-query';
 import { useNavigate, useSearchParams } from 'react-router-dom';
 import { describeError } from '../api/client';
@@ -10,6 +10,7 @@ import { precheckCube, type Check } from '../figures/precheck';
 import { PublicationChooser } from '../figures/PublicationChooser';
 import { usePublications } from '../figures/usePublications';
 import { formatBytes } from '@psiform/orbitals';
+import { QueryStatus } from '../components/QueryStatus';
 
 export interface UploadFormProps {
   publicationId: string;
@@ -175,8 +176,7 @@ export function UploadPage() {
         <h1>Upload a density cube</h1>
         <p className="pf-muted">A sampled ψ or |ψ|² from another program becomes a figure; Psiform draws its isosurfaces.</p>
       </header>
-      {publications.isPending && <NonIdealState icon={<Spinner size={32} />} title="Loading publications…" />}
-      {publications.isError && <Callout intent="danger">{describeError(publications.error)}</Callout>}
+      <QueryStatus query={publications} what="publications" testId="upload-publications" />
       {publications.isSuccess && list.length === 0 && (
         <NonIdealState icon="inbox" title="No publication to add to" description="A figure belongs to a publication, and you are not a member of any." />
       )}

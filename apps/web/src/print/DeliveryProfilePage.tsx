@@ -1,7 +1,6 @@
 import { useEffect, useMemo, useState } from 'react';
 import { Button, Callout, Checkbox, FormGroup, HTMLSelect, InputGroup, NonIdealState, NumericInput, Radio, RadioGroup, Spinner, Switch } from '@blueprintjs/core';
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import { Link, useParams } from 'react-router-dom';
 import {
   ARTWORK_TYPES,
   DELIVERY_LIMITS,
@@ -14,8 +13,8 @@ import {
 } from '@psiform/contracts';
 import { describeError } from '../api/client';
 import { useApi, useAuth } from '../auth/AuthProvider';
-import { usePublications } from '../figures/usePublications';
 import { getDeliveryProfile, putDeliveryProfile } from './printApi';
+import { PublicationPage } from '../components/PublicationPage';
 
 /** Field -> message, from the same schema the server uses (libs/contracts parseDeliveryProfile). */
 export function profileErrors(p: unknown): Record<string, string> {
@@ -180,22 +179,13 @@ export function DeliveryProfileForm({ publicationId }: { publicationId: string }
 
 /** /publications/:publicationId/delivery-profile */
 export function DeliveryProfilePage() {
-  const { publicationId = '' } = useParams<{ publicationId: string }>();
-  const publications = usePublications();
-  const pub = publications.data?.find((p) => p.id === publicationId);
   return (
-    <div className="pf-page" data-testid="delivery-profile-page">
-      <header className="pf-page-head">
-        <p className="pf-crumbs">
-          <Link to="/publications">Publications</Link>
-        </p>
-        <h1>Delivery profile{pub ? `: ${pub.title}` : ''}</h1>
-        <p className="pf-muted">What the production department accepts. Every export and bundle is preflighted against it; failures block approval unless an editor overrides them with a reason.</p>
-      </header>
-      {publications.isPending && <NonIdealState icon={<Spinner size={32} />} title="Loading…" />}
-      {publications.isError && <Callout intent="danger">{describeError(publications.error)}</Callout>}
-      {publications.isSuccess && !pub && <Callout intent="warning" title="Publication not found" />}
-      {pub && <DeliveryProfileForm publicationId={pub.id} />}
-    </div>
+    <PublicationPage
+      title="Delivery profile"
+      intro="What the production department accepts. Every export and bundle is preflighted against it; failures block approval unless an editor overrides them with a reason."
+      testId="delivery-profile"
+    >
+      {(pub) => <DeliveryProfileForm publicationId={pub.id} />}
+    </PublicationPage>
   );
 }

@@ -2,7 +2,7 @@ import { screen, waitFor } from '@testing-library/react';
 import userEvent from '@testing-library/user-event';
 import { vi } from 'vitest';
 import { DEFAULT_DELIVERY_PROFILE, PREFLIGHT_RULES, type DeliveryProfileDto, type PreflightReport } from '@psiform/contracts';
-import { json, mockFetch, renderApp, signedInRoutes, storeSession, user } from '../test/utils';
+import { json, mockFetch, renderApp, signedInRoutes, storeSession, user, openAs, retype } from '../test/utils';
 import { figure } from '../test/figures';
 import { profileErrors } from './DeliveryProfilePage';
 
@@ -32,12 +32,10 @@ describe('delivery profile form', () => {
     renderApp('/publications/p1/delivery-profile');
     expect(await screen.findByTestId('dp-default')).toBeTruthy();
     const dpi = screen.getByTestId('dp-min-dpi') as HTMLInputElement;
-    await ue.clear(dpi);
-    await ue.type(dpi, '50');
+    await retype(ue, dpi, '50');
     expect((await screen.findByTestId('dp-error-minDpi')).textContent).toBe('at least 72');
     expect((screen.getByTestId('dp-save') as HTMLButtonElement).disabled).toBe(true);
-    await ue.clear(dpi);
-    await ue.type(dpi, '1200');
+    await retype(ue, dpi, '1200');
     await waitFor(() => expect(screen.queryByTestId('dp-error-minDpi')).toBeNull());
     await ue.selectOptions(screen.getByTestId('dp-press'), 'gracol');
     await ue.click(screen.getByTestId('dp-save'));
@@ -47,10 +45,7 @@ describe('delivery profile form', () => {
   });
 
   it('an editor reads it without a save button', async () => {
-    const me = user('editor');
-    mockFetch({ ...signedInRoutes(me), 'GET /api/publications/p1/delivery-profile': () => json(200, { ...DTO, isDefault: false }) });
-    storeSession(me);
-    renderApp('/publications/p1/delivery-profile');
+    openAs('editor', '/publications/p1/delivery-profile', { 'GET /api/publications/p1/delivery-profile': () => json(200, { ...DTO, isDefault: false }) });
     expect(await screen.findByTestId('delivery-profile-form')).toBeTruthy();
     expect(screen.queryByTestId('dp-save')).toBeNull();
   });

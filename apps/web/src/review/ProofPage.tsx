@@ -1,12 +1,10 @@
 import { useState } from 'react';
-import { Button, ButtonGroup, Callout, NonIdealState, Spinner, Tag } from '@blueprintjs/core';
+import { Button, ButtonGroup, Callout, Spinner } from '@blueprintjs/core';
 import { useQuery } from '@tanstack/react-query';
 import { Link, useParams } from 'react-router-dom';
 import type { AssetDto } from '@psiform/contracts';
-import { ApiError, describeError } from '../api/client';
+import { describeError } from '../api/client';
 import { useApi } from '../auth/AuthProvider';
-import { statusIntent } from '../figures/FiguresTable';
-import { formatDate, statusLabel } from '../figures/model';
 import { Viewport } from '../pages/FigurePage';
 import { AuditTrail } from './AuditTrail';
 import { CommentsPanel, numberPins } from './CommentsPanel';
@@ -18,6 +16,9 @@ import { figureVersions, printFacts, renderVersion } from './proofApi';
 import { JobProgress } from '../figures/JobProgress';
 import { useAuth } from '../auth/AuthProvider';
 import { useMutation, useQueryClient } from '@tanstack/react-query';
+import { FigureLoadStatus } from '../components/FigureLoadStatus';
+import { FigureMeta } from '../figures/FigureMeta';
+import { formatDate } from '../figures/model';
 
 function latest(assets: AssetDto[], kind: AssetDto['kind']): AssetDto | undefined {
   return assets.filter((a) => a.kind === kind).sort((a, b) => b.createdAt.localeCompare(a.createdAt))[0];
@@ -49,23 +50,7 @@ export function ProofPage() {
   const [renderJob, setRenderJob] = useState<string | null>(null);
   const render = useMutation({ mutationFn: (n: number) => renderVersion(api, figureId, n), onSuccess: (r) => setRenderJob(r.jobId) });
 
-  if (figure.isPending)
-    return (
-      <div className="pf-page" data-testid="proof-loading">
-        <NonIdealState icon={<Spinner size={32} />} title="Loading the proof…" />
-      </div>
-    );
-  if (figure.isError) {
-    const notFound = figure.error instanceof ApiError && (figure.error.status === 404 || figure.error.status === 403);
-    return (
-      <div className="pf-page">
-        <Callout intent={notFound ? 'warning' : 'danger'} title={notFound ? 'Figure not found' : 'The proof could not be loaded'} data-testid="proof-error">
-          <p>{notFound ? 'There is no such figure in the publications you belong to.' : describeError(figure.error)}</p>
-          <Link to="/review">Back to the review desk</Link>
-        </Callout>
-      </div>
-    );
-  }
+  if (!figure.isSuccess) return <FigureLoadStatus figure={figure} what="proof" testId="proof" back={{ to: '/review', text: 'Back to the review desk' }} />;
 
   const f = figure.data;
   const current = versions.data?.find((v) => v.current) ?? null;
@@ -83,13 +68,7 @@ export function ProofPage() {
           <Link to="/review">Review desk</Link> · <Link to={`/figures/${encodeURIComponent(f.id)}`}>Figure page</Link>
         </p>
         <h1 data-testid="proof-title">{f.title}</h1>
-        <div className="pf-meta">
-          <Tag minimal intent={statusIntent(f.status)} data-testid="proof-status">
-            {statusLabel(f.status)}
-          </Tag>
-          <span data-testid="proof-version">Version {f.currentVersion.number}</span>
-          {f.ownerName && <span>by {f.ownerName}</span>}
-        </div>
+        <FigureMeta figure={f} testId="proof" />
         <ColourOverrideNote figureId={f.id} />
       </header>
 

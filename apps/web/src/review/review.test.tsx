@@ -2,7 +2,7 @@ import { screen, waitFor, within } from '@testing-library/react';
 import userEvent from '@testing-library/user-event';
 import { vi } from 'vitest';
 import { FIGURE_STATUSES, ROLES, type AuditEntryDto, type FigureDto, type FigureStatus, type ReviewDeskItemDto, type Role } from '@psiform/contracts';
-import { json, mockFetch, renderApp, signedInRoutes, storeSession, user, type Handler } from '../test/utils';
+import { json, mockFetch, renderApp, signedInRoutes, storeSession, user, type Handler, openAs, retype } from '../test/utils';
 import { figure, GLB_ASSET, PROOF_IMAGE, versionSummary } from '../test/figures';
 import { availableDecisions, roundFromAudit } from './decisions';
 import { formatAge } from './format';
@@ -67,18 +67,12 @@ describe('review desk', () => {
   });
 
   it('is open to art directors too, and says so when nothing waits', async () => {
-    const me = user('art_director');
-    mockFetch({ ...signedInRoutes(me), 'GET /api/review-desk': () => json(200, []) });
-    storeSession(me);
-    renderApp('/review');
+    openAs('art_director', '/review', { 'GET /api/review-desk': () => json(200, []) });
     expect((await screen.findByTestId('review-desk-empty')).textContent).toContain('No proofs waiting');
   });
 
   it('shows the server error readably', async () => {
-    const me = user('editor');
-    mockFetch({ ...signedInRoutes(me), 'GET /api/review-desk': () => json(500, { statusCode: 500, message: 'boom' }) });
-    storeSession(me);
-    renderApp('/review');
+    openAs('editor', '/review', { 'GET /api/review-desk': () => json(500, { statusCode: 500, message: 'boom' }) });
     expect((await screen.findByTestId('review-desk-error')).textContent).toContain('HTTP 500');
   });
 });
@@ -228,8 +222,7 @@ describe('proof view decisions', () => {
     await ue.tab();
     expect(screen.getByText(/A note is required/)).toBeTruthy();
     expect(api.callsTo('POST', '/api/figures/f1/request-changes')).toHaveLength(0);
-    await ue.clear(screen.getByTestId('request-changes-note'));
-    await ue.type(screen.getByTestId('request-changes-note'), 'The negative lobe reads too dark in print.');
+    await retype(ue, screen.getByTestId('request-changes-note'), 'The negative lobe reads too dark in print.');
     await ue.click(submit);
     await waitFor(() => expect(api.callsTo('POST', '/api/figures/f1/request-changes')).toHaveLength(1));
     expect(api.callsTo('POST', '/api/figures/f1/request-changes')[0].body).toEqual({ note: 'The negative lobe reads too dark in print.' });

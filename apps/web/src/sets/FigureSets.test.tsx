@@ -1,6 +1,6 @@
 import { screen, waitFor, within } from '@testing-library/react';
 import userEvent from '@testing-library/user-event';
-import { json, mockFetch, renderApp, signedInRoutes, storeSession, user, PUBLICATIONS } from '../test/utils';
+import { json, mockFetch, renderApp, signedInRoutes, storeSession, user, PUBLICATIONS, retype } from '../test/utils';
 import { page, summary } from '../test/figures';
 import { labelKey, matchFigures, orbitalRecipe, shellOrbitals } from './shell';
 
@@ -131,8 +131,7 @@ describe('Figure-set picker', () => {
     // The title limit comes from libs/contracts, in its words.
     await ue.type(screen.getByTestId('set-title'), 'x'.repeat(201));
     expect(screen.getByTestId('set-title-error').textContent).toBe('The title must be at most 200 characters (this one has 201).');
-    await ue.clear(screen.getByTestId('set-title'));
-    await ue.type(screen.getByTestId('set-title'), 'd and p');
+    await retype(ue, screen.getByTestId('set-title'), 'd and p');
     await ue.click(screen.getByTestId('set-create'));
     // The new set is shown at once: named in a notice, selected in the list, its export form open.
     expect((await screen.findByTestId('set-created')).textContent).toContain('Created “d and p” with 2 panels');

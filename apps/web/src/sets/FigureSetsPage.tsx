@@ -3,12 +3,12 @@
 import { useEffect, useMemo, useState } from 'react';
 import { useQuery, useQueryClient } from '@tanstack/react-query';
 import { Button, Callout, Checkbox, FormGroup, HTMLSelect, HTMLTable, InputGroup, NonIdealState, Spinner, TextArea } from '@blueprintjs/core';
-import { DEFAULT_DELIVERY_PROFILE, FIGURE_SET_LIMITS, FIGURE_STATUSES, TEXT_LIMITS, textProblem, titleProblem, type DeliveryProfile, type FigureSetDto, type FigureSummaryDto, type JobDto } from '@psiform/contracts';
+import { DEFAULT_DELIVERY_PROFILE, FIGURE_SET_LIMITS, FIGURE_STATUSES, TEXT_LIMITS, textProblem, titleProblem, type DeliveryProfile, type FigureSetDto, type FigureSummaryDto } from '@psiform/contracts';
 import { describeError } from '../api/client';
 import { useApi } from '../auth/AuthProvider';
 import { PublicationChooser } from '../figures/PublicationChooser';
 import { usePublications } from '../figures/usePublications';
-import { DownloadList, ExportProgress, firstDpi } from '../studio/ExportDialog';
+import { DownloadList, ExportProgress, firstDpi, useExportJob } from '../studio/ExportDialog';
 import { getDeliveryProfile } from '../print/printApi';
 import { fromMm } from '../studio/exportSize';
 import { CanvasSizeFields, columnChoices, useCanvasSize } from '../studio/CanvasSizeFields';
@@ -18,6 +18,7 @@ import { Typeset } from '../components/Typeset';
 import { statusLabel } from '../figures/model';
 import { labelKey } from './shell';
 import { TableHead } from '../components/TableHead';
+import { QueryStatus } from '../components/QueryStatus';
 
 const SUBSHELLS = ['s', 'p', 'd', 'f', 'hybrid', 'other'] as const;
 
@@ -46,12 +47,7 @@ export function FigureSetsPage() {
         </div>
         {current && <PublicationChooser publications={list} value={current.id} onChange={setChosen} inline />}
       </header>
-      {publications.isPending && <NonIdealState icon={<Spinner size={32} />} title="Loading publications…" />}
-      {publications.isError && (
-        <Callout intent="danger" title="Publications could not be loaded" data-testid="sets-error">
-          {describeError(publications.error)}
-        </Callout>
-      )}
+      <QueryStatus query={publications} what="publications" testId="sets" />
       {publications.isSuccess && !current && <NonIdealState icon="book" title="No publications yet" description="Ask an admin to add you to a publication." />}
       {current && <SetsOfPublication key={current.id} publicationId={current.id} />}
       <p className="pf-muted pf-small" data-testid="sets-model">
@@ -401,35 +397,18 @@ export function SetExportForm({ set }: { set: FigureSetDto }) {
 
 /** Canvas size (mm or inches, the profile's column presets, dpi) and the PNG export of a set, with progress and download. */
 function ProfiledSetExportForm({ set, profile }: { set: FigureSetDto; profile: DeliveryProfile }) {
-  const api = useApi();
   const columns = useMemo(() => columnChoices(profile), [profile]);
   const widest = columns.reduce((a, b) => (b.widthMm > a.widthMm ? b : a));
   const size = useCanvasSize({ widthMm: widest.widthMm, heightMm: 60, dpi: firstDpi(300, profile.minDpi), transparent: false });
   const { unit, setW, dpi, transparent, widthMm, heightMm, px } = size;
-  const [jobId, setJobId] = useState<string | null>(null);
-  const [result, setResult] = useState<JobDto | null>(null);
-  const [error, setError] = useState<string | null>(null);
-  const [sending, setSending] = useState(false);
-  useEffect(() => setResult(null), [jobId]);
+  const { jobId, result, setResult, error, sending, start, running } = useExportJob(`/api/figure-sets/${encodeURIComponent(set.id)}/exports`);
 
 
   async function submit() {
     if (widthMm === null || heightMm === null) return;
-    setSending(true);
-    setError(null);
-    setJobId(null);
-    try {
-      const body = { format: 'png', widthMm: Number(widthMm.toFixed(3)), heightMm: Number(heightMm.toFixed(3)), dpi, ...(transparent ? { transparent: true } : {}) };
-      const r = await api.request<{ jobId: string }>(`/api/figure-sets/${encodeURIComponent(set.id)}/exports`, { method: 'POST', body });
-      setJobId(r.jobId);
-    } catch (err) {
-      setError(describeError(err));
-    } finally {
-      setSending(false);
-    }
+    await start({ format: 'png', widthMm: Number(widthMm.toFixed(3)), heightMm: Number(heightMm.toFixed(3)), dpi, ...(transparent ? { transparent: true } : {}) });
   }
 
-  const running = Boolean(jobId) && !result;
   const png = result?.assets.filter((a) => a.kind === 'png') ?? [];
   return (
     <div className="pf-export pf-gap-sm" data-testid="set-export-form">

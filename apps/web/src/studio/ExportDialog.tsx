@@ -1,6 +1,6 @@
 // Export a figure: PNG at a physical size and dpi, SVG companions, the bundle, or the mesh files.
 import { useMemo, useState } from 'react';
-import { Button, Callout, Dialog, DialogBody, DialogFooter, FormGroup, HTMLSelect, ProgressBar, Spinner } from '@blueprintjs/core';
+import { Button, Callout, Dialog, DialogBody, DialogFooter, FormGroup, HTMLSelect, Spinner } from '@blueprintjs/core';
 import { useQuery } from '@tanstack/react-query';
 import {
   DEFAULT_DELIVERY_PROFILE,
@@ -19,7 +19,7 @@ import { altOf, DPI_CHOICES, figureWords, plannedSubject, preflightReport, type 
 import { ApiError, describeError } from '../api/client';
 import { getDeliveryProfile } from '../print/printApi';
 import { PreflightFileTable } from '../print/PreflightPanel';
-import { useFollowJob } from '../figures/JobProgress';
+import { JobProgress } from '../figures/JobProgress';
 import { useApi } from '../auth/AuthProvider';
 import { AssetDownloads } from '../figures/AssetDownloads';
 import { fromMm } from './exportSize';
@@ -105,32 +105,42 @@ export function DownloadList({ assets, testid }: { assets: AssetDto[]; testid: s
   return <AssetDownloads assets={assets} containerTestid={testid} testid={() => 'export-download'} primary />;
 }
 
+/** An export job's words for a failure: the stage it stopped in and the worker's message. */
+function exportFailureText(job: JobDto): string {
+  const where = job.stage && job.stage !== 'done' ? ` while ${(EXPORT_STAGE_WORDS[job.stage] ?? job.stage).toLowerCase()}` : '';
+  return `The export failed${where}: ${job.error?.trim() || 'the worker gave no message.'}`;
+}
+
+/**
+ * Starting an export job (POST `path` with the export request) and holding what follows: the job to follow, its
+ * finished snapshot (setResult, from ExportProgress), the reason it was not started (`errorText` words it), and
+ * whether a request is on its way. One owner for the figure's and the figure set's export forms.
+ */
+export function useExportJob(path: string, errorText: (err: unknown) => string = describeError) {
+  const api = useApi();
+  const [jobId, setJobId] = useState<string | null>(null);
+  const [result, setResult] = useState<JobDto | null>(null);
+  const [sending, setSending] = useState(false);
+  const [error, setError] = useState<string | null>(null);
+  async function start(body: object) {
+    setSending(true);
+    setError(null);
+    setResult(null);
+    setJobId(null);
+    try {
+      const r = await api.request<{ jobId: string }>(path, { method: 'POST', body });
+      setJobId(r.jobId);
+    } catch (err) {
+      setError(errorText(err));
+    } finally {
+      setSending(false);
+    }
+  }
+  return { jobId, result, setResult, sending, error, start, running: Boolean(jobId) && !result };
+}
+
 export function ExportProgress({ jobId, onDone }: { jobId: string; onDone(job: JobDto): void }) {
-  const { job, streamError: err } = useFollowJob(jobId, onDone);
-  const state = job?.state ?? 'queued';
-  const value = job ? Math.max(0, Math.min(100, job.progress)) / 100 : 0;
-  const running = state === 'queued' || state === 'active';
-  return (
-    <div className="pf-job" data-testid="export-progress" data-state={state} aria-live="polite">
-      <div className="pf-job-line">
-        <span data-testid="export-stage">{job ? (EXPORT_STAGE_WORDS[job.stage] ?? job.stage) : 'Connecting to the export job…'}</span>
-        <span className="pf-muted" data-testid="export-percent">
-          {Math.round(value * 100)}%
-        </span>
-      </div>
-      <ProgressBar value={value} intent={state === 'failed' ? 'danger' : state === 'completed' ? 'success' : 'primary'} animate={running} stripes={running} />
-      {job?.state === 'failed' && (
-        <Callout intent="danger" className="pf-job-msg" data-testid="export-error">
-          The export failed{job.stage && job.stage !== 'done' ? ` while ${(EXPORT_STAGE_WORDS[job.stage] ?? job.stage).toLowerCase()}` : ''}: {job.error?.trim() || 'the worker gave no message.'}
-        </Callout>
-      )}
-      {err && (
-        <Callout intent="warning" className="pf-job-msg" data-testid="export-stream-error">
-          Progress could not be followed: {err}
-        </Callout>
-      )}
-    </div>
-  );
+  return <JobProgress jobId={jobId} onFinished={onDone} testId="export" words={EXPORT_STAGE_WORDS} connecting="Connecting to the export job…" failure={exportFailureText} />;
 }
 
 export interface ExportFormProps {
@@ -186,7 +196,6 @@ export function ExportForm(props: ExportFormProps) {
 }
 
 function ProfiledExportForm({ figure, canvas, transparentDefault, unsaved, profile }: ExportFormProps & { profile: DeliveryProfile }) {
-  const api = useApi();
   const size = useCanvasSize({ widthMm: canvas.widthMm, heightMm: canvas.heightMm, dpi: firstDpi(canvas.dpi, profile.minDpi), transparent: transparentDefault });
   const { unit, setW, setH, dpi, transparent, widthMm, heightMm, px } = size;
   const formats = useMemo(() => exportFormatChoices(profile), [profile]);
@@ -194,10 +203,7 @@ function ProfiledExportForm({ figure, canvas, transparentDefault, unsaved, profi
   const [colour, setColour] = useState<ColourMode>(profile.colourMode);
   const [press, setPress] = useState<PressConditionId>(profile.pressCondition);
   const [requestedKind, setRequestedKind] = useState<string | undefined>();
-  const [jobId, setJobId] = useState<string | null>(null);
-  const [result, setResult] = useState<JobDto | null>(null);
-  const [sending, setSending] = useState(false);
-  const [error, setError] = useState<string | null>(null);
+  const { jobId, result, setResult, sending, error, start, running } = useExportJob(`/api/figures/${encodeURIComponent(figure.id)}/exports`, serverText);
   const columns = useMemo(() => columnChoices(profile), [profile]);
 
   function preset(c: ColumnChoice) {
@@ -249,21 +255,9 @@ function ProfiledExportForm({ figure, canvas, transparentDefault, unsaved, profi
   async function submit() {
     if (!body) return;
     setRequestedKind(body.format);
-    setSending(true);
-    setError(null);
-    setResult(null);
-    setJobId(null);
-    try {
-      const r = await api.request<{ jobId: string }>(`/api/figures/${encodeURIComponent(figure.id)}/exports`, { method: 'POST', body });
-      setJobId(r.jobId);
-    } catch (err) {
-      setError(serverText(err));
-    } finally {
-      setSending(false);
-    }
+    await start(body);
   }
 
-  const running = Boolean(jobId) && !result;
   const rasterLimit = raster && sized ? rasterProblem(sized.widthMm, sized.heightMm, dpi) : null;
   const blocked = raster && !sized ? 'Export waits for a valid width and height (see the fields above).' : rasterLimit ? `Cannot export: ${rasterLimit}.` : null;
   const cond = PRESS_CONDITIONS.find((c) => c.id === press);

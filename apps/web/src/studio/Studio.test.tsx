@@ -3,7 +3,7 @@ import userEvent from '@testing-library/user-event';
 import { vi } from 'vitest';
 import { DEFAULT_DELIVERY_PROFILE, parseRecipe, type FigureDto } from '@psiform/contracts';
 import { AppProviders, createQueryClient } from '../App';
-import { json, mockFetch, renderApp, signedInRoutes, storeSession, user } from '../test/utils';
+import { json, mockFetch, renderApp, signedInRoutes, storeSession, user, retype, type Handler } from '../test/utils';
 import { figure } from '../test/figures';
 import type { PreviewRequest, PreviewResponse } from '../workers/preview-protocol';
 import { ExportForm } from './ExportDialog';
@@ -72,6 +72,30 @@ beforeEach(() => {
 
 const me = user('illustrator');
 
+/** The export form alone for a signed-in illustrator, for a `widthMm` × 60 mm canvas at 300 dpi; returns the user-event driver. */
+function openExportForm(widthMm: number) {
+  storeSession(me);
+  const ue = userEvent.setup();
+  render(
+    <AppProviders client={createQueryClient()}>
+      <ExportForm figure={figure()} canvas={{ widthMm, heightMm: 60, dpi: 300 }} transparentDefault={false} />
+    </AppProviders>,
+  );
+  return ue;
+}
+
+/** GET and PATCH of figure f1 over one stored figure: a PATCH stores version 2 with the recipe sent, as the server does. */
+function savedFigureRoutes(initial: FigureDto): Record<string, Handler> {
+  let current = initial;
+  return {
+    'GET /api/figures/f1': () => json(200, current),
+    'PATCH /api/figures/f1': ({ body }) => {
+      current = figure({ currentVersion: { ...current.currentVersion, id: 'v2', number: 2, recipe: (body as { recipe: FigureDto['currentVersion']['recipe'] }).recipe } });
+      return json(200, current);
+    },
+  };
+}
+
 describe('Composer: quantum numbers as you type', () => {
   it('names the broken rule at once, keeps save disabled while invalid, and creates the figure once valid', async () => {
     const api = mockFetch({
@@ -87,29 +111,22 @@ describe('Composer: quantum numbers as you type', () => {
     await ue.click(screen.getByTestId('cmp-mode-nlm'));
     const save = () => screen.getByTestId('studio-save') as HTMLButtonElement;
 
-    await ue.clear(screen.getByTestId('cmp-n'));
-    await ue.type(screen.getByTestId('cmp-n'), '3');
-    await ue.clear(screen.getByTestId('cmp-l'));
-    await ue.type(screen.getByTestId('cmp-l'), '3');
+    await retype(ue, screen.getByTestId('cmp-n'), '3');
+    await retype(ue, screen.getByTestId('cmp-l'), '3');
     expect(screen.getByTestId('cmp-l-error').textContent).toBe('l must be less than n (got n=3, l=3): with n = 3, l can be 0, 1 or 2.');
     expect(save().disabled).toBe(true);
 
-    await ue.clear(screen.getByTestId('cmp-l'));
-    await ue.type(screen.getByTestId('cmp-l'), '2');
+    await retype(ue, screen.getByTestId('cmp-l'), '2');
     expect(screen.queryByTestId('cmp-l-error')).toBeNull();
-    await ue.clear(screen.getByTestId('cmp-m'));
-    await ue.type(screen.getByTestId('cmp-m'), '-3');
+    await retype(ue, screen.getByTestId('cmp-m'), '-3');
     expect(screen.getByTestId('cmp-m-error').textContent).toBe('|m| must not exceed l (got l=2, m=-3): with l = 2, m can be −2, −1, 0, 1 or 2.');
     expect(save().disabled).toBe(true);
 
-    await ue.clear(screen.getByTestId('cmp-n'));
-    await ue.type(screen.getByTestId('cmp-n'), '13');
+    await retype(ue, screen.getByTestId('cmp-n'), '13');
     expect(screen.getByTestId('cmp-n-error').textContent).toBe('n must be between 1 and 12 (got n=13).');
 
-    await ue.clear(screen.getByTestId('cmp-n'));
-    await ue.type(screen.getByTestId('cmp-n'), '3');
-    await ue.clear(screen.getByTestId('cmp-m'));
-    await ue.type(screen.getByTestId('cmp-m'), '-2');
+    await retype(ue, screen.getByTestId('cmp-n'), '3');
+    await retype(ue, screen.getByTestId('cmp-m'), '-2');
     expect(screen.queryByTestId('cmp-m-error')).toBeNull();
     expect(screen.getByTestId('studio-model').textContent).toContain('3dxy, Z = 1, one-electron hydrogen-like model'); // typeset: 3d with a subscript xy
     expect(screen.getByTestId('studio-model').querySelector('sub')?.textContent).toBe('xy');
@@ -154,17 +171,13 @@ describe('Composer: superposition coefficients', () => {
     expect(screen.getByTestId('cmp-sumsq').textContent).toBe('Σ|c|² = 1');
     const coefs = () => screen.getAllByTestId('cmp-norm-coef').map((li) => li.textContent);
     // Make it 2p_x (m = +1) and add 2p_y (m = −1) at phase 90°: c = 1 and c = i.
-    await ue.clear(screen.getByTestId('cmp-row-m'));
-    await ue.type(screen.getByTestId('cmp-row-m'), '1');
+    await retype(ue, screen.getByTestId('cmp-row-m'), '1');
     await ue.click(screen.getByTestId('cmp-add-row'));
     expect(screen.getByTestId('cmp-sumsq').textContent).toBe('Σ|c|² = 1'); // a new row starts at |c| = 0: ψ unchanged
     const second = within(screen.getAllByTestId('cmp-row')[1]);
-    await ue.clear(second.getByTestId('cmp-row-m'));
-    await ue.type(second.getByTestId('cmp-row-m'), '-1');
-    await ue.clear(second.getByTestId('cmp-row-mag'));
-    await ue.type(second.getByTestId('cmp-row-mag'), '1');
-    await ue.clear(second.getByTestId('cmp-row-phase'));
-    await ue.type(second.getByTestId('cmp-row-phase'), '90');
+    await retype(ue, second.getByTestId('cmp-row-m'), '-1');
+    await retype(ue, second.getByTestId('cmp-row-mag'), '1');
+    await retype(ue, second.getByTestId('cmp-row-phase'), '90');
     // 2p_x and 2p_y are orthonormal, so Σ|c|² = 1 + 1 = 2 and each normalised |c| = 1/√2 ≈ 0.7071 (by hand).
     expect(screen.getByTestId('cmp-sumsq').textContent).toBe('Σ|c|² = 2');
     expect(coefs()).toEqual(['0.7071 · e^(i·0°) = 0.7071 + 0i', '0.7071 · e^(i·90°) = 0 + 0.7071i']);
@@ -173,19 +186,15 @@ describe('Composer: superposition coefficients', () => {
     await ue.click(screen.getByTestId('cmp-add-row'));
     const rows = screen.getAllByTestId('cmp-row');
     const third = within(rows[2]);
-    await ue.clear(third.getByTestId('cmp-row-m'));
-    await ue.type(third.getByTestId('cmp-row-m'), '0');
-    await ue.clear(third.getByTestId('cmp-row-mag'));
-    await ue.type(third.getByTestId('cmp-row-mag'), '2');
-    await ue.clear(third.getByTestId('cmp-row-phase'));
-    await ue.type(third.getByTestId('cmp-row-phase'), '180');
+    await retype(ue, third.getByTestId('cmp-row-m'), '0');
+    await retype(ue, third.getByTestId('cmp-row-mag'), '2');
+    await retype(ue, third.getByTestId('cmp-row-phase'), '180');
     expect(screen.getByTestId('cmp-sumsq').textContent).toBe('Σ|c|² = 6');
     // 1/√6 = 0.408248..., 2/√6 = 0.816497...
     expect(coefs()[2]).toBe('0.8165 · e^(i·180°) = -0.8165 + 0i');
 
     // A negative magnitude is refused with a message and save stays off.
-    await ue.clear(third.getByTestId('cmp-row-mag'));
-    await ue.type(third.getByTestId('cmp-row-mag'), '-1');
+    await retype(ue, third.getByTestId('cmp-row-mag'), '-1');
     expect(screen.getByTestId('cmp-row-error').textContent).toBe('Term 3: |c| cannot be negative (use the phase).');
     expect((screen.getByTestId('studio-save') as HTMLButtonElement).disabled).toBe(true);
     await ue.click(within(rows[2]).getByTestId('cmp-row-remove'));
@@ -221,14 +230,12 @@ describe('Composer: superposition coefficients', () => {
     // A new figure starts on the engine's own grid (contracts RECIPE_DEFAULTS 'auto'): the preview asks for it too.
     expect(samples()[0]).toMatchObject({ n: 'auto', state: { Z: 1, terms: [{ n: 2, l: 1, m: 0 }] } });
     expect((screen.getByTestId('cmp-grid') as HTMLInputElement).value).toBe('auto');
-    await ue.clear(screen.getByTestId('cmp-fraction'));
-    await ue.type(screen.getByTestId('cmp-fraction'), '75');
+    await retype(ue, screen.getByTestId('cmp-fraction'), '75');
     await waitFor(() => expect(surfaces().at(-1)).toMatchObject({ rule: { rule: 'enclosed', fraction: 0.75 } }));
     expect(samples()).toHaveLength(1);
     await waitFor(() => expect(screen.getByTestId('preview-status').textContent).toContain('encloses 75.0%'));
     expect(screen.getByTestId('preview-ms')).toBeTruthy();
-    await ue.clear(screen.getByTestId('cmp-z'));
-    await ue.type(screen.getByTestId('cmp-z'), '3');
+    await retype(ue, screen.getByTestId('cmp-z'), '3');
     expect(screen.getByTestId('cmp-ion').textContent).toBe('Li2+'); // Li with a typeset superscript 2+
     expect(screen.getByTestId('cmp-ion').querySelector('sup')?.textContent).toBe('2+');
     await waitFor(() => expect(samples()).toHaveLength(2));
@@ -238,15 +245,10 @@ describe('Composer: superposition coefficients', () => {
 
 describe('Studio: what the figure cannot show', () => {
   it('says when the box cuts the surface, offers to widen it, and saves the wider box', async () => {
-    let current = figure();
-    current = figure({ currentVersion: { ...current.currentVersion, recipe: { ...current.currentVersion.recipe, grid: { n: 48, extent: 3 } } } });
+    const first = figure();
     const api = mockFetch({
       ...signedInRoutes(me),
-      'GET /api/figures/f1': () => json(200, current),
-      'PATCH /api/figures/f1': ({ body }) => {
-        current = figure({ currentVersion: { ...current.currentVersion, id: 'v2', number: 2, recipe: (body as { recipe: FigureDto['currentVersion']['recipe'] }).recipe } });
-        return json(200, current);
-      },
+      ...savedFigureRoutes(figure({ currentVersion: { ...first.currentVersion, recipe: { ...first.currentVersion.recipe, grid: { n: 48, extent: 3 } } } })),
     });
     FakeWorker.boxWarning = { message: 'The box (±3 a0) cuts the surface: the figure draws 31% of the 90% it encloses.', suggestedExtent: 7.1234 };
     storeSession(me);
@@ -309,15 +311,7 @@ describe('Opening a saved figure', () => {
 
 describe('Stage shortcuts', () => {
   it('1/2/3/4/0 choose the view, O the projection, A the axes; typing in a field does not; the stage is saved', async () => {
-    let current = figure();
-    const api = mockFetch({
-      ...signedInRoutes(me),
-      'GET /api/figures/f1': () => json(200, current),
-      'PATCH /api/figures/f1': ({ body }) => {
-        current = figure({ currentVersion: { ...current.currentVersion, id: 'v2', number: 2, recipe: (body as { recipe: FigureDto['currentVersion']['recipe'] }).recipe } });
-        return json(200, current);
-      },
-    });
+    const api = mockFetch({ ...signedInRoutes(me), ...savedFigureRoutes(figure()) });
     storeSession(me);
     const ue = userEvent.setup();
     renderApp('/figures/f1/studio');
@@ -344,8 +338,7 @@ describe('Stage shortcuts', () => {
     await ue.keyboard('4');
     expect(screen.getByTestId('canvas-probe').getAttribute('data-view')).toBe('axis_y');
     expect((screen.getByTestId('cmp-grid') as HTMLInputElement).value).toBe('484');
-    await ue.clear(screen.getByTestId('cmp-grid'));
-    await ue.type(screen.getByTestId('cmp-grid'), '48');
+    await retype(ue, screen.getByTestId('cmp-grid'), '48');
 
     expect(screen.getByTestId('studio-dirty')).toBeTruthy();
     await ue.click(screen.getByTestId('studio-save'));
@@ -383,10 +376,8 @@ describe('Export dialog: size arithmetic', () => {
     // 120 mm / 25.4 × 300 = 1417.3 -> 1417; 80 mm -> 944.9 -> 945.
     expect(await screen.findByTestId('exp-pixels')).toBeTruthy();
     expect(px()).toBe('1417 × 945 px (1.34 megapixels) at 300 dpi');
-    await ue.clear(screen.getByTestId('exp-width'));
-    await ue.type(screen.getByTestId('exp-width'), '89');
-    await ue.clear(screen.getByTestId('exp-height'));
-    await ue.type(screen.getByTestId('exp-height'), '60');
+    await retype(ue, screen.getByTestId('exp-width'), '89');
+    await retype(ue, screen.getByTestId('exp-height'), '60');
     // 89 / 25.4 × 300 = 1051.18 -> 1051; 60 / 25.4 × 300 = 708.66 -> 709.
     expect(px()).toBe('1051 × 709 px (0.75 megapixels) at 300 dpi');
 
@@ -394,8 +385,7 @@ describe('Export dialog: size arithmetic', () => {
     expect((screen.getByTestId('exp-width') as HTMLInputElement).value).toBe('3.504');
     expect((screen.getByTestId('exp-height') as HTMLInputElement).value).toBe('2.362');
     expect(px()).toBe('1051 × 709 px (0.75 megapixels) at 300 dpi');
-    await ue.clear(screen.getByTestId('exp-width'));
-    await ue.type(screen.getByTestId('exp-width'), '3.5');
+    await retype(ue, screen.getByTestId('exp-width'), '3.5');
     // 3.5 in × 300 dpi = 1050 px exactly.
     expect(px()).toMatch(/^1050 × 709 px/);
 
@@ -407,27 +397,22 @@ describe('Export dialog: size arithmetic', () => {
     expect((screen.getByTestId('exp-width') as HTMLInputElement).value).toBe('178');
     expect(px()).toMatch(/^4205 × /); // 178 / 25.4 × 600 = 4204.7 -> 4205
 
-    await ue.clear(screen.getByTestId('exp-width'));
-    await ue.type(screen.getByTestId('exp-width'), '5');
+    await retype(ue, screen.getByTestId('exp-width'), '5');
     expect(screen.getByTestId('exp-width-error').textContent).toBe('The width must be between 10 mm and 1000 mm.');
     // The Export button stays where it was, disabled, and says why.
     expect((screen.getByTestId('exp-submit') as HTMLButtonElement).disabled).toBe(true);
     expect(screen.getByTestId('exp-blocked').textContent).toBe('Export waits for a valid width and height (see the fields above).');
 
     // Too many pixels: the limit of libs/contracts, in the server's words, before anything is sent.
-    await ue.clear(screen.getByTestId('exp-width'));
-    await ue.type(screen.getByTestId('exp-width'), '1000');
-    await ue.clear(screen.getByTestId('exp-height'));
-    await ue.type(screen.getByTestId('exp-height'), '1000');
+    await retype(ue, screen.getByTestId('exp-width'), '1000');
+    await retype(ue, screen.getByTestId('exp-height'), '1000');
     await ue.selectOptions(screen.getByTestId('exp-dpi'), '1200');
     expect(screen.getByTestId('exp-blocked').textContent).toBe(
       'Cannot export: 1000 × 1000 mm at 1200 dpi is 47244 × 47244 px; the largest raster export is 20000 px a side and 64 megapixels (choose a lower dpi or a smaller size).',
     );
     expect((screen.getByTestId('exp-submit') as HTMLButtonElement).disabled).toBe(true);
-    await ue.clear(screen.getByTestId('exp-width'));
-    await ue.type(screen.getByTestId('exp-width'), '120');
-    await ue.clear(screen.getByTestId('exp-height'));
-    await ue.type(screen.getByTestId('exp-height'), '80');
+    await retype(ue, screen.getByTestId('exp-width'), '120');
+    await retype(ue, screen.getByTestId('exp-height'), '80');
     expect(screen.queryByTestId('exp-blocked')).toBeNull();
     // The button names what it makes: kind, size and dpi, and the preflight's failures (this figure has no mesh yet,
     // so no alt text: one rule fails).
@@ -443,13 +428,7 @@ describe('Export dialog: size arithmetic', () => {
       'GET /api/jobs/j7/events': () => stream.response,
       ...profileRoute(),
     });
-    storeSession(me);
-    const ue = userEvent.setup();
-    render(
-      <AppProviders client={createQueryClient()}>
-        <ExportForm figure={figure()} canvas={{ widthMm: 89, heightMm: 60, dpi: 300 }} transparentDefault={false} />
-      </AppProviders>,
-    );
+    const ue = openExportForm(89);
     await ue.click(await screen.findByTestId('exp-transparent'));
     await ue.click(screen.getByTestId('exp-submit'));
     await waitFor(() => expect(api.callsTo('POST', '/api/figures/f1/exports')).toHaveLength(1));
@@ -467,13 +446,7 @@ describe('Export dialog: size arithmetic', () => {
 
   it('says plainly when the server has no export route', async () => {
     mockFetch({ ...signedInRoutes(me) }); // unknown route -> 404 "No mock for …"
-    storeSession(me);
-    const ue = userEvent.setup();
-    render(
-      <AppProviders client={createQueryClient()}>
-        <ExportForm figure={figure()} canvas={{ widthMm: 89, heightMm: 60, dpi: 300 }} transparentDefault={false} />
-      </AppProviders>,
-    );
+    const ue = openExportForm(89);
     // No delivery-profile route either: the dialog says so and offers the default profile's choices.
     expect((await screen.findByTestId('exp-profile-error')).textContent).toContain('default profile');
     await ue.selectOptions(screen.getByTestId('exp-format'), 'bundle');
@@ -489,13 +462,7 @@ describe('Export dialog: the delivery profile first, the preflight before export
       ...profileRoute({ ...DEFAULT_DELIVERY_PROFILE, publicationId: 'p1', isDefault: false, updatedAt: null, updatedBy: null, pressCondition: 'gracol', columnWidthsMm: [{ name: 'text', widthMm: 84 }, { name: 'full page', widthMm: 174 }] }),
       'POST /api/figures/f1/exports': () => json(202, { jobId: 'j9' }),
     });
-    storeSession(me);
-    const ue = userEvent.setup();
-    render(
-      <AppProviders client={createQueryClient()}>
-        <ExportForm figure={figure()} canvas={{ widthMm: 84, heightMm: 60, dpi: 300 }} transparentDefault={false} />
-      </AppProviders>,
-    );
+    const ue = openExportForm(84);
     const format = (await screen.findByTestId('exp-format')) as HTMLSelectElement;
     // The profile lists TIFF, PNG, then PDF and SVG: in that order, TIFF chosen.
     expect(Array.from(format.options).map((o) => o.value).slice(0, 6)).toEqual(['tiff', 'png', 'pdf-radial', 'pdf-section', 'svg-radial', 'svg-section']);
@@ -517,8 +484,7 @@ describe('Export dialog: the delivery profile first, the preflight before export
 
     // 300 dpi and 200 mm: below the profile's minimum and wider than its widest column; the button says so.
     await ue.selectOptions(screen.getByTestId('exp-dpi'), '300');
-    await ue.clear(screen.getByTestId('exp-width'));
-    await ue.type(screen.getByTestId('exp-width'), '200');
+    await retype(ue, screen.getByTestId('exp-width'), '200');
     expect(rows()).toMatchObject({ resolution: 'fail', column_width: 'fail' });
     expect(within(screen.getByTestId('exp-preflight')).getByText(/wider than every column: it would be reduced to 174 mm \(87%\)/)).toBeTruthy();
     expect(screen.getByTestId('exp-submit').textContent).toMatch(/^Export TIFF · 200 × 60 mm · 300 dpi · CMYK GRACOL \(preflight: \d+ failing\)$/);

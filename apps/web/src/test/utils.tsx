@@ -111,6 +111,24 @@ export function renderApp(route = '/') {
   );
 }
 
+/**
+ * A signed-in `role` opening the app at `route`: the session stored, /me and /publications answered (signedInRoutes)
+ * plus `routes`. Returns the signed-in user and the fetch mock (calls, callsTo).
+ */
+export function openAs(role: Role, route: string, routes: Record<string, Handler> = {}) {
+  const me = user(role);
+  const api = mockFetch({ ...signedInRoutes(me), ...routes });
+  storeSession(me);
+  renderApp(route);
+  return { me, ...api };
+}
+
+/** Replaces what a field holds, as a user would: clears it, then types `text` (userEvent, so every key fires). */
+export async function retype(ue: { clear(el: Element): Promise<void>; type(el: Element, text: string): Promise<void> }, field: HTMLElement, text: string) {
+  await ue.clear(field);
+  await ue.type(field, text);
+}
+
 export function deferred<T>() {
   let resolve!: (value: T) => void;
   let reject!: (err: unknown) => void;

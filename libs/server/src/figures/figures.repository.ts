@@ -1,7 +1,7 @@
 import { Injectable } from '@nestjs/common';
 import { InjectRepository } from '@nestjs/typeorm';
 import { Repository, type EntityManager } from 'typeorm';
-import type { FigureStatus, Recipe } from '@psiform/contracts';
+import type { FigureSortKey, FigureStatus, Recipe } from '@psiform/contracts';
 import { FigureEntity } from './figure.entity';
 import { FigureVersionEntity } from './figure-version.entity';
 import { AssetEntity } from '../assets/asset.entity';
@@ -16,8 +16,6 @@ import { NotFoundError } from '../common/domain-errors';
 import type { PaletteColours } from './palette';
 
 /** Columns the figure list can be sorted by (GET /api/figures?sort=). */
-export const FIGURE_SORTS = ['updatedAt', 'createdAt', 'title', 'status'] as const;
-export type FigureSort = (typeof FIGURE_SORTS)[number];
 
 export interface NewVersion {
   recipe: Recipe;
@@ -30,7 +28,7 @@ export interface FigureListFilter {
   publicationIds: string[] | 'all';
   q?: string;
   status?: FigureStatus;
-  sort: FigureSort;
+  sort: FigureSortKey;
   order: 'asc' | 'desc';
   offset: number;
   limit: number;
@@ -115,7 +113,7 @@ async function enforcedPaletteIn(em: EntityManager, publicationId: string): Prom
   return { swatchbookId: book.id, positive: book.colors.positive, negative: book.colors.negative, background: book.colors.background };
 }
 
-const SORT_COLUMNS: Record<FigureSort, string> = { updatedAt: 'f.updated_at', createdAt: 'f.created_at', title: 'f.title', status: 'f.status' };
+const SORT_COLUMNS: Record<FigureSortKey, string> = { updatedAt: 'f.updated_at', createdAt: 'f.created_at', title: 'f.title', status: 'f.status', versionNumber: 'f.current_version' };
 
 @Injectable()
 export class TypeormFiguresStore implements FiguresStore {
