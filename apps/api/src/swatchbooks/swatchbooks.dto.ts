@@ -33,19 +33,13 @@ export class UpdateSwatchbookBody {
   colors?: unknown;
 }
 
-/** The exported file: {format, formatVersion, name, colors, exportedAt?}. */
-export class ImportSwatchbookBody extends SwatchbookScopeFields {
+/** The exported file: {format, formatVersion, name, colors, exportedAt?}; name, colors and the scope as for a new one. */
+export class ImportSwatchbookBody extends CreateSwatchbookBody {
   @IsDefined({ message: 'format is required' })
   format: unknown;
 
   @IsDefined({ message: 'formatVersion is required' })
   formatVersion: unknown;
-
-  @IsDefined({ message: 'name is required' })
-  name: unknown;
-
-  @IsDefined({ message: 'colors is required' })
-  colors: unknown;
 
   @IsOptional() // informative only; the service ignores it
   exportedAt?: unknown;

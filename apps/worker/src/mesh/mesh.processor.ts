@@ -1,8 +1,7 @@
 import { Injectable } from '@nestjs/common';
-import { UnrecoverableError } from 'bullmq';
-import { parseRecipe } from '@psiform/contracts';
 import { AssetStore, ENGINE_VERSION, MESH_PROGRESS, ObjectStorage, type TrackedJobHandler, type TrackedOutcome, type TrackedRun } from '@psiform/server';
 import { buildMesh } from './mesh-assets';
+import { versionOf } from '../render/tracked-job';
 
 /**
  * Mesh jobs: sampling -> threshold -> extracting -> encoding -> storing -> done, each stage written to the Job
@@ -23,15 +22,10 @@ export class MeshJobProcessor implements TrackedJobHandler<'mesh'> {
   ) {}
 
   async run(t: TrackedRun<'mesh'>): Promise<TrackedOutcome> {
-    const ctx = t.ctx;
-    if (!ctx.version || !ctx.figure) throw new UnrecoverableError('the figure version of this job no longer exists');
-    const parsed = parseRecipe(ctx.version.recipe);
-    if (!parsed.ok) throw new UnrecoverableError(`the stored recipe is not valid: ${parsed.issues.map((i) => `${i.path}: ${i.message}`).join('; ')}`);
-    const recipe = parsed.recipe;
-    const version = ctx.version;
+    const { version, recipe } = versionOf(t.ctx);
     const built = await buildMesh(
       { assets: this.assets, storage: this.storage, engineVersion: this.engineVersion },
-      { recipe, version, publicationId: ctx.job.publicationId },
+      { recipe, version, publicationId: t.ctx.job.publicationId },
       (stage) => t.stage(stage),
     );
     const { timings, assets: out } = built;

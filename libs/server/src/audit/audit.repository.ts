@@ -3,7 +3,7 @@ import { InjectRepository } from '@nestjs/typeorm';
 import { Repository, type EntityManager } from 'typeorm';
 import type { AuditSubject, FigureStatus } from '@psiform/contracts';
 import { AuditEntryEntity } from './audit-entry.entity';
-import { UserEntity } from '../users/user.entity';
+import { joinUserName, rowsWithUserName } from '../users/user-names';
 
 export interface NewAuditEntry {
   figureId: string;
@@ -59,33 +59,21 @@ export class TypeormAuditStore implements AuditStore {
   private get ds(): EntityManager { return this.entries.manager; }
 
   async listForFigure(figureId: string) {
-    const { entities, raw } = await this.ds
-      .getRepository(AuditEntryEntity)
-      .createQueryBuilder('e')
-      .leftJoin(UserEntity, 'u', 'u.id = e.actor_id')
-      .addSelect('u.display_name', 'actor_name')
-      .where('e.figure_id = :figureId', { figureId })
-      .orderBy('e.seq', 'ASC')
-      .getRawAndEntities();
-    return entities.map((entry, i) => ({ entry, actorName: (raw[i]?.actor_name as string | undefined) ?? null }));
+    const rows = await rowsWithUserName(
+      joinUserName(this.ds.getRepository(AuditEntryEntity).createQueryBuilder('e'), 'e.actor_id')
+        .where('e.figure_id = :figureId', { figureId })
+        .orderBy('e.seq', 'ASC'),
+    );
+    return rows.map(({ row, userName }) => ({ entry: row, actorName: userName }));
   }
 
   async listForSubjects(q: SubjectAuditQuery) {
-    const qb = this.ds
-      .getRepository(AuditEntryEntity)
-      .createQueryBuilder('e')
-      .leftJoin(UserEntity, 'u', 'u.id = e.actor_id')
-      .addSelect('u.display_name', 'actor_name')
-      .where(`e.subject_kind <> 'figure'`);
+    const qb = joinUserName(this.ds.getRepository(AuditEntryEntity).createQueryBuilder('e'), 'e.actor_id').where(`e.subject_kind <> 'figure'`);
     if (q.subjectKind) qb.andWhere('e.subject_kind = :kind', { kind: q.subjectKind });
     if (q.subjectId) qb.andWhere('e.subject_id = :sid', { sid: q.subjectId });
     const total = await qb.getCount();
-    const { entities, raw } = await qb
-      .orderBy('e.seq', 'DESC')
-      .offset((q.page - 1) * q.pageSize)
-      .limit(q.pageSize)
-      .getRawAndEntities();
-    return { rows: entities.map((entry, i) => ({ entry, actorName: (raw[i]?.actor_name as string | undefined) ?? null })), total };
+    const rows = await rowsWithUserName(qb.orderBy('e.seq', 'DESC').offset((q.page - 1) * q.pageSize).limit(q.pageSize));
+    return { rows: rows.map(({ row, userName }) => ({ entry: row, actorName: userName })), total };
   }
 }
 

@@ -18,27 +18,25 @@ export abstract class DomainError extends Error {
   }
 }
 
+/**
+ * The base of each kind below: one class per kind (so callers can throw and catch by name) without writing the kind
+ * out twice.
+ */
+function ofKind<K extends DomainErrorKind>(kind: K) {
+  return class extends DomainError {
+    readonly kind: K = kind;
+  };
+}
+
 /** Bad input: each message names its field (`recipe.grid.n: …`). */
-export class InvalidInputError extends DomainError {
-  readonly kind = 'invalid' as const;
-}
-export class ForbiddenError extends DomainError {
-  readonly kind = 'forbidden' as const;
-}
-export class NotFoundError extends DomainError {
-  readonly kind = 'not_found' as const;
-}
+export class InvalidInputError extends ofKind('invalid') {}
+export class ForbiddenError extends ofKind('forbidden') {}
+export class NotFoundError extends ofKind('not_found') {}
 /** The request is fine but the state does not allow it now (a proof in review, a locked swatchbook, a race lost). */
-export class ConflictError extends DomainError {
-  readonly kind = 'conflict' as const;
-}
-export class TooLargeError extends DomainError {
-  readonly kind = 'too_large' as const;
-}
+export class ConflictError extends ofKind('conflict') {}
+export class TooLargeError extends ofKind('too_large') {}
 /** A dependency is down or too slow; the message says which. */
-export class UnavailableError extends DomainError {
-  readonly kind = 'unavailable' as const;
-}
+export class UnavailableError extends ofKind('unavailable') {}
 
 /**
  * A gate stopped the action (apps/api gates/gate.ts): the checks named in `failures` failed, and the action goes

@@ -9,6 +9,7 @@ import { FigureVersionEntity } from '../figures/figure-version.entity';
 import { PublicationEntity } from '../publications/publication.entity';
 import { MembershipEntity } from '../publications/membership.entity';
 import { UserEntity } from '../users/user.entity';
+import { joinUserName, rowsWithUserName } from '../users/user-names';
 import { HouseStyleEntity } from '../swatchbooks/house-style.entity';
 import { insertAudit, type NewAuditEntry } from '../audit/audit.repository';
 import { ReviewRoundEntity } from './review-round.entity';
@@ -127,16 +128,13 @@ export class TypeormReviewsStore implements ReviewsStore {
   }
 
   async listComments(figureId: string) {
-    const { entities, raw } = await this.ds
-      .getRepository(CommentEntity)
-      .createQueryBuilder('c')
-      .leftJoin(UserEntity, 'u', 'u.id = c.author_id')
-      .addSelect('u.display_name', 'author_name')
-      .where('c.figure_id = :figureId', { figureId })
-      .orderBy('c.created_at', 'ASC')
-      .addOrderBy('c.id', 'ASC')
-      .getRawAndEntities();
-    return entities.map((comment, i) => ({ comment, authorName: (raw[i]?.author_name as string | undefined) ?? null }));
+    const rows = await rowsWithUserName(
+      joinUserName(this.ds.getRepository(CommentEntity).createQueryBuilder('c'), 'c.author_id')
+        .where('c.figure_id = :figureId', { figureId })
+        .orderBy('c.created_at', 'ASC')
+        .addOrderBy('c.id', 'ASC'),
+    );
+    return rows.map(({ row, userName }) => ({ comment: row, authorName: userName }));
   }
 
   async reviewDesk(publicationIds: string[] | 'all', statuses: FigureStatus[] = ['in_review']): Promise<ReviewDeskRow[]> {

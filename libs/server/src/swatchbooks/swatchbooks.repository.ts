@@ -9,7 +9,7 @@ import { SwatchbookEntity, SwatchbookVersionEntity } from './swatchbook.entity';
 import { HouseStyleEntity } from './house-style.entity';
 import { BatchEntity, BatchItemEntity } from './batch.entity';
 import { ConflictError } from '../common/domain-errors';
-import { UserEntity } from '../users/user.entity';
+import { joinUserName, rowsWithUserName } from '../users/user-names';
 import { insertAudit, insertSubjectAudit, type NewAuditEntry, type NewSubjectAuditEntry } from '../audit/audit.repository';
 
 /** The house style's rules (what PUT sets). */
@@ -152,15 +152,10 @@ export class TypeormSwatchbooksStore implements SwatchbooksStore {
   }
 
   async houseStyleView(publicationId: string) {
-    const { entities, raw } = await this.ds
-      .getRepository(HouseStyleEntity)
-      .createQueryBuilder('h')
-      .leftJoin(UserEntity, 'u', 'u.id = h.override_by')
-      .addSelect('u.display_name', 'override_by_name')
-      .where('h.publication_id = :publicationId', { publicationId })
-      .getRawAndEntities();
-    if (!entities[0]) return null;
-    return { house: entities[0], overrideByName: (raw[0]?.override_by_name as string | null | undefined) ?? null };
+    const [first] = await rowsWithUserName(
+      joinUserName(this.ds.getRepository(HouseStyleEntity).createQueryBuilder('h'), 'h.override_by').where('h.publication_id = :publicationId', { publicationId }),
+    );
+    return first ? { house: first.row, overrideByName: first.userName } : null;
   }
 
   putHouseStyle(h: HouseStyleRules, opts: { override?: HouseStyleOverride | null; audits?: GateAudits } = {}) {
