@@ -1,5 +1,5 @@
 import { PSIFORM_PALETTE, type BatchDto, type HouseStyleDto, type HouseStyleImpactDto, type Page, type SubjectAuditEntryDto } from '@psiform/contracts';
-import { auth, demoTokens, smallRecipe, startTestApp, RUN_ID, type TestApp } from './support';
+import { auth, demoTokens, staffedPublication, smallRecipe, startTestApp, RUN_ID, type TestApp } from './support';
 
 /**
  * Colour checks that gate (issue 13, part 3): a swatchbook failing at error level (phases ΔE00 2.9 apart under
@@ -36,11 +36,7 @@ describe('colour checks that gate (e2e)', () => {
   beforeAll(async () => {
     t = await startTestApp();
     tok = await demoTokens(t);
-    pubId = (await post('/api/publications', tok.admin, { title: `Colour Bench ${RUN_ID}`, publisher: `Harrowgate Press ${RUN_ID}`, kind: 'book' }).expect(201)).body.id;
-    for (const k of ['illustrator', 'editor', 'artDirector'] as const) {
-      const me = (await get('/api/auth/me', tok[k]).expect(200)).body;
-      await post(`/api/publications/${pubId}/members`, tok.admin, { userId: me.id }).expect(201);
-    }
+    pubId = await staffedPublication(t, tok, { title: `Colour Bench ${RUN_ID}`, publisher: `Harrowgate Press ${RUN_ID}`, kind: 'book' });
     failing = (await post('/api/swatchbooks', tok.artDirector, { name: `Red and green ${RUN_ID}`, colors: FAILING, publicationId: pubId }).expect(201)).body.id;
     passing = (await post('/api/swatchbooks', tok.artDirector, { name: `Brick and slate ${RUN_ID}`, colors: PASSING, publicationId: pubId }).expect(201)).body.id;
     draftId = (await post('/api/figures', tok.illustrator, { publicationId: pubId, title: `Plate 3 ${RUN_ID}`, recipe: smallRecipe() }).expect(201)).body.id;

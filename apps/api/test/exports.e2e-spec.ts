@@ -9,7 +9,7 @@ import { DOMParser } from '@xmldom/xmldom';
 import { unzipSync, strFromU8 } from 'fflate';
 import { PNG } from 'pngjs';
 import { EXPORT_STAGES, PSIFORM_PALETTE, type JobDto } from '@psiform/contracts';
-import { auth, demoTokens, phasePixels, smallRecipe, startTestApp, DEMO_PUBLICATION, RUN_ID, type TestApp, deleteFigureSets, newAccount } from './support';
+import { auth, demoTokens, jobEnded, phasePixels, smallRecipe, startTestApp, DEMO_PUBLICATION, RUN_ID, type TestApp, deleteFigureSets, newAccount } from './support';
 import { readSse, startWorkerProcess, waitFor, type WorkerProcess } from './worker-process';
 
 const WEB_DIST = join(__dirname, '..', '..', 'web', 'dist');
@@ -42,12 +42,7 @@ describe('exports (e2e)', () => {
   const pub = DEMO_PUBLICATION.id;
   const setIds: string[] = [];
 
-  const getJob = async (jobId: string): Promise<JobDto> => (await t.http().get(`/api/jobs/${jobId}`).set(auth(tok.editor)).expect(200)).body;
-  const finished = (jobId: string, timeoutMs = 90000) =>
-    waitFor(`job ${jobId} to finish`, async () => {
-      const j = await getJob(jobId);
-      return j.state === 'completed' || j.state === 'failed' ? j : undefined;
-    }, timeoutMs, 200);
+  const finished = (jobId: string, timeoutMs = 90000) => jobEnded(t, tok.editor, jobId, timeoutMs);
   const exportJob = async (body: unknown, token = tok.illustrator, id = figureId): Promise<string> =>
     (await t.http().post(`/api/figures/${id}/exports`).set(auth(token)).send(body as object).expect(201)).body.jobId;
   const jobCount = async (id = figureId): Promise<number> => (await t.ds.query(`SELECT count(*)::int AS n FROM jobs WHERE figure_id = $1`, [id]))[0].n;

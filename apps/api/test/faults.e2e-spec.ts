@@ -5,7 +5,7 @@ import { join } from 'node:path';
 import { DataSource } from 'typeorm';
 import { ObjectStorage, REQUEST_DB_TIMEOUTS, dataSourceOptions } from '@psiform/server';
 import type { JobDto } from '@psiform/contracts';
-import { auth, demoTokens, smallRecipe, startTestApp, DEMO_PUBLICATION, RUN_ID, type TestApp } from './support';
+import { auth, demoTokens, jobEnded, jobOf, smallRecipe, startTestApp, DEMO_PUBLICATION, RUN_ID, type TestApp } from './support';
 import { startWorkerProcess, waitFor, type WorkerProcess } from './worker-process';
 
 const API_MAIN = join(__dirname, '..', 'dist', 'main.js');
@@ -53,12 +53,8 @@ describe('faults (e2e)', () => {
   const workers: WorkerProcess[] = [];
   const createFigure = async (title: string, recipe: unknown): Promise<string> =>
     (await t.http().post('/api/figures').set(auth(tok.illustrator)).send({ publicationId: DEMO_PUBLICATION.id, title: `${title} ${RUN_ID}`, recipe }).expect(201)).body.id;
-  const getJob = async (jobId: string): Promise<JobDto> => (await t.http().get(`/api/jobs/${jobId}`).set(auth(tok.editor)).expect(200)).body;
-  const finished = (jobId: string, timeoutMs: number) =>
-    waitFor(`job ${jobId} to finish`, async () => {
-      const j = await getJob(jobId);
-      return j.state === 'completed' || j.state === 'failed' ? j : undefined;
-    }, timeoutMs, 200);
+  const getJob = (jobId: string): Promise<JobDto> => jobOf(t, tok.editor, jobId);
+  const finished = (jobId: string, timeoutMs: number) => jobEnded(t, tok.editor, jobId, timeoutMs);
   /** Mesh asset rows of a figure, and the objects under their key prefix. */
   async function meshFiles(figureId: string): Promise<{ kinds: string[]; objects: string[] }> {
     const rows: Array<{ kind: string; storage_key: string }> = await t.ds.query(

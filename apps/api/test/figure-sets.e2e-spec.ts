@@ -1,9 +1,9 @@
 import { existsSync } from 'node:fs';
 import { join } from 'node:path';
 import { PNG } from 'pngjs';
-import { PSIFORM_PALETTE, type FigureSetDto, type JobDto } from '@psiform/contracts';
-import { auth, demoTokens, phasePixels, smallRecipe, startTestApp, DEMO_PUBLICATION, RUN_ID, type TestApp, deleteFigureSets } from './support';
-import { startWorkerProcess, waitFor, type WorkerProcess } from './worker-process';
+import { PSIFORM_PALETTE, type FigureSetDto } from '@psiform/contracts';
+import { auth, demoTokens, jobEnded, phasePixels, smallRecipe, startTestApp, DEMO_PUBLICATION, RUN_ID, type TestApp, deleteFigureSets } from './support';
+import { startWorkerProcess, type WorkerProcess } from './worker-process';
 
 const WEB_DIST = join(__dirname, '..', '..', 'web', 'dist');
 
@@ -50,10 +50,7 @@ describe('figure sets (e2e)', () => {
     expect(listed.map((s) => s.id)).toContain(set.id);
 
     const jobId: string = (await t.http().post(`/api/figure-sets/${set.id}/exports`).set(auth(tok.illustrator)).send({ format: 'png', widthMm: 178, heightMm: 60, dpi: 300 }).expect(201)).body.jobId;
-    const job: JobDto = await waitFor('the figure-set job to finish', async () => {
-      const j: JobDto = (await t.http().get(`/api/jobs/${jobId}`).set(auth(tok.editor)).expect(200)).body;
-      return j.state === 'completed' || j.state === 'failed' ? j : undefined;
-    }, 150000, 300);
+    const job = await jobEnded(t, tok.editor, jobId, 150000, 300, 'the figure-set job to finish');
     expect(job.error ?? null).toBeNull();
     expect(job).toMatchObject({ type: 'render', state: 'completed', stage: 'done', progress: 100 });
     // None of the three had a mesh: the job meshed each (glb + stl per figure) and then drew the set.

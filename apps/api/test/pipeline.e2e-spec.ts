@@ -4,7 +4,7 @@ import { promisify } from 'node:util';
 import type { AddressInfo } from 'node:net';
 import { MESH_STAGES, type JobDto } from '@psiform/contracts';
 import { ObjectStorage } from '@psiform/server';
-import { auth, demoTokens, smallRecipe, startTestApp, DEMO_PUBLICATION, RUN_ID, type TestApp, newAccount } from './support';
+import { auth, demoTokens, jobEnded, jobOf, smallRecipe, startTestApp, DEMO_PUBLICATION, RUN_ID, type TestApp, newAccount } from './support';
 import { readSse, startWorkerProcess, waitFor, type WorkerProcess } from './worker-process';
 
 // Khronos glTF validator (npm gltf-validator), the reference check for glTF 2.0 files.
@@ -27,12 +27,8 @@ describe('mesh pipeline (e2e)', () => {
   const createFigure = async (title: string, recipe: unknown): Promise<string> =>
     (await t.http().post('/api/figures').set(auth(tok.illustrator)).send({ publicationId: pub, title: `${title} ${RUN_ID}`, recipe }).expect(201)).body.id;
   const queueMesh = async (figureId: string): Promise<string> => (await t.http().post(`/api/figures/${figureId}/meshes`).set(auth(tok.illustrator)).expect(201)).body.jobId;
-  const getJob = async (jobId: string): Promise<JobDto> => (await t.http().get(`/api/jobs/${jobId}`).set(auth(tok.editor)).expect(200)).body;
-  const finished = (jobId: string, timeoutMs = 60000) =>
-    waitFor(`job ${jobId} to finish`, async () => {
-      const j = await getJob(jobId);
-      return j.state === 'completed' || j.state === 'failed' ? j : undefined;
-    }, timeoutMs, 200);
+  const getJob = (jobId: string): Promise<JobDto> => jobOf(t, tok.editor, jobId);
+  const finished = (jobId: string, timeoutMs = 60000) => jobEnded(t, tok.editor, jobId, timeoutMs);
 
   /** The SSE stream as the client reads it (fetch with a bearer token). */
   async function events(jobId: string, token = tok.editor): Promise<JobDto[]> {

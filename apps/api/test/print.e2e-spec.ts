@@ -4,8 +4,8 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { unzipSync, strFromU8 } from 'fflate';
 import { DEFAULT_DELIVERY_PROFILE, PREFLIGHT_RULES, type JobDto, type PreflightReport } from '@psiform/contracts';
-import { auth, demoTokens, startTestApp, RUN_ID, type TestApp } from './support';
-import { startWorkerProcess, waitFor, type WorkerProcess } from './worker-process';
+import { auth, demoTokens, jobEnded, startTestApp, RUN_ID, type TestApp } from './support';
+import { startWorkerProcess, type WorkerProcess } from './worker-process';
 
 const WEB_DIST = join(__dirname, '..', '..', 'web', 'dist');
 const DIR = mkdtempSync(join(tmpdir(), 'psiform-print-e2e-'));
@@ -25,11 +25,7 @@ describe('print production (e2e)', () => {
   let pub: string;
   let figureId: string;
 
-  const finished = (jobId: string) =>
-    waitFor(`job ${jobId} to finish`, async () => {
-      const j: JobDto = (await t.http().get(`/api/jobs/${jobId}`).set(auth(tok.editor)).expect(200)).body;
-      return j.state === 'completed' || j.state === 'failed' ? j : undefined;
-    }, 120000, 250);
+  const finished = (jobId: string) => jobEnded(t, tok.editor, jobId, 120000, 250);
   const exportOk = async (body: object): Promise<JobDto> => {
     const { jobId } = (await t.http().post(`/api/figures/${figureId}/exports`).set(auth(tok.illustrator)).send(body).expect(201)).body;
     const job = await finished(jobId);

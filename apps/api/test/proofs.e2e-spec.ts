@@ -3,7 +3,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import type { INestApplicationContext } from '@nestjs/common';
 import type { FigureVersionSummaryDto, ReviewDeskItemDto, VersionComparisonDto } from '@psiform/contracts';
-import { auth, clearLoginCounters, demoTokens, smallRecipe, startTestApp, RUN_ID, type TestApp, newAccount } from './support';
+import { auth, clearLoginCounters, demoTokens, staffedPublication, smallRecipe, startTestApp, RUN_ID, type TestApp, newAccount } from './support';
 import { MailFake, freePort, startInProcessWorker } from './editorial-support';
 import { waitFor } from './worker-process';
 
@@ -32,11 +32,7 @@ describe('proofs: compare versions, render a version, desk filters (e2e)', () =>
     await fake.start();
     t = await startTestApp({ MAIL_OUTBOX_FILE: fake.outbox, PUBLIC_BASE_URL: base });
     tok = await demoTokens(t);
-    pubId = (await post('/api/publications', tok.admin, { title: `Proof Bench ${RUN_ID}`, publisher: 'Harrowgate Press', kind: 'book' }).expect(201)).body.id;
-    for (const k of ['illustrator', 'editor', 'artDirector'] as const) {
-      const me = (await get('/api/auth/me', tok[k]).expect(200)).body;
-      await post(`/api/publications/${pubId}/members`, tok.admin, { userId: me.id }).expect(201);
-    }
+    pubId = await staffedPublication(t, tok, { title: `Proof Bench ${RUN_ID}`, publisher: 'Harrowgate Press', kind: 'book' });
     outsider = (await newAccount(t, tok.admin, { name: 'proof-outsider', displayName: 'Outside Editor', role: 'editor' })).token;
     otherIllustrator = (await newAccount(t, tok.admin, { name: 'proof-ill2', displayName: 'Second Illustrator', role: 'illustrator', memberOf: pubId })).token;
 

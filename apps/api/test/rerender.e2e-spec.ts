@@ -1,6 +1,6 @@
 import type { INestApplicationContext } from '@nestjs/common';
 import type { BatchDto, FigureDto, JobDto } from '@psiform/contracts';
-import { auth, demoTokens, smallRecipe, startTestApp, RUN_ID, type TestApp } from './support';
+import { auth, demoTokens, staffedPublication, smallRecipe, startTestApp, RUN_ID, type TestApp } from './support';
 import { startInProcessWorker } from './editorial-support';
 import { waitFor } from './worker-process';
 
@@ -18,11 +18,7 @@ describe('batch re-render (e2e)', () => {
   beforeAll(async () => {
     t = await startTestApp();
     tok = await demoTokens(t);
-    pubId = (await post('/api/publications', tok.admin, { title: `Periodic Trends Workbook ${RUN_ID}`, publisher: 'Fenwick Lane Books', kind: 'book' }).expect(201)).body.id;
-    for (const token of [tok.illustrator, tok.editor, tok.artDirector]) {
-      const me = (await t.http().get('/api/auth/me').set(auth(token)).expect(200)).body;
-      await post(`/api/publications/${pubId}/members`, tok.admin, { userId: me.id }).expect(201);
-    }
+    pubId = await staffedPublication(t, tok, { title: `Periodic Trends Workbook ${RUN_ID}`, publisher: 'Fenwick Lane Books', kind: 'book' });
     sbId = (await post('/api/swatchbooks', tok.artDirector, { name: `Workbook palette ${RUN_ID}`, publicationId: pubId, colors: { positive: '#c8553d', negative: '#2f6690', background: '#fbfaf7', label: '#1a1a1a' } }).expect(201)).body.id;
     await t.http().put(`/api/publications/${pubId}/house-style`).set(auth(tok.artDirector)).send({ swatchbookId: sbId }).expect(200);
     worker = await startInProcessWorker({});

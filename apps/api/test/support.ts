@@ -3,11 +3,12 @@ import type { INestApplication } from '@nestjs/common';
 import request from 'supertest';
 import { DataSource } from 'typeorm';
 import type Redis from 'ioredis';
-import type { LoginResponse } from '@psiform/contracts';
+import type { JobDto, LoginResponse } from '@psiform/contracts';
 import { loadConfig, type AppConfig, runMigrations, dataSourceOptions, REDIS_CLIENT } from '@psiform/server';
 import { runSeed } from '../src/seed/seed';
 import { createApp } from '../src/app.factory';
 import { DEMO_PASSWORD as DEMO_PASSWORD_VALUE } from '../src/seed/demo-scenario';
+import { waitFor } from './worker-process';
 
 export { DEMO_PASSWORD, DEMO_USERS, DEMO_PUBLICATION } from '../src/seed/demo-scenario';
 
@@ -119,6 +120,36 @@ export async function demoTokens(t: TestApp): Promise<{ illustrator: string; edi
     ['illustrator', 'editor', 'artdirector', 'admin'].map(async (n) => (await login(t, `${n}@demo.psiform.test`, DEMO_PASSWORD_VALUE)).accessToken),
   );
   return { illustrator, editor, artDirector, admin };
+}
+
+/** The job as `token` sees it (GET /api/jobs/:id, expected 200). */
+export async function jobOf(t: TestApp, token: string, jobId: string): Promise<JobDto> {
+  return (await t.http().get(`/api/jobs/${jobId}`).set(auth(token)).expect(200)).body as JobDto;
+}
+
+/** Polls the job as `token` sees it until it has completed or failed, and returns it (a timeout throws). */
+export function jobEnded(t: TestApp, token: string, jobId: string, timeoutMs = 60000, everyMs = 200, what = `job ${jobId} to finish`): Promise<JobDto> {
+  return waitFor(what, async () => {
+    const j = await jobOf(t, token, jobId);
+    return j.state === 'completed' || j.state === 'failed' ? j : undefined;
+  }, timeoutMs, everyMs);
+}
+
+/**
+ * A publication of this run (POST /api/publications as the demo admin) with the demo illustrator, editor and art
+ * director as members; its row goes with the run (TestApp.close deletes the run's publications by title).
+ */
+export async function staffedPublication(
+  t: TestApp,
+  tok: { illustrator: string; editor: string; artDirector: string; admin: string },
+  body: { title: string; publisher: string; kind: string },
+): Promise<string> {
+  const pubId = (await t.http().post('/api/publications').set(auth(tok.admin)).send(body).expect(201)).body.id as string;
+  for (const token of [tok.illustrator, tok.editor, tok.artDirector]) {
+    const me = (await t.http().get('/api/auth/me').set(auth(token)).expect(200)).body as { id: string };
+    await t.http().post(`/api/publications/${pubId}/members`).set(auth(tok.admin)).send({ userId: me.id }).expect(201);
+  }
+  return pubId;
 }
 
 /** A small valid recipe document (real 2p_z, Z = 1); `over` replaces top-level parts. */

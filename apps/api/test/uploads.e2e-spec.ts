@@ -2,8 +2,8 @@ import type { JobDto } from '@psiform/contracts';
 import { compileState, type Bohr } from '@psiform/orbitals';
 import { encodeNrrd } from '@psiform/meshing';
 import { ObjectStorage } from '@psiform/server';
-import { auth, demoTokens, smallRecipe, startTestApp, DEMO_PUBLICATION, RUN_ID, type TestApp } from './support';
-import { startWorkerProcess, waitFor, type WorkerProcess } from './worker-process';
+import { auth, demoTokens, jobEnded, smallRecipe, startTestApp, DEMO_PUBLICATION, RUN_ID, type TestApp } from './support';
+import { startWorkerProcess, type WorkerProcess } from './worker-process';
 
 // eslint-disable-next-line @typescript-eslint/no-require-imports
 const validator = require('gltf-validator') as { validateBytes(b: Uint8Array): Promise<{ issues: { numErrors: number } }> };
@@ -52,10 +52,7 @@ describe('uploads (e2e)', () => {
 
   const meshAndWait = async (figureId: string): Promise<JobDto> => {
     const { jobId } = (await t.http().post(`/api/figures/${figureId}/meshes`).set(auth(tok.illustrator)).expect(201)).body;
-    return waitFor('the mesh job', async () => {
-      const j: JobDto = (await t.http().get(`/api/jobs/${jobId}`).set(auth(tok.illustrator)).expect(200)).body;
-      return j.state === 'completed' || j.state === 'failed' ? j : undefined;
-    }, 60000, 200);
+    return jobEnded(t, tok.illustrator, jobId, 60000, 200, 'the mesh job');
   };
 
   beforeAll(async () => {
