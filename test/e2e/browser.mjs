@@ -157,3 +157,8 @@ export async function expectOutcome(page, { ok, errors, what, timeout }) {
   }
   if (!result.ok) throw new Error(`${what} failed; the page says (${result.testId}): ${result.text}`);
 }
+
+/** expectOutcome where the outcome is the element `testId` turning up (visible, or only `attached` for a marker). */
+export function expectShown(page, testId, { errors, what, timeout, state = 'visible' }) {
+  return expectOutcome(page, { ok: () => page.getByTestId(testId).waitFor({ state, timeout }), errors, what, timeout });
+}

@@ -7,7 +7,7 @@
 import assert from 'node:assert/strict';
 import { test } from 'node:test';
 import { PNG } from 'pngjs';
-import { apiGet, browserPerFile, DEMO_ILLUSTRATOR, expectOutcome, newPage, signIn } from './browser.mjs';
+import { apiGet, browserPerFile, DEMO_ILLUSTRATOR, expectOutcome, expectShown, newPage, signIn } from './browser.mjs';
 import { countPhasePixels } from './pixels.mjs';
 
 const browser = browserPerFile();
@@ -21,12 +21,7 @@ test('an illustrator creates a 2p_z figure, computes its mesh and sees both phas
     // Library -> New figure.
     await page.getByTestId('nav-library').click();
     await page.getByTestId('library-page').waitFor();
-    await expectOutcome(page, {
-      ok: () => page.getByTestId('library-new-figure').waitFor({ state: 'visible', timeout: 20_000 }),
-      errors: ['publications-error', 'publications-empty'],
-      what: 'The library offering "New figure"',
-      timeout: 20_000,
-    });
+    await expectShown(page, 'library-new-figure', { errors: ['publications-error', 'publications-empty'], what: 'The library offering "New figure"', timeout: 20_000, state: 'visible' });
     // "New figure" opens the one Composer for this publication.
     await page.getByTestId('library-new-figure').click();
     await page.getByTestId('studio-page').waitFor();
@@ -74,12 +69,7 @@ test('an illustrator creates a 2p_z figure, computes its mesh and sees both phas
 
     // Compute the mesh and follow the job to the end.
     await page.getByTestId('compute-mesh').click();
-    await expectOutcome(page, {
-      ok: () => page.getByTestId('job-progress').waitFor({ timeout: 20_000 }),
-      errors: ['compute-error'],
-      what: 'Queueing the mesh job (POST /api/figures/:id/meshes)',
-      timeout: 20_000,
-    });
+    await expectShown(page, 'job-progress', { errors: ['compute-error'], what: 'Queueing the mesh job (POST /api/figures/:id/meshes)', timeout: 20_000 });
     await expectOutcome(page, {
       ok: () => page.locator('[data-testid="job-progress"][data-state="completed"]').waitFor({ timeout: 120_000 }),
       errors: ['job-error', 'job-stream-error'],
@@ -89,22 +79,12 @@ test('an illustrator creates a 2p_z figure, computes its mesh and sees both phas
     assert.equal(await page.getByTestId('job-progress-bar').getAttribute('aria-valuenow'), '100');
 
     // The finished mesh: statistics per phase, downloads, and the viewport.
-    await expectOutcome(page, {
-      ok: () => page.getByTestId('mesh-stats').waitFor({ timeout: 30_000 }),
-      errors: ['viewport-error'],
-      what: 'The mesh statistics appearing after completion',
-      timeout: 30_000,
-    });
+    await expectShown(page, 'mesh-stats', { errors: ['viewport-error'], what: 'The mesh statistics appearing after completion', timeout: 30_000 });
     const phases = await page.getByTestId('mesh-stats-row').locator('td:first-child').allTextContents();
     assert.deepEqual(phases, ['ψ > 0 (phase +)', 'ψ < 0 (phase −)'], 'a real 2p_z has one surface per sign');
     assert.equal(await page.getByTestId('download-glb').isVisible(), true);
 
-    await expectOutcome(page, {
-      ok: () => page.getByTestId('viewport-ready').waitFor({ state: 'attached', timeout: 90_000 }),
-      errors: ['viewport-error'],
-      what: 'The viewport loading the GLB and drawing a frame',
-      timeout: 90_000,
-    });
+    await expectShown(page, 'viewport-ready', { errors: ['viewport-error'], what: 'The viewport loading the GLB and drawing a frame', timeout: 90_000, state: 'attached' });
 
     const canvas = page.getByTestId('figure-viewport').locator('canvas');
     const png = PNG.sync.read(await canvas.screenshot({ timeout: 30_000 }));

@@ -4,7 +4,7 @@
 // preflights the planned file before anything is sent.   PSIFORM_URL=http://127.0.0.1:3000 node --test test/e2e/
 import assert from 'node:assert/strict';
 import { test } from 'node:test';
-import { apiCall, apiLogin, baseUrl, browserPerFile, DEMO_ILLUSTRATOR, expectOutcome, newPage, signIn } from './browser.mjs';
+import { apiCall, apiLogin, baseUrl, browserPerFile, DEMO_ILLUSTRATOR, expectOutcome, expectShown, newPage, signIn } from './browser.mjs';
 
 const browser = browserPerFile();
 
@@ -92,12 +92,7 @@ test('forms name their limits inline: blank and 250-character titles, a 5 mm can
 
     // |ψ| above the state's largest value: the message names the maximum the preview found.
     await page.getByTestId('cmp-rule-psi').click();
-    await expectOutcome(page, {
-      ok: () => page.getByTestId('cmp-psi-max').waitFor({ timeout: 60_000 }),
-      errors: ['preview-error'],
-      what: 'The preview reporting the largest |ψ|',
-      timeout: 60_000,
-    });
+    await expectShown(page, 'cmp-psi-max', { errors: ['preview-error'], what: 'The preview reporting the largest |ψ|', timeout: 60_000 });
     const max = Number(await page.getByTestId('cmp-psi-max').textContent());
     await page.getByTestId('cmp-psi').fill(String(max * 10));
     const msg = (await page.getByTestId('cmp-surface-error').textContent()).trim();
@@ -168,12 +163,7 @@ test('the export dialog offers the delivery profile first and preflights the pla
     assert.equal(planned.size, 'pass');
 
     await page.getByTestId('exp-submit').click();
-    await expectOutcome(page, {
-      ok: () => page.getByTestId('exp-preflight-done').waitFor({ timeout: 200_000 }),
-      errors: ['export-error', 'exp-server-error', 'export-stream-error'],
-      what: 'The TIFF export finishing with its preflight report',
-      timeout: 200_000,
-    });
+    await expectShown(page, 'exp-preflight-done', { errors: ['export-error', 'exp-server-error', 'export-stream-error'], what: 'The TIFF export finishing with its preflight report', timeout: 200_000 });
     // The written file's report agrees with the planned one on size, resolution, column, colour and fonts.
     const written = Object.fromEntries(await page.getByTestId('exp-preflight-done').getByTestId('preflight-row').evaluateAll((els) => els.map((e) => [e.getAttribute('data-rule'), e.getAttribute('data-status')])));
     for (const rule of ['size', 'resolution', 'column_width', 'colour_mode', 'icc_profile', 'fonts_embedded', 'font_size', 'line_weight']) assert.equal(written[rule], planned[rule], `${rule}: planned ${planned[rule]}, written ${written[rule]}`);

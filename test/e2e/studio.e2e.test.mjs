@@ -6,7 +6,7 @@
 import assert from 'node:assert/strict';
 import { test } from 'node:test';
 import { PNG } from 'pngjs';
-import { apiGet, browserPerFile, DEMO_ILLUSTRATOR, expectOutcome, newPage, signIn } from './browser.mjs';
+import { apiGet, browserPerFile, DEMO_ILLUSTRATOR, expectOutcome, expectShown, newPage, signIn } from './browser.mjs';
 import { countPhasePixels, pngChunks } from './pixels.mjs';
 
 const browser = browserPerFile();
@@ -39,12 +39,7 @@ test('an illustrator composes 2p_z in the studio, sees both phases and exports a
     const { positive, negative } = stored.currentVersion.recipe.palette;
 
     // The live preview (Web Worker) and a drawn frame.
-    await expectOutcome(page, {
-      ok: () => page.getByTestId('preview-ready').waitFor({ state: 'attached', timeout: 90_000 }),
-      errors: ['preview-error', 'viewport-error', 'studio-error'],
-      what: 'The live preview sampling ψ and drawing the surfaces',
-      timeout: 90_000,
-    });
+    await expectShown(page, 'preview-ready', { errors: ['preview-error', 'viewport-error', 'studio-error'], what: 'The live preview sampling ψ and drawing the surfaces', timeout: 90_000, state: 'attached' });
     await page.getByTestId('figure-canvas').waitFor({ timeout: 30_000 });
     await page.waitForTimeout(1500); // software WebGL: let a frame of the new geometry land
     const canvas = page.getByTestId('figure-canvas').locator('canvas:not(.pf-overlay)');
@@ -65,18 +60,8 @@ test('an illustrator composes 2p_z in the studio, sees both phases and exports a
     await page.getByTestId('exp-dpi').selectOption('300');
     assert.match(await page.getByTestId('exp-pixels').textContent(), /^1051 × 709 px/);
     await page.getByTestId('exp-submit').click();
-    await expectOutcome(page, {
-      ok: () => page.getByTestId('export-progress').waitFor({ timeout: 20_000 }),
-      errors: ['exp-server-error'],
-      what: 'Queueing the PNG export (POST /api/figures/:id/exports)',
-      timeout: 20_000,
-    });
-    await expectOutcome(page, {
-      ok: () => page.getByTestId('export-ready').waitFor({ timeout: 180_000 }),
-      errors: ['export-error', 'export-stream-error', 'export-no-asset'],
-      what: 'The PNG export job completing (GET /api/jobs/:id/events)',
-      timeout: 180_000,
-    });
+    await expectShown(page, 'export-progress', { errors: ['exp-server-error'], what: 'Queueing the PNG export (POST /api/figures/:id/exports)', timeout: 20_000 });
+    await expectShown(page, 'export-ready', { errors: ['export-error', 'export-stream-error', 'export-no-asset'], what: 'The PNG export job completing (GET /api/jobs/:id/events)', timeout: 180_000 });
     const link = page.getByTestId('export-ready').getByTestId('export-download').first();
     assert.equal(await link.getAttribute('data-kind'), 'png');
     const assetId = await link.getAttribute('data-asset-id');
