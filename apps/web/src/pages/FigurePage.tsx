@@ -3,19 +3,20 @@ import { Button, Callout, EditableText, NonIdealState, Spinner } from '@blueprin
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { Link, useParams, useSearchParams } from 'react-router-dom';
 import { parseRecipe, titleProblem, type AssetDto, type FigureDto, type JobDto } from '@psiform/contracts';
-import { describeError } from '../api/client';
 import { useApi, useAuth } from '../auth/AuthProvider';
 import { AssetDownloads } from '../figures/AssetDownloads';
 import { JobProgress } from '../figures/JobProgress';
 import { MeshStatsTable } from '../figures/MeshStatsTable';
 import { describeRecipe, formatDate } from '../figures/model';
 import { FigureReview } from '../review/FigureReview';
+import { assetLinkWait, useAssetUrl } from '../review/ProofImage';
 import { PreflightPanel } from '../print/PreflightPanel';
 import { FigureStudioBar } from '../studio/FigureStudioBar';
 import { Typeset } from '../components/Typeset';
 import { phaseKeyColours } from '../scene/phaseKeyColours';
 import { FigureLoadStatus } from '../components/FigureLoadStatus';
 import { FigureMeta } from '../figures/FigureMeta';
+import { CallFailed } from '../components/CallFailed';
 
 // three.js and R3F load only when a mesh is shown (keeps them out of the first bundle).
 const FigureViewport = lazy(() => import('../viewport/FigureViewport'));
@@ -26,26 +27,14 @@ function glbOf(assets: AssetDto[]): AssetDto | undefined {
 
 /** The GLB viewport of a figure (also used by the proof view, review/ProofPage.tsx). */
 export function Viewport({ figure, asset }: { figure: FigureDto; asset: AssetDto }) {
-  const api = useApi();
   // Presigned links are short-lived: fetched per asset when the view opens, not cached for long.
-  const link = useQuery({
-    queryKey: ['asset-link', asset.id],
-    queryFn: ({ signal }) => api.assetLink(asset.id, signal),
-    staleTime: 30_000,
-    gcTime: 30_000,
-  });
+  const link = useAssetUrl(asset.id);
   const parsed = parseRecipe(figure.currentVersion.recipe);
   if (!parsed.ok) {
     return <Callout intent="warning">The stored recipe does not read ({parsed.issues[0]?.message}); the mesh is not shown.</Callout>;
   }
   const recipe = parsed.recipe;
-  if (link.isPending) return <NonIdealState icon={<Spinner size={28} />} title="Fetching the mesh link…" />;
-  if (link.isError)
-    return (
-      <Callout intent="danger" title="The mesh could not be fetched" data-testid="viewport-error">
-        {describeError(link.error)}
-      </Callout>
-    );
+  if (!link.isSuccess) return assetLinkWait(link, { fetching: 'Fetching the mesh link…', failed: 'The mesh could not be fetched', testId: 'viewport-error' });
   return (
     <Suspense fallback={<NonIdealState icon={<Spinner size={28} />} title="Starting the 3D view…" />}>
       <FigureViewport url={link.data.url} palette={recipe.palette} stage={recipe.stage} phaseKey={phaseKeyColours(recipe)} />
@@ -89,11 +78,7 @@ function Title({ figure, editable }: { figure: FigureDto; editable: boolean }) {
           The title {titleProblem(draft)}. It was not changed.
         </Callout>
       )}
-      {rename.isError && (
-        <Callout intent="danger" data-testid="rename-error" className="pf-gap">
-          The title was not changed: {describeError(rename.error)}
-        </Callout>
-      )}
+      <CallFailed call={rename} testId="rename-error" className="pf-gap" lead="The title was not changed" />
     </>
   );
 }
@@ -172,11 +157,7 @@ export function FigurePage() {
             data-testid="compute-mesh"
           />
         </div>
-        {compute.isError && (
-          <Callout intent="danger" data-testid="compute-error" className="pf-gap">
-            The mesh job was not queued: {describeError(compute.error)}
-          </Callout>
-        )}
+        <CallFailed call={compute} testId="compute-error" className="pf-gap" lead="The mesh job was not queued" />
         {jobId && <JobProgress key={jobId} jobId={jobId} onFinished={onJobFinished} />}
         {glb ? (
           <>

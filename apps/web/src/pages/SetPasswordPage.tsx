@@ -1,11 +1,12 @@
 import { useState, type FormEvent } from 'react';
-import { Button, Callout, FormGroup, InputGroup, NonIdealState, Spinner } from '@blueprintjs/core';
+import { Button, Callout, NonIdealState, Spinner } from '@blueprintjs/core';
 import { useMutation, useQuery } from '@tanstack/react-query';
 import { Link, useLocation, useNavigate } from 'react-router-dom';
 import { MIN_PASSWORD_LENGTH } from '@psiform/contracts';
 import { describeError } from '../api/client';
 import { useApi } from '../auth/AuthProvider';
 import { Wordmark } from '../components/Wordmark';
+import { AccountField, AccountFormProblem } from '../components/AccountField';
 import { linkInfo, requestPasswordReset as requestReset, setPassword } from '../admin/adminApi';
 
 /** The token travels in the fragment (#token=…): browsers never send it to a server. */
@@ -62,16 +63,10 @@ export function SetPasswordPage() {
               For <strong>{info.data.email}</strong>. At least {MIN_PASSWORD_LENGTH} characters.
             </p>
             {(problem || save.isError) && (
-              <Callout intent="danger" compact role="alert" data-testid="set-password-error">
-                {problem ?? describeError(save.error)}
-              </Callout>
+              <AccountFormProblem testId="set-password-error">{problem ?? describeError(save.error)}</AccountFormProblem>
             )}
-            <FormGroup label="New password" labelFor="sp-password">
-              <InputGroup id="sp-password" type="password" autoComplete="new-password" value={pw} onValueChange={setPw} data-testid="set-password-password" />
-            </FormGroup>
-            <FormGroup label="The same again" labelFor="sp-again">
-              <InputGroup id="sp-again" type="password" autoComplete="new-password" value={again} onValueChange={setAgain} data-testid="set-password-again" />
-            </FormGroup>
+            <AccountField id="sp-password" label="New password" type="password" autoComplete="new-password" value={pw} onChange={setPw} testId="set-password-password" />
+            <AccountField id="sp-again" label="The same again" type="password" autoComplete="new-password" value={again} onChange={setAgain} testId="set-password-again" />
             <Button type="submit" intent="primary" fill size="large" text="Set password" loading={save.isPending} data-testid="set-password-submit" />
           </>
         )}
@@ -105,13 +100,9 @@ export function ForgotPasswordPage() {
         ) : (
           <>
             {(problem || ask.isError) && (
-              <Callout intent="danger" compact role="alert" data-testid="forgot-error">
-                {problem ?? describeError(ask.error)}
-              </Callout>
+              <AccountFormProblem testId="forgot-error">{problem ?? describeError(ask.error)}</AccountFormProblem>
             )}
-            <FormGroup label="Email" labelFor="forgot-email">
-              <InputGroup id="forgot-email" type="email" autoComplete="username" value={email} onValueChange={setEmail} data-testid="forgot-email" />
-            </FormGroup>
+            <AccountField id="forgot-email" label="Email" type="email" autoComplete="username" value={email} onChange={setEmail} testId="forgot-email" />
             <Button type="submit" intent="primary" fill text="Send the link" loading={ask.isPending} data-testid="forgot-submit" />
           </>
         )}

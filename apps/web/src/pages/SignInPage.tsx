@@ -1,10 +1,11 @@
 import { useState, type FormEvent } from 'react';
-import { Button, Callout, FormGroup, InputGroup } from '@blueprintjs/core';
+import { Button, Callout } from '@blueprintjs/core';
 import { useMutation } from '@tanstack/react-query';
 import { Link, Navigate, useLocation, useNavigate } from 'react-router-dom';
 import { describeError } from '../api/client';
 import { useAuth } from '../auth/AuthProvider';
 import { Wordmark } from '../components/Wordmark';
+import { AccountField, AccountFormProblem } from '../components/AccountField';
 
 interface FromState {
   from?: string;
@@ -68,36 +69,13 @@ export function SignInPage() {
           </Callout>
         )}
         {error && (
-          <Callout intent="danger" compact className="pf-gap" role="alert" data-testid="signin-error">
+          <AccountFormProblem testId="signin-error" className="pf-gap">
             {error}
-          </Callout>
+          </AccountFormProblem>
         )}
 
-        <FormGroup label="Email" labelFor="signin-email">
-          <InputGroup
-            id="signin-email"
-            name="email"
-            type="email"
-            autoComplete="username"
-            autoFocus
-            value={email}
-            onValueChange={(v) => setEmail(v)}
-            disabled={pending}
-            data-testid="signin-email"
-          />
-        </FormGroup>
-        <FormGroup label="Password" labelFor="signin-password">
-          <InputGroup
-            id="signin-password"
-            name="password"
-            type="password"
-            autoComplete="current-password"
-            value={password}
-            onValueChange={(v) => setPassword(v)}
-            disabled={pending}
-            data-testid="signin-password"
-          />
-        </FormGroup>
+        <AccountField id="signin-email" name="email" label="Email" type="email" autoComplete="username" autoFocus value={email} onChange={setEmail} disabled={pending} testId="signin-email" />
+        <AccountField id="signin-password" name="password" label="Password" type="password" autoComplete="current-password" value={password} onChange={setPassword} disabled={pending} testId="signin-password" />
         <Button
           type="submit"
           intent="primary"

@@ -122,12 +122,18 @@ describe('upload form', () => {
     return ue;
   }
 
-  it('names a wrong raw byte count before anything is sent', async () => {
+  /** The form filled for a raw cube: a title, the raw format, the 4 × 3 × 2 float32 sidecar and `cube` as the cube file. */
+  async function rawCubeChosen(cube: Uint8Array<ArrayBuffer> | Float32Array<ArrayBuffer>) {
     const ue = await openForm();
     await ue.type(screen.getByTestId('upload-title'), 'Imported density');
     await ue.click(screen.getByTestId('upload-format-raw'));
     await ue.upload(screen.getByTestId('upload-sidecar'), file([SIDECAR], 'cube.json', 'application/json'));
-    await ue.upload(screen.getByTestId('upload-cube'), file([new Uint8Array(90)], 'cube.raw'));
+    await ue.upload(screen.getByTestId('upload-cube'), file([cube], 'cube.raw'));
+    return ue;
+  }
+
+  it('names a wrong raw byte count before anything is sent', async () => {
+    const ue = await rawCubeChosen(new Uint8Array(90));
     const check = await screen.findByTestId('upload-precheck');
     await waitFor(() =>
       expect(check.textContent).toBe(
@@ -140,11 +146,7 @@ describe('upload form', () => {
   });
 
   it('uploads in the server’s part order with progress, shows a 413 readably, then succeeds', async () => {
-    const ue = await openForm();
-    await ue.type(screen.getByTestId('upload-title'), 'Imported density');
-    await ue.click(screen.getByTestId('upload-format-raw'));
-    await ue.upload(screen.getByTestId('upload-sidecar'), file([SIDECAR], 'cube.json', 'application/json'));
-    await ue.upload(screen.getByTestId('upload-cube'), file([new Float32Array(24)], 'cube.raw'));
+    const ue = await rawCubeChosen(new Float32Array(24));
     await waitFor(() => expect(screen.getByTestId('upload-precheck').textContent).toBe('Raw float32 cube 4 × 3 × 2 of density |ψ|².'));
 
     await ue.click(screen.getByTestId('upload-submit'));

@@ -15,6 +15,7 @@ import { describeError } from '../api/client';
 import { useApi, useAuth } from '../auth/AuthProvider';
 import { getDeliveryProfile, putDeliveryProfile } from './printApi';
 import { PublicationPage } from '../components/PublicationPage';
+import { CallFailed } from '../components/CallFailed';
 
 /** Field -> message, from the same schema the server uses (libs/contracts parseDeliveryProfile). */
 export function profileErrors(p: unknown): Record<string, string> {
@@ -163,11 +164,7 @@ export function DeliveryProfileForm({ publicationId }: { publicationId: string }
           Save the delivery profile
         </Button>
       )}
-      {save.isError && (
-        <Callout intent="danger" data-testid="dp-save-error">
-          {describeError(save.error)}
-        </Callout>
-      )}
+      <CallFailed call={save} testId="dp-save-error" />
       {saved && !save.isPending && !save.isError && (
         <span className="pf-muted" data-testid="dp-saved">
           Saved.

@@ -8,6 +8,7 @@ import { JobProgress } from '../figures/JobProgress';
 import { formatDate } from '../figures/model';
 import { useAssetUrl } from './ProofImage';
 import { compareVersions, printFacts, renderVersion } from './proofApi';
+import { CallFailed } from '../components/CallFailed';
 
 export type CompareMode = 'side' | 'slider' | 'blink';
 const MODES: { mode: CompareMode; label: string }[] = [
@@ -143,11 +144,7 @@ export function ComparePanel({ figureId, versions, canRender }: { figureId: stri
       </div>
 
       {cmp.isPending && <NonIdealState icon={<Spinner size={24} />} title="Comparing…" />}
-      {cmp.isError && (
-        <Callout intent="danger" data-testid="compare-error">
-          {describeError(cmp.error)}
-        </Callout>
-      )}
+      <CallFailed call={cmp} testId="compare-error" />
       {cmp.isSuccess && (
         <>
           <div className="pf-compare-changes">

@@ -7,6 +7,7 @@ import { ApiError, describeError } from '../api/client';
 import { useApi, useAuth } from '../auth/AuthProvider';
 import { availableDecisions, DECISION_LABELS, roundFromAudit } from './decisions';
 import { auditTrail, decide, houseStyle, type Decision } from './reviewApi';
+import { CallFailed } from '../components/CallFailed';
 
 const LOOK: Record<Decision, { icon: IconName; intent: Intent }> = {
   submit: { icon: 'send-message', intent: 'primary' },
@@ -157,11 +158,7 @@ export function DecisionBar({ figure }: { figure: FigureDto }) {
                 data-testid="request-changes-note"
               />
             </FormGroup>
-            {mutation.isError && (
-              <Callout intent="danger" data-testid="request-changes-error">
-                {decisionErrorText(mutation.error)}
-              </Callout>
-            )}
+            <CallFailed call={mutation} testId="request-changes-error" describe={decisionErrorText} />
           </DialogBody>
           <DialogFooter
             actions={

@@ -1,12 +1,12 @@
 // A publication's one length unit (Å or a0) for every figure: scale bars, section-map axes, radial plots.
 // Art directors and admins choose it; every figure version saved from then on states its lengths in it.
 import { useState } from 'react';
-import { Button, Callout, FormGroup, HTMLSelect } from '@blueprintjs/core';
+import { Button, FormGroup, HTMLSelect } from '@blueprintjs/core';
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { LENGTH_UNITS, type LengthUnit, type PublicationDto } from '@psiform/contracts';
-import { describeError } from '../api/client';
 import { useApi, useAuth } from '../auth/AuthProvider';
 import { Typeset } from '../components/Typeset';
+import { CallFailed } from '../components/CallFailed';
 
 export const UNIT_WORDS: Record<LengthUnit, string> = { angstrom: 'ångström (Å)', bohr: 'Bohr radius (a0)' };
 
@@ -40,11 +40,7 @@ export function LengthUnitPanel({ publication }: { publication: PublicationDto }
           </FormGroup>
         </div>
       )}
-      {save.isError && (
-        <Callout intent="danger" data-testid="length-unit-error">
-          {describeError(save.error)}
-        </Callout>
-      )}
+      <CallFailed call={save} testId="length-unit-error" />
     </div>
   );
 }

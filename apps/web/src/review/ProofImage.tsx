@@ -37,6 +37,18 @@ export function useAssetUrl(assetId: string) {
   return useQuery({ queryKey: ['asset-link', assetId], queryFn: ({ signal }) => api.assetLink(assetId, signal), staleTime: 30_000, gcTime: 30_000, enabled: assetId !== '' });
 }
 
+/** What stands in for an asset while its link is fetched, or when it could not be (`failed` titles the error); null once the link is there. */
+export function assetLinkWait(link: ReturnType<typeof useAssetUrl>, { fetching, failed, testId }: { fetching: string; failed: string; testId: string }) {
+  if (link.isPending) return <NonIdealState icon={<Spinner size={28} />} title={fetching} />;
+  if (link.isError)
+    return (
+      <Callout intent="danger" title={failed} data-testid={testId}>
+        {describeError(link.error)}
+      </Callout>
+    );
+  return null;
+}
+
 /**
  * The rendered proof (PNG asset, through a presigned link). A click places the pending pin; saved pins are numbered
  * markers in the order of the comments that carry them. At zoom 'pixels' the image is shown at 1:1 print pixels
@@ -44,13 +56,7 @@ export function useAssetUrl(assetId: string) {
  */
 export function ProofImage({ assetId, widthPx, zoom = 'fit', pins, pending, onPlace }: { assetId: string; widthPx?: number; zoom?: ProofZoom; pins: NumberedPin[]; pending: Pin | null; onPlace(pin: Pin): void }) {
   const link = useAssetUrl(assetId);
-  if (link.isPending) return <NonIdealState icon={<Spinner size={28} />} title="Fetching the proof image…" />;
-  if (link.isError)
-    return (
-      <Callout intent="danger" title="The proof image could not be fetched" data-testid="proof-image-error">
-        {describeError(link.error)}
-      </Callout>
-    );
+  if (!link.isSuccess) return assetLinkWait(link, { fetching: 'Fetching the proof image…', failed: 'The proof image could not be fetched', testId: 'proof-image-error' });
   const keyPlace = (e: KeyboardEvent<HTMLDivElement>) => {
     if (e.key === 'Enter' || e.key === ' ') {
       e.preventDefault();

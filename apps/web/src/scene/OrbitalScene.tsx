@@ -67,8 +67,19 @@ function useMaterials(palette: OrbitalSceneProps['palette'], material: Recipe['s
       complex: new THREE.MeshStandardMaterial({ ...common, vertexColors: true, name: 'phase (complex)' }),
     } satisfies Record<Phase, THREE.MeshStandardMaterial>;
   }, [palette.positive, palette.negative, gloss, opacity]);
-  useEffect(() => () => Object.values(materials).forEach((m) => m.dispose()), [materials]);
+  useDisposeWhenReplaced(materials);
   return materials;
+}
+
+type Disposable = { dispose(): void };
+
+/**
+ * Frees the GPU objects a useMemo made (each value of `parts`, or each item of an array value) when the memo makes
+ * new ones or the component goes: three does not free geometry and materials on its own (three.js manual,
+ * "How to dispose of objects").
+ */
+function useDisposeWhenReplaced(parts: Record<string, Disposable | Disposable[]>) {
+  useEffect(() => () => Object.values(parts).forEach((p) => (Array.isArray(p) ? p : [p]).forEach((x) => x.dispose())), [parts]);
 }
 
 function Axes({ radius, ink }: { radius: number; ink: string }) {
@@ -81,14 +92,7 @@ function Axes({ radius, ink }: { radius: number; ink: string }) {
     const mat = new THREE.MeshBasicMaterial({ color: new THREE.Color(ink) });
     return { shaft, head, mat };
   }, [radius, ink]);
-  useEffect(
-    () => () => {
-      parts.shaft.dispose();
-      parts.head.dispose();
-      parts.mat.dispose();
-    },
-    [parts],
-  );
+  useDisposeWhenReplaced(parts);
   // Cylinders run along +y: rotate onto x and z.
   const rotations: [number, number, number][] = [
     [0, 0, -Math.PI / 2],
@@ -130,14 +134,7 @@ function NodalOutline({ geometries, ink }: { geometries: readonly THREE.BufferGe
     });
     return { film, line, edges };
   }, [geometries, ink]);
-  useEffect(
-    () => () => {
-      parts.film.dispose();
-      parts.line.dispose();
-      parts.edges.forEach((e) => e.dispose());
-    },
-    [parts],
-  );
+  useDisposeWhenReplaced(parts);
   return (
     <group name="nodal">
       {geometries.map((g, i) => (

@@ -28,14 +28,20 @@ async function setHex(ue: ReturnType<typeof userEvent.setup>, name: string, hex:
   await ue.type(input, hex);
 }
 
+/** An art director with no swatchbooks yet opens the editor of a new one (the starting colours). */
+async function openNewSwatchbook() {
+  const me = user('art_director');
+  mockFetch({ ...signedInRoutes(me), 'GET /api/swatchbooks': () => json(200, []) });
+  storeSession(me);
+  const ue = userEvent.setup();
+  renderApp('/swatchbooks');
+  await ue.click(await screen.findByTestId('sw-new'));
+  return ue;
+}
+
 describe('swatchbook editor: live checks in the browser', () => {
   it('warns about a label too close to the background, at the WCAG 4.5:1 boundary', async () => {
-    const me = user('art_director');
-    mockFetch({ ...signedInRoutes(me), 'GET /api/swatchbooks': () => json(200, []) });
-    storeSession(me);
-    const ue = userEvent.setup();
-    renderApp('/swatchbooks');
-    await ue.click(await screen.findByTestId('sw-new'));
+    const ue = await openNewSwatchbook();
     expect(screen.queryByTestId('check-warning')).toBeNull(); // the starting colours pass every check
     expect(screen.getByTestId('check-all-clear')).toBeTruthy();
 
@@ -63,12 +69,7 @@ describe('swatchbook editor: live checks in the browser', () => {
   });
 
   it('recomputes the phase ΔE00 as a colour changes, and flags phases that cannot be told apart', async () => {
-    const me = user('art_director');
-    mockFetch({ ...signedInRoutes(me), 'GET /api/swatchbooks': () => json(200, []) });
-    storeSession(me);
-    const ue = userEvent.setup();
-    renderApp('/swatchbooks');
-    await ue.click(await screen.findByTestId('sw-new'));
+    const ue = await openNewSwatchbook();
     const first = screen.getByTestId('check-de-normal').textContent;
     expect(Number(first)).toBeGreaterThan(20);
 
@@ -119,12 +120,7 @@ describe('swatchbook editor: live checks in the browser', () => {
   });
 
   it('a colour that is not #rrggbb keeps its text and the message (it never silently turns back), and holds Save', async () => {
-    const me = user('art_director');
-    mockFetch({ ...signedInRoutes(me), 'GET /api/swatchbooks': () => json(200, []) });
-    storeSession(me);
-    const ue = userEvent.setup();
-    renderApp('/swatchbooks');
-    await ue.click(await screen.findByTestId('sw-new'));
+    const ue = await openNewSwatchbook();
     await ue.type(screen.getByTestId('sw-name'), 'Quillmere plates');
     expect((screen.getByTestId('sw-save') as HTMLButtonElement).disabled).toBe(false);
     await setHex(ue, 'negative', '#zzz');
