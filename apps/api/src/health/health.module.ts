@@ -1,17 +1,18 @@
 import { Module } from '@nestjs/common';
+import { DataSource } from 'typeorm';
+import type Redis from 'ioredis';
 import { HealthController } from './health.controller';
 import { HealthService } from './health.service';
-import { HEALTH_PROBES, type HealthProbe, DatabaseHealthProbe, RedisHealthProbe, StorageHealthProbe, MailHealthProbe } from '@psiform/server';
+import { HEALTH_PROBES, Mailer, ObjectStorage, REDIS_CLIENT, dependencyProbes } from '@psiform/server';
 
 @Module({
   controllers: [HealthController],
   providers: [
     HealthService,
-    DatabaseHealthProbe,
     {
       provide: HEALTH_PROBES,
-      inject: [DatabaseHealthProbe, RedisHealthProbe, StorageHealthProbe, MailHealthProbe],
-      useFactory: (...probes: HealthProbe[]) => probes,
+      inject: [DataSource, REDIS_CLIENT, ObjectStorage, Mailer],
+      useFactory: (ds: DataSource, redis: Redis, storage: ObjectStorage, mailer: Mailer) => dependencyProbes({ ds, redis, storage, mailer }),
     },
   ],
 })

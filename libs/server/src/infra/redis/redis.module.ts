@@ -5,7 +5,6 @@ import type { AppConfig } from '../../config/config';
 import { REDIS_CLIENT } from './redis.tokens';
 import { AttemptGate } from './attempt-gate';
 import { RedisAttemptGate } from './redis-attempt-gate';
-import { RedisHealthProbe } from './redis-health';
 import { closeRedis, openRedis } from './redis-connection';
 
 @Global()
@@ -17,9 +16,8 @@ import { closeRedis, openRedis } from './redis-connection';
       useFactory: (config: AppConfig) => openRedis(config.redis.url, 'requests'),
     },
     { provide: AttemptGate, useClass: RedisAttemptGate },
-    RedisHealthProbe,
   ],
-  exports: [REDIS_CLIENT, AttemptGate, RedisHealthProbe],
+  exports: [REDIS_CLIENT, AttemptGate],
 })
 export class RedisModule implements OnApplicationShutdown {
   constructor(@Inject(REDIS_CLIENT) private readonly redis: Redis) {}

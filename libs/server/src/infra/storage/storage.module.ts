@@ -1,11 +1,10 @@
 import { Global, Module } from '@nestjs/common';
 import { ObjectStorage } from './object-storage';
 import { S3ObjectStorage } from './s3-object-storage';
-import { StorageHealthProbe } from './storage-health';
 
 @Global()
 @Module({
-  providers: [{ provide: ObjectStorage, useClass: S3ObjectStorage }, StorageHealthProbe],
-  exports: [ObjectStorage, StorageHealthProbe],
+  providers: [{ provide: ObjectStorage, useClass: S3ObjectStorage }],
+  exports: [ObjectStorage],
 })
 export class StorageModule {}
