@@ -1,10 +1,11 @@
 import { ServiceUnavailableException, UnauthorizedException } from '@nestjs/common';
 import { JwtService } from '@nestjs/jwt';
 import { hashSync } from 'bcryptjs';
-import { AttemptGate, backoffDelayMs, UsersStore, type BackoffPolicy, type GateVerdict, type NewUser, type UserEntity } from '@psiform/server';
+import { AttemptGate, backoffDelayMs, UsersStore, type BackoffPolicy, type GateVerdict, type UserEntity } from '@psiform/server';
 import { TooManyRequestsException } from '../common/too-many-requests.exception';
 import { AuthService } from './auth.service';
 import { LoginThrottle, type LoginThrottlePolicy } from './login-throttle';
+import { notUsed } from '../../test/not-used';
 
 /** In-memory gate with a hand-driven clock (ms), following the rule of attempt-gate.ts (backoffDelayMs). */
 class FakeGate extends AttemptGate {
@@ -64,21 +65,11 @@ class FakeUsers extends UsersStore {
   async findAll() {
     return everyone;
   }
-  async insert(_: NewUser): Promise<UserEntity> {
-    throw new Error('not used');
-  }
-  async page(): Promise<never> {
-    throw new Error('not used');
-  }
-  async findUsableLink(): Promise<never> {
-    throw new Error('not used');
-  }
-  async lastLinkSentAt(): Promise<never> {
-    throw new Error('not used');
-  }
-  async transaction(): Promise<never> {
-    throw new Error('not used');
-  }
+  insert = notUsed;
+  page = notUsed;
+  findUsableLink = notUsed;
+  lastLinkSentAt = notUsed;
+  transaction = notUsed;
 }
 
 const jwt = new JwtService({ secret: 's'.repeat(32), signOptions: { expiresIn: '1h' } });
