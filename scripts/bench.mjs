@@ -96,6 +96,15 @@ const STATES = {
   '1s': () => orbitals.parseOrbitalLabel('1s').state,
 };
 
+/** Every benchmark state at every grid size, in the one order all tables use: the state, its compiled form and the grid. */
+function* statesAndGrids() {
+  for (const name of Object.keys(STATES)) {
+    const state = STATES[name]();
+    const compiled = orbitals.compileState(state);
+    for (const n of SIZES) yield { name, state, compiled, n, grid: gridFor(state, n) };
+  }
+}
+
 function gridFor(state, n) {
   return { n, extent: orbitals.autoExtent(state) };
 }
@@ -222,23 +231,18 @@ async function sectionSampling() {
   heading('Sampling psi on the grid (Mvoxels/s; 1 thread = compileState().sampleGrid, 2 threads = sampleGridParallel)');
   const rows = [];
   results.sampling = {};
-  for (const name of Object.keys(STATES)) {
-    const state = STATES[name]();
-    const compiled = orbitals.compileState(state);
-    for (const n of SIZES) {
-      const grid = gridFor(state, n);
-      const count = n * n * n;
-      const out = new Float32Array(count);
-      const reps = n <= 128 ? 3 : 2;
-      compiled.sampleGrid({ n: 32, extent: grid.extent }, new Float32Array(32 ** 3), null); // warm-up
-      const one = best(reps, () => compiled.sampleGrid(grid, out, null));
-      await orbitalsNode.sampleGridParallel(state, { n: 32, extent: grid.extent }, { threads: 2 }); // spawn workers
-      const two = await bestAsync(reps, () => orbitalsNode.sampleGridParallel(state, grid, { threads: 2 }));
-      const m1 = count / one.ms / 1e3;
-      const m2 = count / two.ms / 1e3;
-      results.sampling[`${name}/${n}`] = { m1, m2 };
-      rows.push([name, `${n}³`, fmt(grid.extent, 2), fmt(one.ms), fmt(m1), fmt(two.ms), fmt(m2), fmt(two.ms ? one.ms / two.ms : 0, 2)]);
-    }
+  for (const { name, state, compiled, n, grid } of statesAndGrids()) {
+    const count = n * n * n;
+    const out = new Float32Array(count);
+    const reps = n <= 128 ? 3 : 2;
+    compiled.sampleGrid({ n: 32, extent: grid.extent }, new Float32Array(32 ** 3), null); // warm-up
+    const one = best(reps, () => compiled.sampleGrid(grid, out, null));
+    await orbitalsNode.sampleGridParallel(state, { n: 32, extent: grid.extent }, { threads: 2 }); // spawn workers
+    const two = await bestAsync(reps, () => orbitalsNode.sampleGridParallel(state, grid, { threads: 2 }));
+    const m1 = count / one.ms / 1e3;
+    const m2 = count / two.ms / 1e3;
+    results.sampling[`${name}/${n}`] = { m1, m2 };
+    rows.push([name, `${n}³`, fmt(grid.extent, 2), fmt(one.ms), fmt(m1), fmt(two.ms), fmt(m2), fmt(two.ms ? one.ms / two.ms : 0, 2)]);
   }
   table(['state', 'N', 'extent a0', '1 thr ms', 'Mvox/s', '2 thr ms', 'Mvox/s', 'speed-up'], rows);
 }
@@ -253,43 +257,38 @@ async function sectionExtraction() {
   console.log(`  isosurface package: ${withIso ? 'require("isosurface").marchingCubes, up to N=192, and N=256 for 3d_z² once' : 'skipped (--no-isosurface)'}`);
   const rows = [];
   results.extraction = {};
-  for (const name of Object.keys(STATES)) {
-    const state = STATES[name]();
-    const compiled = orbitals.compileState(state);
-    for (const n of SIZES) {
-      const grid = gridFor(state, n);
-      const field = await orbitalsNode.sampleGridParallel(state, grid, { threads: 2 });
-      const tt0 = now();
-      const c = isovalueFor(field.re, FRACTION);
-      const thresholdMs = now() - tt0;
-      const reps = 3;
-      extractOurs(compiled, field, grid, c); // warm-up (JIT)
-      const ours = best(reps, () => extractOurs(compiled, field, grid, c));
-      const kernel = best(reps, () => extractKernel(field.re, grid, c));
-      let iso = null;
-      if (withIso && (n <= 192 || (n === 256 && name === '3d_z2'))) {
-        iso = best(1, () => extractIsosurfacePkg(field.re, n, c));
-      }
-      let sk = null;
-      if (withSk) sk = extractSkimage(field.re, n, c, 3);
-      const rec = { ours: ours.ms, kernel: kernel.ms, iso: iso?.ms ?? null, sk: sk && !sk.error ? sk.ms : null, tris: ours.out.triangles, skTris: sk?.triangles ?? null, isoTris: iso?.out ?? null };
-      results.extraction[`${name}/${n}`] = rec;
-      rows.push([
-        name,
-        `${n}³`,
-        fmt(thresholdMs),
-        fmt(ours.ms),
-        fmt(kernel.ms),
-        String(ours.out.triangles),
-        sk ? (sk.error ? `error: ${sk.error}` : fmt(sk.ms)) : '-',
-        sk && !sk.error ? String(sk.triangles) : '-',
-        rec.sk ? fmt(ours.ms / rec.sk, 2) : '-',
-        iso ? fmt(iso.ms) : '-',
-        iso ? fmt(iso.ms / ours.ms, 1) + '×' : '-',
-      ]);
-      // Let the sampled grid go before the next size (keeps the bench's own RSS honest).
-      field.re = null;
+  for (const { name, state, compiled, n, grid } of statesAndGrids()) {
+    const field = await orbitalsNode.sampleGridParallel(state, grid, { threads: 2 });
+    const tt0 = now();
+    const c = isovalueFor(field.re, FRACTION);
+    const thresholdMs = now() - tt0;
+    const reps = 3;
+    extractOurs(compiled, field, grid, c); // warm-up (JIT)
+    const ours = best(reps, () => extractOurs(compiled, field, grid, c));
+    const kernel = best(reps, () => extractKernel(field.re, grid, c));
+    let iso = null;
+    if (withIso && (n <= 192 || (n === 256 && name === '3d_z2'))) {
+      iso = best(1, () => extractIsosurfacePkg(field.re, n, c));
     }
+    let sk = null;
+    if (withSk) sk = extractSkimage(field.re, n, c, 3);
+    const rec = { ours: ours.ms, kernel: kernel.ms, iso: iso?.ms ?? null, sk: sk && !sk.error ? sk.ms : null, tris: ours.out.triangles, skTris: sk?.triangles ?? null, isoTris: iso?.out ?? null };
+    results.extraction[`${name}/${n}`] = rec;
+    rows.push([
+      name,
+      `${n}³`,
+      fmt(thresholdMs),
+      fmt(ours.ms),
+      fmt(kernel.ms),
+      String(ours.out.triangles),
+      sk ? (sk.error ? `error: ${sk.error}` : fmt(sk.ms)) : '-',
+      sk && !sk.error ? String(sk.triangles) : '-',
+      rec.sk ? fmt(ours.ms / rec.sk, 2) : '-',
+      iso ? fmt(iso.ms) : '-',
+      iso ? fmt(iso.ms / ours.ms, 1) + '×' : '-',
+    ]);
+    // Let the sampled grid go before the next size (keeps the bench's own RSS honest).
+    field.re = null;
   }
   table(['state', 'N', 'thresh ms', 'ours ms', 'kernel ms', 'triangles', 'skimage ms', 'sk tris', 'ours/sk', 'isosurf ms', 'iso/ours'], rows);
   console.log('  (kernel = bare extractIsosurface per phase with central-difference normals, the like-for-like with skimage;');
