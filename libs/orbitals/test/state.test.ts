@@ -91,16 +91,13 @@ describe('parseOrbitalLabel', () => {
   });
 
   it('prettyLabel renders trade notation', () => {
-    const cases: [string, string][] = [
-      ['3dxy', '3d_xy'],
-      ['3dz2', '3d_z²'],
-      ['3dx2-y2', '3d_x²−y²'],
-      ['1s', '1s'],
-      ['4fx3', '4f_x³'],
-      ['sp3#2', 'sp³ #2'],
-      ['2p+1', '2p(m=+1)'],
-    ];
-    for (const [label, pretty] of cases) expect(prettyLabel(label), label).toBe(pretty);
+    expect(prettyLabel('3dxy')).toBe('3d_xy');
+    expect(prettyLabel('3dz2')).toBe('3d_z²');
+    expect(prettyLabel('3dx2-y2')).toBe('3d_x²−y²');
+    expect(prettyLabel('1s')).toBe('1s');
+    expect(prettyLabel('4fx3')).toBe('4f_x³');
+    expect(prettyLabel('sp3#2')).toBe('sp³ #2');
+    expect(prettyLabel('2p+1')).toBe('2p(m=+1)');
     expect(prettyLabel(stateFromNlm(5, 4, -3))).toBe('5g(s3)');
   });
 
