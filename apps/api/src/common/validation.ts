@@ -42,7 +42,7 @@ export function MaxUtf8Bytes(max: number): PropertyDecorator {
  * bottom-up and applyDecorators applies its list in order, so the list is reversed: the order the rules are checked
  * in (see above) stays what it reads as.
  */
-function stacked(...decorators: PropertyDecorator[]): PropertyDecorator {
+export function stacked(...decorators: PropertyDecorator[]): PropertyDecorator {
   return applyDecorators(...decorators.reverse());
 }
 

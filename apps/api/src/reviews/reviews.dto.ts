@@ -1,7 +1,7 @@
 import { Transform, Type } from 'class-transformer';
 import { DESK_STATES, TEXT_LIMITS, textProblem, type DeskState } from '@psiform/contracts';
 import { IsDefined, IsNotEmpty, IsNumber, IsObject, IsOptional, IsString, IsUUID, Max, MaxLength, Min, ValidateNested, type ValidationArguments } from 'class-validator';
-import { OneOf, OptionalNotNull, trim } from '../common/validation';
+import { OneOf, OptionalNotNull, stacked, trim } from '../common/validation';
 
 
 // The limits and their wording are libs/contracts' (TEXT_LIMITS, textProblem), so the client says the same.
@@ -9,12 +9,19 @@ export const NOTE_MAX = TEXT_LIMITS.noteMax;
 export const COMMENT_MAX = TEXT_LIMITS.commentMax;
 const tooLong = (field: string, max: number) => (a: ValidationArguments) => `${field} ${textProblem(a.value, max) ?? `must be at most ${max} characters`}`;
 
+/** A required text field (the note of a change request, a comment's body): trimmed, not empty, at most `max` characters. */
+function RequiredText(field: string, max: number): PropertyDecorator {
+  return stacked(
+    Transform(trim),
+    IsDefined({ message: `${field} is required` }),
+    IsNotEmpty({ message: `${field} must not be empty` }),
+    MaxLength(max, { message: tooLong(field, max) }),
+    IsString({ message: `${field} must be a string` }),
+  );
+}
+
 export class RequestChangesBody {
-  @Transform(trim)
-  @IsDefined({ message: 'note is required' })
-  @IsNotEmpty({ message: 'note must not be empty' })
-  @MaxLength(NOTE_MAX, { message: tooLong('note', NOTE_MAX) })
-  @IsString({ message: 'note must be a string' })
+  @RequiredText('note', NOTE_MAX)
   note: string;
 }
 
@@ -46,11 +53,7 @@ export class PinBody {
 }
 
 export class CommentBody {
-  @Transform(trim)
-  @IsDefined({ message: 'body is required' })
-  @IsNotEmpty({ message: 'body must not be empty' })
-  @MaxLength(COMMENT_MAX, { message: tooLong('body', COMMENT_MAX) })
-  @IsString({ message: 'body must be a string' })
+  @RequiredText('body', COMMENT_MAX)
   body: string;
 
   @OptionalNotNull()

@@ -68,16 +68,12 @@ export class TypeormJobsStore implements JobsStore {
   /** Transactions, and the joins of reads, run on the manager of this feature's own repositories. */
   private get ds(): EntityManager { return this.jobRows.manager; }
 
-  private get jobs() {
-    return this.ds.getRepository(JobEntity);
-  }
-
   request(job: NewJob): Promise<JobEntity> {
     return this.ds.transaction((em) => requestJobIn(em, job));
   }
 
   staleQueued(olderThanMs: number, limit: number): Promise<JobEntity[]> {
-    return this.jobs
+    return this.jobRows
       .createQueryBuilder('j')
       .where(`j.state = 'queued' AND j.updated_at <= now() - (:ms || ' milliseconds')::interval`, { ms: String(olderThanMs) })
       .orderBy('j.updated_at', 'ASC')
@@ -98,7 +94,7 @@ export class TypeormJobsStore implements JobsStore {
   }
 
   findById(id: string): Promise<JobEntity | null> {
-    return this.jobs.findOne({ where: { id } });
+    return this.jobRows.findOne({ where: { id } });
   }
 
   async loadContext(id: string): Promise<JobContext | null> {
@@ -110,12 +106,12 @@ export class TypeormJobsStore implements JobsStore {
   }
 
   async markActive(id: string, attempt: number, stage: string, progress: number): Promise<void> {
-    await this.jobs.update({ id }, { state: 'active', attempts: attempt, stage, progress, error: null });
+    await this.jobRows.update({ id }, { state: 'active', attempts: attempt, stage, progress, error: null });
   }
 
   async setStage(id: string, stage: string, progress: number): Promise<void> {
     // Never moves a finished job backwards (a late duplicate delivery cannot undo a completion).
-    await this.jobs
+    await this.jobRows
       .createQueryBuilder()
       .update()
       .set({ stage, progress })
@@ -133,7 +129,7 @@ export class TypeormJobsStore implements JobsStore {
 
   /** A completed row is final: a late retry or failure report never changes it. */
   private async unlessCompleted(id: string, set: Partial<Pick<JobEntity, 'state' | 'stage' | 'progress' | 'error'>>): Promise<void> {
-    await this.jobs.createQueryBuilder().update().set(set).where('id = :id AND state <> :done', { id, done: 'completed' }).execute();
+    await this.jobRows.createQueryBuilder().update().set(set).where('id = :id AND state <> :done', { id, done: 'completed' }).execute();
   }
 
   async complete(id: string, timings: Record<string, number>, assets: NewAsset[]): Promise<string[]> {

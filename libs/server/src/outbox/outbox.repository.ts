@@ -50,10 +50,6 @@ export class TypeormOutboxStore implements OutboxStore {
   /** Transactions, and the joins of reads, run on the manager of this feature's own repositories. */
   private get ds(): EntityManager { return this.outboxRows.manager; }
 
-  private get rows() {
-    return this.ds.getRepository(OutboxEntity);
-  }
-
   enqueue(item: JobItem, opts: { maxAttempts?: number } = {}): Promise<string> {
     return enqueueIn(this.ds, item, opts);
   }
@@ -89,15 +85,15 @@ export class TypeormOutboxStore implements OutboxStore {
   }
 
   findById(id: string): Promise<OutboxEntity | null> {
-    return this.rows.findOne({ where: { id } });
+    return this.outboxRows.findOne({ where: { id } });
   }
 
   async markDone(id: string): Promise<void> {
-    await this.rows.update({ id }, { state: 'done', doneAt: new Date(), lastError: null });
+    await this.outboxRows.update({ id }, { state: 'done', doneAt: new Date(), lastError: null });
   }
 
   async markFailed(id: string, error: string): Promise<void> {
-    await this.rows.createQueryBuilder().update().set({ state: 'failed', lastError: error.slice(0, 2000) }).where(`id = :id AND state <> 'done'`, { id }).execute();
+    await this.outboxRows.createQueryBuilder().update().set({ state: 'failed', lastError: error.slice(0, 2000) }).where(`id = :id AND state <> 'done'`, { id }).execute();
   }
 
   async claimStale(olderThanMs: number, recheckMs: number, limit: number): Promise<RelayedRow[]> {
@@ -113,7 +109,7 @@ export class TypeormOutboxStore implements OutboxStore {
   }
 
   async redrive(id: string, reason: string): Promise<void> {
-    await this.rows
+    await this.outboxRows
       .createQueryBuilder()
       .update()
       .set({ state: 'pending', dueAt: () => 'now()', lastError: `sweeper: ${reason}`.slice(0, 2000) })
