@@ -1,4 +1,4 @@
-import { Body, Controller, Get, HttpCode, Param, Post, Query } from '@nestjs/common';
+import { applyDecorators, Body, Controller, Get, HttpCode, Param, Post, Query } from '@nestjs/common';
 import type { CommentDto, ReviewDeskItemDto, ReviewTransitionDto, UserDto } from '@psiform/contracts';
 import { CurrentUser, Roles } from '../auth/auth.decorators';
 import { uuidParam } from '../common/uuid-param.pipe';
@@ -6,42 +6,37 @@ import { CommentBody, OptionalNoteBody, ApproveBody, RequestChangesBody, ReviewD
 import { ReviewsService } from './reviews.service';
 import { REVIEW_TRANSITIONS as T } from '@psiform/server';
 
+/** A review step's route: POST answering 200 (the figure changes state, nothing is created), for the roles of its row in the transition table. */
+function Step(path: string, transition: keyof typeof T): MethodDecorator {
+  return applyDecorators(Post(path), HttpCode(200), Roles(...T[transition].roles));
+}
+
 /** Review steps on a figure; roles from the transition table, membership and state in ReviewsService. */
 @Controller('figures')
 export class ReviewsController {
   constructor(private readonly reviews: ReviewsService) {}
 
-  @Post(':id/submit')
-  @HttpCode(200)
-  @Roles(...T.submit.roles)
+  @Step(':id/submit', 'submit')
   submit(@CurrentUser() user: UserDto, @Param('id', uuidParam('id')) id: string): Promise<ReviewTransitionDto> {
     return this.reviews.submit(user, id);
   }
 
-  @Post(':id/request-changes')
-  @HttpCode(200)
-  @Roles(...T.request_changes.roles)
+  @Step(':id/request-changes', 'request_changes')
   requestChanges(@CurrentUser() user: UserDto, @Param('id', uuidParam('id')) id: string, @Body() body: RequestChangesBody): Promise<ReviewTransitionDto> {
     return this.reviews.requestChanges(user, id, body.note);
   }
 
-  @Post(':id/approve')
-  @HttpCode(200)
-  @Roles(...T.approve.roles)
+  @Step(':id/approve', 'approve')
   approve(@CurrentUser() user: UserDto, @Param('id', uuidParam('id')) id: string, @Body() body: ApproveBody): Promise<ReviewTransitionDto> {
     return this.reviews.approve(user, id, body.note || undefined, body.override);
   }
 
-  @Post(':id/colour-signoff')
-  @HttpCode(200)
-  @Roles(...T.colour_signoff.roles)
+  @Step(':id/colour-signoff', 'colour_signoff')
   colourSignoff(@CurrentUser() user: UserDto, @Param('id', uuidParam('id')) id: string, @Body() body: OptionalNoteBody): Promise<ReviewTransitionDto> {
     return this.reviews.colourSignoff(user, id, body.note || undefined);
   }
 
-  @Post(':id/release')
-  @HttpCode(200)
-  @Roles(...T.release.roles)
+  @Step(':id/release', 'release')
   release(@CurrentUser() user: UserDto, @Param('id', uuidParam('id')) id: string): Promise<ReviewTransitionDto> {
     return this.reviews.release(user, id);
   }
