@@ -161,6 +161,11 @@ export interface SurfacesResult {
   isovalue: number;
   /** |psi|² level, a0^-3. */
   density: number;
+  /**
+   * Largest |psi| of the state (a0^-3/2) as the level solver found it over all space, independent of the grid: the
+   * |psi| rule's upper limit. null for uploaded cubes (no analytic state).
+   */
+  maxAbsPsi: number | null;
   enclosed: {
     /** Probability inside the surface over all space (computed state), or inside the cube (upload). */
     fraction: number;
@@ -214,6 +219,17 @@ export interface SurfaceRefinement {
   trianglesAfter: number;
   rounds: number;
   met: boolean;
+}
+
+/** A |psi| level at or above the state's largest |psi|: there is no surface. Carries the limit for the message. */
+export class NoSurfaceError extends RangeError {
+  constructor(
+    readonly value: number,
+    readonly maxAbsPsi: number,
+  ) {
+    super(`no surface: |psi| = ${value} is above the largest |psi| of this state (${fmt(maxAbsPsi)} a0^-3/2)`);
+    this.name = 'NoSurfaceError';
+  }
 }
 
 function fmt(x: number): string {
@@ -319,9 +335,7 @@ export function planSurfaces(recipe: SurfaceRecipe, opts: { maxN?: number } = {}
     level = { ...L, method: solver.method };
   } else {
     const t = rule.value * rule.value;
-    if (!(t < solver.maxDensity)) {
-      throw new RangeError(`no surface: |psi| = ${rule.value} is above the largest |psi| of this state (${fmt(Math.sqrt(solver.maxDensity))} a0^-3/2)`);
-    }
+    if (!(t < solver.maxDensity)) throw new NoSurfaceError(rule.value, Math.sqrt(solver.maxDensity));
     const e = solver.fractionAt(t);
     level = { density: t, isovalue: rule.value, fraction: e.fraction, error: e.error, method: solver.method };
   }
@@ -806,6 +820,7 @@ export async function recipeToSurfaces(recipe: SurfaceRecipe, hooks: SurfaceHook
     rule: recipe.surface,
     isovalue: plan.level.isovalue,
     density: plan.level.density,
+    maxAbsPsi: Math.sqrt(plan.solver.maxDensity),
     enclosed: {
       fraction: plan.level.fraction,
       error: plan.level.error,
@@ -1012,6 +1027,7 @@ async function cubeToSurfaces(recipe: SurfaceRecipe, hooks: SurfaceHooks): Promi
     rule,
     isovalue,
     density: isovalue * isovalue,
+    maxAbsPsi: null,
     enclosed: { fraction, error: NaN, inBox: fraction, over: 'inside the uploaded cube', method: 'sum over the cube samples' },
     grid: { mode: 'fixed', n: Math.max(nx, ny, nz), extent: ext, spacing: Math.min(...src.spacing), regions: [] },
     box: { meetsSurface: meets },

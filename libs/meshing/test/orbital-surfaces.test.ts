@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { compileState, oneSEnclosingIsovalue, parseOrbitalLabel, stateFromNlm, type CompiledState } from '@psiform/orbitals';
-import { recipeToSurfaces } from '../src/pipeline';
+import { NoSurfaceError, recipeToSurfaces } from '../src/pipeline';
 import { extractOrbitalSurfaces } from '../src/orbital-surfaces';
 import { meshStats } from '../src/stats';
 
@@ -153,5 +153,24 @@ describe('lobes and phases', () => {
     await expect(recipeToSurfaces({ content, grid: { n: 16, extent: -2 }, surface: { rule: 'psi', value: 0.1 } })).rejects.toThrow(/grid.extent/);
     // A level above the largest |psi| has no surface (1s: |psi| <= 1/sqrt(pi) at the nucleus).
     await expect(recipeToSurfaces({ content, grid: { n: 16 }, surface: { rule: 'psi', value: 0.6 } })).rejects.toThrow(/no surface/);
+  });
+
+  it('the largest |psi| is the closed-form maximum over all space, whatever the grid, and the no-surface error carries it', async () => {
+    // Closed forms (hydrogen, a0 units): 1s |psi| = e^-r / sqrt(pi), largest 1/sqrt(pi) at r = 0; 2p_z
+    // psi = r e^(-r/2) cos(theta) / (4 sqrt(2 pi)), largest on the z axis at r = 2: 2 e^-1 / (4 sqrt(2 pi)).
+    const cases = [
+      { label: '1s', max: 1 / Math.sqrt(Math.PI) },
+      { label: '2pz', max: (2 * Math.exp(-1)) / (4 * Math.sqrt(2 * Math.PI)) },
+    ];
+    for (const { label, max } of cases) {
+      const content = parseOrbitalLabel(label).state;
+      for (const n of [16, 41]) {
+        const r = await recipeToSurfaces({ content, grid: { n }, surface: { rule: 'psi', value: max / 2 } });
+        expect(Math.abs(r.maxAbsPsi! - max) / max, `${label} at ${n}³`).toBeLessThan(1e-3);
+      }
+      const err = await recipeToSurfaces({ content, grid: { n: 16 }, surface: { rule: 'psi', value: 2 * max } }).catch((e: unknown) => e);
+      expect(err).toBeInstanceOf(NoSurfaceError);
+      expect(Math.abs((err as NoSurfaceError).maxAbsPsi - max) / max).toBeLessThan(1e-3);
+    }
   });
 });

@@ -368,7 +368,7 @@ export function ComposerPanel(p: ComposerPanelProps) {
                   The surfaces are ψ = ±value (|ψ| = value for complex states)
                   {p.maxAbsPsi !== null && (
                     <>
-                      ; this state's largest |ψ| on the preview grid is <span data-testid="cmp-psi-max">{p.maxAbsPsi.toPrecision(3)}</span>
+                      ; this state's largest |ψ| over all space is <span data-testid="cmp-psi-max">{p.maxAbsPsi.toPrecision(3)}</span>
                     </>
                   )}
                   .
@@ -407,8 +407,8 @@ export function ComposerPanel(p: ComposerPanelProps) {
   );
 }
 
-/** The message when the |ψ| rule asks for a level the state never reaches on the preview grid (no surface), else null. */
-export function psiMaxMessage(recipe: ComposerDraft['recipe'], maxAbsPsi: number | null, previewN: number): string | null {
+/** The message when the |ψ| rule asks for a level the state never reaches anywhere (no surface), else null. */
+export function psiMaxMessage(recipe: ComposerDraft['recipe'], maxAbsPsi: number | null): string | null {
   if (recipe.surface.rule !== 'psi' || maxAbsPsi === null || recipe.surface.value < maxAbsPsi) return null;
-  return `No surface: |ψ| never reaches ${recipe.surface.value} for this state. Its largest |ψ| on the ${previewN}³ preview grid is ${maxAbsPsi.toPrecision(3)} (same unit); choose a value below it.`;
+  return `No surface: |ψ| never reaches ${recipe.surface.value} for this state. Its largest |ψ| over all space is ${maxAbsPsi.toPrecision(3)} (same unit); choose a value below it.`;
 }

@@ -91,7 +91,7 @@ function Studio({ initial, figure, publicationId }: StudioProps) {
   const stateOk = !errors.rows;
   const state = stateOk ? { Z: recipe.content.Z, terms: recipe.content.terms.map((t) => ({ ...t, im: t.im ?? 0 })) } : null;
   const { surfaces, status, previewN } = usePreview(state, recipe.grid.n, recipe.grid.extent, { ...recipe.surface, nodal: recipe.stage.material.nodalOutline }, { palette: recipe.palette, mode: recipe.phase?.mode });
-  const psiMax = psiMaxMessage(recipe, status.maxAbs, previewN);
+  const psiMax = psiMaxMessage(recipe, status.maxAbs);
   if (psiMax && !errors.psi) errors.psiMax = psiMax;
 
   const parsed = useMemo(() => parseRecipe(recipe), [recipe]);

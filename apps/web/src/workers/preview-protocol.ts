@@ -32,9 +32,9 @@ export type PreviewResponse =
       warnings?: SurfaceWarning[];
       /** The grid the preview used (points per side and half-width of the outer cube, a0). */
       grid?: { n: number; extent: number };
-      /** Largest |ψ| on the grids sampled for this surface (a0^-3/2): no |ψ| surface exists above it. */
+      /** Largest |ψ| of the state over all space as the level solver found it (a0^-3/2), whatever the grid: no |ψ| surface exists above it. */
       maxAbs?: number | null;
       triangles: number;
       ms: { extract: number; total: number };
     }
-  | { type: 'error'; seq: number; message: string; /** As on 'surface': the largest |ψ| sampled before the error. */ maxAbs?: number | null };
+  | { type: 'error'; seq: number; message: string; /** As on 'surface', when the error is a |ψ| level above it; null otherwise. */ maxAbs?: number | null };

@@ -5,7 +5,7 @@
 // transferable typed arrays (no copies).
 import { phaseColoursInto, resolvePhaseMode } from '@psiform/colour';
 import { PSIFORM_PALETTE } from '@psiform/contracts';
-import { recipeToSurfaces, type SampledField } from '@psiform/meshing';
+import { NoSurfaceError, recipeToSurfaces, type SampledField } from '@psiform/meshing';
 import type { CompiledState, OrbitalState } from '@psiform/orbitals';
 import type { SurfaceArrays } from '../scene/geometry';
 import type { PreviewRequest, PreviewResponse } from './preview-protocol';
@@ -17,12 +17,7 @@ interface Kept {
   key: string;
   re: Float32Array;
   im: Float32Array | null;
-  /** Largest |ψ| on this grid: the |ψ| rule's upper limit (above it there is no surface). */
-  maxAbs: number;
 }
-
-/** Largest |ψ| over the grids sampled for the current surface request. */
-let maxAbsSeen = 0;
 
 let current: { seq: number; state: OrbitalState; n: number | 'auto'; extent: 'auto' | number } | null = null;
 let kept: Kept | null = null;
@@ -39,14 +34,8 @@ function sampler(state: OrbitalState, grid: { n: number; extent: number }, compi
     const re = new Float32Array(N);
     const im = compiled.isReal ? null : new Float32Array(N);
     compiled.sampleGrid({ n: grid.n, extent: grid.extent as never }, re, im);
-    let max2 = 0;
-    for (let i = 0; i < N; i++) {
-      const a = re[i] * re[i] + (im ? im[i] * im[i] : 0);
-      if (a > max2) max2 = a;
-    }
-    kept = { key, re, im, maxAbs: Math.sqrt(max2) };
+    kept = { key, re, im };
   }
-  maxAbsSeen = Math.max(maxAbsSeen, kept.maxAbs);
   return { re: kept.re.slice(), im: kept.im ? kept.im.slice() : null };
 }
 
@@ -62,7 +51,6 @@ export async function handle(req: PreviewRequest): Promise<void> {
   }
   const t0 = performance.now();
   const { nodal, ...surface } = req.rule;
-  maxAbsSeen = 0;
   const result = await recipeToSurfaces(
     { content: current.state, grid: { n: current.n, extent: current.extent }, surface },
     // Nodal surfaces only while the Stage's outline switch is on: they cost 15-70 ms an update at 112³.
@@ -100,7 +88,7 @@ export async function handle(req: PreviewRequest): Promise<void> {
       enclosedInBox: result.enclosed.inBox,
       warnings: result.warnings,
       grid: { n: result.grid.n, extent: result.grid.extent },
-      maxAbs: maxAbsSeen || null,
+      maxAbs: result.maxAbsPsi,
       triangles,
       ms: { extract: t.threshold + t.extracting, total: performance.now() - t0 },
     },
@@ -110,6 +98,9 @@ export async function handle(req: PreviewRequest): Promise<void> {
 
 self.onmessage = (ev: MessageEvent<PreviewRequest>) => {
   handle(ev.data).catch((err) => {
-    post({ type: 'error', seq: ev.data?.seq ?? -1, message: err instanceof Error ? err.message : String(err), maxAbs: maxAbsSeen || null });
+    // A level above the state's largest |ψ| carries that limit (over all space, not one grid's samples), so the
+    // message can name it whatever grid the preview last used.
+    const maxAbs = err instanceof NoSurfaceError ? err.maxAbsPsi : null;
+    post({ type: 'error', seq: ev.data?.seq ?? -1, message: err instanceof Error ? err.message : String(err), maxAbs });
   });
 };
