@@ -7,15 +7,17 @@
 // Because no crossed cell is ever dropped, the mesh equals dense marching cubes on the same grid (Lorensen &
 // Cline 1987; tables from Bourke, mc-tables.ts) vertex for vertex, while the work follows the surface's area.
 // Blocks are visited in z-slabs; values and edge-vertex ids live in rings of B + 1 lattice planes (slot = plane mod
-// (B + 1)), each entry stamped with its plane, so nothing is cleared and no hashing is needed (the slab caches of
-// the dense kernel, marching-cubes.ts, made sparse). A block does not sample a face its lower neighbour (x, y or z)
+// (B + 1)); an id is current when it is above the level's vertex count at the time its plane entered the ring, so
+// nothing is cleared and no hashing is needed (the slab caches of the dense kernel, marching-cubes.ts, made sparse).
+// Cube cases come from rows of inside bits (one int per row of a block), so the many cells a surface does not
+// cross cost a few integer operations each. A block does not sample a face its lower neighbour (x, y or z)
 // already sampled, so each lattice point near the surface is evaluated about once. Shared edges get one vertex, so
 // the mesh is indexed and watertight where the surface is closed.
 // Octree culling of empty space for isosurfaces: J. Wilhelms & A. Van Gelder, "Octrees for faster isosurface
 // generation", ACM Trans. Graph. 11(3), 1992; interval bounds instead of min/max trees: T. Duff, "Interval
 // arithmetic and recursive subdivision for implicit functions and constructive solid geometry", SIGGRAPH 1992.
 
-import { cubeCase, emitCellTriangles, setCorners } from './marching-cubes';
+import { emitCellTriangles } from './marching-cubes';
 import { CDX, CDY, CDZ, EDGE_AXIS, EDGE_HI, EDGE_LO, EDGE_TABLE } from './mc-tables';
 import { GrowableFloat32, GrowableUint32, type Mesh } from './mesh';
 import type { CubeGrid } from './orbital-surfaces';
@@ -33,6 +35,20 @@ export interface BlockField {
    */
   sample(start: readonly [number, number, number], size: readonly [number, number, number], out: Float32Array): void;
 }
+
+/**
+ * Cube case (Bourke's corner order, bit c: corner c inside) of the 8 corner bits in lattice order (bit x + 2 y + 4 z
+ * for the corner at offset (x, y, z)): the extractor reads corner bits from packed rows in lattice order.
+ */
+const NAT_TO_CASE = (() => {
+  const t = new Uint8Array(256);
+  for (let nat = 0; nat < 256; nat++) {
+    let ci = 0;
+    for (let c = 0; c < 8; c++) if (nat & (1 << (CDX[c] + 2 * CDY[c] + 4 * CDZ[c]))) ci |= 1 << c;
+    t[nat] = ci;
+  }
+  return t;
+})();
 
 export interface SparseLevel {
   level: number;
@@ -58,7 +74,8 @@ export function extractSparse(field: BlockField, grid: CubeGrid, levels: readonl
   if (!Number.isInteger(n) || n < 2) throw new RangeError(`grid.n must be an integer >= 2 (got ${n})`);
   if (!(extent > 0) || !Number.isFinite(extent)) throw new RangeError(`grid.extent must be > 0 (got ${extent})`);
   const B = opts.blockCells ?? 4;
-  if (!Number.isInteger(B) || B < 1) throw new RangeError(`blockCells must be an integer >= 1 (got ${B})`);
+  // B + 1 points per row fit one int of inside bits (rowBits below).
+  if (!Number.isInteger(B) || B < 1 || B > 30) throw new RangeError(`blockCells must be an integer from 1 to 30 (got ${B})`);
   const L = levels.length;
   if (L > 8) throw new RangeError(`at most 8 levels at once (got ${L})`);
   const h = (2 * extent) / (n - 1);
@@ -111,66 +128,44 @@ export function extractSparse(field: BlockField, grid: CubeGrid, levels: readonl
   for (let sl0 = 0; sl0 < R; sl0++)
     for (let c = 0; c < 8; c++) cornerTab[8 * sl0 + c] = CDY[c] * nR + (CDZ[c] ? (sl0 + 1) % R : sl0) * n + CDX[c];
   let box = new Float32Array(S * S * S * 4);
-  // Vertex ids of lattice edges, per level: the edge from point (i, j, k) along axis a belongs to the block that
-  // holds the point with local coordinates (i mod B, j mod B, k mod B) < B, in a record of 3 B³ L ids in a pool.
-  // A block's cells reach points of its own slab and of the next, so two pools (by slab parity) are enough and
-  // are reused slab after slab: a few MB however fine the grid (a table over the whole lattice, or a hash, would
-  // touch tens of MB of fresh memory at 512³, which costs more here than the marching itself).
-  const nbo = nb + 1; // the last lattice point may begin a block of its own
-  // A record starts with one base per level: the level's vertex count when the record was (re)used. Vertex ids only
-  // grow, so an entry (id + 1) is current exactly when it exceeds the base: reused records need no clearing.
-  const rec = L + 3 * B * B * B * L;
-  let perSlab = 0;
-  for (let bz = 0, i = 0; bz < nb; bz++) {
-    let c = 0;
-    for (let q = 0; q < nb * nb; q++, i++) if (masks[i] !== 0) c++;
-    perSlab = Math.max(perSlab, c);
-  }
-  // Records a slab needs: its active blocks and the neighbours their cells reach (about 3 each; grown if more).
-  const pools = [0, 1].map(() => ({ slab: -1, count: 0, data: new Int32Array(rec * (3 * perSlab + 64)), map: new Int32Array(nbo * nbo), stamp: new Int32Array(nbo * nbo) }));
-  const poolFor = (bz: number) => {
-    const p = pools[bz & 1];
-    if (p.slab !== bz) {
-      p.slab = bz;
-      p.count = 0;
+  // Vertex ids of lattice edges, per level, in the same ring of R planes: ids[q][3 ((p mod R) n + j) n + 3 i + a] =
+  // id + 1 of the vertex on the edge from point (i, j, p) along axis a (the three axes of a point side by side, so
+  // a cell's 12 edges lie in 4 short runs of memory). An entry is current when it exceeds base[q R + p mod R], the
+  // level's vertex count when plane p entered the ring (vertex ids only grow), so nothing is ever cleared. Blocks
+  // share edges through it whatever their order in a slab; 3 R n² ids per level (16 MB at 512³), touched only near
+  // the surface. Lookups are one add from the cell's point (edgeTab below).
+  const ids = levels.map(() => new Int32Array(3 * R * plane));
+  const base = new Int32Array(L * R);
+  // Per plane slot of a cell's k: offset of each of its 12 edges from the cell's 3 (j n + i), and the edge's plane slot.
+  const edgeTab = new Int32Array(12 * R);
+  const edgePlane = new Int32Array(12 * R);
+  for (let sl0 = 0; sl0 < R; sl0++)
+    for (let e = 0; e < 12; e++) {
+      const lo = EDGE_LO[e];
+      const p = (sl0 + CDZ[lo]) % R;
+      edgeTab[12 * sl0 + e] = 3 * ((p * n + CDY[lo]) * n + CDX[lo]) + EDGE_AXIS[e];
+      edgePlane[12 * sl0 + e] = p;
     }
-    return p;
-  };
-  /** Offset in pool.data of the record of block (bx, by) of slab bz (created empty on first use). */
-  const recordOf = (p: (typeof pools)[number], bx: number, by: number, bz: number): number => {
-    const key = bx + nbo * by;
-    if (p.stamp[key] === bz + 1) return p.map[key];
-    if ((p.count + 1) * rec > p.data.length) {
-      const next = new Int32Array(p.data.length * 2);
-      next.set(p.data.subarray(0, p.count * rec));
-      p.data = next;
-    }
-    const off = p.count++ * rec;
-    for (let q = 0; q < L; q++) p.data[off + q] = out[q].pos.length / 3;
-    p.map[key] = off;
-    p.stamp[key] = bz + 1;
-    return off;
-  };
   // Sized for about 2.5 B vertices per active block over all levels (a surface crossing a block of B³ cells meets
   // about 2 B² edges, each shared by about 4 cells, and many blocks are active only because the bound is not tight):
   // buffers then grow once or twice at most, and no fresh memory is touched in vain (page faults cost here).
   const guess = Math.max(1024, Math.ceil((nActive * B * 2.5) / L));
   const out = levels.map(() => ({ pos: new GrowableFloat32(guess * 3), idx: new GrowableUint32(guess * 6) }));
-  const cv = new Float64Array(8);
+  // Inside bits of the block's rows of points (bit i: point i of the row is strictly inside), per level.
+  const rowBits = new Int32Array(S * S);
   const ev = new Uint32Array(12);
-  const owner = new Int32Array(8); // records of this block and its +x, +y, +z neighbours (bits 1, 2, 4), -1: not yet
   const start: [number, number, number] = [0, 0, 0];
   const size: [number, number, number] = [0, 0, 0];
   const active = (bx: number, by: number, bz: number) => bx >= 0 && by >= 0 && bz >= 0 && masks[bx + nb * (by + nb * bz)] !== 0;
   for (let bz = 0; bz < nb; bz++) {
-    const here = poolFor(bz);
-    const above = poolFor(bz + 1);
+    const k0 = bz * B;
+    // Planes entering the ring with this slab (its lowest plane came in with the slab before, as that one's top).
+    for (let p = bz === 0 ? 0 : k0 + 1; p <= Math.min(k0 + B, n - 1); p++) for (let q = 0; q < L; q++) base[q * R + (p % R)] = out[q].pos.length / 3;
     for (let by = 0; by < nb; by++) {
       for (let bx = 0; bx < nb; bx++) {
         const mask = masks[bx + nb * (by + nb * bz)];
         if (mask === 0) continue;
-        owner.fill(-1);
-        const i0 = bx * B, j0 = by * B, k0 = bz * B;
+        const i0 = bx * B, j0 = by * B;
         const sx = Math.min(S, n - i0), sy = Math.min(S, n - j0), sz = Math.min(S, n - k0);
         const row0 = nb * (by + nb * bz);
         // The lower faces an active neighbour already sampled are skipped: their values are still in the rings (the
@@ -202,22 +197,28 @@ export function extractSparse(field: BlockField, grid: CubeGrid, levels: readonl
             }
           }
         }
-        let vmin = Infinity;
-        let vmax = -Infinity;
-        for (let k = 0; k < sz; k++) {
-          const slot = (k0 + k) % R;
-          for (let j = 0; j < sy; j++) {
-            const row = (j0 + j) * nR + slot * n + i0;
-            for (let i = 0; i < sx; i++) {
-              const v = vals[row + i];
-              if (v < vmin) vmin = v;
-              if (v > vmax) vmax = v;
+        const full = (1 << sx) - 1;
+        for (let q = 0; q < L; q++) {
+          if ((mask & (1 << q)) === 0) continue;
+          const level = levels[q].level;
+          const s = levels[q].inside === 'above' ? 1 : -1;
+          const sl = s * level;
+          // Inside bits row by row (the cube cases below are read from them); a level no point of the block is on
+          // either side of makes no triangle here (as cubeCase: strictly beyond the level is inside).
+          let any = 0;
+          let all = full;
+          for (let k = 0; k < sz; k++) {
+            const slot = (k0 + k) % R;
+            for (let j = 0; j < sy; j++) {
+              const row = (j0 + j) * nR + slot * n + i0;
+              let bits = 0;
+              for (let i = 0; i < sx; i++) if (s * vals[row + i] > sl) bits |= 1 << i;
+              rowBits[k * S + j] = bits;
+              any |= bits;
+              all &= bits;
             }
           }
-        }
-        for (let q = 0; q < L; q++) {
-          const level = levels[q].level;
-          if ((mask & (1 << q)) === 0 || level < vmin || level > vmax) continue;
+          if (any === 0 || all === full) continue;
           const o = out[q];
           // Room for this block at once (12 edge vertices and 5 triangles per cell at most), not per vertex.
           const nc = (sx - 1) * (sy - 1) * (sz - 1);
@@ -225,72 +226,54 @@ export function extractSparse(field: BlockField, grid: CubeGrid, levels: readonl
           o.idx.reserve(15 * nc);
           const pos = o.pos.data;
           const idx = o.idx.data;
-          const s = levels[q].inside === 'above' ? 1 : -1;
-          const sl = s * level;
+          const idq = ids[q];
+          const bq = q * R;
+          let nv = o.pos.length / 3;
           for (let k = 0; k < sz - 1; k++) {
             const gk = k0 + k;
-            const ct = 8 * (gk % R);
-            const o0 = cornerTab[ct], o1 = cornerTab[ct + 1], o2 = cornerTab[ct + 2], o3 = cornerTab[ct + 3];
-            const o4 = cornerTab[ct + 4], o5 = cornerTab[ct + 5], o6 = cornerTab[ct + 6], o7 = cornerTab[ct + 7];
+            const sk = gk % R;
+            const ct = 8 * sk;
+            const et = 12 * sk;
             for (let j = 0; j < sy - 1; j++) {
+              const ra = rowBits[k * S + j], rb = rowBits[k * S + j + 1], rc = rowBits[(k + 1) * S + j], rd = rowBits[(k + 1) * S + j + 1];
+              // Four rows of points all on one side: no cell of this row is crossed.
+              if ((ra | rb | rc | rd) === 0 || (ra & rb & rc & rd) === full) continue;
               const gj = j0 + j;
               for (let i = 0; i < sx - 1; i++) {
+                // Corner bits in lattice order (x + 2 y + 4 z), then Bourke's corner order (NAT_TO_CASE).
+                const nat = ((ra >> i) & 3) | (((rb >> i) & 3) << 2) | (((rc >> i) & 3) << 4) | (((rd >> i) & 3) << 6);
+                if (nat === 0 || nat === 255) continue;
+                const ci = NAT_TO_CASE[nat];
                 const gi = i0 + i;
-                const b = gj * nR + gi;
-                const v0 = vals[b + o0], v1 = vals[b + o1], v2 = vals[b + o2], v3 = vals[b + o3];
-                const v4 = vals[b + o4], v5 = vals[b + o5], v6 = vals[b + o6], v7 = vals[b + o7];
-                const ci = cubeCase(s, sl, v0, v1, v2, v3, v4, v5, v6, v7);
-                if (ci === 0 || ci === 255) continue;
-                setCorners(cv, v0, v1, v2, v3, v4, v5, v6, v7);
+                const vb0 = gj * nR + gi;
+                const lat = 3 * (gj * n + gi);
                 const em = EDGE_TABLE[ci];
                 for (let e = 0; e < 12; e++) {
                   if ((em & (1 << e)) === 0) continue;
-                  const lo = EDGE_LO[e];
-                  const axis = EDGE_AXIS[e];
-                  const pk = gk + CDZ[lo];
-                  const pi = gi + CDX[lo];
-                  const pj = gj + CDY[lo];
-                  // Local coordinates in the owning block: this block, or its +x / +y / +z neighbour at local 0.
-                  let li = pi - i0;
-                  let lj = pj - j0;
-                  let lk = pk - k0;
-                  let w = 0;
-                  if (li === B) {
-                    li = 0;
-                    w |= 1;
-                  }
-                  if (lj === B) {
-                    lj = 0;
-                    w |= 2;
-                  }
-                  if (lk === B) {
-                    lk = 0;
-                    w |= 4;
-                  }
-                  const pool = w & 4 ? above : here;
-                  let r0 = owner[w];
-                  if (r0 < 0) r0 = owner[w] = recordOf(pool, bx + (w & 1), by + ((w >> 1) & 1), bz + (w >> 2));
-                  const slot = r0 + L + (((lk * B + lj) * B + li) * 3 + axis) * L + q;
-                  const known = pool.data[slot];
-                  if (known > pool.data[r0 + q]) {
+                  const at = edgeTab[et + e] + lat;
+                  const known = idq[at];
+                  if (known > base[bq + edgePlane[et + e]]) {
                     ev[e] = known - 1;
                     continue;
                   }
-                  const va = cv[lo];
-                  const vb = cv[EDGE_HI[e]];
+                  const lo = EDGE_LO[e];
+                  const axis = EDGE_AXIS[e];
+                  const va = vals[vb0 + cornerTab[ct + lo]];
+                  const vb = vals[vb0 + cornerTab[ct + EDGE_HI[e]]];
                   const t = (level - va) / (vb - va);
-                  const id = o.pos.length / 3;
+                  const p3 = 3 * nv;
                   // The same arithmetic as extractIsosurface, so both give identical vertices.
-                  pos[o.pos.length++] = -extent + h * (pi + (axis === 0 ? t : 0));
-                  pos[o.pos.length++] = -extent + h * (pj + (axis === 1 ? t : 0));
-                  pos[o.pos.length++] = -extent + h * (pk + (axis === 2 ? t : 0));
-                  pool.data[slot] = id + 1;
-                  ev[e] = id;
+                  pos[p3] = -extent + h * (gi + CDX[lo] + (axis === 0 ? t : 0));
+                  pos[p3 + 1] = -extent + h * (gj + CDY[lo] + (axis === 1 ? t : 0));
+                  pos[p3 + 2] = -extent + h * (gk + CDZ[lo] + (axis === 2 ? t : 0));
+                  idq[at] = nv + 1;
+                  ev[e] = nv++;
                 }
                 o.idx.length = emitCellTriangles(ci, ev, idx, o.idx.length);
               }
             }
           }
+          o.pos.length = 3 * nv;
         }
       }
     }
