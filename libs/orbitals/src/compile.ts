@@ -1,3 +1,4 @@
+import { expNonPositive } from './fast-exp';
 import { GridSpec, assertGridSpec } from './grid';
 import { Complex, Monomial, solidHarmonic } from './harmonics';
 import { radialConstants } from './radial';
@@ -394,7 +395,7 @@ export function compileState(state: OrbitalState): CompiledState {
           }
           let p = c[l];
           for (let a = l - 1; a >= 0; a--) p = p * x + c[a];
-          out[idx] = scale * Math.exp(-kappa * r) * L * p;
+          out[idx] = scale * expNonPositive(-kappa * r) * L * p;
         }
       }
     }
@@ -415,7 +416,7 @@ export function compileState(state: OrbitalState): CompiledState {
           let accIm = 0;
           let e = 0;
           for (let i = 0; i < B; i++) {
-            if (bNewExp[i] === 1) e = Math.exp(-bKappa[i] * r);
+            if (bNewExp[i] === 1) e = expNonPositive(-bKappa[i] * r);
             const k = bK[i];
             let L = 1;
             if (k > 0) {
@@ -463,7 +464,7 @@ export function compileState(state: OrbitalState): CompiledState {
           let accRe = 0;
           let e = 0;
           for (let i = 0; i < B; i++) {
-            if (bNewExp[i] === 1) e = Math.exp(-bKappa[i] * r);
+            if (bNewExp[i] === 1) e = expNonPositive(-bKappa[i] * r);
             const k = bK[i];
             let L = 1;
             if (k > 0) {
