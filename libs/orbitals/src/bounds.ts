@@ -44,6 +44,13 @@ export interface FieldBound {
   radialRange(b: number, r0: number, r1: number, out: Float64Array): void;
 }
 
+/** x^a for a small whole a >= 0 by repeated products (exact for a <= 2; `**` costs more on this hot path). */
+function ipow(x: number, a: number): number {
+  let p = 1;
+  for (let q = 0; q < a; q++) p *= x;
+  return p;
+}
+
 /** Smallest and largest of x^a over [lo, hi] (exact). */
 function powRange(lo: number, hi: number, a: number, out: Float64Array, o: number): void {
   if (a === 0) {
@@ -51,17 +58,22 @@ function powRange(lo: number, hi: number, a: number, out: Float64Array, o: numbe
     out[o + 1] = 1;
     return;
   }
-  const pl = lo ** a;
-  const ph = hi ** a;
-  if (a % 2 === 1 || lo >= 0) {
-    out[o] = Math.min(pl, ph);
-    out[o + 1] = Math.max(pl, ph);
+  if (a === 1) {
+    out[o] = lo;
+    out[o + 1] = hi;
+    return;
+  }
+  const pl = ipow(lo, a);
+  const ph = ipow(hi, a);
+  if ((a & 1) === 1 || lo >= 0) {
+    out[o] = pl < ph ? pl : ph;
+    out[o + 1] = pl < ph ? ph : pl;
   } else if (hi <= 0) {
     out[o] = ph;
     out[o + 1] = pl;
   } else {
     out[o] = 0;
-    out[o + 1] = Math.max(pl, ph);
+    out[o + 1] = pl > ph ? pl : ph;
   }
 }
 
@@ -158,6 +170,7 @@ export function fieldBound(compiled: CompiledState): FieldBound {
   const dxp = new Float64Array(32);
   const dyp = new Float64Array(32);
   const dzp = new Float64Array(32);
+  const real = compiled.isReal;
   /** Centred-form enclosure of H_b (re in out[0..1], im in out[2..3]) over centre ± half-widths. */
   const centred = (b: number, cx: number, cy: number, cz: number, hx: number, hy: number, hz: number, out: Float64Array): void => {
     const l = lOf[b];
@@ -165,7 +178,7 @@ export function fieldBound(compiled: CompiledState): FieldBound {
     const TR = shiftRe[b];
     const TI = shiftIm[b];
     TR.fill(0);
-    TI.fill(0);
+    if (!real) TI.fill(0);
     cxp[0] = cyp[0] = czp[0] = dxp[0] = dyp[0] = dzp[0] = 1;
     for (let k = 1; k <= l; k++) {
       cxp[k] = cxp[k - 1] * cx;
@@ -178,40 +191,47 @@ export function fieldBound(compiled: CompiledState): FieldBound {
     const pb = polys[b];
     for (let p = 0; p < pb.length; p++) {
       const m = pb[p];
-      for (let i = 0; i <= m.a; i++) {
-        const fx = binom[m.a][i] * cxp[m.a - i];
-        for (let j = 0; j <= m.b; j++) {
-          const fxy = fx * binom[m.b][j] * cyp[m.b - j];
-          for (let k = 0; k <= m.c; k++) {
-            const f = fxy * binom[m.c][k] * czp[m.c - k];
-            const o = i + L1 * (j + L1 * k);
+      const ma = m.a, mb = m.b, mc = m.c;
+      const ba = binom[ma], bb = binom[mb], bc = binom[mc];
+      for (let i = 0; i <= ma; i++) {
+        const fx = ba[i] * cxp[ma - i];
+        for (let j = 0; j <= mb; j++) {
+          const fxy = fx * bb[j] * cyp[mb - j];
+          const oxy = i + L1 * j;
+          for (let k = 0; k <= mc; k++) {
+            const f = fxy * bc[k] * czp[mc - k];
+            const o = oxy + L1 * L1 * k;
             TR[o] += m.re * f;
-            TI[o] += m.im * f;
+            if (!real) TI[o] += m.im * f;
           }
         }
       }
     }
-    let rlo = TR[0], rhi = TR[0], ilo = TI[0], ihi = TI[0];
+    // Each shifted term t dx^i dy^j dz^k ranges over t [0, mag] when every power is even, else over ±|t| mag.
+    let rlo = TR[0], rhi = TR[0], ilo = real ? 0 : TI[0], ihi = ilo;
     for (let k = 0; k < L1; k++)
       for (let j = 0; j < L1; j++)
         for (let i = 0; i < L1; i++) {
           const o = i + L1 * (j + L1 * k);
           if (o === 0) continue;
           const tr = TR[o];
-          const ti = TI[o];
+          const ti = real ? 0 : TI[o];
           if (tr === 0 && ti === 0) continue;
           const mag = dxp[i] * dyp[j] * dzp[k];
-          const even = i % 2 === 0 && j % 2 === 0 && k % 2 === 0;
-          if (even) {
+          if (((i | j | k) & 1) === 0) {
             if (tr > 0) rhi += tr * mag;
             else rlo += tr * mag;
             if (ti > 0) ihi += ti * mag;
             else ilo += ti * mag;
           } else {
-            rlo -= Math.abs(tr) * mag;
-            rhi += Math.abs(tr) * mag;
-            ilo -= Math.abs(ti) * mag;
-            ihi += Math.abs(ti) * mag;
+            const ar = (tr < 0 ? -tr : tr) * mag;
+            rlo -= ar;
+            rhi += ar;
+            if (!real) {
+              const ai = (ti < 0 ? -ti : ti) * mag;
+              ilo -= ai;
+              ihi += ai;
+            }
           }
         }
     out[0] = rlo;
