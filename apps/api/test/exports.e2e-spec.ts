@@ -10,7 +10,7 @@ import { unzipSync, strFromU8 } from 'fflate';
 import { PNG } from 'pngjs';
 import { EXPORT_STAGES, PSIFORM_PALETTE, type JobDto } from '@psiform/contracts';
 import { auth, demoTokens, jobEnded, phasePixels, smallRecipe, startTestApp, DEMO_PUBLICATION, RUN_ID, type TestApp, deleteFigureSets, newAccount } from './support';
-import { readSse, startWorkerProcess, waitFor, type WorkerProcess } from './worker-process';
+import { readSse, startWorkerProcess, polled, waitFor, type WorkerProcess } from './worker-process';
 
 const WEB_DIST = join(__dirname, '..', '..', 'web', 'dist');
 
@@ -116,8 +116,8 @@ describe('exports (e2e)', () => {
     expect(meshJob.state).toBe('completed');
     expect(meshJob.assets.map((a) => a.kind).sort()).toEqual(['glb', 'stl']);
     const fig = await waitFor('the thumbnail', async () => {
-      const f = (await t.http().get(`/api/figures/${id}`).set(auth(tok.editor)).expect(200)).body;
-      return f.thumbnailAssetId ? f : undefined;
+      const f = await polled(t.http().get(`/api/figures/${id}`).set(auth(tok.editor)));
+      return f?.thumbnailAssetId ? f : undefined;
     }, 60000, 300);
     const thumb = fig.assets.find((a: { id: string }) => a.id === fig.thumbnailAssetId);
     expect(thumb).toMatchObject({ kind: 'png', stats: { thumbnail: true, widthPx: 320, heightPx: 240, dpi: 96 } });
@@ -134,8 +134,8 @@ describe('exports (e2e)', () => {
     expect(job.state).toBe('completed');
     expect(job.assets.map((a) => a.kind).sort()).toEqual(['glb', 'stl']); // the export computed the mesh itself
     const fig = await waitFor('the thumbnail of the export-made mesh', async () => {
-      const f = (await t.http().get(`/api/figures/${id}`).set(auth(tok.editor)).expect(200)).body;
-      return f.thumbnailAssetId ? f : undefined;
+      const f = await polled(t.http().get(`/api/figures/${id}`).set(auth(tok.editor)));
+      return f?.thumbnailAssetId ? f : undefined;
     }, 90000, 300);
     expect(fig.assets.find((a: { id: string }) => a.id === fig.thumbnailAssetId)).toMatchObject({ kind: 'png', stats: { thumbnail: true, widthPx: 320, heightPx: 240 } });
     // A second export of the same version reuses the mesh: no second thumbnail job.
@@ -297,8 +297,8 @@ describe('exports (e2e)', () => {
     expect(job.error ?? null).toBeNull();
     expect(job.assets.map((a) => a.kind).sort()).toEqual(['glb', 'png', 'stl']); // the set job made the mesh
     const fig = await waitFor('the thumbnail of the approved figure', async () => {
-      const f = (await t.http().get(`/api/figures/${id}`).set(auth(tok.editor)).expect(200)).body;
-      return f.thumbnailAssetId ? f : undefined;
+      const f = await polled(t.http().get(`/api/figures/${id}`).set(auth(tok.editor)));
+      return f?.thumbnailAssetId ? f : undefined;
     }, 90000, 300);
     expect(fig.status).toBe('approved');
     expect(fig.assets.find((a: { id: string }) => a.id === fig.thumbnailAssetId)).toMatchObject({ kind: 'png', stats: { thumbnail: true, widthPx: 320, heightPx: 240 } });

@@ -5,7 +5,7 @@ import type { INestApplicationContext } from '@nestjs/common';
 import type { FigureVersionSummaryDto, ReviewDeskItemDto, VersionComparisonDto } from '@psiform/contracts';
 import { auth, clearLoginCounters, demoTokens, staffedPublication, smallRecipe, startTestApp, RUN_ID, type TestApp, newAccount } from './support';
 import { MailFake, freePort, startInProcessWorker } from './editorial-support';
-import { waitFor } from './worker-process';
+import { polled, waitFor } from './worker-process';
 
 /**
  * Review that compares: versions with their print images, recipe differences in words, a print-size render of an
@@ -75,9 +75,9 @@ describe('proofs: compare versions, render a version, desk filters (e2e)', () =>
   it('renders an older version at its own print size; the version then states size, dpi and colour mode', async () => {
     const { jobId } = (await post(`/api/figures/${figureId}/versions/1/render`, tok.editor).expect(201)).body;
     const done = await waitFor('the render job', async () => {
-      const j = (await get(`/api/jobs/${jobId}`, tok.editor).expect(200)).body;
-      if (j.state === 'failed') throw new Error(`render failed: ${j.error}`);
-      return j.state === 'completed' ? j : null;
+      const j = await polled(get(`/api/jobs/${jobId}`, tok.editor));
+      if (j?.state === 'failed') throw new Error(`render failed: ${j.error}`);
+      return j?.state === 'completed' ? j : null;
     }, 120000, 500);
     expect(done.assets.map((a: { kind: string }) => a.kind)).toContain('png');
     const versions = (await get(`/api/figures/${figureId}/versions`, tok.editor).expect(200)).body as FigureVersionSummaryDto[];

@@ -2,7 +2,7 @@ import type { INestApplicationContext } from '@nestjs/common';
 import type { BatchDto, FigureDto, JobDto } from '@psiform/contracts';
 import { auth, demoTokens, staffedPublication, smallRecipe, startTestApp, RUN_ID, type TestApp } from './support';
 import { startInProcessWorker } from './editorial-support';
-import { waitFor } from './worker-process';
+import { polled, waitFor } from './worker-process';
 
 /** Batch re-render after a swatchbook change: api and worker (createWorker) in this process, real services. */
 describe('batch re-render (e2e)', () => {
@@ -42,8 +42,8 @@ describe('batch re-render (e2e)', () => {
     const [approvedA, approvedB] = figures.slice(10);
     const meshJob = (await post(`/api/figures/${approvedA}/meshes`, tok.illustrator).expect(201)).body.jobId as string;
     await waitFor('the first mesh', async () => {
-      const j: JobDto = (await t.http().get(`/api/jobs/${meshJob}`).set(auth(tok.editor)).expect(200)).body;
-      return j.state === 'completed' ? j : undefined;
+      const j: JobDto | undefined = await polled(t.http().get(`/api/jobs/${meshJob}`).set(auth(tok.editor)));
+      return j?.state === 'completed' ? j : undefined;
     }, 60000, 200);
     for (const id of [approvedA, approvedB]) {
       await post(`/api/figures/${id}/submit`, tok.illustrator).expect(200);
@@ -68,8 +68,8 @@ describe('batch re-render (e2e)', () => {
     );
 
     const done: BatchDto = await waitFor('the batch to finish', async () => {
-      const b: BatchDto = (await t.http().get(`/api/batches/${batch.batchId}`).set(auth(tok.illustrator)).expect(200)).body;
-      return b.state !== 'running' ? b : undefined;
+      const b: BatchDto | undefined = await polled(t.http().get(`/api/batches/${batch.batchId}`).set(auth(tok.illustrator)));
+      return b && b.state !== 'running' ? b : undefined;
     }, 120000, 300);
     expect(done).toMatchObject({ state: 'completed', total: 10, completed: 10, failed: 0 });
 

@@ -76,6 +76,17 @@ export async function* readSse(body: ReadableStream<Uint8Array>): AsyncGenerator
   }
 }
 
+/**
+ * The body of a 200 answer to a poll, or undefined for a 503 (the API's "try again shortly": on the shared 2-core test
+ * machine a poll can meet a database call that ran out of time while jobs hold the cores); anything else fails.
+ */
+export async function polled<T>(req: PromiseLike<{ status: number; body: T; text?: string }>): Promise<T | undefined> {
+  const res = await req;
+  if (res.status === 503) return undefined;
+  if (res.status !== 200) throw new Error(`expected 200 "OK", got ${res.status}: ${res.text ?? ''}`);
+  return res.body;
+}
+
 /** Polls until the predicate holds (or throws after timeoutMs). */
 export async function waitFor<T>(what: string, fn: () => Promise<T | undefined | null | false>, timeoutMs = 30000, everyMs = 100): Promise<T> {
   const t0 = Date.now();
