@@ -61,6 +61,16 @@ test('an editor compares version 1 and version 2 of a proof and sees the changes
     await panel.getByTestId('compare-img-a').waitFor();
     await panel.getByTestId('compare-render-b').click();
     await expectOutcome(page, { ok: () => panel.getByTestId('compare-img-b').waitFor({ timeout: 180_000 }), errors: ['job-error', 'job-stream-error'], what: 'the render of version 2', timeout: 180_000 });
+    // The element can be in the page before its image has loaded (a loaded machine): wait for both to load.
+    await page.waitForFunction(
+      () =>
+        ['compare-img-a', 'compare-img-b'].every((id) => {
+          const img = document.querySelector(`[data-testid=${id}]`);
+          return img && img.complete && img.naturalWidth > 0;
+        }),
+      null,
+      { timeout: 60_000 },
+    );
     const sizes = await page.evaluate(() =>
       ['compare-img-a', 'compare-img-b'].map((id) => {
         const img = document.querySelector(`[data-testid=${id}]`);
