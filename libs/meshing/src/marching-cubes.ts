@@ -212,7 +212,9 @@ export function activeBlockFlags(range: BlockRange, level: number, inside: 'abov
  */
 /**
  * Cube case of a cell: bit c set when corner c is inside, strictly beyond the level (s = +1: v > level; s = -1:
- * v < level; sl = s × level). Shared by the dense and coarse-to-fine kernels (one copy of the rule).
+ * v < level; sl = s × level). The dense kernel's rule; the coarse-to-fine kernel (sparse.ts meshBlock) applies the
+ * same strict test to rows of points and reads the case through NAT_TO_CASE; sparse.test.ts holds the two to
+ * identical meshes.
  */
 export function cubeCase(s: number, sl: number, v0: number, v1: number, v2: number, v3: number, v4: number, v5: number, v6: number, v7: number): number {
   return (
