@@ -1,6 +1,6 @@
 // `npm test`: the same set-up as `npm start` on its own ports and a throwaway data folder, then every suite.
 // Prints each runner's counts and a closing "N passed, N failed" line; exits non-zero when anything fails.
-import { mkdtempSync, rmSync } from 'node:fs';
+import { mkdtempSync, readdirSync, rmSync } from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import { TEST_PACKAGES, ensureDebianPackages } from './lib/system.mjs';
@@ -11,7 +11,11 @@ import { runCapture, stopRunners } from './lib/proc.mjs';
 import { parseCounts } from './lib/counts.mjs';
 import { fail, log, ok } from './lib/log.mjs';
 
-const only = process.argv.slice(2); // optional: suite names to run, e.g. `npm test -- api web`
+// Optional: suite names to run, e.g. `npm test -- api web`; `suite=pattern` runs only that suite's test files whose
+// path matches the pattern (vitest/jest filter, node --test file name), e.g. `npm test -- api=rerender`.
+const picks = process.argv.slice(2).map((a) => a.split('='));
+const only = picks.map(([name]) => name);
+const patternOf = (name) => picks.find(([n]) => n === name)?.[1];
 const results = [];
 const cleanups = [];
 let dataDir;
@@ -35,6 +39,8 @@ async function suite(name, runner, cmd, args, opts = {}) {
   log(`── suite ${name} (${runner}) ──`);
   const t0 = Date.now();
   const minutes = Number(process.env.PSIFORM_SUITE_MINUTES) || SUITE_MINUTES[name] || 10;
+  const pattern = patternOf(name);
+  if (pattern) args = runner === 'node' ? args.flatMap((a) => (a.endsWith('/') ? readdirSync(path.join(ROOT, a)).filter((f) => f.endsWith('.test.mjs') && f.includes(pattern)).map((f) => a + f) : [a])) : [...args, pattern];
   const { code, out } = await runCapture(cmd, args, { cwd: ROOT, ...opts, env: { ...process.env, ...opts.env }, timeoutMs: minutes * 60_000 });
   const counts = parseCounts(runner, out);
   const bad = code !== 0 || counts.failed > 0 || counts.passed === 0; // a suite that ran no test is a failure

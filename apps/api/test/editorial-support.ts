@@ -2,19 +2,8 @@ import { spawn, type ChildProcess } from 'node:child_process';
 import { existsSync, readFileSync } from 'node:fs';
 import { createServer } from 'node:net';
 import { join } from 'node:path';
-import type { INestApplicationContext } from '@nestjs/common';
-import { loadWorkerConfig } from '@psiform/server';
 
 const ROOT = join(__dirname, '..', '..', '..');
-const WORKER_DIST = join(ROOT, 'apps', 'worker', 'dist');
-
-/** The compiled worker (createWorker) inside this Jest process, with the test services' env plus `env`. */
-export async function startInProcessWorker(env: Record<string, string>): Promise<INestApplicationContext> {
-  if (!existsSync(join(WORKER_DIST, 'worker.factory.js'))) throw new Error('apps/worker/dist is missing: run `npm run build -w @psiform/worker` first');
-  // eslint-disable-next-line @typescript-eslint/no-require-imports
-  const { createWorker } = require(join(WORKER_DIST, 'worker.factory.js'));
-  return createWorker(loadWorkerConfig({ ...process.env, WORKER_CONCURRENCY: '2', THUMBNAILS: 'off', ...env }), { logger: ['error'] });
-}
 
 export async function freePort(): Promise<number> {
   return new Promise((resolve, reject) => {

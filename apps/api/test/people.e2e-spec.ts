@@ -1,11 +1,10 @@
 import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import type { INestApplicationContext } from '@nestjs/common';
 import type { MemberDto, Page, SubjectAuditEntryDto, UserAdminDto } from '@psiform/contracts';
 import { auth, clearLoginCounters, demoTokens, login, runEmail, startTestApp, DEMO_PUBLICATION, RUN_ID, type TestApp, newAccount } from './support';
-import { MailFake, freePort, startInProcessWorker, type OutboxEntry } from './editorial-support';
-import { waitFor } from './worker-process';
+import { MailFake, freePort, type OutboxEntry } from './editorial-support';
+import { startWorkerProcess, waitFor, type WorkerProcess } from './worker-process';
 
 /**
  * People and publications as an admin runs them: invitations with one-time links (mailed through the worker to our
@@ -15,7 +14,7 @@ import { waitFor } from './worker-process';
 describe('people and publications (e2e)', () => {
   let t: TestApp;
   let tok: Awaited<ReturnType<typeof demoTokens>>;
-  let worker: INestApplicationContext | undefined;
+  let worker: WorkerProcess | undefined;
   let fake: MailFake;
   let dir: string;
   let pubId: string;
@@ -47,11 +46,11 @@ describe('people and publications (e2e)', () => {
     tok = await demoTokens(t);
     adminId = (await t.http().get('/api/auth/me').set(auth(tok.admin)).expect(200)).body.id;
     pubId = (await post('/api/publications', tok.admin, { title: `Field Guide to Nodes ${RUN_ID}`, publisher: 'Harrowgate Press', kind: 'book', lengthUnit: 'bohr' }).expect(201)).body.id;
-    worker = await startInProcessWorker({ SMTP_URL: fake.url });
+    worker = await startWorkerProcess({ SMTP_URL: fake.url });
   }, 60000);
 
   afterAll(async () => {
-    await worker?.close();
+    await worker?.stop();
     await t?.close();
     await fake?.stop();
     if (dir) rmSync(dir, { recursive: true, force: true });

@@ -1,11 +1,10 @@
 import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import type { INestApplicationContext } from '@nestjs/common';
 import type { FigureVersionSummaryDto, ReviewDeskItemDto, VersionComparisonDto } from '@psiform/contracts';
 import { auth, clearLoginCounters, demoTokens, staffedPublication, smallRecipe, startTestApp, RUN_ID, type TestApp, newAccount } from './support';
-import { MailFake, freePort, startInProcessWorker } from './editorial-support';
-import { polled, waitFor } from './worker-process';
+import { MailFake, freePort } from './editorial-support';
+import { polled, startWorkerProcess, waitFor, type WorkerProcess } from './worker-process';
 
 /**
  * Review that compares: versions with their print images, recipe differences in words, a print-size render of an
@@ -14,7 +13,7 @@ import { polled, waitFor } from './worker-process';
 describe('proofs: compare versions, render a version, desk filters (e2e)', () => {
   let t: TestApp;
   let tok: Awaited<ReturnType<typeof demoTokens>>;
-  let worker: INestApplicationContext | undefined;
+  let worker: WorkerProcess | undefined;
   let fake: MailFake;
   let dir: string;
   let pubId: string;
@@ -41,11 +40,11 @@ describe('proofs: compare versions, render a version, desk filters (e2e)', () =>
     figureId = (await post('/api/figures', tok.illustrator, { publicationId: pubId, title: `Figure 5.1 ${RUN_ID}`, recipe }).expect(201)).body.id;
     const v2 = { ...recipe, surface: { rule: 'enclosed', fraction: 0.95 }, stage: { lights: { key: { intensity: 2.7, color: '#fff8ef', azimuthDeg: 35, elevationDeg: 40 } } } };
     await t.http().patch(`/api/figures/${figureId}`).set(auth(tok.illustrator)).send({ recipe: v2 }).expect(200);
-    worker = await startInProcessWorker({ SMTP_URL: fake.url });
+    worker = await startWorkerProcess({ SMTP_URL: fake.url });
   }, 90000);
 
   afterAll(async () => {
-    await worker?.close();
+    await worker?.stop();
     await clearLoginCounters(t.redis);
     await t?.close();
     await fake?.stop();

@@ -1,14 +1,12 @@
-import type { INestApplicationContext } from '@nestjs/common';
 import type { BatchDto, FigureDto, JobDto } from '@psiform/contracts';
 import { auth, demoTokens, staffedPublication, smallRecipe, startTestApp, RUN_ID, type TestApp } from './support';
-import { startInProcessWorker } from './editorial-support';
-import { polled, waitFor } from './worker-process';
+import { polled, startWorkerProcess, waitFor, type WorkerProcess } from './worker-process';
 
-/** Batch re-render after a swatchbook change: api and worker (createWorker) in this process, real services. */
+/** Batch re-render after a swatchbook change: api in this process, the compiled worker as its own process (as in production), real services. */
 describe('batch re-render (e2e)', () => {
   let t: TestApp;
   let tok: Awaited<ReturnType<typeof demoTokens>>;
-  let worker: INestApplicationContext | undefined;
+  let worker: WorkerProcess | undefined;
   let pubId: string;
   let sbId: string;
   const tiny = () => smallRecipe({ grid: { n: 16 } });
@@ -21,11 +19,11 @@ describe('batch re-render (e2e)', () => {
     pubId = await staffedPublication(t, tok, { title: `Periodic Trends Workbook ${RUN_ID}`, publisher: 'Fenwick Lane Books', kind: 'book' });
     sbId = (await post('/api/swatchbooks', tok.artDirector, { name: `Workbook palette ${RUN_ID}`, publicationId: pubId, colors: { positive: '#c8553d', negative: '#2f6690', background: '#fbfaf7', label: '#1a1a1a' } }).expect(201)).body.id;
     await t.http().put(`/api/publications/${pubId}/house-style`).set(auth(tok.artDirector)).send({ swatchbookId: sbId }).expect(200);
-    worker = await startInProcessWorker({});
+    worker = await startWorkerProcess({});
   }, 60000);
 
   afterAll(async () => {
-    await worker?.close();
+    await worker?.stop();
     if (t) {
       await t.ds.query(`DELETE FROM house_styles WHERE publication_id = $1`, [pubId]);
       await t.ds.query(`DELETE FROM swatchbooks WHERE id = $1`, [sbId]); // its batches cascade

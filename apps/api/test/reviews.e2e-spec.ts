@@ -1,16 +1,15 @@
 import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import type { INestApplicationContext } from '@nestjs/common';
 import { Queue } from 'bullmq';
 import Redis from 'ioredis';
 import { QUEUES, type AuditEntryDto, type ReviewTransitionDto } from '@psiform/contracts';
 import { auth, demoTokens, smallRecipe, startTestApp, RUN_ID, type TestApp, newAccount } from './support';
-import { MailFake, freePort, startInProcessWorker } from './editorial-support';
-import { waitFor } from './worker-process';
+import { MailFake, freePort } from './editorial-support';
+import { startWorkerProcess, waitFor, type WorkerProcess } from './worker-process';
 
 /**
- * Editorial review end to end: api in-process, the worker in-process (createWorker) sending notices to our
+ * Editorial review end to end: api in-process, the compiled worker as a child process sending notices to our
  * own instance of the SMTP fake, real PostgreSQL and Redis. Everything happens in a publication of this run.
  */
 describe('editorial review (e2e)', () => {
@@ -20,7 +19,7 @@ describe('editorial review (e2e)', () => {
   let otherIllustrator: string;
   let pubId: string;
   let pubTitle: string;
-  let worker: INestApplicationContext | undefined;
+  let worker: WorkerProcess | undefined;
   let fake: MailFake;
   let dir: string;
   const emails: Record<string, string> = {};
@@ -47,11 +46,11 @@ describe('editorial review (e2e)', () => {
     for (const k of ['illustrator', 'editor', 'artDirector']) await post(`/api/publications/${pubId}/members`, tok.admin, { userId: emails[`${k}Id`] }).expect(201);
     outsider = (await newAccount(t, tok.admin, { name: 'review-outsider', displayName: 'Outside Editor', role: 'editor' })).token;
     otherIllustrator = (await newAccount(t, tok.admin, { name: 'second-illustrator', displayName: 'Second Illustrator', role: 'illustrator', memberOf: pubId })).token;
-    worker = await startInProcessWorker({ SMTP_URL: fake.url });
+    worker = await startWorkerProcess({ SMTP_URL: fake.url });
   }, 60000);
 
   afterAll(async () => {
-    await worker?.close();
+    await worker?.stop();
     if (t) {
       await t.ds.query(`DELETE FROM house_styles WHERE publication_id = $1`, [pubId]);
       if (cleanupSwatchbooks.length) await t.ds.query(`DELETE FROM swatchbooks WHERE id = ANY($1)`, [cleanupSwatchbooks]);
