@@ -1,6 +1,8 @@
 import { converter, formatHex } from 'culori';
 import { parseHex, type Hex } from './hex';
 
+const { max, min } = Math; // module constants: see DEVELOPERS.md (numeric kernels)
+
 export const CVD_KINDS = ['protanopia', 'deuteranopia', 'tritanopia'] as const;
 export type CvdKind = (typeof CVD_KINDS)[number];
 
@@ -17,7 +19,7 @@ export const MACHADO_2009: Record<CvdKind, readonly number[]> = {
 };
 
 const toLrgb = converter('lrgb');
-const clamp01 = (v: number) => Math.min(1, Math.max(0, v));
+const clamp01 = (v: number) => min(1, max(0, v));
 
 /** How the colour looks to a dichromat of the given kind (Machado et al. 2009, severity 1.0), as sRGB hex. */
 export function simulateCvd(hex: string, kind: CvdKind): Hex {

@@ -14,6 +14,8 @@
 // & Hafner 1995), trilinear for CIELAB inputs, and for four inputs two tetrahedral evaluations in the last three,
 // linear in the first.
 
+const { floor, max, min } = Math; // module constants: see DEVELOPERS.md (numeric kernels)
+
 export type IccIntent = 'perceptual' | 'relative' | 'saturation';
 const INTENT_INDEX: Record<IccIntent, number> = { perceptual: 0, relative: 1, saturation: 2 };
 
@@ -64,7 +66,7 @@ function readText(b: Uint8Array, v: DataView, at: number, size: number): string 
   const type = ascii(b, at, 4);
   if (type === 'desc') {
     const n = v.getUint32(at + 8, false);
-    return ascii(b, at + 12, Math.max(0, Math.min(n, size - 12) - 1));
+    return ascii(b, at + 12, max(0, min(n, size - 12) - 1));
   }
   if (type === 'text') return ascii(b, at + 8, size - 8).replace(/\0+$/, '');
   if (type === 'mluc') {
@@ -168,17 +170,17 @@ export function readIccProfile(bytes: Uint8Array): IccProfile {
 function curve(t: Float64Array, x: number): number {
   const n = t.length;
   if (n === 1) return t[0];
-  const pos = Math.min(1, Math.max(0, x)) * (n - 1);
-  const k = Math.min(n - 2, Math.floor(pos));
+  const pos = min(1, max(0, x)) * (n - 1);
+  const k = min(n - 2, floor(pos));
   const r = pos - k;
   return t[k] + r * (t[k + 1] - t[k]);
 }
 
 /** The cell of a 3D grid of `g` points a side holding (x, y, z) in grid units, and where in it (0..1 per axis); the top edge falls in the last cell. */
 function cellOf(g: number, x: number, y: number, z: number): [number, number, number, number, number, number] {
-  const x0 = Math.min(g - 2, Math.floor(x));
-  const y0 = Math.min(g - 2, Math.floor(y));
-  const z0 = Math.min(g - 2, Math.floor(z));
+  const x0 = min(g - 2, floor(x));
+  const y0 = min(g - 2, floor(y));
+  const z0 = min(g - 2, floor(z));
   return [x0, y0, z0, x - x0, y - y0, z - z0];
 }
 
@@ -232,12 +234,12 @@ export function evalLut(l: IccLut, input: ArrayLike<number>): Float64Array {
   const { inputs: i, outputs: o, grid: g } = l;
   if (input.length !== i) throw new IccError(`this table takes ${i} inputs, got ${input.length}`);
   const pos = new Float64Array(i);
-  for (let c = 0; c < i; c++) pos[c] = Math.min(1, Math.max(0, curve(l.inCurves[c], input[c]))) * (g - 1);
+  for (let c = 0; c < i; c++) pos[c] = min(1, max(0, curve(l.inCurves[c], input[c]))) * (g - 1);
   const out = new Float64Array(o);
   if (i === 3 && l.trilinear) trilinear(l.clut, g, o, pos[0], pos[1], pos[2], out);
   else if (i === 3) tetra(l.clut, 0, g * g * o, g * o, o, g, o, pos[0], pos[1], pos[2], out);
   else if (i === 4) {
-    const k0 = Math.min(g - 2, Math.floor(pos[0]));
+    const k0 = min(g - 2, floor(pos[0]));
     const r = pos[0] - k0;
     const s0 = g * g * g * o;
     const a = new Float64Array(o);
@@ -246,13 +248,13 @@ export function evalLut(l: IccLut, input: ArrayLike<number>): Float64Array {
     tetra(l.clut, (k0 + 1) * s0, g * g * o, g * o, o, g, o, pos[1], pos[2], pos[3], b2);
     for (let k = 0; k < o; k++) out[k] = a[k] + r * (b2[k] - a[k]);
   } else if (i === 1) {
-    const k0 = Math.min(g - 2, Math.floor(pos[0]));
+    const k0 = min(g - 2, floor(pos[0]));
     const r = pos[0] - k0;
     for (let k = 0; k < o; k++) out[k] = l.clut[k0 * o + k] + r * (l.clut[(k0 + 1) * o + k] - l.clut[k0 * o + k]);
   } else {
     // Two inputs: bilinear (not used by our profiles; kept simple).
-    const x0 = Math.min(g - 2, Math.floor(pos[0]));
-    const y0 = Math.min(g - 2, Math.floor(pos[1]));
+    const x0 = min(g - 2, floor(pos[0]));
+    const y0 = min(g - 2, floor(pos[1]));
     const rx = pos[0] - x0;
     const ry = pos[1] - y0;
     for (let k = 0; k < o; k++) {
@@ -260,13 +262,13 @@ export function evalLut(l: IccLut, input: ArrayLike<number>): Float64Array {
       out[k] = (1 - rx) * ((1 - ry) * C(0, 0) + ry * C(0, 1)) + rx * ((1 - ry) * C(1, 0) + ry * C(1, 1));
     }
   }
-  for (let k = 0; k < o; k++) out[k] = curve(l.outCurves[k], Math.min(1, Math.max(0, out[k])));
+  for (let k = 0; k < o; k++) out[k] = curve(l.outCurves[k], min(1, max(0, out[k])));
   return out;
 }
 
 /** CIELAB (D50) -> the v2 16-bit PCS encoding as 0..1 (ICC.1:2001-04 Annex A, "legacy" Lab). */
 export function labToPcsV2(L: number, a: number, b: number): [number, number, number] {
-  const clamp = (x: number, lo: number, hi: number) => Math.min(hi, Math.max(lo, x));
+  const clamp = (x: number, lo: number, hi: number) => min(hi, max(lo, x));
   return [(clamp(L, 0, 100) * 652.8) / 65535, ((clamp(a, -128, 127.99609375) + 128) * 256) / 65535, ((clamp(b, -128, 127.99609375) + 128) * 256) / 65535];
 }
 

@@ -2,6 +2,8 @@ import { converter } from 'culori';
 import { parseHex, type Hex } from './hex';
 import { DEFAULT_WHEEL, maxWheelChroma } from './phase-wheel';
 
+const { PI, cos, floor, max, min, round } = Math; // module constants: see DEVELOPERS.md (numeric kernels)
+
 /**
  * THE phase-colouring rule of every figure (GLB/PLY vertex colours, the Studio preview, thumbnails, phase keys):
  * one function, fed by the swatchbook's colours.
@@ -39,13 +41,13 @@ function wheelLut(wheel: { lightness: number; chroma: number }): Float32Array {
   if (hit) return hit;
   if (!(wheel.lightness > 0 && wheel.lightness < 1)) throw new RangeError('wheel.lightness must be between 0 and 1 (exclusive)');
   if (!(wheel.chroma >= 0 && wheel.chroma <= 0.4)) throw new RangeError('wheel.chroma must be between 0 and 0.4');
-  const fit = Math.min(wheel.chroma, maxWheelChroma(wheel.lightness));
+  const fit = min(wheel.chroma, maxWheelChroma(wheel.lightness));
   const lut = new Float32Array(3 * (LUT_STEPS + 1));
   for (let i = 0; i <= LUT_STEPS; i++) {
     const c = toRgb({ mode: 'oklch', l: wheel.lightness, c: fit, h: (360 * i) / LUT_STEPS });
-    lut[3 * i] = Math.min(1, Math.max(0, c.r));
-    lut[3 * i + 1] = Math.min(1, Math.max(0, c.g));
-    lut[3 * i + 2] = Math.min(1, Math.max(0, c.b));
+    lut[3 * i] = min(1, max(0, c.r));
+    lut[3 * i + 1] = min(1, max(0, c.g));
+    lut[3 * i + 2] = min(1, max(0, c.b));
   }
   if (luts.size > 32) luts.clear();
   luts.set(key, lut);
@@ -92,18 +94,18 @@ export function phaseColoursInto(
     const pos = hexRgb(palette.positive);
     const neg = hexRgb(palette.negative);
     for (let v = 0; v < nv; v++) {
-      const positive = phase === '+' || (phase === 'complex' && Math.cos(phaseAngle![v]) >= 0);
+      const positive = phase === '+' || (phase === 'complex' && cos(phaseAngle![v]) >= 0);
       put(v, positive ? pos : neg);
     }
     return out;
   }
   const lut = wheelLut(palette.wheel ?? DEFAULT_WHEEL);
-  const twoPi = 2 * Math.PI;
+  const twoPi = 2 * PI;
   for (let v = 0; v < nv; v++) {
-    const a = phase === '+' ? 0 : phase === '-' ? Math.PI : phaseAngle![v];
+    const a = phase === '+' ? 0 : phase === '-' ? PI : phaseAngle![v];
     let f = ((a % twoPi) + twoPi) % twoPi;
     f = (f / twoPi) * LUT_STEPS;
-    const i = Math.min(LUT_STEPS - 1, Math.floor(f));
+    const i = min(LUT_STEPS - 1, floor(f));
     const w = f - i;
     const c: Rgb = [0, 0, 0];
     for (let k = 0; k < 3; k++) c[k] = lut[3 * i + k] * (1 - w) + lut[3 * (i + 1) + k] * w;
@@ -122,6 +124,6 @@ export function phaseRgb(palette: PhasePalette, mode: 'sign' | 'argument', phase
 /** Hex of phaseRgb (for phase keys and legends). */
 export function phaseHex(palette: PhasePalette, mode: 'sign' | 'argument', phase: SurfacePhase, angle = 0): Hex {
   const [r, g, b] = phaseRgb(palette, mode, phase, angle);
-  const h = (x: number) => Math.round(Math.min(1, Math.max(0, x)) * 255).toString(16).padStart(2, '0');
+  const h = (x: number) => round(min(1, max(0, x)) * 255).toString(16).padStart(2, '0');
   return `#${h(r)}${h(g)}${h(b)}` as Hex;
 }

@@ -1,6 +1,8 @@
 import { formatHex, inGamut } from 'culori';
 import type { Hex } from './hex';
 
+const { PI } = Math; // module constants: see DEVELOPERS.md (numeric kernels)
+
 /**
  * Colour wheel for the complex phase arg ψ: OKLCH (Ottosson 2020, "A perceptual color space for image
  * processing") at constant lightness and chroma, hue = phase. Constant L and C make equal phase steps equal
@@ -64,6 +66,6 @@ export function phaseWheel(opts: PhaseWheelOptions): PhaseWheel {
 /** Colour of the phase angle (radians, any real value; wraps every 2π) on the wheel. */
 export function phaseColor(angleRad: number, wheel: Pick<PhaseWheel, 'lightness' | 'chroma'>): Hex {
   if (!Number.isFinite(angleRad)) throw new Error('angle must be a finite number');
-  const deg = (((angleRad * 180) / Math.PI) % 360 + 360) % 360;
+  const deg = (((angleRad * 180) / PI) % 360 + 360) % 360;
   return formatHex({ mode: 'oklch', l: wheel.lightness, c: wheel.chroma, h: deg }) as Hex;
 }

@@ -5,6 +5,8 @@ import { converter, differenceCiede2000, formatHex, type Lab } from 'culori';
 import { parseHex } from './hex';
 import { evalLut, labToPcsV2, pcsV2ToLab, readIccProfile, IccError, type IccIntent } from './icc';
 
+const { max, min, round } = Math; // module constants: see DEVELOPERS.md (numeric kernels)
+
 export interface PressConditionInfo {
   /** Our id: 'fogra39' | 'gracol' | 'swop' (libs/contracts PRESS_CONDITIONS). */
   id: string;
@@ -46,7 +48,7 @@ export function iccPressTransform(profileBytes: Uint8Array, condition: PressCond
       return [o[0] * 100, o[1] * 100, o[2] * 100, o[3] * 100];
     },
     cmykToLab(cmyk) {
-      return pcsV2ToLab(evalLut(a2b, cmyk.map((c) => Math.min(100, Math.max(0, c)) / 100)));
+      return pcsV2ToLab(evalLut(a2b, cmyk.map((c) => min(100, max(0, c)) / 100)));
     },
   };
 }
@@ -69,7 +71,7 @@ export function hexToLabD50(hex: string): LabD50 {
 /** CIELAB D50 -> the nearest sRGB hex (channels clipped): how a proofed colour looks on screen. */
 export function labD50ToHex(lab: LabD50): string {
   const c = toRgb({ mode: 'lab', l: lab[0], a: lab[1], b: lab[2] });
-  const clip = (x: number) => Math.min(1, Math.max(0, Number.isFinite(x) ? x : 0));
+  const clip = (x: number) => min(1, max(0, Number.isFinite(x) ? x : 0));
   return formatHex({ mode: 'rgb', r: clip(c.r), g: clip(c.g), b: clip(c.b) });
 }
 
@@ -98,8 +100,8 @@ export interface PressSwatch {
   condition: string;
 }
 
-const r1 = (x: number) => Math.round(x * 10) / 10;
-const r2 = (x: number) => Math.round(x * 100) / 100;
+const r1 = (x: number) => round(x * 10) / 10;
+const r2 = (x: number) => round(x * 100) / 100;
 
 export function pressCheck(hex: string, t: PressTransform): PressSwatch {
   const lab = hexToLabD50(hex);

@@ -4,6 +4,8 @@ import { contrastRatio, WCAG_AA_GRAPHICS, WCAG_AA_TEXT } from './contrast';
 import { pressCheck, PRESS_DELTA_E_LIMIT, type PressConditionInfo, type PressSwatch, type PressTransform } from './press';
 import { phaseWheel, DEFAULT_WHEEL } from './phase-wheel';
 
+const { min } = Math; // module constants: see DEVELOPERS.md (numeric kernels)
+
 export interface SwatchbookColors {
   positive: string;
   negative: string;
@@ -167,7 +169,7 @@ export function checkSwatchbook(colors: SwatchbookColors, options: SwatchbookChe
       chroma: round(w.chroma, 4),
       requestedChroma: w.requestedChroma,
       clamped: w.clamped,
-      neighbourDeltaE2000: round(Math.min(...w.steps.map((c, i) => deltaE2000(c, w.steps[(i + 1) % w.steps.length])))),
+      neighbourDeltaE2000: round(min(...w.steps.map((c, i) => deltaE2000(c, w.steps[(i + 1) % w.steps.length])))),
     };
     if (w.clamped) {
       warnings.push({

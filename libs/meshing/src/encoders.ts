@@ -8,6 +8,8 @@ import { MODEL_NOTE } from './pipeline';
 
 import { phaseColoursInto, resolvePhaseMode, srgbToLinear, type PhaseMode, type PhasePalette } from '@psiform/colour';
 
+const { hypot, max, min, round, sqrt } = Math; // module constants: see DEVELOPERS.md (numeric kernels)
+
 export interface EncodeSurface {
   phase: Phase;
   mesh: Mesh;
@@ -107,7 +109,7 @@ function facetNormal(P: Float32Array, a: number, b: number, c: number, out: Floa
   let nx = uy * vz - uz * vy;
   let ny = uz * vx - ux * vz;
   let nz = ux * vy - uy * vx;
-  const l = Math.sqrt(nx * nx + ny * ny + nz * nz);
+  const l = sqrt(nx * nx + ny * ny + nz * nz);
   if (l > 0) {
     nx /= l;
     ny /= l;
@@ -196,14 +198,14 @@ export function parseBinaryStl(bytes: Uint8Array): Mesh & { header: string; face
     }
   }
   for (let v = 0; v < normals.length / 3; v++) {
-    const l = Math.hypot(normals[3 * v], normals[3 * v + 1], normals[3 * v + 2]) || 1;
+    const l = hypot(normals[3 * v], normals[3 * v + 1], normals[3 * v + 2]) || 1;
     for (let d = 0; d < 3; d++) normals[3 * v + d] /= l;
   }
   return { positions, normals, indices, header, facetNormals };
 }
 
 function to8(c: number): number {
-  return Math.max(0, Math.min(255, Math.round(c * 255)));
+  return max(0, min(255, round(c * 255)));
 }
 
 /**

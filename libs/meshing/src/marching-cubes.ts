@@ -12,6 +12,8 @@
 import { CDX, CDY, CDZ, EDGE_AXIS, EDGE_HI, EDGE_LO, EDGE_TABLE, TRI_TABLE } from './mc-tables';
 import type { Mesh } from './mesh';
 
+const { ceil, floor, sqrt } = Math; // module constants: see DEVELOPERS.md (numeric kernels)
+
 export interface GridDims {
   nx: number;
   ny: number;
@@ -96,9 +98,9 @@ export function blockMinMax(field: Float32Array, dims: GridDims, blockSize = 8, 
   const cnx = pad ? nx + 1 : nx - 1;
   const cny = pad ? ny + 1 : ny - 1;
   const cnz = pad ? nz + 1 : nz - 1;
-  const bnx = Math.ceil(cnx / B);
-  const bny = Math.ceil(cny / B);
-  const bnz = Math.ceil(cnz / B);
+  const bnx = ceil(cnx / B);
+  const bny = ceil(cny / B);
+  const bnz = ceil(cnz / B);
   const nb = bnx * bny * bnz;
   const min = new Float32Array(nb).fill(Infinity);
   const max = new Float32Array(nb).fill(-Infinity);
@@ -107,8 +109,8 @@ export function blockMinMax(field: Float32Array, dims: GridDims, blockSize = 8, 
   const blocksOf = (n: number, cn: number): Int32Array => {
     const out = new Int32Array(2 * n);
     for (let p = 0; p < n; p++) {
-      const a = p - 1 - c0 >= 0 ? Math.floor((p - 1 - c0) / B) : -1;
-      const b = p - c0 <= cn - 1 ? Math.floor((p - c0) / B) : -1;
+      const a = p - 1 - c0 >= 0 ? floor((p - 1 - c0) / B) : -1;
+      const b = p - c0 <= cn - 1 ? floor((p - c0) / B) : -1;
       out[2 * p] = a < 0 ? b : a;
       out[2 * p + 1] = b < 0 ? a : b;
     }
@@ -285,9 +287,9 @@ export function extractIsosurface(
   const cnx = pad ? nx + 1 : nx - 1;
   const cny = pad ? ny + 1 : ny - 1;
   const cnz = pad ? nz + 1 : nz - 1;
-  const bnx = Math.ceil(cnx / B);
-  const bny = Math.ceil(cny / B);
-  const bnz = Math.ceil(cnz / B);
+  const bnx = ceil(cnx / B);
+  const bny = ceil(cny / B);
+  const bnz = ceil(cnz / B);
   let flags: Uint8Array;
   if (opts.skipEmpty === false) {
     flags = new Uint8Array(bnx * bny * bnz).fill(1);
@@ -398,7 +400,7 @@ export function extractIsosurface(
         nxv = nrm[0];
         nyv = nrm[1];
         nzv = nrm[2];
-        len = Math.sqrt(nxv * nxv + nyv * nyv + nzv * nzv);
+        len = sqrt(nxv * nxv + nyv * nyv + nzv * nzv);
       }
       if (!(len > 1e-30) || !Number.isFinite(len)) {
         // Fallback: central differences at both edge ends, interpolated; outward = -s * grad.
@@ -407,7 +409,7 @@ export function extractIsosurface(
         nxv = -s * (g0[0] + t * (g1[0] - g0[0]));
         nyv = -s * (g0[1] + t * (g1[1] - g0[1]));
         nzv = -s * (g0[2] + t * (g1[2] - g0[2]));
-        len = Math.sqrt(nxv * nxv + nyv * nyv + nzv * nzv);
+        len = sqrt(nxv * nxv + nyv * nyv + nzv * nzv);
         if (!(len > 1e-30)) {
           // Flat field at both ends: fall back to the edge direction pointing out of the region.
           const sign = s * (vb - va) > 0 ? -1 : 1;

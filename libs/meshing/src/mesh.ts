@@ -1,3 +1,5 @@
+const { imul, max } = Math; // module constants: see DEVELOPERS.md (numeric kernels)
+
 /** Lengths in Bohr radii (a0), the unit of every grid and mesh in this package. */
 export type Bohr = number & { readonly __unit?: 'bohr' };
 
@@ -27,7 +29,7 @@ export class GrowableFloat32 {
   data: Float32Array;
   length = 0;
   constructor(capacity = 1024) {
-    this.data = new Float32Array(Math.max(4, capacity));
+    this.data = new Float32Array(max(4, capacity));
   }
   reserve(extra: number): void {
     const need = this.length + extra;
@@ -49,7 +51,7 @@ export class GrowableUint32 {
   data: Uint32Array;
   length = 0;
   constructor(capacity = 1024) {
-    this.data = new Uint32Array(Math.max(4, capacity));
+    this.data = new Uint32Array(max(4, capacity));
   }
   reserve(extra: number): void {
     const need = this.length + extra;
@@ -115,7 +117,7 @@ export class EdgeTable {
     // Fibonacci hashing of the key's low and high 26 bits.
     const lo = key % 67108864;
     const hi = (key - lo) / 67108864;
-    let i = (Math.imul(lo ^ Math.imul(hi, 0x27d4eb2d), 0x9e3779b1) >>> 0) & this.mask;
+    let i = (imul(lo ^ imul(hi, 0x27d4eb2d), 0x9e3779b1) >>> 0) & this.mask;
     while (this.keys[i] !== -1 && this.keys[i] !== key) i = (i + 1) & this.mask;
     return i;
   }

@@ -4,6 +4,8 @@ import { extractIsosurface } from './marching-cubes';
 import type { Mesh } from './mesh';
 import { cubeGeometry, type CubeGrid } from './orbital-surfaces';
 
+const { abs, ceil, round } = Math; // module constants: see DEVELOPERS.md (numeric kernels)
+
 export interface NodalOptions {
   /** A nodal point is kept when a line through it along the surface normal reaches |psi| >= fraction × isovalue
    * (default 1: the lobes themselves). */
@@ -32,13 +34,13 @@ export function extractNodalSurface(re: Float32Array, grid: CubeGrid, isovalue: 
 
   const level = fraction * isovalue;
   const step = 0.5 * spacing;
-  const maxSteps = Math.ceil((4 * grid.extent) / step);
+  const maxSteps = ceil((4 * grid.extent) / step);
   const at = (x: number, y: number, z: number): number => {
-    const i = Math.round((x - origin[0]) / spacing);
-    const j = Math.round((y - origin[1]) / spacing);
-    const k = Math.round((z - origin[2]) / spacing);
+    const i = round((x - origin[0]) / spacing);
+    const j = round((y - origin[1]) / spacing);
+    const k = round((z - origin[2]) / spacing);
     if (i < 0 || j < 0 || k < 0 || i >= n || j >= n || k >= n) return NaN;
-    return Math.abs(re[i + n * (j + n * k)]);
+    return abs(re[i + n * (j + n * k)]);
   };
   const keep = new Int32Array(nv).fill(-1);
   let kept = 0;

@@ -1,6 +1,8 @@
 // NRRD writer / header validator. Format: Teem "NRRD file format" (NRRD0004 header: magic line,
 // "field: desc" lines, "key:=value" lines, '#' comments, blank line, then the data).
 
+const { min } = Math; // module constants: see DEVELOPERS.md (numeric kernels)
+
 export interface NrrdWriteOptions {
   /** Points per axis [nx, ny, nz] (x fastest in the data). */
   sizes: readonly [number, number, number];
@@ -134,7 +136,7 @@ function vec(s: string, field: string): number[] {
  */
 export function parseNrrdHeader(bytes: Uint8Array, limits: NrrdLimits = {}): NrrdHeader {
   const maxHeader = limits.maxHeaderBytes ?? 65536;
-  const scan = bytes.subarray(0, Math.min(bytes.length, maxHeader + 2));
+  const scan = bytes.subarray(0, min(bytes.length, maxHeader + 2));
   let end = -1;
   let dataOffset = -1;
   for (let i = 0; i + 1 < scan.length; i++) {

@@ -20,6 +20,8 @@ import { levelFunction, meshDeviation, refineMesh, type AnalyticField, type Refi
 import { meshStats } from './stats';
 import { printTolerance } from './tolerance';
 
+const { atan2, max, sqrt } = Math; // module constants: see DEVELOPERS.md (numeric kernels)
+
 /** The display a screen GLB is made for: a quarter pixel at this many pixels across the narrower side. */
 export const SCREEN_PIXELS = 2160;
 
@@ -78,9 +80,9 @@ function quantisationBound(mesh: Mesh): number {
       if (P[v] < lo) lo = P[v];
       if (P[v] > hi) hi = P[v];
     }
-    if (hi > lo) ext = Math.max(ext, hi - lo);
+    if (hi > lo) ext = max(ext, hi - lo);
   }
-  return (Math.sqrt(3) / 2) * (ext / 65535);
+  return (sqrt(3) / 2) * (ext / 65535);
 }
 
 /** The screen GLB (see the file comment); `info` gets what was achieved. */
@@ -104,7 +106,7 @@ export async function encodeScreenGlb(surfaces: readonly EncodeSurface[], opts: 
     }
     const F = levelFunction(opts.field, s.phase as Phase, opts.isovalue);
     const q = quantisationBound(m);
-    out.quantisation = Math.max(out.quantisation, q);
+    out.quantisation = max(out.quantisation, q);
     const budget = opts.tolerance - q;
     const before = meshStats(m);
     let best: Mesh = m;
@@ -124,7 +126,7 @@ export async function encodeScreenGlb(surfaces: readonly EncodeSurface[], opts: 
         break;
       }
     }
-    out.maxDeviation = Math.max(out.maxDeviation, dev + q);
+    out.maxDeviation = max(out.maxDeviation, dev + q);
     out.trianglesAfter += best.indices.length / 3;
     simplified.push({ phase: s.phase, mesh: best });
   }
@@ -159,7 +161,7 @@ export async function screenGlbFromArchival(archival: Uint8Array, opts: Omit<Scr
       m.phaseAngle = new Float32Array(positions.length / 3);
       for (let v = 0; v < m.phaseAngle.length; v++) {
         opts.field.gradient(positions[3 * v], positions[3 * v + 1], positions[3 * v + 2], w);
-        m.phaseAngle[v] = Math.atan2(w[7], w[6]);
+        m.phaseAngle[v] = atan2(w[7], w[6]);
       }
     }
     surfaces.push({ phase, mesh: m });

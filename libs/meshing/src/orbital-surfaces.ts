@@ -4,6 +4,8 @@
 import { blockMinMax, extractIsosurface, type NormalFn } from './marching-cubes';
 import { mergeMeshes, type Mesh } from './mesh';
 
+const { atan2 } = Math; // module constants: see DEVELOPERS.md (numeric kernels)
+
 /** What the surface code needs from @psiform/orbitals' CompiledState. */
 export interface CompiledLike {
   readonly isReal: boolean;
@@ -91,7 +93,7 @@ export function extractOrbitalSurfaces(compiled: CompiledLike, f: Float32Array, 
   const phaseAngle = new Float32Array(P.length / 3);
   for (let v = 0; v < phaseAngle.length; v++) {
     const psi = compiled.evaluate(P[3 * v], P[3 * v + 1], P[3 * v + 2]);
-    phaseAngle[v] = Math.atan2(psi.im, psi.re);
+    phaseAngle[v] = atan2(psi.im, psi.re);
   }
   mesh.phaseAngle = phaseAngle;
   return [{ phase: 'complex', mesh }];

@@ -44,6 +44,8 @@ import { levelFunction, meshDeviation, projectMesh, refineMesh, type ProjectInfo
 import { extractSparse, type BlockField, type SparseInfo } from './sparse';
 import { fileTolerance, printTolerance, type OutputScale } from './tolerance';
 
+const { ceil, cos, hypot, round, sqrt } = Math; // module constants: see DEVELOPERS.md (numeric kernels)
+
 /** The model every figure states. */
 export const MODEL_NOTE =
   'One-electron hydrogen-like model (psi_nlm = R_nl Y_lm); many-electron orbitals differ. Lengths in Bohr radii (a0).';
@@ -294,7 +296,7 @@ function oddN(n: number, hi = Infinity): number {
 }
 
 function nFor(extent: number, step: number, lo: number, hi: number): number {
-  const n = Math.ceil((2 * extent) / step) + 1;
+  const n = ceil((2 * extent) / step) + 1;
   return oddN(Math.max(lo, Math.min(hi, Number.isFinite(n) ? n : lo)), hi);
 }
 
@@ -335,7 +337,7 @@ export function planSurfaces(recipe: SurfaceRecipe, opts: { maxN?: number } = {}
     level = { ...L, method: solver.method };
   } else {
     const t = rule.value * rule.value;
-    if (!(t < solver.maxDensity)) throw new NoSurfaceError(rule.value, Math.sqrt(solver.maxDensity));
+    if (!(t < solver.maxDensity)) throw new NoSurfaceError(rule.value, sqrt(solver.maxDensity));
     const e = solver.fractionAt(t);
     level = { density: t, isovalue: rule.value, fraction: e.fraction, error: e.error, method: solver.method };
   }
@@ -392,7 +394,7 @@ function layeredRegions(a: SurfaceAnalysis, extent: number, cap: number): GridRe
   const globalStep = (2 * extent) / (Math.min(cap, AUTO_GRID.base) - 1);
   // A cube grows past the base grid by at most a quarter before the finer lobes get a cube of their own: inner
   // cubes are small, so this costs fewer points than one fine cube for everything.
-  const growCap = Math.min(cap, Math.round(1.25 * AUTO_GRID.base));
+  const growCap = Math.min(cap, round(1.25 * AUTO_GRID.base));
   let cur = { E: extent, step: globalStep, lobes: [] as typeof present };
   // Automatic grids are odd (nFor), so ring holes are held open by the axis (ringHoleHeld).
   const auto = { n: AUTO_GRID.base };
@@ -400,7 +402,7 @@ function layeredRegions(a: SurfaceAnalysis, extent: number, cap: number): GridRe
   for (let i = present.length - 1; i >= 0; i--) {
     const layer = present[i];
     const need = Math.min(cur.step, lobeStep(layer));
-    if (cur.lobes.length === 0 || Math.ceil((2 * cur.E) / need) + 1 <= (groups.length < 6 ? growCap : cap)) {
+    if (cur.lobes.length === 0 || ceil((2 * cur.E) / need) + 1 <= (groups.length < 6 ? growCap : cap)) {
       cur.lobes.push(layer);
       cur.step = need;
       continue;
@@ -466,16 +468,16 @@ function extractionRule(plan: SurfacePlan, region: GridRegion): ExtractionRule |
     real: plan.compiled.isReal,
     signedRadial: !plan.compiled.isReal && a !== null,
     nodes: a ? a.radialNodes : [],
-    cones: a && a.field === 'signed' && !plan.compiled.isReal && a.nodalCones ? a.nodalCones.map(Math.cos) : null,
+    cones: a && a.field === 'signed' && !plan.compiled.isReal && a.nodalCones ? a.nodalCones.map(cos) : null,
   };
 }
 
 /** The extraction field at one point from psi there (see extractionField). */
 function extractionValue(rule: ExtractionRule, x: number, y: number, z: number, re: number, im: number): number {
-  const r = Math.sqrt(x * x + (y * y + z * z));
+  const r = sqrt(x * x + (y * y + z * z));
   if (rule.masked && (r < rule.rMin || r > rule.rMax)) return 0;
   if (rule.real) return re;
-  const mod = Math.sqrt(re * re + im * im);
+  const mod = sqrt(re * re + im * im);
   if (!rule.signedRadial) return mod;
   let sign = 1;
   const nodes = rule.nodes;
@@ -508,8 +510,8 @@ function regionBlockField(plan: SurfacePlan, region: GridRegion, timer: { ms: nu
       const dx = x0 > 0 ? x0 : x1 < 0 ? -x1 : 0;
       const dy = y0 > 0 ? y0 : y1 < 0 ? -y1 : 0;
       const dz = z0 > 0 ? z0 : z1 < 0 ? -z1 : 0;
-      const r0 = Math.sqrt(dx * dx + dy * dy + dz * dz);
-      const r1 = Math.sqrt(Math.max(x0 * x0, x1 * x1) + Math.max(y0 * y0, y1 * y1) + Math.max(z0 * z0, z1 * z1));
+      const r0 = sqrt(dx * dx + dy * dy + dz * dz);
+      const r1 = sqrt(Math.max(x0 * x0, x1 * x1) + Math.max(y0 * y0, y1 * y1) + Math.max(z0 * z0, z1 * z1));
       out[2] = 0;
       if (rule?.masked && (r1 < rule.rMin || r0 > rule.rMax)) {
         out[0] = out[1] = 0;
@@ -522,8 +524,8 @@ function regionBlockField(plan: SurfacePlan, region: GridRegion, timer: { ms: nu
       } else {
         const minAbs = (lo: number, hi: number) => (lo > 0 ? lo : hi < 0 ? -hi : 0);
         const maxAbs = (lo: number, hi: number) => Math.max(-lo, hi);
-        const mlo = Math.hypot(minAbs(w[0], w[1]), minAbs(w[2], w[3]));
-        const mhi = Math.hypot(maxAbs(w[0], w[1]), maxAbs(w[2], w[3]));
+        const mlo = hypot(minAbs(w[0], w[1]), minAbs(w[2], w[3]));
+        const mhi = hypot(maxAbs(w[0], w[1]), maxAbs(w[2], w[3]));
         if (rule?.signedRadial) {
           out[0] = -mhi;
           out[1] = mhi;
@@ -671,7 +673,7 @@ async function meshRegion(plan: SurfacePlan, region: GridRegion, hooks: SurfaceH
   t0 = performance.now();
   const f = extractionField(plan, region, field);
   const { surfaces, stats } = extractRegion(plan, region, denseBlockField(f, region.n), withStats);
-  const nb = Math.ceil((region.n - 1) / 8) ** 3;
+  const nb = ceil((region.n - 1) / 8) ** 3;
   return { region, surfaces, stats, field: f, points: N, blocks: { active: nb, total: nb }, ms: { sample: tSample, extract: performance.now() - t0 } };
 }
 
@@ -717,7 +719,7 @@ export async function recipeToSurfaces(recipe: SurfaceRecipe, hooks: SurfaceHook
       if (expected) {
         while (!sameTopology(found, expected) && meshes[k].region.n < plan.cap) {
           const r = meshes[k].region;
-          const n = oddN(Math.min(plan.cap, Math.ceil(r.n * 1.5)), plan.cap);
+          const n = oddN(Math.min(plan.cap, ceil(r.n * 1.5)), plan.cap);
           meshes[k] = await run({ ...r, n, spacing: (2 * r.extent) / (n - 1) });
           plan.regions[k] = meshes[k].region;
           found = countTopology(meshes[k].surfaces.map((s) => ({ phase: s.phase, stats: meshes[k].stats.get(s.phase) ?? null })));
@@ -727,7 +729,7 @@ export async function recipeToSurfaces(recipe: SurfaceRecipe, hooks: SurfaceHook
         let agreed = false;
         for (let it = 0; it < 4 && !agreed && meshes[0].region.n < plan.cap; it++) {
           const r = meshes[0].region;
-          const n = oddN(Math.min(plan.cap, Math.ceil(r.n * 1.5)), plan.cap);
+          const n = oddN(Math.min(plan.cap, ceil(r.n * 1.5)), plan.cap);
           const next = await run({ ...r, n, spacing: (2 * r.extent) / (n - 1) });
           const nextFound = countTopology(next.surfaces.map((s) => ({ phase: s.phase, stats: next.stats.get(s.phase) ?? null })));
           agreed = sameTopology(found, nextFound);
@@ -794,7 +796,7 @@ export async function recipeToSurfaces(recipe: SurfaceRecipe, hooks: SurfaceHook
     for (const r of plan.regions) {
       const f = smallestIn(plan.analysis, r);
       if (f && r.spacing > stepFor(f) * 1.0001) {
-        const suggestedN = Math.ceil((2 * r.extent) / stepFor(f)) + 1;
+        const suggestedN = ceil((2 * r.extent) / stepFor(f)) + 1;
         warnings.push({
           code: 'feature-unresolved',
           message: `the grid step ${fmt(r.spacing)} a0 (${r.n} points over ±${fmt(r.extent)} a0) is coarser than half of ${f.description}: it may be missing or merged in the mesh; ${plan.mode === 'fixed' ? `use grid 'auto' or at least ${suggestedN} points per side` : `the finest grid allowed (${plan.cap} points per side) is not enough`}`,
@@ -820,7 +822,7 @@ export async function recipeToSurfaces(recipe: SurfaceRecipe, hooks: SurfaceHook
     rule: recipe.surface,
     isovalue: plan.level.isovalue,
     density: plan.level.density,
-    maxAbsPsi: Math.sqrt(plan.solver.maxDensity),
+    maxAbsPsi: sqrt(plan.solver.maxDensity),
     enclosed: {
       fraction: plan.level.fraction,
       error: plan.level.error,
@@ -961,7 +963,7 @@ async function cubeToSurfaces(recipe: SurfaceRecipe, hooks: SurfaceHooks): Promi
     if (rule.rule === 'enclosed') {
       const t = enclosedThreshold(data, rule.fraction);
       fraction = enclosedFractionAt(data, t);
-      isovalue = Math.sqrt(levelBelow(data, t));
+      isovalue = sqrt(levelBelow(data, t));
     } else {
       isovalue = rule.value;
       fraction = enclosedFractionAt(data, isovalue * isovalue);
@@ -972,7 +974,7 @@ async function cubeToSurfaces(recipe: SurfaceRecipe, hooks: SurfaceHooks): Promi
     if (rule.rule === 'enclosed') {
       const t = enclosedThreshold(sq, rule.fraction);
       fraction = enclosedFractionAt(sq, t);
-      isovalue = Math.sqrt(levelBelow(sq, t));
+      isovalue = sqrt(levelBelow(sq, t));
     } else {
       isovalue = rule.value;
       fraction = enclosedFractionAt(sq, isovalue * isovalue);
@@ -993,7 +995,7 @@ async function cubeToSurfaces(recipe: SurfaceRecipe, hooks: SurfaceHooks): Promi
         Nn[3 * v + k] /= src.spacing[k];
         l += Nn[3 * v + k] * Nn[3 * v + k];
       }
-      l = Math.sqrt(l) || 1;
+      l = sqrt(l) || 1;
       for (let k = 0; k < 3; k++) Nn[3 * v + k] /= l;
     }
     return mesh;
@@ -1108,7 +1110,7 @@ export function densityCubeReport(recipe: Pick<SurfaceRecipe, 'content'>, n: num
     }
   }
   if (thinnest && h > thinnest.size / 2) {
-    const suggestedN = Math.ceil((2 * extent) / (thinnest.size / 2)) + 1;
+    const suggestedN = ceil((2 * extent) / (thinnest.size / 2)) + 1;
     warnings.push({
       code: 'feature-unresolved',
       message: `the grid step ${fmt(h)} a0 (${n} points over ±${fmt(extent)} a0) is coarser than half of ${thinnest.description}: the samples do not resolve it; use at least ${suggestedN} points per side`,

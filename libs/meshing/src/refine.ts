@@ -21,6 +21,8 @@
 import { EdgeTable, GrowableUint32, type Mesh } from './mesh';
 import type { Phase } from './orbital-surfaces';
 
+const { abs, atan2, floor, hypot, max, sqrt } = Math; // module constants: see DEVELOPERS.md (numeric kernels)
+
 /** What projection needs from @psiform/orbitals' CompiledState: gradient with the value (out of length 8). */
 export interface AnalyticField {
   readonly isReal: boolean;
@@ -50,7 +52,7 @@ export function levelFunction(field: AnalyticField, phase: Phase, c: number): Le
       g[2] = sign * w[2];
       return sign * w[6] - c;
     }
-    const m = Math.hypot(w[6], w[7]);
+    const m = hypot(w[6], w[7]);
     if (m === 0) {
       g[0] = g[1] = g[2] = 0;
       return -c;
@@ -67,8 +69,8 @@ export function levelFunction(field: AnalyticField, phase: Phase, c: number): Le
 /** First-order distance |F| / |grad F| of a point from the level set (Infinity where grad F = 0 and F != 0). */
 export function levelDistance(F: LevelFunction, x: number, y: number, z: number, g = new Float64Array(3)): number {
   const f = F(x, y, z, g);
-  const gl = Math.hypot(g[0], g[1], g[2]);
-  return f === 0 ? 0 : gl > 0 ? Math.abs(f) / gl : Infinity;
+  const gl = hypot(g[0], g[1], g[2]);
+  return f === 0 ? 0 : gl > 0 ? abs(f) / gl : Infinity;
 }
 
 const NEWTON_STEPS = 12;
@@ -88,12 +90,12 @@ export function projectPoint(F: LevelFunction, p: Float64Array, maxMove: number,
   for (let it = 0; it < NEWTON_STEPS; it++) {
     const g2 = g[0] * g[0] + g[1] * g[1] + g[2] * g[2];
     if (!(g2 > 0) || !Number.isFinite(g2)) break;
-    const d = Math.abs(f) / Math.sqrt(g2);
+    const d = abs(f) / sqrt(g2);
     // Converged well below float32 storage precision relative to the point's size.
-    if (d <= 1e-9 * (1 + Math.abs(p[0]) + Math.abs(p[1]) + Math.abs(p[2]))) return d;
+    if (d <= 1e-9 * (1 + abs(p[0]) + abs(p[1]) + abs(p[2]))) return d;
     let sx = (-f * g[0]) / g2, sy = (-f * g[1]) / g2, sz = (-f * g[2]) / g2;
     // Near a critical point the Newton step is huge: shorten it to half the allowed move, then backtrack.
-    const len = Math.hypot(sx, sy, sz);
+    const len = hypot(sx, sy, sz);
     if (len > 0.5 * maxMove) {
       const k = (0.5 * maxMove) / len;
       sx *= k;
@@ -103,9 +105,9 @@ export function projectPoint(F: LevelFunction, p: Float64Array, maxMove: number,
     let accepted = false;
     for (let half = 0; half < 6; half++) {
       const nx = p[0] + sx, ny = p[1] + sy, nz = p[2] + sz;
-      if (Math.hypot(nx - x0, ny - y0, nz - z0) <= maxMove) {
+      if (hypot(nx - x0, ny - y0, nz - z0) <= maxMove) {
         const fn = F(nx, ny, nz, gt);
-        if (Math.abs(fn) < Math.abs(f)) {
+        if (abs(fn) < abs(f)) {
           p[0] = nx;
           p[1] = ny;
           p[2] = nz;
@@ -125,13 +127,13 @@ export function projectPoint(F: LevelFunction, p: Float64Array, maxMove: number,
     }
     if (!accepted) break;
   }
-  const gl = Math.hypot(g[0], g[1], g[2]);
-  const d = f === 0 ? 0 : gl > 0 ? Math.abs(f) / gl : Infinity;
+  const gl = hypot(g[0], g[1], g[2]);
+  const d = f === 0 ? 0 : gl > 0 ? abs(f) / gl : Infinity;
   if (!Number.isFinite(d) || !Number.isFinite(f)) {
     p[0] = x0;
     p[1] = y0;
     p[2] = z0;
-    return Math.abs(f0) === 0 ? 0 : Infinity;
+    return abs(f0) === 0 ? 0 : Infinity;
   }
   return d;
 }
@@ -173,7 +175,7 @@ export function projectMesh(mesh: Mesh, F: LevelFunction, maxMove: number, phase
     P[3 * v + 1] = p[1];
     P[3 * v + 2] = p[2];
     normalInto(g, Nn, v);
-    if (phaseAngle) phaseAngle[v] = Math.atan2(psi[1], psi[0]);
+    if (phaseAngle) phaseAngle[v] = atan2(psi[1], psi[0]);
   }
   if (phaseAngle) mesh.phaseAngle = phaseAngle;
   fillMissingNormals(mesh);
@@ -196,7 +198,7 @@ export function fillMissingNormals(mesh: Mesh): void {
   const missing = new Uint8Array(V);
   let any = false;
   for (let v = 0; v < V; v++) {
-    const l = Math.hypot(N[3 * v], N[3 * v + 1], N[3 * v + 2]);
+    const l = hypot(N[3 * v], N[3 * v + 1], N[3 * v + 2]);
     if (!(l > 0.5) || !Number.isFinite(l)) {
       missing[v] = 1;
       N[3 * v] = N[3 * v + 1] = N[3 * v + 2] = 0;
@@ -219,7 +221,7 @@ export function fillMissingNormals(mesh: Mesh): void {
   }
   for (let v = 0; v < V; v++) {
     if (!missing[v]) continue;
-    const l = Math.hypot(N[3 * v], N[3 * v + 1], N[3 * v + 2]);
+    const l = hypot(N[3 * v], N[3 * v + 1], N[3 * v + 2]);
     if (l > 0) for (let k = 0; k < 3; k++) N[3 * v + k] /= l;
     else N[3 * v + 2] = 1;
   }
@@ -227,7 +229,7 @@ export function fillMissingNormals(mesh: Mesh): void {
 
 /** Outward unit normal -grad F / |grad F| into Nn at vertex v (left as it was where grad F vanishes). */
 function normalInto(g: Float64Array, Nn: Float32Array, v: number): void {
-  const l = Math.hypot(g[0], g[1], g[2]);
+  const l = hypot(g[0], g[1], g[2]);
   if (l > 0 && Number.isFinite(l)) {
     Nn[3 * v] = -g[0] / l;
     Nn[3 * v + 1] = -g[1] / l;
@@ -367,13 +369,13 @@ export function refineMesh(mesh: Mesh, F: LevelFunction, phase: Phase, opts: Ref
       if (val === MARKED) markedKeys.push(key);
     });
     for (const key of markedKeys) {
-      const a = Math.floor(key / KEY);
+      const a = floor(key / KEY);
       const b = key - a * KEY;
       const Y = P();
       p[0] = 0.5 * (Y[3 * a] + Y[3 * b]);
       p[1] = 0.5 * (Y[3 * a + 1] + Y[3 * b + 1]);
       p[2] = 0.5 * (Y[3 * a + 2] + Y[3 * b + 2]);
-      const half = 0.5 * Math.hypot(Y[3 * a] - Y[3 * b], Y[3 * a + 1] - Y[3 * b + 1], Y[3 * a + 2] - Y[3 * b + 2]);
+      const half = 0.5 * hypot(Y[3 * a] - Y[3 * b], Y[3 * a + 1] - Y[3 * b + 1], Y[3 * a + 2] - Y[3 * b + 2]);
       const d = projectPoint(F, p, half, g, psi);
       if (!Number.isFinite(d)) {
         F(p[0], p[1], p[2], g);
@@ -384,11 +386,11 @@ export function refineMesh(mesh: Mesh, F: LevelFunction, phase: Phase, opts: Ref
       pos.push(p[0]);
       pos.push(p[1]);
       pos.push(p[2]);
-      const gl = Math.hypot(g[0], g[1], g[2]) || 1;
+      const gl = hypot(g[0], g[1], g[2]) || 1;
       nor.push(-g[0] / gl);
       nor.push(-g[1] / gl);
       nor.push(-g[2] / gl);
-      ang?.push(Math.atan2(psi[1], psi[0]));
+      ang?.push(atan2(psi[1], psi[0]));
       edges.set(key, id);
     }
     const out = new GrowableUint32(tri.length * 2);
@@ -452,7 +454,7 @@ export function refineMesh(mesh: Mesh, F: LevelFunction, phase: Phase, opts: Ref
   const result: Mesh = { positions, normals: Float32Array.from(nor.data.subarray(0, nor.length)), indices: tri };
   if (ang) result.phaseAngle = Float32Array.from(ang.data.subarray(0, ang.length));
   fillMissingNormals(result);
-  const maxDeviation = limited ? Math.max(accepted, worstMarked, stuckWorst) : accepted;
+  const maxDeviation = limited ? max(accepted, worstMarked, stuckWorst) : accepted;
   if (info) Object.assign(info, { tolerance: opts.tolerance, maxDeviation, rounds, trianglesBefore, trianglesAfter: tri.length / 3, limited } satisfies RefineInfo);
   return result;
 }
@@ -467,7 +469,7 @@ class Grow64 {
   data: Float64Array;
   length = 0;
   constructor(cap: number) {
-    this.data = new Float64Array(Math.max(16, cap));
+    this.data = new Float64Array(max(16, cap));
   }
   push(x: number): void {
     if (this.length === this.data.length) {
@@ -492,19 +494,19 @@ export function meshDeviation(mesh: Mesh, F: LevelFunction, perTriangle?: Float6
   let vert = 0;
   let midp = 0;
   let cent = 0;
-  for (let v = 0; v < P.length; v += 3) vert = Math.max(vert, levelDistance(F, P[v], P[v + 1], P[v + 2], g));
+  for (let v = 0; v < P.length; v += 3) vert = max(vert, levelDistance(F, P[v], P[v + 1], P[v + 2], g));
   for (let t = 0; t < I.length; t += 3) {
     const a = 3 * I[t], b = 3 * I[t + 1], c = 3 * I[t + 2];
     let worst = 0;
     for (const [u, w] of [[a, b], [b, c], [c, a]]) {
       // each interior edge is met twice; the maximum does not mind
-      worst = Math.max(worst, levelDistance(F, 0.5 * (P[u] + P[w]), 0.5 * (P[u + 1] + P[w + 1]), 0.5 * (P[u + 2] + P[w + 2]), g));
+      worst = max(worst, levelDistance(F, 0.5 * (P[u] + P[w]), 0.5 * (P[u + 1] + P[w + 1]), 0.5 * (P[u + 2] + P[w + 2]), g));
     }
-    midp = Math.max(midp, worst);
+    midp = max(midp, worst);
     const dc = levelDistance(F, (P[a] + P[b] + P[c]) / 3, (P[a + 1] + P[b + 1] + P[c + 1]) / 3, (P[a + 2] + P[b + 2] + P[c + 2]) / 3, g);
-    cent = Math.max(cent, dc);
+    cent = max(cent, dc);
     // Each triangle's own worst point (midpoints, centroid), for callers that estimate refinement's cost.
-    if (perTriangle) perTriangle[t / 3] = Math.max(worst, dc);
+    if (perTriangle) perTriangle[t / 3] = max(worst, dc);
   }
-  return { vertices: vert, midpoints: midp, centroids: cent, max: Math.max(vert, midp, cent) };
+  return { vertices: vert, midpoints: midp, centroids: cent, max: max(vert, midp, cent) };
 }

@@ -4,6 +4,8 @@
 import { contours } from 'd3-contour';
 import type { CompiledLike } from './orbital-surfaces';
 
+const { atan2, hypot } = Math; // module constants: see DEVELOPERS.md (numeric kernels)
+
 export type SectionPlaneName = 'xy' | 'xz' | 'yz';
 
 export interface SectionSpec {
@@ -41,8 +43,8 @@ export function sectionPlane(compiled: CompiledLike, spec: SectionSpec): Section
       const u = -extent + h * i;
       const [x, y, z] = plane === 'xy' ? [u, v, offset] : plane === 'xz' ? [u, offset, v] : [offset, u, v];
       const psi = compiled.evaluate(x, y, z);
-      values[i + n * j] = compiled.isReal ? psi.re : (psi.re < 0 ? -1 : 1) * Math.hypot(psi.re, psi.im);
-      if (arg) arg[i + n * j] = Math.atan2(psi.im, psi.re);
+      values[i + n * j] = compiled.isReal ? psi.re : (psi.re < 0 ? -1 : 1) * hypot(psi.re, psi.im);
+      if (arg) arg[i + n * j] = atan2(psi.im, psi.re);
     }
   }
   return { plane, offset, extent, n, values, mode: compiled.isReal ? 'real' : 'signed-modulus', ...(arg ? { arg } : {}) };

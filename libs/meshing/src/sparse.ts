@@ -22,6 +22,8 @@ import { CDX, CDY, CDZ, EDGE_AXIS, EDGE_HI, EDGE_LO, EDGE_TABLE } from './mc-tab
 import { GrowableFloat32, GrowableUint32, type Mesh } from './mesh';
 import type { CubeGrid } from './orbital-surfaces';
 
+const { abs, ceil, max, min } = Math; // module constants: see DEVELOPERS.md (numeric kernels)
+
 /** The field as blocks: a safe enclosure over a box, and exact values at a block of lattice points. */
 export interface BlockField {
   /**
@@ -222,7 +224,7 @@ export function extractSparse(field: BlockField, grid: CubeGrid, levels: readonl
   if (L > 8) throw new RangeError(`at most 8 levels at once (got ${L})`);
   const h = (2 * extent) / (n - 1);
   const cells = n - 1;
-  const nb = Math.ceil(cells / B);
+  const nb = ceil(cells / B);
   const stats: SparseInfo = { blocksTotal: nb * nb * nb, boxesTested: 0, blocksActive: 0, pointsSampled: 0 };
   const coord = (i: number) => -extent + i * h;
 
@@ -233,12 +235,12 @@ export function extractSparse(field: BlockField, grid: CubeGrid, levels: readonl
   const visit = (x0: number, x1: number, y0: number, y1: number, z0: number, z1: number): void => {
     // block ranges [x0, x1) ...; the box spans cells x0 B .. min(x1 B, cells)
     bnd[2] = 0;
-    field.bound(coord(x0 * B), coord(Math.min(x1 * B, cells)), coord(y0 * B), coord(Math.min(y1 * B, cells)), coord(z0 * B), coord(Math.min(z1 * B, cells)), bnd);
+    field.bound(coord(x0 * B), coord(min(x1 * B, cells)), coord(y0 * B), coord(min(y1 * B, cells)), coord(z0 * B), coord(min(z1 * B, cells)), bnd);
     stats.boxesTested++;
     let mask = 0;
     for (let q = 0; q < L; q++) {
       const lv = levels[q].level;
-      if (bnd[0] <= lv && lv <= bnd[1] && Math.abs(lv) >= bnd[2]) mask |= 1 << q;
+      if (bnd[0] <= lv && lv <= bnd[1] && abs(lv) >= bnd[2]) mask |= 1 << q;
     }
     if (mask === 0) return;
     if (x1 - x0 === 1 && y1 - y0 === 1 && z1 - z0 === 1) {
@@ -285,7 +287,7 @@ export function extractSparse(field: BlockField, grid: CubeGrid, levels: readonl
   // Sized for about 2.5 B vertices per active block over all levels (a surface crossing a block of B³ cells meets
   // about 2 B² edges, each shared by about 4 cells, and many blocks are active only because the bound is not tight):
   // buffers then grow once or twice at most, and no fresh memory is touched in vain (page faults cost here).
-  const guess = Math.max(1024, Math.ceil((nActive * B * 2.5) / L));
+  const guess = max(1024, ceil((nActive * B * 2.5) / L));
   const ring: Ring = { n, S, R, nR, extent, h, vals, cornerTab, edgeTab, edgePlane, base, rowBits: new Int32Array(S * S), ev: new Uint32Array(12) };
   const lv: LevelMesh[] = levels.map((l, q) => ({
     q,
@@ -301,13 +303,13 @@ export function extractSparse(field: BlockField, grid: CubeGrid, levels: readonl
   for (let bz = 0; bz < nb; bz++) {
     const k0 = bz * B;
     // Planes entering the ring with this slab (its lowest plane came in with the slab before, as that one's top).
-    for (let p = bz === 0 ? 0 : k0 + 1; p <= Math.min(k0 + B, n - 1); p++) for (let q = 0; q < L; q++) base[q * R + (p % R)] = lv[q].pos.length / 3;
+    for (let p = bz === 0 ? 0 : k0 + 1; p <= min(k0 + B, n - 1); p++) for (let q = 0; q < L; q++) base[q * R + (p % R)] = lv[q].pos.length / 3;
     for (let by = 0; by < nb; by++) {
       for (let bx = 0; bx < nb; bx++) {
         const mask = masks[bx + nb * (by + nb * bz)];
         if (mask === 0) continue;
         const i0 = bx * B, j0 = by * B;
-        const sx = Math.min(S, n - i0), sy = Math.min(S, n - j0), sz = Math.min(S, n - k0);
+        const sx = min(S, n - i0), sy = min(S, n - j0), sz = min(S, n - k0);
         const row0 = nb * (by + nb * bz);
         // The lower faces an active neighbour already sampled are skipped: their values are still in the rings (the
         // -x and -y neighbours in this slab, the -z neighbour in the slab just before, whose top plane keeps its slot).
@@ -320,7 +322,7 @@ export function extractSparse(field: BlockField, grid: CubeGrid, levels: readonl
           let end = bx;
           while (end + 1 < nb && masks[row0 + end + 1] !== 0 && (active(end + 1, by - 1, bz) ? 1 : 0) === dy && (active(end + 1, by, bz - 1) ? 1 : 0) === dz) end++;
           const dx = prev ? 1 : 0;
-          const ux = Math.min((end - bx + 1) * B + 1, n - i0) - dx, uy = sy - dy, uz = sz - dz;
+          const ux = min((end - bx + 1) * B + 1, n - i0) - dx, uy = sy - dy, uz = sz - dz;
           if (box.length < ux * uy * uz) box = new Float32Array(ux * S * S);
           start[0] = i0 + dx;
           start[1] = j0 + dy;

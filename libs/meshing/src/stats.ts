@@ -1,5 +1,7 @@
 import type { Mesh } from './mesh';
 
+const { floor, sqrt } = Math; // module constants: see DEVELOPERS.md (numeric kernels)
+
 export interface MeshStats {
   vertices: number;
   /** Vertices referenced by at least one triangle (used for the Euler characteristic). */
@@ -49,7 +51,7 @@ export function meshStats(mesh: Mesh): MeshStats {
     const nx = uy * vz - uz * vy;
     const ny = uz * vx - ux * vz;
     const nz = ux * vy - uy * vx;
-    const dbl = Math.sqrt(nx * nx + ny * ny + nz * nz);
+    const dbl = sqrt(nx * nx + ny * ny + nz * nz);
     if (dbl === 0) degenerate++;
     area += 0.5 * dbl;
     // Divergence theorem: V = sum over faces of a . (b x c) / 6.
@@ -72,11 +74,11 @@ export function meshStats(mesh: Mesh): MeshStats {
   let nonManifold = 0;
   let misoriented = 0;
   for (let i = 0; i < keys.length; ) {
-    const und = Math.floor(keys[i] / 2);
+    const und = floor(keys[i] / 2);
     let j = i;
     let fwd = 0;
     let back = 0;
-    while (j < keys.length && Math.floor(keys[j] / 2) === und) {
+    while (j < keys.length && floor(keys[j] / 2) === und) {
       if (keys[j] % 2 === 0) fwd++;
       else back++;
       j++;

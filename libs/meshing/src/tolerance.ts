@@ -33,6 +33,8 @@
 // budget is what the 1s surface needs at its 1e-4 a0 (about 2.8e5 triangles, 8.5 MB as GLB), so the smallest,
 // simplest state keeps that target and no default file is heavier than it (bench exact section).
 
+const { PI, max, min, sin, sqrt } = Math; // module constants: see DEVELOPERS.md (numeric kernels)
+
 /** Default tolerance of 3D files, relative to the surface's half-width (see above). */
 export const TOLERANCE_3D_RELATIVE = 3.5e-5;
 
@@ -58,7 +60,7 @@ export const REFINE_OVERHEAD = 1.4;
 /** Triangles refinement is expected to make from triangles whose worst points lie `deviations` from the surface. */
 export function refinedTriangles(deviations: ArrayLike<number>, tolerance: number): number {
   let count = 0;
-  for (let i = 0; i < deviations.length; i++) count += Math.max(1, (REFINE_OVERHEAD * deviations[i]) / tolerance);
+  for (let i = 0; i < deviations.length; i++) count += max(1, (REFINE_OVERHEAD * deviations[i]) / tolerance);
   return count;
 }
 
@@ -75,7 +77,7 @@ export function fileTolerance(surfaceHalfWidth: number, deviations?: ArrayLike<n
   let hi = exact;
   while (refinedTriangles(deviations, hi) > FILE_TRIANGLE_BUDGET) hi *= 2;
   for (let it = 0; it < 40 && hi / lo > 1.01; it++) {
-    const mid = Math.sqrt(lo * hi);
+    const mid = sqrt(lo * hi);
     if (refinedTriangles(deviations, mid) > FILE_TRIANGLE_BUDGET) lo = mid;
     else hi = mid;
   }
@@ -89,9 +91,9 @@ export function printTolerance(out: OutputScale, surfaceHalfWidth: number): numb
   if (!(surfaceHalfWidth > 0) || !Number.isFinite(surfaceHalfWidth)) throw new RangeError(`surface half-width must be a positive length (got ${surfaceHalfWidth})`);
   const zoom = out.camera?.zoom ?? 1;
   if (!(zoom > 0)) throw new RangeError(`camera.zoom must be positive (got ${zoom})`);
-  const a0PerPixel = (2 * surfaceHalfWidth) / (zoom * Math.min(widthPx, heightPx));
+  const a0PerPixel = (2 * surfaceHalfWidth) / (zoom * min(widthPx, heightPx));
   const perspective = (out.camera?.projection ?? 'perspective') === 'perspective';
   const fov = out.camera?.fovDeg ?? 35;
-  const near = perspective ? 1 - Math.sin(((fov / 2) * Math.PI) / 180) : 1;
+  const near = perspective ? 1 - sin(((fov / 2) * PI) / 180) : 1;
   return 0.25 * a0PerPixel * near;
 }

@@ -34,6 +34,8 @@ import { genLaguerre, genLaguerreDerivative } from './laguerre';
 import { radialConstants } from './radial';
 import { radialNodes } from './probability';
 
+const { abs, exp, max, min, sign, sqrt } = Math; // module constants: see DEVELOPERS.md (numeric kernels)
+
 export interface FieldBound {
   /**
    * Enclosures of Re psi and Im psi over the box [x0, x1] × [y0, y1] × [z0, z1] (a0):
@@ -84,7 +86,7 @@ function bisectRoot(f: (r: number) => number, a: number, b: number): number {
     const m = 0.5 * (a + b);
     const fm = f(m);
     if (fm === 0) return m;
-    if (Math.sign(fm) === Math.sign(fa)) {
+    if (sign(fm) === sign(fa)) {
       a = m;
       fa = fm;
     } else b = m;
@@ -94,8 +96,8 @@ function bisectRoot(f: (r: number) => number, a: number, b: number): number {
 
 /** Exact range of a / sqrt(a² + q) over a in [a0, a1], q in [q0, q1] (q >= 0): it rises with a; see the file comment. */
 function unitRange(a0: number, a1: number, q0: number, q1: number, out: Float64Array, o: number): void {
-  out[o] = a0 === 0 ? 0 : a0 / Math.sqrt(a0 * a0 + (a0 > 0 ? q1 : q0));
-  out[o + 1] = a1 === 0 ? 0 : a1 / Math.sqrt(a1 * a1 + (a1 > 0 ? q0 : q1));
+  out[o] = a0 === 0 ? 0 : a0 / sqrt(a0 * a0 + (a0 > 0 ? q1 : q0));
+  out[o + 1] = a1 === 0 ? 0 : a1 / sqrt(a1 * a1 + (a1 > 0 ? q0 : q1));
 }
 
 export function fieldBound(compiled: CompiledState): FieldBound {
@@ -112,7 +114,7 @@ export function fieldBound(compiled: CompiledState): FieldBound {
     const brackets: [number, number][] = [];
     for (let j = 0; j + 1 < nodes.length; j++) brackets.push([nodes[j], nodes[j + 1]]);
     let hi = nodes[nodes.length - 1] * 2 + 1;
-    while (Math.sign(dg(hi)) === Math.sign(dg(nodes[nodes.length - 1] * (1 + 1e-9))) && hi < 1e6) hi *= 2;
+    while (sign(dg(hi)) === sign(dg(nodes[nodes.length - 1] * (1 + 1e-9))) && hi < 1e6) hi *= 2;
     brackets.push([nodes[nodes.length - 1], hi]);
     return brackets.map(([a, b]) => bisectRoot(dg, a, b));
   });
@@ -124,8 +126,8 @@ export function fieldBound(compiled: CompiledState): FieldBound {
     const dR = (r: number) => l * genLaguerre(c.k, c.alpha, c.rhoFactor * r) + r * (-c.kappa * genLaguerre(c.k, c.alpha, c.rhoFactor * r) + c.rhoFactor * genLaguerreDerivative(c.k, c.alpha, c.rhoFactor * r));
     const nodes = c.k > 0 ? radialNodes(blocks[i].n, l, Z).map(Number) : [];
     const edges = [0, ...nodes];
-    let hi = Math.max(edges[edges.length - 1] * 2, l / c.kappa) + 1;
-    while (Math.sign(dR(hi)) === Math.sign(dR(edges[edges.length - 1] * (1 + 1e-9) || 1e-9)) && hi < 1e6) hi *= 2;
+    let hi = max(edges[edges.length - 1] * 2, l / c.kappa) + 1;
+    while (sign(dR(hi)) === sign(dR(edges[edges.length - 1] * (1 + 1e-9) || 1e-9)) && hi < 1e6) hi *= 2;
     const brackets: [number, number][] = [];
     for (let j = 0; j + 1 < edges.length; j++) brackets.push([edges[j], edges[j + 1]]);
     brackets.push([edges[edges.length - 1], hi]);
@@ -133,7 +135,7 @@ export function fieldBound(compiled: CompiledState): FieldBound {
   });
   const g = (i: number, r: number) => {
     const c = consts[i];
-    return c.scale * Math.exp(-c.kappa * r) * genLaguerre(c.k, c.alpha, c.rhoFactor * r);
+    return c.scale * exp(-c.kappa * r) * genLaguerre(c.k, c.alpha, c.rhoFactor * r);
   };
   const R = (i: number, r: number) => g(i, r) * r ** lOfBlock[i];
   const lOfBlock = blocks.map((b) => b.l);
@@ -142,8 +144,8 @@ export function fieldBound(compiled: CompiledState): FieldBound {
     const f = full ? R : g;
     const g0 = f(i, r0);
     const g1 = r1 === r0 ? g0 : f(i, r1);
-    let lo = Math.min(g0, g1);
-    let hi = Math.max(g0, g1);
+    let lo = min(g0, g1);
+    let hi = max(g0, g1);
     const ci = full ? critR[i] : crit[i];
     for (let q = 0; q < ci.length; q++) {
       const r = ci[q];
@@ -160,7 +162,7 @@ export function fieldBound(compiled: CompiledState): FieldBound {
   const shiftRe = lOf.map((l) => new Float64Array((l + 1) ** 3));
   const shiftIm = lOf.map((l) => new Float64Array((l + 1) ** 3));
   const binom: number[][] = [];
-  for (let a = 0; a <= Math.max(0, ...lOf); a++) {
+  for (let a = 0; a <= max(0, ...lOf); a++) {
     binom.push([]);
     for (let i = 0; i <= a; i++) binom[a].push(i === 0 || i === a ? 1 : binom[a - 1][i - 1] + binom[a - 1][i]);
   }
@@ -260,8 +262,8 @@ export function fieldBound(compiled: CompiledState): FieldBound {
       for (let t = 0; t < 2; t++) {
         const q = t === 0 ? py : pz;
         const a = lo * q[0], b = lo * q[1], c = hi * q[0], d = hi * q[1];
-        lo = Math.min(a, b, c, d);
-        hi = Math.max(a, b, c, d);
+        lo = min(a, b, c, d);
+        hi = max(a, b, c, d);
       }
       if (m.re > 0) {
         hrLo += m.re * lo;
@@ -279,18 +281,18 @@ export function fieldBound(compiled: CompiledState): FieldBound {
       }
     }
     centred(i, 0.5 * (x0 + x1), 0.5 * (y0 + y1), 0.5 * (z0 + z1), 0.5 * (x1 - x0), 0.5 * (y1 - y0), 0.5 * (z1 - z0), cen);
-    out[0] = Math.max(hrLo, cen[0]);
-    out[1] = Math.min(hrHi, cen[1]);
-    out[2] = Math.max(hiLo, cen[2]);
-    out[3] = Math.min(hiHi, cen[3]);
+    out[0] = max(hrLo, cen[0]);
+    out[1] = min(hrHi, cen[1]);
+    out[2] = max(hiLo, cen[2]);
+    out[3] = min(hiHi, cen[3]);
   };
   const box = (x0: number, x1: number, y0: number, y1: number, z0: number, z1: number, out: Float64Array): void => {
     const dx = x0 > 0 ? x0 : x1 < 0 ? -x1 : 0;
     const dy = y0 > 0 ? y0 : y1 < 0 ? -y1 : 0;
     const dz = z0 > 0 ? z0 : z1 < 0 ? -z1 : 0;
-    const r0 = Math.sqrt(dx * dx + dy * dy + dz * dz);
-    const X = Math.max(x0 * x0, x1 * x1), Y = Math.max(y0 * y0, y1 * y1), Zs = Math.max(z0 * z0, z1 * z1);
-    const r1 = Math.sqrt(X + Y + Zs);
+    const r0 = sqrt(dx * dx + dy * dy + dz * dz);
+    const X = max(x0 * x0, x1 * x1), Y = max(y0 * y0, y1 * y1), Zs = max(z0 * z0, z1 * z1);
+    const r1 = sqrt(X + Y + Zs);
     // Radial × direction away from the nucleus, g_b × H_b over the box where it holds r = 0 (file comment).
     const split = r0 > 0;
     if (split) {
@@ -306,15 +308,15 @@ export function fieldBound(compiled: CompiledState): FieldBound {
       rangeOf(i, r0, r1, split, gr);
       const gLo = gr[0];
       const gHi = gr[1];
-      reLo += Math.min(gLo * hrLo, gLo * hrHi, gHi * hrLo, gHi * hrHi);
-      reHi += Math.max(gLo * hrLo, gLo * hrHi, gHi * hrLo, gHi * hrHi);
+      reLo += min(gLo * hrLo, gLo * hrHi, gHi * hrLo, gHi * hrHi);
+      reHi += max(gLo * hrLo, gLo * hrHi, gHi * hrLo, gHi * hrHi);
       if (!compiled.isReal) {
-        imLo += Math.min(gLo * hiLo, gLo * hiHi, gHi * hiLo, gHi * hiHi);
-        imHi += Math.max(gLo * hiLo, gLo * hiHi, gHi * hiLo, gHi * hiHi);
+        imLo += min(gLo * hiLo, gLo * hiHi, gHi * hiLo, gHi * hiHi);
+        imHi += max(gLo * hiLo, gLo * hiHi, gHi * hiLo, gHi * hiHi);
       }
     }
     // Padding for rounding (float64 here, float32 samples downstream): relative 1e-6 of the largest magnitude.
-    const pad = 1e-6 * Math.max(Math.abs(reLo), Math.abs(reHi), Math.abs(imLo), Math.abs(imHi)) + 1e-300;
+    const pad = 1e-6 * max(abs(reLo), abs(reHi), abs(imLo), abs(imHi)) + 1e-300;
     out[0] = reLo - pad;
     out[1] = reHi + pad;
     out[2] = compiled.isReal ? 0 : imLo - pad;

@@ -4,6 +4,8 @@ import { Complex, Monomial, solidHarmonic } from './harmonics';
 import { radialConstants } from './radial';
 import { OrbitalState, isRealState, normaliseState, toComplexBasis } from './state';
 
+const { abs, exp, max, sqrt } = Math; // module constants: see DEVELOPERS.md (numeric kernels)
+
 /**
  * A state prepared for fast evaluation. Coordinates in Bohr, nucleus at the origin.
  * sampleGrid writes psi on a cube grid: points -extent..+extent inclusive, spacing 2*extent/(n-1),
@@ -74,7 +76,7 @@ export function compileState(state: OrbitalState): CompiledState {
   blockKeys.sort((p, q) => p.n - q.n || p.l - q.l);
   const B = blockKeys.length;
   let Lmax = 0;
-  for (const b of blockKeys) Lmax = Math.max(Lmax, b.l);
+  for (const b of blockKeys) Lmax = max(Lmax, b.l);
   const S = Lmax + 1; // stride of per-block row coefficient storage
 
   const bL = new Int32Array(B);
@@ -100,7 +102,7 @@ export function compileState(state: OrbitalState): CompiledState {
     bKappa[i] = rc.kappa;
     bNewExp[i] = i === 0 || blockKeys[i - 1].n !== n ? 1 : 0;
     lagStart[i] = lagTotal;
-    lagTotal += Math.max(rc.k - 1, 0);
+    lagTotal += max(rc.k - 1, 0);
     // H = sum_m c_m r^l Y_lm
     const acc = new Map<number, Monomial>();
     for (const t of cx.terms) {
@@ -118,19 +120,19 @@ export function compileState(state: OrbitalState): CompiledState {
     }
     let list = [...acc.values()];
     let maxAbs = 0;
-    for (const mo of list) maxAbs = Math.max(maxAbs, Math.abs(mo.re), Math.abs(mo.im));
+    for (const mo of list) maxAbs = max(maxAbs, abs(mo.re), abs(mo.im));
     // Drop round-off residue of cancelled monomials; for real states the imaginary parts cancel exactly in theory.
     list = list
-      .map((mo) => ({ ...mo, re: Math.abs(mo.re) > 1e-14 * maxAbs ? mo.re : 0, im: real || Math.abs(mo.im) <= 1e-14 * maxAbs ? 0 : mo.im }))
+      .map((mo) => ({ ...mo, re: abs(mo.re) > 1e-14 * maxAbs ? mo.re : 0, im: real || abs(mo.im) <= 1e-14 * maxAbs ? 0 : mo.im }))
       .filter((mo) => mo.re !== 0 || mo.im !== 0);
     monos.push(list);
   }
   lagStart[B] = lagTotal;
 
   // Laguerre recurrence L_{j+1} = (A_j - Bc_j rho) L_j - C_j L_{j-1}, j = 1..k-1 (DLMF 18.9.13)
-  const lagA = new Float64Array(Math.max(lagTotal, 1));
-  const lagB = new Float64Array(Math.max(lagTotal, 1));
-  const lagC = new Float64Array(Math.max(lagTotal, 1));
+  const lagA = new Float64Array(max(lagTotal, 1));
+  const lagB = new Float64Array(max(lagTotal, 1));
+  const lagC = new Float64Array(max(lagTotal, 1));
   for (let i = 0; i < B; i++) {
     const alpha = bAlpha[i];
     for (let j = 1; j < bK[i]; j++) {
@@ -208,12 +210,12 @@ export function compileState(state: OrbitalState): CompiledState {
 
   const evaluate = (x: number, y: number, z: number): Complex => {
     powers(x, y, z);
-    const r = Math.sqrt(x * x + y * y + z * z);
+    const r = sqrt(x * x + y * y + z * z);
     let re = 0;
     let im = 0;
     let e = 0;
     for (let i = 0; i < B; i++) {
-      if (bNewExp[i]) e = Math.exp(-bKappa[i] * r);
+      if (bNewExp[i]) e = exp(-bKappa[i] * r);
       const rad = bScale[i] * e * laguerre(i, bRhoF[i] * r);
       blockPoly(i);
       re += rad * polyRe;
@@ -224,7 +226,7 @@ export function compileState(state: OrbitalState): CompiledState {
 
   const gradient = (x: number, y: number, z: number, out: Float64Array): void => {
     powers(x, y, z);
-    const r = Math.sqrt(x * x + y * y + z * z);
+    const r = sqrt(x * x + y * y + z * z);
     const ux = r > 0 ? x / r : 0;
     const uy = r > 0 ? y / r : 0;
     const uz = r > 0 ? z / r : 0;
@@ -233,7 +235,7 @@ export function compileState(state: OrbitalState): CompiledState {
     let vi = 0;
     let e = 0;
     for (let i = 0; i < B; i++) {
-      if (bNewExp[i]) e = Math.exp(-bKappa[i] * r);
+      if (bNewExp[i]) e = exp(-bKappa[i] * r);
       const rho = bRhoF[i] * r;
       const L = laguerre(i, rho);
       // d/dr [scale e^{-kappa r} L(rhoF r)] with L' = -L_{k-1}^{alpha+1} (DLMF 18.9.23)
@@ -381,7 +383,7 @@ export function compileState(state: OrbitalState): CompiledState {
         let idx = iy * nx + iz * nx * ny - offset;
         for (let ix = 0; ix < nx; ix++, idx++) {
           const x = ox + (ix + sx) * h;
-          const r = Math.sqrt(x * x + s2);
+          const r = sqrt(x * x + s2);
           let L = 1;
           if (k > 0) {
             const rho = rhoF * r;
@@ -411,7 +413,7 @@ export function compileState(state: OrbitalState): CompiledState {
         let idx = iy * nx + iz * nx * ny - offset;
         for (let ix = 0; ix < nx; ix++, idx++) {
           const x = ox + (ix + sx) * h;
-          const r = Math.sqrt(x * x + s2);
+          const r = sqrt(x * x + s2);
           let accRe = 0;
           let accIm = 0;
           let e = 0;
@@ -460,7 +462,7 @@ export function compileState(state: OrbitalState): CompiledState {
         let idx = iy * nx + iz * nx * ny - offset;
         for (let ix = 0; ix < nx; ix++, idx++) {
           const x = ox + (ix + sx) * h;
-          const r = Math.sqrt(x * x + s2);
+          const r = sqrt(x * x + s2);
           let accRe = 0;
           let e = 0;
           for (let i = 0; i < B; i++) {
@@ -500,7 +502,7 @@ export function compileState(state: OrbitalState): CompiledState {
     checkBlock(b);
     let rl = 1;
     for (let p = 0; p < bL[b]; p++) rl *= r;
-    return bScale[b] * Math.exp(-bKappa[b] * r) * laguerre(b, bRhoF[b] * r) * rl;
+    return bScale[b] * exp(-bKappa[b] * r) * laguerre(b, bRhoF[b] * r) * rl;
   };
   const angular = (b: number, ux: number, uy: number, uz: number): Complex => {
     checkBlock(b);

@@ -2,6 +2,8 @@ import { radiusForProbability, stateProbabilityInside } from './probability';
 import { OrbitalState, toComplexBasis } from './state';
 import { Bohr } from './units';
 
+const { ceil, floor, log10, max } = Math; // module constants: see DEVELOPERS.md (numeric kernels)
+
 /**
  * Half-width (Bohr) of a cube holding at least `fraction` (default 0.999) of the probability.
  * The sphere of radius R with P(r < R) >= fraction is found for the slowest-decaying (n, l) term; the
@@ -20,9 +22,9 @@ export function autoExtent(state: OrbitalState, opts: { fraction?: number } = {}
     const key = `${t.n}/${t.l}`;
     if (seen.has(key)) continue;
     seen.add(key);
-    R = Math.max(R, radiusForProbability(t.n, t.l, cx.Z, fraction));
+    R = max(R, radiusForProbability(t.n, t.l, cx.Z, fraction));
   }
   for (let i = 0; i < 200 && stateProbabilityInside(cx, R) < fraction; i++) R *= 1.02;
-  const p = 10 ** (Math.floor(Math.log10(R)) - 3);
-  return (Math.ceil(R / p - 1e-9) * p) as Bohr;
+  const p = 10 ** (floor(log10(R)) - 3);
+  return (ceil(R / p - 1e-9) * p) as Bohr;
 }

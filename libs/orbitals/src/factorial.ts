@@ -1,3 +1,5 @@
+const { exp, log, round } = Math; // module constants: see DEVELOPERS.md (numeric kernels)
+
 /**
  * Log-factorial table (no lgamma): log n! = sum_{i<=n} log i, exact enough (relative 1e-15) for the
  * normalisation constants used here, whose arguments never exceed 2*12 = 24.
@@ -7,7 +9,7 @@ const LOG_FACT = new Float64Array(TABLE_SIZE);
 const FACT = new Float64Array(TABLE_SIZE);
 FACT[0] = 1;
 for (let i = 1; i < TABLE_SIZE; i++) {
-  LOG_FACT[i] = LOG_FACT[i - 1] + Math.log(i);
+  LOG_FACT[i] = LOG_FACT[i - 1] + log(i);
   FACT[i] = FACT[i - 1] * i;
 }
 
@@ -29,5 +31,5 @@ export function factorial(n: number): number {
 /** Binomial coefficient C(n, k) via the log table, rounded to the nearest integer. */
 export function binomial(n: number, k: number): number {
   if (k < 0 || k > n) return 0;
-  return Math.round(Math.exp(LOG_FACT[n] - LOG_FACT[k] - LOG_FACT[n - k]));
+  return round(exp(LOG_FACT[n] - LOG_FACT[k] - LOG_FACT[n - k]));
 }

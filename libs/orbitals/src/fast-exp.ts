@@ -8,13 +8,15 @@
 // and e^r is its Taylor polynomial of degree 6 (remainder below r^7 / 5040 < 2e-20). Relative error at most a few
 // ulp (checked against Math.exp in test/fast-exp.test.ts), far below the float32 samples it feeds.
 
+const { LN2, exp } = Math; // module constants: see DEVELOPERS.md (numeric kernels)
+
 const TABLE_J = new Float64Array(64);
 for (let j = 0; j < 64; j++) TABLE_J[j] = 2 ** (j / 64);
 /** 2^m for m in [-1150, 0] (subnormal and zero at the low end, as e^x there). */
 const M_LOW = 1150;
 const TABLE_M = new Float64Array(M_LOW + 1);
 for (let m = 0; m <= M_LOW; m++) TABLE_M[m] = 2 ** (m - M_LOW);
-const K_PER_X = 64 / Math.LN2;
+const K_PER_X = 64 / LN2;
 // ln2 / 64 in two parts: the high part has trailing zero bits, so k × high is exact for |k| < 2^20 (fdlibm's split).
 const LN2_64_HI = 6.93147180369123816490e-1 / 64;
 const LN2_64_LO = 1.90821492927058770002e-10 / 64;

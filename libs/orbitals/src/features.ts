@@ -22,6 +22,8 @@ import type { CompiledState } from './compile';
 import { assocLegendre } from './harmonics';
 import { lobeInterval, radialLobes, type RadialLobe, type RadialLobes } from './radial-lobes';
 
+const { PI, abs, cos, hypot, max, min, round, sqrt } = Math; // module constants: see DEVELOPERS.md (numeric kernels)
+
 export type FeatureKind = 'shell' | 'lobe' | 'ring-hole' | 'nucleus-gap';
 
 export interface SurfaceFeature {
@@ -102,16 +104,16 @@ function sphereGrid(compiled: CompiledState, field: 'signed' | 'radial-sign', nT
   const uz = new Float64Array(N);
   const cx = compiled.state;
   const single = new Set(cx.terms.map((t) => t.m)).size === 1;
-  const m = Math.abs(cx.terms[0].m);
+  const m = abs(cx.terms[0].m);
   const l = compiled.blocks[0].l;
   for (let i = 0; i < nT; i++) {
-    const th = ((i + 0.5) * Math.PI) / nT;
+    const th = ((i + 0.5) * PI) / nT;
     const st = Math.sin(th);
-    const ct = Math.cos(th);
+    const ct = cos(th);
     for (let j = 0; j < nP; j++) {
-      const ph = ((j + 0.5) * 2 * Math.PI) / nP;
+      const ph = ((j + 0.5) * 2 * PI) / nP;
       const p = i * nP + j;
-      ux[p] = st * Math.cos(ph);
+      ux[p] = st * cos(ph);
       uy[p] = st * Math.sin(ph);
       uz[p] = ct;
     }
@@ -128,7 +130,7 @@ function sphereGrid(compiled: CompiledState, field: 'signed' | 'radial-sign', nT
   compiled.angularInto(0, dirs, h, im);
   for (let p = 0; p < N; p++) {
     if (compiled.isReal) continue;
-    const mod = Math.hypot(h[p], im[p]);
+    const mod = hypot(h[p], im[p]);
     h[p] = field === 'signed' && single ? Math.sign(assocLegendre(l, m, uz[p])) * mod || 0 : mod;
   }
   // Axial: rows exactly uniform (no rounding differences along φ).
@@ -212,7 +214,7 @@ function components(g: SphereGrid, sign: number, level: number, dist: Float64Arr
     if (k < 0) continue;
     chi[k] += 1;
     count[k]++;
-    const a = Math.abs(h[p]);
+    const a = abs(h[p]);
     if (a > hMax[k]) hMax[k] = a;
     if (dist && p < N && dist[p] > inr[k]) inr[k] = dist[p];
   }
@@ -263,9 +265,9 @@ function chamfer(g: SphereGrid, isSource: (p: number) => boolean): Float64Array 
     else dist[p] = Infinity;
   }
   if (!any) return dist;
-  const dT = Math.PI / nT;
+  const dT = PI / nT;
   const dP = new Float64Array(nT);
-  for (let i = 0; i < nT; i++) dP[i] = Math.sin(((i + 0.5) * Math.PI) / nT) * ((2 * Math.PI) / nP);
+  for (let i = 0; i < nT; i++) dP[i] = Math.sin(((i + 0.5) * PI) / nT) * ((2 * PI) / nP);
   for (let pass = 0; pass < 3; pass++) {
     for (let i = 0; i < nT; i++) {
       const row = i * nP;
@@ -293,8 +295,8 @@ function chamfer(g: SphereGrid, isSource: (p: number) => boolean): Float64Array 
     }
     for (const row of [0, (nT - 1) * nP]) {
       let m = Infinity;
-      for (let j = 0; j < nP; j++) m = Math.min(m, dist[row + j]);
-      for (let j = 0; j < nP; j++) dist[row + j] = Math.min(dist[row + j], m + dT);
+      for (let j = 0; j < nP; j++) m = min(m, dist[row + j]);
+      for (let j = 0; j < nP; j++) dist[row + j] = min(dist[row + j], m + dT);
     }
   }
   return dist;
@@ -335,7 +337,7 @@ export function analyseSurface(compiled: CompiledState, t: number): SurfaceAnaly
   const oneM = ms.size === 1;
   const field: 'signed' | 'radial-sign' = compiled.isReal || oneM ? 'signed' : 'radial-sign';
   // s states are the same in every direction: a coarse sphere grid is exact for them.
-  const nT = l === 0 ? 8 : 2 * Math.round(60 + 8 * l);
+  const nT = l === 0 ? 8 : 2 * round(60 + 8 * l);
   const gKey = `${JSON.stringify(compiled.state)}|${field}|${nT}|${oneM}`;
   let g = grids.get(gKey);
   if (!g) {
@@ -343,7 +345,7 @@ export function analyseSurface(compiled: CompiledState, t: number): SurfaceAnaly
     if (grids.size >= 8) grids.delete(grids.keys().next().value as string);
     grids.set(gKey, g);
   }
-  const c = Math.sqrt(t);
+  const c = sqrt(t);
   const K = lobes.lobes.length;
   const layers: SurfaceLayer[] = [];
   const features: SurfaceFeature[] = [];
@@ -371,7 +373,7 @@ export function analyseSurface(compiled: CompiledState, t: number): SurfaceAnaly
         const s = (c / comp.hMax) ** 2;
         const iv = lobeInterval(lobe, s);
         if (!iv) continue;
-        aMin = Math.min(aMin, iv.a);
+        aMin = min(aMin, iv.a);
         const whole = comp.chi === 2;
         if (whole) {
           const ball = iv.a === 0;
@@ -422,7 +424,7 @@ export function analyseSurface(compiled: CompiledState, t: number): SurfaceAnaly
     n,
     l,
     radialNodes: lobes.nodes,
-    nodalCones: axial ? nodalCones(l, Math.abs(compiled.state.terms[0].m)) : null,
+    nodalCones: axial ? nodalCones(l, abs(compiled.state.terms[0].m)) : null,
     ring: !compiled.isReal && oneM && compiled.state.terms[0].m !== 0,
     layers,
     features,
@@ -438,17 +440,17 @@ export function analyseSurface(compiled: CompiledState, t: number): SurfaceAnaly
 function nodalCones(l: number, m: number): number[] {
   const out: number[] = [];
   const S = 4000;
-  let prev = assocLegendre(l, m, Math.cos(1e-9));
+  let prev = assocLegendre(l, m, cos(1e-9));
   for (let i = 1; i <= S; i++) {
-    const th = (i * Math.PI) / S;
-    const v = assocLegendre(l, m, Math.cos(Math.min(th, Math.PI - 1e-9)));
+    const th = (i * PI) / S;
+    const v = assocLegendre(l, m, cos(min(th, PI - 1e-9)));
     if (prev !== 0 && v !== 0 && prev < 0 !== v < 0) {
-      let a = ((i - 1) * Math.PI) / S;
+      let a = ((i - 1) * PI) / S;
       let b = th;
       let fa = prev;
       for (let k = 0; k < 80; k++) {
         const mid = 0.5 * (a + b);
-        const fm = assocLegendre(l, m, Math.cos(mid));
+        const fm = assocLegendre(l, m, cos(mid));
         if (fm < 0 === fa < 0) {
           a = mid;
           fa = fm;
@@ -476,11 +478,11 @@ function ringHole(g: SphereGrid, comp: Component, lobe: RadialLobe, c: number): 
   let best = Infinity;
   for (const p of comp.pixels) {
     if (p >= N) continue;
-    const iv = lobeInterval(lobe, (c / Math.abs(g.h[p])) ** 2);
+    const iv = lobeInterval(lobe, (c / abs(g.h[p])) ** 2);
     if (!iv) continue;
     const dot = g.ux[p] * ax[0] + g.uy[p] * ax[1] + g.uz[p] * ax[2];
-    const sin = Math.sqrt(Math.max(0, 1 - dot * dot));
-    best = Math.min(best, iv.a * sin);
+    const sin = sqrt(max(0, 1 - dot * dot));
+    best = min(best, iv.a * sin);
   }
   return 2 * best;
 }

@@ -1,5 +1,7 @@
 import { binomial, factorial, logFactorial } from './factorial';
 
+const { PI, SQRT2, abs, cos, exp, pow, sin, sqrt } = Math; // module constants: see DEVELOPERS.md (numeric kernels)
+
 export interface Complex {
   re: number;
   im: number;
@@ -15,7 +17,7 @@ export function assocLegendre(l: number, m: number, x: number): number {
   if (m < 0 || m > l) throw new RangeError(`assocLegendre needs 0 <= m <= l, got l=${l}, m=${m}`);
   let pmm = 1;
   if (m > 0) {
-    const s = Math.sqrt((1 - x) * (1 + x));
+    const s = sqrt((1 - x) * (1 + x));
     let fact = 1;
     for (let i = 1; i <= m; i++) {
       pmm *= -fact * s;
@@ -35,7 +37,7 @@ export function assocLegendre(l: number, m: number, x: number): number {
 }
 
 function harmonicNorm(l: number, absM: number): number {
-  return Math.sqrt(((2 * l + 1) / (4 * Math.PI)) * Math.exp(logFactorial(l - absM) - logFactorial(l + absM)));
+  return sqrt(((2 * l + 1) / (4 * PI)) * exp(logFactorial(l - absM) - logFactorial(l + absM)));
 }
 
 /**
@@ -44,10 +46,10 @@ function harmonicNorm(l: number, absM: number): number {
  * Y_{l,-m} = (-1)^m conj(Y_lm).  theta is the polar angle from +z, phi the azimuth from +x.
  */
 export function sphericalY(l: number, m: number, theta: number, phi: number): Complex {
-  const am = Math.abs(m);
-  const v = harmonicNorm(l, am) * assocLegendre(l, am, Math.cos(theta));
-  let re = v * Math.cos(am * phi);
-  let im = v * Math.sin(am * phi);
+  const am = abs(m);
+  const v = harmonicNorm(l, am) * assocLegendre(l, am, cos(theta));
+  let re = v * cos(am * phi);
+  let im = v * sin(am * phi);
   if (m < 0) {
     const s = am % 2 === 0 ? 1 : -1;
     re = s * re;
@@ -66,9 +68,9 @@ export function sphericalY(l: number, m: number, theta: number, phi: number): Co
  */
 export function realY(l: number, m: number, theta: number, phi: number): number {
   if (m === 0) return sphericalY(l, 0, theta, phi).re;
-  const am = Math.abs(m);
+  const am = abs(m);
   const y = sphericalY(l, am, theta, phi);
-  const s = am % 2 === 0 ? Math.SQRT2 : -Math.SQRT2;
+  const s = am % 2 === 0 ? SQRT2 : -SQRT2;
   return m > 0 ? s * y.re : s * y.im;
 }
 
@@ -113,7 +115,7 @@ export function solidHarmonic(l: number, m: number): Monomial[] {
   const ck = l * 64 + (m + 32);
   const hit = solidCache.get(ck);
   if (hit) return hit;
-  const am = Math.abs(m);
+  const am = abs(m);
   const K = harmonicNorm(l, am) * (am % 2 === 0 ? 1 : -1);
   const pb = new PolyBuilder();
   // (x + i y)^am = sum_s C(am,s) x^{am-s} i^s y^s
@@ -124,7 +126,7 @@ export function solidHarmonic(l: number, m: number): Monomial[] {
     for (let k = 0; 2 * k <= l; k++) {
       const p = l - 2 * k;
       if (p < am) continue;
-      const legCoef = (Math.pow(2, -l) * (k % 2 === 0 ? 1 : -1) * binomial(l, k) * binomial(2 * l - 2 * k, l) * factorial(p)) / factorial(p - am);
+      const legCoef = (pow(2, -l) * (k % 2 === 0 ? 1 : -1) * binomial(l, k) * binomial(2 * l - 2 * k, l) * factorial(p)) / factorial(p - am);
       const j = p - am; // power of z
       const q = k; // power of r^2 = (l - am - j) / 2
       // (x^2+y^2+z^2)^q = sum q!/(u! v! w!) x^{2u} y^{2v} z^{2w}
@@ -151,11 +153,11 @@ export function solidHarmonic(l: number, m: number): Monomial[] {
 /** Real solid harmonic r^l Y^{c/s}_{lm} as a real polynomial (same conventions as realY). */
 export function realSolidHarmonic(l: number, m: number): Monomial[] {
   if (m === 0) return solidHarmonic(l, 0).map((t) => ({ ...t, im: 0 }));
-  const am = Math.abs(m);
-  const s = am % 2 === 0 ? Math.SQRT2 : -Math.SQRT2;
+  const am = abs(m);
+  const s = am % 2 === 0 ? SQRT2 : -SQRT2;
   return solidHarmonic(l, am)
     .map((t) => ({ a: t.a, b: t.b, c: t.c, re: s * (m > 0 ? t.re : t.im), im: 0 }))
-    .filter((t) => Math.abs(t.re) > 1e-14);
+    .filter((t) => abs(t.re) > 1e-14);
 }
 
 /** Evaluates a monomial list at (x, y, z). */
@@ -163,7 +165,7 @@ export function evalPoly(poly: readonly Monomial[], x: number, y: number, z: num
   let re = 0;
   let im = 0;
   for (const t of poly) {
-    const v = Math.pow(x, t.a) * Math.pow(y, t.b) * Math.pow(z, t.c);
+    const v = pow(x, t.a) * pow(y, t.b) * pow(z, t.c);
     re += t.re * v;
     im += t.im * v;
   }

@@ -1,6 +1,8 @@
 import { L_LETTERS, assertZ, validateQuantumNumbers } from './quantum';
 import { OrbitalState, Term, isRealState, toComplexBasis } from './state';
 
+const { SQRT1_2, abs, sqrt } = Math; // module constants: see DEVELOPERS.md (numeric kernels)
+
 /** A real angular function written as a combination of real forms (l, m) of the same l. */
 interface RealCombo {
   l: number;
@@ -11,8 +13,8 @@ interface RealCombo {
   name: string;
 }
 
-const R6 = Math.sqrt(6) / 4;
-const R10 = Math.sqrt(10) / 4;
+const R6 = sqrt(6) / 4;
+const R10 = sqrt(10) / 4;
 
 /**
  * Chemists' real orbital names -> real forms (m > 0 cos type, m < 0 sin type; see realY).
@@ -62,10 +64,10 @@ interface HybridMember {
   direction: readonly [number, number, number];
 }
 
-const S2 = Math.SQRT1_2;
-const S3 = 1 / Math.sqrt(3);
-const S6 = 1 / Math.sqrt(6);
-const S23 = Math.sqrt(2 / 3);
+const S2 = SQRT1_2;
+const S3 = 1 / sqrt(3);
+const S6 = 1 / sqrt(6);
+const S23 = sqrt(2 / 3);
 
 /**
  * Textbook hybrid sets (the usual forms, e.g. in inorganic chemistry texts such as Miessler & Tarr;
@@ -90,8 +92,8 @@ const HYBRIDS: Record<string, { n: number; pretty: string; members: HybridMember
     pretty: 'sp²',
     members: [
       { parts: [['s', S3], ['px', S23]], direction: [1, 0, 0] },
-      { parts: [['s', S3], ['px', -S6], ['py', S2]], direction: [-0.5, Math.sqrt(3) / 2, 0] },
-      { parts: [['s', S3], ['px', -S6], ['py', -S2]], direction: [-0.5, -Math.sqrt(3) / 2, 0] },
+      { parts: [['s', S3], ['px', -S6], ['py', S2]], direction: [-0.5, sqrt(3) / 2, 0] },
+      { parts: [['s', S3], ['px', -S6], ['py', -S2]], direction: [-0.5, -sqrt(3) / 2, 0] },
     ],
   },
   sp3: {
@@ -109,8 +111,8 @@ const HYBRIDS: Record<string, { n: number; pretty: string; members: HybridMember
     pretty: 'sp³d',
     members: [
       { parts: [['s', S3], ['px', S23]], direction: [1, 0, 0] },
-      { parts: [['s', S3], ['px', -S6], ['py', S2]], direction: [-0.5, Math.sqrt(3) / 2, 0] },
-      { parts: [['s', S3], ['px', -S6], ['py', -S2]], direction: [-0.5, -Math.sqrt(3) / 2, 0] },
+      { parts: [['s', S3], ['px', -S6], ['py', S2]], direction: [-0.5, sqrt(3) / 2, 0] },
+      { parts: [['s', S3], ['px', -S6], ['py', -S2]], direction: [-0.5, -sqrt(3) / 2, 0] },
       { parts: [['pz', S2], ['dz2', S2]], direction: [0, 0, 1] },
       { parts: [['pz', -S2], ['dz2', S2]], direction: [0, 0, -1] },
     ],
@@ -225,7 +227,7 @@ export function parseOrbitalLabel(label: string, opts: { Z?: number } = {}): Par
     const e = validateQuantumNumbers(n, l, mm);
     if (e) throw new LabelError(`orbital label "${label}": ${e}`);
     const state: OrbitalState = { Z, terms: [{ n, l, m: mm, basis: 'complex', re: 1, im: 0 }] };
-    const canon = `${n}${letter}${mm > 0 ? '+' : mm < 0 ? '-' : ''}${Math.abs(mm)}`;
+    const canon = `${n}${letter}${mm > 0 ? '+' : mm < 0 ? '-' : ''}${abs(mm)}`;
     return { label: canon, state, isReal: isRealState(state) };
   }
 
@@ -242,7 +244,7 @@ export function parseOrbitalLabel(label: string, opts: { Z?: number } = {}): Par
 }
 
 function fmt(x: number): string {
-  const s = Math.abs(x) < 1e-12 ? '0' : x.toFixed(3).replace(/\.?0+$/, '');
+  const s = abs(x) < 1e-12 ? '0' : x.toFixed(3).replace(/\.?0+$/, '');
   return s === '-0' ? '0' : s;
 }
 
@@ -253,7 +255,7 @@ function termPretty(t: Term): string {
       const hit = Object.values(REAL_LABELS).find((c) => c.l === t.l && c.parts.length === 1 && c.parts[0][0] === t.m);
       if (hit) return hit.pretty ? `${t.n}${letter}_${hit.pretty}` : `${t.n}${letter}`;
     }
-    return `${t.n}${letter}(${t.m > 0 ? 'c' : t.m < 0 ? 's' : ''}${Math.abs(t.m)})`;
+    return `${t.n}${letter}(${t.m > 0 ? 'c' : t.m < 0 ? 's' : ''}${abs(t.m)})`;
   }
   return `${t.n}${letter}(m=${t.m > 0 ? '+' : ''}${t.m})`;
 }
@@ -292,10 +294,10 @@ export function prettyLabel(input: string | OrbitalState | Term): string {
       .map((t, i) => {
         if (t.im === 0) {
           const sign = t.re < 0 ? '−' : '+';
-          const c = `${fmt(Math.abs(t.re))}·${termPretty(t)}`;
+          const c = `${fmt(abs(t.re))}·${termPretty(t)}`;
           return i === 0 ? (t.re < 0 ? `−${c}` : c) : ` ${sign} ${c}`;
         }
-        const c = `(${fmt(t.re)}${t.im < 0 ? '−' : '+'}${fmt(Math.abs(t.im))}i)·${termPretty(t)}`;
+        const c = `(${fmt(t.re)}${t.im < 0 ? '−' : '+'}${fmt(abs(t.im))}i)·${termPretty(t)}`;
         return i === 0 ? c : ` + ${c}`;
       })
       .join('');
@@ -315,19 +317,19 @@ function namedRealForm(ts: readonly Term[]): string | null {
   let norm = 0;
   for (const v of byM.values()) norm += v * v;
   if (!(norm > 0)) return null;
-  norm = Math.sqrt(norm);
+  norm = sqrt(norm);
   for (const combo of Object.values(REAL_LABELS)) {
     if (combo.l !== ts[0].l) continue;
     let cn = 0;
     for (const [, c] of combo.parts) cn += c * c;
-    cn = Math.sqrt(cn);
+    cn = sqrt(cn);
     for (const sign of [1, -1]) {
       const ms = new Set([...byM.keys(), ...combo.parts.map(([m]) => m)]);
       let ok = true;
       for (const m of ms) {
         const want = (combo.parts.find(([pm]) => pm === m)?.[1] ?? 0) / cn;
         const have = (sign * (byM.get(m) ?? 0)) / norm;
-        if (Math.abs(want - have) > 1e-9) ok = false;
+        if (abs(want - have) > 1e-9) ok = false;
       }
       if (ok) {
         const letter = L_LETTERS[combo.l];
@@ -371,9 +373,9 @@ function sameUpToScale(a: readonly Term[], b: readonly Term[]): boolean {
   for (const v of ma.values()) na += v * v;
   for (const v of mb.values()) nb += v * v;
   if (!(na > 0 && nb > 0)) return false;
-  na = Math.sqrt(na);
-  nb = Math.sqrt(nb);
-  for (const k of new Set([...ma.keys(), ...mb.keys()])) if (Math.abs((ma.get(k) ?? 0) / na - (mb.get(k) ?? 0) / nb) > 1e-9) return false;
+  na = sqrt(na);
+  nb = sqrt(nb);
+  for (const k of new Set([...ma.keys(), ...mb.keys()])) if (abs((ma.get(k) ?? 0) / na - (mb.get(k) ?? 0) / nb) > 1e-9) return false;
   return true;
 }
 

@@ -1,3 +1,5 @@
+const { PI, abs, cos, floor } = Math; // module constants: see DEVELOPERS.md (numeric kernels)
+
 /**
  * Generalised (associated) Laguerre polynomials L_k^alpha(x) in the modern convention
  * (Abramowitz & Stegun 22.2.12 / DLMF 18.5.12: L_k^alpha(0) = C(k+alpha, k)), the one SciPy's
@@ -66,7 +68,7 @@ export function gaussLaguerreRule(m: number): QuadratureRule {
       pp = (m * p1 - m * p2) / z;
       const z1 = z;
       z = z1 - p1 / pp;
-      if (Math.abs(z - z1) <= 1e-15 * Math.abs(z)) break;
+      if (abs(z - z1) <= 1e-15 * abs(z)) break;
     }
     x[i] = z;
     w[i] = -1 / (pp * m * p2);
@@ -84,9 +86,9 @@ export function gaussLegendreRule(m: number): QuadratureRule {
   if (cached) return cached;
   const x = new Float64Array(m);
   const w = new Float64Array(m);
-  const half = Math.floor((m + 1) / 2);
+  const half = floor((m + 1) / 2);
   for (let i = 0; i < half; i++) {
-    let z = Math.cos((Math.PI * (i + 0.75)) / (m + 0.5));
+    let z = cos((PI * (i + 0.75)) / (m + 0.5));
     let pp = 0;
     for (let iter = 0; iter < 100; iter++) {
       let p1 = 1;
@@ -99,7 +101,7 @@ export function gaussLegendreRule(m: number): QuadratureRule {
       pp = (m * (z * p1 - p2)) / (z * z - 1);
       const z1 = z;
       z = z1 - p1 / pp;
-      if (Math.abs(z - z1) <= 1e-16) break;
+      if (abs(z - z1) <= 1e-16) break;
     }
     x[i] = -z;
     x[m - 1 - i] = z;

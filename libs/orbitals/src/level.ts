@@ -19,6 +19,8 @@ import { lobeInterval, lobePin, radialLobes, radialProbabilityAbove, type Radial
 import { enclosedProbability, rayQuadrature, solveEnclosedLevel, sphereProductRule, superlevelHalfWidth, type EnclosedLevel, type RayQuadrature } from './rays';
 import { Bohr } from './units';
 
+const { PI, abs, max, round, sqrt } = Math; // module constants: see DEVELOPERS.md (numeric kernels)
+
 export interface FractionEstimate {
   /** Probability, 0..1. */
   fraction: number;
@@ -74,7 +76,7 @@ function gTable(lobes: RadialLobes): GTable {
   const uniq: number[] = [];
   for (const v of all) if (uniq.length === 0 || v > uniq[uniq.length - 1]) uniq.push(v);
   let top = 0;
-  for (const lobe of lobes.lobes) top = Math.max(top, lobe.peak * lobe.peak);
+  for (const lobe of lobes.lobes) top = max(top, lobe.peak * lobe.peak);
   const s = Float64Array.from(uniq);
   const G = new Float64Array(s.length);
   for (let i = 0; i < s.length; i++) {
@@ -128,7 +130,7 @@ function separableSolver(compiled: CompiledState): LevelSolver {
   const lobes = radialLobes(n, l, compiled.state.Z);
   const axial = isAxial(compiled);
   const peak2 = lobes.lobes.map((lb) => lb.peak * lb.peak);
-  const nT = 2 * Math.round(64 + 8 * l);
+  const nT = 2 * round(64 + 8 * l);
   let rules: { fine: AngularRule; half: AngularRule; tab: GTable } | null = null;
   // The 2D rules and the merged G table are built on first use (the axial method needs them only for the box).
   const get2d = () => (rules ??= { fine: angularRule(compiled, nT, 2 * nT), half: angularRule(compiled, nT / 2, nT), tab: gTable(lobes) });
@@ -139,7 +141,7 @@ function separableSolver(compiled: CompiledState): LevelSolver {
   const oneRe = new Float64Array(1);
   const oneIm = new Float64Array(1);
   const Amu = (mu: number): number => {
-    one[0] = Math.sqrt(Math.max(0, 1 - mu * mu));
+    one[0] = sqrt(max(0, 1 - mu * mu));
     one[2] = mu;
     compiled.angularInto(0, one, oneRe, oneIm);
     return oneRe[0] * oneRe[0] + oneIm[0] * oneIm[0];
@@ -151,11 +153,11 @@ function separableSolver(compiled: CompiledState): LevelSolver {
     for (let i = 0; i <= MU_SAMPLES; i++) {
       muGrid[i] = -1 + (2 * i) / MU_SAMPLES;
       aGrid[i] = Amu(muGrid[i]);
-      aMax = Math.max(aMax, aGrid[i]);
+      aMax = max(aMax, aGrid[i]);
     }
   } else {
     const r = get2d();
-    for (let i = 0; i < r.fine.D; i++) aMax = Math.max(aMax, r.fine.A[i]);
+    for (let i = 0; i < r.fine.D; i++) aMax = max(aMax, r.fine.A[i]);
   }
   const axialP = (t: number, points: number): number => {
     const cuts = [-1, 1];
@@ -196,7 +198,7 @@ function separableSolver(compiled: CompiledState): LevelSolver {
         if (A > 0) sum += g.weights[q] * jac * A * radialProbabilityAbove(lobes, t / A);
       }
     }
-    return 2 * Math.PI * sum;
+    return 2 * PI * sum;
   };
 
   const productP = (rule: AngularRule, t: number): number => {
@@ -213,7 +215,7 @@ function separableSolver(compiled: CompiledState): LevelSolver {
   const estimate = (t: number): FractionEstimate => {
     const f = P(t);
     const h = axial ? axialP(t, 12) : productP(get2d().half, t);
-    return { fraction: f, error: Math.abs(f - h) + lobes.tail + 1e-9 };
+    return { fraction: f, error: abs(f - h) + lobes.tail + 1e-9 };
   };
 
   const outside = (rule: AngularRule, t: number, E: number): number => {
@@ -221,7 +223,7 @@ function separableSolver(compiled: CompiledState): LevelSolver {
     for (let i = 0; i < rule.D; i++) {
       const A = rule.A[i];
       if (!(A > 0)) continue;
-      const m = Math.max(Math.abs(rule.dirs[3 * i]), Math.abs(rule.dirs[3 * i + 1]), Math.abs(rule.dirs[3 * i + 2]));
+      const m = max(abs(rule.dirs[3 * i]), abs(rule.dirs[3 * i + 1]), abs(rule.dirs[3 * i + 2]));
       const rb = E / m;
       let part = 0;
       for (const lobe of lobes.lobes) {
@@ -235,7 +237,7 @@ function separableSolver(compiled: CompiledState): LevelSolver {
     return sum;
   };
 
-  const maxDensity = aMax * Math.max(...peak2);
+  const maxDensity = aMax * max(...peak2);
   return {
     method: axial ? 'axial' : 'separable',
     maxDensity,
@@ -247,14 +249,14 @@ function separableSolver(compiled: CompiledState): LevelSolver {
       checkFraction(fraction);
       const t = solveDecreasingLevel(P, maxDensity, fraction);
       const e = estimate(t);
-      return { density: t, isovalue: Math.sqrt(t), fraction: e.fraction, error: e.error };
+      return { density: t, isovalue: sqrt(t), fraction: e.fraction, error: e.error };
     },
     outsideBox(t, E) {
       checkLevel(t);
       if (!(E > 0)) throw new RangeError(`box half-width must be positive, got ${String(E)}`);
       const f = outside(get2d().fine, t, E);
       const h = outside(get2d().half, t, E);
-      return { fraction: f, error: Math.abs(f - h) };
+      return { fraction: f, error: abs(f - h) };
     },
     halfWidth(t) {
       checkLevel(t);
@@ -267,10 +269,10 @@ function separableSolver(compiled: CompiledState): LevelSolver {
           let bOut = 0;
           for (const lobe of lobes.lobes) {
             const iv = lobeInterval(lobe, t / A);
-            if (iv) bOut = Math.max(bOut, iv.b);
+            if (iv) bOut = max(bOut, iv.b);
           }
           const mu = muGrid[i];
-          best = Math.max(best, bOut * Math.max(Math.sqrt(Math.max(0, 1 - mu * mu)), Math.abs(mu)));
+          best = max(best, bOut * max(sqrt(max(0, 1 - mu * mu)), abs(mu)));
         }
         return best as Bohr;
       }
@@ -281,11 +283,11 @@ function separableSolver(compiled: CompiledState): LevelSolver {
         let bOut = 0;
         for (const lobe of lobes.lobes) {
           const iv = lobeInterval(lobe, t / A);
-          if (iv) bOut = Math.max(bOut, iv.b);
+          if (iv) bOut = max(bOut, iv.b);
         }
         if (bOut === 0) continue;
-        const m = Math.max(Math.abs(fine.dirs[3 * i]), Math.abs(fine.dirs[3 * i + 1]), Math.abs(fine.dirs[3 * i + 2]));
-        best = Math.max(best, bOut * m);
+        const m = max(abs(fine.dirs[3 * i]), abs(fine.dirs[3 * i + 1]), abs(fine.dirs[3 * i + 2]));
+        best = max(best, bOut * m);
       }
       return best as Bohr;
     },
@@ -304,7 +306,7 @@ function raySolver(compiled: CompiledState): LevelSolver {
       checkLevel(t);
       const f = enclosedProbability(get(), t);
       const c = enclosedProbability(get(), t, { coarse: true });
-      return { fraction: f, error: Math.abs(f - c) + get().tail };
+      return { fraction: f, error: abs(f - c) + get().tail };
     },
     solve(fraction) {
       checkFraction(fraction);
@@ -315,7 +317,7 @@ function raySolver(compiled: CompiledState): LevelSolver {
       if (!(E > 0)) throw new RangeError(`box half-width must be positive, got ${String(E)}`);
       const f = enclosedProbability(get(), t, { outsideBox: E });
       const c = enclosedProbability(get(), t, { outsideBox: E, coarse: true });
-      return { fraction: f, error: Math.abs(f - c) };
+      return { fraction: f, error: abs(f - c) };
     },
     halfWidth(t) {
       checkLevel(t);

@@ -5,6 +5,8 @@ import { radialNorm } from './radial';
 import { OrbitalState, toComplexBasis } from './state';
 import { Bohr } from './units';
 
+const { PI, abs, ceil, exp, max, min, pow, sqrt } = Math; // module constants: see DEVELOPERS.md (numeric kernels)
+
 // 20-point Gauss–Laguerre is exact for polynomial degree <= 39; every radial product used below is
 // (polynomial of degree n1 + n2 <= 24 or 2n + 1 <= 25) x exponential, so these integrals are exact up to round-off.
 const GL_POINTS = 20;
@@ -43,15 +45,15 @@ export function radialOverlapOutside(n1: number, n2: number, l: number, Z: numbe
     const rho2 = (2 * Z * r) / n2;
     const L = genLaguerre(k1, a, rho1) * genLaguerre(k2, a, rho2);
     if (L === 0) continue;
-    const lnG = 2 * Math.log(r) + lnN + l * (Math.log(rho1) + Math.log(rho2)) + Math.log(Math.abs(L));
-    sum += weights[i] * Math.sign(L) * Math.exp(lnG - u0);
+    const lnG = 2 * Math.log(r) + lnN + l * (Math.log(rho1) + Math.log(rho2)) + Math.log(abs(L));
+    sum += weights[i] * Math.sign(L) * exp(lnG - u0);
   }
   return sum / beta;
 }
 
 /** P(r > R) for the state n, l (any m): ∫_R^∞ r² R_nl² dr. */
 export function probabilityOutside(n: number, l: number, Z: number, R: number): number {
-  return Math.min(1, Math.max(0, radialOverlapOutside(n, n, l, Z, R)));
+  return min(1, max(0, radialOverlapOutside(n, n, l, Z, R)));
 }
 
 /**
@@ -67,7 +69,7 @@ export function probabilityInside(n: number, l: number, Z: number, R: number): n
   const k = n - l - 1;
   const a = 2 * l + 1;
   const { nodes, weights } = gaussLegendreRule(16);
-  const panels = Math.max(1, Math.ceil(x));
+  const panels = max(1, ceil(x));
   const w = x / panels;
   let sum = 0;
   for (let p = 0; p < panels; p++) {
@@ -76,10 +78,10 @@ export function probabilityInside(n: number, l: number, Z: number, R: number): n
       const rho = mid + 0.5 * w * nodes[i];
       const L = genLaguerre(k, a, rho);
       if (L === 0 || rho === 0) continue;
-      sum += weights[i] * 0.5 * w * Math.exp(lnC + (2 * l + 2) * Math.log(rho) + 2 * Math.log(Math.abs(L)) - rho);
+      sum += weights[i] * 0.5 * w * exp(lnC + (2 * l + 2) * Math.log(rho) + 2 * Math.log(abs(L)) - rho);
     }
   }
-  return Math.min(1, Math.max(0, sum));
+  return min(1, max(0, sum));
 }
 
 /**
@@ -102,7 +104,7 @@ export function stateProbabilityInside(state: OrbitalState, R: number): number {
       total += cc * I;
     }
   }
-  return Math.min(1, Math.max(0, total / norm));
+  return min(1, max(0, total / norm));
 }
 
 /** Radius R with P(r < R) = fraction for the state n, l (bisection to ~1e-13 relative). */
@@ -178,7 +180,7 @@ export function mostProbableRadius(n: number, l: number, Z: number): Bohr {
   const a = 2 * l + 1;
   const u = (rho: number) => {
     const L = genLaguerre(k, a, rho);
-    return Math.pow(rho, 2 * l + 2) * L * L * Math.exp(-rho);
+    return pow(rho, 2 * l + 2) * L * L * exp(-rho);
   };
   const h = (rho: number) => (l + 1 - rho / 2) * genLaguerre(k, a, rho) - (k > 0 ? rho * genLaguerre(k - 1, a + 1, rho) : 0);
   const rhoMax = 4 * k + 2 * a + 20;
@@ -214,7 +216,7 @@ export function meanRadiusNumeric(n: number, l: number, Z: number): Bohr {
   for (let i = 0; i < nodes.length; i++) {
     const rho = nodes[i];
     const L = genLaguerre(k, a, rho);
-    s += weights[i] * Math.exp(lnC + (2 * l + 3) * Math.log(rho)) * L * L;
+    s += weights[i] * exp(lnC + (2 * l + 3) * Math.log(rho)) * L * L;
   }
   return ((s * n) / (2 * Z)) as Bohr;
 }
@@ -225,13 +227,13 @@ export function meanRadiusNumeric(n: number, l: number, Z: number): Bohr {
  */
 export function classicalTurningPoint(n: number, l: number, Z: number): Bohr {
   checkNl(n, l, Z);
-  return (((n * n) / Z) * (1 + Math.sqrt(1 - (l * (l + 1)) / (n * n)))) as Bohr;
+  return (((n * n) / Z) * (1 + sqrt(1 - (l * (l + 1)) / (n * n)))) as Bohr;
 }
 
 /** Inner classical turning point (0 for l = 0). */
 export function innerTurningPoint(n: number, l: number, Z: number): Bohr {
   checkNl(n, l, Z);
-  return (((n * n) / Z) * (1 - Math.sqrt(1 - (l * (l + 1)) / (n * n)))) as Bohr;
+  return (((n * n) / Z) * (1 - sqrt(1 - (l * (l + 1)) / (n * n)))) as Bohr;
 }
 
 /**
@@ -241,7 +243,7 @@ export function innerTurningPoint(n: number, l: number, Z: number): Bohr {
 export function oneSEnclosingRadius(fraction: number, Z = 1): Bohr {
   assertZ(Z);
   if (!(fraction > 0 && fraction < 1)) throw new RangeError(`fraction must be between 0 and 1 (exclusive), got ${String(fraction)}`);
-  const g = (p: number) => 1 - Math.exp(-2 * p) * (1 + 2 * p + 2 * p * p) - fraction;
+  const g = (p: number) => 1 - exp(-2 * p) * (1 + 2 * p + 2 * p * p) - fraction;
   let hi = 1;
   while (g(hi) < 0) hi *= 2;
   return (bisect(g, 0, hi) / Z) as Bohr;
@@ -250,7 +252,7 @@ export function oneSEnclosingRadius(fraction: number, Z = 1): Bohr {
 /** psi on the 1s enclosing sphere: R_10(rho)/sqrt(4 pi) = 2 Z^{3/2} e^{-Z r} / sqrt(4 pi). */
 export function oneSEnclosingIsovalue(fraction: number, Z = 1): number {
   const r = oneSEnclosingRadius(fraction, Z);
-  return (2 * Math.pow(Z, 1.5) * Math.exp(-Z * r)) / Math.sqrt(4 * Math.PI);
+  return (2 * pow(Z, 1.5) * exp(-Z * r)) / sqrt(4 * PI);
 }
 
 // ---------------------------------------------------------------------------------------------

@@ -13,6 +13,8 @@ import { gaussLegendreRule } from './laguerre';
 import { probabilityInside, probabilityOutside, radialNodes } from './probability';
 import { radialConstants, radialNorm, radialValueAndSlope } from './radial';
 
+const { PI, abs, cos, max, min, sqrt } = Math; // module constants: see DEVELOPERS.md (numeric kernels)
+
 /** One side of a lobe: r increasing; s monotone (increasing on the rising side, decreasing on the falling side). */
 export interface LobeSide {
   readonly r: Float64Array;
@@ -57,25 +59,25 @@ function lobePeak(R: (r: number) => number, lo: number, hi: number): number {
   let bestV = -1;
   for (let i = 0; i <= S; i++) {
     const r = lo + ((hi - lo) * i) / S;
-    const v = Math.abs(R(r));
+    const v = abs(R(r));
     if (v > bestV) {
       bestV = v;
       best = r;
     }
   }
-  let a = Math.max(lo, best - (hi - lo) / S);
-  let b = Math.min(hi, best + (hi - lo) / S);
-  const g = (Math.sqrt(5) - 1) / 2;
+  let a = max(lo, best - (hi - lo) / S);
+  let b = min(hi, best + (hi - lo) / S);
+  const g = (sqrt(5) - 1) / 2;
   let c = b - g * (b - a);
   let d = a + g * (b - a);
-  for (let i = 0; i < 200 && b - a > 1e-14 * Math.max(1, b); i++) {
-    if (Math.abs(R(c)) > Math.abs(R(d))) b = d;
+  for (let i = 0; i < 200 && b - a > 1e-14 * max(1, b); i++) {
+    if (abs(R(c)) > abs(R(d))) b = d;
     else a = c;
     c = b - g * (b - a);
     d = a + g * (b - a);
   }
   const r = 0.5 * (a + b);
-  return Math.abs(R(lo)) >= Math.abs(R(r)) ? lo : r;
+  return abs(R(lo)) >= abs(R(r)) ? lo : r;
 }
 
 function side(n: number, l: number, Z: number, lo: number, hi: number, pinLo: number): LobeSide {
@@ -88,7 +90,7 @@ function side(n: number, l: number, Z: number, lo: number, hi: number, pinLo: nu
   const ds = new Float64Array(T + 1);
   const pin = new Float64Array(T + 1);
   // Cosine spacing: dense at both ends (the node and the peak).
-  for (let i = 0; i <= T; i++) r[i] = lo + (hi - lo) * 0.5 * (1 - Math.cos((Math.PI * i) / T));
+  for (let i = 0; i <= T; i++) r[i] = lo + (hi - lo) * 0.5 * (1 - cos((PI * i) / T));
   r[0] = lo;
   r[T] = hi;
   const g = gaussLegendreRule(8);
@@ -123,7 +125,7 @@ export function radialLobes(n: number, l: number, Z: number, tail = 1e-12): Radi
   const hit = cache.get(key);
   if (hit) return hit;
   const nodes = radialNodes(n, l, Z).map(Number);
-  let rMax = Math.max((2 * n * n) / Z, nodes.length ? 1.5 * nodes[nodes.length - 1] : 0);
+  let rMax = max((2 * n * n) / Z, nodes.length ? 1.5 * nodes[nodes.length - 1] : 0);
   while (probabilityOutside(n, l, Z, rMax) > tail) rMax *= 1.1;
   const rc = radialConstants(n, l, Z);
   const rn = radialNorm(n, l, Z);
@@ -134,7 +136,7 @@ export function radialLobes(n: number, l: number, Z: number, tail = 1e-12): Radi
     const lo = bounds[k];
     const hi = bounds[k + 1];
     const rPeak = lobePeak(R, lo, hi);
-    const peak = Math.abs(R(rPeak));
+    const peak = abs(R(rPeak));
     const pinLo = lo === 0 ? 0 : probabilityInside(n, l, Z, lo);
     const rising = rPeak > lo ? side(n, l, Z, lo, rPeak, pinLo) : null;
     const falling = side(n, l, Z, rPeak, hi, rising ? rising.pin[rising.pin.length - 1] : pinLo);
@@ -187,17 +189,17 @@ function crossing(sd: LobeSide, x: number, up: boolean): { r: number; pin: numbe
   };
   let lo = 0;
   let hi = 1;
-  let u = Math.min(1, Math.max(0, (x - s0) / (s1 - s0)));
+  let u = min(1, max(0, (x - s0) / (s1 - s0)));
   const rising = s1 > s0;
   for (let k = 0; k < 60; k++) {
     const f = sAt(u) - x;
-    if (Math.abs(f) <= 1e-15 * Math.max(Math.abs(s0), Math.abs(s1))) break;
+    if (abs(f) <= 1e-15 * max(abs(s0), abs(s1))) break;
     if (f < 0 === rising) lo = u;
     else hi = u;
     const d = dsAt(u);
     let next = d !== 0 ? u - f / d : 0.5 * (lo + hi);
     if (!(next > lo && next < hi)) next = 0.5 * (lo + hi);
-    if (Math.abs(next - u) < 1e-16) {
+    if (abs(next - u) < 1e-16) {
       u = next;
       break;
     }
@@ -231,7 +233,7 @@ export function lobeInterval(lobe: RadialLobe, s: number): { a: number; b: numbe
 /** Pin(r) inside the lobe's tables (r clamped to [rLo, rHi]). */
 export function lobePin(lobe: RadialLobe, r: number): number {
   const sd = lobe.rising && r <= lobe.rPeak ? lobe.rising : lobe.falling;
-  const x = Math.min(sd.r[sd.r.length - 1], Math.max(sd.r[0], r));
+  const x = min(sd.r[sd.r.length - 1], max(sd.r[0], r));
   const i = search(sd.r, x);
   const f = sd.r[i + 1] === sd.r[i] ? 0 : (x - sd.r[i]) / (sd.r[i + 1] - sd.r[i]);
   return sd.pin[i] + f * (sd.pin[i + 1] - sd.pin[i]);

@@ -2,6 +2,8 @@ import { logFactorial } from './factorial';
 import { genLaguerre } from './laguerre';
 import { assertQuantumNumbers, assertZ } from './quantum';
 
+const { exp, pow, sqrt } = Math; // module constants: see DEVELOPERS.md (numeric kernels)
+
 /**
  * Hydrogen-like radial function in atomic units (Griffiths, Introduction to QM 2nd ed., eq. 4.89;
  * Bethe & Salpeter §3):
@@ -11,14 +13,14 @@ import { assertQuantumNumbers, assertZ } from './quantum';
  */
 export function radialNorm(n: number, l: number, Z: number): number {
   const c = (2 * Z) / n;
-  return Math.sqrt(c * c * c / (2 * n)) * Math.exp(0.5 * (logFactorial(n - l - 1) - logFactorial(n + l)));
+  return sqrt(c * c * c / (2 * n)) * exp(0.5 * (logFactorial(n - l - 1) - logFactorial(n + l)));
 }
 
 export function radialR(n: number, l: number, Z: number, r: number): number {
   assertQuantumNumbers(n, l, 0);
   assertZ(Z);
   const rho = (2 * Z * r) / n;
-  return radialNorm(n, l, Z) * Math.pow(rho, l) * Math.exp(-rho / 2) * genLaguerre(n - l - 1, 2 * l + 1, rho);
+  return radialNorm(n, l, Z) * pow(rho, l) * exp(-rho / 2) * genLaguerre(n - l - 1, 2 * l + 1, rho);
 }
 
 /** Radial distribution P(r) = r^2 R_nl(r)^2 (probability per unit radius). */
@@ -48,7 +50,7 @@ export function radialConstants(n: number, l: number, Z: number): RadialConstant
     l,
     k: n - l - 1,
     alpha: 2 * l + 1,
-    scale: radialNorm(n, l, Z) * Math.pow(rhoFactor, l),
+    scale: radialNorm(n, l, Z) * pow(rhoFactor, l),
     kappa: Z / n,
     rhoFactor,
   };
@@ -61,10 +63,10 @@ export function radialConstants(n: number, l: number, Z: number): RadialConstant
  */
 export function radialValueAndSlope(c: RadialConstants, norm: number, r: number): { R: number; dR: number } {
   const rho = c.rhoFactor * r;
-  const e = Math.exp(-rho / 2);
+  const e = exp(-rho / 2);
   const L = genLaguerre(c.k, c.alpha, rho);
   const dL = c.k === 0 ? 0 : -genLaguerre(c.k - 1, c.alpha + 1, rho);
-  const rl = c.l === 0 ? 1 : Math.pow(rho, c.l);
+  const rl = c.l === 0 ? 1 : pow(rho, c.l);
   const R = norm * rl * e * L;
   // rho^{l-1} [(l - rho/2) L + rho L'] written as rho^l [(l/rho - 1/2) L + L'] avoids rho^{-1} at l = 0.
   const inner = (c.l === 0 ? -0.5 * L : (c.l / rho - 0.5) * L) + dL;

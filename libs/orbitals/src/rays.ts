@@ -21,6 +21,8 @@ import { stateProbabilityInside } from './probability';
 import { solveDecreasingLevel } from './roots';
 import { Bohr } from './units';
 
+const { PI, abs, cos, floor, max, min, round, sin, sqrt } = Math; // module constants: see DEVELOPERS.md (numeric kernels)
+
 
 export interface RayQuadratureOptions {
   /** Gauss–Legendre nodes in cos θ (even); default from the largest l. */
@@ -90,14 +92,14 @@ export function sphereProductRule(nTheta: number, nPhi: number): { D: number; di
   const w = new Float64Array(D);
   for (let it = 0; it < nTheta; it++) {
     const ct = g.nodes[it];
-    const st = Math.sqrt(Math.max(0, 1 - ct * ct));
+    const st = sqrt(max(0, 1 - ct * ct));
     for (let ip = 0; ip < nPhi; ip++) {
-      const ph = (2 * Math.PI * ip) / nPhi;
+      const ph = (2 * PI * ip) / nPhi;
       const i = it * nPhi + ip;
-      dirs[3 * i] = st * Math.cos(ph);
-      dirs[3 * i + 1] = st * Math.sin(ph);
+      dirs[3 * i] = st * cos(ph);
+      dirs[3 * i + 1] = st * sin(ph);
       dirs[3 * i + 2] = ct;
-      w[i] = (g.weights[it] * 2 * Math.PI) / nPhi;
+      w[i] = (g.weights[it] * 2 * PI) / nPhi;
     }
   }
   return { D, dirs, w };
@@ -121,19 +123,19 @@ export function rayQuadrature(compiled: CompiledState, opts: RayQuadratureOption
   let lMax = 0;
   let nMax = 1;
   for (const b of blocks) {
-    lMax = Math.max(lMax, b.l);
-    nMax = Math.max(nMax, b.n);
+    lMax = max(lMax, b.l);
+    nMax = max(nMax, b.n);
   }
-  const nTheta = even(opts.nTheta ?? 2 * Math.round(24 + 2 * lMax), 'nTheta');
+  const nTheta = even(opts.nTheta ?? 2 * round(24 + 2 * lMax), 'nTheta');
   const nPhi = even(opts.nPhi ?? 2 * nTheta, 'nPhi');
-  const nRadial = even(opts.nRadial ?? 2 * Math.round(128 + 8 * nMax), 'nRadial');
+  const nRadial = even(opts.nRadial ?? 2 * round(128 + 8 * nMax), 'nRadial');
   const tail = opts.tail ?? 1e-9;
   if (!(tail > 0 && tail < 1e-3)) throw new RangeError(`tail must be in (0, 1e-3), got ${String(tail)}`);
 
   const Z = compiled.state.Z;
   let rMax = (nMax * nMax) / Z;
   for (let i = 0; i < 400 && 1 - stateProbabilityInside(compiled.state, rMax) > tail; i++) rMax *= 1.05;
-  const tailActual = Math.max(0, 1 - stateProbabilityInside(compiled.state, rMax));
+  const tailActual = max(0, 1 - stateProbabilityInside(compiled.state, rMax));
 
   const M = nRadial + 1;
   const radii = new Float64Array(M);
@@ -193,7 +195,7 @@ function rayIntegral(q: RayQuadrature, prof: Float64Array, t: number, step: numb
     return c * rho * u2 * u2 * u;
   };
   let sum = 0;
-  const j0 = uStart > 0 ? Math.min(N, Math.floor((uStart * N) / step) * step) : 0;
+  const j0 = uStart > 0 ? min(N, floor((uStart * N) / step) * step) : 0;
   for (let j = j0; j + step <= N; j += step) {
     let uA = j / N;
     const uB = (j + step) / N;
@@ -221,7 +223,7 @@ function rayIntegral(q: RayQuadrature, prof: Float64Array, t: number, step: numb
 
 /** Box exit radius of direction i of set s for the cube [-E, E]³. */
 function boxExit(s: RaySet, i: number, E: number): number {
-  const m = Math.max(Math.abs(s.dirs[3 * i]), Math.abs(s.dirs[3 * i + 1]), Math.abs(s.dirs[3 * i + 2]));
+  const m = max(abs(s.dirs[3 * i]), abs(s.dirs[3 * i + 1]), abs(s.dirs[3 * i + 2]));
   return E / m;
 }
 
@@ -240,7 +242,7 @@ export function enclosedProbability(q: RayQuadrature, t: number, opts: { coarse?
     if (opts.outsideBox !== undefined) {
       const rb = boxExit(s, i, opts.outsideBox);
       if (rb >= rMax) continue;
-      uStart = Math.sqrt(rb / rMax);
+      uStart = sqrt(rb / rMax);
     }
     profile(q, s, i, prof);
     sum += s.w[i] * rayIntegral(q, prof, t, s.step, uStart);
@@ -251,7 +253,7 @@ export function enclosedProbability(q: RayQuadrature, t: number, opts: { coarse?
 export function fractionAtDensity(q: RayQuadrature, t: number): { fraction: number; error: number } {
   const fine = enclosedProbability(q, t);
   const coarse = enclosedProbability(q, t, { coarse: true });
-  return { fraction: fine, error: Math.abs(fine - coarse) + q.tail };
+  return { fraction: fine, error: abs(fine - coarse) + q.tail };
 }
 
 /** Solves P(t) = fraction over all space (see roots.ts), with the error estimate at the solution. */
@@ -260,7 +262,7 @@ export function solveEnclosedLevel(q: RayQuadrature, fraction: number): Enclosed
   if (!(q.maxDensity > 0)) throw new RangeError('the state is zero everywhere on the quadrature');
   const t = solveDecreasingLevel((x) => enclosedProbability(q, x), q.maxDensity, fraction);
   const r = fractionAtDensity(q, t);
-  return { density: t, isovalue: Math.sqrt(t), fraction: r.fraction, error: r.error };
+  return { density: t, isovalue: sqrt(t), fraction: r.fraction, error: r.error };
 }
 
 /**
@@ -284,8 +286,8 @@ export function superlevelHalfWidth(q: RayQuadrature, t: number): Bohr {
       const u = (j + f) / N;
       r = (q.rMax as number) * u * u;
     }
-    const m = Math.max(Math.abs(s.dirs[3 * i]), Math.abs(s.dirs[3 * i + 1]), Math.abs(s.dirs[3 * i + 2]));
-    best = Math.max(best, r * m);
+    const m = max(abs(s.dirs[3 * i]), abs(s.dirs[3 * i + 1]), abs(s.dirs[3 * i + 2]));
+    best = max(best, r * m);
   }
   return best as Bohr;
 }

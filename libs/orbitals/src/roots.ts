@@ -1,13 +1,15 @@
 // Root finding shared by the level solvers.
 
+const { abs, exp, log } = Math; // module constants: see DEVELOPERS.md (numeric kernels)
+
 /**
  * The level t in (0, top) with P(t) = fraction for a decreasing P (the probability above a density level):
  * bracketing on x = ln t, then the Illinois variant of regula falsi (Dowell & Jarratt, BIT 11 (1971) 168) until
  * P matches to 1e-13 or the bracket in ln t is under 1e-13.
  */
 export function solveDecreasingLevel(P: (t: number) => number, top: number, fraction: number): number {
-  const F = (x: number) => P(Math.exp(x)) - fraction;
-  let hi = Math.log(top);
+  const F = (x: number) => P(exp(x)) - fraction;
+  let hi = log(top);
   let fhi = -fraction;
   let lo = hi - 2;
   let flo = F(lo);
@@ -23,7 +25,7 @@ export function solveDecreasingLevel(P: (t: number) => number, top: number, frac
     const x = fhi !== flo ? hi - (fhi * (hi - lo)) / (fhi - flo) : 0.5 * (lo + hi);
     const xm = x > lo && x < hi ? x : 0.5 * (lo + hi);
     const fm = F(xm);
-    if (Math.abs(fm) < 1e-13 || hi - lo < 1e-13) return Math.exp(xm);
+    if (abs(fm) < 1e-13 || hi - lo < 1e-13) return exp(xm);
     if (fm > 0) {
       lo = xm;
       flo = fm;
@@ -36,6 +38,6 @@ export function solveDecreasingLevel(P: (t: number) => number, top: number, frac
       side = 1;
     }
   }
-  return Math.exp(0.5 * (lo + hi));
+  return exp(0.5 * (lo + hi));
 }
 

@@ -2,6 +2,8 @@ import { radialR } from './radial';
 import { classicalTurningPoint, radialNodes, radiusForProbability } from './probability';
 import { Bohr } from './units';
 
+const { ceil, max } = Math; // module constants: see DEVELOPERS.md (numeric kernels)
+
 export interface RadialSeries {
   n: number;
   l: number;
@@ -23,7 +25,7 @@ export interface RadialSeries {
  */
 export function radialSeries(n: number, l: number, Z: number, opts: { rMax?: number; samples?: number } = {}): RadialSeries {
   const turningPoint = classicalTurningPoint(n, l, Z);
-  const rMax = opts.rMax ?? Math.ceil(Math.max(radiusForProbability(n, l, Z, 0.999), 1.1 * turningPoint));
+  const rMax = opts.rMax ?? ceil(max(radiusForProbability(n, l, Z, 0.999), 1.1 * turningPoint));
   if (!(rMax > 0) || !Number.isFinite(rMax)) throw new RangeError(`rMax must be a positive number of Bohr radii, got ${String(rMax)}`);
   const samples = opts.samples ?? 401;
   if (!Number.isInteger(samples) || samples < 2 || samples > 1_000_000) throw new RangeError(`samples must be an integer in 2..1000000, got ${String(samples)}`);

@@ -1,5 +1,7 @@
 import { assertZ, validateQuantumNumbers, validateZ } from './quantum';
 
+const { SQRT1_2, abs, hypot, max, sqrt } = Math; // module constants: see DEVELOPERS.md (numeric kernels)
+
 /**
  * One term c * R_nl * Y of a superposition. basis 'complex': Y = Y_lm (Condon–Shortley);
  * basis 'real': Y = real form (m > 0 cos type, m < 0 sin type, m = 0 Y_l0; see realY).
@@ -19,7 +21,7 @@ export interface OrbitalState {
   terms: Term[];
 }
 
-const INV_SQRT2 = Math.SQRT1_2;
+const INV_SQRT2 = SQRT1_2;
 
 /** Returns a readable error naming the bad field, or null. */
 export function validateState(state: OrbitalState): string | null {
@@ -88,8 +90,8 @@ export function toComplexBasis(state: OrbitalState): OrbitalState {
   }
   const terms = [...acc.values()];
   let maxAbs = 0;
-  for (const t of terms) maxAbs = Math.max(maxAbs, Math.hypot(t.re, t.im));
-  const kept = terms.filter((t) => Math.hypot(t.re, t.im) > 1e-15 * maxAbs);
+  for (const t of terms) maxAbs = max(maxAbs, hypot(t.re, t.im));
+  const kept = terms.filter((t) => hypot(t.re, t.im) > 1e-15 * maxAbs);
   kept.sort((p, q) => termKey(p.n, p.l, p.m) - termKey(q.n, q.l, q.m));
   return { Z: state.Z, terms: kept };
 }
@@ -104,7 +106,7 @@ export function toRealBasis(state: OrbitalState): OrbitalState {
   const out: Term[] = [];
   const seen = new Set<number>();
   for (const t of cx.terms) {
-    const mu = Math.abs(t.m);
+    const mu = abs(t.m);
     const k = termKey(t.n, t.l, mu);
     if (seen.has(k)) continue;
     seen.add(k);
@@ -139,7 +141,7 @@ export function stateNormSquared(state: OrbitalState): number {
 export function normaliseState(state: OrbitalState): OrbitalState {
   const n2 = stateNormSquared(state);
   if (!(n2 > 0) || !Number.isFinite(n2)) throw new RangeError('state has zero norm: all coefficients cancel or are zero');
-  const f = 1 / Math.sqrt(n2);
+  const f = 1 / sqrt(n2);
   return { Z: state.Z, terms: state.terms.map((t) => ({ ...t, re: t.re * f, im: t.im * f })) };
 }
 
@@ -152,7 +154,7 @@ export function isRealState(state: OrbitalState, tol = 1e-12): boolean {
   let maxAbs = 0;
   const map = new Map<number, Term>();
   for (const t of cx.terms) {
-    maxAbs = Math.max(maxAbs, Math.hypot(t.re, t.im));
+    maxAbs = max(maxAbs, hypot(t.re, t.im));
     map.set(termKey(t.n, t.l, t.m), t);
   }
   const eps = tol * maxAbs;
@@ -160,8 +162,8 @@ export function isRealState(state: OrbitalState, tol = 1e-12): boolean {
     const o = map.get(termKey(t.n, t.l, -t.m));
     const ore = o ? o.re : 0;
     const oim = o ? o.im : 0;
-    const s = Math.abs(t.m) % 2 === 0 ? 1 : -1;
-    if (Math.abs(ore - s * t.re) > eps || Math.abs(oim + s * t.im) > eps) return false;
+    const s = abs(t.m) % 2 === 0 ? 1 : -1;
+    if (abs(ore - s * t.re) > eps || abs(oim + s * t.im) > eps) return false;
   }
   return true;
 }

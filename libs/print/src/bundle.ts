@@ -8,6 +8,8 @@ import { strToU8, zipSync, type Zippable } from 'fflate';
 import { metadataSheetText, type FigureMetadata } from './metadata';
 import { readPngInfo } from './png';
 
+const { round } = Math; // module constants: see DEVELOPERS.md (numeric kernels)
+
 export const BUNDLE_RESERVED = ['recipe.json', 'metadata.json', 'README.txt'] as const;
 
 export interface BundleFile {
@@ -46,7 +48,7 @@ export interface BundleFileEntry {
  */
 export type FileDescriber = (bytes: Uint8Array) => Omit<BundleFileEntry, 'name' | 'role' | 'bytes' | 'sha256'>;
 
-const round2 = (x: number) => Math.round(x * 100) / 100;
+const round2 = (x: number) => round(x * 100) / 100;
 const decoder = new TextDecoder();
 
 function describePng(bytes: Uint8Array): ReturnType<FileDescriber> {
@@ -59,7 +61,7 @@ function describePng(bytes: Uint8Array): ReturnType<FileDescriber> {
   const out: ReturnType<FileDescriber> = { format: 'png', mediaType: 'image/png', widthPx: info.width, heightPx: info.height };
   // pHYs unit 1 = pixels per metre (PNG specification §11.3.5.3); 1 in = 0.0254 m exactly.
   if (info.pHYs && info.pHYs.unit === 1 && info.pHYs.x > 0 && info.pHYs.x === info.pHYs.y) {
-    const dpi = Math.round(info.pHYs.x * 0.0254);
+    const dpi = round(info.pHYs.x * 0.0254);
     out.dpi = dpi;
     out.widthMm = round2((info.width / dpi) * 25.4);
     out.heightMm = round2((info.height / dpi) * 25.4);
@@ -116,7 +118,7 @@ function describeTiff(bytes: Uint8Array): ReturnType<FileDescriber> {
   const res = tags.get(282);
   const unit = tags.get(296) ?? 2;
   if (res && res > 0 && (unit === 2 || unit === 3)) {
-    const dpi = Math.round(unit === 2 ? res : res * 2.54);
+    const dpi = round(unit === 2 ? res : res * 2.54);
     out.dpi = dpi;
     out.widthMm = round2((w / dpi) * 25.4);
     out.heightMm = round2((h / dpi) * 25.4);

@@ -1,23 +1,25 @@
 // Colour pipeline for render-target read-backs: linear light -> sRGB 8-bit, row flip.
 // sRGB transfer function: IEC 61966-2-1:1999, §5.2 (encoding: 12.92 v below 0.0031308, else 1.055 v^(1/2.4) - 0.055).
 
+const { pow, round } = Math; // module constants: see DEVELOPERS.md (numeric kernels)
+
 /** sRGB-encoded value in [0, 1] for linear v in [0, 1] (clamped; NaN -> 0). */
 export function linearToSrgb(v: number): number {
   if (!(v > 0)) return 0;
   if (v >= 1) return 1;
-  return v <= 0.0031308 ? 12.92 * v : 1.055 * Math.pow(v, 1 / 2.4) - 0.055;
+  return v <= 0.0031308 ? 12.92 * v : 1.055 * pow(v, 1 / 2.4) - 0.055;
 }
 
 /** Linear value for sRGB-encoded s in [0, 1] (inverse transfer: s/12.92 below 0.04045, else ((s+0.055)/1.055)^2.4). */
 export function srgbToLinear(s: number): number {
   if (!(s > 0)) return 0;
   if (s >= 1) return 1;
-  return s <= 0.04045 ? s / 12.92 : Math.pow((s + 0.055) / 1.055, 2.4);
+  return s <= 0.04045 ? s / 12.92 : pow((s + 0.055) / 1.055, 2.4);
 }
 
 /** 8-bit sRGB code for linear v: round(255 * linearToSrgb(v)). */
 export function linearToSrgb8(v: number): number {
-  return Math.round(255 * linearToSrgb(v));
+  return round(255 * linearToSrgb(v));
 }
 
 /**
@@ -77,7 +79,7 @@ export function linearBufferToSrgb(src: Float32Array | Uint8Array, dst: Uint8Arr
     dst[i + 1] = codeFor(src[i + 1], T);
     dst[i + 2] = codeFor(src[i + 2], T);
     const a = src[i + 3];
-    dst[i + 3] = a > 0 ? (a >= 1 ? 255 : Math.round(a * 255)) : 0;
+    dst[i + 3] = a > 0 ? (a >= 1 ? 255 : round(a * 255)) : 0;
   }
   return dst;
 }

@@ -14,6 +14,8 @@ import { sectionMapSvg } from './section-map';
 import { pixelsFor } from './size';
 import type { FontBytes, PlotPalette } from './svg-common';
 
+const { round } = Math; // module constants: see DEVELOPERS.md (numeric kernels)
+
 export interface SvgParams {
   kind: 'radial' | 'section';
   plane: SectionPlane;
@@ -59,7 +61,7 @@ export function figureSvg(recipe: Recipe, p: SvgParams, fonts: FontBytes | undef
   const Z = recipe.content.Z;
   if (p.kind === 'radial') {
     const d = dominantTerm(recipe);
-    const title = d.single ? undefined : `Radial distribution of the dominant term ${d.n}${L[d.l]} (${Math.round(d.weight * 100)}% of the state), Z = ${Z}`;
+    const title = d.single ? undefined : `Radial distribution of the dominant term ${d.n}${L[d.l]} (${round(d.weight * 100)}% of the state), Z = ${Z}`;
     return radialPlotSvg({ n: d.n, l: d.l, Z, palette, widthMm: p.widthMm, heightMm: p.heightMm, unit, fonts, title });
   }
   const state = recipeState(recipe);

@@ -5,6 +5,8 @@
 import { DEFAULT_DELIVERY_PROFILE, FILE_NAME_TOKENS } from '@psiform/contracts';
 import { plainText, typeset } from './typeset';
 
+const { round } = Math; // module constants: see DEVELOPERS.md (numeric kernels)
+
 export type FileNameToken = (typeof FILE_NAME_TOKENS)[number];
 
 /** File formats a figure is delivered in, with their extensions. */
@@ -89,7 +91,7 @@ export function fileNameFor(fields: FileNameFields, template: string = DEFAULT_D
     kind: fields.part ? slug(fields.part, 24) : '',
     widthMm: fields.widthMm !== undefined ? mm(fields.widthMm) : '',
     heightMm: fields.heightMm !== undefined ? mm(fields.heightMm) : '',
-    dpi: fields.dpi !== undefined ? String(Math.round(fields.dpi)) : '',
+    dpi: fields.dpi !== undefined ? String(round(fields.dpi)) : '',
     colour: fields.colour ? slug(fields.colour, 8) : '',
   };
   // Split the TEMPLATE (not the values, which contain hyphens) into segments and their separators.

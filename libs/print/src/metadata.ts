@@ -8,6 +8,8 @@ import { PSI_UNIT_TEXT, plainLabel } from './typeset';
 const PSI_UNIT_PLAIN = plainLabel(PSI_UNIT_TEXT);
 import { CONVENTIONS_NOTE } from '@psiform/meshing';
 
+const { abs, round } = Math; // module constants: see DEVELOPERS.md (numeric kernels)
+
 export const MODEL_NOTE = 'Shapes are those of the one-electron hydrogen-like model; orbitals of many-electron atoms differ.';
 
 /** Used when a summary does not carry the conventions (older mesh assets); the text of @psiform/meshing CONVENTIONS_NOTE. */
@@ -130,7 +132,7 @@ export function ionName(Z: number): string {
 
 function percent(x: number): string {
   const p = x * 100;
-  return `${Math.abs(p - Math.round(p)) < 1e-9 ? Math.round(p) : p.toFixed(1)}%`;
+  return `${abs(p - round(p)) < 1e-9 ? round(p) : p.toFixed(1)}%`;
 }
 
 function termLabel(t: Term): string {
@@ -154,7 +156,7 @@ export function shapeDescription(state: OrbitalState, label?: string): string {
     const suffix = lab.includes('_') ? lab.split('_')[1] : '';
     if (t.l === 0) return `A single roughly spherical cloud centred on the nucleus, one sign throughout its outer part.${radial(t.n, t.l)}`;
     if (t.basis === 'complex' && t.m !== 0) {
-      return `A ring-shaped (doughnut-like) surface of |ψ| around the z axis, coloured by the phase of ψ, which turns ${Math.abs(t.m)} time${Math.abs(t.m) > 1 ? 's' : ''} round the axis.${radial(t.n, t.l)}`;
+      return `A ring-shaped (doughnut-like) surface of |ψ| around the z axis, coloured by the phase of ψ, which turns ${abs(t.m)} time${abs(t.m) > 1 ? 's' : ''} round the axis.${radial(t.n, t.l)}`;
     }
     if (t.l === 1) {
       const ax = suffix || 'z';
@@ -256,12 +258,12 @@ export function figureMetadata(input: FigureMetadataInput): FigureMetadata {
   const cut = warnings.find((w) => w.code === 'box-cuts-surface');
   const ruleText =
     recipe.surface.rule === 'enclosed'
-      ? `enclosing ${percent(Math.round(result.enclosed * 1000) / 1000)} of the probability ${overText}`
-      : `at |ψ| = ${recipe.surface.value.toPrecision(3)} ${PSI_UNIT_PLAIN} (enclosing ${percent(Math.round(result.enclosed * 1000) / 1000)} of the probability ${overText})`;
+      ? `enclosing ${percent(round(result.enclosed * 1000) / 1000)} of the probability ${overText}`
+      : `at |ψ| = ${recipe.surface.value.toPrecision(3)} ${PSI_UNIT_PLAIN} (enclosing ${percent(round(result.enclosed * 1000) / 1000)} of the probability ${overText})`;
   const colourText = phaseColouring === 'sign' ? (real ? 'lobes coloured by the sign of ψ' : 'coloured by the sign of Re ψ') : 'coloured by the phase of ψ';
   const inner = (result.grid.regions ?? []).slice(1);
   const gridText = `Computed on a ${n}³ grid${inner.length ? ` (inner lobes on finer grids: ${inner.map((r) => `${r.n}³ over ±${g(r.extent, 3)} a₀`).join(', ')})` : ''}.`;
-  const cutText = cut ? ` The box cuts the surface open: the part shown encloses ${percent(Math.round(inBox * 1000) / 1000)}.` : '';
+  const cutText = cut ? ` The box cuts the surface open: the part shown encloses ${percent(round(inBox * 1000) / 1000)}.` : '';
   const gridWarn = warnings.some((w) => w.code === 'feature-unresolved' || w.code === 'topology-mismatch' || w.code === 'topology-unverified')
     ? ' The grid is too coarse for some details of this surface (see the warnings).'
     : '';
@@ -346,7 +348,7 @@ export function metadataSheetText(meta: FigureMetadata, files: BundleFileEntry[]
   }
   L.push('## Model', '', `- ${meta.model.kind} (nuclear charge Z = ${meta.nucleus.Z}, ${meta.nucleus.name})`, `- ${meta.model.note}`, '');
   L.push('## Terms', '');
-  for (const t of meta.terms) L.push(`- ${plainLabel(t.label)}: n = ${t.n}, l = ${t.l}, m = ${t.m} (${t.basis} basis), coefficient ${g(t.coefficient.re)}${t.coefficient.im ? ` ${t.coefficient.im < 0 ? '−' : '+'} ${g(Math.abs(t.coefficient.im))}i` : ''}`);
+  for (const t of meta.terms) L.push(`- ${plainLabel(t.label)}: n = ${t.n}, l = ${t.l}, m = ${t.m} (${t.basis} basis), coefficient ${g(t.coefficient.re)}${t.coefficient.im ? ` ${t.coefficient.im < 0 ? '−' : '+'} ${g(abs(t.coefficient.im))}i` : ''}`);
   L.push('', '## Surface', '');
   const s = meta.surface;
   L.push(s.rule === 'enclosed' ? `- Rule: enclose ${g(s.target * 100)}% of the probability` : `- Rule: |ψ| = ${g(s.target)} ${PSI_UNIT_PLAIN}`);

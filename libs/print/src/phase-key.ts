@@ -8,6 +8,8 @@ import type { Recipe } from '@psiform/contracts';
 import { isRealState } from '@psiform/orbitals';
 import { OVERLAY_MM } from './figure-text';
 
+const { PI, cos, sin } = Math; // module constants: see DEVELOPERS.md (numeric kernels)
+
 /**
  * True when the figure is coloured by arg ψ (phase mode 'argument', or 'auto' on a complex state): then it carries
  * the phase key, and the ψ > 0 / ψ < 0 legend does not apply.
@@ -27,9 +29,9 @@ export const PHASE_KEY_SECTORS = 72;
 /** Marks of the key: arg ψ in radians and its printed text. */
 export const PHASE_KEY_MARKS: readonly { angle: number; text: string }[] = [
   { angle: 0, text: '0' },
-  { angle: Math.PI / 2, text: 'π/2' },
-  { angle: Math.PI, text: 'π' },
-  { angle: (3 * Math.PI) / 2, text: '3π/2' },
+  { angle: PI / 2, text: 'π/2' },
+  { angle: PI, text: 'π' },
+  { angle: (3 * PI) / 2, text: '3π/2' },
 ];
 
 /** Inner radius as a fraction of the outer one (a ring, so the centre reads as "no phase"). */
@@ -46,7 +48,7 @@ export interface PhaseKeySector {
 /** The ring's sectors, each with the angle its colour is taken at. */
 export function phaseKeySectors(n = PHASE_KEY_SECTORS): PhaseKeySector[] {
   const out: PhaseKeySector[] = [];
-  const step = (2 * Math.PI) / n;
+  const step = (2 * PI) / n;
   for (let i = 0; i < n; i++) out.push({ angle: i * step, from: i * step - step / 2, to: i * step + step / 2 });
   return out;
 }
@@ -59,15 +61,15 @@ const fx = (x: number) => Number(x.toFixed(3)).toString();
  */
 export function sectorPath(cx: number, cy: number, r: number, s: PhaseKeySector, hole = PHASE_KEY_HOLE): string {
   const ri = r * hole;
-  const p = (rad: number, a: number) => `${fx(cx + rad * Math.cos(a))} ${fx(cy - rad * Math.sin(a))}`;
+  const p = (rad: number, a: number) => `${fx(cx + rad * cos(a))} ${fx(cy - rad * sin(a))}`;
   // Outer arc counterclockwise on paper = sweep-flag 0 in SVG's y-down frame; inner arc back with sweep 1.
   return `M${p(r, s.from)}A${fx(r)} ${fx(r)} 0 0 0 ${p(r, s.to)}L${p(ri, s.to)}A${fx(ri)} ${fx(ri)} 0 0 1 ${p(ri, s.from)}Z`;
 }
 
 /** Where a mark's text sits: just outside the ring on its angle (user units, y down). */
 export function markPosition(cx: number, cy: number, r: number, angle: number, gap: number): { x: number; y: number; anchor: 'start' | 'middle' | 'end' } {
-  const c = Math.cos(angle);
-  const s = Math.sin(angle);
+  const c = cos(angle);
+  const s = sin(angle);
   const anchor = c > 0.3 ? 'start' : c < -0.3 ? 'end' : 'middle';
   return { x: cx + (r + gap) * c, y: cy - (r + gap) * s, anchor };
 }

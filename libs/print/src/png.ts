@@ -6,6 +6,8 @@ import { zlibSync } from 'fflate';
 import { crc32 } from './crc32';
 import { pixelsPerMetre } from './size';
 
+const { abs, min } = Math; // module constants: see DEVELOPERS.md (numeric kernels)
+
 export const PNG_SIGNATURE = new Uint8Array([137, 80, 78, 71, 13, 10, 26, 10]);
 
 export class PngError extends Error {
@@ -222,7 +224,7 @@ export function encodeRgbaPng(width: number, height: number, rgba: Uint8Array, o
   ihdr[11] = 0; // filter method 0 (adaptive, five types)
   ihdr[12] = 0; // no interlace
   const parts = [PNG_SIGNATURE, pngChunk('IHDR', ihdr), pngChunk('pHYs', physData(opts.dpi)), pngChunk('sRGB', new Uint8Array([0]))];
-  for (let o = 0; o < z.length; o += IDAT_CHUNK) parts.push(pngChunk('IDAT', z.subarray(o, Math.min(z.length, o + IDAT_CHUNK))));
+  for (let o = 0; o < z.length; o += IDAT_CHUNK) parts.push(pngChunk('IDAT', z.subarray(o, min(z.length, o + IDAT_CHUNK))));
   parts.push(pngChunk('IEND', new Uint8Array(0)));
   return concat(parts);
 }
@@ -256,9 +258,9 @@ function applyFilter(type: number, cur: Uint8Array, prev: Uint8Array | null, out
 /** Paeth predictor (§9.4). */
 function paeth(a: number, b: number, c: number): number {
   const p = a + b - c;
-  const pa = Math.abs(p - a);
-  const pb = Math.abs(p - b);
-  const pc = Math.abs(p - c);
+  const pa = abs(p - a);
+  const pb = abs(p - b);
+  const pc = abs(p - c);
   if (pa <= pb && pa <= pc) return a;
   if (pb <= pc) return b;
   return c;

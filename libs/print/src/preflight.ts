@@ -13,6 +13,8 @@ import {
 } from '@psiform/contracts';
 import { MM_PER_INCH, pixelsFor } from './size';
 
+const { abs, round } = Math; // module constants: see DEVELOPERS.md (numeric kernels)
+
 export const PT_PER_MM = 72 / MM_PER_INCH;
 export const mmToPt = (mm: number): number => mm * PT_PER_MM;
 
@@ -60,8 +62,8 @@ export function placement(widthMm: number, profile: DeliveryProfile): { scale: n
   return { scale: widest.widthMm / widthMm, columnMm: widest.widthMm, column: widest.name };
 }
 
-const n1 = (x: number) => (Math.round(x * 10) / 10).toString();
-const n2 = (x: number) => (Math.round(x * 100) / 100).toString();
+const n1 = (x: number) => (round(x * 10) / 10).toString();
+const n2 = (x: number) => (round(x * 100) / 100).toString();
 
 export function preflightFile(s: PreflightSubject, profile: DeliveryProfile): PreflightFileReport {
   const out = new Map<PreflightRuleId, PreflightResult>();
@@ -76,14 +78,14 @@ export function preflightFile(s: PreflightSubject, profile: DeliveryProfile): Pr
     else {
       const w = pixelsFor(s.widthMm, r.dpi);
       const h = pixelsFor(s.heightMm, r.dpi);
-      const tagOk = Math.abs(r.dpiTagged - r.dpi) < 0.5;
+      const tagOk = abs(r.dpiTagged - r.dpi) < 0.5;
       put('size', r.widthPx === w && r.heightPx === h && tagOk, `${w} × ${h} px tagged ${r.dpi} dpi (${n1(s.widthMm)} × ${n1(s.heightMm)} mm)`, `${r.widthPx} × ${r.heightPx} px tagged ${n2(r.dpiTagged)} dpi`);
     }
     const dpi = r?.dpi ?? 0;
     put('resolution', dpi >= profile.minDpi, `at least ${profile.minDpi} dpi (${profile.artworkType} art)`, `${dpi} dpi`);
   } else {
     const p = s.pageMm;
-    const ok = !!p && Math.abs(p.width - s.widthMm) <= 0.1 && Math.abs(p.height - s.heightMm) <= 0.1;
+    const ok = !!p && abs(p.width - s.widthMm) <= 0.1 && abs(p.height - s.heightMm) <= 0.1;
     put('size', ok, `page ${n1(s.widthMm)} × ${n1(s.heightMm)} mm (±0.1)`, p ? `page ${n2(p.width)} × ${n2(p.height)} mm` : 'no page size read from the file');
     put('resolution', true, `at least ${profile.minDpi} dpi for raster content`, 'vector paths and text only: no raster content');
   }
@@ -94,7 +96,7 @@ export function preflightFile(s: PreflightSubject, profile: DeliveryProfile): Pr
     'column_width',
     place.scale === 1,
     `width within a column (${cols})`,
-    place.scale === 1 ? `${n1(s.widthMm)} mm fits ${place.column} (${place.columnMm} mm)` : `${n1(s.widthMm)} mm is wider than every column: it would be reduced to ${place.columnMm} mm (${Math.round(place.scale * 100)}%)`,
+    place.scale === 1 ? `${n1(s.widthMm)} mm fits ${place.column} (${place.columnMm} mm)` : `${n1(s.widthMm)} mm is wider than every column: it would be reduced to ${place.columnMm} mm (${round(place.scale * 100)}%)`,
   );
 
   if (!s.texts.length) put('font_size', true, `text at least ${profile.minFontPt} pt`, 'no text');

@@ -4,6 +4,8 @@ import { BOHR_RADIUS_ANGSTROM, L_LETTERS, innerTurningPoint, radialSeries, valid
 import { axisTicks, checkPalette, checkSizeMm, f, fontStyle, niceStep, svgOpen, tickLabel, ticks, type FontBytes, type PlotPalette } from './svg-common';
 import { plainLabel, svgText, UNIT_TEXT } from './typeset';
 
+const { ceil, floor, max, min } = Math; // module constants: see DEVELOPERS.md (numeric kernels)
+
 export const MODEL_NOTE_SHORT = 'one-electron hydrogen-like model';
 
 export interface RadialPlotOptions {
@@ -42,19 +44,19 @@ export function radialPlotSvg(opts: RadialPlotOptions): string {
   const rMax = s.rMax as number;
   const k = unit === 'angstrom' ? BOHR_RADIUS_ANGSTROM : 1; // length unit in a0 -> display unit
   let pMax = 0;
-  for (let i = 0; i < s.P.length; i++) pMax = Math.max(pMax, s.P[i]);
+  for (let i = 0; i < s.P.length; i++) pMax = max(pMax, s.P[i]);
   const pMaxDisp = pMax / k; // density per display length unit
 
   // Layout (mm). Font size scales with the figure, within 2.1..3.2 mm (about 6..9 pt).
-  const fs = Math.min(3.2, Math.max(2.1, Math.min(W, H) * 0.034));
+  const fs = min(3.2, max(2.1, min(W, H) * 0.034));
   const x0 = 4.6 * fs;
   const x1 = W - 1.6 * fs;
   const y0 = H - 4.4 * fs; // axis baseline (P = 0)
   const y1 = 2.8 * fs; // top of the plot area
   const xAxis = axisTicks(0, rMax * k, x1 - x0, 4 * fs, 4);
   const xStep = xAxis.step;
-  const yStep = niceStep(pMaxDisp * 1.05, Math.max(2, Math.floor((y0 - y1) / (3.5 * fs))));
-  const yTop = Math.ceil((pMaxDisp * 1.05) / yStep) * yStep;
+  const yStep = niceStep(pMaxDisp * 1.05, max(2, floor((y0 - y1) / (3.5 * fs))));
+  const yTop = ceil((pMaxDisp * 1.05) / yStep) * yStep;
   const X = (rBohr: number) => x0 + ((rBohr * k) / (rMax * k)) * (x1 - x0);
   const Y = (pBohr: number) => y0 - (pBohr / k / yTop) * (y0 - y1);
 

@@ -1,6 +1,8 @@
 import type { Recipe, RecipeTerm } from '@psiform/contracts';
 import { prettyLabel } from '@psiform/orbitals';
 
+const { abs } = Math; // module constants: see DEVELOPERS.md (numeric kernels)
+
 /**
  * What changed between two versions of a figure, in words an editor reads ("key light 2.2 → 2.7; surface 90% →
  * 95%"). Both recipes are the parsed documents (defaults filled), so a field left out and its default compare equal.
@@ -85,7 +87,7 @@ function termWords(t: RecipeTerm): string {
 }
 
 function coeffWords(t: RecipeTerm): string {
-  return t.im === 0 ? num(t.re) : `${num(t.re)}${t.im < 0 ? '−' : '+'}${num(Math.abs(t.im))}i`;
+  return t.im === 0 ? num(t.re) : `${num(t.re)}${t.im < 0 ? '−' : '+'}${num(abs(t.im))}i`;
 }
 
 function surfaceWords(s: Recipe['surface']): string {

@@ -8,6 +8,8 @@ import { plainLabel, PSI_UNIT_TEXT, svgText, UNIT_TEXT } from './typeset';
 import { MODEL_NOTE_SHORT } from './radial-plot';
 import { phaseKeySvg, PHASE_KEY_MARKS } from './phase-key';
 
+const { PI, abs, cos, max, min, round } = Math; // module constants: see DEVELOPERS.md (numeric kernels)
+
 export interface SectionMapOptions {
   /** The state, or an already compiled one (compileState). */
   state: OrbitalState | CompiledState;
@@ -89,13 +91,13 @@ export function sectionMapSvg(opts: SectionMapOptions): string {
   if (opts.thresholds === undefined && (!Number.isInteger(levels) || levels < 1 || levels > 20)) throw new RangeError(`levels must be an integer in 1..20 (got ${String(levels)})`);
 
   let maxAbs = 0;
-  for (let i = 0; i < section.values.length; i++) maxAbs = Math.max(maxAbs, Math.abs(section.values[i]));
+  for (let i = 0; i < section.values.length; i++) maxAbs = max(maxAbs, abs(section.values[i]));
   // Reference scale for "this plane is nodal": the largest |psi| on the three coordinate planes through
   // the nucleus and on this plane, at a coarse 33 x 33. Round-off in an exactly nodal plane is ~1e-17 of it.
   let ref = maxAbs;
   for (const p of ['xy', 'xz', 'yz'] as const) {
     const v = sectionPlane(compiled, { plane: p, offset: 0, extent, n: 33 }).values;
-    for (let i = 0; i < v.length; i++) ref = Math.max(ref, Math.abs(v[i]));
+    for (let i = 0; i < v.length; i++) ref = max(ref, abs(v[i]));
   }
   const wholePlaneNodal = !(maxAbs > 1e-10 * ref);
 
@@ -104,7 +106,7 @@ export function sectionMapSvg(opts: SectionMapOptions): string {
   const cs = wholePlaneNodal ? null : sectionContours(section.values, n, thresholds, extent);
 
   // Layout: square plot centred, room for title above, ticks left and below, legend under the plot.
-  const fs = Math.min(3.2, Math.max(2.1, Math.min(W, H) * 0.034));
+  const fs = min(3.2, max(2.1, min(W, H) * 0.034));
   const left = 4.4 * fs;
   // A map coloured by arg ψ keeps a column right of the plot for its phase key: ring of radius keyR, marks beside it.
   const keyR = 1.8 * fs;
@@ -113,7 +115,7 @@ export function sectionMapSvg(opts: SectionMapOptions): string {
   const right = 1.2 * fs + keyColumn;
   const top = 2.8 * fs;
   const bottom = 8.6 * fs;
-  const side = Math.max(5, Math.min(W - left - right, H - top - bottom));
+  const side = max(5, min(W - left - right, H - top - bottom));
   const px0 = left + (W - left - right - side) / 2;
   const py0 = top;
   const mmPerBohr = side / (2 * extent);
@@ -158,7 +160,7 @@ export function sectionMapSvg(opts: SectionMapOptions): string {
   );
   const ringPath = (g: ContourPolygons) =>
     g.coordinates.map((poly) => poly.map((ring) => ring.map(([u, v], i) => `${i ? 'L' : 'M'}${f(U(u))} ${f(V(v))}`).join('') + 'Z').join('')).join('');
-  const opacity = Math.min(0.3, 0.85 / Math.max(1, thresholds.length));
+  const opacity = min(0.3, 0.85 / max(1, thresholds.length));
   if (cs && mode === 'argument') {
     parts.push(...phaseBandPaths(section.values, section.arg, n, extent, thresholds[0], maxAbs, wheelPalette, ringPath));
     thresholds.forEach((c, i) => {
@@ -257,7 +259,7 @@ export function sectionMapSvg(opts: SectionMapOptions): string {
 
 function absValues(v: Float64Array): Float64Array {
   const out = new Float64Array(v.length);
-  for (let i = 0; i < v.length; i++) out[i] = Math.abs(v[i]);
+  for (let i = 0; i < v.length; i++) out[i] = abs(v[i]);
   return out;
 }
 
@@ -270,20 +272,20 @@ function absValues(v: Float64Array): Float64Array {
  */
 function phaseBandPaths(values: Float64Array, arg: Float64Array | undefined, n: number, extent: number, floor: number, maxAbs: number, palette: PhasePalette, ringPath: (g: ContourPolygons) => string): string[] {
   const K = PHASE_MAP_BANDS;
-  const centres = Float32Array.from({ length: K }, (_, b) => (2 * Math.PI * b) / K);
+  const centres = Float32Array.from({ length: K }, (_, b) => (2 * PI * b) / K);
   const rgb = phaseColoursInto(palette, 'argument', 'complex', centres, new Float32Array(3 * K));
-  const hex = (b: number) => '#' + [0, 1, 2].map((k) => Math.round(Math.min(1, Math.max(0, rgb[3 * b + k])) * 255).toString(16).padStart(2, '0')).join('');
-  const cosHalf = Math.cos(Math.PI / K);
+  const hex = (b: number) => '#' + [0, 1, 2].map((k) => round(min(1, max(0, rgb[3 * b + k])) * 255).toString(16).padStart(2, '0')).join('');
+  const cosHalf = cos(PI / K);
   const field = new Float64Array(values.length);
   const out: string[] = [];
   for (let b = 0; b < K; b++) {
     const th = centres[b];
     let any = false;
     for (let i = 0; i < values.length; i++) {
-      const a = arg ? arg[i] : values[i] < 0 ? Math.PI : 0;
-      const inBand = Math.cos(a - th) - cosHalf;
-      const above = (Math.abs(values[i]) - floor) / maxAbs;
-      field[i] = Math.min(inBand, above);
+      const a = arg ? arg[i] : values[i] < 0 ? PI : 0;
+      const inBand = cos(a - th) - cosHalf;
+      const above = (abs(values[i]) - floor) / maxAbs;
+      field[i] = min(inBand, above);
       if (field[i] >= 0) any = true;
     }
     if (!any) continue;
@@ -305,7 +307,7 @@ function nodalLines(g: ContourPolygons, extent: number, h: number, U: (u: number
   const tol = h * 1e-6;
   // A segment with both ends on the border runs along it or cuts a corner cell; either way it lies half a
   // cell outside the sampled square and is not part of the nodal line.
-  const border = (p: number[]) => Math.abs(Math.abs(p[0]) - edge) < tol || Math.abs(Math.abs(p[1]) - edge) < tol;
+  const border = (p: number[]) => abs(abs(p[0]) - edge) < tol || abs(abs(p[1]) - edge) < tol;
   const onEdge = (a: number[], b: number[]) => border(a) && border(b);
   let d = '';
   for (const poly of g.coordinates) {

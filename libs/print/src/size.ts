@@ -1,13 +1,15 @@
 // Physical size <-> pixel arithmetic for print exports, and tiling for images larger than the GPU limit.
 import { DEFAULT_DELIVERY_PROFILE } from '@psiform/contracts';
 
+const { ceil, round } = Math; // module constants: see DEVELOPERS.md (numeric kernels)
+
 export const MM_PER_INCH = 25.4;
 
 /** Pixels for a physical length: round(mm / 25.4 * dpi) (1 inch = 25.4 mm exactly, by definition since 1959). */
 export function pixelsFor(lengthMm: number, dpi: number): number {
   assertPositive('lengthMm', lengthMm);
   assertPositive('dpi', dpi);
-  return Math.round((lengthMm / MM_PER_INCH) * dpi);
+  return round((lengthMm / MM_PER_INCH) * dpi);
 }
 
 export function inchesToMm(inches: number): number {
@@ -34,7 +36,7 @@ export function exportPixelSize(size: PrintSize): { width: number; height: numbe
  */
 export function pixelsPerMetre(dpi: number): number {
   assertPositive('dpi', dpi);
-  return Math.round(dpi / 0.0254);
+  return round(dpi / 0.0254);
 }
 
 /** Inverse of pixelsPerMetre, for reading files back (11811 ppm -> 299.9994 dpi). */
@@ -93,8 +95,8 @@ export function planTiles(width: number, height: number, maxTile = 8192): Tile[]
   for (const [name, v] of [['width', width], ['height', height], ['maxTile', maxTile]] as const) {
     if (!Number.isInteger(v) || v < 1) throw new RangeError(`${name} must be a positive integer (got ${String(v)})`);
   }
-  const cols = Math.ceil(width / maxTile);
-  const rows = Math.ceil(height / maxTile);
+  const cols = ceil(width / maxTile);
+  const rows = ceil(height / maxTile);
   const xs = split(width, cols);
   const ys = split(height, rows);
   const tiles: Tile[] = [];
@@ -113,7 +115,7 @@ export function planTiles(width: number, height: number, maxTile = 8192): Tile[]
 /** Boundaries 0 = b0 < b1 < ... < bk = total with parts differing by at most one. */
 function split(total: number, parts: number): number[] {
   const out = [0];
-  for (let i = 1; i <= parts; i++) out.push(Math.round((total * i) / parts));
+  for (let i = 1; i <= parts; i++) out.push(round((total * i) / parts));
   return out;
 }
 

@@ -1,5 +1,7 @@
 // Shared pieces of the SVG companions: escaping, number formatting, fonts, palette checks, ticks.
 
+const { ceil, floor, log10, max, pow, round } = Math; // module constants: see DEVELOPERS.md (numeric kernels)
+
 export interface FontBytes {
   /** Lato Regular as woff2 (e.g. read by the caller from @fontsource/lato). */
   regular?: Uint8Array;
@@ -41,7 +43,7 @@ export function esc(s: string): string {
 
 /** Coordinates in mm with 3 decimals (1 µm): plenty for print, keeps files small. */
 export function f(x: number): string {
-  const s = (Math.round(x * 1000) / 1000).toString();
+  const s = (round(x * 1000) / 1000).toString();
   return s === '-0' ? '0' : s;
 }
 
@@ -87,8 +89,8 @@ export function svgOpen(widthMm: number, heightMm: number, title: string, desc: 
 
 /** Round steps 1, 2, 5 x 10^k (common practice for axis ticks). */
 export function niceStep(span: number, targetCount: number): number {
-  const raw = span / Math.max(1, targetCount);
-  const p = Math.pow(10, Math.floor(Math.log10(raw)));
+  const raw = span / max(1, targetCount);
+  const p = pow(10, floor(log10(raw)));
   const m = raw / p;
   return (m <= 1 ? 1 : m <= 2 ? 2 : m <= 5 ? 5 : 10) * p;
 }
@@ -97,13 +99,13 @@ export function niceStep(span: number, targetCount: number): number {
 export function ticks(lo: number, hi: number, step: number): number[] {
   const out: number[] = [];
   const eps = step * 1e-9;
-  for (let k = Math.ceil((lo - eps) / step); k * step <= hi + eps; k++) out.push(k * step);
+  for (let k = ceil((lo - eps) / step); k * step <= hi + eps; k++) out.push(k * step);
   return out;
 }
 
 /** Label for a tick value with as many decimals as the step needs. */
 export function tickLabel(v: number, step: number): string {
-  const dec = Math.max(0, -Math.floor(Math.log10(step) + 1e-9));
+  const dec = max(0, -floor(log10(step) + 1e-9));
   const s = v.toFixed(dec);
   return (s.startsWith('-') && Number(s) === 0 ? s.slice(1) : s).replace('-', '−');
 }
@@ -113,11 +115,11 @@ export function tickLabel(v: number, step: number): string {
  * never shows 0 alone), at most about one per `minGap` of length when the axis is `length` long.
  */
 export function axisTicks(lo: number, hi: number, length: number, minGap: number, minCount = 5): { step: number; values: number[] } {
-  let step = niceStep(hi - lo, Math.max(2, Math.floor(length / minGap)));
+  let step = niceStep(hi - lo, max(2, floor(length / minGap)));
   let values = ticks(lo, hi, step);
   // Smaller round steps (÷2, ÷2.5, ÷2: 10 → 5 → 2 → 1) until there are enough ticks.
   for (let i = 0; values.length < minCount && i < 12; i++) {
-    const m = Math.round(step / 10 ** Math.floor(Math.log10(step) + 1e-9));
+    const m = round(step / 10 ** floor(log10(step) + 1e-9));
     step = m === 5 ? (step * 2) / 5 : step / 2;
     values = ticks(lo, hi, step);
   }

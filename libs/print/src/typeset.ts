@@ -5,6 +5,8 @@
 // (apps/web components/Typeset) and plain text for alt text, file names and README sheets (plainText).
 // The names themselves belong to @psiform/orbitals (prettyLabel); this file only decides how they are set.
 
+const { round } = Math; // module constants: see DEVELOPERS.md (numeric kernels)
+
 export type Script = 'base' | 'sub' | 'sup';
 
 export interface TextRun {
@@ -206,7 +208,7 @@ function escXml(s: string): string {
 }
 
 function num(x: number): string {
-  const v = Math.round(x * 1000) / 1000;
+  const v = round(x * 1000) / 1000;
   return Object.is(v, -0) ? '0' : String(v);
 }
 
