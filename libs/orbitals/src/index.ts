@@ -85,6 +85,7 @@ export {
   superlevelHalfWidth,
 } from './rays';
 export { type LevelSolver, type FractionEstimate, levelSolver } from './level';
+export { type DensityPeak, climbDensity, peakDensity } from './peak';
 export { type RadialLobe, type RadialLobes, type LobeSide, radialLobes, lobeInterval, lobePin, radialProbabilityAbove } from './radial-lobes';
 export { type SurfaceAnalysis, type SurfaceFeature, type SurfaceLayer, type TopologyCount, type FeatureKind, analyseSurface } from './features';
 export { type FieldBound, fieldBound } from './bounds';

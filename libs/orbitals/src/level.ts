@@ -13,6 +13,7 @@
 // probability beyond the radius the tables reach.
 
 import type { CompiledState } from './compile';
+import { peakDensity } from './peak';
 import { gaussLegendreRule } from './laguerre';
 import { solveDecreasingLevel } from './roots';
 import { lobeInterval, lobePin, radialLobes, radialProbabilityAbove, type RadialLobes } from './radial-lobes';
@@ -149,15 +150,29 @@ function separableSolver(compiled: CompiledState): LevelSolver {
   const MU_SAMPLES = 4000;
   const muGrid = new Float64Array(MU_SAMPLES + 1);
   const aGrid = new Float64Array(MU_SAMPLES + 1);
+  // The best direction met (a unit vector) and the angular step there, for the climb to the maximum below.
+  const best = new Float64Array(3);
+  let angularStep: number;
   if (axial) {
     for (let i = 0; i <= MU_SAMPLES; i++) {
       muGrid[i] = -1 + (2 * i) / MU_SAMPLES;
       aGrid[i] = Amu(muGrid[i]);
-      aMax = max(aMax, aGrid[i]);
+      if (aGrid[i] > aMax) {
+        aMax = aGrid[i];
+        best[0] = sqrt(max(0, 1 - muGrid[i] * muGrid[i]));
+        best[2] = muGrid[i];
+      }
     }
+    angularStep = 2 / MU_SAMPLES;
   } else {
     const r = get2d();
-    for (let i = 0; i < r.fine.D; i++) aMax = max(aMax, r.fine.A[i]);
+    for (let i = 0; i < r.fine.D; i++) {
+      if (r.fine.A[i] > aMax) {
+        aMax = r.fine.A[i];
+        best.set(r.fine.dirs.subarray(3 * i, 3 * i + 3));
+      }
+    }
+    angularStep = PI / nT;
   }
   const axialP = (t: number, points: number): number => {
     const cuts = [-1, 1];
@@ -237,7 +252,10 @@ function separableSolver(compiled: CompiledState): LevelSolver {
     return sum;
   };
 
-  const maxDensity = aMax * max(...peak2);
+  // The grids' best angle gives a lower bound of max |psi|² = max R² max |H|²: climbed from the largest radial peak
+  // in that direction to the local maximum (peak.ts).
+  const top = lobes.lobes.reduce((a, b) => (b.peak * b.peak > a.peak * a.peak ? b : a));
+  const maxDensity = peakDensity(compiled, [top.rPeak * best[0], top.rPeak * best[1], top.rPeak * best[2]], [angularStep * max(top.rPeak, 1e-3)], aMax * max(...peak2));
   return {
     method: axial ? 'axial' : 'separable',
     maxDensity,

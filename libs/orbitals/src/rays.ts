@@ -18,11 +18,15 @@
 import type { CompiledState } from './compile';
 import { gaussLegendreRule } from './laguerre';
 import { stateProbabilityInside } from './probability';
+import { peakDensity } from './peak';
 import { solveDecreasingLevel } from './roots';
 import { Bohr } from './units';
 
 const { PI, abs, cos, floor, max, min, round, sin, sqrt } = Math; // module constants: see DEVELOPERS.md (numeric kernels)
 
+
+/** Directions whose best node is climbed to a local maximum of |psi|² (peak.ts). */
+const CLIMB_STARTS = 8;
 
 export interface RayQuadratureOptions {
   /** Gauss–Legendre nodes in cos θ (even); default from the largest l. */
@@ -55,7 +59,7 @@ export interface RayQuadrature {
   readonly tail: number;
   /** Radii r_j = rMax (j / nRadial)², j = 0..nRadial. */
   readonly radii: Float64Array;
-  /** Largest |psi|² met on the nodes of the fine rule. */
+  /** Largest |psi|² over all space: the fine rule's best nodes, each climbed to its local maximum (peak.ts). */
   readonly maxDensity: number;
   readonly blocks: number;
   /** R_b(r_j) at b * (nRadial + 1) + j. */
@@ -151,11 +155,34 @@ export function rayQuadrature(compiled: CompiledState, opts: RayQuadratureOption
   const q: RayQuadrature = { nTheta, nPhi, nRadial, rMax: rMax as Bohr, tail: tailActual, radii, maxDensity: 0, blocks: B, rad, fine, coarse };
   const prof = new Float64Array(M);
   let maxDensity = 0;
+  // The best node of each of the CLIMB_STARTS best directions, climbed to its local maximum (peak.ts): the nodes'
+  // own maximum is only a lower bound.
+  const top = new Float64Array(CLIMB_STARTS).fill(-1);
+  const topAt = new Int32Array(2 * CLIMB_STARTS);
   for (let i = 0; i < fine.D; i++) {
     profile(q, fine, i, prof);
-    for (let j = 0; j < M; j++) if (prof[j] > maxDensity) maxDensity = prof[j];
+    let bj = 0;
+    for (let j = 0; j < M; j++) if (prof[j] > prof[bj]) bj = j;
+    if (prof[bj] > maxDensity) maxDensity = prof[bj];
+    let k = CLIMB_STARTS - 1;
+    if (!(prof[bj] > top[k])) continue;
+    for (; k > 0 && top[k - 1] < prof[bj]; k--) {
+      top[k] = top[k - 1];
+      topAt[2 * k] = topAt[2 * k - 2];
+      topAt[2 * k + 1] = topAt[2 * k - 1];
+    }
+    top[k] = prof[bj];
+    topAt[2 * k] = i;
+    topAt[2 * k + 1] = bj;
   }
-  return { ...q, maxDensity };
+  const starts: number[] = [];
+  const steps: number[] = [];
+  for (let k = 0; k < CLIMB_STARTS && top[k] > 0; k++) {
+    const i = topAt[2 * k], j = topAt[2 * k + 1];
+    for (let a = 0; a < 3; a++) starts.push(radii[j] * fine.dirs[3 * i + a]);
+    steps.push(max(radii[min(j + 1, M - 1)] - radii[j], rMax / (nRadial * nRadial)));
+  }
+  return { ...q, maxDensity: peakDensity(compiled, starts, steps, maxDensity) };
 }
 
 /** |psi|² along ray i of set s at every radial node, into out (length nRadial + 1). */

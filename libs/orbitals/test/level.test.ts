@@ -80,6 +80,32 @@ print(json.dumps({"allspace": 2*math.pi*integrate.quad(ray, -1, 1, limit=200, ep
     expect(Math.abs(ref.allspace - 0.9)).toBeLessThanOrEqual(L.error);
   });
 
+  it('largest |ψ|² over all space: closed forms for 2p_z (axial) and 3d_xy (2D rule) to 1e-12, SciPy along the 2sp³ axis to 1e-10', () => {
+    // 2p_z: ψ = r e^{-r/2} cos θ / (4 √(2π)), largest at r = 2 on the axis: (2 e^{-1} / (4 √(2π)))².
+    expect(Math.abs(levelSolver(compileState(parseOrbitalLabel('2pz').state)).maxDensity / (2 * Math.exp(-1) / (4 * Math.sqrt(2 * Math.PI))) ** 2 - 1)).toBeLessThan(1e-12);
+    // 3d_xy: R_32 = 4 / (81 √30) r² e^{-r/3} peaks at r = 6; Y_xy = √(15 / 16π) sin²θ sin 2φ peaks at θ = π/2, φ = π/4
+    // (real form, common practice), a direction the angular grid does not contain.
+    const r32 = (4 / (81 * Math.sqrt(30))) * 36 * Math.exp(-2);
+    expect(Math.abs(levelSolver(compileState(parseOrbitalLabel('3dxy').state)).maxDensity / (r32 * r32 * (15 / (16 * Math.PI))) - 1)).toBeLessThan(1e-12);
+    // 2sp³ (ray quadrature): |ψ| is linear in cos α at each r, so its largest value lies on the lobe axis (α = 0 or π).
+    const solver = levelSolver(compileState(parseOrbitalLabel('2sp3').state));
+    expect(solver.method).toBe('rays');
+    const ref = scipy(`
+import json, math
+from scipy import optimize
+R20 = lambda r: (1/math.sqrt(2))*(1 - r/2)*math.exp(-r/2)
+R21 = lambda r: (1/math.sqrt(24))*r*math.exp(-r/2)
+def psi(r, mu): return -0.5*R20(r)/math.sqrt(4*math.pi) + (math.sqrt(3)/2)*R21(r)*math.sqrt(3/(4*math.pi))*mu
+best = psi(0.0, 1.0)**2
+for mu in (1.0, -1.0):
+    for a, b in ((0.0, 2.0), (2.0, 6.0), (6.0, 40.0)):
+        res = optimize.minimize_scalar(lambda r: -psi(r, mu)**2, bounds=(a, b), method='bounded', options={'xatol': 1e-13})
+        best = max(best, -res.fun)
+print(json.dumps({"max": best}))
+`);
+    expect(Math.abs(solver.maxDensity / ref.max - 1)).toBeLessThan(1e-10);
+  });
+
   it('complex 2p(m=+1) and Z = 2: fraction at a level equals the separable closed-form integral (1D rule, error < 1e-6)', () => {
     // |ψ|² = R_21² (3/8pi) sin²θ; at Z = 2, ∫_0^R R_21² r² dr = P(5, ZR) (incomplete gamma, checked here by quadrature).
     const c = compileState(stateFromNlm(2, 1, 1, { complex: true, Z: 2 }));
