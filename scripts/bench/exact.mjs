@@ -104,7 +104,7 @@ export function exactSections(ctx) {
     if (ARGS.has('--warm')) await meshing.recipeToSurfaces(recipe(label('3dxy'), 256), { refine: identity, stats: false });
     const c0 = process.cpuUsage();
     const t0 = now();
-    const r = await meshing.recipeToSurfaces(recipe(label('3dz2'), 512), { refine: identity, stats: false });
+    const r = await meshing.recipeToSurfaces(recipe(label('3dz2'), 512), { refine: identity, stats: false, symmetry: !ARGS.has('--nosym') });
     const wall = now() - t0;
     const cu = process.cpuUsage(c0);
     console.log(JSON.stringify({ wall, cpu: (cu.user + cu.system) / 1000, sampling: r.sampling, triangles: r.surfaces.reduce((a, x) => a + x.mesh.indices.length / 3, 0) }));
@@ -128,10 +128,13 @@ export function exactSections(ctx) {
     // neither carries the heap of earlier sections; each times only its work (imports and module loading excluded).
     // Two of ours per peer run: a fresh process (cold: the JavaScript engine compiles our kernels during the run) and
     // a process that has made one other figure first (warm: as a worker does from its second job on).
-    const ours = (warm) => JSON.parse(spawnSync(process.execPath, [path.join(HERE, 'bench.mjs'), '--child-sparse-time', ...(warm ? ['--warm'] : [])], { encoding: 'utf8', maxBuffer: 1 << 22 }).stdout.trim().split('\n').pop());
+    const ours = (warm, nosym = false) => JSON.parse(spawnSync(process.execPath, [path.join(HERE, 'bench.mjs'), '--child-sparse-time', ...(warm ? ['--warm'] : []), ...(nosym ? ['--nosym'] : [])], { encoding: 'utf8', maxBuffer: 1 << 22 }).stdout.trim().split('\n').pop());
+    const plain = [];
     for (let i = 0; i < reps; i++) {
       const j = ours(false);
       const w = ours(true);
+      // For the record: the same without symmetry (every block bounded, sampled and meshed), fresh process.
+      plain.push(ours(false, true));
       last = j;
       const sk = withSk ? peerFieldMc(256, E, c) : null;
       if (sk?.error) console.log(`  peer failed: ${sk.error}`);
@@ -157,6 +160,10 @@ export function exactSections(ctx) {
       ['run', 'ours cold wall / CPU ms', 'ours warm wall / CPU ms', 'peer wall ms (field + mc)', 'peer CPU ms', 'cold ratio wall / CPU', 'warm ratio wall / CPU', 'points sampled', 'of dense 512³', 'triangles', 'peer triangles'],
       pairs.map((p, i) => [String(i + 1), `${fmt(p.wall, 0)} / ${fmt(p.cpu, 0)}`, `${fmt(p.warmWall, 0)} / ${fmt(p.warmCpu, 0)}`, p.sk && !p.sk.error ? `${fmt(p.skWall, 0)} (${fmt(p.sk.field_ms, 0)} + ${fmt(p.sk.mc_ms, 0)})` : '-', fmt(p.skCpu, 0), `${fmt(p.wall / p.skWall, 2)} / ${fmt(p.cpu / p.skCpu, 2)}`, `${fmt(p.warmWall / p.skWall, 2)} / ${fmt(p.warmCpu / p.skCpu, 2)}`, String(s.points), `${fmt((100 * s.points) / s.densePoints, 1)} %`, String(last.triangles), String(p.sk?.triangles ?? '-')]),
     );
+    // 3d_z² is even in x, y and z: ours bounds, samples and meshes the upper eighth and reflects it (sparse.ts).
+    const plainWall = med(pairs.map((p, i) => plain[i].wall / p.skWall));
+    const plainCpu = med(pairs.map((p, i) => plain[i].cpu / p.skCpu));
+    console.log(`  ours meshes the upper eighth (3d_z² is even in x, y and z) and reflects it; without symmetry (every block): ${plain.map((x) => `${fmt(x.wall, 0)} / ${fmt(x.cpu, 0)}`).join(', ')} ms wall / CPU, ratio ${fmt(plainWall, 2)} wall, ${fmt(plainCpu, 2)} CPU (same ${plain[0].triangles} triangles: ${plain[0].triangles === last.triangles ? 'yes' : 'NO'})`);
     console.log(`  median of pairs: ours / peer = ${fmt(ratio, 2)} wall, ${fmt(ratioCpu, 2)} CPU in a fresh process; ${fmt(results.sparseWarmRatio, 2)} wall, ${fmt(results.sparseWarmRatioCpu, 2)} CPU after one other figure; same field: largest relative difference of psi at the peer's probe points ${probeErr.toExponential(1)}; load after ${os.loadavg().map((x) => x.toFixed(2)).join(' ')}`);
     // The projection of every vertex onto the true surface (not in the ratio: the peer has no counterpart).
     const t1 = now();

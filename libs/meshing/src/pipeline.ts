@@ -130,6 +130,11 @@ export interface SurfaceHooks {
   output?: OutputScale;
   /** Limit on triangles per surface while refining (default 4 M); reaching it is reported as a warning. */
   maxTriangles?: number;
+  /**
+   * Mesh a real state's upper half (quarter, eighth) and reflect it where its terms share a parity per axis
+   * (sparse.ts, mirrorOf); default true. false meshes every block (the bench's and the tests' comparison).
+   */
+  symmetry?: boolean;
 }
 
 export type WarningCode = 'box-cuts-surface' | 'box-cuts-density' | 'feature-unresolved' | 'topology-mismatch' | 'topology-unverified' | 'measured-in-cube' | 'tolerance-unmet';
@@ -620,10 +625,10 @@ interface RegionMesh {
  * or a dense field read block by block with exact block ranges. One extractor means one vertex and triangle
  * order, so the same grid gives bit-identical meshes on every path (worker, CLI, preview).
  */
-function extractRegion(plan: SurfacePlan, region: GridRegion, field: BlockField, withStats: boolean): { surfaces: PhaseSurface[]; stats: Map<Phase, MeshStats>; info: SparseInfo } {
+function extractRegion(plan: SurfacePlan, region: GridRegion, field: BlockField, withStats: boolean, symmetry: boolean): { surfaces: PhaseSurface[]; stats: Map<Phase, MeshStats>; info: SparseInfo } {
   const info = {} as SparseInfo;
   const c = plan.level.isovalue;
-  const [plus, minus] = extractSparse(field, { n: region.n, extent: region.extent }, [{ level: c, inside: 'above' }, { level: -c, inside: 'below' }], {}, info);
+  const [plus, minus] = extractSparse(field, { n: region.n, extent: region.extent }, [{ level: c, inside: 'above' }, { level: -c, inside: 'below' }], { mirror: symmetry ? mirrorOf(plan) : [0, 0, 0] }, info);
   const surfaces: PhaseSurface[] = plan.compiled.isReal
     ? [
         { phase: '+', mesh: plus },
@@ -633,6 +638,30 @@ function extractRegion(plan: SurfacePlan, region: GridRegion, field: BlockField,
   const stats = new Map<Phase, MeshStats>();
   if (withStats) for (const s of surfaces) stats.set(s.phase, meshStats(s.mesh));
   return { surfaces, stats, info };
+}
+
+/**
+ * Mirror symmetry of a real state's field about the coordinate planes, per axis: psi is a sum of R(r) x^a y^b z^c
+ * terms, so when every term's power of x is even psi(-x, y, z) = psi (+1), when every one is odd it is -psi (-1),
+ * otherwise neither is known (0). Radial masks and cuts keep it (they depend on r only). Complex states are meshed
+ * from |psi| with signs from nodal cones, whose symmetry is not worked out here: none is used for them.
+ */
+function mirrorOf(plan: SurfacePlan): [number, number, number] {
+  if (!plan.compiled.isReal) return [0, 0, 0];
+  const out: [number, number, number] = [0, 0, 0];
+  for (let axis = 0; axis < 3; axis++) {
+    let parity = -1;
+    let same = true;
+    for (const block of plan.compiled.polynomials)
+      for (const m of block) {
+        if (m.re === 0) continue;
+        const p = (axis === 0 ? m.a : axis === 1 ? m.b : m.c) & 1;
+        if (parity === -1) parity = p;
+        else if (p !== parity) same = false;
+      }
+    out[axis] = !same || parity === -1 ? 0 : parity === 0 ? 1 : -1;
+  }
+  return out;
 }
 
 /**
@@ -660,7 +689,7 @@ async function meshRegion(plan: SurfacePlan, region: GridRegion, hooks: SurfaceH
   if (sparse) {
     const timer = { ms: 0 };
     const t0 = performance.now();
-    const { surfaces, stats, info } = extractRegion(plan, region, regionBlockField(plan, region, timer), withStats);
+    const { surfaces, stats, info } = extractRegion(plan, region, regionBlockField(plan, region, timer), withStats, hooks.symmetry !== false);
     const total = performance.now() - t0;
     return { region, surfaces, stats, field: null, points: info.pointsSampled, blocks: { active: info.blocksActive, total: info.blocksTotal }, ms: { sample: timer.ms, extract: total - timer.ms } };
   }
@@ -672,7 +701,7 @@ async function meshRegion(plan: SurfacePlan, region: GridRegion, hooks: SurfaceH
   const tSample = performance.now() - t0;
   t0 = performance.now();
   const f = extractionField(plan, region, field);
-  const { surfaces, stats } = extractRegion(plan, region, denseBlockField(f, region.n), withStats);
+  const { surfaces, stats } = extractRegion(plan, region, denseBlockField(f, region.n), withStats, hooks.symmetry !== false);
   const nb = ceil((region.n - 1) / 8) ** 3;
   return { region, surfaces, stats, field: f, points: N, blocks: { active: nb, total: nb }, ms: { sample: tSample, extract: performance.now() - t0 } };
 }

@@ -84,3 +84,154 @@ describe('coarse-to-fine extraction equals dense marching cubes on the same grid
     });
   }
 });
+
+describe('mirror symmetry: the upper blocks are meshed and the mesh reflected', () => {
+  // A field sampled from exactly symmetric lattice coordinates (X = (2i - (n - 1)) h / 2 is negated exactly by
+  // i -> n - 1 - i), so with and without symmetry the extractor sees the same values at every point, and the
+  // crossed lattice edges, hence the vertices, must be the same.
+  const latticeField = (n: number, E: number, f: (x: number, y: number, z: number) => number): BlockField => {
+    const h = (2 * E) / (n - 1);
+    const c = (i: number) => ((2 * i - (n - 1)) * h) / 2;
+    return {
+      // no bound (every block may be crossed): the test is about the reflection, not the culling
+      bound(_x0, _x1, _y0, _y1, _z0, _z1, out) {
+        out[0] = -Infinity;
+        out[1] = Infinity;
+      },
+      sample(start, size, out) {
+        for (let k = 0, i = 0; k < size[2]; k++)
+          for (let j = 0; j < size[1]; j++) for (let q = 0; q < size[0]; q++, i++) out[i] = f(c(start[0] + q), c(start[1] + j), c(start[2] + k));
+      },
+    };
+  };
+  // (falls below the levels well inside the box, so every surface is closed)
+  const g = (x: number, y: number, z: number) => Math.exp(-(x * x + y * y + z * z) / 2);
+  // even in x, y, z: two lobes along z and a belt (3d_z²-like); odd in z: two lobes of opposite sign
+  const even = (x: number, y: number, z: number) => (2 * z * z - x * x - y * y + 0.3 * x * x * y * y) * g(x, y, z);
+  const oddZ = (x: number, y: number, z: number) => z * (1 + 0.3 * x * x - 0.2 * y * y) * g(x, y, z);
+  const levels = [
+    { level: 0.35, inside: 'above' as const },
+    { level: -0.35, inside: 'below' as const },
+  ];
+
+  const reflected = (m: Mesh, a: number): Mesh => {
+    const p = Float32Array.from(m.positions);
+    for (let v = a; v < p.length; v += 3) p[v] = 0 - p[v]; // 0 - 0 is +0 (toEqual tells -0 from 0)
+    return { positions: p, normals: m.normals, indices: m.indices };
+  };
+
+  for (const [name, f, mirror] of [
+    ['even in x, y and z', even, [1, 1, 1]],
+    ['odd in z (the + surface reflects to the − one)', oddZ, [1, 1, -1]],
+  ] as const) {
+    for (const n of [33, 34, 35]) {
+      for (const B of [3, 5]) {
+        it(`${name}, n = ${n} (${n % 2 ? 'centre on a lattice plane' : 'centre mid-cell'}), ${B}³-cell blocks: same vertices, closed, a mirror image of itself, an eighth of the points`, () => {
+          const E = 4;
+          const field = latticeField(n, E, f);
+          const plain = {} as SparseInfo;
+          const sym = {} as SparseInfo;
+          const a = extractSparse(field, { n, extent: E }, levels, { blockCells: B }, plain);
+          const b = extractSparse(field, { n, extent: E }, levels, { blockCells: B, mirror }, sym);
+          for (let q = 0; q < 2; q++) {
+            // same crossed edges, same vertices (up to the rounding of a negated coordinate)
+            expect(sortedVertices(b[q])).toHaveLength(a[q].positions.length / 3);
+            const va = sortedVertices(a[q]);
+            const vb = sortedVertices(b[q]);
+            let worst = 0;
+            for (let i = 0; i < va.length; i++) for (let k = 0; k < 3; k++) worst = Math.max(worst, Math.abs(va[i][k] - vb[i][k]));
+            expect(worst).toBeLessThan(1e-5);
+            const sa = meshStats(a[q]);
+            const sb = meshStats(b[q]);
+            expect([sa.boundaryEdges, sa.watertight]).toEqual([0, true]);
+            expect([sb.components, sb.euler, sb.boundaryEdges, sb.watertight]).toEqual([sa.components, sa.euler, 0, true]);
+            // ambiguous cells may be split the other way round, so areas agree closely, not exactly
+            expect(Math.abs(sb.area - sa.area) / sa.area).toBeLessThan(2e-3);
+            expect(Math.abs(sb.volume - sa.volume) / Math.abs(sa.volume)).toBeLessThan(3e-3);
+          }
+          // a mirror image of itself: reflected along an even axis a level's vertices are its own, along an odd one
+          // they are the other level's
+          for (let ax = 0; ax < 3; ax++) {
+            const other = mirror[ax] < 0 ? 1 : 0;
+            expect(sortedVertices(reflected(b[0], ax))).toEqual(sortedVertices(b[other]));
+          }
+          expect(sym.pointsSampled).toBeLessThan(0.3 * plain.pointsSampled);
+        });
+      }
+    }
+  }
+
+  it('an ellipsoid (no ambiguous cells): area and volume equal to 1e-9 with and without symmetry, odd and even n', () => {
+    for (const n of [33, 34]) {
+      const E = 4;
+      const field = latticeField(n, E, (x, y, z) => 9 - (x * x + 2 * y * y + 0.5 * z * z));
+      const one = [{ level: 1, inside: 'above' as const }];
+      const [a] = extractSparse(field, { n, extent: E }, one, {});
+      const [b] = extractSparse(field, { n, extent: E }, one, { mirror: [1, 1, 1] });
+      const sa = meshStats(a);
+      const sb = meshStats(b);
+      expect([b.indices.length, sb.components, sb.euler, sb.watertight]).toEqual([a.indices.length, 1, 2, true]);
+      expect(Math.abs(sb.area - sa.area) / sa.area).toBeLessThan(1e-9);
+      expect(Math.abs(sb.volume - sa.volume) / sa.volume).toBeLessThan(1e-9);
+    }
+  });
+
+  it('not used where it cannot be exact: an even block size, or an odd axis without each level’s negative', () => {
+    const n = 33;
+    const E = 4;
+    const field = latticeField(n, E, oddZ);
+    const plain = extractSparse(field, { n, extent: E }, levels, { blockCells: 4 });
+    const evenBlocks = extractSparse(field, { n, extent: E }, levels, { blockCells: 4, mirror: [1, 1, -1] });
+    expect(evenBlocks.map((m) => [...m.indices])).toEqual(plain.map((m) => [...m.indices]));
+    const one = [{ level: 0.35, inside: 'above' as const }];
+    const lone = extractSparse(field, { n, extent: E }, one, { blockCells: 5 });
+    const loneSym = extractSparse(field, { n, extent: E }, one, { blockCells: 5, mirror: [1, 1, -1] });
+    expect([...loneSym[0].positions]).toEqual([...lone[0].positions]);
+    expect(() => extractSparse(field, { n, extent: E }, one, { mirror: [2, 0, 0] as never })).toThrow(/mirror/);
+  });
+});
+
+describe('real states are meshed by symmetry where their terms share a parity', () => {
+  for (const n of [48, 49]) {
+    it(`2p_z at grid ${n}: the − lobe is the + lobe reflected in z, vertex for vertex; both closed, one part each`, async () => {
+      const recipe = { content: parseOrbitalLabel('2pz').state, grid: { n, extent: 'auto' as const }, surface: { rule: 'enclosed' as const, fraction: 0.9 } };
+      const r = await recipeToSurfaces(recipe, { tolerance: Infinity, refine: (ctx) => ctx.surfaces });
+      const [plus, minus] = r.surfaces;
+      const flipped = Float32Array.from(plus.mesh.positions);
+      for (let v = 2; v < flipped.length; v += 3) flipped[v] = 0 - flipped[v];
+      expect(sortedVertices({ ...plus.mesh, positions: flipped })).toEqual(sortedVertices(minus.mesh));
+      for (const s of r.surfaces) expect([s.stats!.components, s.stats!.euler, s.stats!.watertight]).toEqual([1, 2, true]);
+      // an eighth of the grid's blocks at most are sampled directly (z: 2, x: 2, y: 2)
+      expect(r.sampling.blocksActive).toBeLessThan(r.sampling.blocksTotal / 8);
+    });
+  }
+});
+
+describe('recipeToSurfaces with and without symmetry: the same surface', () => {
+  // 3d_z²: even in x, y, z (even grid: middle cell layers); sp: even in x and y only; 4f_xyz: odd in all three;
+  // 2p_x on an odd grid: odd in x. Same crossed edges, so the same vertices; same parts; areas within 0.1 %
+  // (ambiguous cells may be split the other way round in the reflected parts).
+  for (const [label, n] of [['3dz2', 64], ['sp', 'auto'], ['4fxyz', 'auto'], ['2px', 49]] as const) {
+    it(`${label} at grid ${n}`, async () => {
+      const recipe = { content: parseOrbitalLabel(label).state, grid: { n, extent: 'auto' as const }, surface: { rule: 'enclosed' as const, fraction: 0.9 } };
+      const hooks = { tolerance: Infinity, refine: (ctx: { surfaces: import('../src/pipeline').PhaseSurface[] }) => ctx.surfaces };
+      const a = await recipeToSurfaces(recipe, { ...hooks, symmetry: false });
+      const b = await recipeToSurfaces(recipe, hooks);
+      expect(b.grid.regions).toEqual(a.grid.regions);
+      expect(b.sampling.points).toBeLessThan(a.sampling.points / 1.9);
+      for (let i = 0; i < a.surfaces.length; i++) {
+        const [ma, mb] = [a.surfaces[i].mesh, b.surfaces[i].mesh];
+        expect(mb.positions.length).toBe(ma.positions.length);
+        const va = sortedVertices(ma);
+        const vb = sortedVertices(mb);
+        let worst = 0;
+        for (let v = 0; v < va.length; v++) for (let k = 0; k < 3; k++) worst = Math.max(worst, Math.abs(va[v][k] - vb[v][k]));
+        expect(worst).toBeLessThan(1e-5);
+        const [sa, sb] = [a.surfaces[i].stats!, b.surfaces[i].stats!];
+        expect([sb.components, sb.euler, sb.watertight]).toEqual([sa.components, sa.euler, true]);
+        expect(Math.abs(sb.area - sa.area) / sa.area).toBeLessThan(1e-3);
+      }
+      expect(b.topology).toEqual(a.topology);
+    });
+  }
+});
