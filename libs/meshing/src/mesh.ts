@@ -24,46 +24,46 @@ export function triangleCount(mesh: Mesh): number {
   return mesh.indices.length / 3;
 }
 
-/** Growable Float32 buffer: doubles its capacity, so appends are amortised O(1). */
-export class GrowableFloat32 {
-  data: Float32Array;
+/** A growable typed array: doubles its capacity, so appends are amortised O(1); `data` is read into locals by kernels. */
+class Growable<T extends Float32Array | Uint32Array | Uint8Array> {
+  data: T;
   length = 0;
-  constructor(capacity = 1024) {
-    this.data = new Float32Array(max(4, capacity));
+  constructor(
+    private readonly make: (n: number) => T,
+    capacity: number,
+  ) {
+    this.data = make(max(4, capacity));
   }
   reserve(extra: number): void {
     const need = this.length + extra;
     if (need <= this.data.length) return;
     let cap = this.data.length * 2;
     while (cap < need) cap *= 2;
-    const next = new Float32Array(cap);
-    next.set(this.data.subarray(0, this.length));
+    const next = this.make(cap);
+    next.set(this.data.subarray(0, this.length) as never);
     this.data = next;
   }
   /** Exact-length copy (drops the spare capacity). */
-  toArray(): Float32Array {
-    return this.data.slice(0, this.length);
+  toArray(): T {
+    return this.data.slice(0, this.length) as T;
   }
 }
 
-/** Growable Uint32 buffer, as GrowableFloat32. */
-export class GrowableUint32 {
-  data: Uint32Array;
-  length = 0;
+export class GrowableFloat32 extends Growable<Float32Array> {
   constructor(capacity = 1024) {
-    this.data = new Uint32Array(max(4, capacity));
+    super((n) => new Float32Array(n), capacity);
   }
-  reserve(extra: number): void {
-    const need = this.length + extra;
-    if (need <= this.data.length) return;
-    let cap = this.data.length * 2;
-    while (cap < need) cap *= 2;
-    const next = new Uint32Array(cap);
-    next.set(this.data.subarray(0, this.length));
-    this.data = next;
+}
+
+export class GrowableUint32 extends Growable<Uint32Array> {
+  constructor(capacity = 1024) {
+    super((n) => new Uint32Array(n), capacity);
   }
-  toArray(): Uint32Array {
-    return this.data.slice(0, this.length);
+}
+
+export class GrowableUint8 extends Growable<Uint8Array> {
+  constructor(capacity = 1024) {
+    super((n) => new Uint8Array(n), capacity);
   }
 }
 

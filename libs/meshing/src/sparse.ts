@@ -19,7 +19,7 @@
 
 import { emitCellTriangles } from './marching-cubes';
 import { CDX, CDY, CDZ, EDGE_AXIS, EDGE_HI, EDGE_LO, EDGE_TABLE } from './mc-tables';
-import { GrowableFloat32, GrowableUint32, type Mesh } from './mesh';
+import { GrowableFloat32, GrowableUint32, GrowableUint8, type Mesh } from './mesh';
 import type { CubeGrid } from './orbital-surfaces';
 
 const { abs, ceil, fround, max, min } = Math; // module constants: see DEVELOPERS.md (numeric kernels)
@@ -132,21 +132,6 @@ interface LevelMesh {
    */
   flags: GrowableUint8 | null;
   straddle: number;
-}
-
-/** Growable Uint8 buffer (triangle flags), as GrowableFloat32. */
-class GrowableUint8 {
-  data = new Uint8Array(1024);
-  length = 0;
-  reserve(extra: number): void {
-    const need = this.length + extra;
-    if (need <= this.data.length) return;
-    let cap = this.data.length * 2;
-    while (cap < need) cap *= 2;
-    const next = new Uint8Array(cap);
-    next.set(this.data.subarray(0, this.length));
-    this.data = next;
-  }
 }
 
 /** Copies a sampled box (x fastest) into the ring's rows: points (i0 + i, j0 + j, k0 + k), i < ux, j < uy, k < uz. */

@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { compileState, parseOrbitalLabel, type OrbitalState } from '@psiform/orbitals';
 import { extractIsosurface } from '../src/marching-cubes';
 import { extractSparse, type BlockField, type SparseInfo } from '../src/sparse';
-import { recipeToSurfaces, type SampledField } from '../src/pipeline';
+import { recipeToSurfaces, type RefineContext, type SampledField } from '../src/pipeline';
 import { meshStats } from '../src/stats';
 import type { Mesh } from '../src/mesh';
 
@@ -214,7 +214,7 @@ describe('recipeToSurfaces with and without symmetry: the same surface', () => {
   for (const [label, n] of [['3dz2', 64], ['sp', 'auto'], ['4fxyz', 'auto'], ['2px', 49]] as const) {
     it(`${label} at grid ${n}`, async () => {
       const recipe = { content: parseOrbitalLabel(label).state, grid: { n, extent: 'auto' as const }, surface: { rule: 'enclosed' as const, fraction: 0.9 } };
-      const hooks = { tolerance: Infinity, refine: (ctx: { surfaces: import('../src/pipeline').PhaseSurface[] }) => ctx.surfaces };
+      const hooks = { tolerance: Infinity, refine: (ctx: RefineContext) => ctx.surfaces };
       const a = await recipeToSurfaces(recipe, { ...hooks, symmetry: false });
       const b = await recipeToSurfaces(recipe, hooks);
       expect(b.grid.regions).toEqual(a.grid.regions);
