@@ -41,7 +41,7 @@ import { extractNodalSurface } from './nodal';
 import { cubeGeometry, type CubeGrid, type Phase, type PhaseSurface } from './orbital-surfaces';
 import { meshStats, type MeshStats } from './stats';
 import { levelFunction, meshDeviation, projectMesh, refineMesh, type ProjectInfo, type RefineInfo } from './refine';
-import { extractSparse, type BlockField, type SparseInfo } from './sparse';
+import { denseBlockField, extractSparse, type BlockField, type SparseInfo } from './sparse';
 import { fileTolerance, printTolerance, type OutputScale } from './tolerance';
 
 const { ceil, cos, hypot, round, sqrt } = Math; // module constants: see DEVELOPERS.md (numeric kernels)
@@ -664,25 +664,6 @@ function mirrorOf(plan: SurfacePlan): [number, number, number] {
   return out;
 }
 
-/**
- * A dense sampled field as blocks: every block is offered (the bound is unbounded) and the extractor skips the
- * levels outside each block's own sampled range, which is exact; values are read from the array.
- */
-function denseBlockField(f: Float32Array, n: number): BlockField {
-  return {
-    bound(_x0, _x1, _y0, _y1, _z0, _z1, out) {
-      out[0] = -Infinity;
-      out[1] = Infinity;
-    },
-    sample(start, size, out) {
-      for (let k = 0, i = 0; k < size[2]; k++)
-        for (let j = 0; j < size[1]; j++) {
-          const row = start[0] + n * (start[1] + j + n * (start[2] + k));
-          for (let q = 0; q < size[0]; q++, i++) out[i] = f[row + q];
-        }
-    },
-  };
-}
 
 async function meshRegion(plan: SurfacePlan, region: GridRegion, hooks: SurfaceHooks, withStats: boolean, sparse: boolean): Promise<RegionMesh> {
   const grid: CubeGrid = { n: region.n, extent: region.extent };

@@ -39,6 +39,26 @@ export interface BlockField {
 }
 
 /**
+ * A dense sampled field as blocks: every block is offered (the bound is unbounded) and the extractor skips the
+ * levels outside each block's own sampled range, which is exact; values are read from the array.
+ */
+export function denseBlockField(f: Float32Array, n: number): BlockField {
+  return {
+    bound(_x0, _x1, _y0, _y1, _z0, _z1, out) {
+      out[0] = -Infinity;
+      out[1] = Infinity;
+    },
+    sample(start, size, out) {
+      for (let k = 0, i = 0; k < size[2]; k++)
+        for (let j = 0; j < size[1]; j++) {
+          const row = start[0] + n * (start[1] + j + n * (start[2] + k));
+          for (let q = 0; q < size[0]; q++, i++) out[i] = f[row + q];
+        }
+    },
+  };
+}
+
+/**
  * Cube case (Bourke's corner order, bit c: corner c inside) of the 8 corner bits in lattice order (bit x + 2 y + 4 z
  * for the corner at offset (x, y, z)): the extractor reads corner bits from packed rows in lattice order.
  */

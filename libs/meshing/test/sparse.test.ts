@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { compileState, parseOrbitalLabel, type OrbitalState } from '@psiform/orbitals';
 import { extractIsosurface } from '../src/marching-cubes';
-import { extractSparse, type BlockField, type SparseInfo } from '../src/sparse';
+import { denseBlockField, extractSparse, type BlockField, type SparseInfo } from '../src/sparse';
 import { recipeToSurfaces, type RefineContext, type SampledField } from '../src/pipeline';
 import { meshStats } from '../src/stats';
 import type { Mesh } from '../src/mesh';
@@ -92,19 +92,11 @@ describe('mirror symmetry: the upper blocks are meshed and the mesh reflected', 
   const latticeField = (n: number, E: number, f: (x: number, y: number, z: number) => number): BlockField => {
     const h = (2 * E) / (n - 1);
     const c = (i: number) => ((2 * i - (n - 1)) * h) / 2;
-    return {
-      // no bound (every block may be crossed): the test is about the reflection, not the culling
-      bound(_x0, _x1, _y0, _y1, _z0, _z1, out) {
-        out[0] = -Infinity;
-        out[1] = Infinity;
-      },
-      sample(start, size, out) {
-        for (let k = 0, i = 0; k < size[2]; k++)
-          for (let j = 0; j < size[1]; j++) for (let q = 0; q < size[0]; q++, i++) out[i] = f(c(start[0] + q), c(start[1] + j), c(start[2] + k));
-      },
-    };
+    const dense = new Float32Array(n ** 3);
+    for (let k = 0, i = 0; k < n; k++) for (let j = 0; j < n; j++) for (let q = 0; q < n; q++, i++) dense[i] = f(c(q), c(j), c(k));
+    // no bound (every block may be crossed): the test is about the reflection, not the culling
+    return denseBlockField(dense, n);
   };
-  // (falls below the levels well inside the box, so every surface is closed)
   const g = (x: number, y: number, z: number) => Math.exp(-(x * x + y * y + z * z) / 2);
   // even in x, y, z: two lobes along z and a belt (3d_z²-like); odd in z: two lobes of opposite sign
   const even = (x: number, y: number, z: number) => (2 * z * z - x * x - y * y + 0.3 * x * x * y * y) * g(x, y, z);
