@@ -117,8 +117,6 @@ interface Ring {
   h: number;
   /** Values at (i, j, k): vals[(j R + k mod R) n + i]. */
   vals: Float32Array;
-  /** Offsets of the 8 corners of cell (0, 0, k) per plane slot of k (Bourke's corner order, mc-tables.ts). */
-  cornerTab: Int32Array;
   /**
    * Per plane slot of a cell's k: offset of each of its 12 edges in a level's ids from the cell's 3 (j n + i), and
    * the edge's plane slot. ids[3 ((p mod R) n + j) n + 3 i + a] = id + 1 of the vertex on the lattice edge from
@@ -135,6 +133,8 @@ interface Ring {
   /** Inside bits of the block's rows of points (bit i: point i of the row is strictly inside). */
   rowBits: Int32Array;
   ev: Uint32Array;
+  /** With mirror symmetry on an even grid, the middle cell layer's index (its cells are their own mirrors); else -1. */
+  straddle: number;
 }
 
 /** One level's mesh under construction and its edge-vertex ids. */
@@ -148,10 +148,9 @@ interface LevelMesh {
   idx: GrowableUint32;
   /**
    * With mirror symmetry: per triangle, bit a set when its cell is its own mirror along axis a (the middle cell
-   * layer of an even grid, index `straddle`); null otherwise.
+   * layer of an even grid, Ring.straddle); null otherwise.
    */
   flags: GrowableUint8 | null;
-  straddle: number;
 }
 
 /** Copies a sampled box (x fastest) into the ring's rows: points (i0 + i, j0 + j, k0 + k), i < ux, j < uy, k < uz. */
@@ -172,7 +171,7 @@ function intoRing(g: Ring, box: Float32Array, i0: number, j0: number, k0: number
  * took over 100 ms to optimise, three times, measured here).
  */
 function meshBlock(g: Ring, o: LevelMesh, i0: number, j0: number, k0: number, sx: number, sy: number, sz: number, ci0: number, cj0: number, ck0: number): void {
-  const { n, S, R, nR, extent, h, vals, edgeTab, edgePlane, edgeLoOff, edgeHiOff, base, rowBits, ev } = g;
+  const { n, S, R, nR, extent, h, vals, edgeTab, edgePlane, edgeLoOff, edgeHiOff, base, rowBits, ev, straddle: st } = g;
   // Tables in locals: a module import is a property load at every use in the compiled output.
   const natToCase = NAT_TO_CASE, edgeTable = EDGE_TABLE;
   const eox = EOX, eoy = EOY, eoz = EOZ, eax = EAX, eay = EAY, eaz = EAZ;
@@ -212,7 +211,6 @@ function meshBlock(g: Ring, o: LevelMesh, i0: number, j0: number, k0: number, sx
     fl.reserve(5 * nc);
     flags = fl.data;
   }
-  const st = o.straddle;
   // Cells from (ci0, cj0, ck0) of the block on: with mirror symmetry the lower half of a middle block is not meshed.
   for (let k = ck0; k < sz - 1; k++) {
     const gk = k0 + k;
@@ -357,7 +355,6 @@ export function extractSparse(field: BlockField, grid: CubeGrid, levels: readonl
   };
   const lx = symX ? lo : 0, ly = symY ? lo : 0, lz = symZ ? lo : 0;
   visit(lx, nb, ly, nb, lz, nb);
-
   stats.blocksActive = nActive;
 
   // 2. Sample and mesh the active blocks in z, y, x order (the output does not depend on the octree's order).
@@ -393,9 +390,9 @@ export function extractSparse(field: BlockField, grid: CubeGrid, levels: readonl
   // about 2 B² edges, each shared by about 4 cells, and many blocks are active only because the bound is not tight):
   // buffers then grow once or twice at most, and no fresh memory is touched in vain (page faults cost here).
   const guess = max(1024, ceil((nActive * B * 2.5) / L));
-  const ring: Ring = { n, S, R, nR, extent, h, vals, cornerTab, edgeTab, edgePlane, edgeLoOff, edgeHiOff, base, rowBits: new Int32Array(S * S), ev: new Uint32Array(12) };
   // The middle cell layer of an even grid (its own mirror); -1 when the centre is a lattice plane (odd n).
   const straddle = sym && n % 2 === 0 ? n / 2 - 1 : -1;
+  const ring: Ring = { n, S, R, nR, extent, h, vals, edgeTab, edgePlane, edgeLoOff, edgeHiOff, base, rowBits: new Int32Array(S * S), ev: new Uint32Array(12), straddle };
   const lv: LevelMesh[] = levels.map((l, q) => ({
     q,
     level: l.level,
@@ -404,7 +401,6 @@ export function extractSparse(field: BlockField, grid: CubeGrid, levels: readonl
     pos: new GrowableFloat32(guess * 3),
     idx: new GrowableUint32(guess * 6),
     flags: sym ? new GrowableUint8() : null,
-    straddle,
   }));
   const start: [number, number, number] = [0, 0, 0];
   const size: [number, number, number] = [0, 0, 0];
@@ -447,7 +443,7 @@ export function extractSparse(field: BlockField, grid: CubeGrid, levels: readonl
           stats.pointsSampled += ux * uy * uz;
           intoRing(ring, box, i0 + dx, j0 + dy, k0 + dz, ux, uy, uz);
         }
-        if (straddle >= 0) reflectMiddle(ring, mirror, symX && bx === lo, symY && by === lo, symZ && bz === lo, straddle, i0, j0, k0, sx, sy, sz);
+        if (straddle >= 0) reflectMiddle(ring, mirror, symX && bx === lo, symY && by === lo, symZ && bz === lo, i0, j0, k0, sx, sy, sz);
         const ci0 = cellStart(symX, bx), cj0 = cellStart(symY, by), ck0 = cellStart(symZ, bz);
         for (let q = 0; q < L; q++) if ((mask & (1 << q)) !== 0) meshBlock(ring, lv[q], i0, j0, k0, sx, sy, sz, ci0, cj0, ck0);
       }
@@ -482,13 +478,13 @@ export function extractSparse(field: BlockField, grid: CubeGrid, levels: readonl
 }
 
 /**
- * The lower plane of the middle layer (point index `mid`) takes the reflected values of its upper plane (mid + 1)
+ * The lower plane of the middle layer (point index mid = Ring.straddle) takes the reflected values of its upper plane (mid + 1)
  * along each axis whose middle block this is (x, then y, then z, so a point reflected along several axes reads an
  * already reflected value), negated across an antisymmetric axis: the layer's cells are then exact mirrors of
  * themselves, and the seam's crossings match on both sides.
  */
-function reflectMiddle(g: Ring, mirror: readonly number[], mx: boolean, my: boolean, mz: boolean, mid: number, i0: number, j0: number, k0: number, sx: number, sy: number, sz: number): void {
-  const { n, R, nR, vals } = g;
+function reflectMiddle(g: Ring, mirror: readonly number[], mx: boolean, my: boolean, mz: boolean, i0: number, j0: number, k0: number, sx: number, sy: number, sz: number): void {
+  const { n, R, nR, vals, straddle: mid } = g;
   if (mx) {
     const sg = mirror[0] < 0 ? -1 : 1;
     for (let k = 0; k < sz; k++) {
